@@ -1,0 +1,33 @@
+import { type Complex } from './complex';
+import { identity, layerMatrix, type Mat2, multiply } from './matrix';
+import { tilt, type Polarization } from './tilt';
+
+/** One layer with its complex index at the wavelength in question. */
+export interface LayerAt {
+  n: Complex;
+  thicknessNm: number;
+}
+
+/**
+ * The characteristic matrix of an assembly, M = M_top · … · M_1, for layers listed in
+ * deposition order (layers[0] touches the substrate, the last faces the ambient).
+ */
+export function assemblyMatrix(
+  layers: readonly LayerAt[],
+  wavelengthNm: number,
+  n0SinTheta0: number,
+  pol: Polarization,
+): Mat2 {
+  let m = identity();
+  let tmp = new Float64Array(8);
+  const lm = new Float64Array(8);
+  for (let j = layers.length - 1; j >= 0; j--) {
+    const layer = layers[j];
+    const { nCos, eta } = tilt(layer.n, n0SinTheta0, pol);
+    layerMatrix(lm, nCos, eta, layer.thicknessNm, wavelengthNm);
+    // m accumulates from the ambient side downwards: m ← m · M_j
+    multiply(tmp, m, lm);
+    [m, tmp] = [tmp, m];
+  }
+  return m;
+}
