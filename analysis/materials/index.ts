@@ -1,0 +1,4 @@
+export * from './schema';
+export * from './indexAt';
+export * from './library';
+export * from './resolveMaterial';
