@@ -1,0 +1,208 @@
+import fftjs from 'fft-js';
+import { median } from './robustStats';
+
+const { fft, util } = fftjs;
+
+export interface FringeSpectrumOptions {
+  /** Largest FFT length (power of two); longer series are block-averaged first. @default 8192 */
+  maxFftSize?: number;
+  /** Zero-padding: the FFT length is the power of two ≥ padFactor × samples. @default 2 */
+  padFactor?: number;
+  /** Peaks below this are ignored (less than ~1.5 cycles in the record). @default 1.5 / duration */
+  minFrequencyHz?: number;
+  /** Peaks listed down to this fraction of the dominant amplitude. @default 0.05 */
+  peakThreshold?: number;
+  /** Most peaks listed. @default 8 */
+  maxPeaks?: number;
+  /** Disturbances are sought above this multiple of the fringe frequency. @default 3 */
+  disturbanceMinRatio?: number;
+  /** A disturbance must stand this many times above the median spectral amplitude. @default 10 */
+  disturbanceSnr?: number;
+  /** Mains frequencies whose aliases are recognised. @default [50, 60] */
+  mainsHz?: number[];
+}
+
+export interface SpectrumPeak {
+  frequencyHz: number;
+  /** Amplitude of the equivalent sinusoid, in signal units. */
+  amplitude: number;
+  /** amplitude / dominant amplitude. */
+  relative: number;
+}
+
+export interface Disturbance {
+  frequencyHz: number;
+  amplitude: number;
+  note: string;
+}
+
+export interface FringeSpectrum {
+  /** NaN when no peak stands above minFrequencyHz (e.g. a layer of under one fringe). */
+  dominantFrequencyHz: number;
+  dominantPeriodS: number;
+  peaks: SpectrumPeak[];
+  disturbances: Disturbance[];
+  /** Sample rate of the series that was transformed (after any resampling and averaging). */
+  sampleRateHz: number;
+  /** Highest frequency examined (half of sampleRateHz). */
+  nyquistHz: number;
+  fftSize: number;
+  binHz: number;
+  /** Samples averaged into one before the transform. */
+  blockSize: number;
+  /** True when the input was not uniformly sampled and was interpolated onto a uniform grid. */
+  resampled: boolean;
+}
+
+/**
+ * Amplitude spectrum of a (segment of a) monitor trace: uniform resampling if needed, block
+ * averaging to fit maxFftSize, linear detrend, Hann window, zero padding, fft-js, and peaks
+ * refined by a parabola through the log-amplitudes of the three top bins (common practice).
+ * The dominant peak is the fringe frequency; narrow peaks well above it are reported as
+ * periodic disturbances (substrate rotation, aliased mains).
+ */
+export function fringeSpectrum(timeS: ArrayLike<number>, y: ArrayLike<number>, options: FringeSpectrumOptions = {}): FringeSpectrum {
+  const n = y.length;
+  if (timeS.length !== n) throw new RangeError(`fringeSpectrum: timeS has ${timeS.length} samples but y has ${n}`);
+  if (n < 8) throw new RangeError(`fringeSpectrum: needs at least 8 samples, got ${n}`);
+  for (let i = 0; i < n; i++) {
+    if (!Number.isFinite(y[i]) || !Number.isFinite(timeS[i])) throw new RangeError(`fringeSpectrum: sample ${i} is not finite`);
+    if (i > 0 && !(timeS[i] > timeS[i - 1])) throw new RangeError(`fringeSpectrum: timeS is not strictly increasing at sample ${i}`);
+  }
+  const maxFft = options.maxFftSize ?? 8192;
+  const pad = options.padFactor ?? 2;
+  if (!(maxFft >= 16) || (maxFft & (maxFft - 1)) !== 0) throw new RangeError(`fringeSpectrum: maxFftSize must be a power of two ≥ 16, got ${maxFft}`);
+  if (!(pad >= 1)) throw new RangeError(`fringeSpectrum: padFactor must be ≥ 1, got ${pad}`);
+
+  const { values, dtS, resampled } = uniform(timeS, y);
+  const block = Math.max(1, Math.ceil((values.length * pad) / maxFft));
+  const m = Math.floor(values.length / block);
+  const x = new Float64Array(m);
+  for (let i = 0; i < m; i++) {
+    let s = 0;
+    for (let k = 0; k < block; k++) s += values[i * block + k];
+    x[i] = s / block;
+  }
+  detrend(x);
+  let wSum = 0;
+  const size = Math.min(maxFft, nextPow2(Math.ceil(m * pad)));
+  const input = new Array<number>(size).fill(0);
+  for (let i = 0; i < m; i++) {
+    const w = 0.5 * (1 - Math.cos((2 * Math.PI * i) / (m - 1)));
+    wSum += w;
+    input[i] = x[i] * w;
+  }
+  const mag = util.fftMag(fft(input));
+  const sampleRateHz = 1 / (dtS * block);
+  const binHz = sampleRateHz / size;
+  const amp = mag.map((v) => (2 * v) / wSum);
+  const durationS = m * dtS * block;
+  const kMin = Math.max(1, Math.ceil((options.minFrequencyHz ?? 1.5 / durationS) / binHz));
+
+  const found: (SpectrumPeak & { widthBins: number })[] = [];
+  for (let k = Math.max(kMin, 1); k < amp.length - 1; k++) {
+    if (!(amp[k] > amp[k + 1] && amp[k] >= amp[k - 1]) || amp[k] === 0) continue;
+    const a = Math.log(amp[k - 1] || Number.MIN_VALUE);
+    const b = Math.log(amp[k]);
+    const c = Math.log(amp[k + 1] || Number.MIN_VALUE);
+    const den = a - 2 * b + c;
+    const d = den < 0 ? Math.max(-0.5, Math.min(0.5, (0.5 * (a - c)) / den)) : 0;
+    found.push({ frequencyHz: (k + d) * binHz, amplitude: Math.exp(b - 0.25 * (a - c) * d), relative: 0, widthBins: halfWidth(amp, k) });
+  }
+  found.sort((p, q) => q.amplitude - p.amplitude);
+  const dom = found[0];
+  const empty = { sampleRateHz, nyquistHz: sampleRateHz / 2, fftSize: size, binHz, blockSize: block, resampled };
+  if (!dom) return { dominantFrequencyHz: NaN, dominantPeriodS: NaN, peaks: [], disturbances: [], ...empty };
+  for (const p of found) p.relative = p.amplitude / dom.amplitude;
+
+  const threshold = options.peakThreshold ?? 0.05;
+  const peaks = found
+    .filter((p) => p.relative >= threshold)
+    .slice(0, options.maxPeaks ?? 8)
+    .map(({ frequencyHz, amplitude, relative }) => ({ frequencyHz, amplitude, relative }));
+
+  const floor = median(amp.slice(kMin));
+  const snr = options.disturbanceSnr ?? 10;
+  const ratio = options.disturbanceMinRatio ?? 3;
+  const narrowBins = 3 * (size / m);
+  const rawRateHz = 1 / dtS;
+  const disturbances = found
+    .filter((p) => p.frequencyHz > ratio * dom.frequencyHz && p.amplitude >= snr * floor && p.widthBins <= narrowBins)
+    .filter((p) => !isHarmonic(p.frequencyHz, dom.frequencyHz, binHz))
+    .map((p) => ({ frequencyHz: p.frequencyHz, amplitude: p.amplitude, note: describe(p, dom, rawRateHz, binHz, options.mainsHz ?? [50, 60]) }));
+
+  return { dominantFrequencyHz: dom.frequencyHz, dominantPeriodS: 1 / dom.frequencyHz, peaks, disturbances, ...empty };
+}
+
+function uniform(timeS: ArrayLike<number>, y: ArrayLike<number>): { values: Float64Array; dtS: number; resampled: boolean } {
+  const n = y.length;
+  const steps = new Float64Array(n - 1);
+  for (let i = 1; i < n; i++) steps[i - 1] = timeS[i] - timeS[i - 1];
+  const dtS = median(steps);
+  let even = true;
+  for (let i = 0; i < steps.length && even; i++) even = Math.abs(steps[i] - dtS) <= 0.01 * dtS;
+  if (even) return { values: Float64Array.from(y), dtS, resampled: false };
+  const t0 = timeS[0];
+  const count = Math.floor((timeS[n - 1] - t0) / dtS) + 1;
+  const values = new Float64Array(count);
+  let j = 0;
+  for (let i = 0; i < count; i++) {
+    const t = t0 + i * dtS;
+    while (j < n - 2 && timeS[j + 1] < t) j++;
+    const f = (t - timeS[j]) / (timeS[j + 1] - timeS[j]);
+    values[i] = y[j] + Math.min(1, Math.max(0, f)) * (y[j + 1] - y[j]);
+  }
+  return { values, dtS, resampled: true };
+}
+
+function detrend(x: Float64Array): void {
+  const m = x.length;
+  const mid = (m - 1) / 2;
+  let sx = 0;
+  let sxx = 0;
+  let sy = 0;
+  for (let i = 0; i < m; i++) {
+    sy += x[i];
+    sx += (i - mid) * x[i];
+    sxx += (i - mid) ** 2;
+  }
+  const mean = sy / m;
+  const slope = sxx > 0 ? sx / sxx : 0;
+  for (let i = 0; i < m; i++) x[i] -= mean + slope * (i - mid);
+}
+
+function nextPow2(v: number): number {
+  let p = 16;
+  while (p < v) p *= 2;
+  return p;
+}
+
+/** Full width, in bins, where the peak stays above half its amplitude. */
+function halfWidth(amp: number[], k: number): number {
+  const half = amp[k] / 2;
+  let a = k;
+  while (a > 0 && amp[a - 1] > half) a--;
+  let b = k;
+  while (b < amp.length - 1 && amp[b + 1] > half) b++;
+  return b - a + 1;
+}
+
+function isHarmonic(f: number, f0: number, binHz: number): boolean {
+  const order = Math.round(f / f0);
+  return order >= 2 && Math.abs(f - order * f0) <= Math.max(3 * binHz, 0.05 * order * f0);
+}
+
+function describe(p: SpectrumPeak, dom: SpectrumPeak, rawRateHz: number, binHz: number, mainsHz: number[]): string {
+  const pct = ((100 * p.amplitude) / dom.amplitude).toPrecision(2);
+  const base = `periodic disturbance at ${p.frequencyHz.toPrecision(4)} Hz (period ${(1 / p.frequencyHz).toPrecision(4)} s), ${pct} % of the fringe amplitude`;
+  for (const mains of mainsHz) {
+    for (let harmonic = 1; harmonic <= 3; harmonic++) {
+      const f = harmonic * mains;
+      const alias = Math.abs(f - rawRateHz * Math.round(f / rawRateHz));
+      if (alias > 0 && Math.abs(alias - p.frequencyHz) <= 2 * binHz) {
+        return `${base}: matches ${f} Hz mains${harmonic > 1 ? ` (harmonic ${harmonic} of ${mains} Hz)` : ''} aliased by sampling at ${Number(rawRateHz.toPrecision(4))} Hz`;
+      }
+    }
+  }
+  return `${base}: e.g. substrate rotation or a vibration`;
+}

@@ -1,0 +1,10 @@
+export { readTrace, readTraceText } from './readTrace';
+export { TraceFormatError } from './TraceFormatError';
+export { segmentTrace, type SegmentOptions } from './segment';
+export { autoSegment, type AutoSegmentOptions } from './autoSegment';
+export { savitzkyGolay, savitzkyGolayCoefficients, type SavitzkyGolayOptions } from './savitzkyGolay';
+export { findTurningPoints, type TurningPoint, type TurningPointOptions } from './turningPoints';
+export { fringeSpectrum, type FringeSpectrum, type FringeSpectrumOptions, type SpectrumPeak, type Disturbance } from './fringeSpectrum';
+export { decimateMinMax } from './decimate';
+export { median, noiseSigma } from './robustStats';
+export type { ReadTraceOptions, TraceData, TraceWarning, Segment, Segmentation } from './types';

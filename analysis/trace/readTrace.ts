@@ -1,0 +1,131 @@
+import { TraceFormatError } from './TraceFormatError';
+import { TraceParser } from './traceParser';
+import { traceWarnings } from './traceWarnings';
+import type { ReadTraceOptions, TraceData } from './types';
+
+const MIB = 1024 * 1024;
+
+function resolve(options: ReadTraceOptions) {
+  return {
+    fileName: options.fileName,
+    maxBytes: options.maxBytes ?? 200 * MIB,
+    maxRows: options.maxRows ?? 5_000_000,
+    layerCount: options.layerCount,
+    gapFactor: options.gapFactor ?? 5,
+    minLayerSamples: options.minLayerSamples ?? 20,
+    maxLineLength: options.maxLineLength ?? MIB,
+  };
+}
+
+/**
+ * Reads a trace CSV (shared/FORMATS.md) from a stream of chunks, decoding UTF-8 incrementally
+ * and storing the columns in typed arrays, so a large file never becomes one string. Chunks
+ * should be all bytes or all strings (a string chunk between byte chunks could split a
+ * multi-byte character). Throws TraceFormatError naming the line and column of the first fault.
+ */
+export async function readTrace(
+  chunks: AsyncIterable<string | Uint8Array> | Iterable<string | Uint8Array>,
+  options: ReadTraceOptions = {},
+): Promise<TraceData> {
+  const o = resolve(options);
+  const parser = new TraceParser({ fileName: o.fileName, maxRows: o.maxRows, layerCount: o.layerCount });
+  const decoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: false });
+  let bytes = 0;
+  let lineNo = 0;
+  let carry = '';
+  let first = true;
+
+  const feed = (text: string): void => {
+    if (first && text.length > 0) {
+      first = false;
+      if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+    }
+    let start = 0;
+    let nl = text.indexOf('\n');
+    if (carry.length > 0) {
+      if (nl < 0) {
+        carry += text;
+        if (carry.length > o.maxLineLength) tooLong(lineNo + 1);
+        return;
+      }
+      parser.line(carry + text.substring(0, nl), ++lineNo);
+      carry = '';
+      start = nl + 1;
+      nl = text.indexOf('\n', start);
+    }
+    while (nl >= 0) {
+      parser.line(text.substring(start, nl), ++lineNo);
+      start = nl + 1;
+      nl = text.indexOf('\n', start);
+    }
+    carry = text.substring(start);
+    if (carry.length > o.maxLineLength) tooLong(lineNo + 1);
+  };
+  const tooLong = (line: number): never =>
+    parser.fail(line, 'line_too_long', `line longer than ${o.maxLineLength} characters (is this a trace CSV?)`);
+  const decode = (bytesIn?: Uint8Array): string => {
+    try {
+      return bytesIn ? decoder.decode(bytesIn, { stream: true }) : decoder.decode();
+    } catch {
+      // find the line of the first bad byte: decode leniently and count the newlines before U+FFFD
+      const lenient = bytesIn ? new TextDecoder('utf-8').decode(bytesIn) : '';
+      const bad = lenient.indexOf('\uFFFD');
+      let line = lineNo + 1;
+      for (let i = lenient.indexOf('\n'); i >= 0 && i < bad; i = lenient.indexOf('\n', i + 1)) line++;
+      return parser.fail(line, 'bad_encoding', 'the text is not valid UTF-8');
+    }
+  };
+
+  for await (const chunk of chunks) {
+    bytes += typeof chunk === 'string' ? utf8Length(chunk) : chunk.byteLength;
+    if (bytes > o.maxBytes) {
+      parser.fail(lineNo + 1, 'size_limit', `the file is larger than the size limit of ${formatBytes(o.maxBytes)}`);
+    }
+    feed(typeof chunk === 'string' ? chunk : decode(chunk));
+  }
+  feed(decode());
+  if (carry.length > 0) parser.line(carry, ++lineNo);
+  parser.finish(Math.max(lineNo, 1));
+
+  const n = parser.rowCount;
+  const data: TraceData = {
+    meta: parser.meta,
+    columns: parser.columns,
+    timeS: parser.time.take(n),
+    signal: parser.signal.take(n),
+    layer: parser.layer ? parser.layer.take(n) : null,
+    chip: parser.chip ? parser.chip.take(n) : null,
+    crystalNm: parser.crystal ? parser.crystal.take(n) : null,
+    rowCount: n,
+    warnings: parser.warnings,
+    separator: parser.separator,
+    headerLine: parser.headerLine,
+  };
+  data.warnings.push(...traceWarnings(data, { gapFactor: o.gapFactor, minLayerSamples: o.minLayerSamples }));
+  return data;
+}
+
+/** readTrace on text already in memory (tests, small uploads). */
+export function readTraceText(text: string, options: ReadTraceOptions = {}): Promise<TraceData> {
+  return readTrace([text], options);
+}
+
+function utf8Length(s: string): number {
+  let n = 0;
+  for (let i = 0; i < s.length; i++) {
+    const c = s.charCodeAt(i);
+    if (c < 0x80) n += 1;
+    else if (c < 0x800) n += 2;
+    else if (c >= 0xd800 && c < 0xdc00) {
+      n += 4;
+      i++;
+    } else n += 3;
+  }
+  return n;
+}
+
+function formatBytes(b: number): string {
+  return b % MIB === 0 ? `${b / MIB} MiB (${b} bytes)` : `${b} bytes`;
+}
+
+export { TraceFormatError };

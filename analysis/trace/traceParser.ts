@@ -1,0 +1,224 @@
+import { TraceFormatError } from './TraceFormatError';
+import type { TraceWarning } from './types';
+
+const KIND_IGNORE = 0;
+const KIND_TIME = 1;
+const KIND_SIGNAL = 2;
+const KIND_LAYER = 3;
+const KIND_CHIP = 4;
+const KIND_CRYSTAL = 5;
+const KNOWN: Record<string, number> = {
+  time_s: KIND_TIME,
+  signal: KIND_SIGNAL,
+  layer: KIND_LAYER,
+  chip: KIND_CHIP,
+  crystal_nm: KIND_CRYSTAL,
+};
+
+/** A typed array that grows by doubling, so rows never become objects. */
+class Grow<T extends Float64Array | Int32Array> {
+  data: T;
+  constructor(private readonly make: (n: number) => T) {
+    this.data = make(1024);
+  }
+  set(i: number, v: number): void {
+    if (i >= this.data.length) {
+      const next = this.make(this.data.length * 2);
+      next.set(this.data);
+      this.data = next;
+    }
+    this.data[i] = v;
+  }
+  take(n: number): T {
+    return this.data.slice(0, n) as T;
+  }
+}
+
+export interface ParserLimits {
+  fileName?: string;
+  maxRows: number;
+  layerCount?: number;
+}
+
+/** Line-by-line state machine for the trace CSV of shared/FORMATS.md. */
+export class TraceParser {
+  readonly meta: Record<string, string> = {};
+  readonly warnings: TraceWarning[] = [];
+  columns: string[] = [];
+  separator: ',' | '\t' = ',';
+  headerLine = 0;
+  rowCount = 0;
+  time = new Grow((n) => new Float64Array(n));
+  signal = new Grow((n) => new Float64Array(n));
+  layer: Grow<Int32Array> | null = null;
+  chip: Grow<Int32Array> | null = null;
+  crystal: Grow<Float64Array> | null = null;
+  private kinds = new Int8Array(0);
+  private sawContent = false;
+  private blankLine = 0;
+  private prevTime = -Infinity;
+  private prevTimeText = '';
+
+  constructor(private readonly limits: ParserLimits) {}
+
+  fail(line: number, code: string, detail: string, column?: string): never {
+    throw new TraceFormatError({ fileName: this.limits.fileName, line, column, code, detail });
+  }
+
+  line(raw: string, lineNo: number): void {
+    const s = raw.charCodeAt(raw.length - 1) === 13 ? raw.slice(0, -1) : raw;
+    const blank = s.length === 0 || (s.charCodeAt(0) <= 32 && s.trim().length === 0);
+    if (this.headerLine === 0) {
+      if (blank) return;
+      this.sawContent = true;
+      if (s.charCodeAt(0) === 35) this.metadata(s, lineNo);
+      else this.header(s, lineNo);
+      return;
+    }
+    if (blank) {
+      if (this.blankLine === 0) this.blankLine = lineNo;
+      return;
+    }
+    if (this.blankLine !== 0) {
+      this.fail(this.blankLine, 'blank_line', 'blank line inside the data (only trailing blank lines are allowed)');
+    }
+    if (s.charCodeAt(0) === 35) {
+      this.fail(lineNo, 'metadata_after_header', 'a "#" metadata line after the header (metadata may only precede it)');
+    }
+    this.row(s, lineNo);
+  }
+
+  finish(lastLine: number): void {
+    if (this.headerLine === 0) {
+      if (!this.sawContent) this.fail(1, 'empty_file', 'the file is empty');
+      this.fail(lastLine, 'no_header', 'no header row (expected one naming at least time_s and signal)');
+    }
+    if (this.rowCount === 0) this.fail(this.headerLine, 'no_data', 'the header is not followed by any data rows');
+  }
+
+  private metadata(s: string, lineNo: number): void {
+    const body = s.slice(1);
+    const colon = body.indexOf(':');
+    const key = colon < 0 ? '' : body.slice(0, colon).trim();
+    if (key === '') {
+      this.warnings.push({
+        code: 'metadata_malformed',
+        line: lineNo,
+        message: `line ${lineNo}: metadata line is not "# key: value"; ignored`,
+      });
+      return;
+    }
+    if (key in this.meta) {
+      this.warnings.push({ code: 'metadata_duplicate', line: lineNo, message: `line ${lineNo}: metadata key "${key}" repeated; the last value is kept` });
+    }
+    this.meta[key] = body.slice(colon + 1).trim();
+  }
+
+  private header(s: string, lineNo: number): void {
+    this.separator = s.includes('\t') ? '\t' : ',';
+    const names = s.split(this.separator).map((f) => f.trim().replace(/^"(.*)"$/, '$1').trim().toLowerCase());
+    if (names.every((f) => f !== '' && Number.isFinite(Number(f)))) {
+      this.fail(lineNo, 'no_header', `expected a header row naming the columns (time_s, signal, …) before the data, found "${s}"`);
+    }
+    this.kinds = new Int8Array(names.length);
+    const seen = new Set<string>();
+    names.forEach((name, i) => {
+      if (name === '') this.fail(lineNo, 'empty_column_name', `header field ${i + 1} is empty`);
+      if (seen.has(name)) this.fail(lineNo, 'duplicate_column', 'the column is named twice in the header', name);
+      seen.add(name);
+      const kind = KNOWN[name] ?? KIND_IGNORE;
+      this.kinds[i] = kind;
+      if (kind === KIND_IGNORE) {
+        this.warnings.push({ code: 'unknown_column', line: lineNo, message: `line ${lineNo}: unknown column "${name}" ignored` });
+      }
+    });
+    for (const required of ['time_s', 'signal']) {
+      if (!seen.has(required)) {
+        this.fail(lineNo, 'missing_column', `the header has no "${required}" column (required: time_s, signal)`);
+      }
+    }
+    if (seen.has('layer')) this.layer = new Grow((n) => new Int32Array(n));
+    if (seen.has('chip')) this.chip = new Grow((n) => new Int32Array(n));
+    if (seen.has('crystal_nm')) this.crystal = new Grow((n) => new Float64Array(n));
+    this.columns = names;
+    this.headerLine = lineNo;
+  }
+
+  private row(s: string, lineNo: number): void {
+    const r = this.rowCount;
+    if (r >= this.limits.maxRows) {
+      this.fail(lineNo, 'row_limit', `more than ${this.limits.maxRows} data rows (the row limit is ${this.limits.maxRows})`);
+    }
+    const sep = this.separator;
+    const nFields = this.kinds.length;
+    let pos = 0;
+    for (let j = 0; j < nFields; j++) {
+      let end = s.indexOf(sep, pos);
+      if (end < 0) {
+        if (j < nFields - 1) this.fieldCount(s, lineNo);
+        end = s.length;
+      } else if (j === nFields - 1) this.fieldCount(s, lineNo);
+      const kind = this.kinds[j];
+      if (kind !== KIND_IGNORE) this.value(kind, j, s.substring(pos, end), lineNo, r);
+      pos = end + 1;
+    }
+    this.rowCount = r + 1;
+  }
+
+  private fieldCount(s: string, lineNo: number): never {
+    const found = s.split(this.separator).length;
+    const n = this.kinds.length;
+    return this.fail(lineNo, 'field_count', `expected ${n} fields (${this.columns.join(', ')}), found ${found}`);
+  }
+
+  private value(kind: number, j: number, text: string, lineNo: number, r: number): void {
+    const v = Number(text);
+    if (!Number.isFinite(v) || badNumberText(text, v)) {
+      const t = text.trim();
+      const infinite = t === 'NaN' || (!Number.isNaN(v) && !Number.isFinite(v));
+      const what = t === '' ? 'empty value where a number is needed' : infinite ? `"${t}" is not a finite number` : `"${t}" is not a number`;
+      this.fail(lineNo, infinite ? 'not_finite' : 'not_a_number', what, this.columns[j]);
+    }
+    switch (kind) {
+      case KIND_TIME:
+        if (!(v > this.prevTime)) {
+          this.fail(
+            lineNo,
+            'time_not_increasing',
+            `${text.trim()} is not after the previous time ${this.prevTimeText} (line ${lineNo - 1}); time must be strictly increasing`,
+            this.columns[j],
+          );
+        }
+        this.prevTime = v;
+        this.prevTimeText = text.trim();
+        this.time.set(r, v);
+        break;
+      case KIND_SIGNAL:
+        this.signal.set(r, v);
+        break;
+      case KIND_LAYER:
+        if (!Number.isInteger(v) || v < 0) {
+          this.fail(lineNo, 'bad_layer', `"${text.trim()}" is not a layer number (a non-negative integer)`, this.columns[j]);
+        }
+        if (this.limits.layerCount !== undefined && v > this.limits.layerCount) {
+          this.fail(lineNo, 'layer_out_of_range', `layer ${v} is beyond the design's ${this.limits.layerCount} layers`, this.columns[j]);
+        }
+        this.layer!.set(r, v);
+        break;
+      case KIND_CHIP:
+        if (!Number.isInteger(v) || v < 1) {
+          this.fail(lineNo, 'bad_chip', `"${text.trim()}" is not a chip number (a positive integer)`, this.columns[j]);
+        }
+        this.chip!.set(r, v);
+        break;
+      default:
+        this.crystal!.set(r, v);
+    }
+  }
+}
+
+/** Number() also accepts "", "  ", "0x1A", "0b1", "0o7"; a trace must not. */
+function badNumberText(text: string, v: number): boolean {
+  if (v === 0 && text.trim() === '') return true;
+  return text.length >= 3 && Number.isInteger(v) && /^\s*[+-]?0[xob]/i.test(text);
+}

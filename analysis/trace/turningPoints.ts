@@ -1,0 +1,160 @@
+import { fitPolynomial } from './polyFit';
+import { noiseSigma } from './robustStats';
+import { savitzkyGolay, savitzkyGolayCoefficients } from './savitzkyGolay';
+
+export interface TurningPoint {
+  /** Sample index of the extreme sample. */
+  index: number;
+  /** Sub-sample time of the extremum (vertex of a local least-squares parabola). */
+  timeS: number;
+  /** Signal at the vertex. */
+  value: number;
+  kind: 'max' | 'min';
+}
+
+export interface TurningPointOptions {
+  /**
+   * The signal must move back by at least this much (signal units) from an extremum before
+   * it counts. @default hysteresisSigma × the robust noise σ of the (smoothed) signal
+   */
+  hysteresis?: number;
+  /** Multiple of the noise σ used for the default hysteresis. @default 12 */
+  hysteresisSigma?: number;
+  /** Odd Savitzky–Golay window (quadratic) applied before the search; 0 or 1 for none. @default 0 */
+  smoothWindow?: number;
+  /** The refinement parabola spans the samples within this drop of the extremum. @default hysteresis */
+  refineDrop?: number;
+  /** Largest half-width, in samples, of the refinement fit. @default 2000 */
+  maxRefineHalfWidth?: number;
+}
+
+/**
+ * Turning points (extrema) of a monitor signal by a hysteresis zig-zag: a maximum is confirmed
+ * only once the signal has fallen by `hysteresis` below it (and had risen by as much to reach
+ * it), so noise cannot create extrema; each is refined by a least-squares parabola in time over
+ * a window symmetric about it.
+ */
+export function findTurningPoints(timeS: ArrayLike<number>, y: ArrayLike<number>, options: TurningPointOptions = {}): TurningPoint[] {
+  const n = y.length;
+  if (timeS.length !== n) throw new RangeError(`findTurningPoints: timeS has ${timeS.length} samples but y has ${n}`);
+  for (let i = 0; i < n; i++) {
+    if (!Number.isFinite(y[i]) || !Number.isFinite(timeS[i])) {
+      throw new RangeError(`findTurningPoints: sample ${i} is not finite (time ${timeS[i]}, value ${y[i]})`);
+    }
+  }
+  if (n < 3) return [];
+  const win = options.smoothWindow ?? 0;
+  const smooth = win > 1;
+  const ys = smooth ? savitzkyGolay(y, { window: win, order: 2 }) : Float64Array.from(y);
+  let h = options.hysteresis;
+  if (h === undefined) {
+    const gain = smooth ? Math.hypot(...savitzkyGolayCoefficients(Math.min(win, n % 2 ? n : n - 1), 2)) : 1;
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (let i = 0; i < n; i++) {
+      lo = Math.min(lo, ys[i]);
+      hi = Math.max(hi, ys[i]);
+    }
+    h = Math.max((options.hysteresisSigma ?? 12) * noiseSigma(y) * gain, 1e-9 * (hi - lo), Number.MIN_VALUE);
+  } else if (!(h > 0)) {
+    throw new RangeError(`findTurningPoints: hysteresis must be positive, got ${h}`);
+  }
+  const found = zigzag(ys, h);
+  const drop = options.refineDrop ?? h;
+  const maxHalf = options.maxRefineHalfWidth ?? 2000;
+  return found.map(({ index, kind }) => refine(timeS, y, ys, index, kind, drop, maxHalf));
+}
+
+function zigzag(ys: Float64Array, h: number): { index: number; kind: 'max' | 'min' }[] {
+  const out: { index: number; kind: 'max' | 'min' }[] = [];
+  const n = ys.length;
+  let mode = 0; // 0: direction unknown, 1: rising (tracking a max), -1: falling (tracking a min)
+  let hi = 0;
+  let lo = 0;
+  for (let i = 1; i < n; i++) {
+    const v = ys[i];
+    if (mode === 0) {
+      if (v > ys[hi]) hi = i;
+      if (v < ys[lo]) lo = i;
+      if (ys[hi] - v >= h) {
+        // the first extremum is genuine only if the signal had also risen by h to reach it
+        if (minOf(ys, 0, hi) <= ys[hi] - h) out.push({ index: hi, kind: 'max' });
+        mode = -1;
+        lo = i;
+      } else if (v - ys[lo] >= h) {
+        if (maxOf(ys, 0, lo) >= ys[lo] + h) out.push({ index: lo, kind: 'min' });
+        mode = 1;
+        hi = i;
+      }
+    } else if (mode === 1) {
+      if (v > ys[hi]) hi = i;
+      else if (ys[hi] - v >= h) {
+        out.push({ index: hi, kind: 'max' });
+        mode = -1;
+        lo = i;
+      }
+    } else if (v < ys[lo]) lo = i;
+    else if (v - ys[lo] >= h) {
+      out.push({ index: lo, kind: 'min' });
+      mode = 1;
+      hi = i;
+    }
+  }
+  return out;
+}
+
+function minOf(a: Float64Array, from: number, to: number): number {
+  let m = Infinity;
+  for (let i = from; i <= to; i++) if (a[i] < m) m = a[i];
+  return m;
+}
+
+function maxOf(a: Float64Array, from: number, to: number): number {
+  let m = -Infinity;
+  for (let i = from; i <= to; i++) if (a[i] > m) m = a[i];
+  return m;
+}
+
+function refine(
+  timeS: ArrayLike<number>,
+  y: ArrayLike<number>,
+  ys: Float64Array,
+  k: number,
+  kind: 'max' | 'min',
+  drop: number,
+  maxHalf: number,
+): TurningPoint {
+  const n = ys.length;
+  const sign = kind === 'max' ? 1 : -1;
+  const level = sign * ys[k] - drop;
+  let left = k;
+  while (left > 0 && k - left < maxHalf && sign * ys[left - 1] >= level) left--;
+  let right = k;
+  while (right < n - 1 && right - k < maxHalf && sign * ys[right + 1] >= level) right++;
+  const half = Math.max(Math.min(k - left, right - k), 1);
+  let centre = k;
+  let best: TurningPoint = { index: k, timeS: timeS[k], value: y[k], kind };
+  for (let pass = 0; pass < 2; pass++) {
+    const a = Math.max(0, centre - half);
+    const b = Math.min(n, centre + half + 1);
+    if (b - a < 3) break;
+    const t0 = timeS[centre];
+    const scale = Math.max(timeS[b - 1] - t0, t0 - timeS[a]) || 1;
+    const c = fitPolynomial(timeS, y, a, b, 2, t0, scale);
+    if (!c || !(sign * c[2] < 0)) break;
+    const u = -c[1] / (2 * c[2]);
+    const t = t0 + u * scale;
+    if (!(t >= timeS[a] && t <= timeS[b - 1])) break;
+    best = { index: k, timeS: t, value: c[0] + c[1] * u + c[2] * u * u, kind };
+    const next = nearestIndex(timeS, t, a, b);
+    if (next === centre) break;
+    centre = next;
+  }
+  return best;
+}
+
+function nearestIndex(timeS: ArrayLike<number>, t: number, a: number, b: number): number {
+  let best = a;
+  for (let i = a + 1; i < b; i++) if (Math.abs(timeS[i] - t) < Math.abs(timeS[best] - t)) best = i;
+  return best;
+}
