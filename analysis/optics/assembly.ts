@@ -18,8 +18,8 @@ export function assemblyMatrix(
   n0SinTheta0: number,
   pol: Polarization,
 ): Mat2 {
-  let m = identity();
-  let tmp = new Float64Array(8);
+  let m: Mat2 = identity();
+  let tmp: Mat2 = new Float64Array(8);
   const lm = new Float64Array(8);
   for (let j = layers.length - 1; j >= 0; j--) {
     const layer = layers[j];
