@@ -1,0 +1,26 @@
+'use server';
+
+import { verifyPassword, hashPassword } from '@/db/password';
+import { findUserForSignIn, updatePassword } from '@/db/queries/users';
+import { authorize } from '@/app/_lib/auth';
+import { failure, fieldFailure, formObject, fromZod, ok, type ActionResult } from '@/app/_lib/errors';
+import { changePasswordSchema } from '@/app/_lib/schemas';
+import { getSession } from '@/app/_lib/session';
+
+/** Changes the caller's password; every other session of theirs ends, this one stays. */
+export async function changePassword(_prev: ActionResult | null, form: FormData): Promise<ActionResult> {
+  const parsed = changePasswordSchema.safeParse(formObject(form));
+  if (!parsed.success) return fromZod(parsed.error);
+  const auth = await authorize('changeOwnPassword');
+  if (!auth.ok) return auth;
+  const full = await findUserForSignIn(auth.user.email);
+  if (!full?.passwordHash || !(await verifyPassword(parsed.data.current, full.passwordHash))) {
+    return fieldFailure('current', 'That is not your current password.');
+  }
+  const version = await updatePassword(auth.user.id, await hashPassword(parsed.data.password));
+  if (version === undefined) return failure('unauthorized:session');
+  const session = await getSession();
+  session.sessionVersion = version;
+  await session.save();
+  return ok(undefined);
+}

@@ -1,0 +1,34 @@
+import type { Role } from '@/db/schema';
+
+export type { Role };
+
+export type Capabilities = {
+  /** Invite users, change roles, deactivate and reactivate. */
+  manageUsers: boolean;
+  /** Read the audit log. */
+  viewAuditLog: boolean;
+  /** Read the messages the local mail sink caught. */
+  viewMailSink: boolean;
+  /** Change one's own password. */
+  changeOwnPassword: boolean;
+};
+export type Capability = keyof Capabilities;
+
+/** The one map from role to what it may do. */
+export const capabilities: Record<Role, Capabilities> = {
+  operator: { manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
+  engineer: { manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
+  supervisor: { manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true },
+  admin: { manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true },
+};
+
+export function can(role: Role, capability: Capability): boolean {
+  return capabilities[role][capability];
+}
+
+export const roleLabels: Record<Role, string> = {
+  operator: 'Chamber operator',
+  engineer: 'Process engineer',
+  supervisor: 'Supervisor',
+  admin: 'Administrator',
+};

@@ -1,0 +1,55 @@
+import { z } from 'zod';
+
+/** Known failure codes, `kind:subject`, with their HTTP status and a message safe to show. */
+export const errorCodes = {
+  'unauthorized:session': { status: 401, message: 'Your session has ended. Sign in again.' },
+  'forbidden:role': { status: 403, message: 'Your role does not allow this.' },
+  'bad_request:input': { status: 400, message: 'Check the highlighted fields.' },
+  'not_found:user': { status: 404, message: 'No such user.' },
+  'conflict:last_admin': { status: 409, message: 'This is the last active administrator; make another admin first.' },
+  'rate_limited:sign_in': { status: 429, message: 'Too many failed sign-ins.' },
+  'unavailable:mail': { status: 503, message: 'The e-mail could not be sent.' },
+  'internal:unexpected': { status: 500, message: 'Something went wrong on our side. It has been logged.' },
+} as const;
+export type ErrorCode = keyof typeof errorCodes;
+
+export type FieldErrors = Record<string, string[] | undefined>;
+export type ActionResult<T = undefined> =
+  | { ok: true; data: T }
+  | { ok: false; code: ErrorCode; message: string; fieldErrors?: FieldErrors };
+
+export function ok<T>(data: T): ActionResult<T> {
+  return { ok: true, data };
+}
+
+export function failure(code: ErrorCode, message?: string, fieldErrors?: FieldErrors): { ok: false; code: ErrorCode; message: string; fieldErrors?: FieldErrors } {
+  return { ok: false, code, message: message ?? errorCodes[code].message, ...(fieldErrors ? { fieldErrors } : {}) };
+}
+
+export function fieldFailure(field: string, message: string): ReturnType<typeof failure> {
+  return failure('bad_request:input', message, { [field]: [message] });
+}
+
+export function fromZod(error: z.ZodError): ReturnType<typeof failure> {
+  const flat = z.flattenError(error);
+  const first = flat.formErrors[0];
+  return failure('bad_request:input', first ?? errorCodes['bad_request:input'].message, flat.fieldErrors as FieldErrors);
+}
+
+/** Logs an unexpected error in full and returns the generic result. */
+export function unexpected(context: string, err: unknown): ReturnType<typeof failure> {
+  console.error(`[fringelog] ${context}:`, err);
+  return failure('internal:unexpected');
+}
+
+export function httpError(code: ErrorCode, detail?: string): Response {
+  const { status, message } = errorCodes[code];
+  return Response.json({ error: code, message: detail ?? message }, { status });
+}
+
+/** Reads a FormData into a plain object of strings, for zod. */
+export function formObject(form: FormData): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [k, v] of form.entries()) if (typeof v === 'string') out[k] = v;
+  return out;
+}

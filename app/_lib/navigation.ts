@@ -1,0 +1,16 @@
+import { can, type Capability, type Role } from './capabilities';
+
+type Entry = { href: string; label: string; needs?: Capability };
+
+// Later areas (runs, designs, materials, comparison) are added here when they exist.
+const entries: Entry[] = [
+  { href: '/', label: 'Overview' },
+  { href: '/audit', label: 'Audit log', needs: 'viewAuditLog' },
+  { href: '/admin/users', label: 'Users', needs: 'manageUsers' },
+  { href: '/admin/mail', label: 'Mail', needs: 'viewMailSink' },
+  { href: '/account', label: 'Account', needs: 'changeOwnPassword' },
+];
+
+export function navigationFor(role: Role): { href: string; label: string }[] {
+  return entries.filter((e) => !e.needs || can(role, e.needs)).map(({ href, label }) => ({ href, label }));
+}

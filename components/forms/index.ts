@@ -1,0 +1,4 @@
+export * from './Field';
+export * from './FormMessage';
+export * from './SubmitButton';
+export * from './types';

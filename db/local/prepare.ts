@@ -1,0 +1,19 @@
+// Migrates the database named by DATABASE_URL and seeds the demo once. Run by npm start / npm test.
+import path from 'node:path';
+import { migrate } from 'drizzle-orm/node-postgres/migrator';
+import { closeDb, db } from '../client';
+import { demoUsers, seedDemo } from '../seed/demo';
+
+const root = path.resolve(import.meta.dirname, '..', '..');
+
+try {
+  await migrate(db(), { migrationsFolder: path.join(root, 'drizzle') });
+  const ran = await seedDemo(db());
+  console.log(`[fringelog] database migrated${ran.length ? `; seeded ${ran.join(', ')}` : ''}`);
+  for (const u of demoUsers) console.log(`SIGN-IN ${u.role.padEnd(10)} ${u.email.padEnd(26)} ${u.password}`);
+} catch (err) {
+  console.error(`[fringelog] ERROR: database preparation failed: ${err instanceof Error ? err.message : String(err)}`);
+  process.exitCode = 1;
+} finally {
+  await closeDb();
+}

@@ -1,0 +1,39 @@
+import 'server-only';
+import { desc, eq } from 'drizzle-orm';
+import { alias } from 'drizzle-orm/pg-core';
+import { db } from '../client';
+import { auditEvents, users } from '../schema';
+
+export type AuditRow = {
+  id: number;
+  at: Date;
+  actorName: string | null;
+  actorEmail: string | null;
+  action: string;
+  targetType: string;
+  targetId: string | null;
+  detail: Record<string, unknown>;
+};
+
+export async function recordAudit(actorId: number | null, action: string, targetType: string, targetId: string | null, detail: Record<string, unknown> = {}): Promise<void> {
+  await db().insert(auditEvents).values({ actorId, action, targetType, targetId, detail });
+}
+
+export async function listAudit(limit = 200): Promise<AuditRow[]> {
+  const actor = alias(users, 'actor');
+  return db()
+    .select({
+      id: auditEvents.id,
+      at: auditEvents.at,
+      actorName: actor.name,
+      actorEmail: actor.email,
+      action: auditEvents.action,
+      targetType: auditEvents.targetType,
+      targetId: auditEvents.targetId,
+      detail: auditEvents.detail,
+    })
+    .from(auditEvents)
+    .leftJoin(actor, eq(actor.id, auditEvents.actorId))
+    .orderBy(desc(auditEvents.at), desc(auditEvents.id))
+    .limit(limit);
+}
