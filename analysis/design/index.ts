@@ -5,3 +5,5 @@ export * from './layersOnChipBelow';
 export * from './designStackAt';
 export * from './designSpectrum';
 export * from './monitorCurve';
+export * from './modelTurningPoints';
+export * from './cutPlan';
