@@ -110,13 +110,25 @@ export function fringeSpectrum(timeS: ArrayLike<number>, y: ArrayLike<number>, o
     found.push({ frequencyHz: (k + d) * binHz, amplitude: Math.exp(b - 0.25 * (a - c) * d), relative: 0, widthBins: halfWidth(amp, k) });
   }
   found.sort((p, q) => q.amplitude - p.amplitude);
-  const dom = found[0];
+  const lobeHz = sampleRateHz / m;
+  const real = found.filter((p) => {
+    // only a peak ≥ 1 / (3 × 0.0266) ≈ 12.5 times larger can hide p in its side lobes
+    for (let j = 0; j < found.length && found[j].amplitude * 3 * 0.0266 > p.amplitude; j++) {
+      const q = found[j];
+      if (p.amplitude < 3 * hannLeakage(q.amplitude, Math.abs(p.frequencyHz - q.frequencyHz) / lobeHz)) return false;
+    }
+    return true;
+  });
+  const dom = real[0];
   const empty = { sampleRateHz, nyquistHz: sampleRateHz / 2, fftSize: size, binHz, blockSize: block, resampled };
-  if (!dom) return { dominantFrequencyHz: NaN, dominantPeriodS: NaN, peaks: [], disturbances: [], ...empty };
-  for (const p of found) p.relative = p.amplitude / dom.amplitude;
+  let scaleY = 0;
+  for (let i = 0; i < n; i++) scaleY = Math.max(scaleY, Math.abs(y[i]));
+  // a residual at rounding level (a straight line, a constant) has no fringe
+  if (!dom || dom.amplitude <= 1e-10 * scaleY) return { dominantFrequencyHz: NaN, dominantPeriodS: NaN, peaks: [], disturbances: [], ...empty };
+  for (const p of real) p.relative = p.amplitude / dom.amplitude;
 
   const threshold = options.peakThreshold ?? 0.05;
-  const peaks = found
+  const peaks = real
     .filter((p) => p.relative >= threshold)
     .slice(0, options.maxPeaks ?? 8)
     .map(({ frequencyHz, amplitude, relative }) => ({ frequencyHz, amplitude, relative }));
@@ -126,7 +138,7 @@ export function fringeSpectrum(timeS: ArrayLike<number>, y: ArrayLike<number>, o
   const ratio = options.disturbanceMinRatio ?? 3;
   const narrowBins = 3 * (size / m);
   const rawRateHz = 1 / dtS;
-  const disturbances = found
+  const disturbances = real
     .filter((p) => p.frequencyHz > ratio * dom.frequencyHz && p.amplitude >= snr * floor && p.widthBins <= narrowBins)
     .filter((p) => !isHarmonic(p.frequencyHz, dom.frequencyHz, binHz))
     .map((p) => ({ frequencyHz: p.frequencyHz, amplitude: p.amplitude, note: describe(p, dom, rawRateHz, binHz, options.mainsHz ?? [50, 60]) }));
@@ -187,9 +199,19 @@ function halfWidth(amp: number[], k: number): number {
   return b - a + 1;
 }
 
+/**
+ * Upper envelope of the Hann window's side lobes at distance `bins` (unpadded DFT bins) from a
+ * peak of the given amplitude: first side lobe −31.5 dB near 2.5 bins, decaying as 1/bins³
+ * (Harris 1978, Proc. IEEE 66, 51, Table I: Hann, −31.5 dB, 18 dB/octave; values from memory).
+ */
+function hannLeakage(amplitude: number, bins: number): number {
+  return amplitude * 0.0266 * Math.min(1, (2.5 / bins) ** 3);
+}
+
+/** Monitor fringes are not pure sinusoids: their low harmonics (up to the 6th) are expected, not disturbances. */
 function isHarmonic(f: number, f0: number, binHz: number): boolean {
   const order = Math.round(f / f0);
-  return order >= 2 && Math.abs(f - order * f0) <= Math.max(3 * binHz, 0.05 * order * f0);
+  return order >= 2 && order <= 6 && Math.abs(f - order * f0) <= Math.max(3 * binHz, 0.05 * order * f0);
 }
 
 function describe(p: SpectrumPeak, dom: SpectrumPeak, rawRateHz: number, binHz: number, mainsHz: number[]): string {

@@ -127,14 +127,17 @@ function refine(
   const n = ys.length;
   const sign = kind === 'max' ? 1 : -1;
   const level = sign * ys[k] - drop;
+  // the region above the level, not stopped by a single noisy sample (looks 3 samples ahead)
+  const above = (i: number) => i >= 0 && i < n && sign * ys[i] >= level;
   let left = k;
-  while (left > 0 && k - left < maxHalf && sign * ys[left - 1] >= level) left--;
+  while (left > 0 && k - left < maxHalf && (above(left - 1) || above(left - 2) || above(left - 3))) left--;
   let right = k;
-  while (right < n - 1 && right - k < maxHalf && sign * ys[right + 1] >= level) right++;
-  const half = Math.max(Math.min(k - left, right - k), 1);
-  let centre = k;
+  while (right < n - 1 && right - k < maxHalf && (above(right + 1) || above(right + 2) || above(right + 3))) right++;
+  // its midpoint is a better first centre than the noisy extreme sample
+  let centre = Math.round((left + right) / 2);
+  const half = Math.max(Math.round((right - left) / 2), 1);
   let best: TurningPoint = { index: k, timeS: timeS[k], value: y[k], kind };
-  for (let pass = 0; pass < 2; pass++) {
+  for (let pass = 0; pass < 4; pass++) {
     const a = Math.max(0, centre - half);
     const b = Math.min(n, centre + half + 1);
     if (b - a < 3) break;
