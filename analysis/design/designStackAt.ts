@@ -2,6 +2,7 @@ import { type Complex, scale } from '../optics/complex';
 import { type LayerAt } from '../optics/assembly';
 import { type StackAt } from '../optics/stackResponse';
 import { indexAt } from '../materials/indexAt';
+import { type MaterialModel } from '../materials/schema';
 import { type Design } from './parseDesign';
 
 /** An as-built layer: its thickness and, optionally, its index (fixed N, or the design dispersion scaled). */
@@ -27,7 +28,7 @@ export function designStackAt(design: Design, wavelengthNm: number, asBuilt?: re
   const nOf = (material: string): Complex => {
     let n = cache.get(material);
     if (!n) {
-      n = indexAt(design.materials[material], wavelengthNm);
+      n = namedIndexAt(design.materials[material], wavelengthNm, `material "${material}"`);
       cache.set(material, n);
     }
     return n;
@@ -44,5 +45,19 @@ export function designStackAt(design: Design, wavelengthNm: number, asBuilt?: re
     const n = b.n ?? (b.indexScale === undefined || b.indexScale === 1 ? nOf(d.material) : scale(nOf(d.material), b.indexScale));
     layers[i] = { n, thicknessNm: b.thicknessNm };
   }
-  return { ambient: indexAt(design.ambient, wavelengthNm), substrate: indexAt(design.substrate, wavelengthNm), layers };
+  return {
+    ambient: namedIndexAt(design.ambient, wavelengthNm, 'ambient'),
+    substrate: namedIndexAt(design.substrate, wavelengthNm, 'substrate'),
+    layers,
+  };
+}
+
+/** indexAt whose RangeError also says which of the design's materials failed. */
+export function namedIndexAt(model: MaterialModel, wavelengthNm: number, what: string): Complex {
+  try {
+    return indexAt(model, wavelengthNm);
+  } catch (e) {
+    if (e instanceof RangeError) throw new RangeError(`${what}: ${e.message}`);
+    throw e;
+  }
 }
