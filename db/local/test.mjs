@@ -1,0 +1,113 @@
+// `npm test`: the same bootstrap as `npm start` against the test database (recreated each run),
+// then lint, type-check, unit + integration tests (vitest) and browser tests (Chromium).
+import { spawn } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import {
+  appDb,
+  assertPortFree,
+  bin,
+  databaseUrl,
+  dataDir,
+  ensureChromium,
+  ensureDatabases,
+  ensureNodeModules,
+  ensurePostgresInstalled,
+  log,
+  root,
+  run,
+  runInherit,
+  startPostgres,
+  testDb,
+  waitForHttp,
+} from './bootstrap.mjs';
+
+const appPort = Number(process.env.TEST_APP_PORT ?? 3100);
+const sinkPort = Number(process.env.TEST_MAIL_SINK_PORT ?? 2526);
+const children = [];
+let pg;
+
+function cleanup() {
+  for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
+  if (pg?.startedHere) pg.stop();
+}
+process.on('SIGINT', () => {
+  cleanup();
+  process.exit(130);
+});
+
+ensureNodeModules();
+await assertPortFree(appPort, 'the test web app');
+await assertPortFree(sinkPort, 'the test mail sink');
+pg = await startPostgres(ensurePostgresInstalled());
+const password = ensureDatabases(pg, [appDb, testDb], { recreate: [testDb] });
+
+const env = {
+  ...process.env,
+  NODE_ENV: 'production',
+  NEXT_TELEMETRY_DISABLED: '1',
+  DATABASE_URL: databaseUrl(password, testDb),
+  SESSION_SECRET: randomBytes(36).toString('base64url'),
+  SMTP_URL: `smtp://127.0.0.1:${sinkPort}`,
+  APP_URL: `http://localhost:${appPort}`,
+  MAIL_SINK_PORT: String(sinkPort),
+  FRINGELOG_DIST_DIR: '.next-test',
+};
+const prep = run(bin('tsx'), ['--conditions=react-server', 'db/local/prepare.ts'], { env, allowFail: true });
+process.stdout.write(prep.stdout.split('\n').filter((l) => l && !l.startsWith('SIGN-IN ')).join('\n') + '\n');
+if (prep.status !== 0) {
+  process.stderr.write(prep.stderr);
+  cleanup();
+  process.exit(1);
+}
+
+const sink = spawn(bin('tsx'), ['--conditions=react-server', 'db/local/mailSink.ts'], { cwd: root, env, stdio: 'inherit' });
+children.push(sink);
+
+const failures = [];
+async function step(name, cmd, args, opts = {}) {
+  log(`── ${name}`);
+  const t0 = Date.now();
+  const code = await runInherit(cmd, args, { env: { ...env, NODE_ENV: 'test' }, ...opts });
+  log(`── ${name}: ${code === 0 ? 'ok' : `FAILED (exit ${code})`} in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
+  if (code !== 0) failures.push(name);
+  return code;
+}
+
+await step('eslint', bin('eslint'), ['.']);
+await step('tsc --noEmit', bin('tsc'), ['--noEmit', '-p', '.']);
+const vitestJson = path.join(dataDir, 'vitest-results.json');
+fs.rmSync(vitestJson, { force: true });
+await step('vitest (unit + integration)', bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${vitestJson}`]);
+
+// Browser tests: a production build of its own, served on the test port against the test DB.
+ensureChromium();
+let browser = { passed: 0, failed: 1 };
+if ((await step('next build (test)', bin('next'), ['build'], { env })) === 0) {
+  const server = spawn(bin('next'), ['start', '-p', String(appPort), '-H', '127.0.0.1'], { cwd: root, env, stdio: ['ignore', 'ignore', 'inherit'] });
+  children.push(server);
+  if (await waitForHttp(`http://127.0.0.1:${appPort}/sign-in`, 30000)) {
+    const resultFile = path.join(dataDir, 'browser-results.json');
+    fs.rmSync(resultFile, { force: true });
+    await step('browser (Chromium)', bin('tsx'), ['tests/browser/run.ts'], { env: { ...env, BROWSER_RESULTS: resultFile } });
+    if (fs.existsSync(resultFile)) browser = JSON.parse(fs.readFileSync(resultFile, 'utf8'));
+  } else {
+    log('the test web app did not answer within 30 s');
+    failures.push('browser (server did not start)');
+  }
+}
+cleanup();
+
+let unit = { passed: 0, failed: 0 };
+if (fs.existsSync(vitestJson)) {
+  const r = JSON.parse(fs.readFileSync(vitestJson, 'utf8'));
+  unit = { passed: r.numPassedTests, failed: r.numFailedTests + (r.numFailedTestSuites ?? 0) };
+}
+const passed = unit.passed + browser.passed;
+const failed = unit.failed + browser.failed;
+console.log('');
+console.log(`vitest: ${unit.passed} passed, ${unit.failed} failed · browser: ${browser.passed} passed, ${browser.failed} failed`);
+if (failures.length) console.log(`failed steps: ${failures.join(', ')}`);
+console.log(`${passed} passed, ${failed} failed`);
+process.exit(failures.length || failed ? 1 : 0);

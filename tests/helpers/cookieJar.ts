@@ -1,0 +1,41 @@
+/** A browser's cookies, enough for iron-session's get/set through `cookies()` of next/headers. */
+export class CookieJar {
+  private values = new Map<string, string>();
+
+  get(name: string): { name: string; value: string } | undefined {
+    const value = this.values.get(name);
+    return value === undefined ? undefined : { name, value };
+  }
+
+  set(nameOrOptions: string | { name: string; value: string; maxAge?: number }, value?: string, options?: { maxAge?: number }): void {
+    const name = typeof nameOrOptions === 'string' ? nameOrOptions : nameOrOptions.name;
+    const v = typeof nameOrOptions === 'string' ? (value ?? '') : nameOrOptions.value;
+    const maxAge = typeof nameOrOptions === 'string' ? options?.maxAge : nameOrOptions.maxAge;
+    if (maxAge === 0 || v === '') this.values.delete(name);
+    else this.values.set(name, v);
+  }
+
+  delete(name: string): void {
+    this.values.delete(name);
+  }
+
+  has(name: string): boolean {
+    return this.values.has(name);
+  }
+
+  getAll(): { name: string; value: string }[] {
+    return [...this.values].map(([name, value]) => ({ name, value }));
+  }
+}
+
+let current = new CookieJar();
+
+/** The jar that `cookies()` answers with: switch it to act as another browser. */
+export function useJar(jar: CookieJar): CookieJar {
+  current = jar;
+  return jar;
+}
+
+export function currentJar(): CookieJar {
+  return current;
+}
