@@ -1,3 +1,4 @@
+import { solveDense } from './polyFit';
 import { noiseSigma } from './robustStats';
 import { savitzkyGolay, savitzkyGolayCoefficients } from './savitzkyGolay';
 import type { Segment, Segmentation } from './types';
@@ -9,7 +10,7 @@ export interface AutoSegmentOptions {
   highSigma?: number;
   /** …and idle again when |slope| falls below this many σ. @default 4 */
   lowSigma?: number;
-  /** Idle stretches shorter than this (e.g. the flat top of a fringe) stay inside the layer. @default 3 × windowSamples */
+  /** Idle stretches shorter than this (e.g. the flat top of a fringe) stay inside the layer. @default 2 × windowSamples */
   minIdleSamples?: number;
   /** Active stretches shorter than this (steps, spikes) are not layers. @default 2 × windowSamples */
   minLayerSamples?: number;
@@ -28,7 +29,7 @@ export function autoSegment(timeS: ArrayLike<number>, signal: ArrayLike<number>,
   const warnings = [{ code: 'segments_inferred', message: '' }];
   let w = options.windowSamples ?? 101;
   if (!Number.isInteger(w) || w < 5 || w % 2 === 0) throw new RangeError(`autoSegment: windowSamples must be an odd integer ≥ 5, got ${w}`);
-  const minIdle = options.minIdleSamples ?? 3 * w;
+  const minIdle = options.minIdleSamples ?? 2 * w;
   const minLayer = options.minLayerSamples ?? 2 * w;
   let runs: [number, number, boolean][] = n > 0 ? [[0, n, false]] : [];
   if (n >= 5) {
@@ -56,8 +57,11 @@ export function autoSegment(timeS: ArrayLike<number>, signal: ArrayLike<number>,
       const prevEnd = r > 0 ? runs[r - 1][0] : 0;
       const nextStart = r + 1 < runs.length ? runs[r + 1][1] : n;
       const [a, b] = runs[r];
-      const start = hinge(timeS, signal, Math.max(prevEnd, a - 2 * w), Math.min(b, a + 2 * w), a - w, a + w, true);
-      const end = hinge(timeS, signal, Math.max(start + 1, b - 2 * w), Math.min(nextStart, b + 2 * w), b - w, b + w, false);
+      // the slope window smears each edge by up to half a window into the idle side; beyond
+      // about one window into the layer a fringe departs from a parabola, so look no further
+      const h = (w - 1) / 2;
+      const start = hinge(timeS, signal, Math.max(prevEnd, a - 2 * w), Math.min(b, a + h + w), a - w, a + h, true);
+      const end = hinge(timeS, signal, Math.max(start + 1, b - h - w), Math.min(nextStart, b + 2 * w), b - h, b + w, false);
       runs[r][0] = start;
       runs[r][1] = Math.max(end, start + 1);
       if (r > 0) runs[r - 1][1] = runs[r][0];
@@ -106,35 +110,48 @@ function absorb(runs: [number, number, boolean][], idleRuns: boolean, min: numbe
 }
 
 /**
- * Index c in [cFrom, cTo] minimising the squared error of y ≈ α + β·max(0, t − t_c) (rising
- * edge, `start`) or α + β·max(0, t_c − t) (falling edge) over the samples [from, to).
+ * Index c in [cFrom, cTo] minimising the squared error of y ≈ α + β·g + γ·g², g = max(0, t − t_c)
+ * (a rising edge, `start`) or g = max(0, t_c − t) (a falling edge), over the samples [from, to):
+ * flat on one side, a linear or parabolic departure on the other (a layer that starts at a
+ * turning point departs parabolically).
  */
 function hinge(t: ArrayLike<number>, y: ArrayLike<number>, from: number, to: number, cFrom: number, cTo: number, start: boolean): number {
-  const lo = Math.max(from, cFrom, 0);
-  const hi = Math.min(to - 1, cTo);
-  let best = start ? cFrom + (cTo - cFrom) / 2 : cTo - (cTo - cFrom) / 2;
-  best = Math.round(Math.min(Math.max(best, from), to - 1));
-  if (to - from < 4 || hi <= lo) return best;
+  const lo = Math.max(from, Math.round(cFrom), 0);
+  const hi = Math.min(to - 1, Math.round(cTo));
+  const fallback = Math.round(Math.min(Math.max((cFrom + cTo) / 2, from), to - 1));
+  if (to - from < 6 || hi <= lo) return start ? fallback : fallback + 1;
+  const scale = t[to - 1] - t[from] || 1;
+  let best = fallback;
   let bestErr = Infinity;
+  const A = new Float64Array(9);
+  const b = new Float64Array(3);
   for (let c = lo; c <= hi; c++) {
-    let sg = 0;
-    let sgg = 0;
-    let sy = 0;
-    let sgy = 0;
+    A.fill(0);
+    b.fill(0);
     let syy = 0;
     const tc = t[c];
     for (let i = from; i < to; i++) {
-      const g = start ? Math.max(0, t[i] - tc) : Math.max(0, tc - t[i]);
-      sg += g;
-      sgg += g * g;
-      sy += y[i];
-      sgy += g * y[i];
-      syy += y[i] * y[i];
+      const g = Math.max(0, start ? t[i] - tc : tc - t[i]) / scale;
+      const g2 = g * g;
+      const v = y[i];
+      A[0] += 1;
+      A[1] += g;
+      A[2] += g2;
+      A[5] += g2 * g;
+      A[8] += g2 * g2;
+      b[0] += v;
+      b[1] += g * v;
+      b[2] += g2 * v;
+      syy += v * v;
     }
-    const m = to - from;
-    const cgg = sgg - (sg * sg) / m;
-    const cgy = sgy - (sg * sy) / m;
-    const err = syy - (sy * sy) / m - (cgg > 0 ? (cgy * cgy) / cgg : 0);
+    A[3] = A[1];
+    A[4] = A[2];
+    A[6] = A[2];
+    A[7] = A[5];
+    const x = solveDense(A.slice(), b.slice(), 3);
+    if (!x) continue;
+    // residual of a least-squares solution: Σy² − xᵀ(Jᵀy)
+    const err = syy - (x[0] * b[0] + x[1] * b[1] + x[2] * b[2]);
     if (err < bestErr) {
       bestErr = err;
       best = c;

@@ -14,7 +14,7 @@ async function fault(text: string, options: Parameters<typeof readTraceText>[1] 
   throw new Error('expected a TraceFormatError');
 }
 
-function rows(count: number, layer = (i: number) => (i < 5 ? 0 : 1)): string {
+function rows(count: number, layer: (i: number) => number = (i) => (i < 5 ? 0 : 1)): string {
   let s = '';
   for (let i = 0; i < count; i++) s += `${(i * 0.1).toFixed(1)},${(0.9 + 0.01 * Math.sin(i / 7)).toFixed(6)},${layer(i)}\n`;
   return s;
