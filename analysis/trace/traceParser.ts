@@ -115,6 +115,7 @@ export class TraceParser {
   }
 
   private header(s: string, lineNo: number): void {
+    if (s.includes('\r')) this.fail(lineNo, 'bad_line_ends', 'lines must end in LF or CRLF (found a lone CR)');
     this.separator = s.includes('\t') ? '\t' : ',';
     const names = s.split(this.separator).map((f) => f.trim().replace(/^"(.*)"$/, '$1').trim().toLowerCase());
     if (names.every((f) => f !== '' && Number.isFinite(Number(f)))) {

@@ -18,7 +18,10 @@ export interface TurningPointOptions {
    * it counts. @default hysteresisSigma × the robust noise σ of the (smoothed) signal
    */
   hysteresis?: number;
-  /** Multiple of the noise σ used for the default hysteresis. @default 12 */
+  /**
+   * Multiple of the noise σ used for the default hysteresis; 12 because Gaussian noise alone
+   * spans about ±5σ over 10⁵–10⁶ samples, and must never pass as a fringe. @default 12
+   */
   hysteresisSigma?: number;
   /** Odd Savitzky–Golay window (quadratic) applied before the search; 0 or 1 for none. @default 0 */
   smoothWindow?: number;
