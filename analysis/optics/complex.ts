@@ -31,13 +31,20 @@ export function div(a: Complex, b: Complex): Complex {
   return { re: (a.re * r + a.im) / den, im: (a.im * r - a.re) / den };
 }
 
-/** Principal square root (re ≥ 0). */
+/**
+ * Principal square root (re ≥ 0). The half-angle form takes the smaller part as im/(2·re)
+ * rather than √((|a| ∓ re)/2), which cancels catastrophically for nearly real arguments
+ * (a weakly absorbing layer's N² − n0²sin²θ0 would lose its k entirely).
+ */
 export function sqrt(a: Complex): Complex {
   const m = Math.hypot(a.re, a.im);
   if (m === 0) return { re: 0, im: 0 };
-  const re = Math.sqrt((m + a.re) / 2);
-  const im = Math.sqrt(Math.max(0, (m - a.re) / 2));
-  return { re, im: a.im < 0 ? -im : im };
+  if (a.re >= 0) {
+    const re = Math.sqrt((m + a.re) / 2);
+    return { re, im: a.im / (2 * re) };
+  }
+  const t = Math.sqrt((m - a.re) / 2);
+  return { re: Math.abs(a.im) / (2 * t), im: a.im < 0 ? -t : t };
 }
 
 /** cos z = cos x cosh y − i sin x sinh y. */
