@@ -1,7 +1,5 @@
-import fftjs from 'fft-js';
+import { realFftMagnitude } from './realFftMagnitude';
 import { median } from './robustStats';
-
-const { fft, util } = fftjs;
 
 export interface FringeSpectrumOptions {
   /** Largest FFT length (power of two); longer series are block-averaged first. @default 8192 */
@@ -56,7 +54,8 @@ export interface FringeSpectrum {
 
 /**
  * Amplitude spectrum of a (segment of a) monitor trace: uniform resampling if needed, block
- * averaging to fit maxFftSize, linear detrend, Hann window, zero padding, fft-js, and peaks
+ * averaging to fit maxFftSize, linear detrend, Hann window, zero padding, fft-js (through
+ * realFftMagnitude), and peaks
  * refined by a parabola through the log-amplitudes of the three top bins (common practice).
  * The dominant peak is the fringe frequency; narrow peaks well above it are reported as
  * periodic disturbances (substrate rotation, aliased mains).
@@ -86,13 +85,13 @@ export function fringeSpectrum(timeS: ArrayLike<number>, y: ArrayLike<number>, o
   detrend(x);
   let wSum = 0;
   const size = Math.min(maxFft, nextPow2(Math.ceil(m * pad)));
-  const input = new Array<number>(size).fill(0);
+  const input = new Float64Array(size);
   for (let i = 0; i < m; i++) {
     const w = 0.5 * (1 - Math.cos((2 * Math.PI * i) / (m - 1)));
     wSum += w;
     input[i] = x[i] * w;
   }
-  const mag = util.fftMag(fft(input));
+  const mag = realFftMagnitude(input);
   const sampleRateHz = 1 / (dtS * block);
   const binHz = sampleRateHz / size;
   const amp = mag.map((v) => (2 * v) / wSum);
@@ -190,7 +189,7 @@ function nextPow2(v: number): number {
 }
 
 /** Full width, in bins, where the peak stays above half its amplitude. */
-function halfWidth(amp: number[], k: number): number {
+function halfWidth(amp: Float64Array, k: number): number {
   const half = amp[k] / 2;
   let a = k;
   while (a > 0 && amp[a - 1] > half) a--;
