@@ -13,7 +13,7 @@ export default async function AppLayout({ children }: { children: React.ReactNod
       <header className="bg-ink text-paper">
         <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-8 gap-y-3 px-6 py-3">
           <Link href="/" className="text-paper-raised">
-            <Wordmark />
+            <Wordmark onDark />
           </Link>
           <AppNav items={navigationFor(user.role)} />
           <div className="ml-auto flex items-center gap-3 text-sm">

@@ -23,12 +23,12 @@ export function LogoMark({ size = 32, className }: { size?: number; className?: 
   );
 }
 
-export function Wordmark({ className }: { className?: string }) {
+export function Wordmark({ onDark = false, className }: { onDark?: boolean; className?: string }) {
   return (
     <span className={`inline-flex items-center gap-2 ${className ?? ''}`}>
-      <LogoMark size={28} />
+      <LogoMark size={28} className={onDark ? 'rounded-[7px] ring-1 ring-white/25' : undefined} />
       <span className="text-lg font-semibold tracking-tight">
-        Fringe<span className="text-fringe">log</span>
+        Fringe<span className={onDark ? 'text-[#8fd0cc]' : 'text-fringe'}>log</span>
       </span>
     </span>
   );

@@ -16,7 +16,7 @@ export function AppNav({ items }: { items: NavItem[] }) {
             key={item.href}
             href={item.href}
             aria-current={active ? 'page' : undefined}
-            className={`rounded-md px-3 py-1.5 text-sm font-medium transition ${
+            className={`rounded-md px-3 py-1.5 text-sm font-medium ${
               active ? 'bg-fringe-light text-fringe-dark' : 'text-paper-sunk hover:bg-white/10 hover:text-paper-raised'
             }`}
           >

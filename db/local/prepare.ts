@@ -2,7 +2,8 @@
 import path from 'node:path';
 import { migrate } from 'drizzle-orm/node-postgres/migrator';
 import { closeDb, db } from '../client';
-import { demoUsers, seedDemo } from '../seed/demo';
+import { seedDemo } from '../seed/demo';
+import { demoUsers } from '../seed/demoData';
 
 const root = path.resolve(import.meta.dirname, '..', '..');
 

@@ -1,0 +1,177 @@
+// Browser tests: Debian's Chromium, driven by playwright-core, against the production build
+// that `npm test` serves on the test port. Prints 'N passed, N failed'.
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { demoUsers } from '../../db/seed/demoData';
+import { Shell, SignInPage } from './pages';
+
+const baseUrl = process.env.APP_URL ?? 'http://localhost:3100';
+const shots = path.resolve(import.meta.dirname, '..', 'screenshots');
+fs.mkdirSync(shots, { recursive: true });
+
+const expectedNav: Record<string, string[]> = {
+  operator: ['Overview', 'Account'],
+  engineer: ['Overview', 'Account'],
+  supervisor: ['Overview', 'Audit log', 'Account'],
+  admin: ['Overview', 'Audit log', 'Users', 'Mail', 'Account'],
+};
+
+function assert(condition: unknown, message: string): asserts condition {
+  if (!condition) throw new Error(message);
+}
+
+function assertEqual<T>(actual: T, expected: T, what: string): void {
+  const a = JSON.stringify(actual);
+  const e = JSON.stringify(expected);
+  if (a !== e) throw new Error(`${what}: expected ${e}, got ${a}`);
+}
+
+async function shot(page: Page, name: string): Promise<void> {
+  await page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+}
+
+async function signInAs(page: Page, role: string): Promise<void> {
+  const u = demoUsers.find((d) => d.role === role);
+  assert(u, `no demo ${role}`);
+  const signIn = new SignInPage(page, baseUrl);
+  await signIn.open();
+  await signIn.signIn(u.email, u.password);
+  await page.waitForURL(`${baseUrl}/`);
+}
+
+type Test = { name: string; run(page: Page, context: BrowserContext): Promise<void> };
+const tests: Test[] = [];
+const test = (name: string, run: Test['run']) => tests.push({ name, run });
+
+test('a signed-out visitor is sent to sign-in with a 307', async () => {
+  const res = await fetch(`${baseUrl}/`, { redirect: 'manual' });
+  assertEqual(res.status, 307, 'status of /');
+  assertEqual(new URL(res.headers.get('location') ?? '', baseUrl).pathname, '/sign-in', 'redirect target');
+});
+
+test('the sign-in page shows the brand and a wrong password at the field', async (page) => {
+  const signIn = new SignInPage(page, baseUrl);
+  await signIn.open();
+  await shot(page, 'sign-in');
+  await signIn.signIn(demoUsers[0].email, 'not-the-password-1');
+  await signIn.fieldError('password').waitFor();
+  assert(/E-mail or password is wrong\. \d tries? left/.test((await signIn.fieldError('password').textContent()) ?? ''), 'wrong-password message');
+  assertEqual(await page.getByLabel('E-mail').inputValue(), demoUsers[0].email, 'e-mail kept after a failed sign-in');
+  await shot(page, 'sign-in-wrong-password');
+});
+
+for (const role of ['operator', 'engineer', 'supervisor', 'admin']) {
+  test(`${role}: signs in, sees the ${role}'s navigation, signs out`, async (page) => {
+    await signInAs(page, role);
+    const shell = new Shell(page);
+    assertEqual(await shell.navLabels(), expectedNav[role], `${role} navigation`);
+    assertEqual(await shell.userName(), demoUsers.find((d) => d.role === role)?.name, 'name in the header');
+    await page.getByText('Bay 2 IAD').waitFor();
+    await shot(page, `home-${role}`);
+    await shell.signOut();
+    await page.getByText('You are signed out.').waitFor();
+    const res = await page.goto(`${baseUrl}/account`);
+    assertEqual(new URL(page.url()).pathname, '/sign-in', `after sign-out /account leads to sign-in (status ${res?.status()})`);
+  });
+}
+
+test('operator gets the 403 page on admin pages', async (page) => {
+  await signInAs(page, 'operator');
+  for (const p of ['/admin/users', '/admin/mail', '/audit']) {
+    const res = await page.goto(`${baseUrl}${p}`);
+    assertEqual(res?.status(), 403, `status of ${p}`);
+    await page.getByText('Not for your role').waitFor();
+  }
+  await shot(page, 'forbidden-operator');
+});
+
+test('admin pages render: users, audit log, account', async (page) => {
+  await signInAs(page, 'admin');
+  const shell = new Shell(page);
+  await shell.go('Users');
+  await page.getByRole('heading', { name: 'Users' }).waitFor();
+  await shot(page, 'admin-users');
+  await shell.go('Audit log');
+  await page.getByRole('heading', { name: 'Audit log' }).waitFor();
+  await shot(page, 'audit-log');
+  await shell.go('Account');
+  await page.getByRole('heading', { name: 'Account' }).waitFor();
+  await shot(page, 'account');
+});
+
+test('admin invites someone; the link from the Mail page sets a password; they sign in', async (page, context) => {
+  await signInAs(page, 'admin');
+  const shell = new Shell(page);
+  await shell.go('Users');
+  const email = `linnea-${Date.now().toString(36)}@larkspur.example`;
+  await page.getByLabel('Name').fill('Linnea Ardent');
+  await page.getByLabel('E-mail').fill(email);
+  await page.locator('#field-role').selectOption('supervisor');
+  await page.getByRole('button', { name: 'Send invitation' }).click();
+  await page.getByText('Invitation sent.').waitFor();
+  await page.locator(`tr[data-user-email="${email}"]`).getByText('invited').waitFor();
+  await shell.go('Mail');
+  const message = page.locator('article', { hasText: email }).first();
+  await message.waitFor();
+  await shot(page, 'admin-mail');
+  const link = await message.locator('a').first().getAttribute('href');
+  assert(link && link.startsWith(`${baseUrl}/set-password?token=`), `invite link ${link}`);
+  await shell.signOut();
+  await context.clearCookies();
+  await page.goto(link);
+  await page.getByText(`For ${email}`).waitFor();
+  await page.getByLabel('New password', { exact: true }).fill('short');
+  await page.getByLabel('Repeat the new password').fill('short');
+  await page.getByRole('button', { name: 'Save password' }).click();
+  await page.getByText('Use at least 10 characters.').waitFor();
+  await shot(page, 'set-password-weak');
+  await page.getByLabel('New password', { exact: true }).fill('linnea-pass-2026');
+  await page.getByLabel('Repeat the new password').fill('linnea-pass-2026');
+  await page.getByRole('button', { name: 'Save password' }).click();
+  await page.waitForURL(/\/sign-in\?notice=password-set/);
+  const signIn = new SignInPage(page, baseUrl);
+  await signIn.signIn(email, 'linnea-pass-2026');
+  await page.waitForURL(`${baseUrl}/`);
+  assertEqual(await new Shell(page).navLabels(), expectedNav.supervisor, 'navigation of the invited supervisor');
+});
+
+test('an unknown address shows the not-found page', async (page) => {
+  const res = await page.goto(`${baseUrl}/no-such-page`);
+  assertEqual(res?.status(), 404, 'status');
+  await page.getByText('Nothing here').waitFor();
+  await shot(page, 'not-found');
+});
+
+const userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fringelog-chromium-'));
+const context = await chromium.launchPersistentContext(userDataDir, {
+  executablePath: '/usr/bin/chromium',
+  headless: true,
+  viewport: { width: 1280, height: 800 },
+  args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+});
+context.setDefaultTimeout(10000);
+let passed = 0;
+let failed = 0;
+for (const t of tests) {
+  await context.clearCookies();
+  const page = await context.newPage();
+  const t0 = Date.now();
+  try {
+    await t.run(page, context);
+    passed += 1;
+    console.log(`  ✓ ${t.name} (${Date.now() - t0} ms)`);
+  } catch (err) {
+    failed += 1;
+    console.log(`  ✗ ${t.name}\n    ${err instanceof Error ? err.message.split('\n').join('\n    ') : String(err)}`);
+    await shot(page, `FAILED-${t.name.replace(/[^a-z0-9]+/gi, '-').slice(0, 60)}`).catch(() => undefined);
+  } finally {
+    await page.close();
+  }
+}
+await context.close();
+fs.rmSync(userDataDir, { recursive: true, force: true });
+if (process.env.BROWSER_RESULTS) fs.writeFileSync(process.env.BROWSER_RESULTS, JSON.stringify({ passed, failed }));
+console.log(`browser: ${passed} passed, ${failed} failed`);
+process.exit(failed ? 1 : 0);
