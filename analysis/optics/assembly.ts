@@ -1,6 +1,6 @@
 import { type Complex } from './complex';
 import { identity, layerMatrix, type Mat2, multiply } from './matrix';
-import { tilt, type Polarization } from './tilt';
+import { tilt, type Polarization, type Tilted } from './tilt';
 
 /** One layer with its complex index at the wavelength in question. */
 export interface LayerAt {
@@ -21,9 +21,22 @@ export function assemblyMatrix(
   let m: Mat2 = identity();
   let tmp: Mat2 = new Float64Array(8);
   const lm = new Float64Array(8);
+  // Stacks alternate a few materials whose index objects are shared: tilt each distinct one once.
+  let lastA: Complex | null = null, tiltA: Tilted | null = null;
+  let lastB: Complex | null = null, tiltB: Tilted | null = null;
   for (let j = layers.length - 1; j >= 0; j--) {
     const layer = layers[j];
-    const { nCos, eta } = tilt(layer.n, n0SinTheta0, pol);
+    let t: Tilted;
+    if (layer.n === lastA) t = tiltA!;
+    else if (layer.n === lastB) t = tiltB!;
+    else {
+      t = tilt(layer.n, n0SinTheta0, pol);
+      lastB = lastA;
+      tiltB = tiltA;
+      lastA = layer.n;
+      tiltA = t;
+    }
+    const { nCos, eta } = t;
     layerMatrix(lm, nCos, eta, layer.thicknessNm, wavelengthNm);
     // m accumulates from the ambient side downwards: m ← m · M_j
     multiply(tmp, m, lm);

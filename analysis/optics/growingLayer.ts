@@ -23,8 +23,8 @@ export interface GrowingLayer {
 
 /**
  * The monitor signal (R or T as a fraction) against the growing layer's physical thickness.
- * The stack below is folded into one matrix once; each thickness point then costs one layer
- * matrix and one 2×2 product, with no allocation.
+ * The stack below is folded into one matrix once (and with the substrate into one vector); each
+ * thickness point then costs one layer matrix and two matrix–vector products, with no allocation.
  */
 export function growingLayerSignal(
   spec: GrowingLayer,
@@ -36,6 +36,11 @@ export function growingLayerSignal(
   const pol = spec.pol ?? 'mean';
   if (pol !== 'mean') {
     accumulate(spec, pol, thicknessNm, out, 1, true);
+    return out;
+  }
+  // At normal incidence s and p coincide (η_p = N²/N = η_s).
+  if ((spec.angleDeg ?? 0) === 0) {
+    accumulate(spec, 's', thicknessNm, out, 1, true);
     return out;
   }
   accumulate(spec, 's', thicknessNm, out, 0.5, true);
@@ -57,52 +62,56 @@ function accumulate(
   const g = tilt(spec.growing, invariant, pol);
   const mb = assemblyMatrix(spec.below, spec.wavelengthNm, invariant, pol);
   const [b11r, b11i, b12r, b12i, b21r, b21i, b22r, b22i] = mb;
+  // Front view: [B, C] = L·(Mb·[1, ηs]); the stack below and the substrate fold into one vector.
+  const vbr = b11r + b12r * es.re - b12i * es.im, vbi = b11i + b12r * es.im + b12i * es.re;
+  const vcr = b21r + b22r * es.re - b22i * es.im, vci = b21i + b22r * es.im + b22i * es.re;
   const k = (2 * Math.PI) / spec.wavelengthNm;
-  const etaDen = g.eta.re * g.eta.re + g.eta.im * g.eta.im;
+  const ger = g.eta.re, gei = g.eta.im;
+  const etaDen = ger * ger + gei * gei;
   const wantR = spec.mode === 'R';
   const backside = spec.backside ?? false;
+  const e0r = e0.re, e0i = e0.im, esr = es.re, esi = es.im;
   // Bare back face seen from inside the substrate (Fresnel), for the incoherent sum.
   const rbNum = { re: es.re - e0.re, im: es.im - e0.im };
   const rbDen = { re: es.re + e0.re, im: es.im + e0.im };
   const rBack = (rbNum.re * rbNum.re + rbNum.im * rbNum.im) / (rbDen.re * rbDen.re + rbDen.im * rbDen.im);
   const tBack = 1 - rBack;
+  const kr = g.nCos.re * k, ki = g.nCos.im * k;
 
   for (let i = 0; i < thicknessNm.length; i++) {
-    const dr = g.nCos.re * k * thicknessNm[i];
-    const di = g.nCos.im * k * thicknessNm[i];
-    const ch = Math.cosh(di), sh = Math.sinh(di), cd = Math.cos(dr), sd = Math.sin(dr);
+    const dr = kr * thicknessNm[i];
+    const di = ki * thicknessNm[i];
+    // cosh and sinh from one expm1, accurate for the small di of weak absorbers
+    const em = Math.expm1(di);
+    const emInv = -em / (1 + em);
+    const sh = (em - emInv) / 2, ch = 1 + (em + emInv) / 2;
+    const cd = Math.cos(dr), sd = Math.sin(dr);
+    // L = [[cos δ, i sin δ/η], [i η sin δ, cos δ]] (Macleod eq. 2.106)
     const cr = cd * ch, ci = -sd * sh;
     const isr = -cd * sh, isi = sd * ch;
-    const l12r = (isr * g.eta.re + isi * g.eta.im) / etaDen;
-    const l12i = (isi * g.eta.re - isr * g.eta.im) / etaDen;
-    const l21r = isr * g.eta.re - isi * g.eta.im;
-    const l21i = isr * g.eta.im + isi * g.eta.re;
-    // M = L · Mb
-    const m11r = cr * b11r - ci * b11i + l12r * b21r - l12i * b21i;
-    const m11i = cr * b11i + ci * b11r + l12r * b21i + l12i * b21r;
-    const m12r = cr * b12r - ci * b12i + l12r * b22r - l12i * b22i;
-    const m12i = cr * b12i + ci * b12r + l12r * b22i + l12i * b22r;
-    const m21r = l21r * b11r - l21i * b11i + cr * b21r - ci * b21i;
-    const m21i = l21r * b11i + l21i * b11r + cr * b21i + ci * b21r;
-    const m22r = l21r * b12r - l21i * b12i + cr * b22r - ci * b22i;
-    const m22i = l21r * b12i + l21i * b12r + cr * b22i + ci * b22r;
-    // Front: B = m11 + m12·ηs, C = m21 + m22·ηs (Macleod eq. 2.111)
-    const Br = m11r + m12r * es.re - m12i * es.im, Bi = m11i + m12r * es.im + m12i * es.re;
-    const Cr = m21r + m22r * es.re - m22i * es.im, Ci = m21i + m22r * es.im + m22i * es.re;
-    const sumR = e0.re * Br - e0.im * Bi + Cr, sumI = e0.re * Bi + e0.im * Br + Ci;
+    const l12r = (isr * ger + isi * gei) / etaDen;
+    const l12i = (isi * ger - isr * gei) / etaDen;
+    const l21r = isr * ger - isi * gei;
+    const l21i = isr * gei + isi * ger;
+    const Br = cr * vbr - ci * vbi + l12r * vcr - l12i * vci, Bi = cr * vbi + ci * vbr + l12r * vci + l12i * vcr;
+    const Cr = l21r * vbr - l21i * vbi + cr * vcr - ci * vci, Ci = l21r * vbi + l21i * vbr + cr * vci + ci * vcr;
+    const sumR = e0r * Br - e0i * Bi + Cr, sumI = e0r * Bi + e0i * Br + Ci;
     const den = sumR * sumR + sumI * sumI;
-    const difR = e0.re * Br - e0.im * Bi - Cr, difI = e0.re * Bi + e0.im * Br - Ci;
+    const difR = e0r * Br - e0i * Bi - Cr, difI = e0r * Bi + e0i * Br - Ci;
     const Rf = (difR * difR + difI * difI) / den;
-    const Tf = (4 * e0.re * es.re) / den;
+    const Tf = (4 * e0r * esr) / den;
     let value: number;
     if (!backside) {
       value = wantR ? Rf : Tf;
     } else {
-      // Coated face seen from inside: reversed matrix [[m22, m12], [m21, m11]] (see coherent.ts)
-      const B2r = m22r + m12r * e0.re - m12i * e0.im, B2i = m22i + m12r * e0.im + m12i * e0.re;
-      const C2r = m21r + m11r * e0.re - m11i * e0.im, C2i = m21i + m11r * e0.im + m11i * e0.re;
-      const s2r = es.re * B2r - es.im * B2i + C2r, s2i = es.re * B2i + es.im * B2r + C2i;
-      const d2r = es.re * B2r - es.im * B2i - C2r, d2i = es.re * B2i + es.im * B2r - C2i;
+      // Coated face seen from inside: the reversed product Mb_rev·L with Mb_rev = [[b22, b12], [b21, b11]]
+      // (see coherent.ts), applied to [1, η0]: w = L·[1, η0], then [B2, C2] = Mb_rev·w.
+      const w1r = cr + l12r * e0r - l12i * e0i, w1i = ci + l12r * e0i + l12i * e0r;
+      const w2r = l21r + cr * e0r - ci * e0i, w2i = l21i + cr * e0i + ci * e0r;
+      const B2r = b22r * w1r - b22i * w1i + b12r * w2r - b12i * w2i, B2i = b22r * w1i + b22i * w1r + b12r * w2i + b12i * w2r;
+      const C2r = b21r * w1r - b21i * w1i + b11r * w2r - b11i * w2i, C2i = b21r * w1i + b21i * w1r + b11r * w2i + b11i * w2r;
+      const s2r = esr * B2r - esi * B2i + C2r, s2i = esr * B2i + esi * B2r + C2i;
+      const d2r = esr * B2r - esi * B2i - C2r, d2i = esr * B2i + esi * B2r - C2i;
       const Rin = (d2r * d2r + d2i * d2i) / (s2r * s2r + s2i * s2i);
       const denom = 1 - Rin * rBack;
       value = wantR ? Rf + (Tf * Tf * rBack) / denom : (Tf * tBack) / denom;

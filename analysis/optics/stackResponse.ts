@@ -73,6 +73,8 @@ export function stackResponse(stack: StackAt, wavelengthNm: number, options: Res
   assertTransparentIncidence(stack.ambient, 'ambient');
   if (o.incidence === 'substrate' || o.backside) assertTransparentIncidence(stack.substrate, 'substrate');
   if (o.pol !== 'mean') return onePolarization(stack, wavelengthNm, o.pol, o);
+  // At normal incidence η_p = N²/N = η_s: s and p coincide, one evaluation serves both.
+  if (o.angleDeg === 0) return onePolarization(stack, wavelengthNm, 's', o);
   const s = onePolarization(stack, wavelengthNm, 's', o);
   const p = onePolarization(stack, wavelengthNm, 'p', o);
   return {

@@ -1,0 +1,4 @@
+// `npm run bench`: each section prints its own figures; a benchmark is never a timed test.
+import { run as optics } from './optics';
+
+for (const section of [optics]) await section();
