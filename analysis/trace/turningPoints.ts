@@ -10,6 +10,11 @@ export interface TurningPoint {
   /** Signal at the vertex. */
   value: number;
   kind: 'max' | 'min';
+  /**
+   * False only for the last extremum when includeEnd is set and the series ends before the
+   * signal has moved back by the hysteresis (e.g. a layer cut on its turning point).
+   */
+  confirmed: boolean;
 }
 
 export interface TurningPointOptions {
@@ -29,6 +34,13 @@ export interface TurningPointOptions {
   refineDrop?: number;
   /** Largest half-width, in samples, of the refinement fit. @default 2000 */
   maxRefineHalfWidth?: number;
+  /**
+   * Also report the extremum the series was heading for at its end, unconfirmed: the vertex of a
+   * parabola fitted to the samples within 3 × refineDrop of the end's extreme, at most that fit's
+   * span beyond the last sample (a layer cut just after, or just before, its turning point).
+   * @default false
+   */
+  includeEnd?: boolean;
 }
 
 /**
@@ -62,14 +74,21 @@ export function findTurningPoints(timeS: ArrayLike<number>, y: ArrayLike<number>
   } else if (!(h > 0)) {
     throw new RangeError(`findTurningPoints: hysteresis must be positive, got ${h}`);
   }
-  const found = zigzag(ys, h);
+  const { found, pending } = zigzag(ys, h);
   const drop = options.refineDrop ?? h;
   const maxHalf = options.maxRefineHalfWidth ?? 2000;
-  return found.map(({ index, kind }) => refine(timeS, y, ys, index, kind, drop, maxHalf));
+  const out = found.map(({ index, kind }) => refine(timeS, y, ys, index, kind, drop, maxHalf));
+  if (options.includeEnd && pending) {
+    const last = refineAtEnd(timeS, y, ys, pending.index, pending.kind, drop, maxHalf);
+    if (last) out.push(last);
+  }
+  return out;
 }
 
-function zigzag(ys: Float64Array, h: number): { index: number; kind: 'max' | 'min' }[] {
-  const out: { index: number; kind: 'max' | 'min' }[] = [];
+type Pivot = { index: number; kind: 'max' | 'min' };
+
+function zigzag(ys: Float64Array, h: number): { found: Pivot[]; pending: Pivot | null } {
+  const out: Pivot[] = [];
   const n = ys.length;
   let mode = 0; // 0: direction unknown, 1: rising (tracking a max), -1: falling (tracking a min)
   let hi = 0;
@@ -103,7 +122,8 @@ function zigzag(ys: Float64Array, h: number): { index: number; kind: 'max' | 'mi
       hi = i;
     }
   }
-  return out;
+  const pending: Pivot | null = mode === 1 ? { index: hi, kind: 'max' } : mode === -1 ? { index: lo, kind: 'min' } : null;
+  return { found: out, pending };
 }
 
 function minOf(a: Float64Array, from: number, to: number): number {
@@ -139,7 +159,7 @@ function refine(
   // its midpoint is a better first centre than the noisy extreme sample
   let centre = Math.round((left + right) / 2);
   const half = Math.max(Math.round((right - left) / 2), 1);
-  let best: TurningPoint = { index: k, timeS: timeS[k], value: y[k], kind };
+  let best: TurningPoint = { index: k, timeS: timeS[k], value: y[k], kind, confirmed: true };
   for (let pass = 0; pass < 4; pass++) {
     const a = Math.max(0, centre - half);
     const b = Math.min(n, centre + half + 1);
@@ -151,12 +171,38 @@ function refine(
     const u = -c[1] / (2 * c[2]);
     const t = t0 + u * scale;
     if (!(t >= timeS[a] && t <= timeS[b - 1])) break;
-    best = { index: k, timeS: t, value: c[0] + c[1] * u + c[2] * u * u, kind };
+    best = { index: k, timeS: t, value: c[0] + c[1] * u + c[2] * u * u, kind, confirmed: true };
     const next = nearestIndex(timeS, t, a, b);
     if (next === centre) break;
     centre = next;
   }
   return best;
+}
+
+/** One-sided refinement of the extremum the series ends on or heads for; null if the end does not bend. */
+function refineAtEnd(
+  timeS: ArrayLike<number>,
+  y: ArrayLike<number>,
+  ys: Float64Array,
+  k: number,
+  kind: 'max' | 'min',
+  drop: number,
+  maxHalf: number,
+): TurningPoint | null {
+  const n = ys.length;
+  const sign = kind === 'max' ? 1 : -1;
+  // one-sided, so a wider fit than refine() uses: samples within 3 × drop of the extreme
+  const level = sign * ys[k] - 3 * drop;
+  let a = k;
+  while (a > 0 && k - a < 2 * maxHalf && (sign * ys[a - 1] >= level || (a > 1 && sign * ys[a - 2] >= level))) a--;
+  if (n - a < 5) return null;
+  const t0 = timeS[n - 1];
+  const span = t0 - timeS[a];
+  const c = fitPolynomial(timeS, y, a, n, 2, t0, span || 1);
+  if (!c || !(sign * c[2] < 0)) return null;
+  const u = -c[1] / (2 * c[2]);
+  if (!(u >= -1 && u <= 1)) return null;
+  return { index: k, timeS: t0 + u * span, value: c[0] + c[1] * u + c[2] * u * u, kind, confirmed: false };
 }
 
 function nearestIndex(timeS: ArrayLike<number>, t: number, a: number, b: number): number {

@@ -74,6 +74,33 @@ describe('findTurningPoints', () => {
     expect(p.value).toBeCloseTo(5, 12);
   });
 
+  it('with includeEnd, reports the turning point a layer was cut on (or just before) as unconfirmed', () => {
+    const periodS = 80;
+    // cosine maxima at t = k·P; cut 0.5 % of a period after the one at 160 s, and 2 % before it
+    for (const [endS, seed] of [[160 + 0.005 * periodS, 1], [160 - 0.02 * periodS, 2], [160 + 0.005 * periodS, 3]] as const) {
+      const g = gaussian(seed);
+      const n = Math.floor(endS / 0.1) + 1;
+      const t = Float64Array.from({ length: n }, (_, i) => i * 0.1);
+      const y = Float64Array.from(t, (v) => 0.6 + 0.2 * Math.cos((2 * Math.PI * v) / periodS) + 0.0006 * g());
+      expect(findTurningPoints(t, y).every((p) => p.confirmed && p.timeS < 150)).toBe(true);
+      const withEnd = findTurningPoints(t, y, { includeEnd: true });
+      const last = withEnd[withEnd.length - 1];
+      expect(last).toMatchObject({ kind: 'max', confirmed: false });
+      expect(Math.abs(last.timeS - 160)).toBeLessThan(0.01 * periodS);
+    }
+  });
+
+  it('with includeEnd, a series still rising steadily at its end gives no unconfirmed point', () => {
+    for (const seed of [1, 2, 3, 4, 5, 6, 7, 8]) {
+      const g = gaussian(seed);
+      const t = Float64Array.from({ length: 1500 }, (_, i) => i * 0.1);
+      // a fringe whose last stretch rises at a steady slope (cut mid-slope)
+      const y = Float64Array.from(t, (v) => 0.6 + 0.2 * Math.sin((2 * Math.PI * v) / 60) + 0.0006 * g());
+      const tp = findTurningPoints(t, y, { includeEnd: true });
+      expect(tp.filter((p) => !p.confirmed)).toEqual([]);
+    }
+  });
+
   it('handles empty input and one sample; rejects NaN and mismatched lengths with exact messages', () => {
     expect(findTurningPoints([], [])).toEqual([]);
     expect(findTurningPoints([0], [1])).toEqual([]);
