@@ -2,7 +2,7 @@ import { type Complex } from '../optics/complex';
 import { type LayerAt } from '../optics/assembly';
 import { growingLayerSignal, type GrowingLayer } from '../optics/growingLayer';
 import { type Polarization } from '../optics/tilt';
-import { indexAt } from '../materials/indexAt';
+import { namedIndexAt } from './designStackAt';
 import { type Design } from './parseDesign';
 import { designLayer, layersOnChipBelow } from './layersOnChipBelow';
 
@@ -23,12 +23,12 @@ export function monitorSpec(design: Design, layerNo: number, options: MonitorCur
   const wavelengthNm = layer.monitor.wavelengthNm;
   const below =
     options.belowOverride ??
-    layersOnChipBelow(design, layerNo).map((l) => ({ n: indexAt(design.materials[l.material], wavelengthNm), thicknessNm: l.thicknessNm }));
+    layersOnChipBelow(design, layerNo).map((l) => ({ n: namedIndexAt(design.materials[l.material], wavelengthNm, `material "${l.material}"`), thicknessNm: l.thicknessNm }));
   return {
-    ambient: indexAt(design.ambient, wavelengthNm),
-    substrate: indexAt(design.substrate, wavelengthNm),
+    ambient: namedIndexAt(design.ambient, wavelengthNm, 'ambient'),
+    substrate: namedIndexAt(design.substrate, wavelengthNm, 'substrate'),
     below,
-    growing: options.growingIndex ?? indexAt(design.materials[layer.material], wavelengthNm),
+    growing: options.growingIndex ?? namedIndexAt(design.materials[layer.material], wavelengthNm, `material "${layer.material}"`),
     wavelengthNm,
     mode: layer.monitor.mode,
     backside: design.substrateBackside,

@@ -14,8 +14,9 @@ export const monitorSchema = z
 export const designLayerSchema = z
   .object({
     material: z.string().min(1, 'must name a material'),
-    thicknessNm: positive.optional(),
-    qwot: positive.optional(),
+    // Bounds keep a typo from asking the plan for a curve of 10⁹ points; real layers are far thinner.
+    thicknessNm: positive.refine((v) => v <= 100_000, 'must be ≤ 100000 nm').optional(),
+    qwot: positive.refine((v) => v <= 1000, 'must be ≤ 1000 quarter-waves').optional(),
     monitor: monitorSchema,
   })
   .strict()

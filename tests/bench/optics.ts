@@ -38,20 +38,22 @@ function sixtyLayerDesign(): Design {
   };
 }
 
-const line = (what: string, r: { median: number; min: number }, target: number) =>
-  console.log(`  ${what.padEnd(58)} median ${r.median.toFixed(2).padStart(7)} ms  (min ${r.min.toFixed(2)} ms; target < ${target} ms)`);
+const line = (what: string, r: { median: number; min: number }, target?: number) =>
+  console.log(
+    `  ${what.padEnd(62)} median ${r.median.toFixed(2).padStart(7)} ms  (min ${r.min.toFixed(2)} ms${target === undefined ? '' : `; issue 3 target < ${target} ms`})`,
+  );
 
 /** Prints the optics figures of issue 3. */
 export async function run(): Promise<void> {
   console.log('optics');
   const design = sixtyLayerDesign();
   line('spectrum, 60 layers, 2001 wavelengths, normal incidence', medianMs(15, () => designSpectrum(design, { fromNm: 400, toNm: 800, stepNm: 0.2 })), 20);
-  line('spectrum, 60 layers, 2001 wavelengths, 45°, mean of s and p', medianMs(15, () => designSpectrum(design, { fromNm: 400, toNm: 800, stepNm: 0.2, angleDeg: 45 })), 40);
+  line('spectrum, 60 layers, 2001 wavelengths, 45°, mean of s and p', medianMs(15, () => designSpectrum(design, { fromNm: 400, toNm: 800, stepNm: 0.2, angleDeg: 45 })));
 
   const below: LayerAt[] = Array.from({ length: 59 }, (_, i) => ({ n: fromNK(i % 2 ? 1.46 : 2.3, i % 2 ? 0 : 0.0005), thicknessNm: 60 + i }));
   const thickness = Float64Array.from({ length: 1_000_000 }, (_, i) => i * 1e-4);
   const out = new Float64Array(thickness.length);
   const spec = { ambient: fromNK(1), substrate: fromNK(1.52), below, growing: fromNK(2.3, 0.0005), wavelengthNm: 550, mode: 'T' as const };
   line('monitor curve, 10^6 points, 59 layers below, T (normal, mean)', medianMs(9, () => growingLayerSignal(spec, thickness, out)), 50);
-  line('monitor curve, 10^6 points, 59 layers below, T with backside', medianMs(9, () => growingLayerSignal({ ...spec, backside: true }, thickness, out)), 50);
+  line('monitor curve, 10^6 points, 59 layers below, T with backside', medianMs(9, () => growingLayerSignal({ ...spec, backside: true }, thickness, out)));
 }

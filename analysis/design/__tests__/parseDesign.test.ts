@@ -80,6 +80,7 @@ describe('parseDesign errors name the file and the key', () => {
     ['fractional chip', (j) => { j.layers[0].monitor.chip = 1.5; return j; }, 'layers[0].monitor.chip', /whole number/],
     ['both thickness and qwot', (j) => ({ ...j, layers: [{ ...j.layers[0], thicknessNm: 100 }] }), 'layers[0].qwot', /exactly one of/],
     ['neither thickness nor qwot', (j) => ({ ...j, layers: [{ material: 'L', monitor: j.layers[0].monitor }] }), 'layers[0].thicknessNm', /exactly one of/],
+    ['absurd thickness', (j) => ({ ...j, layers: [{ ...j.layers[0], qwot: undefined, thicknessNm: 5e6 }] }), 'layers[0].thicknessNm', /≤ 100000 nm/],
     ['typo in a layer key', (j) => ({ ...j, layers: [{ ...j.layers[0], qwot: undefined, thicknesNm: 5 }] }), 'layers[0]', /unknown key "thicknesNm"/],
     ['unknown layer material', (j) => { j.layers[0].material = 'Q'; return j; }, 'layers[0].material', /"Q" is neither in "materials" nor built in/],
     ['unknown built-in name', (j) => ({ ...j, substrate: 'crown' }), 'substrate', /unknown material "crown"/],

@@ -104,3 +104,26 @@ describe('Fresnel equations (Born & Wolf, Principles of Optics §1.5.2; Hecht, O
     expect(Array.from(m).map((v) => Math.round(v * 1e12) / 1e12)).toEqual([0, 0, 0, 1 / 1.38, 0, 1.38, 0, 0].map((v) => Math.round(v * 1e12) / 1e12));
   });
 });
+
+describe('normal incidence', () => {
+  it('s, p and their mean coincide, phase included, for an absorbing stack', () => {
+    const stack: StackAt = { ambient: air, substrate: fromNK(1.52), layers: [{ n: fromNK(2.2, 0.1), thicknessNm: 40 }, { n: fromNK(1.45), thicknessNm: 90 }] };
+    const s = stackResponse(stack, 520, { pol: 's' });
+    const p = stackResponse(stack, 520, { pol: 'p' });
+    const m = stackResponse(stack, 520);
+    expect(p.R).toBeCloseTo(s.R, 14);
+    expect(p.T).toBeCloseTo(s.T, 14);
+    expect(p.phaseRad).toBeCloseTo(s.phaseRad, 14);
+    expect(m).toEqual(s);
+  });
+
+  it('at oblique incidence the mean is the average of s and p', () => {
+    const stack: StackAt = { ambient: air, substrate: fromNK(1.52), layers: [{ n: fromNK(2.2, 0.1), thicknessNm: 40 }] };
+    const s = stackResponse(stack, 520, { pol: 's', angleDeg: 30 });
+    const p = stackResponse(stack, 520, { pol: 'p', angleDeg: 30 });
+    const m = stackResponse(stack, 520, { angleDeg: 30 });
+    expect(m.R).toBeCloseTo((s.R + p.R) / 2, 14);
+    expect(s.R).not.toBeCloseTo(p.R, 3);
+    expect(m.phaseRad).toBeNaN();
+  });
+});
