@@ -99,6 +99,7 @@ describe('readTrace: faults name the file, line and column', () => {
     ['time_s,signal,chip\n0,1,0\n', 'trace.csv line 2, column "chip": "0" is not a chip number (a positive integer)', 'bad_chip', 'chip'],
     ['time_s,signal\n0,1\n1,2,3\n', 'trace.csv line 3: expected 2 fields (time_s, signal), found 3', 'field_count'],
     ['time_s,signal,layer\n0,1\n', 'trace.csv line 2: expected 3 fields (time_s, signal, layer), found 2', 'field_count'],
+    ['time_s,signal,\n0,1,\n', 'trace.csv line 1: header field 3 is empty', 'empty_column_name'],
     ['time_s,signal,time_s\n0,1,2\n', 'trace.csv line 1, column "time_s": the column is named twice in the header', 'duplicate_column', 'time_s'],
     ['# chamber: Bay 1\ntime_s,layer\n0,1\n', 'trace.csv line 2: the header has no "signal" column (required: time_s, signal)', 'missing_column'],
     ['0.0,0.9,0\n0.1,0.9,0\n', 'trace.csv line 1: expected a header row naming the columns (time_s, signal, …) before the data, found "0.0,0.9,0"', 'no_header'],

@@ -106,6 +106,15 @@ describe('autoSegment (no layer column)', () => {
     ]);
   });
 
+  it('a step in an idle stretch (a chip change to a new bare chip) is not a layer', () => {
+    const { t, y, bounds } = synthetic([{ idle: 400, layer: 1500, periodS: 100 }, { idle: 800, layer: 1500, periodS: 100 }], 300, 8);
+    const jumpAt = bounds[0][1] + 400;
+    for (let i = jumpAt; i < y.length; i++) y[i] += 0.05;
+    const s = autoSegment(t, y);
+    expect(s.layers).toHaveLength(2);
+    expect(s.layers.map((g) => g.startIndex).map((v, i) => Math.abs(v - bounds[i][0]) < 35)).toEqual([true, true]);
+  });
+
   it('segmentTrace falls back to it and numbers chips with chipOfLayer', async () => {
     const { t, y } = synthetic([{ idle: 400, layer: 1500, periodS: 100 }, { idle: 400, layer: 1500, periodS: 100 }], 300, 5);
     const text = `time_s,signal\n${Array.from(t, (v, i) => `${v.toFixed(1)},${y[i].toFixed(6)}`).join('\n')}\n`;
