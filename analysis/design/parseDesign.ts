@@ -76,7 +76,8 @@ export function parseDesign(json: unknown, fileName?: string): Design {
   const substrate = modelAt(file.substrate, ['substrate'], fileName);
   const substrateBackside = file.substrateBackside ?? false;
 
-  const materials: Record<string, MaterialModel> = {};
+  // Null prototype: a material named "__proto__" or "constructor" is just a key.
+  const materials: Record<string, MaterialModel> = Object.create(null);
   for (const [key, ref] of Object.entries(file.materials ?? {})) materials[key] = modelAt(ref, ['materials', key], fileName);
 
   const lambdaRef = file.referenceWavelengthNm;
