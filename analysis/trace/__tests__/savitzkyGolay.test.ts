@@ -14,6 +14,7 @@ describe('savitzkyGolayCoefficients', () => {
   it('7-point quadratic smoothing: (-2, 3, 6, 7, 6, 3, -2)/21', () => {
     close(savitzkyGolayCoefficients(7, 2), [-2, 3, 6, 7, 6, 3, -2].map((c) => c / 21), 1e-14);
   });
+  // 9-point values from memory of the same table
   it('cubic smoothing equals quadratic at the centre (same paper: one table serves both)', () => {
     close(savitzkyGolayCoefficients(9, 3), savitzkyGolayCoefficients(9, 2), 1e-13);
     close(savitzkyGolayCoefficients(9, 2), [-21, 14, 39, 54, 59, 54, 39, 14, -21].map((c) => c / 231), 1e-14);
