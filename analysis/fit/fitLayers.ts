@@ -1,0 +1,103 @@
+import { type LayerAt } from '../optics';
+import { leastSquares, type LeastSquaresOptions, type LeastSquaresResult } from './leastSquares';
+import {
+  decodeLayer, encodeLayer, evaluateLayers, jacobianLayers, paramLayout, thicknessAt,
+  type FitLayerData, type LayerParams,
+} from './layerModel';
+
+export interface JointFitInput {
+  /** Layers on the chip below the first fitted one, held, at the fitted layers' wavelength. */
+  fixedBelow: readonly LayerAt[];
+  layers: readonly FitLayerData[];
+  /** Starting values, one per layer. */
+  start: readonly LayerParams[];
+  offsetSignal: number;
+}
+
+/** One layer's estimates with 1σ (σ of a held parameter is 0). */
+export interface LayerEstimate extends LayerParams {
+  indexSigma: number;
+  rateSigma: number;
+  rateDriftSigma: number;
+  gainSigma: number;
+  /** d at the layer's last sample. */
+  thicknessNm: number;
+  thicknessSigmaNm: number;
+  /** n·d at the monitor wavelength. */
+  opticalThicknessNm: number;
+  opticalThicknessSigmaNm: number;
+}
+
+export interface JointFitResult {
+  layers: LayerEstimate[];
+  solver: LeastSquaresResult;
+}
+
+/**
+ * Least-squares fit of consecutive layers of one chip against the growing-layer model, each
+ * layer on the ones before it as currently estimated. One layer: the sequential fit; all
+ * layers of a chip: the joint re-fit.
+ */
+export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {}): JointFitResult {
+  const { fixedBelow, layers, start, offsetSignal } = input;
+  const layout = paramLayout(layers);
+  const p0: number[] = [], scale: number[] = [], min: number[] = [], max: number[] = [];
+  layers.forEach((layer, j) => {
+    const s = start[j];
+    encodeLayer(layer, s, p0);
+    const T = Math.max(layer.durationS, 1e-9);
+    const r = Math.abs(s.rateNmPerS);
+    encodeLayer(layer, { index: 0.01, rateNmPerS: 0.005 * r, rateDriftNmPerS2: (0.01 * r) / T, gain: 0.001 * Math.abs(s.gain) }, scale);
+    encodeLayer(layer, { index: 1.0, rateNmPerS: 0.2 * r, rateDriftNmPerS2: -r / T, gain: 0.5 * s.gain }, min);
+    encodeLayer(layer, { index: 4.0, rateNmPerS: 5 * r, rateDriftNmPerS2: r / T, gain: 2 * s.gain }, max);
+  });
+  let total = 0;
+  for (const l of layers) total += l.y.length;
+  const y = new Float64Array(total);
+  let pos = 0;
+  for (const l of layers) {
+    y.set(l.y, pos);
+    pos += l.y.length;
+  }
+  const solver = leastSquares(
+    {
+      y,
+      model: (p, out) => evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, out),
+      jacobian: (p, at, steps, out) => jacobianLayers(fixedBelow, layers, layout, p, offsetSignal, at, steps, out),
+      start: p0,
+      scale,
+      min,
+      max,
+    },
+    options,
+  );
+  const np = layout.count;
+  const cov = (a: number, b: number) => (a < 0 || b < 0 ? 0 : solver.covariance[a * np + b]);
+  const estimates = layers.map((layer, j) => {
+    const v = decodeLayer(layer, solver.params, layout.offsets[j]);
+    let i = layout.offsets[j];
+    const iN = layer.heldIndex === null ? i++ : -1;
+    const iR = i++;
+    const iA = layer.fitDrift ? i++ : -1;
+    const iG = layer.heldGain === null ? i : -1;
+    const T = layer.durationS;
+    // d = r·T + a·T²/2 and n·d; first-order propagation through the covariance
+    const gR = T, gA = 0.5 * T * T;
+    const d = thicknessAt(T, v.rateNmPerS, v.rateDriftNmPerS2);
+    const varD = gR * gR * cov(iR, iR) + gA * gA * cov(iA, iA) + 2 * gR * gA * cov(iR, iA);
+    const varND = v.index * v.index * varD + d * d * cov(iN, iN) + 2 * v.index * d * (gR * cov(iN, iR) + gA * cov(iN, iA));
+    const sd = (k: number) => (k < 0 ? 0 : Math.sqrt(Math.max(0, cov(k, k))));
+    return {
+      ...v,
+      indexSigma: sd(iN),
+      rateSigma: sd(iR),
+      rateDriftSigma: sd(iA),
+      gainSigma: sd(iG),
+      thicknessNm: d,
+      thicknessSigmaNm: Math.sqrt(Math.max(0, varD)),
+      opticalThicknessNm: v.index * d,
+      opticalThicknessSigmaNm: Math.sqrt(Math.max(0, varND)),
+    };
+  });
+  return { layers: estimates, solver };
+}

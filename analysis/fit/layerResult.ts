@@ -1,0 +1,83 @@
+import { fromNK, growingLayerSignal, type LayerAt } from '../optics';
+import { type TraceData } from '../trace';
+import { type LayerState } from './analyzeRun';
+import { modelTurningPoints, timeToThickness } from './cutTiming';
+import { thicknessAt } from './layerModel';
+import { type LayerResult, type TurningPointAt } from './types';
+
+interface ResultOptions {
+  residualWarnFactor: number;
+  cutErrorWarnPct: number;
+}
+
+/** The reported figures of one fitted layer: residuals on all samples, cut timing, warnings. */
+export function layerResult(s: LayerState, below: readonly LayerAt[], trace: TraceData, o: ResultOptions): LayerResult {
+  const { design: dl, samples, optics, nominal, estimate: e, calibration } = s;
+  const wl = optics.wavelengthNm;
+  const k = -nominal.im;
+  const n = samples.tauS.length;
+  const d = new Float64Array(n);
+  for (let i = 0; i < n; i++) d[i] = thicknessAt(samples.tauS[i], e.rateNmPerS, e.rateDriftNmPerS2);
+  const m = growingLayerSignal({ ...optics, below, growing: fromNK(e.index, k), pol: 's' }, d);
+  let ss = 0;
+  for (let i = 0; i < n; i++) {
+    const r = (trace.signal[samples.indices[i]] - calibration.offset) / e.gain - m[i];
+    ss += r * r;
+  }
+  const residualRms = Math.sqrt(ss / n);
+  const noise = calibration.noiseSigma / e.gain;
+  const residualToNoise = noise > 0 ? residualRms / noise : NaN;
+
+  const quarter = wl / 4;
+  const cutErrorQwotPct = ((e.opticalThicknessNm - nominal.re * dl.thicknessNm) / quarter) * 100;
+  const cutErrorSigmaQwotPct = (e.opticalThicknessSigmaNm / quarter) * 100;
+  const targetNm = (nominal.re * dl.thicknessNm) / e.index;
+  const tps = modelTurningPoints(optics, below, e.index, k, 1.3 * Math.max(e.thicknessNm, targetNm));
+  const toTime = (thicknessNm: number) => {
+    const tau = timeToThickness(thicknessNm, e.rateNmPerS, e.rateDriftNmPerS2);
+    return Number.isFinite(tau) ? samples.startTimeS + tau : null;
+  };
+  let idealCutTimeS: number | null = null;
+  const warnings: string[] = [];
+  if (dl.monitor.cut === 'level') {
+    idealCutTimeS = toTime(targetNm);
+  } else {
+    // The turning point that completes the layer: the modelled extremum nearest its target.
+    let best: number | null = null;
+    for (const tp of tps) if (best === null || Math.abs(tp.thicknessNm - targetNm) < Math.abs(best - targetNm)) best = tp.thicknessNm;
+    if (best !== null && Math.abs(best - targetNm) < 0.35 * (quarter / e.index)) idealCutTimeS = toTime(best);
+    else warnings.push('no modelled turning point near the target thickness: the ideal cut time is unknown');
+  }
+  const passed = tps.filter((tp) => tp.thicknessNm <= e.thicknessNm);
+  const lastTp = passed[passed.length - 1];
+  let lastTurningPoint: TurningPointAt | null = null;
+  if (lastTp) {
+    const timeS = toTime(lastTp.thicknessNm);
+    if (timeS !== null) lastTurningPoint = { timeS, signal: lastTp.signal, kind: lastTp.kind, thicknessNm: lastTp.thicknessNm };
+  }
+  const lastIndex = samples.indices[n - 1];
+  const crystalNm = trace.crystalNm ? trace.crystalNm[lastIndex] : null;
+  const opticalToCrystalRatio = crystalNm !== null && crystalNm > 0 ? e.thicknessNm / crystalNm : null;
+
+  if (s.heldNote) warnings.push(s.heldNote);
+  if (samples.runs > 1) warnings.push(`the layer was deposited in ${samples.runs} runs; the pauses are left out of its time base`);
+  if (!s.converged) warnings.push('the fit did not converge within its iteration limit');
+  if (!s.wellDetermined) warnings.push('the data do not determine every parameter (singular normal matrix): uncertainties unknown');
+  if (residualToNoise > o.residualWarnFactor) {
+    warnings.push(`residuals ${residualToNoise.toFixed(1)}× the noise: the signal departs from a smooth rate (a rate spike or jump?) or from the model`);
+  }
+  if (Math.abs(cutErrorQwotPct) > o.cutErrorWarnPct) {
+    warnings.push(`cut ${cutErrorQwotPct > 0 ? 'thick (overshoot)' : 'thin (undershoot)'} by ${Math.abs(cutErrorQwotPct).toFixed(1)} % of a quarter-wave at ${wl} nm`);
+  }
+  return {
+    layer: dl.layer, material: dl.material, chip: samples.chip, wavelengthNm: wl, mode: dl.monitor.mode, cut: dl.monitor.cut,
+    designThicknessNm: dl.thicknessNm, qwot: dl.qwot, qwotDeposited: e.opticalThicknessNm / quarter,
+    thicknessNm: e.thicknessNm, thicknessSigmaNm: e.thicknessSigmaNm,
+    index: e.index, indexSigma: e.indexSigma, nominalIndex: nominal.re, indexDeviation: e.index - nominal.re,
+    indexHeld: s.fit.heldIndex !== null,
+    rateNmPerS: e.rateNmPerS, rateSigmaNmPerS: e.rateSigma, rateDriftNmPerS2: e.rateDriftNmPerS2, rateDriftSigmaNmPerS2: e.rateDriftSigma,
+    gain: e.gain, cutErrorQwotPct, cutErrorSigmaQwotPct, residualRms, residualToNoise,
+    startTimeS: samples.startTimeS, cutTimeS: samples.endTimeS, idealCutTimeS, lastTurningPoint, crystalNm, opticalToCrystalRatio,
+    sampleCount: n, fitPoints: s.fitPoints, iterations: s.iterations, converged: s.converged, warnings,
+  };
+}

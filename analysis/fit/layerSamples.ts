@@ -1,0 +1,51 @@
+import { type Segment, type TraceData } from '../trace';
+
+/** All samples of one design layer, with τ = deposition time since the layer's start. */
+export interface LayerSamples {
+  layer: number;
+  chip: number;
+  /** Sample indices into the trace. */
+  indices: Int32Array;
+  /** Deposition time since the layer's start; pauses between runs of a paused layer are removed. */
+  tauS: Float64Array;
+  startTimeS: number;
+  endTimeS: number;
+  runs: number;
+}
+
+/** Gathers the segments of each layer (a paused layer has several) into one sample set. */
+export function gatherLayerSamples(trace: TraceData, segments: readonly Segment[]): Map<number, LayerSamples> {
+  const byLayer = new Map<number, Segment[]>();
+  for (const s of segments) {
+    const list = byLayer.get(s.layer) ?? [];
+    list.push(s);
+    byLayer.set(s.layer, list);
+  }
+  const out = new Map<number, LayerSamples>();
+  const t = trace.timeS;
+  for (const [layer, segs] of byLayer) {
+    segs.sort((a, b) => a.startIndex - b.startIndex);
+    let count = 0;
+    for (const s of segs) count += s.endIndex - s.startIndex;
+    const indices = new Int32Array(count);
+    const tauS = new Float64Array(count);
+    let k = 0, tauEnd = 0;
+    for (let si = 0; si < segs.length; si++) {
+      const s = segs[si];
+      // A resumed run continues one sample step after the previous run's end.
+      const step = s.endIndex - s.startIndex > 1 ? t[s.startIndex + 1] - t[s.startIndex] : 0;
+      const base = si === 0 ? 0 : tauEnd + step;
+      for (let i = s.startIndex; i < s.endIndex; i++) {
+        indices[k] = i;
+        tauS[k] = base + (t[i] - t[s.startIndex]);
+        k++;
+      }
+      tauEnd = tauS[k - 1];
+    }
+    out.set(layer, {
+      layer, chip: segs[0].chip, indices, tauS, startTimeS: t[segs[0].startIndex],
+      endTimeS: t[segs[segs.length - 1].endIndex - 1], runs: segs.length,
+    });
+  }
+  return out;
+}

@@ -1,0 +1,42 @@
+import { type Design, designSpectrum, spectrumOfStack } from '../design';
+import { indexDrift } from '../stats';
+import { type ChipCalibration } from './calibrateChip';
+import { type AnalysisMode, type AnalysisResult, type LayerResult, type ToolingCheck } from './types';
+
+/** Run-level figures: index drift per material, tooling check, as-built against design spectrum. */
+export function runSummary(
+  design: Design, mode: AnalysisMode, segmentsInferred: boolean, layers: LayerResult[], chips: ChipCalibration[],
+  warnings: string[], range: { fromNm: number; toNm: number; stepNm: number },
+): AnalysisResult {
+  const drift = indexDrift(layers.map((l) => ({
+    layer: l.layer, material: l.material, timeS: l.startTimeS, indexDeviation: l.indexDeviation, indexSigma: l.indexSigma, indexHeld: l.indexHeld,
+  })));
+  const tooling: ToolingCheck[] = [];
+  const byMaterial = new Map<string, LayerResult[]>();
+  for (const l of layers) {
+    if (l.opticalToCrystalRatio === null) continue;
+    byMaterial.set(l.material, [...(byMaterial.get(l.material) ?? []), l]);
+  }
+  for (const [material, list] of byMaterial) {
+    const r = list.map((l) => l.opticalToCrystalRatio!);
+    const mean = r.reduce((a, b) => a + b, 0) / r.length;
+    const sd = r.length > 1 ? Math.sqrt(r.reduce((a, b) => a + (b - mean) ** 2, 0) / (r.length - 1)) : NaN;
+    tooling.push({ material, layers: list.map((l) => l.layer), meanRatio: mean, ratioSigma: sd });
+  }
+  const byLayer = new Map(layers.map((l) => [l.layer, l]));
+  let built = 0;
+  for (const l of layers) built = Math.max(built, l.layer);
+  const asBuilt = design.layers.slice(0, built).map((dl) => {
+    const l = byLayer.get(dl.layer);
+    return l ? { thicknessNm: l.thicknessNm, indexScale: l.index / l.nominalIndex } : { thicknessNm: dl.thicknessNm };
+  });
+  const designSpec = designSpectrum(design, range);
+  const builtSpec = spectrumOfStack(design, asBuilt, range);
+  const runWarnings = [...warnings];
+  for (const l of layers) for (const w of l.warnings) if (!w.startsWith('index held')) runWarnings.push(`layer ${l.layer}: ${w}`);
+  return {
+    format: 'fringelog.analysis/1', mode, design: design.name, segmentsInferred, layers, chips, indexDrift: drift, tooling,
+    spectrum: { wavelengthNm: designSpec.wavelengthNm, designR: designSpec.R, designT: designSpec.T, asBuiltR: builtSpec.R, asBuiltT: builtSpec.T },
+    warnings: runWarnings,
+  };
+}

@@ -1,0 +1,111 @@
+import { type MaterialDrift } from '../stats';
+import { type ChipCalibration } from './calibrateChip';
+
+export type AnalysisMode = 'sequential' | 'refit';
+
+export interface AnalyzeOptions {
+  /** @default 'sequential' */
+  mode?: AnalysisMode;
+  /** Most samples per layer used in the iterations (uniform in time); residuals use all. @default 2000 */
+  maxFitPoints?: number;
+  /** Samples per layer in the joint re-fit after each layer (refit mode). @default 400 */
+  refitPointsPerLayer?: number;
+  /** Samples in all, shared by the chip's layers (each at most maxFitPoints), in the final joint fit. @default 16000 */
+  refitFinalPoints?: number;
+  /**
+   * 'per-layer': each layer fits its own gain (follows lamp/detector drift); 'chip': the gain of
+   * the chip's bare-chip calibration is held for all its layers. @default 'per-layer'
+   */
+  gain?: 'per-layer' | 'chip';
+  /** Layers below this many quarter-waves at the monitor wavelength get a held index. @default 0.5 */
+  thinLayerQwot?: number;
+  /** The index a thin layer is held at: the nominal, or this run's drift estimate. @default 'run-drift' */
+  heldIndex?: 'nominal' | 'run-drift';
+  /** Residual RMS above this multiple of the noise draws a warning. @default 2 */
+  residualWarnFactor?: number;
+  /** |cut error| above this (% QWOT) draws a warning. @default 2 */
+  cutErrorWarnPct?: number;
+  /** Wavelength range of the as-built spectrum. @default { fromNm: 400, toNm: 800, stepNm: 2 } */
+  spectrum?: { fromNm: number; toNm: number; stepNm: number };
+  /** Called after each layer's fit. */
+  onProgress?: (layersDone: number, layerCount: number) => void;
+}
+
+export interface TurningPointAt {
+  timeS: number;
+  /** Modelled signal, fraction 0–1. */
+  signal: number;
+  kind: 'max' | 'min';
+  thicknessNm: number;
+}
+
+export interface LayerResult {
+  layer: number;
+  material: string;
+  chip: number;
+  wavelengthNm: number;
+  mode: 'R' | 'T';
+  cut: 'turning-point' | 'level';
+  designThicknessNm: number;
+  /** QWOT of the design layer at the design's reference wavelength. */
+  qwot: number;
+  /** Deposited optical thickness in quarter-waves at the monitor wavelength. */
+  qwotDeposited: number;
+  thicknessNm: number;
+  thicknessSigmaNm: number;
+  /** Real index at the monitor wavelength. */
+  index: number;
+  indexSigma: number;
+  nominalIndex: number;
+  /** index − nominalIndex. */
+  indexDeviation: number;
+  indexHeld: boolean;
+  rateNmPerS: number;
+  rateSigmaNmPerS: number;
+  rateDriftNmPerS2: number;
+  rateDriftSigmaNmPerS2: number;
+  /** Detector gain during the layer (per-layer refinement of the chip calibration). */
+  gain: number;
+  /** (n·d − n_design·d_design)/(λ/4)·100 at the monitor wavelength, n_design the nominal index. */
+  cutErrorQwotPct: number;
+  cutErrorSigmaQwotPct: number;
+  /** RMS of (reading − model)/gain over all the layer's samples: fraction of full scale. */
+  residualRms: number;
+  /** residualRms over the chip's noise σ (≈ 1 for a good fit). */
+  residualToNoise: number;
+  startTimeS: number;
+  /** When the layer was cut: its last sample. */
+  cutTimeS: number;
+  /** When it should have been cut, from the fitted d(t): the modelled turning point (turning-point cut) or the target optical thickness (level cut); extrapolated beyond the data if need be. */
+  idealCutTimeS: number | null;
+  lastTurningPoint: TurningPointAt | null;
+  /** The crystal's reading at the layer's end, where the trace has crystal_nm. */
+  crystalNm: number | null;
+  /** thicknessNm / crystalNm (tooling-factor check). */
+  opticalToCrystalRatio: number | null;
+  sampleCount: number;
+  fitPoints: number;
+  iterations: number;
+  converged: boolean;
+  warnings: string[];
+}
+
+export interface ToolingCheck {
+  material: string;
+  layers: number[];
+  meanRatio: number;
+  ratioSigma: number;
+}
+
+export interface AnalysisResult {
+  format: 'fringelog.analysis/1';
+  mode: AnalysisMode;
+  design: string;
+  segmentsInferred: boolean;
+  layers: LayerResult[];
+  chips: ChipCalibration[];
+  indexDrift: MaterialDrift[];
+  tooling: ToolingCheck[];
+  spectrum: { wavelengthNm: Float64Array; designR: Float64Array; designT: Float64Array; asBuiltR: Float64Array; asBuiltT: Float64Array };
+  warnings: string[];
+}

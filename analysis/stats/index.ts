@@ -1,0 +1,2 @@
+export * from './linearTrend';
+export * from './indexDrift';

@@ -1,0 +1,4 @@
+export * from './prng';
+export * from './types';
+export * from './synthesizeRun';
+export * from './traceCsv';
