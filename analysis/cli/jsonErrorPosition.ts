@@ -31,7 +31,12 @@ export function jsonErrorPosition(text: string): number {
         i++;
         const e = text[i];
         if (e === 'u') {
-          for (let k = 1; k <= 4; k++) if (!/[0-9a-fA-F]/.test(text[i + k] ?? '')) ((i += k), fail());
+          for (let k = 1; k <= 4; k++) {
+            if (!/[0-9a-fA-F]/.test(text[i + k] ?? '')) {
+              i += k;
+              fail();
+            }
+          }
           i += 5;
         } else if (e !== undefined && '"\\/bfnrt'.includes(e)) i++;
         else fail();
