@@ -42,6 +42,30 @@ describe('quarter-wave reflector (HL)^p H (Macleod, Thin-Film Optical Filters, c
     expect(bisect(1, 1.5)).toBeCloseTo(1 + dg, 9);
   });
 
+  it('the half-reflectance edges of the computed spectrum close in on g = 1 ± Δg as the stack grows (to 0.5 % of Δg at p = 80)', () => {
+    const dg = (2 / Math.PI) * Math.asin((nH - nL) / (nH + nL));
+    const edge = (p: number, dir: 1 | -1) => {
+      const s = stackOf(p);
+      const R = (g: number) => stackResponse(s, wl / g).R - 0.5;
+      // walk out from well inside the band (R > 0.999 at 0.9 Δg, next test) to the first drop
+      // below 50 %, in steps finer than the narrow first side-lobe dip of long stacks; bisect that step
+      const step = dir * 1e-4 * dg;
+      let a = 1 + 0.9 * dir * dg;
+      while (R(a + step) > 0) a += step;
+      let b = a + step;
+      for (let i = 0; i < 40; i++) {
+        const c = (a + b) / 2;
+        if (R(c) > 0) a = c;
+        else b = c;
+      }
+      return Math.abs((a + b) / 2 - 1) / dg;
+    };
+    const excess = [15, 25, 40, 80].map((p) => edge(p, 1) - 1);
+    for (let i = 1; i < excess.length; i++) expect(excess[i]).toBeLessThan(excess[i - 1]);
+    expect(Math.abs(edge(80, 1) - 1)).toBeLessThan(0.005);
+    expect(Math.abs(edge(80, -1) - 1)).toBeLessThan(0.005);
+  });
+
   it('the computed reflectance of a 25-period stack is high inside g = 1 ± Δg and falls outside', () => {
     const dg = (2 / Math.PI) * Math.asin((nH - nL) / (nH + nL));
     const s = stackOf(25);
