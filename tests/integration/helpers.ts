@@ -1,6 +1,6 @@
 import { expect } from 'vitest';
 import { listCaughtMail } from '@/db/queries/mail';
-import { demoUsers } from '@/db/seed/demo';
+import { demoUsers } from '@/db/seed/demoData';
 import type { Role } from '@/db/schema';
 import { signIn } from '@/app/(auth)/sign-in/actions';
 import { CookieJar, useJar } from '../helpers/cookieJar';

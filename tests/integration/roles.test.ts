@@ -9,7 +9,7 @@ import { signIn } from '@/app/(auth)/sign-in/actions';
 import { changeRole, inviteUser, resendInvite, setActive } from '@/app/(app)/admin/users/actions';
 import { changePassword } from '@/app/(app)/account/actions';
 import AppLayout from '@/app/(app)/layout';
-import HomePage from '@/app/(app)/page';
+import HomePage from '@/app/(app)/(home)/page';
 import AccountPage from '@/app/(app)/account/page';
 import UsersPage from '@/app/(app)/admin/users/page';
 import MailPage from '@/app/(app)/admin/mail/page';
