@@ -1,5 +1,5 @@
 import 'server-only';
-import { desc, eq } from 'drizzle-orm';
+import { and, desc, eq, sql } from 'drizzle-orm';
 import { alias } from 'drizzle-orm/pg-core';
 import { db } from '../client';
 import { auditEvents, users } from '../schema';
@@ -10,6 +10,8 @@ export type AuditRow = {
   actorName: string | null;
   actorEmail: string | null;
   action: string;
+  /** The user acted on, when the target is a user. */
+  targetName: string | null;
   targetType: string;
   targetId: string | null;
   detail: Record<string, unknown>;
@@ -21,6 +23,7 @@ export async function recordAudit(actorId: number | null, action: string, target
 
 export async function listAudit(limit = 200): Promise<AuditRow[]> {
   const actor = alias(users, 'actor');
+  const target = alias(users, 'target');
   return db()
     .select({
       id: auditEvents.id,
@@ -28,12 +31,14 @@ export async function listAudit(limit = 200): Promise<AuditRow[]> {
       actorName: actor.name,
       actorEmail: actor.email,
       action: auditEvents.action,
+      targetName: target.name,
       targetType: auditEvents.targetType,
       targetId: auditEvents.targetId,
       detail: auditEvents.detail,
     })
     .from(auditEvents)
     .leftJoin(actor, eq(actor.id, auditEvents.actorId))
+    .leftJoin(target, and(eq(auditEvents.targetType, 'user'), eq(sql`${target.id}::text`, auditEvents.targetId)))
     .orderBy(desc(auditEvents.at), desc(auditEvents.id))
     .limit(limit);
 }

@@ -77,6 +77,25 @@ for (const role of ['operator', 'engineer', 'supervisor', 'admin']) {
   });
 }
 
+const pageAccess: Record<string, string[]> = {
+  operator: ['/', '/account'],
+  engineer: ['/', '/account'],
+  supervisor: ['/', '/account', '/audit'],
+  admin: ['/', '/account', '/audit', '/admin/users', '/admin/mail'],
+};
+const allPages = ['/', '/account', '/audit', '/admin/users', '/admin/mail'];
+
+test('over HTTP, each role gets 200 on its pages and 403 on the others', async (page, context) => {
+  for (const role of Object.keys(pageAccess)) {
+    await context.clearCookies();
+    await signInAs(page, role);
+    for (const p of allPages) {
+      const res = await page.request.get(`${baseUrl}${p}`, { maxRedirects: 0 });
+      assertEqual(res.status(), pageAccess[role].includes(p) ? 200 : 403, `${role} GET ${p}`);
+    }
+  }
+});
+
 test('operator gets the 403 page on admin pages', async (page) => {
   await signInAs(page, 'operator');
   for (const p of ['/admin/users', '/admin/mail', '/audit']) {

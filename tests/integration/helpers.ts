@@ -76,3 +76,13 @@ export function uniqueEmail(prefix: string): string {
   counter += 1;
   return `${prefix}-${Date.now().toString(36)}-${counter}@larkspur.example`;
 }
+
+/** The text a server component tree renders, collected without a DOM. */
+export function textOf(node: unknown): string {
+  if (node === null || node === undefined || typeof node === 'boolean') return '';
+  if (typeof node === 'string' || typeof node === 'number') return String(node);
+  if (Array.isArray(node)) return node.map(textOf).join('');
+  const el = node as { props?: Record<string, unknown> };
+  if (!el.props) return '';
+  return [textOf(el.props.children), ...Object.entries(el.props).filter(([k]) => ['email', 'title'].includes(k)).map(([, v]) => textOf(v))].join(' ');
+}

@@ -9,21 +9,11 @@ import { requestPasswordReset } from '@/app/(auth)/reset-password/actions';
 import { setPasswordWithToken } from '@/app/(auth)/set-password/actions';
 import SetPasswordPage from '@/app/(auth)/set-password/page';
 import { useJar } from '../helpers/cookieJar';
-import { anonymous, demo, form, interruptOf, lastMailId, linkIn, signInAs, signInDemo, uniqueEmail, waitForMail } from './helpers';
+import { anonymous, demo, form, interruptOf, lastMailId, linkIn, signInAs, signInDemo, textOf, uniqueEmail, waitForMail } from './helpers';
 
 afterAll(async () => {
   await closeDb();
 });
-
-/** The text a server component tree renders, collected without a DOM. */
-function textOf(node: unknown): string {
-  if (node === null || node === undefined || typeof node === 'boolean') return '';
-  if (typeof node === 'string' || typeof node === 'number') return String(node);
-  if (Array.isArray(node)) return node.map(textOf).join('');
-  const el = node as { props?: Record<string, unknown> };
-  if (!el.props) return '';
-  return [textOf(el.props.children), ...Object.entries(el.props).filter(([k]) => ['email', 'title'].includes(k)).map(([, v]) => textOf(v))].join(' ');
-}
 
 async function setPasswordPageText(token: string): Promise<string> {
   return textOf(await SetPasswordPage({ searchParams: Promise.resolve({ token }) }));

@@ -16,7 +16,8 @@ import MailPage from '@/app/(app)/admin/mail/page';
 import AuditPage from '@/app/(app)/audit/page';
 import { GET as health } from '@/app/api/health/route';
 import { useJar } from '../helpers/cookieJar';
-import { anonymous, demo, form, interruptOf, signInAs, signInDemo, uniqueEmail } from './helpers';
+import { anonymous, demo, form, interruptOf, signInAs, signInDemo, textOf, uniqueEmail } from './helpers';
+import { signOut } from '@/app/(app)/actions';
 
 afterAll(async () => {
   await closeDb();
@@ -52,6 +53,21 @@ describe('pages, for each role', () => {
         expect(await interruptOf(page.render)).toEqual(page.allowed(role) ? 'returned' : { kind: 'http', status: 403 });
       });
     }
+  }
+});
+
+describe('own-account actions, for each role', () => {
+  for (const role of roles) {
+    it(`${role} may change their own password (and back) and sign out`, async () => {
+      const u = demo(role);
+      await signInDemo(role);
+      const temporary = `${role}-temporary-9`;
+      expect(await changePassword(null, form({ current: u.password, password: temporary, confirm: temporary }))).toEqual({ ok: true, data: undefined });
+      expect(await changePassword(null, form({ current: temporary, password: u.password, confirm: u.password }))).toEqual({ ok: true, data: undefined });
+      expect((await currentUser())?.email).toBe(u.email);
+      expect(await interruptOf(() => signOut())).toEqual({ kind: 'redirect', location: '/sign-in?notice=signed-out' });
+      expect(await currentUser()).toBeNull();
+    });
   }
 });
 
@@ -113,6 +129,10 @@ describe('user-management actions, for each role', () => {
       { email: op.email, from: 'supervisor', to: 'operator' },
       { email: op.email, from: 'operator', to: 'supervisor' },
     ]);
+    const page = textOf(await AuditPage());
+    expect(page).toContain(`${demo('admin').name} changed the role of ${op.name}`);
+    expect(page).toContain('Chamber operator → Supervisor');
+    expect(page).toContain('Supervisor → Chamber operator');
   });
 
   it('deactivation ends the user’s session and blocks sign-in with a clear message; reactivation restores it', async () => {

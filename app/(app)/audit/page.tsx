@@ -1,14 +1,53 @@
 import type { Metadata } from 'next';
 import { PageHeader, Panel, formatTime } from '@/components/ui/Page';
-import { listAudit } from '@/db/queries/audit';
+import { listAudit, type AuditRow } from '@/db/queries/audit';
 import { requireCapability } from '@/app/_lib/auth';
+import { roleLabels, type Role } from '@/app/_lib/capabilities';
 
 export const metadata: Metadata = { title: 'Audit log' };
 
-function describe(detail: Record<string, unknown>): string {
-  return Object.entries(detail)
+const verbs: Record<string, string> = {
+  'user.invited': 'invited',
+  'user.invite_resent': 'sent a new invitation link to',
+  'user.invite_accepted': 'accepted the invitation of',
+  'user.role_changed': 'changed the role of',
+  'user.deactivated': 'deactivated',
+  'user.reactivated': 'reactivated',
+  'user.password_changed': 'changed the password of',
+  'user.reset_requested': 'received a password-reset request for',
+  'user.password_reset': 'reset the password of',
+};
+
+/** Phrases for what people do to their own account. */
+const ownVerbs: Record<string, string> = {
+  'user.invite_accepted': 'accepted the invitation and chose a password',
+  'user.password_changed': 'changed their password',
+  'user.password_reset': 'set a new password through a reset link',
+};
+
+function role(value: unknown): string {
+  return typeof value === 'string' && value in roleLabels ? roleLabels[value as Role] : String(value);
+}
+
+function details(e: AuditRow): string {
+  const d = e.detail;
+  if (e.action === 'user.role_changed') return `${role(d.from)} → ${role(d.to)}`;
+  if (e.action === 'user.invited') return `as ${role(d.role)}, ${String(d.email)}`;
+  return Object.entries(d)
     .map(([k, v]) => `${k}: ${typeof v === 'string' ? v : JSON.stringify(v)}`)
     .join(' · ');
+}
+
+function sentence(e: AuditRow): React.ReactNode {
+  const actor = <span className="font-medium">{e.actorName ?? 'Fringelog'}</span>;
+  const own = e.targetType === 'user' && e.actorName !== null && e.actorName === e.targetName;
+  if (own && ownVerbs[e.action]) return <>{actor} {ownVerbs[e.action]}</>;
+  const target = e.targetType === 'user' && e.targetName ? e.targetName : `${e.targetType}${e.targetId ? ` #${e.targetId}` : ''}`;
+  return (
+    <>
+      {actor} {verbs[e.action] ?? e.action} <span className="font-medium">{target}</span>
+    </>
+  );
 }
 
 export default async function AuditPage() {
@@ -25,21 +64,18 @@ export default async function AuditPage() {
             <thead className="text-xs uppercase tracking-wider text-ink-faint">
               <tr>
                 <th className="pb-2 font-medium">When</th>
-                <th className="pb-2 font-medium">Who</th>
-                <th className="pb-2 font-medium">What</th>
+                <th className="pb-2 font-medium">What happened</th>
                 <th className="pb-2 font-medium">Details</th>
+                <th className="pb-2 font-medium">Event</th>
               </tr>
             </thead>
             <tbody className="divide-y divide-paper-line">
               {events.map((e) => (
-                <tr key={e.id}>
-                  <td className="py-2 pr-4 font-mono text-xs whitespace-nowrap">{formatTime(e.at)}</td>
-                  <td className="py-2 pr-4">{e.actorName ?? <span className="text-ink-faint">system</span>}</td>
-                  <td className="py-2 pr-4 font-mono text-xs">
-                    {e.action} {e.targetType}
-                    {e.targetId ? ` #${e.targetId}` : ''}
-                  </td>
-                  <td className="py-2 text-ink-soft">{describe(e.detail)}</td>
+                <tr key={e.id} data-audit-action={e.action}>
+                  <td className="py-2 pr-4 font-mono text-xs whitespace-nowrap text-ink-soft">{formatTime(e.at)}</td>
+                  <td className="py-2 pr-4">{sentence(e)}</td>
+                  <td className="py-2 pr-4 text-ink-soft">{details(e)}</td>
+                  <td className="py-2 font-mono text-xs text-ink-faint">{e.action}</td>
                 </tr>
               ))}
             </tbody>
