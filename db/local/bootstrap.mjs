@@ -169,14 +169,18 @@ export async function startPostgres(pgBin) {
   ensurePostgresUser();
   ensureTraversable(dataDir);
   const sockDir = socketDir();
-  fs.mkdirSync(sockDir, { recursive: true });
+  fs.mkdirSync(sockDir, { recursive: true, mode: 0o700 });
+  fs.chmodSync(sockDir, 0o700);
   chownToPg(sockDir);
   if (!fs.existsSync(path.join(pgData, 'PG_VERSION'))) {
     log(`initdb ${path.relative(root, pgData)}`);
     fs.mkdirSync(pgData, { recursive: true, mode: 0o700 });
     fs.chmodSync(pgData, 0o700);
     chownToPg(pgData);
-    asPg(path.join(pgBin, 'initdb'), ['-D', pgData, '-U', 'postgres', '--auth-local=peer', '--auth-host=scram-sha-256', '-E', 'UTF8', '--locale=C.UTF-8']);
+    // As root the server runs as `postgres` and local (socket) connections use peer auth. As an
+    // ordinary user the socket sits in the 0700 .data/run folder, so only that user can reach it.
+    const authLocal = isRoot ? 'peer' : 'trust';
+    asPg(path.join(pgBin, 'initdb'), ['-D', pgData, '-U', 'postgres', `--auth-local=${authLocal}`, '--auth-host=scram-sha-256', '-E', 'UTF8', '--locale=C.UTF-8']);
   }
   if (!fs.existsSync(pgLog)) fs.writeFileSync(pgLog, '');
   chownToPg(pgLog);
@@ -193,7 +197,7 @@ export async function startPostgres(pgBin) {
     log(`PostgreSQL already running on 127.0.0.1:${pgPort}`);
   }
   const psql = (sql, db = 'postgres') =>
-    asPg(path.join(pgBin, 'psql'), ['-h', sockDir, '-p', String(pgPort), '-d', db, '-v', 'ON_ERROR_STOP=1', '-tAc', sql]).stdout.trim();
+    asPg(path.join(pgBin, 'psql'), ['-h', sockDir, '-p', String(pgPort), '-U', 'postgres', '-d', db, '-v', 'ON_ERROR_STOP=1', '-tAc', sql]).stdout.trim();
   return {
     startedHere,
     psql,
