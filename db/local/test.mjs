@@ -111,7 +111,11 @@ if (fs.existsSync(vitestJson)) {
   unit = { passed: r.numPassedTests, failed: r.numFailedTests + broken };
 }
 const passed = unit.passed + browser.passed;
-const failed = unit.failed + browser.failed;
+// A failed step with no failed test to show for it (lint, types, a crash) still counts as one.
+const uncounted = failures.filter(
+  (f) => !(f.startsWith('vitest') && unit.failed > 0) && !(f.startsWith('browser') && browser.failed > 0) && !f.startsWith('next build'),
+).length;
+const failed = unit.failed + browser.failed + uncounted;
 console.log('');
 console.log(`vitest: ${unit.passed} passed, ${unit.failed} failed · browser: ${browser.passed} passed, ${browser.failed} failed`);
 if (failures.length) console.log(`failed steps: ${failures.join(', ')}`);
