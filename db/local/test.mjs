@@ -113,7 +113,7 @@ if (fs.existsSync(vitestJson)) {
 const passed = unit.passed + browser.passed;
 // A failed step with no failed test to show for it (lint, types, a crash) still counts as one.
 const uncounted = failures.filter(
-  (f) => !(f.startsWith('vitest') && unit.failed > 0) && !(f.startsWith('browser') && browser.failed > 0) && !f.startsWith('next build'),
+  (f) => !(f.startsWith('vitest') && unit.failed > 0) && !(f.startsWith('browser') && browser.failed > 0),
 ).length;
 const failed = unit.failed + browser.failed + uncounted;
 console.log('');
