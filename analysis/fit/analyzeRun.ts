@@ -2,9 +2,9 @@ import { type Design, type DesignLayer } from '../design';
 import { indexAt } from '../materials';
 import { fromNK, growingLayerSignal, type Complex } from '../optics';
 import { driftEstimateAt, type IndexPoint } from '../stats';
-import { segmentTrace, type TraceData } from '../trace';
+import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { calibrateChip, type ChipCalibration } from './calibrateChip';
-import { fitLayers, type LayerEstimate } from './fitLayers';
+import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
@@ -30,6 +30,15 @@ export interface LayerState {
   wellDetermined: boolean;
   heldNote: string | null;
   calibration: ChipCalibration;
+  /** Design optical thickness in quarter-waves at the monitor wavelength. */
+  qwotAtMonitor: number;
+}
+
+function heldNoteFor(held: number, nominal: number, from: number, qwot: number, wl: number, wholeRun: boolean): string {
+  const basis = from > 0
+    ? `nominal ${nominal.toFixed(4)} + the drift estimate from ${from} fitted layer${from > 1 ? 's' : ''} of ${wholeRun ? 'the whole run' : 'this run so far'}`
+    : "the material's nominal";
+  return `index held at ${held.toFixed(4)} (${basis}): the layer is ${qwot.toFixed(2)} QWOT at ${wl} nm, too thin to separate index from thickness; thickness only`;
 }
 
 export const ANALYZE_DEFAULTS = {
@@ -37,10 +46,11 @@ export const ANALYZE_DEFAULTS = {
   maxFitPoints: 2000,
   refitPointsPerLayer: 400,
   refitFinalPoints: 16000,
-  gain: 'per-layer',
+  gain: 'chip',
+  gainDrift: false,
   thinLayerQwot: 0.5,
   heldIndex: 'run-drift',
-  residualWarnFactor: 2,
+  residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
   spectrum: { fromNm: 400, toNm: 800, stepNm: 2 },
 } as const;
@@ -70,8 +80,11 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const missing = design.layers.filter((l) => !samplesByLayer.has(l.layer)).map((l) => l.layer);
   if (missing.length) warnings.push(`no samples for design layer${missing.length > 1 ? 's' : ''} ${missing.join(', ')}`);
 
+  const noiseFloor = idleNoise(trace, seg.idle);
   const chipLayers = new Map<number, LayerState[]>();
   const calibrations = new Map<number, ChipCalibration>();
+  /** Chip-wide gain G·(1 + γ·t), t from the chip's first layer start (gain mode 'chip'). */
+  const chipGain = new Map<number, { gain: number; driftPerS: number; startS: number; fitDrift: boolean }>();
   const states: LayerState[] = [];
   let done = 0;
   for (const dl of order) {
@@ -97,7 +110,10 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       });
       if (calibration.source === 'first-layer') warnings.push(`chip ${chip}: no bare-chip stretch before layer ${dl.layer}; gain taken from the layer's first samples`);
       calibrations.set(chip, calibration);
+      chipGain.set(chip, { gain: calibration.gain, driftPerS: 0, startS: samples.startTimeS, fitDrift: o.gainDrift });
     }
+    const cg = chipGain.get(chip)!;
+    const chipTimeS = samples.startTimeS - cg.startS;
 
     const memo = new Map<number, Complex>();
     const model = design.materials[dl.material];
@@ -114,16 +130,21 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const points: IndexPoint[] = states.map(toIndexPoint);
       const drift = o.heldIndex === 'run-drift' ? driftEstimateAt(points, dl.material, samples.startTimeS) : null;
       heldIndex = nominal.re + (drift?.deviation ?? 0);
-      heldNote = `index held at ${heldIndex.toFixed(4)} (${drift ? `nominal ${nominal.re.toFixed(4)} + this run's drift estimate from ${drift.from} layer${drift.from > 1 ? 's' : ''}` : 'the material\'s nominal'}): the layer is ${qwotAtMonitor.toFixed(2)} QWOT at ${wl} nm, too thin to separate index from thickness; thickness only`;
+      heldNote = heldNoteFor(heldIndex, nominal.re, drift?.from ?? 0, qwotAtMonitor, wl, false);
     }
     const n = samples.tauS.length;
+    if (n < 10) {
+      warnings.push(`layer ${dl.layer}: only ${n} samples; not fitted`);
+      continue;
+    }
     const durationS = samples.tauS[n - 1];
+    let state: LayerState | undefined;
     const make = (maxPoints: number): FitLayerData => {
       const sub = subsampleUniform(samples.tauS, 0, n, maxPoints);
       return {
         optics, nominalAt, tauS: pick(samples.tauS, sub), y: pick(trace.signal, sub, samples.indices), durationS,
-        extinction: -nominal.im, heldIndex, fitDrift: !held,
-        heldGain: o.gain === 'chip' && calibration.source === 'bare-chip' ? calibration.gain : null,
+        extinction: -nominal.im, heldIndex: state?.fit.heldIndex ?? heldIndex, fitDrift: !held,
+        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS,
       };
     };
     const fit = make(o.maxFitPoints);
@@ -137,32 +158,59 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       fixedBelow: below, layers: [fit], offsetSignal: calibration.offset,
       start: [{ index: sv.index, rateNmPerS: sv.rateNmPerS, rateDriftNmPerS2: 0, gain: fit.heldGain ?? sv.gain }],
     });
-    const state: LayerState = {
-      design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
+    state = {
+      qwotAtMonitor, design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
       converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration,
     };
-    prior.push(state);
+    prior.push(state!);
     chipLayers.set(chip, prior);
-    states.push(state);
-    if (o.mode === 'refit' && prior.length > 1) refitChip(prior.map((p) => p.refit), prior, calibration.offset, false);
+    states.push(state!);
+    if (o.mode === 'refit' && (prior.length > 1 || o.gain === 'chip')) {
+      refitChip(prior.map((p) => p.refit), prior, calibration.offset, false, o.gain === 'chip' ? cg : null);
+    }
     done++;
     o.onProgress?.(done, order.length);
     if (done % 4 === 0) await Promise.resolve();
   }
 
   if (o.mode === 'refit') {
-    for (const chipStates of chipLayers.values()) {
-      if (chipStates.length < 2) continue;
+    // Thin layers: hold at the drift estimate from the whole run, then one final joint fit per chip.
+    const points = states.map(toIndexPoint);
+    for (const s of states) {
+      if (s.fit.heldIndex === null || o.heldIndex !== 'run-drift') continue;
+      const drift = driftEstimateAt(points, s.design.material, s.samples.startTimeS);
+      if (!drift) continue;
+      const held = s.nominal.re + drift.deviation;
+      s.heldNote = heldNoteFor(held, s.nominal.re, drift.from, s.qwotAtMonitor, s.optics.wavelengthNm, true);
+      s.fit.heldIndex = held;
+      s.estimate = { ...s.estimate, index: held };
+    }
+    for (const [chip, chipStates] of chipLayers) {
       const perLayer = Math.max(100, Math.min(o.maxFitPoints, Math.floor(o.refitFinalPoints / chipStates.length)));
-      refitChip(chipStates.map((p) => p.make(perLayer)), chipStates, chipStates[0].calibration.offset, true);
+      const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
+      const shared = refitChip(chipStates.map((p) => p.make(perLayer)), chipStates, chipStates[0].calibration.offset, true, cg);
+      const cal = calibrations.get(chip)!;
+      if (shared) {
+        cal.refinedGain = shared.gain;
+        cal.refinedGainSigma = shared.gainSigma;
+        if (o.gainDrift) {
+          cal.gainDriftPerHour = shared.driftPerS * 3600;
+          cal.gainDriftSigmaPerHour = shared.driftSigmaPerS * 3600;
+        }
+      }
     }
   }
 
-  const layers = states.map((s) => {
+  const belowOf = (s: LayerState) => {
     const chipStates = chipLayers.get(s.samples.chip)!;
-    const below = chipStates.slice(0, chipStates.indexOf(s)).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));
-    return layerResult(s, below, trace, o);
-  });
+    return chipStates.slice(0, chipStates.indexOf(s)).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));
+  };
+  // Noise reference: the idle stretches when they are long enough, else the run's typical layer residual.
+  let reference = noiseFloor.samples >= 1000 ? noiseFloor.sigma : null;
+  if (reference === null && states.length >= 3) {
+    reference = median(states.map((s) => layerResult(s, belowOf(s), trace, 1, o).residualRms * s.estimate.gain));
+  }
+  const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o));
   return runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum);
 }
 
@@ -174,11 +222,18 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
  * Eurasian J. Math. Comput. Appl. 9(4), 89–99 (2021); the name "triangular algorithm" from
  * memory, after Tikhonravov and Trubetskov's papers on on-line re-engineering).
  */
-export function refitChip(data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean): void {
+export function refitChip(
+  data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean,
+  chipGain: { gain: number; driftPerS: number; fitDrift: boolean } | null,
+): JointFitResult['sharedGain'] {
   const joint = fitLayers(
-    { fixedBelow: [], layers: data, start: chipStates.map((s) => s.estimate), offsetSignal },
+    { fixedBelow: [], layers: data, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) },
     final ? {} : { iterationsPerRound: 4, maxRounds: 2 },
   );
+  if (chipGain && joint.sharedGain) {
+    chipGain.gain = joint.sharedGain.gain;
+    chipGain.driftPerS = joint.sharedGain.driftPerS;
+  }
   chipStates.forEach((s, j) => {
     s.estimate = joint.layers[j];
     if (final) {
@@ -188,6 +243,7 @@ export function refitChip(data: FitLayerData[], chipStates: LayerState[], offset
       s.fitPoints = data[j].tauS.length;
     }
   });
+  return joint.sharedGain;
 }
 
 export function toIndexPoint(s: LayerState): IndexPoint {
@@ -195,4 +251,21 @@ export function toIndexPoint(s: LayerState): IndexPoint {
     layer: s.design.layer, material: s.design.material, timeS: s.samples.startTimeS,
     indexDeviation: s.estimate.index - s.nominal.re, indexSigma: s.estimate.indexSigma, indexHeld: s.fit.heldIndex !== null,
   };
+}
+
+/**
+ * White-noise σ of the detector from every idle stretch (second-difference estimator on the
+ * concatenated lit samples; dark samples, below 30 % of the stretch's upper level, left out).
+ * σ is null when the idle stretches hold fewer than 50 lit samples.
+ */
+export function idleNoise(trace: TraceData, idle: readonly { startIndex: number; endIndex: number }[]): { sigma: number | null; samples: number } {
+  const lit: number[] = [];
+  for (const s of idle) {
+    const part = trace.signal.subarray(s.startIndex, s.endIndex);
+    if (part.length < 5) continue;
+    const sorted = Float64Array.from(part).sort();
+    const upper = sorted[Math.floor(0.9 * (sorted.length - 1))];
+    for (const v of part) if (v >= 0.3 * upper) lit.push(v);
+  }
+  return { sigma: lit.length >= 50 ? noiseSigma(lit) : null, samples: lit.length };
 }

@@ -12,6 +12,12 @@ export interface ChipCalibration {
   darkSamples: number;
   /** White-noise σ of the reading, detector units. */
   noiseSigma: number;
+  /** Refit mode with a chip-wide gain: the gain at the chip's first layer start, refined by the joint fit. */
+  refinedGain?: number;
+  refinedGainSigma?: number;
+  /** …and its drift, fraction per hour. */
+  gainDriftPerHour?: number;
+  gainDriftSigmaPerHour?: number;
 }
 
 export interface CalibrationInput {

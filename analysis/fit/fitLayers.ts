@@ -12,6 +12,8 @@ export interface JointFitInput {
   /** Starting values, one per layer. */
   start: readonly LayerParams[];
   offsetSignal: number;
+  /** Fit one gain for all the layers, G·(1 + γ·t) with t from the chip's reference (start values). */
+  sharedGain?: { gain: number; driftPerS: number; fitDrift: boolean };
 }
 
 /** One layer's estimates with 1σ (σ of a held parameter is 0). */
@@ -30,6 +32,8 @@ export interface LayerEstimate extends LayerParams {
 
 export interface JointFitResult {
   layers: LayerEstimate[];
+  /** The chip-wide gain G and its drift γ (per second), when fitted. */
+  sharedGain: { gain: number; gainSigma: number; driftPerS: number; driftSigmaPerS: number } | null;
   solver: LeastSquaresResult;
 }
 
@@ -39,18 +43,31 @@ export interface JointFitResult {
  * layers of a chip: the joint re-fit.
  */
 export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {}): JointFitResult {
-  const { fixedBelow, layers, start, offsetSignal } = input;
-  const layout = paramLayout(layers);
+  const { fixedBelow, layers, start, offsetSignal, sharedGain } = input;
+  const shared = sharedGain !== undefined;
+  const layout = paramLayout(layers, shared, sharedGain?.fitDrift ?? false);
   const p0: number[] = [], scale: number[] = [], min: number[] = [], max: number[] = [];
   layers.forEach((layer, j) => {
     const s = start[j];
-    encodeLayer(layer, s, p0);
+    encodeLayer(layer, s, p0, shared);
     const T = Math.max(layer.durationS, 1e-9);
     const r = Math.abs(s.rateNmPerS);
-    encodeLayer(layer, { index: 0.01, rateNmPerS: 0.005 * r, rateDriftNmPerS2: (0.01 * r) / T, gain: 0.001 * Math.abs(s.gain) }, scale);
-    encodeLayer(layer, { index: 1.0, rateNmPerS: 0.2 * r, rateDriftNmPerS2: -r / T, gain: 0.5 * s.gain }, min);
-    encodeLayer(layer, { index: 4.0, rateNmPerS: 5 * r, rateDriftNmPerS2: r / T, gain: 2 * s.gain }, max);
+    encodeLayer(layer, { index: 0.01, rateNmPerS: 0.005 * r, rateDriftNmPerS2: (0.01 * r) / T, gain: 0.001 * Math.abs(s.gain) }, scale, shared);
+    encodeLayer(layer, { index: 1.0, rateNmPerS: 0.2 * r, rateDriftNmPerS2: -r / T, gain: 0.5 * s.gain }, min, shared);
+    encodeLayer(layer, { index: 4.0, rateNmPerS: 5 * r, rateDriftNmPerS2: r / T, gain: 2 * s.gain }, max, shared);
   });
+  if (sharedGain) {
+    p0.push(sharedGain.gain);
+    scale.push(0.001 * Math.abs(sharedGain.gain));
+    min.push(0.5 * sharedGain.gain);
+    max.push(2 * sharedGain.gain);
+    if (sharedGain.fitDrift) {
+      p0.push(sharedGain.driftPerS);
+      scale.push(1e-7);
+      min.push(-1e-3);
+      max.push(1e-3);
+    }
+  }
   let total = 0;
   for (const l of layers) total += l.y.length;
   const y = new Float64Array(total);
@@ -74,12 +91,12 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
   const np = layout.count;
   const cov = (a: number, b: number) => (a < 0 || b < 0 ? 0 : solver.covariance[a * np + b]);
   const estimates = layers.map((layer, j) => {
-    const v = decodeLayer(layer, solver.params, layout.offsets[j]);
+    const v = decodeLayer(layer, solver.params, layout.offsets[j], layout);
     let i = layout.offsets[j];
     const iN = layer.heldIndex === null ? i++ : -1;
     const iR = i++;
     const iA = layer.fitDrift ? i++ : -1;
-    const iG = layer.heldGain === null ? i : -1;
+    const iG = !shared && layer.heldGain === null ? i : -1;
     const T = layer.durationS;
     // d = r·T + a·T²/2 and n·d; first-order propagation through the covariance
     const gR = T, gA = 0.5 * T * T;
@@ -87,17 +104,32 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
     const varD = gR * gR * cov(iR, iR) + gA * gA * cov(iA, iA) + 2 * gR * gA * cov(iR, iA);
     const varND = v.index * v.index * varD + d * d * cov(iN, iN) + 2 * v.index * d * (gR * cov(iN, iR) + gA * cov(iN, iA));
     const sd = (k: number) => (k < 0 ? 0 : Math.sqrt(Math.max(0, cov(k, k))));
+    let gainSigma = sd(iG);
+    if (shared) {
+      const t = layer.chipTimeS, G = solver.params[layout.shared], kd = layout.sharedDrift;
+      const gamma = kd < 0 ? 0 : solver.params[kd];
+      const a = 1 + gamma * t, b = G * t, k = layout.shared;
+      gainSigma = Math.sqrt(Math.max(0, a * a * cov(k, k) + b * b * cov(kd, kd) + 2 * a * b * cov(k, kd)));
+    }
     return {
       ...v,
       indexSigma: sd(iN),
       rateSigma: sd(iR),
       rateDriftSigma: sd(iA),
-      gainSigma: sd(iG),
+      gainSigma,
       thicknessNm: d,
       thicknessSigmaNm: Math.sqrt(Math.max(0, varD)),
       opticalThicknessNm: v.index * d,
       opticalThicknessSigmaNm: Math.sqrt(Math.max(0, varND)),
     };
   });
-  return { layers: estimates, solver };
+  const k = layout.shared;
+  const sharedResult = shared
+    ? {
+        gain: solver.params[k], gainSigma: solver.sigma[k],
+        driftPerS: layout.sharedDrift < 0 ? 0 : solver.params[layout.sharedDrift],
+        driftSigmaPerS: layout.sharedDrift < 0 ? 0 : solver.sigma[layout.sharedDrift],
+      }
+    : null;
+  return { layers: estimates, sharedGain: sharedResult, solver };
 }

@@ -27,6 +27,8 @@ export interface FitLayerData {
   fitDrift: boolean;
   /** The gain, held (not fitted) when set. */
   heldGain: number | null;
+  /** The layer's start, s after the chip's reference time (for a chip-wide gain with drift). */
+  chipTimeS: number;
 }
 
 /** The physical parameters of one layer. */
@@ -41,36 +43,50 @@ export interface LayerParams {
 export const thicknessAt = (tauS: number, rateNmPerS: number, rateDriftNmPerS2: number): number =>
   rateNmPerS * tauS + 0.5 * rateDriftNmPerS2 * tauS * tauS;
 
-/** Where each layer's parameters sit in the joint parameter vector: [n?, r, a?, g?] per layer. */
+/**
+ * Where each layer's parameters sit in the joint parameter vector: [n?, r, a?, g?] per layer,
+ * then, with a chip-wide gain, [G, γ] last: gain(t) = G·(1 + γ·t), t from the chip's reference.
+ */
 export interface ParamLayout {
   offsets: number[];
   count: number;
+  /** Index of G, or −1 without a chip-wide gain. */
+  shared: number;
+  /** Index of γ, or −1 when the gain drift is not fitted (γ = 0). */
+  sharedDrift: number;
 }
 
-export function paramLayout(layers: readonly FitLayerData[]): ParamLayout {
+/** With sharedGain every layer's own gain is absent (its heldGain is ignored). */
+export function paramLayout(layers: readonly FitLayerData[], sharedGain = false, sharedDrift = false): ParamLayout {
   const offsets: number[] = [];
   let count = 0;
   for (const l of layers) {
     offsets.push(count);
-    count += (l.heldIndex === null ? 1 : 0) + 1 + (l.fitDrift ? 1 : 0) + (l.heldGain === null ? 1 : 0);
+    count += (l.heldIndex === null ? 1 : 0) + 1 + (l.fitDrift ? 1 : 0) + (!sharedGain && l.heldGain === null ? 1 : 0);
   }
-  return { offsets, count };
+  const drift = sharedGain && sharedDrift;
+  return { offsets, count: count + (sharedGain ? 1 : 0) + (drift ? 1 : 0), shared: sharedGain ? count : -1, sharedDrift: drift ? count + 1 : -1 };
 }
 
-export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: number): LayerParams {
+/** The gain at a time t after the chip's reference, under a chip-wide gain. */
+export const sharedGainAt = (p: ArrayLike<number>, layout: ParamLayout, t: number): number =>
+  layout.sharedDrift < 0 ? p[layout.shared] : p[layout.shared] * (1 + p[layout.sharedDrift] * t);
+
+/** A layer's parameters; under a chip-wide gain, `gain` is the gain at the layer's start. */
+export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: number, layout?: ParamLayout): LayerParams {
   let i = offset;
   const index = layer.heldIndex === null ? p[i++] : layer.heldIndex;
   const rateNmPerS = p[i++];
   const rateDriftNmPerS2 = layer.fitDrift ? p[i++] : 0;
-  const gain = layer.heldGain === null ? p[i] : layer.heldGain;
+  const gain = layout && layout.shared >= 0 ? sharedGainAt(p, layout, layer.chipTimeS) : layer.heldGain === null ? p[i] : layer.heldGain;
   return { index, rateNmPerS, rateDriftNmPerS2, gain };
 }
 
-export function encodeLayer(layer: FitLayerData, v: LayerParams, out: number[]): void {
+export function encodeLayer(layer: FitLayerData, v: LayerParams, out: number[], sharedGain = false): void {
   if (layer.heldIndex === null) out.push(v.index);
   out.push(v.rateNmPerS);
   if (layer.fitDrift) out.push(v.rateDriftNmPerS2);
-  if (layer.heldGain === null) out.push(v.gain);
+  if (!sharedGain && layer.heldGain === null) out.push(v.gain);
 }
 
 /**
@@ -86,7 +102,7 @@ export function evaluateLayers(
   out: Float64Array,
   fromLayer = 0,
 ): void {
-  const values = layers.map((l, j) => decodeLayer(l, p, layout.offsets[j]));
+  const values = layers.map((l, j) => decodeLayer(l, p, layout.offsets[j], layout));
   let pos = 0;
   for (let j = 0; j < fromLayer; j++) pos += layers[j].tauS.length;
   for (let j = fromLayer; j < layers.length; j++) {
@@ -100,7 +116,8 @@ export function evaluateLayers(
     for (let i = 0; i < n; i++) view[i] = thicknessAt(layer.tauS[i], v.rateNmPerS, v.rateDriftNmPerS2);
     // Normal incidence: s and p coincide, so one polarization suffices.
     growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view);
-    for (let i = 0; i < n; i++) view[i] = v.gain * view[i] + offsetSignal;
+    if (layout.shared < 0) for (let i = 0; i < n; i++) view[i] = v.gain * view[i] + offsetSignal;
+    else for (let i = 0; i < n; i++) view[i] = sharedGainAt(p, layout, layer.chipTimeS + layer.tauS[i]) * view[i] + offsetSignal;
     pos += n;
   }
 }
@@ -141,8 +158,8 @@ export function jacobianLayers(
     const layer = layers[i];
     const n = layer.tauS.length;
     const first = layout.offsets[i];
-    const last = i + 1 < layers.length ? layout.offsets[i + 1] : layout.count;
-    const gainParam = layer.heldGain === null ? last - 1 : -1;
+    const last = i + 1 < layers.length ? layout.offsets[i + 1] : layout.shared >= 0 ? layout.shared : layout.count;
+    const gainParam = layout.shared < 0 && layer.heldGain === null ? last - 1 : -1;
     for (let j = first; j < last; j++) {
       const row = j * total;
       if (j === gainParam) {
@@ -157,5 +174,17 @@ export function jacobianLayers(
       for (let x = pos; x < total; x++) out[row + x] = (scratch[x] - modelAtP[x]) / h;
     }
     pos += n;
+  }
+  if (layout.shared < 0) return;
+  const G = p[layout.shared], gamma = layout.sharedDrift < 0 ? 0 : p[layout.sharedDrift];
+  const rowG = layout.shared * total, rowGamma = layout.sharedDrift * total;
+  pos = 0;
+  for (const layer of layers) {
+    for (let i = 0; i < layer.tauS.length; i++, pos++) {
+      const t = layer.chipTimeS + layer.tauS[i];
+      const gm = modelAtP[pos] - offsetSignal;
+      out[rowG + pos] = gm / G;
+      if (layout.sharedDrift >= 0) out[rowGamma + pos] = (gm * t) / (1 + gamma * t);
+    }
   }
 }

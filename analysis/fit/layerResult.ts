@@ -11,7 +11,7 @@ interface ResultOptions {
 }
 
 /** The reported figures of one fitted layer: residuals on all samples, cut timing, warnings. */
-export function layerResult(s: LayerState, below: readonly LayerAt[], trace: TraceData, o: ResultOptions): LayerResult {
+export function layerResult(s: LayerState, below: readonly LayerAt[], trace: TraceData, noiseSigma: number, o: ResultOptions): LayerResult {
   const { design: dl, samples, optics, nominal, estimate: e, calibration } = s;
   const wl = optics.wavelengthNm;
   const k = -nominal.im;
@@ -25,7 +25,7 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
     ss += r * r;
   }
   const residualRms = Math.sqrt(ss / n);
-  const noise = calibration.noiseSigma / e.gain;
+  const noise = noiseSigma / e.gain;
   const residualToNoise = noise > 0 ? residualRms / noise : NaN;
 
   const quarter = wl / 4;

@@ -13,15 +13,23 @@ export interface AnalyzeOptions {
   /** Samples in all, shared by the chip's layers (each at most maxFitPoints), in the final joint fit. @default 16000 */
   refitFinalPoints?: number;
   /**
-   * 'per-layer': each layer fits its own gain (follows lamp/detector drift); 'chip': the gain of
-   * the chip's bare-chip calibration is held for all its layers. @default 'per-layer'
+   * 'chip': one gain per chip from its bare-chip calibration, held in sequential mode; in refit
+   * mode the joint fit refines it (with a linear drift G·(1 + γ·t) if gainDrift). 'per-layer':
+   * each layer fits its own gain (follows any lamp/detector drift, at some cost in precision).
+   * @default 'chip'
    */
   gain?: 'per-layer' | 'chip';
+  /** Gain mode 'chip', refit: also fit a linear gain drift γ per chip (costs precision; for lamp drift). @default false */
+  gainDrift?: boolean;
   /** Layers below this many quarter-waves at the monitor wavelength get a held index. @default 0.5 */
   thinLayerQwot?: number;
   /** The index a thin layer is held at: the nominal, or this run's drift estimate. @default 'run-drift' */
   heldIndex?: 'nominal' | 'run-drift';
-  /** Residual RMS above this multiple of the noise draws a warning. @default 2 */
+  /**
+   * Residual RMS above this multiple of the noise reference draws a warning. The reference is
+   * the idle-stretch noise when there are ≥ 1000 idle samples, else the run's median layer
+   * residual. @default 1.5
+   */
   residualWarnFactor?: number;
   /** |cut error| above this (% QWOT) draws a warning. @default 2 */
   cutErrorWarnPct?: number;
@@ -71,7 +79,7 @@ export interface LayerResult {
   cutErrorSigmaQwotPct: number;
   /** RMS of (reading − model)/gain over all the layer's samples: fraction of full scale. */
   residualRms: number;
-  /** residualRms over the chip's noise σ (≈ 1 for a good fit). */
+  /** residualRms over the noise reference (see AnalyzeOptions.residualWarnFactor); ≈ 1 for a good fit. */
   residualToNoise: number;
   startTimeS: number;
   /** When the layer was cut: its last sample. */

@@ -1,0 +1,37 @@
+import { createReadStream, statSync } from 'node:fs';
+import { analyzeRun } from '../fit/analyzeRun';
+import { readTrace, TraceFormatError, type TraceData } from '../trace';
+import { choiceFlag, CliInputError, loadDesignFile, parseFlags, requireFlag, runCli } from './args';
+
+const USAGE = 'npm run --silent analyze -- --design FILE --trace FILE [--mode sequential|refit]';
+
+async function loadTrace(path: string, layerCount: number): Promise<TraceData> {
+  try {
+    if (!statSync(path).isFile()) throw new CliInputError(`${path}: cannot read file: is a directory`);
+  } catch (e) {
+    if (e instanceof CliInputError) throw e;
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new CliInputError(`${path}: cannot read file: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`);
+  }
+  try {
+    return await readTrace(createReadStream(path), { fileName: path, layerCount });
+  } catch (e) {
+    if (e instanceof TraceFormatError) throw new CliInputError(e.message);
+    throw e;
+  }
+}
+
+/** shared/FORMATS.md `analyze`: { format: "fringelog.analysis/1", layers, warnings, … }. */
+export async function analyzeCommand(argv: string[]) {
+  const flags = parseFlags(argv, ['design', 'trace', 'mode'], USAGE);
+  const designPath = requireFlag(flags, 'design', USAGE);
+  const tracePath = requireFlag(flags, 'trace', USAGE);
+  const mode = choiceFlag(flags, 'mode', ['sequential', 'refit'] as const, 'sequential');
+  const design = loadDesignFile(designPath);
+  const trace = await loadTrace(tracePath, design.layers.length);
+  const result = await analyzeRun(design, trace, { mode });
+  const { format, layers, warnings, ...rest } = result;
+  return { format, layers, warnings, ...rest };
+}
+
+await runCli('analyze', analyzeCommand);
