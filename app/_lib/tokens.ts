@@ -4,6 +4,7 @@ import type { TokenProblem } from '@/db/queries/tokens';
 
 export const INVITE_TTL_MS = 72 * 60 * 60 * 1000;
 export const RESET_TTL_MS = 60 * 60 * 1000;
+export const RESET_SPACING_MS = 60 * 1000;
 
 export function newToken(): { token: string; tokenHash: string } {
   const token = randomBytes(32).toString('base64url');

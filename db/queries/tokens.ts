@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, eq, isNull, sql } from 'drizzle-orm';
+import { and, eq, gt, isNull, sql } from 'drizzle-orm';
 import { db } from '../client';
 import { auditEvents, oneTimeTokens, users } from '../schema';
 
@@ -78,4 +78,14 @@ export async function redeemToken(
     });
     return { ok: true as const, userId: token.userId, email: user.email };
   });
+}
+
+/** Whether a token of this kind was issued for the user after `since` (to space out reset mails). */
+export async function tokenIssuedSince(userId: number, kind: Kind, since: Date): Promise<boolean> {
+  const [row] = await db()
+    .select({ id: oneTimeTokens.id })
+    .from(oneTimeTokens)
+    .where(and(eq(oneTimeTokens.userId, userId), eq(oneTimeTokens.kind, kind), gt(oneTimeTokens.createdAt, since)))
+    .limit(1);
+  return row !== undefined;
 }
