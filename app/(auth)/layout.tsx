@@ -30,15 +30,33 @@ export default function AuthLayout({ children }: { children: React.ReactNode }) 
   );
 }
 
-/** A two-beam interference pattern, cos² of a slowly chirped phase, drawn as bands. */
+/**
+ * A sketch of what Fringelog reads: the transmittance of a witness chip while a quarter-wave
+ * stack grows. Each layer runs from one turning point to the next; the minima deepen as the
+ * stack's reflectance builds up.
+ */
 function FringeBackdrop() {
-  const bands = Array.from({ length: 26 }, (_, i) => i);
+  const extremes = [0.92, 0.78, 0.91, 0.6, 0.9, 0.44, 0.89, 0.31, 0.88, 0.22, 0.87];
+  const layerWidth = 400 / (extremes.length - 1);
+  const y = (t: number) => 560 - t * 240;
+  const layers = extremes.slice(1).map((end, i) => {
+    const start = extremes[i];
+    const points: string[] = [];
+    for (let k = 0; k <= 24; k++) {
+      const f = k / 24;
+      const value = start + ((end - start) * (1 - Math.cos(Math.PI * f))) / 2;
+      points.push(`${(i + f) * layerWidth},${y(value).toFixed(1)}`);
+    }
+    return { x: i * layerWidth, d: `M${points.join(' L')}` };
+  });
   return (
-    <svg className="absolute inset-0 h-full w-full opacity-25" viewBox="0 0 400 600" preserveAspectRatio="none" aria-hidden="true">
-      {bands.map((i) => {
-        const y = 600 * Math.sqrt(i / 26);
-        return <rect key={i} x="0" y={y} width="400" height={Math.max(2, 9 - i * 0.25)} fill={i % 2 ? '#c77aa6' : '#5fb3b3'} />;
-      })}
+    <svg className="absolute inset-x-0 bottom-0 h-[70%] w-full" viewBox="0 0 400 600" preserveAspectRatio="none" aria-hidden="true">
+      {layers.map((l, i) => (
+        <g key={l.x}>
+          <line x1={l.x} x2={l.x} y1="300" y2="580" stroke="#f6f4ee" strokeOpacity="0.08" strokeDasharray="2 4" />
+          <path d={l.d} fill="none" stroke={i % 2 ? '#c77aa6' : '#5fb3b3'} strokeWidth="2.2" strokeOpacity="0.55" vectorEffect="non-scaling-stroke" />
+        </g>
+      ))}
     </svg>
   );
 }

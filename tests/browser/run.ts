@@ -156,6 +156,41 @@ test('admin invites someone; the link from the Mail page sets a password; they s
   assertEqual(await new Shell(page).navLabels(), expectedNav.supervisor, 'navigation of the invited supervisor');
 });
 
+test('forgot password: the reset link from the mail sets a new password, and the old one stops working', async (page, context) => {
+  const engineer = demoUsers.find((d) => d.role === 'engineer');
+  assert(engineer, 'no demo engineer');
+  const signIn = new SignInPage(page, baseUrl);
+  await signIn.open();
+  await page.getByRole('link', { name: 'Forgot your password?' }).click();
+  await page.getByLabel('E-mail').fill(engineer.email);
+  await page.getByRole('button', { name: 'Send reset link' }).click();
+  await page.getByText('a link to choose a new password is on its way').waitFor();
+  await shot(page, 'reset-requested');
+
+  await signInAs(page, 'admin');
+  await new Shell(page).go('Mail');
+  const message = page.locator('article', { hasText: engineer.email }).filter({ hasText: 'Reset your Fringelog password' }).first();
+  const link = await message.locator('a').first().getAttribute('href');
+  assert(link && link.startsWith(`${baseUrl}/set-password?token=`), `reset link ${link}`);
+  await new Shell(page).signOut();
+  await context.clearCookies();
+
+  const fresh = 'idris-new-pass-77';
+  await page.goto(link);
+  await page.getByRole('heading', { name: 'Choose a new password' }).waitFor();
+  await page.getByLabel('New password', { exact: true }).fill(fresh);
+  await page.getByLabel('Repeat the new password').fill(fresh);
+  await page.getByRole('button', { name: 'Save password' }).click();
+  await page.waitForURL(/\/sign-in\?notice=password-set/);
+  await signIn.signIn(engineer.email, engineer.password);
+  await signIn.fieldError('password').waitFor();
+  await signIn.signIn(engineer.email, fresh);
+  await page.waitForURL(`${baseUrl}/`);
+  // The link was single-use.
+  await page.goto(link);
+  await page.getByText('This link has already been used.').waitFor();
+});
+
 test('an unknown address shows the not-found page', async (page) => {
   const res = await page.goto(`${baseUrl}/no-such-page`);
   assertEqual(res?.status(), 404, 'status');
