@@ -256,3 +256,12 @@ export async function waitForHttp(url, timeoutMs = 30000) {
   }
   return false;
 }
+
+/** Stops the project's cluster if it runs. */
+export function stopPostgres(pgBin) {
+  if (!fs.existsSync(path.join(pgData, 'PG_VERSION'))) return log('no cluster in .data/pg');
+  const status = asPg(path.join(pgBin, 'pg_ctl'), ['-D', pgData, 'status'], { allowFail: true });
+  if (status.status !== 0) return log('PostgreSQL is not running');
+  asPg(path.join(pgBin, 'pg_ctl'), ['-D', pgData, '-m', 'fast', '-w', 'stop']);
+  log('PostgreSQL stopped');
+}
