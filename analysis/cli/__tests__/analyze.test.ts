@@ -1,0 +1,90 @@
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { describe, expect, it } from 'vitest';
+
+const root = path.resolve(import.meta.dirname, '../../..');
+const samples = path.join(root, 'sample-traces');
+const tsx = path.join(root, 'node_modules/.bin/tsx');
+const tmp = mkdtempSync(path.join(tmpdir(), 'fringelog-analyze-'));
+
+function analyze(...args: string[]) {
+  const r = spawnSync(tsx, [path.join(root, 'analysis/cli/analyze.ts'), ...args], { cwd: root, encoding: 'utf8' });
+  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+function writeTmp(name: string, text: string): string {
+  const file = path.join(tmp, name);
+  writeFileSync(file, text);
+  return file;
+}
+
+const design = path.join(samples, 'bbar4-visible.json');
+const trace = path.join(samples, 'bay2-bb4-run0587.csv');
+const escape = (s: string) => s.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+
+describe('analyze CLI (shared/FORMATS.md)', () => {
+  it('prints fringelog.analysis/1 with the FORMATS layer keys, close to the known truth', () => {
+    const r = analyze('--design', design, '--trace', trace, '--mode', 'refit');
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    expect(Object.keys(out).slice(0, 3)).toEqual(['format', 'layers', 'warnings']);
+    expect(out.format).toBe('fringelog.analysis/1');
+    expect(Array.isArray(out.warnings)).toBe(true);
+    const truth = JSON.parse(readFileSync(trace.replace(/\.csv$/, '.truth.json'), 'utf8'));
+    expect(out.layers).toHaveLength(4);
+    out.layers.forEach((l: Record<string, number | string>, i: number) => {
+      for (const key of ['layer', 'material', 'thicknessNm', 'thicknessSigmaNm', 'index', 'indexSigma', 'rateNmPerS', 'cutErrorQwotPct', 'residualRms']) {
+        expect(l, key).toHaveProperty(key);
+      }
+      expect(l.layer).toBe(i + 1);
+      expect(typeof l.thicknessNm).toBe('number');
+      const t = truth.layers[i];
+      expect(Math.abs((l.index as number) * (l.thicknessNm as number) / (t.index * t.thicknessNm) - 1)).toBeLessThan(0.01);
+      expect(Math.abs((l.cutErrorQwotPct as number) - t.cutErrorQwotPct)).toBeLessThan(0.5);
+    });
+    expect(out.spectrum.wavelengthNm[0]).toBe(400);
+  });
+
+  it('defaults to sequential mode', () => {
+    const out = JSON.parse(analyze('--design', path.join(samples, 'ar1-mgf2-crown.json'), '--trace', path.join(samples, 'bay1-ar1-run0412.csv')).stdout);
+    expect(out.mode).toBe('sequential');
+    expect(out.layers).toHaveLength(1);
+  });
+
+  it('a trace fault names the file, the line and the column; nothing on stdout', () => {
+    const text = readFileSync(trace, 'utf8').split('\n');
+    const header = text.findIndex((l) => l.startsWith('time_s'));
+    text[header + 40] = text[header + 40].replace(/^([^,]*),[^,]*/, '$1,abc');
+    const file = writeTmp('bad-value.csv', text.join('\n'));
+    const r = analyze('--design', design, '--trace', file);
+    expect(r.code).toBe(1);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(new RegExp(`^analyze: ${escape(file)} line ${header + 41}, column "signal": `));
+  });
+
+  it('a layer the design does not have is an error naming its line', () => {
+    const file = writeTmp('layer9.csv', '# chamber: Bay 2 IAD\ntime_s,signal,layer\n0,0.9,0\n0.1,0.9,9\n');
+    const r = analyze('--design', design, '--trace', file);
+    expect(r.code).toBe(1);
+    expect(r.stderr).toMatch(new RegExp(`^analyze: ${escape(file)} line 4, column "layer": `));
+  });
+
+  const bad: [string, string[], number, RegExp][] = [
+    ['missing trace file', ['--design', design, '--trace', path.join(tmp, 'none.csv')], 1, /none\.csv: cannot read file: no such file/],
+    ['missing --trace', ['--design', design], 2, /missing --trace/],
+    ['bad mode', ['--design', design, '--trace', trace, '--mode', 'fast'], 2, /--mode must be one of sequential, refit \(got "fast"\)/],
+    ['missing design file', ['--design', path.join(tmp, 'none.json'), '--trace', trace], 1, /none\.json: cannot read file: no such file/],
+  ];
+  for (const [what, args, code, message] of bad) {
+    it(`${what}: message on stderr, exit ${code}`, () => {
+      const r = analyze(...args);
+      expect(r.code).toBe(code);
+      expect(r.stdout).toBe('');
+      expect(r.stderr).toMatch(/^analyze: /);
+      expect(r.stderr).toMatch(message);
+    });
+  }
+});

@@ -1,0 +1,83 @@
+import { describe, expect, it } from 'vitest';
+import { analyzeRun } from '..';
+import { parseDesign } from '../../design';
+import { bbar4, mirror18, synthTrace } from './scenarios';
+
+const single = parseDesign({
+  format: 'fringelog.design/1', name: 'single H', referenceWavelengthNm: 550, substrate: 'crown-glass-1.52', substrateBackside: true,
+  materials: { H: 'Ta2O5' }, layers: [{ material: 'H', qwot: 2, monitor: { wavelengthNm: 550, mode: 'T', chip: 1, cut: 'turning-point' } }],
+});
+
+describe('analyzeRun on faulty runs', () => {
+  it('reports an overshoot cut: its cut error, a warning, and an ideal cut time before the actual one', async () => {
+    const { run, trace } = await synthTrace(single, { seed: 31, overshoot: { 1: 0.05 }, thicknessScatter: 0 });
+    const [l] = (await analyzeRun(single, trace)).layers;
+    expect(l.cutErrorQwotPct).toBeCloseTo(run.truth[0].cutErrorQwotPct, 0);
+    expect(l.cutErrorQwotPct).toBeGreaterThan(8); // 5 % of a 2-QWOT layer is 10 % of one quarter-wave
+    expect(l.warnings.some((w) => w.startsWith('cut thick (overshoot)'))).toBe(true);
+    expect(l.idealCutTimeS!).toBeLessThan(l.cutTimeS - 5);
+    expect(l.lastTurningPoint?.kind).toBe('max'); // after 2 QWOT of H on glass the transmittance is back at the bare level
+    expect(l.lastTurningPoint!.timeS).toBeCloseTo(l.idealCutTimeS!, 6);
+  });
+
+  it('flags a rate spike by its residuals (refit), on that layer only', async () => {
+    const design = mirror18();
+    const { trace } = await synthTrace(design, { seed: 32, rateSpikes: [{ layer: 4, atFraction: 0.5, durationS: 15, factor: 2 }] });
+    const result = await analyzeRun(design, trace, { mode: 'refit' });
+    const flagged = result.layers.filter((l) => l.warnings.some((w) => w.startsWith('residuals'))).map((l) => l.layer);
+    expect(flagged).toEqual([4]);
+    const worst = result.layers.reduce((a, b) => (b.residualToNoise > a.residualToNoise ? b : a));
+    expect(worst.layer).toBe(4);
+    expect(result.warnings.some((w) => w.startsWith('layer 4: residuals'))).toBe(true);
+  });
+
+  it('takes the offset from dark samples and checks the tooling factor against crystal_nm', async () => {
+    const design = bbar4();
+    const { trace } = await synthTrace(design, { seed: 33, gain: 1.9, offset: 0.03, darkS: 15, tooling: { H: 1.06, L: 0.97 } });
+    const result = await analyzeRun(design, trace, { mode: 'refit' });
+    expect(result.chips[0].darkSamples).toBe(150);
+    expect(result.chips[0].offset).toBeCloseTo(0.03, 3);
+    expect(result.chips[0].gain).toBeCloseTo(1.9, 2);
+    const byMaterial = Object.fromEntries(result.tooling.map((t) => [t.material, t.meanRatio]));
+    expect(byMaterial.H).toBeCloseTo(1.06, 2);
+    expect(byMaterial.L).toBeCloseTo(0.97, 2);
+  });
+
+  it('calibrates each chip from its own bare stretch after a chip change', async () => {
+    const design = mirror18();
+    const { trace } = await synthTrace(design, { seed: 34, gain: 1.3 });
+    const result = await analyzeRun(design, trace);
+    expect(result.chips.map((c) => [c.chip, c.source])).toEqual([[1, 'bare-chip'], [2, 'bare-chip'], [3, 'bare-chip']]);
+    for (const c of result.chips) expect(c.gain).toBeCloseTo(1.3, 2);
+  });
+
+  it('tracks index drift per material with a trend and its σ', async () => {
+    const design = mirror18();
+    const { run, trace } = await synthTrace(design, { seed: 36, indexDriftPerHour: { H: -0.03 } });
+    const result = await analyzeRun(design, trace, { mode: 'refit' });
+    const h = result.indexDrift.find((d) => d.material === 'H')!;
+    const l = result.indexDrift.find((d) => d.material === 'L')!;
+    const hours = (run.truth[17].startTimeS - run.truth[0].startTimeS) / 3600;
+    expect(hours).toBeGreaterThan(1);
+    expect(h.byTime.slope).toBeCloseTo(-0.03, 2);
+    expect(Math.abs(h.byTime.slope + 0.03)).toBeLessThan(3 * h.byTime.slopeSigma + 0.002);
+    expect(Math.abs(l.byTime.slope)).toBeLessThan(3 * l.byTime.slopeSigma + 0.001);
+  });
+
+  it('returns the FORMATS.md keys, the as-built spectrum, and progress as it goes', async () => {
+    const design = bbar4();
+    const { trace } = await synthTrace(design, { seed: 37, noiseFraction: 0.0002, thicknessScatter: 0, rateScatter: 0 });
+    const progress: [number, number][] = [];
+    const result = await analyzeRun(design, trace, { onProgress: (d, n) => progress.push([d, n]) });
+    expect(progress).toEqual([[1, 4], [2, 4], [3, 4], [4, 4]]);
+    expect(result.format).toBe('fringelog.analysis/1');
+    for (const key of ['layer', 'material', 'thicknessNm', 'thicknessSigmaNm', 'index', 'indexSigma', 'rateNmPerS', 'cutErrorQwotPct', 'residualRms']) {
+      expect(result.layers[0]).toHaveProperty(key);
+    }
+    const { asBuiltR, designR } = result.spectrum;
+    let worst = 0;
+    for (let i = 0; i < designR.length; i++) worst = Math.max(worst, Math.abs(asBuiltR[i] - designR[i]));
+    expect(worst).toBeLessThan(0.002); // a run on target builds the design
+    expect(result.segmentsInferred).toBe(false);
+  });
+});
