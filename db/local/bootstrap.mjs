@@ -163,7 +163,24 @@ export async function assertPortFree(port, what) {
   if (await portInUse(port)) fail(`port ${port} (for ${what}) is already in use on 127.0.0.1 — is another Fringelog running? Stop it or choose another port.`);
 }
 
-/** Starts the project's cluster. Returns { startedHere, stop() }. */
+const usersDir = path.join(dataDir, 'pg-users');
+const startedMarker = path.join(dataDir, 'pg-started-by-fringelog');
+
+/** Pids of our commands that use the cluster and still run (stale entries are removed). */
+function liveUsers() {
+  if (!fs.existsSync(usersDir)) return [];
+  return fs.readdirSync(usersDir).filter((name) => {
+    try {
+      process.kill(Number(name), 0);
+      return true;
+    } catch {
+      fs.rmSync(path.join(usersDir, name), { force: true });
+      return false;
+    }
+  });
+}
+
+/** Starts the project's cluster (or joins it). Returns { startedHere, psql(), stop() }. */
 export async function startPostgres(pgBin) {
   fs.mkdirSync(dataDir, { recursive: true });
   ensurePostgresUser();
@@ -192,17 +209,33 @@ export async function startPostgres(pgBin) {
     const res = asPg(path.join(pgBin, 'pg_ctl'), ['-D', pgData, '-l', pgLog, '-w', '-t', '30', '-o', opts, 'start'], { allowFail: true });
     if (res.status !== 0) fail(`PostgreSQL did not start:\n${res.stdout}${res.stderr}\n--- ${pgLog} ---\n${fs.readFileSync(pgLog, 'utf8').split('\n').slice(-20).join('\n')}`);
     startedHere = true;
+    fs.writeFileSync(startedMarker, `${process.pid}\n`);
     log(`PostgreSQL listening on 127.0.0.1:${pgPort}`);
   } else {
     log(`PostgreSQL already running on 127.0.0.1:${pgPort}`);
   }
+  fs.mkdirSync(usersDir, { recursive: true });
+  const userFile = path.join(usersDir, String(process.pid));
+  fs.writeFileSync(userFile, '');
   const psql = (sql, db = 'postgres') =>
     asPg(path.join(pgBin, 'psql'), ['-h', sockDir, '-p', String(pgPort), '-U', 'postgres', '-d', db, '-v', 'ON_ERROR_STOP=1', '-tAc', sql]).stdout.trim();
   return {
     startedHere,
     psql,
+    /**
+     * Leaves the cluster to any other command of ours still running (npm start beside npm test);
+     * the last one out stops it, if one of ours started it.
+     */
     stop() {
+      fs.rmSync(userFile, { force: true });
+      const others = liveUsers();
+      if (others.length) {
+        log(`PostgreSQL left running for process ${others.join(', ')} (another npm start or npm test)`);
+        return;
+      }
+      if (!fs.existsSync(startedMarker)) return;
       asPg(path.join(pgBin, 'pg_ctl'), ['-D', pgData, '-m', 'fast', '-w', 'stop'], { allowFail: true });
+      fs.rmSync(startedMarker, { force: true });
       log('PostgreSQL stopped');
     },
   };
@@ -263,5 +296,6 @@ export function stopPostgres(pgBin) {
   const status = asPg(path.join(pgBin, 'pg_ctl'), ['-D', pgData, 'status'], { allowFail: true });
   if (status.status !== 0) return log('PostgreSQL is not running');
   asPg(path.join(pgBin, 'pg_ctl'), ['-D', pgData, '-m', 'fast', '-w', 'stop']);
+  fs.rmSync(startedMarker, { force: true });
   log('PostgreSQL stopped');
 }

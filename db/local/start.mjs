@@ -32,7 +32,7 @@ function stopAll(code) {
   stopping = true;
   log('stopping…');
   for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
-  if (pg?.startedHere) pg.stop();
+  pg?.stop();
   process.exit(code);
 }
 process.on('SIGINT', () => stopAll(0));

@@ -30,7 +30,7 @@ let pg;
 
 function cleanup() {
   for (const c of children) if (c.exitCode === null) c.kill('SIGTERM');
-  if (pg?.startedHere) pg.stop();
+  pg?.stop();
 }
 process.on('SIGINT', () => {
   cleanup();
