@@ -9,7 +9,6 @@ import {
   ensureDatabases,
   ensureNodeModules,
   ensurePostgresInstalled,
-  fail,
   log,
   root,
   run,
@@ -96,6 +95,10 @@ if (!(await waitForHttp(`http://127.0.0.1:${appPort}/sign-in`, 60000))) {
   console.error('[fringelog] ERROR: the web app did not answer within 60 s');
   stopAll(1);
 }
+if (!signIns.length) {
+  console.error('[fringelog] ERROR: the seed step printed no demo sign-ins');
+  stopAll(1);
+}
 const seconds = ((Date.now() - t0) / 1000).toFixed(1);
 console.log(`
   Fringelog is running: ${env.APP_URL}   (ready in ${seconds} s; Ctrl-C stops everything)
@@ -103,4 +106,3 @@ console.log(`
   Demo sign-ins (Larkspur Optical Works):
 ${signIns.map((l) => `    ${l.slice('SIGN-IN '.length)}`).join('\n')}
 ${externalSmtp ? '' : `\n  Mail goes to the local sink (127.0.0.1:${sinkPort}); admins read it on the Mail page.\n`}`);
-if (!signIns.length) fail('seed printed no sign-ins');
