@@ -101,6 +101,8 @@ export function evaluateLayers(
   offsetSignal: number,
   out: Float64Array,
   fromLayer = 0,
+  /** Adds deltaNm to the thickness of layer `layer` throughout (for thickness derivatives). */
+  shift?: { layer: number; deltaNm: number },
 ): void {
   const values = layers.map((l, j) => decodeLayer(l, p, layout.offsets[j], layout));
   let pos = 0;
@@ -109,11 +111,16 @@ export function evaluateLayers(
     const layer = layers[j];
     const v = values[j];
     const below: LayerAt[] = fixedBelow.slice();
-    for (let i = 0; i < j; i++) below.push(layerAtWavelength(layers[i], values[i], layer.optics.wavelengthNm));
+    for (let i = 0; i < j; i++) {
+      const b = layerAtWavelength(layers[i], values[i], layer.optics.wavelengthNm);
+      if (shift && shift.layer === i) b.thicknessNm += shift.deltaNm;
+      below.push(b);
+    }
     const growing = fromNK(v.index, layer.extinction);
     const n = layer.tauS.length;
     const view = out.subarray(pos, pos + n);
-    for (let i = 0; i < n; i++) view[i] = thicknessAt(layer.tauS[i], v.rateNmPerS, v.rateDriftNmPerS2);
+    const dd = shift && shift.layer === j ? shift.deltaNm : 0;
+    for (let i = 0; i < n; i++) view[i] = thicknessAt(layer.tauS[i], v.rateNmPerS, v.rateDriftNmPerS2) + dd;
     // Normal incidence: s and p coincide, so one polarization suffices.
     growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view);
     if (layout.shared < 0) for (let i = 0; i < n; i++) view[i] = v.gain * view[i] + offsetSignal;
@@ -135,9 +142,11 @@ export function layerAtWavelength(layer: FitLayerData, v: LayerParams, wavelengt
 }
 
 /**
- * ∂model/∂p for evaluateLayers, using its structure: a layer's index, rate and drift change its
+ * ∂model/∂p for evaluateLayers, using its structure: a layer's index and thickness change its
  * own segment and (through the stack) the later ones only, so each forward difference
- * re-evaluates those; a gain's derivative is exact and confined to its own segment.
+ * re-evaluates those. Rate and drift act only through the thickness, so one difference in
+ * thickness gives both: ∂S/∂r = ∂S/∂d·τ and ∂S/∂a = ∂S/∂d·τ²/2 (τ = T on later layers). A
+ * gain's derivative is exact and confined to its own segment.
  */
 export function jacobianLayers(
   fixedBelow: readonly LayerAt[],
@@ -160,18 +169,32 @@ export function jacobianLayers(
     const first = layout.offsets[i];
     const last = i + 1 < layers.length ? layout.offsets[i + 1] : layout.shared >= 0 ? layout.shared : layout.count;
     const gainParam = layout.shared < 0 && layer.heldGain === null ? last - 1 : -1;
+    const indexParam = layer.heldIndex === null ? first : -1;
+    const rateParam = layer.heldIndex === null ? first + 1 : first;
+    const driftParam = layer.fitDrift ? rateParam + 1 : -1;
     for (let j = first; j < last; j++) {
       const row = j * total;
       if (j === gainParam) {
         const g = p[j];
         for (let x = pos; x < pos + n; x++) out[row + x] = (modelAtP[x] - offsetSignal) / g;
-        continue;
+      } else if (j === indexParam) {
+        const h = steps[j];
+        q[j] = p[j] + h;
+        evaluateLayers(fixedBelow, layers, layout, q, offsetSignal, scratch, i);
+        q[j] = p[j];
+        for (let x = pos; x < total; x++) out[row + x] = (scratch[x] - modelAtP[x]) / h;
       }
-      const h = steps[j];
-      q[j] = p[j] + h;
-      evaluateLayers(fixedBelow, layers, layout, q, offsetSignal, scratch, i);
-      q[j] = p[j];
-      for (let x = pos; x < total; x++) out[row + x] = (scratch[x] - modelAtP[x]) / h;
+    }
+    // One thickness difference for rate and drift.
+    const T = layer.durationS;
+    const h = Math.max(steps[rateParam] * T, 1e-9);
+    evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, scratch, i, { layer: i, deltaNm: h });
+    const rowR = rateParam * total, rowA = driftParam * total;
+    for (let x = pos; x < total; x++) {
+      const dSdd = (scratch[x] - modelAtP[x]) / h;
+      const tau = x < pos + n ? layer.tauS[x - pos] : T;
+      out[rowR + x] = dSdd * tau;
+      if (driftParam >= 0) out[rowA + x] = 0.5 * dSdd * tau * tau;
     }
     pos += n;
   }
