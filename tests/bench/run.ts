@@ -1,4 +1,5 @@
 // `npm run bench`: each section prints its own figures; a benchmark is never a timed test.
+import { run as analysis } from './analysis';
 import { run as optics } from './optics';
 
-for (const section of [optics]) await section();
+for (const section of [optics, analysis]) await section();
