@@ -9,6 +9,7 @@ import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
 import { runSummary } from './runSummary';
+import { refineInferredSegments } from './refineSegments';
 import { startValues } from './startValues';
 import { subsampleUniform } from './subsample';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
@@ -72,7 +73,13 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const warnings: string[] = trace.warnings.map((w) => w.message);
   const seg = segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
   for (const w of seg.warnings) warnings.push(w.code === 'segments_inferred' && !w.message ? 'the trace has no layer column: layer segments were found from the signal' : w.message);
-  const samplesByLayer = gatherLayerSamples(trace, seg.layers);
+  let layerSegments = seg.layers;
+  if (seg.inferred) {
+    const refined = refineInferredSegments(trace, design, seg.layers);
+    layerSegments = refined.layers;
+    warnings.push(...refined.warnings);
+  }
+  const samplesByLayer = gatherLayerSamples(trace, layerSegments);
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }
@@ -99,13 +106,18 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     const below = prior.map((s) => layerAtWavelength(s.fit, s.estimate, wl));
     let calibration = calibrations.get(chip);
     if (!calibration) {
+      // The idle samples between the previous layer (of any chip) and this one.
       const first = samples.indices[0];
-      const idle = seg.idle.filter((s) => s.endIndex <= first && s.endIndex >= first - 1).pop();
+      let idleFrom = 0;
+      for (const other of samplesByLayer.values()) {
+        const last = other.indices[other.indices.length - 1];
+        if (last < first) idleFrom = Math.max(idleFrom, last + 1);
+      }
       const modelledBare = growingLayerSignal({ ...optics, below, growing: fromNK(1), pol: 's' }, [0])[0];
       const firstCount = Math.min(samples.indices.length, 20);
       calibration = calibrateChip({
         chip, modelledBare, knownOffset: [...calibrations.values()].pop()?.offset,
-        idleSignal: idle ? trace.signal.subarray(idle.startIndex, idle.endIndex) : [],
+        idleSignal: trace.signal.subarray(idleFrom, first),
         firstLayerSignal: pick(trace.signal, Int32Array.from({ length: firstCount }, (_, i) => i), samples.indices),
       });
       if (calibration.source === 'first-layer') warnings.push(`chip ${chip}: no bare-chip stretch before layer ${dl.layer}; gain taken from the layer's first samples`);

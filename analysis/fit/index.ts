@@ -11,3 +11,4 @@ export * from './layerSamples';
 export * from './layerResult';
 export * from './runSummary';
 export * from './analyzeRun';
+export * from './refineSegments';
