@@ -47,7 +47,6 @@ export const ANALYZE_DEFAULTS = {
   maxFitPoints: 2000,
   refitPointsPerLayer: 400,
   refitFinalPoints: 16000,
-  gain: 'chip',
   gainDrift: false,
   thinLayerQwot: 0.5,
   heldIndex: 'run-drift',
@@ -69,7 +68,7 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  * Pure: no I/O.
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
-  const o = { ...ANALYZE_DEFAULTS, ...options };
+  const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
   const warnings: string[] = trace.warnings.map((w) => w.message);
   const seg = segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
   for (const w of seg.warnings) warnings.push(w.code === 'segments_inferred' && !w.message ? 'the trace has no layer column: layer segments were found from the signal' : w.message);

@@ -15,8 +15,9 @@ export interface AnalyzeOptions {
   /**
    * 'chip': one gain per chip from its bare-chip calibration, held in sequential mode; in refit
    * mode the joint fit refines it (with a linear drift G·(1 + γ·t) if gainDrift). 'per-layer':
-   * each layer fits its own gain (follows any lamp/detector drift, at some cost in precision).
-   * @default 'chip'
+   * each layer fits its own gain, which also absorbs part of the error of the stack below as
+   * estimated (and of a slow gain drift), at some cost in precision.
+   * @default 'per-layer' in sequential mode, 'chip' in refit mode
    */
   gain?: 'per-layer' | 'chip';
   /** Gain mode 'chip', refit: also fit a linear gain drift γ per chip (costs precision; for lamp drift). @default false */
