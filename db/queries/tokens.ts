@@ -42,9 +42,10 @@ function judge(
   now: Date,
 ): TokenCheck {
   if (!row) return { ok: false, problem: 'unknown' };
+  // Deactivation also voids open links; say why rather than "used".
+  if (row.status === 'deactivated') return { ok: false, problem: 'inactive' };
   if (row.usedAt) return { ok: false, problem: 'used' };
   if (row.expiresAt.getTime() <= now.getTime()) return { ok: false, problem: 'expired' };
-  if (row.status === 'deactivated') return { ok: false, problem: 'inactive' };
   if (row.kind === 'reset' && row.status !== 'active') return { ok: false, problem: 'inactive' };
   return { ok: true, kind: row.kind, email: row.email, name: row.name };
 }

@@ -63,12 +63,15 @@ test('the sign-in page shows the brand and a wrong password at the field', async
 });
 
 for (const role of ['operator', 'engineer', 'supervisor', 'admin']) {
-  test(`${role}: signs in, sees the ${role}'s navigation, signs out`, async (page) => {
+  test(`${role}: signs in, sees the ${role}'s navigation, signs out`, async (page, context) => {
     await signInAs(page, role);
     const shell = new Shell(page);
     assertEqual(await shell.navLabels(), expectedNav[role], `${role} navigation`);
     assertEqual(await shell.userName(), demoUsers.find((d) => d.role === role)?.name, 'name in the header');
     await page.getByText('Bay 2 IAD').waitFor();
+    const cookie = (await context.cookies(baseUrl)).find((c) => c.name === 'fringelog_session');
+    assert(cookie, 'session cookie set');
+    assertEqual([cookie.httpOnly, cookie.sameSite, cookie.path], [true, 'Lax', '/'], 'session cookie httpOnly, SameSite, path');
     await shot(page, `home-${role}`);
     await shell.signOut();
     await page.getByText('You are signed out.').waitFor();

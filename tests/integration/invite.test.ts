@@ -4,7 +4,7 @@ import { closeDb, db } from '@/db/client';
 import { listAudit } from '@/db/queries/audit';
 import { listUsers } from '@/db/queries/users';
 import { currentUser } from '@/app/_lib/auth';
-import { inviteUser, resendInvite } from '@/app/(app)/admin/users/actions';
+import { inviteUser, resendInvite, setActive } from '@/app/(app)/admin/users/actions';
 import { requestPasswordReset } from '@/app/(auth)/reset-password/actions';
 import { setPasswordWithToken } from '@/app/(auth)/set-password/actions';
 import SetPasswordPage from '@/app/(auth)/set-password/page';
@@ -93,6 +93,20 @@ describe('invite by e-mail', () => {
     expect(missing.ok || missing.fieldErrors?.name).toEqual(['Enter the person’s name.']);
     expect(missing.ok || missing.fieldErrors?.role).toEqual(['Choose a role.']);
     expect((await listUsers()).length).toBe(count);
+  });
+
+  it('voids the link of an invitation whose account was deactivated', async () => {
+    await signInDemo('admin');
+    const email = uniqueEmail('withdrawn');
+    const before = await lastMailId();
+    const invited = await inviteUser(null, form({ email, name: 'Withdrawn Offer', role: 'operator' }));
+    if (!invited.ok) throw new Error(invited.message);
+    const token = linkIn((await waitForMail(email, /invited/, before)).textBody).searchParams.get('token') ?? '';
+    expect(await setActive(null, form({ userId: invited.data.userId, active: 'false' }))).toEqual({ ok: true, data: undefined });
+    anonymous();
+    const r = await setPasswordWithToken(null, form({ token, password: 'withdrawn-pass-1', confirm: 'withdrawn-pass-1' }));
+    expect(r.ok ? '' : r.message).toBe('This account is deactivated. Ask an administrator.');
+    expect(await setPasswordPageText(token)).toContain('This account is deactivated. Ask an administrator.');
   });
 
   it('refuses a weak password on the set-password link and keeps the link usable', async () => {
