@@ -33,6 +33,8 @@ export interface LayerState {
   calibration: ChipCalibration;
   /** Design optical thickness in quarter-waves at the monitor wavelength. */
   qwotAtMonitor: number;
+  /** Weight of the layer in joint fits (see FitLayerData.weight). */
+  weight: number;
 }
 
 function heldNoteFor(held: number, nominal: number, from: number, qwot: number, wl: number, wholeRun: boolean): string {
@@ -154,7 +156,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const sub = subsampleUniform(samples.tauS, 0, n, maxPoints);
       return {
         optics, nominalAt, tauS: pick(samples.tauS, sub), y: pick(trace.signal, sub, samples.indices), durationS,
-        extinction: -nominal.im, heldIndex: state?.fit.heldIndex ?? heldIndex, fitDrift: !held,
+        extinction: -nominal.im, heldIndex: state?.fit.heldIndex ?? heldIndex, fitDrift: !held, weight: state?.weight ?? 1,
         heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS,
       };
     };
@@ -169,8 +171,12 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       fixedBelow: below, layers: [fit], offsetSignal: calibration.offset,
       start: [{ index: sv.index, rateNmPerS: sv.rateNmPerS, rateDriftNmPerS2: 0, gain: fit.heldGain ?? sv.gain }],
     });
+    // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
+    const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;
+    const weight = ratio > o.residualWarnFactor ? 1 / ratio : 1;
+    refit.weight = weight;
     state = {
-      qwotAtMonitor, design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
+      weight, qwotAtMonitor, design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
       converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration,
     };
     prior.push(state!);

@@ -73,7 +73,8 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
   const y = new Float64Array(total);
   let pos = 0;
   for (const l of layers) {
-    y.set(l.y, pos);
+    const w = l.weight ?? 1;
+    for (let i = 0; i < l.y.length; i++) y[pos + i] = w * l.y[i];
     pos += l.y.length;
   }
   const solver = leastSquares(

@@ -29,6 +29,11 @@ export interface FitLayerData {
   heldGain: number | null;
   /** The layer's start, s after the chip's reference time (for a chip-wide gain with drift). */
   chipTimeS: number;
+  /**
+   * Weight of the layer's residuals in a joint fit (1/(residual σ / noise σ) for a layer the
+   * smooth model does not follow, so a rate spike does not pull its neighbours). @default 1
+   */
+  weight?: number;
 }
 
 /** The physical parameters of one layer. */
@@ -123,8 +128,9 @@ export function evaluateLayers(
     for (let i = 0; i < n; i++) view[i] = thicknessAt(layer.tauS[i], v.rateNmPerS, v.rateDriftNmPerS2) + dd;
     // Normal incidence: s and p coincide, so one polarization suffices.
     growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view);
-    if (layout.shared < 0) for (let i = 0; i < n; i++) view[i] = v.gain * view[i] + offsetSignal;
-    else for (let i = 0; i < n; i++) view[i] = sharedGainAt(p, layout, layer.chipTimeS + layer.tauS[i]) * view[i] + offsetSignal;
+    const w = layer.weight ?? 1;
+    if (layout.shared < 0) for (let i = 0; i < n; i++) view[i] = w * (v.gain * view[i] + offsetSignal);
+    else for (let i = 0; i < n; i++) view[i] = w * (sharedGainAt(p, layout, layer.chipTimeS + layer.tauS[i]) * view[i] + offsetSignal);
     pos += n;
   }
 }
@@ -176,7 +182,8 @@ export function jacobianLayers(
       const row = j * total;
       if (j === gainParam) {
         const g = p[j];
-        for (let x = pos; x < pos + n; x++) out[row + x] = (modelAtP[x] - offsetSignal) / g;
+        const wOff = (layer.weight ?? 1) * offsetSignal;
+        for (let x = pos; x < pos + n; x++) out[row + x] = (modelAtP[x] - wOff) / g;
       } else if (j === indexParam) {
         const h = steps[j];
         q[j] = p[j] + h;
@@ -205,7 +212,7 @@ export function jacobianLayers(
   for (const layer of layers) {
     for (let i = 0; i < layer.tauS.length; i++, pos++) {
       const t = layer.chipTimeS + layer.tauS[i];
-      const gm = modelAtP[pos] - offsetSignal;
+      const gm = modelAtP[pos] - (layer.weight ?? 1) * offsetSignal;
       out[rowG + pos] = gm / G;
       if (layout.sharedDrift >= 0) out[rowGamma + pos] = (gm * t) / (1 + gamma * t);
     }
