@@ -41,7 +41,7 @@ function heldNoteFor(held: number, nominal: number, from: number, qwot: number, 
   const basis = from > 0
     ? `nominal ${nominal.toFixed(4)} + the drift estimate from ${from} fitted layer${from > 1 ? 's' : ''} of ${wholeRun ? 'the whole run' : 'this run so far'}`
     : "the material's nominal";
-  return `index held at ${held.toFixed(4)} (${basis}): the layer is ${qwot.toFixed(2)} QWOT at ${wl} nm, too thin to separate index from thickness; thickness only`;
+  return `index held at ${held.toFixed(4)} (${basis}): the layer is ${qwot.toFixed(2)} QWOT at ${wl} nm, too thin to separate index from thickness; thickness only (rate drift not fitted)`;
 }
 
 export const ANALYZE_DEFAULTS = {
