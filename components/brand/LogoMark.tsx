@@ -1,6 +1,6 @@
 /**
  * Fringelog's mark: Newton's rings seen from a corner. Ring radii grow as √n, as the dark
- * fringes of an air wedge between a lens and a flat do (Hecht, Optics, §9.4).
+ * fringes between a lens and a flat do (r = √(nλR); Hecht, Optics, ch. 9 — from memory).
  */
 const RADII = [1, 2, 3, 4, 5, 6, 7].map((n) => 9.2 * Math.sqrt(n));
 
