@@ -3,7 +3,8 @@ import { indexAt } from '../materials';
 import { fromNK, growingLayerSignal, type Complex } from '../optics';
 import { driftEstimateAt, type IndexPoint } from '../stats';
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
-import { calibrateChip, type ChipCalibration } from './calibrateChip';
+import { type ChipCalibration } from './calibrateChip';
+import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
 import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
@@ -50,6 +51,7 @@ export const ANALYZE_DEFAULTS = {
   refitPointsPerLayer: 400,
   refitFinalPoints: 16000,
   gainDrift: false,
+  gainDriftFromChips: true,
   thinLayerQwot: 0.5,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
@@ -90,9 +92,16 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
 
   const noiseFloor = idleNoise(trace, seg.idle);
   const chipLayers = new Map<number, LayerState[]>();
-  const calibrations = new Map<number, ChipCalibration>();
+  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings);
+  const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
+  // A gain drift seen across the chips' bare-chip calibrations is applied within every chip.
+  const drift = o.gainDriftFromChips ? gainDriftFromChips(chipStarts) : null;
+  const knownDrift = drift && Math.abs(drift.driftPerS) > 2 * drift.sigmaPerS ? drift.driftPerS : 0;
+  if (drift && knownDrift !== 0) {
+    warnings.push(`detector gain drifting ${(knownDrift * 360000).toFixed(2)} % per hour (from the bare-chip calibrations of ${drift.chips} chips); applied within each chip`);
+  }
   /** Chip-wide gain G·(1 + γ·t), t from the chip's first layer start (gain mode 'chip'). */
-  const chipGain = new Map<number, { gain: number; driftPerS: number; startS: number; fitDrift: boolean }>();
+  const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, { gain: c.calibration.gain, driftPerS: knownDrift, startS: c.startS, fitDrift: o.gainDrift }]));
   const states: LayerState[] = [];
   let done = 0;
   for (const dl of order) {
@@ -105,26 +114,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     };
     const prior = chipLayers.get(chip) ?? [];
     const below = prior.map((s) => layerAtWavelength(s.fit, s.estimate, wl));
-    let calibration = calibrations.get(chip);
-    if (!calibration) {
-      // The idle samples between the previous layer (of any chip) and this one.
-      const first = samples.indices[0];
-      let idleFrom = 0;
-      for (const other of samplesByLayer.values()) {
-        const last = other.indices[other.indices.length - 1];
-        if (last < first) idleFrom = Math.max(idleFrom, last + 1);
-      }
-      const modelledBare = growingLayerSignal({ ...optics, below, growing: fromNK(1), pol: 's' }, [0])[0];
-      const firstCount = Math.min(samples.indices.length, 20);
-      calibration = calibrateChip({
-        chip, modelledBare, knownOffset: [...calibrations.values()].pop()?.offset,
-        idleSignal: trace.signal.subarray(idleFrom, first),
-        firstLayerSignal: pick(trace.signal, Int32Array.from({ length: firstCount }, (_, i) => i), samples.indices),
-      });
-      if (calibration.source === 'first-layer') warnings.push(`chip ${chip}: no bare-chip stretch before layer ${dl.layer}; gain taken from the layer's first samples`);
-      calibrations.set(chip, calibration);
-      chipGain.set(chip, { gain: calibration.gain, driftPerS: 0, startS: samples.startTimeS, fitDrift: o.gainDrift });
-    }
+    const calibration = calibrations.get(chip)!;
     const cg = chipGain.get(chip)!;
     const chipTimeS = samples.startTimeS - cg.startS;
 
@@ -157,7 +147,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       return {
         optics, nominalAt, tauS: pick(samples.tauS, sub), y: pick(trace.signal, sub, samples.indices), durationS,
         extinction: -nominal.im, heldIndex: state?.fit.heldIndex ?? heldIndex, fitDrift: !held, weight: state?.weight ?? 1,
-        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS,
+        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
       };
     };
     const fit = make(o.maxFitPoints);

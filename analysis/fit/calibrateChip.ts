@@ -4,6 +4,8 @@ export interface ChipCalibration {
   chip: number;
   /** Detector reading per unit of modelled signal. */
   gain: number;
+  /** 1σ of the gain from the noise of the samples it came from (median: √(π/2)·σ/√N). */
+  gainSigma: number;
   /** Detector reading with no light (from dark samples, else an earlier chip's, else 0). */
   offset: number;
   /** 'bare-chip': from the idle stretch before the chip's first layer; 'first-layer': from the first layer's start. */
@@ -49,6 +51,7 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
     if (bare.length >= 5) {
       return {
         chip, gain: (median(bare) - offset) / modelledBare, offset, source: 'bare-chip',
+        gainSigma: (1.2533 * noiseSigma(bare)) / Math.sqrt(bare.length) / modelledBare,
         bareSamples: bare.length, darkSamples: dark.length >= 5 ? dark.length : 0, noiseSigma: noiseSigma(bare),
       };
     }
@@ -57,6 +60,7 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
   if (first.length === 0) throw new RangeError(`chip ${chip}: no samples to calibrate the gain from`);
   return {
     chip, gain: (median(first) - (input.knownOffset ?? 0)) / modelledBare, offset: input.knownOffset ?? 0, source: 'first-layer',
+    gainSigma: (1.2533 * noiseSigma(first)) / Math.sqrt(first.length) / modelledBare,
     bareSamples: 0, darkSamples: 0, noiseSigma: noiseSigma(first),
   };
 }

@@ -12,3 +12,4 @@ export * from './layerResult';
 export * from './runSummary';
 export * from './analyzeRun';
 export * from './refineSegments';
+export * from './chipCalibrations';

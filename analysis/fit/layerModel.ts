@@ -34,6 +34,8 @@ export interface FitLayerData {
    * smooth model does not follow, so a rate spike does not pull its neighbours). @default 1
    */
   weight?: number;
+  /** A known gain drift (fraction per second), applied when the drift is not fitted. @default 0 */
+  gainDriftPerS?: number;
 }
 
 /** The physical parameters of one layer. */
@@ -74,8 +76,8 @@ export function paramLayout(layers: readonly FitLayerData[], sharedGain = false,
 }
 
 /** The gain at a time t after the chip's reference, under a chip-wide gain. */
-export const sharedGainAt = (p: ArrayLike<number>, layout: ParamLayout, t: number): number =>
-  layout.sharedDrift < 0 ? p[layout.shared] : p[layout.shared] * (1 + p[layout.sharedDrift] * t);
+export const sharedGainAt = (p: ArrayLike<number>, layout: ParamLayout, t: number, knownDriftPerS = 0): number =>
+  p[layout.shared] * (1 + (layout.sharedDrift < 0 ? knownDriftPerS : p[layout.sharedDrift]) * t);
 
 /** A layer's parameters; under a chip-wide gain, `gain` is the gain at the layer's start. */
 export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: number, layout?: ParamLayout): LayerParams {
@@ -83,7 +85,7 @@ export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: n
   const index = layer.heldIndex === null ? p[i++] : layer.heldIndex;
   const rateNmPerS = p[i++];
   const rateDriftNmPerS2 = layer.fitDrift ? p[i++] : 0;
-  const gain = layout && layout.shared >= 0 ? sharedGainAt(p, layout, layer.chipTimeS) : layer.heldGain === null ? p[i] : layer.heldGain;
+  const gain = layout && layout.shared >= 0 ? sharedGainAt(p, layout, layer.chipTimeS, layer.gainDriftPerS) : layer.heldGain === null ? p[i] : layer.heldGain;
   return { index, rateNmPerS, rateDriftNmPerS2, gain };
 }
 
@@ -96,7 +98,8 @@ export function encodeLayer(layer: FitLayerData, v: LayerParams, out: number[], 
 
 /**
  * The modelled signal of consecutive layers on one chip, concatenated: layer j grows on
- * fixedBelow plus layers 0..j−1 at their end thicknesses. S = gain·M(d(τ)) + offset.
+ * fixedBelow plus layers 0..j−1 at their end thicknesses. S = gain·M(d(τ)) + offset, the gain
+ * per layer (times 1 + γ·τ for a known drift γ) or chip-wide, G·(1 + γ·t).
  */
 export function evaluateLayers(
   fixedBelow: readonly LayerAt[],
@@ -129,8 +132,12 @@ export function evaluateLayers(
     // Normal incidence: s and p coincide, so one polarization suffices.
     growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view);
     const w = layer.weight ?? 1;
-    if (layout.shared < 0) for (let i = 0; i < n; i++) view[i] = w * (v.gain * view[i] + offsetSignal);
-    else for (let i = 0; i < n; i++) view[i] = w * (sharedGainAt(p, layout, layer.chipTimeS + layer.tauS[i]) * view[i] + offsetSignal);
+    const known = layer.gainDriftPerS ?? 0;
+    if (layout.shared >= 0) {
+      for (let i = 0; i < n; i++) view[i] = w * (sharedGainAt(p, layout, layer.chipTimeS + layer.tauS[i], known) * view[i] + offsetSignal);
+    } else if (known !== 0) {
+      for (let i = 0; i < n; i++) view[i] = w * (v.gain * (1 + known * layer.tauS[i]) * view[i] + offsetSignal);
+    } else for (let i = 0; i < n; i++) view[i] = w * (v.gain * view[i] + offsetSignal);
     pos += n;
   }
 }
@@ -206,10 +213,11 @@ export function jacobianLayers(
     pos += n;
   }
   if (layout.shared < 0) return;
-  const G = p[layout.shared], gamma = layout.sharedDrift < 0 ? 0 : p[layout.sharedDrift];
+  const G = p[layout.shared];
   const rowG = layout.shared * total, rowGamma = layout.sharedDrift * total;
   pos = 0;
   for (const layer of layers) {
+    const gamma = layout.sharedDrift < 0 ? (layer.gainDriftPerS ?? 0) : p[layout.sharedDrift];
     for (let i = 0; i < layer.tauS.length; i++, pos++) {
       const t = layer.chipTimeS + layer.tauS[i];
       const gm = modelAtP[pos] - (layer.weight ?? 1) * offsetSignal;

@@ -22,6 +22,11 @@ export interface AnalyzeOptions {
   gain?: 'per-layer' | 'chip';
   /** Gain mode 'chip', refit: also fit a linear gain drift γ per chip (costs precision; for lamp drift). @default false */
   gainDrift?: boolean;
+  /**
+   * Estimate the detector's gain drift from the bare-chip calibrations of successive chips (two
+   * or more) and apply it within every chip, when it exceeds twice its σ. @default true
+   */
+  gainDriftFromChips?: boolean;
   /** Layers below this many quarter-waves at the monitor wavelength get a held index. @default 0.5 */
   thinLayerQwot?: number;
   /** The index a thin layer is held at: the nominal, or this run's drift estimate. @default 'run-drift' */

@@ -51,6 +51,22 @@ describe('analyzeRun on faulty runs', () => {
     for (const c of result.chips) expect(c.gain).toBeCloseTo(1.3, 2);
   });
 
+  it('estimates a detector gain drift from the bare-chip calibrations of successive chips and corrects for it', async () => {
+    const design = mirror18();
+    const { run, trace } = await synthTrace(design, { seed: 35, gainDriftPerHour: -0.03, rateNmPerS: { H: 0.25, L: 0.5 } });
+    const result = await analyzeRun(design, trace, { mode: 'refit' });
+    const note = result.warnings.find((w) => w.startsWith('detector gain drifting'));
+    expect(note).toMatch(/^detector gain drifting -(2\.[6-9]|3\.[0-4])\d % per hour \(from the bare-chip calibrations of 3 chips\)/);
+    for (const l of result.layers) {
+      const t = run.truth[l.layer - 1];
+      expect(Math.abs(l.thicknessNm / t.thicknessNm - 1), `layer ${l.layer} thickness`).toBeLessThan(0.003);
+      expect(Math.abs(l.index - t.index), `layer ${l.layer} index`).toBeLessThan(0.003);
+    }
+    const without = await analyzeRun(design, trace, { mode: 'refit', gainDriftFromChips: false });
+    const worst = (r: typeof result) => Math.max(...r.layers.map((l) => Math.abs(l.index - run.truth[l.layer - 1].index)));
+    expect(worst(without)).toBeGreaterThan(2 * worst(result));
+  });
+
   it('tracks index drift per material with a trend and its σ', async () => {
     const design = mirror18();
     const { run, trace } = await synthTrace(design, { seed: 36, indexDriftPerHour: { H: -0.03 } });
