@@ -1,6 +1,6 @@
 import { type Design, type DesignLayer } from '../design';
 import { indexAt } from '../materials';
-import { fromNK, growingLayerSignal, type Complex } from '../optics';
+import { type Complex } from '../optics';
 import { driftEstimateAt, type IndexPoint } from '../stats';
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
@@ -141,12 +141,13 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       continue;
     }
     const durationS = samples.tauS[n - 1];
-    let state: LayerState | undefined;
+    // make() is called again after the pass (final refit), when the layer's state exists.
+    const built: { state?: LayerState } = {};
     const make = (maxPoints: number): FitLayerData => {
       const sub = subsampleUniform(samples.tauS, 0, n, maxPoints);
       return {
         optics, nominalAt, tauS: pick(samples.tauS, sub), y: pick(trace.signal, sub, samples.indices), durationS,
-        extinction: -nominal.im, heldIndex: state?.fit.heldIndex ?? heldIndex, fitDrift: !held, weight: state?.weight ?? 1,
+        extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: !held, weight: built.state?.weight ?? 1,
         heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
       };
     };
@@ -165,13 +166,14 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;
     const weight = ratio > o.residualWarnFactor ? 1 / ratio : 1;
     refit.weight = weight;
-    state = {
+    const state: LayerState = {
       weight, qwotAtMonitor, design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
       converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration,
     };
-    prior.push(state!);
+    built.state = state;
+    prior.push(state);
     chipLayers.set(chip, prior);
-    states.push(state!);
+    states.push(state);
     if (o.mode === 'refit' && (prior.length > 1 || o.gain === 'chip')) {
       refitChip(prior.map((p) => p.refit), prior, calibration.offset, false, o.gain === 'chip' ? cg : null);
     }
