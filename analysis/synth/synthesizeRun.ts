@@ -28,7 +28,7 @@ export function synthesizeRun(design: Design, options: SynthOptions = {}): Synth
   const o = {
     seed: 1, sampleIntervalS: 0.1, noiseFraction: 0.001, gain: 1, gainDriftPerHour: 0, offset: 0, darkS: 0,
     rateNmPerS: {}, defaultRateNmPerS: 0.3, rateScatter: 0.02, rateDriftFraction: 0, indexOffset: {},
-    indexDriftPerHour: {}, thicknessScatter: 0.004, overshoot: {}, rateSpikes: [], bareChipS: 20, settleS: 3,
+    indexDriftPerHour: {}, thicknessScatter: 0.004, overshoot: {}, rateSpikes: [], pauses: [], bareChipS: 20, settleS: 3,
     layerColumn: true, chipColumn: true, meta: {}, ...options,
   };
   if (!(o.sampleIntervalS > 0)) throw new RangeError(`sampleIntervalS must be > 0 (got ${o.sampleIntervalS})`);
@@ -98,14 +98,23 @@ export function synthesizeRun(design: Design, options: SynthOptions = {}): Synth
       { ambient: indexAt(design.ambient, wavelengthNm), substrate: indexAt(design.substrate, wavelengthNm), below: stackAt(chip, wavelengthNm),
         growing, wavelengthNm, mode, backside: design.substrateBackside }, d);
     const tooling = o.tooling?.[layer.material] ?? 1;
-    for (let i = 0; i < d.length; i++) push(layer.layer, chip, gainAt(nowS()) * m[i] + o.offset + noise(), d[i] / tooling);
+    const pause = o.pauses.find((q) => q.layer === layer.layer);
+    const pauseAt = pause ? Math.min(d.length - 1, Math.max(1, Math.round((pause.atFraction * nominalS) / dt))) : -1;
+    for (let i = 0; i < d.length; i++) {
+      if (i === pauseAt) {
+        // Shutter closed: no growth, layer 0, the reading of the layer so far.
+        const count = Math.round(pause!.durationS / dt);
+        for (let k = 0; k < count; k++) push(0, chip, gainAt(nowS()) * m[i - 1] + o.offset + noise(), d[i - 1] / tooling);
+      }
+      push(layer.layer, chip, gainAt(nowS()) * m[i] + o.offset + noise(), d[i] / tooling);
+    }
     const dEnd = d[d.length - 1];
     const list = stacks.get(chip) ?? [];
     list.push({ material: layer.material, deltaN, thicknessNm: dEnd });
     stacks.set(chip, list);
     truth.push({
       layer: layer.layer, material: layer.material, chip, thicknessNm: dEnd, index: growing.re, nominalIndex: nominal.re,
-      rateNmPerS: r, rateDriftNmPerS2: a, startTimeS: startS, endTimeS: startS + (d.length - 1) * dt, gain: gainAt(startS),
+      rateNmPerS: r, rateDriftNmPerS2: a, startTimeS: startS, endTimeS: nowS() - dt, gain: gainAt(startS),
       cutErrorQwotPct: ((growing.re * dEnd - nominal.re * layer.thicknessNm) / (wavelengthNm / 4)) * 100,
       qwotAtMonitor: (4 * nominal.re * layer.thicknessNm) / wavelengthNm,
     });

@@ -43,6 +43,8 @@ export interface SynthOptions {
   overshoot?: Record<number, number>;
   /** @default [] */
   rateSpikes?: RateSpike[];
+  /** Shutter closed mid-layer (no growth, layer column 0), by layer. @default [] */
+  pauses?: { layer: number; atFraction: number; durationS: number }[];
   /** Bare-chip stretch before each chip's first layer, s. @default 20 */
   bareChipS?: number;
   /** Idle settling between layers, s. @default 3 */

@@ -67,6 +67,18 @@ describe('analyzeRun on faulty runs', () => {
     expect(worst(without)).toBeGreaterThan(2 * worst(result));
   });
 
+  it('joins the two runs of a paused layer, leaving the pause out of its time base', async () => {
+    const design = mirror18();
+    const { run, trace } = await synthTrace(design, { seed: 39, pauses: [{ layer: 5, atFraction: 0.5, durationS: 30 }] });
+    const result = await analyzeRun(design, trace, { mode: 'refit' });
+    const l5 = result.layers[4];
+    expect(l5.warnings).toContain('the layer was deposited in 2 runs; the pauses are left out of its time base');
+    expect(result.warnings.some((w) => w.includes('layer 5 resumes after a pause'))).toBe(true);
+    expect(l5.cutTimeS).toBeCloseTo(run.truth[4].endTimeS, 6);
+    expect(Math.abs(l5.thicknessNm / run.truth[4].thicknessNm - 1)).toBeLessThan(0.003);
+    expect(Math.abs(l5.index - run.truth[4].index)).toBeLessThan(0.003);
+  });
+
   it('tracks index drift per material with a trend and its σ', async () => {
     const design = mirror18();
     const { run, trace } = await synthTrace(design, { seed: 36, indexDriftPerHour: { H: -0.03 } });
