@@ -114,7 +114,7 @@ export function synthesizeRun(design: Design, options: SynthOptions = {}): Synth
     stacks.set(chip, list);
     truth.push({
       layer: layer.layer, material: layer.material, chip, thicknessNm: dEnd, index: growing.re, nominalIndex: nominal.re,
-      rateNmPerS: r, rateDriftNmPerS2: a, startTimeS: startS, endTimeS: nowS() - dt, gain: gainAt(startS),
+      rateNmPerS: r, rateDriftNmPerS2: a, startTimeS: startS, endTimeS: cols.timeS[cols.timeS.length - 1], gain: gainAt(startS),
       cutErrorQwotPct: ((growing.re * dEnd - nominal.re * layer.thicknessNm) / (wavelengthNm / 4)) * 100,
       qwotAtMonitor: (4 * nominal.re * layer.thicknessNm) / wavelengthNm,
     });
