@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { boolean, index, integer, jsonb, pgEnum, pgTable, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import { boolean, customType, doublePrecision, index, integer, jsonb, pgEnum, pgTable, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
 
 export const roleEnum = pgEnum('role', ['operator', 'engineer', 'supervisor', 'admin']);
 export const userStatusEnum = pgEnum('user_status', ['invited', 'active', 'deactivated']);
@@ -97,3 +97,161 @@ export const appMeta = pgTable('app_meta', {
   value: text('value').notNull(),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 });
+
+/** Raw bytes (PostgreSQL bytea) as a Node Buffer. */
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({
+  dataType() {
+    return 'bytea';
+  },
+});
+
+export const designs = pgTable(
+  'designs',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    name: text('name').notNull().unique(),
+    createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('designs_created_by_idx').on(t.createdBy)],
+);
+export type DesignRow = typeof designs.$inferSelect;
+
+/** A design as it was at one time; never updated: a change is a new revision. */
+export const designRevisions = pgTable(
+  'design_revisions',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    designId: integer('design_id')
+      .notNull()
+      .references(() => designs.id, { onDelete: 'restrict' }),
+    revision: integer('revision').notNull(),
+    /** The design file ("fringelog.design/1") as uploaded. */
+    document: jsonb('document').$type<unknown>().notNull(),
+    sourceFileName: text('source_file_name'),
+    /** From the parsed document, for lists. */
+    name: text('name').notNull(),
+    referenceWavelengthNm: doublePrecision('reference_wavelength_nm').notNull(),
+    layerCount: integer('layer_count').notNull(),
+    createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex('design_revisions_design_revision_idx').on(t.designId, t.revision), index('design_revisions_created_by_idx').on(t.createdBy)],
+);
+export type DesignRevision = typeof designRevisions.$inferSelect;
+
+export const runStatusEnum = pgEnum('run_status', ['uploaded', 'analysed', 'failed']);
+export const dispositionEnum = pgEnum('run_disposition', ['accepted', 'on_hold', 'rejected']);
+
+export const runs = pgTable(
+  'runs',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    designRevisionId: integer('design_revision_id')
+      .notNull()
+      .references(() => designRevisions.id, { onDelete: 'restrict' }),
+    chamberId: integer('chamber_id')
+      .notNull()
+      .references(() => chambers.id, { onDelete: 'restrict' }),
+    /** The shop's run number as the trace names it, e.g. "B1-0412". */
+    runCode: text('run_code').notNull(),
+    shift: text('shift'),
+    /** The operator as a Fringelog user, when the name in the file matches one. */
+    operatorId: integer('operator_id').references(() => users.id, { onDelete: 'set null' }),
+    /** The operator as the trace file names them. */
+    operatorName: text('operator_name'),
+    startedAt: timestamp('started_at', { withTimezone: true }),
+    status: runStatusEnum('status').notNull().default('uploaded'),
+    disposition: dispositionEnum('disposition'),
+    dispositionReason: text('disposition_reason'),
+    dispositionBy: integer('disposition_by').references(() => users.id, { onDelete: 'set null' }),
+    dispositionAt: timestamp('disposition_at', { withTimezone: true }),
+    uploadedBy: integer('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    uniqueIndex('runs_chamber_code_idx').on(t.chamberId, t.runCode),
+    index('runs_design_revision_idx').on(t.designRevisionId),
+    index('runs_operator_idx').on(t.operatorId),
+    index('runs_uploaded_by_idx').on(t.uploadedBy),
+    index('runs_disposition_by_idx').on(t.dispositionBy),
+    index('runs_started_at_idx').on(t.startedAt),
+  ],
+);
+export type Run = typeof runs.$inferSelect;
+
+/** The trace file of a run, byte for byte as uploaded. */
+export const traceFiles = pgTable(
+  'trace_files',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    runId: integer('run_id')
+      .notNull()
+      .unique()
+      .references(() => runs.id, { onDelete: 'cascade' }),
+    fileName: text('file_name').notNull(),
+    byteSize: integer('byte_size').notNull(),
+    /** Hex SHA-256 of the bytes. */
+    sha256: text('sha256').notNull(),
+    bytes: bytea('bytes').notNull(),
+    rowCount: integer('row_count').notNull(),
+    /** Header names as read (lower-cased). */
+    columns: text('columns').array().notNull(),
+    /** The `# key: value` lines. */
+    meta: jsonb('meta').$type<Record<string, string>>().notNull().default({}),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('trace_files_sha256_idx').on(t.sha256)],
+);
+export type TraceFile = typeof traceFiles.$inferSelect;
+
+export const analysisModeEnum = pgEnum('analysis_mode', ['sequential', 'refit']);
+export const analysisStateEnum = pgEnum('analysis_state', ['queued', 'running', 'done', 'failed']);
+
+/** Run-level results of one analysis (analysis/fit AnalysisResult without its layers), arrays as plain numbers. */
+export type AnalysisSummary = Record<string, unknown>;
+
+export const analyses = pgTable(
+  'analyses',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    runId: integer('run_id')
+      .notNull()
+      .references(() => runs.id, { onDelete: 'cascade' }),
+    mode: analysisModeEnum('mode').notNull(),
+    settings: jsonb('settings').$type<Record<string, unknown>>().notNull().default({}),
+    state: analysisStateEnum('state').notNull().default('queued'),
+    error: text('error'),
+    requestedBy: integer('requested_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    startedAt: timestamp('started_at', { withTimezone: true }),
+    finishedAt: timestamp('finished_at', { withTimezone: true }),
+    warnings: jsonb('warnings').$type<string[]>().notNull().default([]),
+    summary: jsonb('summary').$type<AnalysisSummary>(),
+  },
+  (t) => [index('analyses_run_idx').on(t.runId, t.mode), index('analyses_requested_by_idx').on(t.requestedBy)],
+);
+export type Analysis = typeof analyses.$inferSelect;
+
+export const layerResults = pgTable(
+  'layer_results',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    analysisId: integer('analysis_id')
+      .notNull()
+      .references(() => analyses.id, { onDelete: 'cascade' }),
+    layer: integer('layer').notNull(),
+    material: text('material').notNull(),
+    thicknessNm: doublePrecision('thickness_nm').notNull(),
+    thicknessSigmaNm: doublePrecision('thickness_sigma_nm').notNull(),
+    index: doublePrecision('index').notNull(),
+    indexSigma: doublePrecision('index_sigma').notNull(),
+    rateNmPerS: doublePrecision('rate_nm_per_s').notNull(),
+    cutErrorQwotPct: doublePrecision('cut_error_qwot_pct').notNull(),
+    residualRms: doublePrecision('residual_rms').notNull(),
+    /** Every other key of the layer's result (analysis/fit LayerResult). */
+    detail: jsonb('detail').$type<Record<string, unknown>>().notNull().default({}),
+  },
+  (t) => [uniqueIndex('layer_results_analysis_layer_idx').on(t.analysisId, t.layer)],
+);
+export type LayerResultRow = typeof layerResults.$inferSelect;

@@ -27,6 +27,11 @@ export async function findUserForSignIn(email: string): Promise<User | undefined
   return row;
 }
 
+export async function findUserIdByEmail(email: string, ex: Executor = db()): Promise<number | undefined> {
+  const [row] = await ex.select({ id: users.id }).from(users).where(sql`lower(${users.email}) = lower(${email})`);
+  return row?.id;
+}
+
 export async function emailTaken(email: string, ex: Executor = db()): Promise<boolean> {
   const [row] = await ex.select({ id: users.id }).from(users).where(sql`lower(${users.email}) = lower(${email})`);
   return row !== undefined;

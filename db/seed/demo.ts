@@ -4,14 +4,13 @@ import type { Db, Executor } from '../client';
 import { hashPassword } from '../password';
 import { appMeta, chambers, users } from '../schema';
 import { demoChambers, demoUsers } from './demoData';
-
+import { loadSampleRuns } from './sampleRuns';
 
 type Step = { key: string; run(db: Executor): Promise<void> };
 
 /**
- * Seed steps, each run once per database and recorded in app_meta. A later step that loads the
- * demo designs and runs from sample-traces/ is appended here, after the chambers and users it
- * refers to.
+ * Seed steps, each run once per database and recorded in app_meta; each step is one transaction.
+ * The sample runs come after the chambers and users they refer to.
  */
 export const seedSteps: Step[] = [
   {
@@ -27,6 +26,19 @@ export const seedSteps: Step[] = [
         const passwordHash = await hashPassword(u.password);
         await db.insert(users).values({ name: u.name, email: u.email, role: u.role, status: 'active', passwordHash }).onConflictDoNothing();
       }
+    },
+  },
+  {
+    key: 'seed:sample-runs',
+    async run(db) {
+      const t0 = performance.now();
+      const report = await loadSampleRuns(db);
+      const failed = report.analyses.filter((a) => a.state === 'failed');
+      const slowest = report.analyses.reduce((a, b) => (b.ms > a.ms ? b : a), report.analyses[0]);
+      console.log(
+        `[fringelog] demo: ${report.designs} designs, ${report.runs} runs, ${report.analyses.length} analyses in ${((performance.now() - t0) / 1000).toFixed(1)} s ${slowest ? `(slowest ${slowest.file} ${slowest.mode} ${(slowest.ms / 1000).toFixed(1)} s)` : ''}`,
+      );
+      for (const f of failed) if (f.state === 'failed') console.log(`[fringelog] demo analysis failed: ${f.file} (${f.mode}): ${f.error}`);
     },
   },
 ];

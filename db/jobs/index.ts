@@ -1,0 +1,2 @@
+export * from './analyseStoredRun';
+export * from './toJsonValue';

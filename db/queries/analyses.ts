@@ -1,0 +1,91 @@
+import 'server-only';
+import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import type { AnalysisMode, LayerResult } from '../../analysis/fit';
+import { db, type Executor } from '../client';
+import { analyses, layerResults, runs, type Analysis, type AnalysisSummary, type LayerResultRow } from '../schema';
+
+export type { AnalysisMode };
+
+/** A new analysis of a run, state 'queued'. */
+export async function createAnalysis(
+  input: { runId: number; mode: AnalysisMode; settings?: Record<string, unknown>; requestedBy: number | null },
+  ex: Executor = db(),
+): Promise<Analysis> {
+  const [row] = await ex
+    .insert(analyses)
+    .values({ runId: input.runId, mode: input.mode, settings: input.settings ?? {}, requestedBy: input.requestedBy })
+    .returning();
+  return row;
+}
+
+/** queued → running; false when the analysis was not queued (taken by someone else, or finished). */
+export async function markAnalysisRunning(id: number, ex: Executor = db()): Promise<boolean> {
+  const rows = await ex
+    .update(analyses)
+    .set({ state: 'running', startedAt: new Date() })
+    .where(and(eq(analyses.id, id), eq(analyses.state, 'queued')))
+    .returning({ id: analyses.id });
+  return rows.length === 1;
+}
+
+/** The keys of FORMATS.md have their own columns; every other key of the layer result goes to `detail`. */
+function layerRow(analysisId: number, l: LayerResult): typeof layerResults.$inferInsert {
+  const { layer, material, thicknessNm, thicknessSigmaNm, index, indexSigma, rateNmPerS, cutErrorQwotPct, residualRms, ...detail } = l;
+  return { analysisId, layer, material, thicknessNm, thicknessSigmaNm, index, indexSigma, rateNmPerS, cutErrorQwotPct, residualRms, detail };
+}
+
+/**
+ * Stores a finished analysis: its layer results, warnings and run-level summary, the analysis
+ * marked 'done' and the run 'analysed', in one transaction. Refuses (returns false, writes
+ * nothing) unless the analysis is still running.
+ */
+export async function storeAnalysisResult(
+  id: number,
+  result: { layers: readonly LayerResult[]; warnings: string[]; summary: AnalysisSummary },
+  ex: Executor = db(),
+): Promise<boolean> {
+  return ex.transaction(async (tx) => {
+    const [done] = await tx
+      .update(analyses)
+      .set({ state: 'done', finishedAt: new Date(), warnings: result.warnings, summary: result.summary, error: null })
+      .where(and(eq(analyses.id, id), eq(analyses.state, 'running')))
+      .returning({ runId: analyses.runId });
+    if (!done) return false;
+    if (result.layers.length > 0) await tx.insert(layerResults).values(result.layers.map((l) => layerRow(id, l)));
+    await tx.update(runs).set({ status: 'analysed' }).where(eq(runs.id, done.runId));
+    return true;
+  });
+}
+
+/** Marks a queued or running analysis 'failed' with its message (and the run 'failed' unless an earlier analysis of it succeeded). */
+export async function failAnalysis(id: number, message: string, ex: Executor = db()): Promise<void> {
+  await ex.transaction(async (tx) => {
+    const [failed] = await tx
+      .update(analyses)
+      .set({ state: 'failed', finishedAt: new Date(), error: message })
+      .where(and(eq(analyses.id, id), inArray(analyses.state, ['queued', 'running'])))
+      .returning({ runId: analyses.runId });
+    if (!failed) return;
+    const [ok] = await tx.select({ id: analyses.id }).from(analyses).where(and(eq(analyses.runId, failed.runId), eq(analyses.state, 'done'))).limit(1);
+    if (!ok) await tx.update(runs).set({ status: 'failed' }).where(eq(runs.id, failed.runId));
+  });
+}
+
+export type AnalysisWithLayers = { analysis: Analysis; layers: LayerResultRow[] };
+
+export async function findAnalysis(id: number, ex: Executor = db()): Promise<AnalysisWithLayers | undefined> {
+  const [analysis] = await ex.select().from(analyses).where(eq(analyses.id, id));
+  if (!analysis) return undefined;
+  const layers = await ex.select().from(layerResults).where(eq(layerResults.analysisId, id)).orderBy(asc(layerResults.layer));
+  return { analysis, layers };
+}
+
+/** The newest analysis of a run in each mode, with its layer results. */
+export async function latestAnalyses(runId: number, ex: Executor = db()): Promise<Partial<Record<AnalysisMode, AnalysisWithLayers>>> {
+  const rows = await ex.selectDistinctOn([analyses.mode]).from(analyses).where(eq(analyses.runId, runId)).orderBy(analyses.mode, desc(analyses.id));
+  const out: Partial<Record<AnalysisMode, AnalysisWithLayers>> = {};
+  const ids = rows.map((r) => r.id);
+  const layers = ids.length ? await ex.select().from(layerResults).where(inArray(layerResults.analysisId, ids)).orderBy(asc(layerResults.layer)) : [];
+  for (const analysis of rows) out[analysis.mode] = { analysis, layers: layers.filter((l) => l.analysisId === analysis.id) };
+  return out;
+}
