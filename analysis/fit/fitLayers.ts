@@ -5,6 +5,9 @@ import {
   type FitLayerData, type LayerParams,
 } from './layerModel';
 
+/** The fitted index stays within ±15 % of the material's nominal. */
+export const INDEX_BOUND = 0.15;
+
 export interface JointFitInput {
   /** Layers on the chip below the first fitted one, held, at the fitted layers' wavelength. */
   fixedBelow: readonly LayerAt[];
@@ -53,8 +56,9 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
     const T = Math.max(layer.durationS, 1e-9);
     const r = Math.abs(s.rateNmPerS);
     encodeLayer(layer, { index: 0.01, rateNmPerS: 0.005 * r, rateDriftNmPerS2: (0.01 * r) / T, gain: 0.001 * Math.abs(s.gain) }, scale, shared);
-    encodeLayer(layer, { index: 1.0, rateNmPerS: 0.2 * r, rateDriftNmPerS2: -r / T, gain: 0.5 * s.gain }, min, shared);
-    encodeLayer(layer, { index: 4.0, rateNmPerS: 5 * r, rateDriftNmPerS2: r / T, gain: 2 * s.gain }, max, shared);
+    const nominal = layer.nominalAt(layer.optics.wavelengthNm).re;
+    encodeLayer(layer, { index: Math.max(1, (1 - INDEX_BOUND) * nominal), rateNmPerS: 0.2 * r, rateDriftNmPerS2: -r / T, gain: 0.5 * s.gain }, min, shared);
+    encodeLayer(layer, { index: (1 + INDEX_BOUND) * nominal, rateNmPerS: 5 * r, rateDriftNmPerS2: r / T, gain: 2 * s.gain }, max, shared);
   });
   if (sharedGain) {
     p0.push(sharedGain.gain);

@@ -2,6 +2,7 @@ import { fromNK, growingLayerSignal, type LayerAt } from '../optics';
 import { type TraceData } from '../trace';
 import { type LayerState } from './analyzeRun';
 import { modelTurningPoints, timeToThickness } from './cutTiming';
+import { INDEX_BOUND } from './fitLayers';
 import { thicknessAt } from './layerModel';
 import { type LayerResult, type TurningPointAt } from './types';
 
@@ -60,6 +61,9 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const opticalToCrystalRatio = crystalNm !== null && crystalNm > 0 ? e.thicknessNm / crystalNm : null;
 
   if (s.heldNote) warnings.push(s.heldNote);
+  if (Math.abs(e.index / nominal.re - 1) > INDEX_BOUND - 1e-4) {
+    warnings.push(`the index ran to the fit's bound (±${INDEX_BOUND * 100} % of nominal): the fit cannot be trusted (wrong design, stack below, or segmentation?)`);
+  }
   if (samples.runs > 1) warnings.push(`the layer was deposited in ${samples.runs} runs; the pauses are left out of its time base`);
   if (!s.converged) warnings.push('the fit did not converge within its iteration limit');
   if (!s.wellDetermined) warnings.push('the data do not determine every parameter (singular normal matrix): uncertainties unknown');

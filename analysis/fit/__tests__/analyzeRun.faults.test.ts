@@ -79,6 +79,26 @@ describe('analyzeRun on faulty runs', () => {
     expect(Math.abs(l5.index - run.truth[4].index)).toBeLessThan(0.003);
   });
 
+  it('handles reflectance monitoring, an absorbing material and a change of monitor wavelength on one chip (refit)', async () => {
+    const layers = Array.from({ length: 8 }, (_, i) => ({
+      material: i % 2 ? 'L' : 'H', qwot: i === 3 ? 1.6 : 1,
+      monitor: { wavelengthNm: i < 4 ? 600 : 700, mode: 'R', chip: 1, cut: i === 3 ? 'level' : 'turning-point' },
+    }));
+    const design = parseDesign({
+      format: 'fringelog.design/1', name: 'R monitor', referenceWavelengthNm: 600, substrate: { model: 'constant', n: 1.52 }, substrateBackside: false,
+      materials: { H: { model: 'constant', n: 2.2, k: 0.002 }, L: 'SiO2' }, layers,
+    });
+    const { run, trace } = await synthTrace(design, { seed: 5, rateDriftFraction: 0.03 });
+    const result = await analyzeRun(design, trace, { mode: 'refit' });
+    for (const l of result.layers) {
+      const t = run.truth[l.layer - 1];
+      expect(Math.abs(l.thicknessNm - t.thicknessNm), `layer ${l.layer} thickness`).toBeLessThan(Math.max(0.003 * t.thicknessNm, 3 * l.thicknessSigmaNm));
+      expect(Math.abs(l.index - t.index), `layer ${l.layer} index`).toBeLessThan(Math.max(0.003, 3 * l.indexSigma));
+      expect(l.mode).toBe('R');
+    }
+    expect(result.layers[4].wavelengthNm).toBe(700);
+  });
+
   it('tracks index drift per material with a trend and its σ', async () => {
     const design = mirror18();
     const { run, trace } = await synthTrace(design, { seed: 36, indexDriftPerHour: { H: -0.03 } });
