@@ -52,6 +52,7 @@ export const ANALYZE_DEFAULTS = {
   refitFinalPoints: 16000,
   gainDrift: false,
   gainDriftFromChips: true,
+  gainPriorFraction: 0.005,
   thinLayerQwot: 0.5,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
@@ -158,9 +159,13 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       gain: fit.heldGain ?? undefined, optics, below, extinction: -nominal.im, tauS: grid.tauS, y: grid.y, offsetSignal: calibration.offset,
       index: heldIndex ?? nominal.re, searchIndex: !held, rateGuessNmPerS: dl.thicknessNm / Math.max(durationS, 1e-9),
     });
+    // Per-layer gains start at (and are held near, by a prior) the chip calibration.
+    const anchor = cg.gain * (1 + cg.driftPerS * chipTimeS);
+    const withPrior = o.gainPriorFraction > 0 && fit.heldGain === null;
     const single = fitLayers({
       fixedBelow: below, layers: [fit], offsetSignal: calibration.offset,
-      start: [{ index: sv.index, rateNmPerS: sv.rateNmPerS, rateDriftNmPerS2: 0, gain: fit.heldGain ?? sv.gain }],
+      start: [{ index: sv.index, rateNmPerS: sv.rateNmPerS, rateDriftNmPerS2: 0, gain: fit.heldGain ?? (withPrior ? anchor : sv.gain) }],
+      ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
     });
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
     const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;

@@ -15,6 +15,11 @@ export interface JointFitInput {
   /** Starting values, one per layer. */
   start: readonly LayerParams[];
   offsetSignal: number;
+  /**
+   * A Gaussian prior on each free per-layer gain, centred on its start value: σ as a fraction of
+   * the gain, with the data's noise σ to weigh it against the samples (a pseudo-observation).
+   */
+  gainPrior?: { fraction: number; noiseSigma: number };
   /** Fit one gain for all the layers, G·(1 + γ·t) with t from the chip's reference (start values). */
   sharedGain?: { gain: number; driftPerS: number; fitDrift: boolean };
 }
@@ -46,7 +51,7 @@ export interface JointFitResult {
  * layers of a chip: the joint re-fit.
  */
 export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {}): JointFitResult {
-  const { fixedBelow, layers, start, offsetSignal, sharedGain } = input;
+  const { fixedBelow, layers, start, offsetSignal, sharedGain, gainPrior } = input;
   const shared = sharedGain !== undefined;
   const layout = paramLayout(layers, shared, sharedGain?.fitDrift ?? false);
   const p0: number[] = [], scale: number[] = [], min: number[] = [], max: number[] = [];
@@ -74,18 +79,38 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
   }
   let total = 0;
   for (const l of layers) total += l.y.length;
-  const y = new Float64Array(total);
+  // Gain priors: one pseudo-observation per free per-layer gain, (g − g₀)·σ_noise/σ_prior.
+  const priors: { param: number; g0: number; c: number }[] = [];
+  if (gainPrior && !shared && gainPrior.noiseSigma > 0) {
+    layers.forEach((l, j) => {
+      if (l.heldGain !== null) return;
+      const next = j + 1 < layers.length ? layout.offsets[j + 1] : layout.count;
+      priors.push({ param: next - 1, g0: start[j].gain, c: gainPrior.noiseSigma / (gainPrior.fraction * Math.abs(start[j].gain)) });
+    });
+  }
+  const y = new Float64Array(total + priors.length);
   let pos = 0;
   for (const l of layers) {
     const w = l.weight ?? 1;
     for (let i = 0; i < l.y.length; i++) y[pos + i] = w * l.y[i];
     pos += l.y.length;
   }
+  const width = total + priors.length;
   const solver = leastSquares(
     {
       y,
-      model: (p, out) => evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, out),
-      jacobian: (p, at, steps, out) => jacobianLayers(fixedBelow, layers, layout, p, offsetSignal, at, steps, out),
+      model: (p, out) => {
+        evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, out.subarray(0, total));
+        priors.forEach((q, k) => (out[total + k] = (p[q.param] - q.g0) * q.c));
+      },
+      jacobian: (p, at, steps, out) => {
+        if (priors.length === 0) return jacobianLayers(fixedBelow, layers, layout, p, offsetSignal, at, steps, out);
+        const inner = new Float64Array(layout.count * total);
+        jacobianLayers(fixedBelow, layers, layout, p, offsetSignal, at.subarray(0, total), steps, inner);
+        out.fill(0);
+        for (let j = 0; j < layout.count; j++) out.set(inner.subarray(j * total, (j + 1) * total), j * width);
+        priors.forEach((q, k) => (out[q.param * width + total + k] = q.c));
+      },
       start: p0,
       scale,
       min,

@@ -27,6 +27,11 @@ export interface AnalyzeOptions {
    * or more) and apply it within every chip, when it exceeds twice its σ. @default true
    */
   gainDriftFromChips?: boolean;
+  /**
+   * Gain mode 'per-layer': a Gaussian prior holding each layer's gain near the chip calibration
+   * (with any known drift), σ as a fraction of the gain; 0 leaves the gains free. @default 0.005
+   */
+  gainPriorFraction?: number;
   /** Layers below this many quarter-waves at the monitor wavelength get a held index. @default 0.5 */
   thinLayerQwot?: number;
   /** The index a thin layer is held at: the nominal, or this run's drift estimate. @default 'run-drift' */
