@@ -242,7 +242,7 @@ export function refitChip(
 ): JointFitResult['sharedGain'] {
   const joint = fitLayers(
     { fixedBelow: [], layers: data, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) },
-    final ? {} : { iterationsPerRound: 4, maxRounds: 2 },
+    final ? {} : { maxRounds: 2 },
   );
   if (chipGain && joint.sharedGain) {
     chipGain.gain = joint.sharedGain.gain;

@@ -25,9 +25,9 @@ export interface LeastSquaresProblem {
 export interface LeastSquaresOptions {
   /** Finite-difference step, in scaled units. @default 0.001 */
   gradientStep?: number;
-  /** Levenberg–Marquardt iterations per round; convergence is checked between rounds. @default 4 */
+  /** Levenberg–Marquardt iterations per round; convergence is checked between rounds. @default 2 */
   iterationsPerRound?: number;
-  /** @default 10 */
+  /** @default 15 */
   maxRounds?: number;
   /**
    * A round that lowers χ² = SSR/s² (s² = SSR/(N − p)) by less than this ends the fit: the
@@ -55,8 +55,8 @@ export interface LeastSquaresResult {
 
 const DEFAULTS: Required<LeastSquaresOptions> = {
   gradientStep: 0.001,
-  iterationsPerRound: 4,
-  maxRounds: 10,
+  iterationsPerRound: 2,
+  maxRounds: 15,
   tolerance: 0.01,
 };
 
