@@ -77,7 +77,7 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
   for (let j = 0; j < np; j++) steps[j] = opt.gradientStep * scale[j];
   // Solver units: each parameter scaled by its Jacobian column norm at the start, so JᵀJ has a
   // unit diagonal and the library's fixed damping means the same for every parameter
-  // (D. W. Marquardt, J. SIAM 11, 431 (1963), §4 scaling).
+  // (D. W. Marquardt, J. SIAM 11, 431 (1963): the normal equations scaled to unit diagonal; from memory).
   const unit = new Float64Array(np);
   const j0 = jacobianAt(problem, start, scale, opt.gradientStep);
   for (let j = 0; j < np; j++) {
