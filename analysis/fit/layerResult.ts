@@ -1,9 +1,10 @@
 import { fromNK, growingLayerSignal, type LayerAt } from '../optics';
-import { type TraceData } from '../trace';
+import { findTurningPoints, type TraceData } from '../trace';
 import { type LayerState } from './analyzeRun';
 import { modelTurningPoints, timeToThickness } from './cutTiming';
 import { INDEX_BOUND } from './fitLayers';
 import { thicknessAt } from './layerModel';
+import { subsampleUniform } from './subsample';
 import { type LayerResult, type TurningPointAt } from './types';
 
 interface ResultOptions {
@@ -56,6 +57,21 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
     const timeS = toTime(lastTp.thicknessNm);
     if (timeS !== null) lastTurningPoint = { timeS, signal: lastTp.signal, kind: lastTp.kind, thicknessNm: lastTp.thicknessNm };
   }
+  // The turning points the data show (hysteresis search), for comparison with the model's.
+  // At most 5000 samples, uniform in time, keep this cheap on long layers.
+  const sub = subsampleUniform(samples.tauS, 0, n, 5000);
+  const subTime = Float64Array.from(sub, (k) => trace.timeS[samples.indices[k]]);
+  const seen = findTurningPoints(subTime, Float64Array.from(sub, (k) => trace.signal[samples.indices[k]]), {
+    smoothWindow: sub.length >= 21 ? 21 : 0, includeEnd: true,
+  });
+  // An unconfirmed end extremum counts only if reached (not projected past the last sample) and
+  // placed near its own sample.
+  const step = subTime.length > 1 ? subTime[1] - subTime[0] : 0;
+  const reached = seen.filter((t) => t.confirmed || (t.timeS <= samples.endTimeS + step && Math.abs(t.timeS - subTime[t.index]) < 0.05 * (samples.endTimeS - samples.startTimeS)));
+  const lastSeen = reached[reached.length - 1];
+  const observedTurningPoint = lastSeen
+    ? { timeS: lastSeen.timeS, signal: (lastSeen.value - calibration.offset) / e.gain, kind: lastSeen.kind, confirmed: lastSeen.confirmed }
+    : null;
   const lastIndex = samples.indices[n - 1];
   const crystalNm = trace.crystalNm ? trace.crystalNm[lastIndex] : null;
   const opticalToCrystalRatio = crystalNm !== null && crystalNm > 0 ? e.thicknessNm / crystalNm : null;
@@ -81,7 +97,8 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
     indexHeld: s.fit.heldIndex !== null,
     rateNmPerS: e.rateNmPerS, rateSigmaNmPerS: e.rateSigma, rateDriftNmPerS2: e.rateDriftNmPerS2, rateDriftSigmaNmPerS2: e.rateDriftSigma,
     gain: e.gain, cutErrorQwotPct, cutErrorSigmaQwotPct, residualRms, residualToNoise,
-    startTimeS: samples.startTimeS, cutTimeS: samples.endTimeS, idealCutTimeS, lastTurningPoint, crystalNm, opticalToCrystalRatio,
+    startTimeS: samples.startTimeS, cutTimeS: samples.endTimeS, idealCutTimeS, lastTurningPoint,
+    observedTurningPoints: seen.filter((t) => t.confirmed).length, lastObservedTurningPoint: observedTurningPoint, crystalNm, opticalToCrystalRatio,
     sampleCount: n, fitPoints: s.fitPoints, iterations: s.iterations, converged: s.converged, warnings,
   };
 }

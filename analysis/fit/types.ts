@@ -97,7 +97,12 @@ export interface LayerResult {
   cutTimeS: number;
   /** When it should have been cut, from the fitted d(t): the modelled turning point (turning-point cut) or the target optical thickness (level cut); extrapolated beyond the data if need be. */
   idealCutTimeS: number | null;
+  /** The last extremum of the fitted model within the layer. */
   lastTurningPoint: TurningPointAt | null;
+  /** Extrema found in the data itself (hysteresis search on the smoothed signal), confirmed ones. */
+  observedTurningPoints: number;
+  /** The last extremum in the data (signal as a fraction, via the gain); unconfirmed when the layer was cut on it. */
+  lastObservedTurningPoint: { timeS: number; signal: number; kind: 'max' | 'min'; confirmed: boolean } | null;
   /** The crystal's reading at the layer's end, where the trace has crystal_nm. */
   crystalNm: number | null;
   /** thicknessNm / crystalNm (tooling-factor check). */

@@ -18,6 +18,10 @@ describe('analyzeRun on faulty runs', () => {
     expect(l.idealCutTimeS!).toBeLessThan(l.cutTimeS - 5);
     expect(l.lastTurningPoint?.kind).toBe('max'); // after 2 QWOT of H on glass the transmittance is back at the bare level
     expect(l.lastTurningPoint!.timeS).toBeCloseTo(l.idealCutTimeS!, 6);
+    // …and the data show the same extrema: a minimum at 1 QWOT, then the maximum at 2
+    expect(l.observedTurningPoints).toBe(2);
+    expect(l.lastObservedTurningPoint!.kind).toBe('max');
+    expect(Math.abs(l.lastObservedTurningPoint!.timeS - l.lastTurningPoint!.timeS)).toBeLessThan(3);
   });
 
   it('flags a rate spike by its residuals (refit), on that layer only', async () => {
