@@ -10,6 +10,9 @@ export interface ChipStart {
   calibration: ChipCalibration;
   /** Start of the chip's first layer, s: the chip's time reference. */
   startS: number;
+  /** Monitor wavelength and mode of that layer (the detector's gain depends on both). */
+  wavelengthNm: number;
+  mode: 'R' | 'T';
 }
 
 /**
@@ -41,7 +44,7 @@ export function calibrateChips(
     });
     if (calibration.source === 'first-layer') warnings.push(`chip ${samples.chip}: no bare-chip stretch before layer ${dl.layer}; gain taken from the layer's first samples`);
     lastOffset = calibration.offset;
-    chips.set(samples.chip, { calibration, startS: samples.startTimeS });
+    chips.set(samples.chip, { calibration, startS: samples.startTimeS, wavelengthNm: wl, mode: dl.monitor.mode });
   }
   return chips;
 }
@@ -49,11 +52,13 @@ export function calibrateChips(
 /**
  * The detector's gain drift from the bare-chip calibrations of successive chips (every fresh
  * chip reads the same bare substrate): a linear trend of gain against time, as a fraction per
- * second of the mean gain. Null with fewer than two bare-chip calibrations.
+ * second of the mean gain. Null with fewer than two bare-chip calibrations, or when they were
+ * taken at different monitor wavelengths or modes (the gains are then not comparable).
  */
 export function gainDriftFromChips(chips: ReadonlyMap<number, ChipStart>): { driftPerS: number; sigmaPerS: number; chips: number } | null {
   const bare = [...chips.values()].filter((c) => c.calibration.source === 'bare-chip');
   if (bare.length < 2) return null;
+  if (bare.some((c) => c.wavelengthNm !== bare[0].wavelengthNm || c.mode !== bare[0].mode)) return null;
   const gains = bare.map((c) => c.calibration.gain);
   const mean = gains.reduce((a, b) => a + b, 0) / gains.length;
   const times = bare.map((c) => c.startS);
