@@ -202,6 +202,8 @@ function refineAtEnd(
   if (!c || !(sign * c[2] < 0)) return null;
   const u = -c[1] / (2 * c[2]);
   if (!(u >= -1 && u <= 1)) return null;
+  // a poor parabola over a long flat stretch can put its vertex far from the extreme sample
+  if (Math.abs(t0 + u * span - timeS[k]) > 0.5 * span) return null;
   return { index: k, timeS: t0 + u * span, value: c[0] + c[1] * u + c[2] * u * u, kind, confirmed: false };
 }
 
