@@ -60,6 +60,17 @@ export const ANALYZE_DEFAULTS = {
   spectrum: { fromNm: 400, toNm: 800, stepNm: 2 },
 } as const;
 
+/** The trace's own `monitor_wavelength_nm` metadata against the design: a wrong design chosen is the usual cause. */
+function monitorWavelengthMismatch(meta: Record<string, string>, layers: readonly DesignLayer[]): string | null {
+  const raw = meta['monitor_wavelength_nm'];
+  const stated = raw === undefined ? Number.NaN : Number(raw);
+  if (!Number.isFinite(stated) || layers.length === 0) return null;
+  const off = layers.filter((l) => Math.abs(l.monitor.wavelengthNm - stated) > 0.5);
+  if (off.length === 0) return null;
+  const wl = [...new Set(off.map((l) => l.monitor.wavelengthNm))].join(', ');
+  return `the trace states monitor_wavelength_nm ${stated}, but the design monitors layer${off.length > 1 ? 's' : ''} ${off.map((l) => l.layer).join(', ')} at ${wl} nm: check that this is the run's design`;
+}
+
 function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): Float64Array {
   const out = new Float64Array(positions.length);
   for (let i = 0; i < positions.length; i++) out[i] = y[base ? base[positions[i]] : positions[i]];
@@ -90,6 +101,9 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const order = design.layers.filter((l) => samplesByLayer.has(l.layer)).sort((a, b) => samplesByLayer.get(a.layer)!.startTimeS - samplesByLayer.get(b.layer)!.startTimeS);
   const missing = design.layers.filter((l) => !samplesByLayer.has(l.layer)).map((l) => l.layer);
   if (missing.length) warnings.push(`no samples for design layer${missing.length > 1 ? 's' : ''} ${missing.join(', ')}`);
+
+  const mismatch = monitorWavelengthMismatch(trace.meta, order);
+  if (mismatch) warnings.push(mismatch);
 
   const noiseFloor = idleNoise(trace, seg.idle);
   const chipLayers = new Map<number, LayerState[]>();

@@ -1,0 +1,22 @@
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { analyzeRun } from '..';
+import { parseDesign } from '../../design';
+import { readTraceText } from '../../trace';
+
+const samples = path.resolve(import.meta.dirname, '../../../sample-traces');
+const design = (name: string) => parseDesign(JSON.parse(readFileSync(path.join(samples, name), 'utf8')), name);
+const trace = (name: string) => readTraceText(readFileSync(path.join(samples, name), 'utf8'), { fileName: name });
+
+describe('a trace analysed against another design', () => {
+  it('warns when the trace states a monitor wavelength the design does not use', async () => {
+    const result = await analyzeRun(design('hr17-mirror-600.json'), await trace('bay1-ar1-run0412.csv'));
+    expect(result.warnings.some((w) => /states monitor_wavelength_nm 550, but the design monitors layer 1 at 600 nm/.test(w))).toBe(true);
+  });
+
+  it('stays quiet when they agree', async () => {
+    const result = await analyzeRun(design('ar1-mgf2-crown.json'), await trace('bay1-ar1-run0412.csv'));
+    expect(result.warnings.filter((w) => w.includes('monitor_wavelength_nm'))).toEqual([]);
+  });
+});
