@@ -11,7 +11,12 @@ export type Executor = Db | Parameters<Parameters<Db['transaction']>[0]>[0];
 const globalForDb = globalThis as unknown as { fringelogPool?: Pool; fringelogDb?: Db };
 
 export function pool(): Pool {
-  globalForDb.fringelogPool ??= new Pool({ connectionString: env().DATABASE_URL, max: 10 });
+  if (!globalForDb.fringelogPool) {
+    const p = new Pool({ connectionString: env().DATABASE_URL, max: 10 });
+    // An idle client losing its connection (PostgreSQL restarted or stopped) must not end the process; the next query reconnects.
+    p.on('error', (err) => console.error(`[fringelog] database connection lost: ${err.message}`));
+    globalForDb.fringelogPool = p;
+  }
   return globalForDb.fringelogPool;
 }
 

@@ -3,6 +3,8 @@ import type { Role } from '@/db/schema';
 export type { Role };
 
 export type Capabilities = {
+  /** Read runs, their traces' facts and their analyses. */
+  viewRuns: boolean;
   /** Invite users, change roles, deactivate and reactivate. */
   manageUsers: boolean;
   /** Read the audit log. */
@@ -16,10 +18,10 @@ export type Capability = keyof Capabilities;
 
 /** The one map from role to what it may do. */
 export const capabilities: Record<Role, Capabilities> = {
-  operator: { manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  engineer: { manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  supervisor: { manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true },
-  admin: { manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true },
+  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
+  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
+  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true },
+  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true },
 };
 
 export function can(role: Role, capability: Capability): boolean {

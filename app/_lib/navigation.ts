@@ -2,9 +2,10 @@ import { can, type Capability, type Role } from './capabilities';
 
 type Entry = { href: string; label: string; needs?: Capability };
 
-// Later areas (runs, designs, materials, comparison) are added here when they exist.
+// Later areas (designs, materials, comparison) are added here when they exist.
 const entries: Entry[] = [
   { href: '/', label: 'Overview' },
+  { href: '/runs', label: 'Runs', needs: 'viewRuns' },
   { href: '/audit', label: 'Audit log', needs: 'viewAuditLog' },
   { href: '/admin/users', label: 'Users', needs: 'manageUsers' },
   { href: '/admin/mail', label: 'Mail', needs: 'viewMailSink' },

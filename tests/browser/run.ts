@@ -12,10 +12,10 @@ const shots = path.resolve(import.meta.dirname, '..', 'screenshots');
 fs.mkdirSync(shots, { recursive: true });
 
 const expectedNav: Record<string, string[]> = {
-  operator: ['Overview', 'Account'],
-  engineer: ['Overview', 'Account'],
-  supervisor: ['Overview', 'Audit log', 'Account'],
-  admin: ['Overview', 'Audit log', 'Users', 'Mail', 'Account'],
+  operator: ['Overview', 'Runs', 'Account'],
+  engineer: ['Overview', 'Runs', 'Account'],
+  supervisor: ['Overview', 'Runs', 'Audit log', 'Account'],
+  admin: ['Overview', 'Runs', 'Audit log', 'Users', 'Mail', 'Account'],
 };
 
 function assert(condition: unknown, message: string): asserts condition {
@@ -81,12 +81,12 @@ for (const role of ['operator', 'engineer', 'supervisor', 'admin']) {
 }
 
 const pageAccess: Record<string, string[]> = {
-  operator: ['/', '/account'],
-  engineer: ['/', '/account'],
-  supervisor: ['/', '/account', '/audit'],
-  admin: ['/', '/account', '/audit', '/admin/users', '/admin/mail'],
+  operator: ['/', '/runs', '/account'],
+  engineer: ['/', '/runs', '/account'],
+  supervisor: ['/', '/runs', '/account', '/audit'],
+  admin: ['/', '/runs', '/account', '/audit', '/admin/users', '/admin/mail'],
 };
-const allPages = ['/', '/account', '/audit', '/admin/users', '/admin/mail'];
+const allPages = ['/', '/runs', '/account', '/audit', '/admin/users', '/admin/mail'];
 
 test('over HTTP, each role gets 200 on its pages and 403 on the others', async (page, context) => {
   for (const role of Object.keys(pageAccess)) {

@@ -8,6 +8,7 @@ import { capabilities, roleLabels, type Capability } from '@/app/_lib/capabiliti
 export const metadata: Metadata = { title: 'Overview' };
 
 const capabilityText: Record<Capability, { text: string; href?: string }> = {
+  viewRuns: { text: 'Read the runs of every chamber and their layer-by-layer analyses', href: '/runs' },
   manageUsers: { text: 'Invite people, set their roles and deactivate accounts', href: '/admin/users' },
   viewAuditLog: { text: 'Read the audit log of who changed what', href: '/audit' },
   viewMailSink: { text: 'Read the mail the local sink caught', href: '/admin/mail' },

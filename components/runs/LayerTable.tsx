@@ -1,0 +1,72 @@
+import { fixed, signed } from './format';
+
+export type LayerRowView = {
+  layer: number;
+  material: string;
+  chip: number | null;
+  designThicknessNm: number | null;
+  thicknessNm: number;
+  thicknessSigmaNm: number;
+  index: number;
+  indexSigma: number;
+  indexHeld: boolean;
+  rateNmPerS: number;
+  cutErrorQwotPct: number;
+  residualRms: number;
+  warnings: string[];
+};
+
+/** |cut error| at or above this (% QWOT) is marked; the analysis warns from 2 % by default. */
+const CUT_MARK_PCT = 2;
+
+export function LayerTable({ layers }: { layers: LayerRowView[] }) {
+  return (
+    <div className="overflow-x-auto">
+      <table className="w-full text-left text-sm" data-testid="layer-table">
+        <thead className="text-xs uppercase tracking-wider text-ink-faint">
+          <tr className="align-bottom">
+            <th className="pb-2 pr-3 font-medium">Layer</th>
+            <th className="pb-2 pr-3 font-medium">Material</th>
+            <th className="pb-2 pr-3 text-right font-medium">Design<span className="block normal-case tracking-normal">nm</span></th>
+            <th className="pb-2 pr-3 text-right font-medium">Thickness ± σ<span className="block normal-case tracking-normal">nm</span></th>
+            <th className="pb-2 pr-3 text-right font-medium">Index ± σ</th>
+            <th className="pb-2 pr-3 text-right font-medium">Rate<span className="block normal-case tracking-normal">nm/s</span></th>
+            <th className="pb-2 pr-3 text-right font-medium">Cut error<span className="block normal-case tracking-normal">% QWOT</span></th>
+            <th className="pb-2 pr-3 text-right font-medium">Residual RMS<span className="block normal-case tracking-normal">of full scale</span></th>
+            <th className="pb-2 font-medium">Notes</th>
+          </tr>
+        </thead>
+        <tbody className="divide-y divide-paper-line">
+          {layers.map((l) => (
+            <tr key={l.layer} data-layer={l.layer} className="align-top">
+              <td className="py-2 pr-3 font-mono">
+                {l.layer}
+                {l.chip !== null ? <span className="ml-1 text-xs text-ink-faint">chip {l.chip}</span> : null}
+              </td>
+              <td className="py-2 pr-3">{l.material}</td>
+              <td className="py-2 pr-3 text-right font-mono text-ink-soft">{fixed(l.designThicknessNm, 2)}</td>
+              <td className="py-2 pr-3 text-right font-mono whitespace-nowrap">
+                {fixed(l.thicknessNm, 2)} <span className="text-ink-faint">± {fixed(l.thicknessSigmaNm, 2)}</span>
+              </td>
+              <td className="py-2 pr-3 text-right font-mono whitespace-nowrap">
+                {fixed(l.index, 4)} {l.indexHeld ? <span className="text-xs text-ink-faint">held</span> : <span className="text-ink-faint">± {fixed(l.indexSigma, 4)}</span>}
+              </td>
+              <td className="py-2 pr-3 text-right font-mono">{fixed(l.rateNmPerS, 3)}</td>
+              <td className={`py-2 pr-3 text-right font-mono ${Math.abs(l.cutErrorQwotPct) >= CUT_MARK_PCT ? 'font-semibold text-alarm' : ''}`}>{signed(l.cutErrorQwotPct, 2)}</td>
+              <td className="py-2 pr-3 text-right font-mono">{fixed(l.residualRms, 5)}</td>
+              <td className="py-2 text-xs text-ink-soft">
+                {l.warnings.length ? (
+                  <ul className="flex max-w-sm flex-col gap-1">
+                    {l.warnings.map((w, i) => (
+                      <li key={i}>{w}</li>
+                    ))}
+                  </ul>
+                ) : null}
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

@@ -1,0 +1,65 @@
+import { afterAll, describe, expect, it } from 'vitest';
+import { closeDb } from '@/db/client';
+import { listRuns } from '@/db/queries/runs';
+import { roles } from '@/db/schema';
+import { capabilities } from '@/app/_lib/capabilities';
+import RunsPage from '@/app/(app)/runs/page';
+import RunPage from '@/app/(app)/runs/[runId]/page';
+import { anonymous, interruptOf, signInDemo, textOf } from './helpers';
+
+afterAll(async () => {
+  await closeDb();
+});
+
+const runPage = (runId: string, mode?: string) => RunPage({ params: Promise.resolve({ runId }), searchParams: Promise.resolve(mode ? { mode } : {}) });
+
+async function demoRunId(code: string): Promise<string> {
+  const run = (await listRuns()).find((r) => r.runCode === code);
+  if (!run) throw new Error(`no demo run ${code}`);
+  return String(run.id);
+}
+
+describe('the runs pages', () => {
+  it('are open to every role', () => {
+    expect(roles.filter((r) => capabilities[r].viewRuns)).toEqual(roles);
+  });
+
+  it('send signed-out visitors to sign-in', async () => {
+    const id = await demoRunId('B1-0412');
+    anonymous();
+    expect(await interruptOf(() => RunsPage())).toEqual({ kind: 'redirect', location: '/sign-in' });
+    expect(await interruptOf(() => runPage(id))).toEqual({ kind: 'redirect', location: '/sign-in' });
+  });
+
+  for (const role of roles) {
+    it(`show the list and a run to the ${role}`, async () => {
+      const id = await demoRunId('B2-0587');
+      await signInDemo(role);
+      const list = textOf(await RunsPage());
+      for (const code of ['B1-0412', 'B1-0413', 'B2-0587', 'B2-0588', 'B3-1120', 'B3-1121']) expect(list).toContain(code);
+      expect(list).toContain('Bay 3 sputter');
+      const run = textOf(await runPage(id));
+      expect(run).toContain('Run B2-0587');
+      expect(run).toContain("Fringelog's figures are advisory; cut and disposition decisions follow your shop's procedures.");
+      expect(run).toContain('Tomasz Quill');
+      expect(run).toContain('Joint re-fit');
+      expect(run).toContain('Layer by layer');
+    });
+  }
+
+  it('switch between the stored modes by the mode parameter', async () => {
+    const id = await demoRunId('B2-0587');
+    await signInDemo('operator');
+    const refit = textOf(await runPage(id, 'refit'));
+    const sequential = textOf(await runPage(id, 'sequential'));
+    expect(refit).toContain('every layer of the chip re-estimated');
+    expect(sequential).toContain('each layer fitted once');
+    expect(textOf(await runPage(id, 'nonsense'))).toContain('every layer of the chip re-estimated');
+  });
+
+  it('answer 404 for a run that does not exist or a malformed number', async () => {
+    await signInDemo('engineer');
+    expect(await interruptOf(() => runPage('999999999'))).toEqual({ kind: 'http', status: 404 });
+    expect(await interruptOf(() => runPage('12abc'))).toEqual({ kind: 'http', status: 404 });
+  });
+});
