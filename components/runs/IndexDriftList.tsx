@@ -11,7 +11,9 @@ export function IndexDriftList({ drift }: { drift: DriftView[] }) {
           <th className="pb-2 pr-3 font-medium">Material</th>
           <th className="pb-2 pr-3 font-medium">Layers</th>
           <th className="pb-2 pr-3 text-right font-medium">Mean index offset</th>
-          <th className="pb-2 text-right font-medium">Trend per hour ± σ</th>
+          <th className="pb-2 text-right font-medium">
+            Trend per hour<span className="block normal-case tracking-normal">± σ</span>
+          </th>
         </tr>
       </thead>
       <tbody className="divide-y divide-paper-line">

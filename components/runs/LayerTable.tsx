@@ -20,16 +20,19 @@ export type LayerRowView = {
 const CUT_MARK_PCT = 2;
 
 export function LayerTable({ layers }: { layers: LayerRowView[] }) {
+  const chips = new Set(layers.map((l) => l.chip));
+  const showChip = chips.size > 1;
   return (
     <div className="overflow-x-auto">
       <table className="w-full text-left text-sm" data-testid="layer-table">
         <thead className="text-xs uppercase tracking-wider text-ink-faint">
           <tr className="align-bottom">
             <th className="pb-2 pr-3 font-medium">Layer</th>
+            {showChip ? <th className="pb-2 pr-3 font-medium">Chip</th> : null}
             <th className="pb-2 pr-3 font-medium">Material</th>
             <th className="pb-2 pr-3 text-right font-medium">Design<span className="block normal-case tracking-normal">nm</span></th>
-            <th className="pb-2 pr-3 text-right font-medium">Thickness ± σ<span className="block normal-case tracking-normal">nm</span></th>
-            <th className="pb-2 pr-3 text-right font-medium">Index ± σ</th>
+            <th className="pb-2 pr-3 text-right font-medium">Thickness<span className="block normal-case tracking-normal">nm ± σ</span></th>
+            <th className="pb-2 pr-3 text-right font-medium">Index<span className="block normal-case tracking-normal">± σ</span></th>
             <th className="pb-2 pr-3 text-right font-medium">Rate<span className="block normal-case tracking-normal">nm/s</span></th>
             <th className="pb-2 pr-3 text-right font-medium">Cut error<span className="block normal-case tracking-normal">% QWOT</span></th>
             <th className="pb-2 pr-3 text-right font-medium">Residual RMS<span className="block normal-case tracking-normal">of full scale</span></th>
@@ -39,10 +42,8 @@ export function LayerTable({ layers }: { layers: LayerRowView[] }) {
         <tbody className="divide-y divide-paper-line">
           {layers.map((l) => (
             <tr key={l.layer} data-layer={l.layer} className="align-top">
-              <td className="py-2 pr-3 font-mono">
-                {l.layer}
-                {l.chip !== null ? <span className="ml-1 text-xs text-ink-faint">chip {l.chip}</span> : null}
-              </td>
+              <td className="py-2 pr-3 font-mono">{l.layer}</td>
+              {showChip ? <td className="py-2 pr-3 font-mono text-ink-soft">{l.chip ?? '–'}</td> : null}
               <td className="py-2 pr-3">{l.material}</td>
               <td className="py-2 pr-3 text-right font-mono text-ink-soft">{fixed(l.designThicknessNm, 2)}</td>
               <td className="py-2 pr-3 text-right font-mono whitespace-nowrap">

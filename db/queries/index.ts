@@ -5,3 +5,6 @@ export * from './mail';
 export * from './signInAttempts';
 export * from './tokens';
 export * from './users';
+export * from './analyses';
+export * from './designs';
+export * from './runs';

@@ -146,6 +146,11 @@ export async function listRuns(limit = 500): Promise<RunListRow[]> {
   return rows.map((r) => ({ ...r, worstCutErrorQwotPct: r.worstCutErrorQwotPct === null ? null : Number(r.worstCutErrorQwotPct) }));
 }
 
+export async function runExists(runId: number): Promise<boolean> {
+  const [row] = await db().select({ id: runs.id }).from(runs).where(eq(runs.id, runId));
+  return row !== undefined;
+}
+
 /** A run's header facts: design, chamber, operator and trace file (without its bytes). */
 export async function findRun(runId: number) {
   const [row] = await db()

@@ -42,3 +42,39 @@ export class Shell {
     await this.page.waitForURL(/\/sign-in/);
   }
 }
+
+export class RunsList {
+  constructor(private page: Page) {}
+
+  table() {
+    return this.page.getByTestId('runs-table');
+  }
+
+  async runCodes(): Promise<string[]> {
+    return this.page.locator('tr[data-run-code]').evaluateAll((rows) => rows.map((r) => r.getAttribute('data-run-code') ?? ''));
+  }
+
+  async open(runCode: string): Promise<void> {
+    await this.page.locator(`tr[data-run-code="${runCode}"]`).getByRole('link', { name: runCode }).click();
+  }
+}
+
+export class RunView {
+  constructor(private page: Page) {}
+
+  async switchTo(label: 'Joint re-fit' | 'Layer by layer'): Promise<void> {
+    await this.page.getByRole('navigation', { name: 'Analysis' }).getByRole('link', { name: label }).click();
+  }
+
+  currentMode() {
+    return this.page.getByRole('navigation', { name: 'Analysis' }).locator('[aria-current="page"]');
+  }
+
+  layerRows() {
+    return this.page.getByTestId('layer-table').locator('tbody tr');
+  }
+
+  advisory() {
+    return this.page.getByTestId('advisory');
+  }
+}

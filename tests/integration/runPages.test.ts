@@ -3,7 +3,8 @@ import { closeDb } from '@/db/client';
 import { listRuns } from '@/db/queries/runs';
 import { roles } from '@/db/schema';
 import { capabilities } from '@/app/_lib/capabilities';
-import RunsPage from '@/app/(app)/runs/page';
+import RunsPage from '@/app/(app)/runs/(list)/page';
+import RunLayout from '@/app/(app)/runs/[runId]/layout';
 import RunPage from '@/app/(app)/runs/[runId]/page';
 import { anonymous, interruptOf, signInDemo, textOf } from './helpers';
 
@@ -59,7 +60,11 @@ describe('the runs pages', () => {
 
   it('answer 404 for a run that does not exist or a malformed number', async () => {
     await signInDemo('engineer');
-    expect(await interruptOf(() => runPage('999999999'))).toEqual({ kind: 'http', status: 404 });
-    expect(await interruptOf(() => runPage('12abc'))).toEqual({ kind: 'http', status: 404 });
+    for (const runId of ['999999999', '12abc', '0']) {
+      expect(await interruptOf(() => RunLayout({ children: null, params: Promise.resolve({ runId }) })), runId).toEqual({ kind: 'http', status: 404 });
+      expect(await interruptOf(() => runPage(runId)), runId).toEqual({ kind: 'http', status: 404 });
+    }
+    const known = await demoRunId('B1-0412');
+    expect(await interruptOf(() => RunLayout({ children: null, params: Promise.resolve({ runId: known }) }))).toBe('returned');
   });
 });

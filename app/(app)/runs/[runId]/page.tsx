@@ -9,7 +9,7 @@ import { PageHeader, Panel, formatTime } from '@/components/ui/Page';
 import { latestAnalyses, type AnalysisMode } from '@/db/queries/analyses';
 import { findRun } from '@/db/queries/runs';
 import { requireCapability } from '@/app/_lib/auth';
-import { driftRows, layerRows } from './runView';
+import { driftRows, layerRows, parseRunId } from './runView';
 
 export const metadata: Metadata = { title: 'Run' };
 
@@ -30,12 +30,11 @@ function Fact({ label, children }: { label: string; children: React.ReactNode })
 export default async function RunPage({ params, searchParams }: { params: Promise<{ runId: string }>; searchParams: Promise<{ mode?: string | string[] }> }) {
   await requireCapability('viewRuns');
   const { runId } = await params;
-  const id = /^\d{1,9}$/.test(runId) ? Number(runId) : NaN;
-  if (!Number.isSafeInteger(id)) notFound();
-  const found = await findRun(id);
+  const id = parseRunId(runId);
+  const found = id === null ? undefined : await findRun(id);
   if (!found) notFound();
   const { run, design, chamber, trace } = found;
-  const byMode = await latestAnalyses(id);
+  const byMode = await latestAnalyses(run.id);
   const asked = (await searchParams).mode;
   const available = modes.filter((m) => byMode[m.mode]);
   const shown = available.find((m) => m.mode === asked) ?? available[0];

@@ -39,3 +39,8 @@ export function driftRows(a: AnalysisWithLayers): DriftView[] {
     };
   });
 }
+
+/** The run id of the address, or null when it is not a plain positive number. */
+export function parseRunId(segment: string): number | null {
+  return /^[1-9]\d{0,8}$/.test(segment) ? Number(segment) : null;
+}

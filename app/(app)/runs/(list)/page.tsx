@@ -31,7 +31,7 @@ export default async function RunsPage() {
                   <th className="pb-2 pr-4 font-medium">Shift</th>
                   <th className="pb-2 pr-4 font-medium">Date</th>
                   <th className="pb-2 pr-4 font-medium">Analysis</th>
-                  <th className="pb-2 text-right font-medium">
+                  <th className="pb-2 text-right font-medium whitespace-nowrap">
                     Worst |cut error|
                     <span className="block normal-case tracking-normal">% QWOT</span>
                   </th>
