@@ -52,7 +52,7 @@ export default async function RunsPage() {
                     <td className="py-2 pr-4">{r.operatorName ?? '–'}</td>
                     <td className="py-2 pr-4">{r.shift ?? '–'}</td>
                     <td className="py-2 pr-4 font-mono text-xs whitespace-nowrap text-ink-soft">{formatDate(r.startedAt)}</td>
-                    <td className="py-2 pr-4">
+                    <td className="py-2 pr-4 whitespace-nowrap">
                       <AnalysisStateBadge state={r.analysisState} />
                     </td>
                     <td className="py-2 text-right font-mono whitespace-nowrap" title={r.worstCutMode ? `from the ${r.worstCutMode} analysis` : undefined}>
