@@ -16,6 +16,8 @@ const verbs: Record<string, string> = {
   'user.password_changed': 'changed the password of',
   'user.reset_requested': 'received a password-reset request for',
   'user.password_reset': 'reset the password of',
+  'design.revision_created': 'stored a revision of design',
+  'run.uploaded': 'stored the trace of run',
 };
 
 /** Phrases for what people do to their own account. */
@@ -33,16 +35,26 @@ function details(e: AuditRow): string {
   const d = e.detail;
   if (e.action === 'user.role_changed') return `${role(d.from)} → ${role(d.to)}`;
   if (e.action === 'user.invited') return `as ${role(d.role)}, ${String(d.email)}`;
+  if (e.action === 'design.revision_created') return `revision ${String(d.revision)}`;
+  if (e.action === 'run.uploaded' && typeof d.bytes === 'number') return `${String(d.file)}, ${(d.bytes / 1000).toFixed(1)} kB`;
   return Object.entries(d)
     .map(([k, v]) => `${k}: ${typeof v === 'string' ? v : JSON.stringify(v)}`)
     .join(' · ');
+}
+
+/** Users by name; designs and runs by the name or code recorded with the event. */
+function targetLabel(e: AuditRow): string {
+  if (e.targetType === 'user' && e.targetName) return e.targetName;
+  if (e.targetType === 'design' && typeof e.detail.name === 'string') return e.detail.name;
+  if (e.targetType === 'run' && typeof e.detail.runCode === 'string') return e.detail.runCode;
+  return `${e.targetType}${e.targetId ? ` #${e.targetId}` : ''}`;
 }
 
 function sentence(e: AuditRow): React.ReactNode {
   const actor = <span className="font-medium">{e.actorName ?? 'Fringelog'}</span>;
   const own = e.targetType === 'user' && e.actorName !== null && e.actorName === e.targetName;
   if (own && ownVerbs[e.action]) return <>{actor} {ownVerbs[e.action]}</>;
-  const target = e.targetType === 'user' && e.targetName ? e.targetName : `${e.targetType}${e.targetId ? ` #${e.targetId}` : ''}`;
+  const target = targetLabel(e);
   return (
     <>
       {actor} {verbs[e.action] ?? e.action} <span className="font-medium">{target}</span>
@@ -55,7 +67,7 @@ export default async function AuditPage() {
   const events = await listAudit();
   return (
     <>
-      <PageHeader title="Audit log" lead="Who changed what, newest first: accounts and roles now; designs and runs as they arrive." />
+      <PageHeader title="Audit log" lead="Who changed what, newest first: accounts and roles, designs and stored runs." />
       <Panel>
         {events.length === 0 ? (
           <p className="text-ink-soft">Nothing has been changed yet.</p>
