@@ -12,6 +12,10 @@ export type LayerRowView = {
   indexHeld: boolean;
   rateNmPerS: number;
   cutErrorQwotPct: number;
+  /** When the layer was cut, s from the start of the trace. */
+  cutTimeS: number | null;
+  /** When it should have been cut: the modelled turning point, or the target reached on a level cut. */
+  idealCutTimeS: number | null;
   residualRms: number;
   warnings: string[];
 };
@@ -35,6 +39,7 @@ export function LayerTable({ layers }: { layers: LayerRowView[] }) {
             <th className="pb-2 pr-3 text-right font-medium">Index<span className="block normal-case tracking-normal">± σ</span></th>
             <th className="pb-2 pr-3 text-right font-medium">Rate<span className="block normal-case tracking-normal">nm/s</span></th>
             <th className="pb-2 pr-3 text-right font-medium">Cut error<span className="block normal-case tracking-normal">% QWOT</span></th>
+            <th className="pb-2 pr-3 text-right font-medium" title="When the layer was cut, and when the fit says it should have been (turning point or target level), seconds into the trace">Cut at<span className="block normal-case tracking-normal">s · should be</span></th>
             <th className="pb-2 pr-3 text-right font-medium">Residual RMS<span className="block normal-case tracking-normal">of full scale</span></th>
             <th className="pb-2 font-medium">Notes</th>
           </tr>
@@ -54,6 +59,9 @@ export function LayerTable({ layers }: { layers: LayerRowView[] }) {
               </td>
               <td className="py-2 pr-3 text-right font-mono">{fixed(l.rateNmPerS, 3)}</td>
               <td className={`py-2 pr-3 text-right font-mono ${Math.abs(l.cutErrorQwotPct) >= CUT_MARK_PCT ? 'font-semibold text-alarm' : ''}`}>{signed(l.cutErrorQwotPct, 2)}</td>
+              <td className="py-2 pr-3 text-right font-mono whitespace-nowrap">
+                {fixed(l.cutTimeS, 1)} <span className="text-ink-faint">· {fixed(l.idealCutTimeS, 1)}</span>
+              </td>
               <td className="py-2 pr-3 text-right font-mono">{fixed(l.residualRms, 5)}</td>
               <td className="py-2 text-xs text-ink-soft">
                 {l.warnings.length ? (

@@ -1,6 +1,11 @@
 import { afterAll, describe, expect, it } from 'vitest';
 import { closeDb } from '@/db/client';
 import { listRuns } from '@/db/queries/runs';
+import { latestAnalyses } from '@/db/queries/analyses';
+import { createElement } from 'react';
+import { renderToStaticMarkup } from 'react-dom/server';
+import { LayerTable } from '@/components/runs/LayerTable';
+import { layerRows } from '@/app/(app)/runs/[runId]/runView';
 import { roles } from '@/db/schema';
 import { capabilities } from '@/app/_lib/capabilities';
 import RunsPage from '@/app/(app)/runs/(list)/page';
@@ -56,6 +61,22 @@ describe('the runs pages', () => {
     expect(refit).toContain('every layer of the chip re-estimated');
     expect(sequential).toContain('each layer fitted once');
     expect(textOf(await runPage(id, 'nonsense'))).toContain('every layer of the chip re-estimated');
+  });
+
+  it('show when each layer was cut against when it should have been', async () => {
+    const id = await demoRunId('B1-0413');
+    await signInDemo('operator');
+    const refit = (await latestAnalyses(Number(id))).refit;
+    const layer = refit?.layers[0];
+    if (!layer) throw new Error('no refit analysis of B1-0413');
+    const cut = Number(layer.detail.cutTimeS);
+    const ideal = Number(layer.detail.idealCutTimeS);
+    // the overshoot run: cut after the ideal moment (sample-traces/README.md)
+    expect(cut).toBeGreaterThan(ideal);
+    const rows = layerRows(refit);
+    expect(rows[0]).toMatchObject({ cutTimeS: cut, idealCutTimeS: ideal });
+    const html = renderToStaticMarkup(createElement(LayerTable, { layers: rows }));
+    expect(html).toContain(`${cut.toFixed(1)} <span class="text-ink-faint">· ${ideal.toFixed(1)}</span>`);
   });
 
   it('answer 404 for a run that does not exist or a malformed number', async () => {

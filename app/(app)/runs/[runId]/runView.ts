@@ -19,6 +19,8 @@ export function layerRows(a: AnalysisWithLayers): LayerRowView[] {
     indexHeld: l.detail.indexHeld === true,
     rateNmPerS: l.rateNmPerS,
     cutErrorQwotPct: l.cutErrorQwotPct,
+    cutTimeS: num(l.detail.cutTimeS),
+    idealCutTimeS: num(l.detail.idealCutTimeS),
     residualRms: l.residualRms,
     warnings: Array.isArray(l.detail.warnings) ? l.detail.warnings.filter((w): w is string => typeof w === 'string') : [],
   }));
