@@ -1,10 +1,1 @@
-import { LogoMark } from '@/components/brand/LogoMark';
-
-export default function Loading() {
-  return (
-    <div className="flex min-h-[50vh] items-center justify-center gap-3 text-ink-soft" role="status">
-      <LogoMark size={24} className="animate-pulse" />
-      <span>Loading…</span>
-    </div>
-  );
-}
+export { LoadingScreen as default } from '@/components/ui/LoadingScreen';
