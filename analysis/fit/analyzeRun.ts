@@ -9,6 +9,7 @@ import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers'
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
+import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { runSummary } from './runSummary';
 import { refineInferredSegments } from './refineSegments';
 import { startValues } from './startValues';
@@ -36,6 +37,7 @@ export interface LayerState {
   qwotAtMonitor: number;
   /** Weight of the layer in joint fits (see FitLayerData.weight). */
   weight: number;
+  spectrum: LayerSpectrum;
 }
 
 function heldNoteFor(held: number, nominal: number, from: number, qwot: number, wl: number, wholeRun: boolean): string {
@@ -169,10 +171,18 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     const fit = make(o.maxFitPoints);
     const refit = make(o.refitPointsPerLayer);
     const grid = make(300);
-    const sv = startValues({
+    const spectrum = layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
+    const gridInput = {
       gain: fit.heldGain ?? undefined, optics, below, extinction: -nominal.im, tauS: grid.tauS, y: grid.y, offsetSignal: calibration.offset,
       index: heldIndex ?? nominal.re, searchIndex: !held, rateGuessNmPerS: dl.thicknessNm / Math.max(durationS, 1e-9),
-    });
+    };
+    let sv = startValues(gridInput);
+    // The grid spans ±35 % of the design rate; a fringe rate well outside that widens the search.
+    const fringeRate = spectrum.fringeRateNmPerS;
+    if (fringeRate !== null && Math.abs(fringeRate / gridInput.rateGuessNmPerS - 1) > 0.2) {
+      const alt = startValues({ ...gridInput, rateGuessNmPerS: fringeRate });
+      if (alt.ssr < sv.ssr) sv = alt;
+    }
     // Per-layer gains start at (and are held near, by a prior) the chip calibration.
     const anchor = cg.gain * (1 + cg.driftPerS * chipTimeS);
     const withPrior = o.gainPriorFraction > 0 && fit.heldGain === null;
@@ -187,7 +197,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     refit.weight = weight;
     const state: LayerState = {
       weight, qwotAtMonitor, design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
-      converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration,
+      converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum,
     };
     built.state = state;
     prior.push(state);

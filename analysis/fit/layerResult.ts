@@ -86,6 +86,10 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   if (residualToNoise > o.residualWarnFactor) {
     warnings.push(`residuals ${residualToNoise.toFixed(1)}× the noise: the signal departs from a smooth rate (a rate spike or jump?) or from the model`);
   }
+  const disturbances = s.spectrum.disturbances.map((x) => ({ frequencyHz: x.frequencyHz, amplitude: x.amplitude / e.gain, note: x.note }));
+  for (const x of disturbances) {
+    warnings.push(`periodic disturbance at ${x.frequencyHz.toFixed(3)} Hz (amplitude ${(x.amplitude * 100).toFixed(2)} % of full scale): ${x.note}`);
+  }
   if (Math.abs(cutErrorQwotPct) > o.cutErrorWarnPct) {
     warnings.push(`cut ${cutErrorQwotPct > 0 ? 'thick (overshoot)' : 'thin (undershoot)'} by ${Math.abs(cutErrorQwotPct).toFixed(1)} % of a quarter-wave at ${wl} nm`);
   }
@@ -99,6 +103,7 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
     gain: e.gain, cutErrorQwotPct, cutErrorSigmaQwotPct, residualRms, residualToNoise,
     startTimeS: samples.startTimeS, cutTimeS: samples.endTimeS, idealCutTimeS, lastTurningPoint,
     observedTurningPoints: seen.filter((t) => t.confirmed).length, lastObservedTurningPoint: observedTurningPoint, crystalNm, opticalToCrystalRatio,
+    fringeFrequencyHz: s.spectrum.fringeFrequencyHz, fringeRateNmPerS: s.spectrum.fringeRateNmPerS, disturbances,
     sampleCount: n, fitPoints: s.fitPoints, iterations: s.iterations, converged: s.converged, warnings,
   };
 }

@@ -107,6 +107,12 @@ export interface LayerResult {
   crystalNm: number | null;
   /** thicknessNm / crystalNm (tooling-factor check). */
   opticalToCrystalRatio: number | null;
+  /** Dominant fringe frequency of the layer's signal (fft-js spectrum); null under ~1.5 fringes. */
+  fringeFrequencyHz: number | null;
+  /** The rate that frequency implies, f·λ/(2n), nm/s: the fit's independent first guess. */
+  fringeRateNmPerS: number | null;
+  /** Periodic disturbances seen in the layer's spectrum; amplitude as a fraction of full scale. */
+  disturbances: { frequencyHz: number; amplitude: number; note: string }[];
   sampleCount: number;
   fitPoints: number;
   iterations: number;

@@ -36,7 +36,9 @@ export function synthesizeRun(design: Design, options: SynthOptions = {}): Synth
   const dt = o.sampleIntervalS;
   const cols = new Columns();
   const stacks = new Map<number, Deposited[]>();
-  const gainAt = (t: number) => o.gain * (1 + (o.gainDriftPerHour * t) / 3600);
+  const ripple = (t: number) => (o.ripple ? 1 + o.ripple.fraction * Math.sin(2 * Math.PI * o.ripple.frequencyHz * t) : 1);
+  const baseGainAt = (t: number) => o.gain * (1 + (o.gainDriftPerHour * t) / 3600);
+  const gainAt = (t: number) => baseGainAt(t) * ripple(t);
   const noise = () => o.noiseFraction * o.gain * rng.normal();
   const push = (layerNo: number, chip: number, value: number, crystal: number) => {
     cols.timeS.push(cols.timeS.length * dt);
@@ -114,7 +116,7 @@ export function synthesizeRun(design: Design, options: SynthOptions = {}): Synth
     stacks.set(chip, list);
     truth.push({
       layer: layer.layer, material: layer.material, chip, thicknessNm: dEnd, index: growing.re, nominalIndex: nominal.re,
-      rateNmPerS: r, rateDriftNmPerS2: a, startTimeS: startS, endTimeS: cols.timeS[cols.timeS.length - 1], gain: gainAt(startS),
+      rateNmPerS: r, rateDriftNmPerS2: a, startTimeS: startS, endTimeS: cols.timeS[cols.timeS.length - 1], gain: baseGainAt(startS),
       cutErrorQwotPct: ((growing.re * dEnd - nominal.re * layer.thicknessNm) / (wavelengthNm / 4)) * 100,
       qwotAtMonitor: (4 * nominal.re * layer.thicknessNm) / wavelengthNm,
     });

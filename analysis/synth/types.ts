@@ -51,6 +51,11 @@ export interface SynthOptions {
   settleS?: number;
   /** When set, a crystal_nm column: the crystal reads physical thickness / tooling per material. */
   tooling?: Record<string, number>;
+  /**
+   * A periodic modulation of the detector gain, e.g. a wobbling rotating substrate holder:
+   * gain × (1 + fraction·sin(2π·frequencyHz·t)). @default none
+   */
+  ripple?: { frequencyHz: number; fraction: number };
   /** @default true */
   layerColumn?: boolean;
   /** @default true */
