@@ -80,6 +80,9 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   if (Math.abs(e.index / nominal.re - 1) > INDEX_BOUND - 1e-4) {
     warnings.push(`the index ran to the fit's bound (±${INDEX_BOUND * 100} % of nominal): the fit cannot be trusted (wrong design, stack below, or segmentation?)`);
   }
+  if (!(e.thicknessNm > 0)) {
+    warnings.push('the fitted thickness is not physical (≤ 0 nm): the model does not describe this layer (wrong design, stack below, or segmentation?)');
+  }
   if (samples.runs > 1) warnings.push(`the layer was deposited in ${samples.runs} runs; the pauses are left out of its time base`);
   if (!s.converged) warnings.push('the fit did not converge within its iteration limit');
   if (!s.wellDetermined) warnings.push('the data do not determine every parameter (singular normal matrix): uncertainties unknown');

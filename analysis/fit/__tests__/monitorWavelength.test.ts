@@ -15,6 +15,15 @@ describe('a trace analysed against another design', () => {
     expect(result.warnings.some((w) => /states monitor_wavelength_nm 550, but the design monitors layer 1 at 600 nm/.test(w))).toBe(true);
   });
 
+  it('flags a fitted thickness that is not physical', async () => {
+    const result = await analyzeRun(design('hr17-mirror-600.json'), await trace('bay1-ar1-run0412.csv'));
+    const layer = result.layers[0];
+    expect(layer.thicknessNm).toBeLessThanOrEqual(0);
+    expect(layer.warnings).toContain('the fitted thickness is not physical (≤ 0 nm): the model does not describe this layer (wrong design, stack below, or segmentation?)');
+    const good = await analyzeRun(design('ar1-mgf2-crown.json'), await trace('bay1-ar1-run0412.csv'));
+    expect(good.layers[0].warnings.filter((w) => w.includes('not physical'))).toEqual([]);
+  });
+
   it('stays quiet when they agree', async () => {
     const result = await analyzeRun(design('ar1-mgf2-crown.json'), await trace('bay1-ar1-run0412.csv'));
     expect(result.warnings.filter((w) => w.includes('monitor_wavelength_nm'))).toEqual([]);
