@@ -9,6 +9,7 @@ import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers'
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
+import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { runSummary } from './runSummary';
 import { refineInferredSegments } from './refineSegments';
@@ -61,17 +62,6 @@ export const ANALYZE_DEFAULTS = {
   cutErrorWarnPct: 2,
   spectrum: { fromNm: 400, toNm: 800, stepNm: 2 },
 } as const;
-
-/** The trace's own `monitor_wavelength_nm` metadata against the design: a wrong design chosen is the usual cause. */
-function monitorWavelengthMismatch(meta: Record<string, string>, layers: readonly DesignLayer[]): string | null {
-  const raw = meta['monitor_wavelength_nm'];
-  const stated = raw === undefined ? Number.NaN : Number(raw);
-  if (!Number.isFinite(stated) || layers.length === 0) return null;
-  const off = layers.filter((l) => Math.abs(l.monitor.wavelengthNm - stated) > 0.5);
-  if (off.length === 0) return null;
-  const wl = [...new Set(off.map((l) => l.monitor.wavelengthNm))].join(', ');
-  return `the trace states monitor_wavelength_nm ${stated}, but the design monitors layer${off.length > 1 ? 's' : ''} ${off.map((l) => l.layer).join(', ')} at ${wl} nm: check that this is the run's design`;
-}
 
 function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): Float64Array {
   const out = new Float64Array(positions.length);
