@@ -44,6 +44,6 @@ describe('the audit log names stored designs and runs', () => {
     expect(page).toContain(`${demo('engineer').name} stored a revision of design ${name}`);
     expect(page).toContain('revision 1');
     expect(page).toContain(`${demo('operator').name} stored the trace of run ${runCode}`);
-    expect(page).toContain(`bay1-ar1-run0412.csv, ${(bytes.byteLength / 1000).toFixed(1)} kB`);
+    expect(page).toContain(`bay1-ar1-run0412.csv, ${(bytes.byteLength / 1024).toFixed(1)} kB`);
   });
 });

@@ -1,5 +1,6 @@
 import type { Metadata } from 'next';
 import { PageHeader, Panel, formatTime } from '@/components/ui/Page';
+import { formatBytes } from '@/components/runs/format';
 import { listAudit, type AuditRow } from '@/db/queries/audit';
 import { requireCapability } from '@/app/_lib/auth';
 import { roleLabels, type Role } from '@/app/_lib/capabilities';
@@ -36,7 +37,7 @@ function details(e: AuditRow): string {
   if (e.action === 'user.role_changed') return `${role(d.from)} → ${role(d.to)}`;
   if (e.action === 'user.invited') return `as ${role(d.role)}, ${String(d.email)}`;
   if (e.action === 'design.revision_created') return `revision ${String(d.revision)}`;
-  if (e.action === 'run.uploaded' && typeof d.bytes === 'number') return `${String(d.file)}, ${(d.bytes / 1000).toFixed(1)} kB`;
+  if (e.action === 'run.uploaded' && typeof d.bytes === 'number') return `${String(d.file)}, ${formatBytes(d.bytes)}`;
   return Object.entries(d)
     .map(([k, v]) => `${k}: ${typeof v === 'string' ? v : JSON.stringify(v)}`)
     .join(' · ');
