@@ -1,0 +1,2 @@
+export { Plot, type PlotProps } from './Plot';
+export { plotPalette, axis } from './palette';
