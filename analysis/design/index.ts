@@ -1,5 +1,6 @@
 export * from './DesignFormatError';
 export * from './schema';
+export * from './tolerance';
 export * from './parseDesign';
 export * from './layersOnChipBelow';
 export * from './designStackAt';

@@ -4,7 +4,8 @@ import { indexAt } from '../materials/indexAt';
 import { materialLibrary } from '../materials/library';
 import { materialModelSchema, type MaterialModel } from '../materials/schema';
 import { DesignFormatError, formatKeyPath } from './DesignFormatError';
-import { designFileSchema, type MonitorSpec } from './schema';
+import { designFileSchema, type MonitorSpec, type Tolerance } from './schema';
+import { layerTolerance } from './tolerance';
 
 export interface DesignLayer {
   /** 1-based, deposition order. */
@@ -15,6 +16,8 @@ export interface DesignLayer {
   /** Optical thickness in quarter-waves at the reference wavelength. */
   qwot: number;
   monitor: MonitorSpec;
+  /** Limits after the design's own default and the shop's (see layerTolerance). */
+  tolerance: Required<Tolerance>;
 }
 
 export interface Design {
@@ -93,7 +96,7 @@ export function parseDesign(json: unknown, fileName?: string): Design {
     const nRef = evaluate(materials[raw.material], lambdaRef, `${where}.${raw.qwot === undefined ? 'material' : 'qwot'}`, `material "${raw.material}" at referenceWavelengthNm`, fileName).re;
     const thicknessNm = raw.thicknessNm ?? (raw.qwot! * lambdaRef) / (4 * nRef);
     const qwot = raw.qwot ?? (4 * nRef * thicknessNm) / lambdaRef;
-    return { layer: i + 1, material: raw.material, thicknessNm, qwot, monitor: { ...raw.monitor } };
+    return { layer: i + 1, material: raw.material, thicknessNm, qwot, monitor: { ...raw.monitor }, tolerance: layerTolerance(raw.tolerance, file.tolerance) };
   });
 
   // Every index a monitor curve will need, checked now: the chip's stack, the substrate and the ambient at the layer's monitor wavelength.

@@ -11,6 +11,15 @@ export const monitorSchema = z
   })
   .strict();
 
+/** Acceptance limits of a layer, each optional; what is missing comes from the design, then the shop. */
+export const toleranceSchema = z
+  .object({
+    thicknessPct: positive.optional(),
+    indexAbs: positive.optional(),
+    cutErrorQwotPct: positive.optional(),
+  })
+  .strict();
+
 export const designLayerSchema = z
   .object({
     material: z.string().min(1, 'must name a material'),
@@ -18,6 +27,7 @@ export const designLayerSchema = z
     thicknessNm: positive.refine((v) => v <= 100_000, 'must be ≤ 100000 nm').optional(),
     qwot: positive.refine((v) => v <= 1000, 'must be ≤ 1000 quarter-waves').optional(),
     monitor: monitorSchema,
+    tolerance: toleranceSchema.optional(),
   })
   .strict()
   .superRefine((layer, ctx) => {
@@ -46,9 +56,11 @@ export const designFileSchema = z
     substrate: z.unknown().refine((v) => v !== undefined, 'is required'),
     substrateBackside: z.boolean().optional(),
     materials: z.record(z.string(), z.unknown()).optional(),
+    tolerance: toleranceSchema.optional(),
     layers: z.array(designLayerSchema),
   })
   .strict();
 
 export type DesignFile = z.infer<typeof designFileSchema>;
+export type Tolerance = z.infer<typeof toleranceSchema>;
 export type MonitorSpec = z.infer<typeof monitorSchema>;

@@ -1,5 +1,6 @@
 import { designSpectrum } from '../../analysis/design/designSpectrum';
 import { type Design } from '../../analysis/design/parseDesign';
+import { SHOP_DEFAULT_TOLERANCE } from '../../analysis/design/tolerance';
 import { fromNK } from '../../analysis/optics/complex';
 import { growingLayerSignal } from '../../analysis/optics/growingLayer';
 import { type LayerAt } from '../../analysis/optics/assembly';
@@ -23,6 +24,7 @@ function sixtyLayerDesign(): Design {
     thicknessNm: (i % 2 ? 550 / (4 * 1.46) : 550 / (4 * 2.3)) * (1 + 0.1 * Math.sin(i)),
     qwot: 1,
     monitor: { wavelengthNm: 550, mode: 'T' as const, chip: 1 + Math.floor(i / 10), cut: 'turning-point' as const },
+    tolerance: SHOP_DEFAULT_TOLERANCE,
   }));
   return {
     name: 'bench 60 layers',
