@@ -1,0 +1,38 @@
+// The browser tests' shared kit: the test registry, assertions, screenshots and sign-in.
+// Each area's tests live in specs/*.ts and register themselves with test(); run.ts runs them all.
+import fs from 'node:fs';
+import path from 'node:path';
+import { type BrowserContext, type Page } from 'playwright-core';
+import { demoUsers } from '../../db/seed/demoData';
+import { SignInPage } from './pages';
+
+export const baseUrl = process.env.APP_URL ?? 'http://localhost:3100';
+const shots = path.resolve(import.meta.dirname, '..', 'screenshots');
+fs.mkdirSync(shots, { recursive: true });
+
+export function assert(condition: unknown, message: string): asserts condition {
+  if (!condition) throw new Error(message);
+}
+
+export function assertEqual<T>(actual: T, expected: T, what: string): void {
+  const a = JSON.stringify(actual);
+  const e = JSON.stringify(expected);
+  if (a !== e) throw new Error(`${what}: expected ${e}, got ${a}`);
+}
+
+export async function shot(page: Page, name: string): Promise<void> {
+  await page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+}
+
+export async function signInAs(page: Page, role: string): Promise<void> {
+  const u = demoUsers.find((d) => d.role === role);
+  assert(u, `no demo ${role}`);
+  const signIn = new SignInPage(page, baseUrl);
+  await signIn.open();
+  await signIn.signIn(u.email, u.password);
+  await page.waitForURL(`${baseUrl}/`);
+}
+
+export type Test = { name: string; run(page: Page, context: BrowserContext): Promise<void> };
+export const tests: Test[] = [];
+export const test = (name: string, run: Test['run']) => tests.push({ name, run });
