@@ -48,10 +48,13 @@ export const signInAttempts = pgTable(
   {
     id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
     email: text('email').notNull(),
+    /** The client address the guess came from (app/_lib/clientAddress.ts), for the per-client limit. */
+    client: text('client').notNull().default('unknown'),
+    /** Recorded as a failure before the password is checked; set true when it was right. */
     succeeded: boolean('succeeded').notNull(),
     at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index('sign_in_attempts_email_at_idx').on(t.email, t.at)],
+  (t) => [index('sign_in_attempts_email_at_idx').on(t.email, t.at), index('sign_in_attempts_client_at_idx').on(t.client, t.at)],
 );
 
 export const auditEvents = pgTable(

@@ -13,15 +13,17 @@ export type Capabilities = {
   viewMailSink: boolean;
   /** Change one's own password. */
   changeOwnPassword: boolean;
+  /** Read the database's version, latency and migrations from /api/health. */
+  viewSystemHealth: boolean;
 };
 export type Capability = keyof Capabilities;
 
 /** The one map from role to what it may do. */
 export const capabilities: Record<Role, Capabilities> = {
-  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true },
-  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true },
+  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, viewSystemHealth: false },
+  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, viewSystemHealth: false },
+  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true, viewSystemHealth: false },
+  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true, viewSystemHealth: true },
 };
 
 export function can(role: Role, capability: Capability): boolean {

@@ -47,6 +47,15 @@ export function httpError(code: ErrorCode, detail?: string): Response {
   return Response.json({ error: code, message: detail ?? message }, { status });
 }
 
+/**
+ * For an action called with something other than FormData (anyone can post any arguments to a
+ * server action): a 400 result instead of a TypeError. Every action checks `form instanceof
+ * FormData` first and returns this.
+ */
+export function notAForm(): ReturnType<typeof failure> {
+  return failure('bad_request:input', 'This request did not come from the form.');
+}
+
 /** Reads a FormData into a plain object of strings, for zod. */
 export function formObject(form: FormData): Record<string, string> {
   const out: Record<string, string> = {};

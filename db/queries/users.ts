@@ -130,6 +130,19 @@ export async function setUserActive(
   });
 }
 
+/**
+ * Ends every session of the user by moving the session version on, but only if `fromVersion` is
+ * still current: a cookie that had already ended cannot end the sessions that replaced it.
+ */
+export async function endSessions(userId: number, fromVersion: number): Promise<boolean> {
+  const rows = await db()
+    .update(users)
+    .set({ sessionVersion: sql`${users.sessionVersion} + 1` })
+    .where(and(eq(users.id, userId), eq(users.sessionVersion, fromVersion)))
+    .returning({ id: users.id });
+  return rows.length > 0;
+}
+
 /** Sets a new password hash and bumps the session version; returns the new version. */
 export async function updatePassword(userId: number, passwordHash: string): Promise<number | undefined> {
   return db().transaction(async (tx) => {

@@ -33,6 +33,23 @@ export async function signInAs(page: Page, role: string): Promise<void> {
   await page.waitForURL(`${baseUrl}/`);
 }
 
+const cspViolations = new WeakMap<Page, string[]>();
+
+/** Records every Content-Security-Policy violation Chromium reports on the page's console. */
+export function watchCsp(page: Page): void {
+  const seen: string[] = [];
+  cspViolations.set(page, seen);
+  page.on('console', (m) => {
+    if (m.type() === 'error' && /Content Security Policy/i.test(m.text())) seen.push(m.text());
+  });
+}
+
+/** The violations seen on the page so far, cleared. run.ts fails any test that leaves some behind. */
+export function takeCspViolations(page: Page): string[] {
+  const seen = cspViolations.get(page) ?? [];
+  return seen.splice(0, seen.length);
+}
+
 export type Test = { name: string; run(page: Page, context: BrowserContext): Promise<void> };
 export const tests: Test[] = [];
 export const test = (name: string, run: Test['run']) => tests.push({ name, run });

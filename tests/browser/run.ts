@@ -1,14 +1,18 @@
 // Browser tests: Debian's Chromium, driven by playwright-core, against the production build
 // that `npm test` serves on the test port. Runs every file of specs/ in name order; prints
-// 'N passed, N failed'.
+// 'N passed, N failed'. Any Content-Security-Policy violation on a test's page fails that test.
+// `tsx tests/browser/run.ts NAME…` runs only the spec files whose names contain one of the words.
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { chromium } from 'playwright-core';
-import { shot, tests } from './harness';
+import { shot, takeCspViolations, tests, watchCsp } from './harness';
 
 const specs = path.join(import.meta.dirname, 'specs');
-for (const file of fs.readdirSync(specs).filter((f) => f.endsWith('.ts')).sort()) await import(path.join(specs, file));
+const only = process.argv.slice(2);
+for (const file of fs.readdirSync(specs).filter((f) => f.endsWith('.ts') && (only.length === 0 || only.some((w) => f.includes(w)))).sort()) {
+  await import(path.join(specs, file));
+}
 
 const userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fringelog-chromium-'));
 const context = await chromium.launchPersistentContext(userDataDir, {
@@ -23,9 +27,12 @@ let failed = 0;
 for (const t of tests) {
   await context.clearCookies();
   const page = await context.newPage();
+  watchCsp(page);
   const t0 = Date.now();
   try {
     await t.run(page, context);
+    const violations = takeCspViolations(page);
+    if (violations.length) throw new Error(`Content-Security-Policy violations:\n${violations.join('\n')}`);
     passed += 1;
     console.log(`  ✓ ${t.name} (${Date.now() - t0} ms)`);
   } catch (err) {

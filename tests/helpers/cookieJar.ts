@@ -1,6 +1,21 @@
-/** A browser's cookies, enough for iron-session's get/set through `cookies()` of next/headers. */
+let addresses = 0;
+
+/**
+ * A browser's cookies, enough for iron-session's get/set through `cookies()` of next/headers, and
+ * the client address its requests come from (`headers()` answers it as X-Forwarded-For). Each jar
+ * gets an address of its own (IPv6 documentation prefix) unless one is given.
+ */
 export class CookieJar {
   private values = new Map<string, string>();
+
+  constructor(readonly address = `2001:db8::${(++addresses).toString(16)}`) {}
+
+  /** Another browser holding copies of these cookies (a stolen or copied cookie). */
+  clone(): CookieJar {
+    const copy = new CookieJar(this.address);
+    for (const [k, v] of this.values) copy.values.set(k, v);
+    return copy;
+  }
 
   get(name: string): { name: string; value: string } | undefined {
     const value = this.values.get(name);

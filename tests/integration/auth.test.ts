@@ -71,7 +71,7 @@ describe('sign-in', () => {
     }
     expect(messages[0]).toBe('E-mail or password is wrong. 4 tries left before a 15-minute pause.');
     expect(messages[3]).toBe('E-mail or password is wrong. 1 try left before a 15-minute pause.');
-    expect(messages[4]).toMatch(/^Too many failed sign-ins for this e-mail address\. Wait 15 minutes/);
+    expect(messages[4]).toBe('E-mail or password is wrong. Sign-in for this address is now paused for 15 minutes; you can also reset your password.');
     // Even the right password waits now.
     const locked = await signIn(null, form({ email, password }));
     expect(locked.ok).toBe(false);
@@ -118,7 +118,7 @@ describe('sign-out and sessions', () => {
     const { email, password } = await freshUser();
     await signInAs(email, password);
     const wrong = await changePassword(null, form({ current: 'not-it-at-all-1', password: 'another-pass-9', confirm: 'another-pass-9' }));
-    expect(wrong.ok || wrong.fieldErrors?.current).toEqual(['That is not your current password.']);
+    expect(wrong.ok || wrong.fieldErrors?.current).toEqual(['That is not your current password. 4 tries left before a 15-minute pause.']);
     const weak = await changePassword(null, form({ current: password, password: 'short', confirm: 'short' }));
     expect(weak.ok || weak.fieldErrors?.password?.[0]).toBe('Use at least 10 characters.');
     const letters = await changePassword(null, form({ current: password, password: 'onlyletterspassword', confirm: 'onlyletterspassword' }));

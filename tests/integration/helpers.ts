@@ -3,6 +3,8 @@ import { listCaughtMail } from '@/db/queries/mail';
 import { demoUsers } from '@/db/seed/demoData';
 import type { Role } from '@/db/schema';
 import { signIn } from '@/app/(auth)/sign-in/actions';
+import { setPasswordWithToken } from '@/app/(auth)/set-password/actions';
+import { inviteUser } from '@/app/(app)/admin/users/actions';
 import { CookieJar, useJar } from '../helpers/cookieJar';
 
 export function form(fields: Record<string, string | number>): FormData {
@@ -85,4 +87,19 @@ export function textOf(node: unknown): string {
   const el = node as { props?: Record<string, unknown> };
   if (!el.props) return '';
   return [textOf(el.props.children), ...Object.entries(el.props).filter(([k]) => ['email', 'title'].includes(k)).map(([, v]) => textOf(v))].join(' ');
+}
+
+/** A fresh active user (invited by the demo admin, password set through the link); leaves an anonymous jar current. */
+export async function freshUser(password = 'fresh-password-42', role: Role = 'operator'): Promise<{ email: string; password: string; userId: number }> {
+  await signInDemo('admin');
+  const email = uniqueEmail('fresh');
+  const before = await lastMailId();
+  const invited = await inviteUser(null, form({ email, name: 'Fresh Person', role }));
+  if (!invited.ok) throw new Error(`invite failed: ${invited.message}`);
+  const mail = await waitForMail(email, /invited/i, before);
+  const token = linkIn(mail.textBody).searchParams.get('token') ?? '';
+  anonymous();
+  const outcome = await interruptOf(() => setPasswordWithToken(null, form({ token, password, confirm: password })));
+  expect(outcome, `password for ${email}`).toEqual({ kind: 'redirect', location: '/sign-in?notice=password-set' });
+  return { email, password, userId: invited.data.userId };
 }

@@ -8,6 +8,7 @@ import { inviteUser, resendInvite, setActive } from '@/app/(app)/admin/users/act
 import { requestPasswordReset } from '@/app/(auth)/reset-password/actions';
 import { setPasswordWithToken } from '@/app/(auth)/set-password/actions';
 import SetPasswordPage from '@/app/(auth)/set-password/page';
+import { runAfterTasks } from '../helpers/after';
 import { useJar } from '../helpers/cookieJar';
 import { anonymous, demo, form, interruptOf, lastMailId, linkIn, signInAs, signInDemo, textOf, uniqueEmail, waitForMail } from './helpers';
 
@@ -129,6 +130,7 @@ describe('password reset by e-mail', () => {
     anonymous();
     const before = await lastMailId();
     expect(await requestPasswordReset(null, form({ email }))).toEqual({ ok: true, data: { email } });
+    await runAfterTasks();
     const mail = await waitForMail(email, /^Reset your Fringelog password$/, before);
     const token = linkIn(mail.textBody).searchParams.get('token') ?? '';
     expect(await setPasswordPageText(token)).toContain(`For ${email}`);
@@ -144,12 +146,14 @@ describe('password reset by e-mail', () => {
     anonymous();
     const quiet = await lastMailId();
     expect(await requestPasswordReset(null, form({ email }))).toEqual({ ok: true, data: { email } });
+    await runAfterTasks();
     await new Promise((r) => setTimeout(r, 300));
     expect(await lastMailId()).toBe(quiet);
     // A minute later (backdated here) it sends again: put the demo password back that way.
     await db().execute(sql`update one_time_tokens set created_at = created_at - interval '2 minutes' where user_id = (select id from users where email = ${email})`);
     const before2 = await lastMailId();
     await requestPasswordReset(null, form({ email }));
+    await runAfterTasks();
     const token2 = linkIn((await waitForMail(email, /Reset/, before2)).textBody).searchParams.get('token') ?? '';
     await interruptOf(() => setPasswordWithToken(null, form({ token: token2, password: demo('supervisor').password, confirm: demo('supervisor').password })));
     await signInDemo('supervisor');
@@ -160,6 +164,7 @@ describe('password reset by e-mail', () => {
     const email = uniqueEmail('stranger');
     const before = await lastMailId();
     expect(await requestPasswordReset(null, form({ email }))).toEqual({ ok: true, data: { email } });
+    await runAfterTasks();
     await new Promise((r) => setTimeout(r, 300));
     expect(await lastMailId()).toBe(before);
   });

@@ -38,6 +38,7 @@ describe('the capability map', () => {
     expect(roles.filter((r) => capabilities[r].viewMailSink)).toEqual(['admin']);
     expect(roles.filter((r) => capabilities[r].viewAuditLog)).toEqual(['supervisor', 'admin']);
     expect(roles.filter((r) => capabilities[r].changeOwnPassword)).toEqual(roles);
+    expect(roles.filter((r) => capabilities[r].viewSystemHealth)).toEqual(['admin']);
   });
 });
 
@@ -72,13 +73,25 @@ describe('own-account actions, for each role', () => {
 });
 
 describe('GET /api/health', () => {
-  it('reports the database as reachable and migrated', async () => {
+  it('says only "up" to visitors and non-admins', async () => {
+    for (const who of ['anonymous', 'supervisor'] as const) {
+      if (who === 'anonymous') anonymous();
+      else await signInDemo(who);
+      const res = await health();
+      expect(res.status).toBe(200);
+      expect(await res.json()).toEqual({ status: 'up' });
+    }
+  });
+
+  it('gives a signed-in admin the database as reachable and migrated', async () => {
+    await signInDemo('admin');
     const res = await health();
     expect(res.status).toBe(200);
-    const body = (await res.json()) as { status: string; database: { ok: boolean; migrations: number } };
-    expect(body.status).toBe('ok');
+    const body = (await res.json()) as { status: string; database: { ok: boolean; migrations: number; serverVersion: string } };
+    expect(body.status).toBe('up');
     expect(body.database.ok).toBe(true);
-    expect(body.database.migrations).toBeGreaterThanOrEqual(1);
+    expect(body.database.migrations).toBeGreaterThanOrEqual(3);
+    expect(body.database.serverVersion).toMatch(/^\d+/);
   });
 });
 

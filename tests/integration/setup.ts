@@ -1,4 +1,5 @@
-import { vi } from 'vitest';
+import { afterEach, vi } from 'vitest';
+import { runAfterTasks } from '../helpers/after';
 import { currentJar } from '../helpers/cookieJar';
 
 // Integration tests run against the real test database and mail sink that `npm test` starts.
@@ -11,6 +12,16 @@ process.env.__NEXT_EXPERIMENTAL_AUTH_INTERRUPTS = 'true';
 
 vi.mock('next/headers', () => ({
   cookies: async () => currentJar(),
-  headers: async () => new Headers(),
+  // Next sets X-Forwarded-For from the socket when the request has none.
+  headers: async () => new Headers({ 'x-forwarded-for': currentJar().address }),
 }));
 vi.mock('next/cache', () => ({ revalidatePath: () => undefined, revalidateTag: () => undefined }));
+vi.mock('next/server', async (importOriginal) => {
+  const { deferAfter } = await import('../helpers/after');
+  return { ...(await importOriginal<typeof import('next/server')>()), after: deferAfter };
+});
+
+// Nothing scheduled after an answer leaks into the next test.
+afterEach(async () => {
+  await runAfterTasks();
+});

@@ -13,6 +13,7 @@ const capabilityText: Record<Capability, { text: string; href?: string }> = {
   viewAuditLog: { text: 'Read the audit log of who changed what', href: '/audit' },
   viewMailSink: { text: 'Read the mail the local sink caught', href: '/admin/mail' },
   changeOwnPassword: { text: 'Change your own password', href: '/account' },
+  viewSystemHealth: { text: 'Read the database’s version and migrations at /api/health' },
 };
 
 export default async function HomePage() {

@@ -3,20 +3,28 @@
 import { verifyPassword, hashPassword } from '@/db/password';
 import { findUserForSignIn, updatePassword } from '@/db/queries/users';
 import { authorize } from '@/app/_lib/auth';
-import { failure, fieldFailure, formObject, fromZod, ok, type ActionResult } from '@/app/_lib/errors';
+import { failure, fieldFailure, formObject, fromZod, notAForm, ok, type ActionResult } from '@/app/_lib/errors';
 import { changePasswordSchema } from '@/app/_lib/schemas';
 import { getSession } from '@/app/_lib/session';
+import { takeGuess, wrongGuessMessage } from '@/app/_lib/throttle';
 
-/** Changes the caller's password; every other session of theirs ends, this one stays. */
+/**
+ * Changes the caller's password; every other session of theirs ends, this one stays. A wrong
+ * current password is a guess like a wrong sign-in: it counts toward the same pause.
+ */
 export async function changePassword(_prev: ActionResult | null, form: FormData): Promise<ActionResult> {
+  if (!(form instanceof FormData)) return notAForm();
   const parsed = changePasswordSchema.safeParse(formObject(form));
   if (!parsed.success) return fromZod(parsed.error);
   const auth = await authorize('changeOwnPassword');
   if (!auth.ok) return auth;
+  const guess = await takeGuess(auth.user.email);
+  if (!guess.allowed) return failure('rate_limited:sign_in', guess.message, { current: [guess.message] });
   const full = await findUserForSignIn(auth.user.email);
   if (!full?.passwordHash || !(await verifyPassword(parsed.data.current, full.passwordHash))) {
-    return fieldFailure('current', 'That is not your current password.');
+    return fieldFailure('current', wrongGuessMessage('That is not your current password.', guess.triesLeft));
   }
+  await guess.succeeded();
   const version = await updatePassword(auth.user.id, await hashPassword(parsed.data.password));
   if (version === undefined) return failure('unauthorized:session');
   const session = await getSession();

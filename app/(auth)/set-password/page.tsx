@@ -3,13 +3,15 @@ import Link from 'next/link';
 import { SetPasswordForm } from '@/components/auth/SetPasswordForm';
 import { FormMessage } from '@/components/forms';
 import { checkToken } from '@/db/queries/tokens';
+import { oneParam } from '@/app/_lib/params';
 import { hashToken, tokenProblemMessage } from '@/app/_lib/tokens';
 import { setPasswordWithToken } from './actions';
 
 export const metadata: Metadata = { title: 'Choose a password' };
 
-export default async function SetPasswordPage({ searchParams }: { searchParams: Promise<{ token?: string }> }) {
-  const { token } = await searchParams;
+export default async function SetPasswordPage({ searchParams }: { searchParams: Promise<{ token?: string | string[] }> }) {
+  // A link carries one token; a repeated one is a mangled link, not two tokens to try.
+  const token = oneParam((await searchParams).token);
   const check = token ? await checkToken(hashToken(token)) : ({ ok: false, problem: 'unknown' } as const);
   return (
     <div className="flex flex-col gap-6">

@@ -129,6 +129,8 @@ test('forgot password: the reset link from the mail sets a new password, and the
   const signIn = new SignInPage(page, baseUrl);
   await signIn.open();
   await page.getByRole('link', { name: 'Forgot your password?' }).click();
+  // Every page renders per request now (CSP nonce): wait for the new page before typing.
+  await page.getByRole('heading', { name: 'Reset your password' }).waitFor();
   await page.getByLabel('E-mail').fill(engineer.email);
   await page.getByRole('button', { name: 'Send reset link' }).click();
   await page.getByText('a link to choose a new password is on its way').waitFor();

@@ -4,14 +4,15 @@ import { revalidatePath } from 'next/cache';
 import { issueToken } from '@/db/queries/tokens';
 import { changeUserRole, createInvitedUser, emailTaken, findUserById, setUserActive } from '@/db/queries/users';
 import { authorize } from '@/app/_lib/auth';
-import { failure, fieldFailure, formObject, fromZod, ok, unexpected, type ActionResult } from '@/app/_lib/errors';
+import { failure, fieldFailure, formObject, fromZod, notAForm, ok, unexpected, type ActionResult } from '@/app/_lib/errors';
 import { appLink, inviteMail, sendMail } from '@/app/_lib/mail';
-import { changeRoleSchema, inviteSchema, userIdSchema } from '@/app/_lib/schemas';
+import { changeRoleSchema, inviteSchema, setActiveSchema, userIdSchema } from '@/app/_lib/schemas';
 import { INVITE_TTL_MS, newToken } from '@/app/_lib/tokens';
 
 const DUPLICATE = 'A user with this e-mail address already exists.';
 
 export async function inviteUser(_prev: ActionResult<{ userId: number }> | null, form: FormData): Promise<ActionResult<{ userId: number }>> {
+  if (!(form instanceof FormData)) return notAForm();
   const parsed = inviteSchema.safeParse(formObject(form));
   if (!parsed.success) return fromZod(parsed.error);
   const auth = await authorize('manageUsers');
@@ -39,6 +40,7 @@ export async function inviteUser(_prev: ActionResult<{ userId: number }> | null,
 }
 
 export async function resendInvite(_prev: ActionResult | null, form: FormData): Promise<ActionResult> {
+  if (!(form instanceof FormData)) return notAForm();
   const parsed = userIdSchema.safeParse(formObject(form));
   if (!parsed.success) return fromZod(parsed.error);
   const auth = await authorize('manageUsers');
@@ -59,6 +61,7 @@ export async function resendInvite(_prev: ActionResult | null, form: FormData): 
 }
 
 export async function changeRole(_prev: ActionResult | null, form: FormData): Promise<ActionResult> {
+  if (!(form instanceof FormData)) return notAForm();
   const parsed = changeRoleSchema.safeParse(formObject(form));
   if (!parsed.success) return fromZod(parsed.error);
   const auth = await authorize('manageUsers');
@@ -71,9 +74,10 @@ export async function changeRole(_prev: ActionResult | null, form: FormData): Pr
 }
 
 export async function setActive(_prev: ActionResult | null, form: FormData): Promise<ActionResult> {
-  const parsed = userIdSchema.safeParse(formObject(form));
+  if (!(form instanceof FormData)) return notAForm();
+  const parsed = setActiveSchema.safeParse(formObject(form));
   if (!parsed.success) return fromZod(parsed.error);
-  const active = form.get('active') === 'true';
+  const { active } = parsed.data;
   const auth = await authorize('manageUsers');
   if (!auth.ok) return auth;
   if (!active && parsed.data.userId === auth.user.id) return failure('bad_request:input', 'You cannot deactivate yourself.');

@@ -1,0 +1,2 @@
+ALTER TABLE "sign_in_attempts" ADD COLUMN "client" text DEFAULT 'unknown' NOT NULL;--> statement-breakpoint
+CREATE INDEX "sign_in_attempts_client_at_idx" ON "sign_in_attempts" USING btree ("client","at");

@@ -1,0 +1,79 @@
+// The access table: every page, route handler and server action × every principal, with the
+// expected answer. One row per entry; access.test.ts checks each cell and that every route of
+// app/ has a row. Adding a route = adding one line here (see DEVELOPERS.md).
+import { roles, type Role } from '@/db/schema';
+import { listRuns } from '@/db/queries/runs';
+import { GET as health } from '@/app/api/health/route';
+import HomePage from '@/app/(app)/(home)/page';
+import AccountPage from '@/app/(app)/account/page';
+import UsersPage from '@/app/(app)/admin/users/page';
+import MailPage from '@/app/(app)/admin/mail/page';
+import AuditPage from '@/app/(app)/audit/page';
+import RunsPage from '@/app/(app)/runs/(list)/page';
+import RunLayout from '@/app/(app)/runs/[runId]/layout';
+import RunPage from '@/app/(app)/runs/[runId]/page';
+import SignInPage from '@/app/(auth)/sign-in/page';
+import ResetPasswordPage from '@/app/(auth)/reset-password/page';
+import SetPasswordPage from '@/app/(auth)/set-password/page';
+import { signIn } from '@/app/(auth)/sign-in/actions';
+import { requestPasswordReset } from '@/app/(auth)/reset-password/actions';
+import { setPasswordWithToken } from '@/app/(auth)/set-password/actions';
+import { signOut } from '@/app/(app)/actions';
+import { changePassword } from '@/app/(app)/account/actions';
+import { changeRole, inviteUser, resendInvite, setActive } from '@/app/(app)/admin/users/actions';
+import { form, uniqueEmail } from '../helpers';
+
+/** Who asks. Chamber tokens join here (and get a column in every row) once they exist. */
+export const principals = ['anonymous', ...roles] as const;
+export type Principal = (typeof principals)[number];
+
+/**
+ * What a cell expects: `yes` (page rendered, action or handler did its work or refused the input),
+ * `sign-in` (redirect to /sign-in, `unauthorized:session`, 401), `forbidden` (403 page,
+ * `forbidden:role`, 403), `home` (redirect to /), or a route handler's own word (`up`, `details`).
+ */
+export type Expect = 'yes' | 'sign-in' | 'forbidden' | 'home' | 'up' | 'details';
+export type Cells = Record<Principal, Expect>;
+
+export type Row = { key: string; call: (who: Principal) => Promise<unknown>; expect: Cells };
+
+const cells = (f: (p: Principal) => Expect): Cells => Object.fromEntries(principals.map((p) => [p, f(p)])) as Cells;
+/** Signed-in users with one of these roles; anonymous visitors go to sign-in, other roles get 403. */
+const only = (...allowed: Role[]): Cells => cells((p) => (p === 'anonymous' ? 'sign-in' : allowed.includes(p) ? 'yes' : 'forbidden'));
+const signedIn = only(...roles);
+const everyone = cells(() => 'yes');
+
+const page = (path: string, call: Row['call'], expect: Cells): Row => ({ key: `page ${path}`, call, expect });
+const route = (methodAndPath: string, call: Row['call'], expect: Cells): Row => ({ key: methodAndPath, call, expect });
+const action = (fileAndName: string, call: Row['call'], expect: Cells): Row => ({ key: `action ${fileAndName}`, call, expect });
+
+const noSearch = { searchParams: Promise.resolve({}) };
+async function aRun() {
+  const [run] = await listRuns(1);
+  if (!run) throw new Error('the test database has no run (seed:sample-runs)');
+  return { params: Promise.resolve({ runId: String(run.id) }), searchParams: Promise.resolve({}) };
+}
+const NO_USER = 2147483647;
+
+export const accessTable: Row[] = [
+  page('/', () => HomePage(), signedIn),
+  page('/account', () => AccountPage(), signedIn),
+  page('/admin/users', () => UsersPage(), only('admin')),
+  page('/admin/mail', () => MailPage(), only('admin')),
+  page('/audit', () => AuditPage(), only('supervisor', 'admin')),
+  page('/runs', () => RunsPage(), signedIn),
+  page('/runs/[runId]', async () => { const p = await aRun(); await RunLayout({ children: null, params: p.params }); return RunPage(p); }, signedIn),
+  page('/sign-in', () => SignInPage(noSearch), cells((p) => (p === 'anonymous' ? 'yes' : 'home'))),
+  page('/reset-password', () => Promise.resolve(ResetPasswordPage()), everyone),
+  page('/set-password', () => SetPasswordPage({ searchParams: Promise.resolve({ token: 'no-such-token-000000000' }) }), everyone),
+  route('GET /api/health', () => health(), cells((p) => (p === 'admin' ? 'details' : 'up'))),
+  action('(auth)/sign-in#signIn', () => signIn(null, form({ email: uniqueEmail('table'), password: 'wrong-password-1' })), everyone),
+  action('(auth)/reset-password#requestPasswordReset', () => requestPasswordReset(null, form({ email: uniqueEmail('table') })), everyone),
+  action('(auth)/set-password#setPasswordWithToken', () => setPasswordWithToken(null, form({ token: 'no-such-token-000000000', password: 'table-pass-123', confirm: 'table-pass-123' })), everyone),
+  action('(app)#signOut', () => signOut(), everyone),
+  action('(app)/account#changePassword', () => changePassword(null, form({ current: 'not-the-password-1', password: 'table-pass-123', confirm: 'table-pass-123' })), signedIn),
+  action('(app)/admin/users#inviteUser', () => inviteUser(null, form({ email: uniqueEmail('table'), name: 'Table Row', role: 'operator' })), only('admin')),
+  action('(app)/admin/users#resendInvite', () => resendInvite(null, form({ userId: NO_USER })), only('admin')),
+  action('(app)/admin/users#changeRole', () => changeRole(null, form({ userId: NO_USER, role: 'operator' })), only('admin')),
+  action('(app)/admin/users#setActive', () => setActive(null, form({ userId: NO_USER, active: 'false' })), only('admin')),
+];
