@@ -69,7 +69,7 @@ export const changeRoleSchema = z.object({
 
 export const userIdSchema = z.object({ userId: idField });
 
-export const setActiveSchema = z.object({ userId: idField, active: z.enum(['true', 'false']).transform((v) => v === 'true') });
+export const setActiveSchema = z.object({ userId: idField, active: z.enum(['true', 'false'], { error: 'Say whether the account is to be active.' }).transform((v) => v === 'true') });
 
 export const resetRequestSchema = z.object({ email: emailField });
 

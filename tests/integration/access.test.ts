@@ -4,7 +4,7 @@ import { currentUser } from '@/app/_lib/auth';
 import type { CookieJar } from '../helpers/cookieJar';
 import { useJar } from '../helpers/cookieJar';
 import { accessTable, principals, type Expect, type Principal } from './access/table';
-import { discoverRoutes } from './access/routes';
+import { discoverRoutes } from '../helpers/appRoutes';
 import { anonymous, interruptOf, signInDemo } from './helpers';
 
 afterAll(async () => {

@@ -3,7 +3,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 
-const appDir = path.resolve(import.meta.dirname, '..', '..', '..', 'app');
+const appDir = path.resolve(import.meta.dirname, '..', '..', 'app');
 const METHODS = ['GET', 'HEAD', 'POST', 'PUT', 'PATCH', 'DELETE', 'OPTIONS'];
 
 function walk(dir: string): string[] {
@@ -15,9 +15,9 @@ function walk(dir: string): string[] {
 }
 
 /** The URL path of a folder under app/: route groups "(x)" and parallel slots "@x" leave no segment. */
-export function urlPathOf(folder: string): string {
+export function urlPathOf(folder: string, root = appDir): string {
   const segments = path
-    .relative(appDir, folder)
+    .relative(root, folder)
     .split(path.sep)
     .filter((s) => s && !/^\(.*\)$/.test(s) && !s.startsWith('@'));
   return `/${segments.join('/')}`;
