@@ -13,15 +13,19 @@ export type Capabilities = {
   viewMailSink: boolean;
   /** Change one's own password. */
   changeOwnPassword: boolean;
+  /** Compare runs across shifts and chambers: layer statistics, group tests, control charts, CSV export. */
+  compareRuns: boolean;
+  /** Receive e-mail when an analysis finds a layer out of tolerance or a control-chart rule fires (opt-in on the account page). */
+  receiveToleranceAlerts: boolean;
 };
 export type Capability = keyof Capabilities;
 
 /** The one map from role to what it may do. */
 export const capabilities: Record<Role, Capabilities> = {
-  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true },
-  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true },
+  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, compareRuns: true, receiveToleranceAlerts: false },
+  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, compareRuns: true, receiveToleranceAlerts: true },
+  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true, compareRuns: true, receiveToleranceAlerts: true },
+  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true, compareRuns: true, receiveToleranceAlerts: false },
 };
 
 export function can(role: Role, capability: Capability): boolean {

@@ -13,6 +13,8 @@ const capabilityText: Record<Capability, { text: string; href?: string }> = {
   viewAuditLog: { text: 'Read the audit log of who changed what', href: '/audit' },
   viewMailSink: { text: 'Read the mail the local sink caught', href: '/admin/mail' },
   changeOwnPassword: { text: 'Change your own password', href: '/account' },
+  compareRuns: { text: 'Compare runs across shifts and chambers, with control charts', href: '/compare' },
+  receiveToleranceAlerts: { text: 'Get e-mail when a layer is out of tolerance (choose on your account page)', href: '/account' },
 };
 
 export default async function HomePage() {
