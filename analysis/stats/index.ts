@@ -5,3 +5,4 @@ export * from './distributions';
 export * from './groupDifference';
 export * from './individualsChart';
 export * from './runRules';
+export * from './newestPointRules';

@@ -32,7 +32,7 @@ export function ChamberSeriesPlot({ title, series }: ChamberSeriesPlotProps) {
         ...series.map((s, i) => ({
           label: s.name,
           stroke: colours[i % colours.length],
-          width: 0,
+          paths: () => null,
           points: { show: true, size: 6, fill: colours[i % colours.length], stroke: colours[i % colours.length] },
         })),
       ],

@@ -35,8 +35,8 @@ export function ControlChartPlot({ title, timeS, values, flagged, inBaseline, ce
       series: [
         {},
         { label: 'run', stroke: plotPalette.ink, width: 1, points: { show: true, size: 6, fill: '#ffffff', stroke: plotPalette.ink } },
-        { label: 'baseline', stroke: 'transparent', width: 0, points: { show: true, size: 6, fill: plotPalette.model, stroke: plotPalette.model } },
-        { label: 'rule fired', stroke: 'transparent', width: 0, points: { show: true, size: 10, fill: plotPalette.alarm, stroke: plotPalette.alarm } },
+        { label: 'baseline', stroke: plotPalette.model, paths: () => null, points: { show: true, size: 6, fill: plotPalette.model, stroke: plotPalette.model } },
+        { label: 'rule fired', stroke: plotPalette.alarm, paths: () => null, points: { show: true, size: 10, fill: plotPalette.alarm, stroke: plotPalette.alarm } },
         limit('centre', [], plotPalette.model),
         limit('UCL', [6, 4], plotPalette.alarm),
         limit('LCL', [6, 4], plotPalette.alarm),

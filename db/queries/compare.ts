@@ -31,10 +31,28 @@ const list = (values: (number | string)[]) => sql.join(values.map((v) => sql`${v
  * held), cut error (% QWOT), the crystal ratio, and each figure's limit (layer → design → shop
  * default, as analysis/design/tolerance.ts resolves them, read from the revision's document).
  */
-function layersOf(f: CompareFilter): SQL {
+/**
+ * A layer result's figures as select-list columns, from `lr` (layer_results) and `p.document`
+ * (its design revision): thickness error (% of the design thickness), index deviation from
+ * nominal (null where the index was held), cut error (% QWOT), the crystal ratio, and each
+ * figure's limit (layer → design → shop default, as analysis/design/tolerance.ts resolves them).
+ */
+export function layerFigures(): SQL {
   const d = SHOP_DEFAULT_TOLERANCE;
   const tol = (key: string, fallback: number) =>
     sql`coalesce((p.document->'layers'->(lr.layer - 1)->'tolerance'->>${key})::float8, (p.document->'tolerance'->>${key})::float8, ${fallback}::float8)`;
+  return sql`lr.layer, lr.material, lr.index as idx,
+        (lr.thickness_nm / nullif((lr.detail->>'designThicknessNm')::float8, 0) - 1) * 100 as thickness,
+        case when (lr.detail->>'indexHeld')::boolean then null else lr.index - (lr.detail->>'nominalIndex')::float8 end as index_dev,
+        lr.cut_error_qwot_pct as cut,
+        (lr.detail->>'opticalToCrystalRatio')::float8 as tooling,
+        ${tol('thicknessPct', d.thicknessPct)} as tol_thickness,
+        ${tol('indexAbs', d.indexAbs)} as tol_index,
+        ${tol('cutErrorQwotPct', d.cutErrorQwotPct)} as tol_cut`;
+}
+
+/** The chosen runs' newest finished analysis in the mode, one row per layer with its figures, as `m`. */
+function layersOf(f: CompareFilter): SQL {
   return sql`
     with picked as (
       select distinct on (r.id) r.id as run_id, r.run_code, r.shift, r.started_at, c.name as chamber, a.id as analysis_id, dr.document
@@ -49,14 +67,7 @@ function layersOf(f: CompareFilter): SQL {
         ${f.shifts.length ? sql`and r.shift in (${list(f.shifts)})` : sql``}
       order by r.id, a.id desc
     ), m as (
-      select p.run_id, p.run_code, p.shift, p.started_at, p.chamber, lr.layer, lr.material, lr.index as idx,
-        (lr.thickness_nm / nullif((lr.detail->>'designThicknessNm')::float8, 0) - 1) * 100 as thickness,
-        case when (lr.detail->>'indexHeld')::boolean then null else lr.index - (lr.detail->>'nominalIndex')::float8 end as index_dev,
-        lr.cut_error_qwot_pct as cut,
-        (lr.detail->>'opticalToCrystalRatio')::float8 as tooling,
-        ${tol('thicknessPct', d.thicknessPct)} as tol_thickness,
-        ${tol('indexAbs', d.indexAbs)} as tol_index,
-        ${tol('cutErrorQwotPct', d.cutErrorQwotPct)} as tol_cut
+      select p.run_id, p.run_code, p.shift, p.started_at, p.chamber, ${layerFigures()}
       from picked p join layer_results lr on lr.analysis_id = p.analysis_id
     )`;
 }
@@ -104,12 +115,21 @@ export type SeriesPoint = { runId: number; runCode: string; startedAt: Date; cha
 
 /** One layer's figure, run by run in order of start (the points of a control chart). */
 export async function compareSeries(f: CompareFilter, layer: number, metric: CompareMetric, ex: Executor = db()): Promise<SeriesPoint[]> {
+  return seriesOf(f, metric, layer, ex);
+}
+
+/** Every layer's figure, run by run in order of start (for checking the newest run against its predecessors). */
+export async function compareSeriesAllLayers(f: CompareFilter, metric: CompareMetric, ex: Executor = db()): Promise<(SeriesPoint & { layer: number })[]> {
+  return seriesOf(f, metric, null, ex);
+}
+
+async function seriesOf(f: CompareFilter, metric: CompareMetric, layer: number | null, ex: Executor): Promise<(SeriesPoint & { layer: number })[]> {
   const v = metricColumn[metric];
   const res = await ex.execute<Raw>(sql`${layersOf(f)}
-    select run_id, run_code, started_at, chamber, shift, ${v} as value from m
-    where layer = ${layer} and ${v} is not null order by started_at, run_id`);
+    select layer, run_id, run_code, started_at, chamber, shift, ${v} as value from m
+    where ${v} is not null ${layer === null ? sql`` : sql`and layer = ${layer}`} order by layer, started_at, run_id`);
   return res.rows.map((r) => ({
-    runId: Number(r.run_id), runCode: String(r.run_code), startedAt: new Date(r.started_at as string), chamber: String(r.chamber),
+    layer: Number(r.layer), runId: Number(r.run_id), runCode: String(r.run_code), startedAt: new Date(r.started_at as string), chamber: String(r.chamber),
     shift: (r.shift as string | null) ?? null, value: Number(r.value),
   }));
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { individualsChart, runRules } from '..';
+import { individualsChart, newestPointRules, runRules } from '..';
 
 describe('individualsChart', () => {
   it('gives the limits of the published flow-rate example', () => {
@@ -59,5 +59,28 @@ describe('runRules (Western Electric)', () => {
 
   it('refuses a zero sigma', () => {
     expect(() => runRules([1, 2], 0, 0)).toThrow('runRules: sigma must be > 0 (got 0)');
+  });
+});
+
+describe('newestPointRules', () => {
+  // Baseline alternating ±0.5 around 10: MR̄ = 1, σ̂ = 1/1.128 = 0.8865, limits 10 ± 2.66.
+  const base = Array.from({ length: 20 }, (_, i) => (i % 2 ? 10.5 : 9.5));
+
+  it('flags a newest value beyond 3σ of the runs before it, and not one inside', () => {
+    expect(newestPointRules(base, 12.7)).toEqual([1]);
+    expect(newestPointRules(base, 12.6)).toEqual([]);
+  });
+
+  it('finds rule 2 only when the newest value completes it', () => {
+    // One earlier value 12.0 enters the baseline (the last 20): X̄ = 202.5/20 = 10.125,
+    // MR̄ = (18·1 + 1.5)/19 = 1.02632, σ̂ = 0.90986; 2σ line 11.945, 3σ line 12.855.
+    expect(newestPointRules(base, 12.0)).toEqual([]);
+    expect(newestPointRules([...base, 12.0], 12.3)).toEqual([2]);
+    expect(newestPointRules([...base, 12.0], 8.0)).toEqual([]);
+  });
+
+  it('says nothing on too short or flat a history', () => {
+    expect(newestPointRules([1, 2, 3], 50)).toEqual([]);
+    expect(newestPointRules(Array(10).fill(4), 50)).toEqual([]);
   });
 });
