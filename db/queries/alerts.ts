@@ -2,7 +2,7 @@ import 'server-only';
 import { and, eq, inArray, sql } from 'drizzle-orm';
 import { db, type Executor } from '../client';
 import { alertPreferences, users, type AlertPreferences, type Role } from '../schema';
-import { layerFigures } from './compare';
+import { layerFigures, layerLimits } from './compare';
 
 export type AlertKind = 'outOfTolerance' | 'controlRules';
 
@@ -63,9 +63,9 @@ export type FlaggedLayer = { layer: number; material: string; figure: 'thickness
 /** The layers of an analysis beyond their tolerance, one row per figure out. */
 export async function outOfToleranceLayers(analysisId: number, ex: Executor = db()): Promise<FlaggedLayer[]> {
   const res = await ex.execute<Record<string, unknown>>(sql`
-    with m as (
-      select ${layerFigures()} from layer_results lr
-      join analyses a on a.id = lr.analysis_id join runs r on r.id = a.run_id join design_revisions p on p.id = r.design_revision_id
+    with ${layerLimits(sql`select r.design_revision_id from analyses a join runs r on r.id = a.run_id where a.id = ${analysisId}`)}, m as (
+      select ${layerFigures()}, l.tol_thickness, l.tol_index, l.tol_cut from layer_results lr
+      left join limits l on l.layer = lr.layer
       where lr.analysis_id = ${analysisId}
     )
     select layer, material, 'thickness' as figure, thickness as value, tol_thickness as lim from m where abs(thickness) > tol_thickness

@@ -32,30 +32,42 @@ const list = (values: (number | string)[]) => sql.join(values.map((v) => sql`${v
  * default, as analysis/design/tolerance.ts resolves them, read from the revision's document).
  */
 /**
- * A layer result's figures as select-list columns, from `lr` (layer_results) and `p.document`
- * (its design revision): thickness error (% of the design thickness), index deviation from
- * nominal (null where the index was held), cut error (% QWOT), the crystal ratio, and each
- * figure's limit (layer → design → shop default, as analysis/design/tolerance.ts resolves them).
+ * A layer result's figures as select-list columns of `lr` (layer_results): thickness error (% of
+ * the design thickness), index deviation from nominal (null where the index was held), cut error
+ * (% QWOT) and the crystal ratio.
  */
 export function layerFigures(): SQL {
-  const d = SHOP_DEFAULT_TOLERANCE;
-  const tol = (key: string, fallback: number) =>
-    sql`coalesce((p.document->'layers'->(lr.layer - 1)->'tolerance'->>${key})::float8, (p.document->'tolerance'->>${key})::float8, ${fallback}::float8)`;
   return sql`lr.layer, lr.material, lr.index as idx,
         (lr.thickness_nm / nullif((lr.detail->>'designThicknessNm')::float8, 0) - 1) * 100 as thickness,
         case when (lr.detail->>'indexHeld')::boolean then null else lr.index - (lr.detail->>'nominalIndex')::float8 end as index_dev,
         lr.cut_error_qwot_pct as cut,
-        (lr.detail->>'opticalToCrystalRatio')::float8 as tooling,
-        ${tol('thicknessPct', d.thicknessPct)} as tol_thickness,
-        ${tol('indexAbs', d.indexAbs)} as tol_index,
-        ${tol('cutErrorQwotPct', d.cutErrorQwotPct)} as tol_cut`;
+        (lr.detail->>'opticalToCrystalRatio')::float8 as tooling`;
 }
 
-/** The chosen runs' newest finished analysis in the mode, one row per layer with its figures, as `m`. */
+/**
+ * A `limits` set: each layer's limits of the given design revisions (layer → design → shop
+ * default, as analysis/design/tolerance.ts resolves them), read once per revision from its
+ * document rather than once per layer result.
+ */
+export function layerLimits(revisionIds: SQL): SQL {
+  const d = SHOP_DEFAULT_TOLERANCE;
+  const tol = (key: string, fallback: number) =>
+    sql`coalesce((e.item->'tolerance'->>${key})::float8, (dr.document->'tolerance'->>${key})::float8, ${fallback}::float8)`;
+  return sql`limits as (
+      select dr.id as revision_id, e.ord::int as layer,
+        ${tol('thicknessPct', d.thicknessPct)} as tol_thickness,
+        ${tol('indexAbs', d.indexAbs)} as tol_index,
+        ${tol('cutErrorQwotPct', d.cutErrorQwotPct)} as tol_cut
+      from design_revisions dr cross join lateral jsonb_array_elements(dr.document->'layers') with ordinality as e(item, ord)
+      where dr.id in (${revisionIds})
+    )`;
+}
+
+/** The chosen runs' newest finished analysis in the mode, one row per layer with its figures and limits, as `m`. */
 function layersOf(f: CompareFilter): SQL {
   return sql`
     with picked as (
-      select distinct on (r.id) r.id as run_id, r.run_code, r.shift, r.started_at, c.name as chamber, a.id as analysis_id, dr.document
+      select distinct on (r.id) r.id as run_id, r.run_code, r.shift, r.started_at, c.name as chamber, a.id as analysis_id, r.design_revision_id as revision_id
       from runs r
       join design_revisions dr on dr.id = r.design_revision_id
       join chambers c on c.id = r.chamber_id
@@ -66,9 +78,10 @@ function layersOf(f: CompareFilter): SQL {
         ${f.chamberIds.length ? sql`and r.chamber_id in (${list(f.chamberIds)})` : sql``}
         ${f.shifts.length ? sql`and r.shift in (${list(f.shifts)})` : sql``}
       order by r.id, a.id desc
-    ), m as (
-      select p.run_id, p.run_code, p.shift, p.started_at, p.chamber, ${layerFigures()}
+    ), ${layerLimits(sql`select distinct revision_id from picked`)}, m as (
+      select p.run_id, p.run_code, p.shift, p.started_at, p.chamber, ${layerFigures()}, l.tol_thickness, l.tol_index, l.tol_cut
       from picked p join layer_results lr on lr.analysis_id = p.analysis_id
+      left join limits l on l.revision_id = p.revision_id and l.layer = lr.layer
     )`;
 }
 
