@@ -45,6 +45,8 @@ test('compare: the night shift cuts layer 3 of the broadband AR late, and the ch
   await page.goto(`${baseUrl}/compare`);
   await page.getByRole('heading', { name: 'Compare runs' }).waitFor();
   await shot(page, 'compare-phone');
+  await page.getByTestId('compare-by-shift').scrollIntoViewIfNeeded();
+  await page.screenshot({ path: 'tests/screenshots/compare-phone-shift-table.png' });
 });
 
 test('compare: an operator may look, a bad address says what is wrong', async (page) => {
@@ -55,4 +57,25 @@ test('compare: an operator may look, a bad address says what is wrong', async (p
   assert(((await alert.textContent()) ?? '').includes('from: must be a date, YYYY-MM-DD'), 'the bad field is named');
   const csv = await page.request.get(`${baseUrl}/api/compare/csv?table=nope`);
   assertEqual(csv.status(), 400, 'CSV with an unknown table');
+});
+
+// The supervisor: the auth specs reset the demo engineer's password.
+test('alerts: a supervisor opts in on the account page', async (page) => {
+  await signInAs(page, 'supervisor');
+  await new Shell(page).go('Account');
+  const prefs = page.getByTestId('alert-preferences');
+  await prefs.getByLabel(/layer out of tolerance/).check();
+  await prefs.getByRole('button', { name: 'Save alert choices' }).click();
+  await prefs.getByText('Alert choices saved.').waitFor();
+  await page.reload();
+  assert(await page.getByTestId('alert-preferences').getByLabel(/layer out of tolerance/).isChecked(), 'the choice is kept');
+  assert(!(await page.getByTestId('alert-preferences').getByLabel(/control-chart rule/).isChecked()), 'the other stays off');
+  await shot(page, 'account-alerts');
+});
+
+test('alerts: an operator is not offered them', async (page) => {
+  await signInAs(page, 'operator');
+  await new Shell(page).go('Account');
+  await page.getByRole('heading', { name: 'Account' }).waitFor();
+  assertEqual(await page.getByTestId('alert-preferences').count(), 0, 'alert choices offered to the operator');
 });
