@@ -258,3 +258,16 @@ export const layerResults = pgTable(
   (t) => [uniqueIndex('layer_results_analysis_layer_idx').on(t.analysisId, t.layer)],
 );
 export type LayerResultRow = typeof layerResults.$inferSelect;
+
+/** Which alert e-mails a user asked for (engineers and supervisors; off until they opt in). */
+export const alertPreferences = pgTable('alert_preferences', {
+  userId: integer('user_id')
+    .primaryKey()
+    .references(() => users.id, { onDelete: 'cascade' }),
+  /** A finished analysis has a layer beyond its tolerance. */
+  outOfTolerance: boolean('out_of_tolerance').notNull().default(false),
+  /** A finished analysis completes a Western Electric rule on its chamber's control chart. */
+  controlRules: boolean('control_rules').notNull().default(false),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+});
+export type AlertPreferences = typeof alertPreferences.$inferSelect;

@@ -15,15 +15,37 @@ export type Capabilities = {
   changeOwnPassword: boolean;
   /** Read the database's version, latency and migrations from /api/health. */
   viewSystemHealth: boolean;
+  /** Compare runs across shifts and chambers: layer statistics, group tests, control charts, CSV export. */
+  compareRuns: boolean;
+  /** Receive e-mail when an analysis finds a layer out of tolerance or a control-chart rule fires (opt-in on the account page). */
+  receiveToleranceAlerts: boolean;
 };
 export type Capability = keyof Capabilities;
 
+const everyone = ['operator', 'engineer', 'supervisor', 'admin'] as const satisfies readonly Role[];
+
+/** Who holds each capability: one line each, so a new capability is one added line. */
+const holders: Record<Capability, readonly Role[]> = {
+  viewRuns: everyone,
+  manageUsers: ['admin'],
+  viewAuditLog: ['supervisor', 'admin'],
+  viewMailSink: ['admin'],
+  changeOwnPassword: everyone,
+  viewSystemHealth: ['admin'],
+  compareRuns: everyone,
+  receiveToleranceAlerts: ['engineer', 'supervisor'],
+};
+
+function grantsOf(role: Role): Capabilities {
+  return Object.fromEntries(Object.entries(holders).map(([c, roles]) => [c, roles.includes(role)])) as Capabilities;
+}
+
 /** The one map from role to what it may do. */
 export const capabilities: Record<Role, Capabilities> = {
-  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, viewSystemHealth: false },
-  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, viewSystemHealth: false },
-  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true, viewSystemHealth: false },
-  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true, viewSystemHealth: true },
+  operator: grantsOf('operator'),
+  engineer: grantsOf('engineer'),
+  supervisor: grantsOf('supervisor'),
+  admin: grantsOf('admin'),
 };
 
 export function can(role: Role, capability: Capability): boolean {

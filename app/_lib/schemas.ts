@@ -89,3 +89,11 @@ export const changePasswordSchema = z
   })
   .refine((v) => v.password === v.confirm, { path: ['confirm'], message: 'The two passwords differ.' })
   .refine((v) => v.password !== v.current, { path: ['password'], message: 'Choose a password different from the current one.' });
+
+/** A checkbox: present ("on") when ticked, absent otherwise. */
+const checkbox = z.enum(['on']).optional().transform((v) => v === 'on');
+
+export const alertPreferencesSchema = z.object({
+  outOfTolerance: checkbox,
+  controlRules: checkbox,
+});

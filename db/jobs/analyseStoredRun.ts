@@ -33,7 +33,12 @@ export function summaryOf(result: AnalysisResult): AnalysisSummary {
 export async function analyseStoredRun(
   runId: number,
   mode: AnalysisMode,
-  opts: { requestedBy?: number | null; chunkBytes?: number } = {},
+  opts: {
+    requestedBy?: number | null;
+    chunkBytes?: number;
+    /** Called once the result is stored (e.g. tolerance alerts); its failure is logged, the analysis stays stored. */
+    onStored?: (analysisId: number) => Promise<unknown>;
+  } = {},
   ex: Executor = db(),
 ): Promise<AnalyseOutcome> {
   const stored = await findRunForAnalysis(runId, ex);
@@ -57,6 +62,13 @@ export async function analyseStoredRun(
   } catch (err) {
     await failAnalysis(analysis.id, messageOf(err), ex);
     throw err;
+  }
+  if (opts.onStored) {
+    try {
+      await opts.onStored(analysis.id);
+    } catch (err) {
+      console.error(`[fringelog] after analysis ${analysis.id} was stored:`, err);
+    }
   }
   return { analysisId: analysis.id, state: 'done', layers: result.layers.length, warnings: result.warnings.length };
 }

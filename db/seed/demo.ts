@@ -5,6 +5,7 @@ import { hashPassword } from '../password';
 import { appMeta, chambers, users } from '../schema';
 import { demoChambers, demoUsers } from './demoData';
 import { loadSampleRuns } from './sampleRuns';
+import { loadShopHistory } from './shopHistory';
 
 type Step = { key: string; run(db: Executor): Promise<void> };
 
@@ -39,6 +40,17 @@ export const seedSteps: Step[] = [
         `[fringelog] demo: ${report.designs} designs, ${report.runs} runs, ${report.analyses.length} analyses in ${((performance.now() - t0) / 1000).toFixed(1)} s ${slowest ? `(slowest ${slowest.file} ${slowest.mode} ${(slowest.ms / 1000).toFixed(1)} s)` : ''}`,
       );
       for (const f of failed) if (f.state === 'failed') console.log(`[fringelog] demo analysis failed: ${f.file} (${f.mode}): ${f.error}`);
+    },
+  },
+  {
+    key: 'seed:shop-history',
+    async run(db) {
+      const t0 = performance.now();
+      const report = await loadShopHistory(db);
+      console.log(
+        `[fringelog] demo history: ${report.runs} runs in ${((performance.now() - t0) / 1000).toFixed(1)} s (analyses ${(report.analyseMs / 1000).toFixed(1)} s)`,
+      );
+      for (const f of report.failed) console.log(`[fringelog] demo history analysis failed: ${f.runCode}: ${f.error}`);
     },
   },
 ];

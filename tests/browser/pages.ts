@@ -78,3 +78,32 @@ export class RunView {
     return this.page.getByTestId('advisory');
   }
 }
+
+export class ComparePage {
+  constructor(private page: Page) {}
+
+  /** The by-shift or by-chamber table's row of a layer. */
+  groupRow(by: 'shift' | 'chamber', layer: number) {
+    return this.page.getByTestId(`compare-by-${by}`).locator(`tbody tr[data-layer="${layer}"]`);
+  }
+
+  async groupHeaders(by: 'shift' | 'chamber'): Promise<string[]> {
+    return (await this.page.getByTestId(`compare-by-${by}`).locator('thead th').allTextContents()).map((s) => s.trim());
+  }
+
+  async tick(name: string): Promise<void> {
+    await this.page.getByTestId('compare-filters').getByLabel(name, { exact: true }).check();
+  }
+
+  async choose(label: string, option: string): Promise<void> {
+    await this.page.getByTestId('compare-filters').getByLabel(label).selectOption({ label: option });
+  }
+
+  async show(): Promise<void> {
+    await this.page.getByTestId('compare-filters').getByRole('button', { name: 'Show' }).click();
+  }
+
+  ruleSignals() {
+    return this.page.getByTestId('rule-signals');
+  }
+}

@@ -14,6 +14,8 @@ const capabilityText: Record<Capability, { text: string; href?: string }> = {
   viewMailSink: { text: 'Read the mail the local sink caught', href: '/admin/mail' },
   changeOwnPassword: { text: 'Change your own password', href: '/account' },
   viewSystemHealth: { text: 'Read the database’s version and migrations at /api/health' },
+  compareRuns: { text: 'Compare runs across shifts and chambers, with control charts', href: '/compare' },
+  receiveToleranceAlerts: { text: 'Get e-mail when a layer is out of tolerance (choose on your account page)', href: '/account' },
 };
 
 export default async function HomePage() {

@@ -4,7 +4,8 @@ import { verifyPassword, hashPassword } from '@/db/password';
 import { findUserForSignIn, updatePassword } from '@/db/queries/users';
 import { authorize } from '@/app/_lib/auth';
 import { failure, fieldFailure, formObject, fromZod, notAForm, ok, type ActionResult } from '@/app/_lib/errors';
-import { changePasswordSchema } from '@/app/_lib/schemas';
+import { alertPreferencesSchema, changePasswordSchema } from '@/app/_lib/schemas';
+import { saveAlertPreferences as storeAlertPreferences } from '@/db/queries/alerts';
 import { getSession } from '@/app/_lib/session';
 import { takeGuess, wrongGuessMessage } from '@/app/_lib/throttle';
 
@@ -30,5 +31,16 @@ export async function changePassword(_prev: ActionResult | null, form: FormData)
   const session = await getSession();
   session.sessionVersion = version;
   await session.save();
+  return ok(undefined);
+}
+
+/** Saves which alert e-mails the caller wants (engineers and supervisors). */
+export async function saveAlertPreferences(_prev: ActionResult | null, form: FormData): Promise<ActionResult> {
+  if (!(form instanceof FormData)) return notAForm();
+  const parsed = alertPreferencesSchema.safeParse(formObject(form));
+  if (!parsed.success) return fromZod(parsed.error);
+  const auth = await authorize('receiveToleranceAlerts');
+  if (!auth.ok) return auth;
+  await storeAlertPreferences(auth.user.id, parsed.data);
   return ok(undefined);
 }

@@ -3,10 +3,10 @@ import { demoUsers } from '../../../db/seed/demoData';
 import { Shell, SignInPage } from '../pages';
 
 const expectedNav: Record<string, string[]> = {
-  operator: ['Overview', 'Runs', 'Account'],
-  engineer: ['Overview', 'Runs', 'Account'],
-  supervisor: ['Overview', 'Runs', 'Audit log', 'Account'],
-  admin: ['Overview', 'Runs', 'Audit log', 'Users', 'Mail', 'Account'],
+  operator: ['Overview', 'Runs', 'Compare', 'Account'],
+  engineer: ['Overview', 'Runs', 'Compare', 'Account'],
+  supervisor: ['Overview', 'Runs', 'Compare', 'Audit log', 'Account'],
+  admin: ['Overview', 'Runs', 'Compare', 'Audit log', 'Users', 'Mail', 'Account'],
 };
 
 test('a signed-out visitor is sent to sign-in with a 307', async () => {

@@ -7,9 +7,12 @@ test('the runs list and a run page: layers of both analyses, the advisory note',
   await page.getByRole('heading', { name: 'Runs' }).waitFor();
   const list = new RunsList(page);
   await list.table().waitFor();
-  // The integration tests, run before on the same database, add runs of their own.
-  const demoCodes = (await list.runCodes()).filter((c) => /^B\d-\d{4}$/.test(c)).sort();
-  assertEqual(demoCodes, ['B1-0412', 'B1-0413', 'B2-0587', 'B2-0588', 'B3-1120', 'B3-1121'], 'demo runs listed');
+  // The integration tests, run before on the same database, add runs of their own, and the demo
+  // holds the shop's history besides the six sample runs.
+  const sampleCodes = ['B1-0412', 'B1-0413', 'B2-0587', 'B2-0588', 'B3-1120', 'B3-1121'];
+  const listed = await list.runCodes();
+  assertEqual(sampleCodes.filter((c) => listed.includes(c)), sampleCodes, 'sample runs listed');
+  assert(listed.filter((c) => /^B\d-\d{4}$/.test(c)).length >= 90, 'the shop history is listed');
   await shot(page, 'runs-list');
   await list.open('B3-1121');
   await page.getByRole('heading', { name: 'Run B3-1121' }).waitFor();

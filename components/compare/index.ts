@@ -1,0 +1,3 @@
+export { LayerMetricPlot } from './LayerMetricPlot';
+export { ControlChartPlot } from './ControlChartPlot';
+export { ChamberSeriesPlot } from './ChamberSeriesPlot';
