@@ -19,7 +19,9 @@ import { signIn } from '@/app/(auth)/sign-in/actions';
 import { requestPasswordReset } from '@/app/(auth)/reset-password/actions';
 import { setPasswordWithToken } from '@/app/(auth)/set-password/actions';
 import { signOut } from '@/app/(app)/actions';
-import { changePassword } from '@/app/(app)/account/actions';
+import { changePassword, saveAlertPreferences } from '@/app/(app)/account/actions';
+import ComparePage from '@/app/(app)/compare/page';
+import { GET as compareCsv } from '@/app/api/compare/csv/route';
 import { changeRole, inviteUser, resendInvite, setActive } from '@/app/(app)/admin/users/actions';
 import { form, uniqueEmail } from '../helpers';
 
@@ -66,12 +68,15 @@ export const accessTable: Row[] = [
   page('/sign-in', () => SignInPage(noSearch), cells((p) => (p === 'anonymous' ? 'yes' : 'home'))),
   page('/reset-password', () => Promise.resolve(ResetPasswordPage()), everyone),
   page('/set-password', () => SetPasswordPage({ searchParams: Promise.resolve({ token: 'no-such-token-000000000' }) }), everyone),
+  page('/compare', () => ComparePage(noSearch), signedIn),
+  route('GET /api/compare/csv', () => compareCsv(new Request('http://localhost/api/compare/csv?table=layers')), signedIn),
   route('GET /api/health', () => health(), cells((p) => (p === 'admin' ? 'details' : 'up'))),
   action('(auth)/sign-in#signIn', () => signIn(null, form({ email: uniqueEmail('table'), password: 'wrong-password-1' })), everyone),
   action('(auth)/reset-password#requestPasswordReset', () => requestPasswordReset(null, form({ email: uniqueEmail('table') })), everyone),
   action('(auth)/set-password#setPasswordWithToken', () => setPasswordWithToken(null, form({ token: 'no-such-token-000000000', password: 'table-pass-123', confirm: 'table-pass-123' })), everyone),
   action('(app)#signOut', () => signOut(), everyone),
   action('(app)/account#changePassword', () => changePassword(null, form({ current: 'not-the-password-1', password: 'table-pass-123', confirm: 'table-pass-123' })), signedIn),
+  action('(app)/account#saveAlertPreferences', () => saveAlertPreferences(null, form({ outOfTolerance: 'on' })), only('engineer', 'supervisor')),
   action('(app)/admin/users#inviteUser', () => inviteUser(null, form({ email: uniqueEmail('table'), name: 'Table Row', role: 'operator' })), only('admin')),
   action('(app)/admin/users#resendInvite', () => resendInvite(null, form({ userId: NO_USER })), only('admin')),
   action('(app)/admin/users#changeRole', () => changeRole(null, form({ userId: NO_USER, role: 'operator' })), only('admin')),
