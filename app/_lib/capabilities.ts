@@ -13,15 +13,19 @@ export type Capabilities = {
   viewMailSink: boolean;
   /** Change one's own password. */
   changeOwnPassword: boolean;
+  /** Pin annotations to a run and write in its comment thread (and edit or delete one's own). */
+  writeRunNotes: boolean;
+  /** Decide a run's disposition, with a reason. */
+  setRunDisposition: boolean;
 };
 export type Capability = keyof Capabilities;
 
 /** The one map from role to what it may do. */
 export const capabilities: Record<Role, Capabilities> = {
-  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true },
-  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true },
+  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, writeRunNotes: true, setRunDisposition: false },
+  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, writeRunNotes: true, setRunDisposition: true },
+  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true, writeRunNotes: true, setRunDisposition: true },
+  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true, writeRunNotes: false, setRunDisposition: false },
 };
 
 export function can(role: Role, capability: Capability): boolean {

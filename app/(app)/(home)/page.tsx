@@ -13,6 +13,8 @@ const capabilityText: Record<Capability, { text: string; href?: string }> = {
   viewAuditLog: { text: 'Read the audit log of who changed what', href: '/audit' },
   viewMailSink: { text: 'Read the mail the local sink caught', href: '/admin/mail' },
   changeOwnPassword: { text: 'Change your own password', href: '/account' },
+  writeRunNotes: { text: 'Pin notes to a moment or a layer of a run, and join its discussion' },
+  setRunDisposition: { text: 'Decide whether a run is good to ship, held for review or not to ship, with the reason' },
 };
 
 export default async function HomePage() {
