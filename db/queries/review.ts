@@ -1,7 +1,7 @@
 import 'server-only';
 import { and, asc, eq } from 'drizzle-orm';
 import { db, type Executor } from '../client';
-import { auditEvents, runAnnotations, runComments, runs, users, type Run } from '../schema';
+import { auditEvents, designRevisions, runAnnotations, runComments, runs, users, type Run } from '../schema';
 
 /** Annotations and comments share their shape, their rules (the author edits or deletes their own) and their audit trail. */
 type NoteKind = 'annotation' | 'comment';
@@ -116,4 +116,14 @@ export async function dispositionAuthor(userId: number | null, ex: Executor = db
   if (userId === null) return null;
   const [row] = await ex.select({ name: users.name }).from(users).where(eq(users.id, userId));
   return row?.name ?? null;
+}
+
+/** The design document (as stored with its revision) a run was made with. */
+export async function runDesignDocument(runId: number, ex: Executor = db()): Promise<{ document: unknown; fileName: string | null } | undefined> {
+  const [row] = await ex
+    .select({ document: designRevisions.document, fileName: designRevisions.sourceFileName })
+    .from(runs)
+    .innerJoin(designRevisions, eq(designRevisions.id, runs.designRevisionId))
+    .where(eq(runs.id, runId));
+  return row;
 }
