@@ -66,11 +66,14 @@ export function TracePlot(p: TracePlotProps) {
         const u = main.current;
         if (!payload || !u || u.scales.x.min !== min || u.scales.x.max !== max) return;
         const d = toPlotData(payload);
+        // New data with its scales reset (y ranges itself to it), then back to the view asked for.
         quiet.current = true;
-        u.setData(d.main, false);
-        strip.current?.setData(d.residual, false);
+        u.setData(d.main);
+        strip.current?.setData(d.residual);
         u.setScale('x', { min, max });
+        strip.current?.setScale('x', { min, max });
         quiet.current = false;
+        box.current?.setAttribute('data-points', String(payload.timeS.length));
       });
     }, 180);
   };

@@ -158,7 +158,7 @@ export default async function RunPage({ params, searchParams }: { params: Promis
             />
           </Panel>
           <div className="mb-6 grid gap-6 md:grid-cols-2">
-            <Panel title="Run warnings">
+            <Panel title="Run warnings" className="min-w-0">
               {warnings.length ? (
                 <ul className="flex list-disc flex-col gap-1 pl-5 text-sm break-words" data-testid="run-warnings">
                   {warnings.map((w, i) => <li key={i}>{w}</li>)}
@@ -167,17 +167,17 @@ export default async function RunPage({ params, searchParams }: { params: Promis
                 <p className="text-sm text-ink-soft">None.</p>
               )}
             </Panel>
-            <Panel title="Index against nominal, per material">
+            <Panel title="Index against nominal, per material" className="min-w-0">
               <IndexPlot
                 wavelengthNm={monitorWavelengths.length === 1 ? monitorWavelengths[0] : null}
                 series={drift.map((d) => ({ ...d, label: labelOf(d.material) }))}
               />
               <div className="mt-3 overflow-x-auto"><IndexDriftList drift={drift.map((d) => ({ ...d, material: labelOf(d.material) }))} /></div>
             </Panel>
-            <Panel title="As-built spectrum against the design">
+            <Panel title="As-built spectrum against the design" className="min-w-0">
               {spectrum?.wavelengthNm ? <SpectrumPlot spectrum={spectrum} /> : <p className="text-sm text-ink-soft">No spectrum stored.</p>}
             </Panel>
-            <Panel title="Chips and tooling">
+            <Panel title="Chips and tooling" className="min-w-0">
               <ChipTable chips={chipRows(done) as ChipView[]} />
               <h3 className="mt-4 mb-2 text-sm font-semibold">Tooling check against the crystal</h3>
               <ToolingList tooling={tooling.map((t) => ({ ...t, label: labelOf(t.material) }))} />
