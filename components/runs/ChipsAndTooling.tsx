@@ -15,7 +15,7 @@ export function ChipTable({ chips }: { chips: ChipView[] }) {
           <th className={th}>Chip</th>
           <th className={`${th} text-right`}>Gain</th>
           <th className={`${th} text-right`}>Offset</th>
-          <th className={`${th} text-right`}>Noise σ</th>
+          <th className={`${th} text-right`}>Noise <span className="normal-case">σ</span></th>
           <th className="pb-2 font-medium">From</th>
         </tr>
       </thead>

@@ -82,6 +82,8 @@ export function TracePlot(p: TracePlotProps) {
   const mainOptions = useMemo<Omit<uPlot.Options, 'width' | 'height'>>(
     () => ({
       legend: { show: false },
+      // The same right padding on both plots keeps their time axes aligned.
+      padding: [8, 18, null, null],
       scales: { x: { time: false } },
       cursor: { drag: { x: true, y: false }, sync: { key: syncKey } },
       series: [
@@ -126,6 +128,7 @@ export function TracePlot(p: TracePlotProps) {
   const stripOptions = useMemo<Omit<uPlot.Options, 'width' | 'height'>>(
     () => ({
       legend: { show: false },
+      padding: [4, 18, 4, null],
       scales: { x: { time: false } },
       cursor: { drag: { x: false, y: false }, sync: { key: syncKey } },
       series: [{ label: 'time, s' }, { label: 'Measured − model', stroke: plotPalette.residual, width: 1 }],
