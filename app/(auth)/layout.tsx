@@ -36,28 +36,28 @@ export default function AuthLayout({ children }: { children: React.ReactNode }) 
  * every interface. What Fringelog measures is the sum of those partial reflections.
  */
 function FringeBackdrop() {
-  const thicknesses = [18, 30, 18, 30, 18, 30, 60, 30, 18, 30, 18, 30, 18];
-  let y = 250;
+  const thicknesses = [9, 15, 9, 15, 9, 15, 30, 15, 9, 15, 9, 15, 9];
+  const surface = 120;
+  let y = surface;
   const strata = thicknesses.map((h, i) => {
     const band = { y, h, high: i % 2 === 0 };
     y += h;
     return band;
   });
-  const entry = 150;
-  const rays = strata.slice(0, 8).map((s, i) => {
-    const x = entry + (s.y - 250) * 0.35;
-    return { x, y: s.y, opacity: 0.5 - i * 0.05 };
-  });
+  const entry = 130;
+  // Inside the stack the ray runs steeper (refraction); each interface sends part of it back up.
+  const rays = strata.slice(0, 8).map((s, i) => ({ x: entry + (s.y - surface) * 0.35, y: s.y, opacity: 0.55 - i * 0.05 }));
+  const last = rays[rays.length - 1];
   return (
-    <svg className="absolute inset-x-0 bottom-0 h-[70%] w-full" viewBox="0 0 400 600" preserveAspectRatio="none" aria-hidden="true">
+    <svg className="absolute inset-x-0 bottom-0 h-[36%] w-full" viewBox="0 0 400 300" preserveAspectRatio="none" aria-hidden="true">
       {strata.map((s) => (
         <rect key={s.y} x="0" y={s.y} width="400" height={s.h} fill={s.high ? '#5fb3b3' : '#f6f4ee'} fillOpacity={s.high ? 0.16 : 0.05} />
       ))}
-      <rect x="0" y={y} width="400" height={600 - y} fill="#f6f4ee" fillOpacity="0.1" />
-      <line x1={entry - 120} y1="20" x2={entry} y2="250" stroke="#f6ead2" strokeOpacity="0.7" strokeWidth="2" vectorEffect="non-scaling-stroke" />
-      <line x1={entry} y1="250" x2={rays[rays.length - 1].x} y2={rays[rays.length - 1].y} stroke="#f6ead2" strokeOpacity="0.45" strokeWidth="1.5" vectorEffect="non-scaling-stroke" />
+      <rect x="0" y={y} width="400" height={300 - y} fill="#f6f4ee" fillOpacity="0.1" />
+      <line x1={entry - 110} y1="0" x2={entry} y2={surface} stroke="#f6ead2" strokeOpacity="0.7" strokeWidth="2" vectorEffect="non-scaling-stroke" />
+      <line x1={entry} y1={surface} x2={last.x} y2={last.y} stroke="#f6ead2" strokeOpacity="0.45" strokeWidth="1.5" vectorEffect="non-scaling-stroke" />
       {rays.map((r) => (
-        <line key={r.y} x1={r.x} y1={r.y} x2={r.x + 120 + (r.y - 250) * 0.2} y2="20" stroke="#c77aa6" strokeOpacity={r.opacity} strokeWidth="1.5" vectorEffect="non-scaling-stroke" />
+        <line key={r.y} x1={r.x} y1={r.y} x2={r.x + 110 + (r.y - surface) * 0.9} y2="0" stroke="#c77aa6" strokeOpacity={r.opacity} strokeWidth="1.5" vectorEffect="non-scaling-stroke" />
       ))}
     </svg>
   );

@@ -19,6 +19,15 @@ export type TracePin = { id: number; timeS: number | null; layer: number | null;
 
 const px = (v: number) => v * (typeof devicePixelRatio === 'number' ? devicePixelRatio : 1);
 
+function segment(ctx: CanvasRenderingContext2D, colour: string, widthPx: number, x0: number, y0: number, x1: number, y1: number): void {
+  ctx.strokeStyle = colour;
+  ctx.lineWidth = px(widthPx);
+  ctx.beginPath();
+  ctx.moveTo(x0, y0);
+  ctx.lineTo(x1, y1);
+  ctx.stroke();
+}
+
 /** Where a pin sits in time: its own time, else the middle of its layer. */
 export function pinTime(pin: TracePin, spans: readonly TraceLayerSpan[]): number | null {
   if (pin.timeS !== null) return pin.timeS;
@@ -91,12 +100,7 @@ export function drawMarks(u: uPlot, spans: readonly TraceLayerSpan[], pins: read
   for (const s of spans) {
     if (chip !== null && s.chip !== chip) {
       const x = Math.round(u.valToPos(s.startTimeS, 'x', true)) - px(4);
-      ctx.strokeStyle = plotPalette.chip;
-      ctx.lineWidth = px(1.5);
-      ctx.beginPath();
-      ctx.moveTo(x, top);
-      ctx.lineTo(x, top + height);
-      ctx.stroke();
+      segment(ctx, plotPalette.chip, 1.5, x, top, x, top + height);
       ctx.fillStyle = plotPalette.chip;
       ctx.textBaseline = 'bottom';
       ctx.fillText(`chip ${s.chip}`, x + px(3), top + height - px(3));
@@ -106,12 +110,7 @@ export function drawMarks(u: uPlot, spans: readonly TraceLayerSpan[], pins: read
     const look = gradeLooks[s.grade];
     if (s.idealCutTimeS !== null) {
       const xIdeal = u.valToPos(s.idealCutTimeS, 'x', true);
-      ctx.strokeStyle = look.fill;
-      ctx.lineWidth = px(1.5);
-      ctx.beginPath();
-      ctx.moveTo(xIdeal, yStrip);
-      ctx.lineTo(xCut, yStrip);
-      ctx.stroke();
+      segment(ctx, look.fill, 1.5, xIdeal, yStrip, xCut, yStrip);
       ctx.beginPath();
       ctx.arc(xIdeal, yStrip, r * 0.8, 0, 2 * Math.PI);
       ctx.fillStyle = plotPalette.paper;
@@ -123,12 +122,7 @@ export function drawMarks(u: uPlot, spans: readonly TraceLayerSpan[], pins: read
     if (s.triggerLevel !== null) {
       const y = u.valToPos(s.triggerLevel, triggerScale, true);
       const x0 = u.valToPos(s.startTimeS + 0.7 * (s.cutTimeS - s.startTimeS), 'x', true);
-      ctx.strokeStyle = plotPalette.cut;
-      ctx.lineWidth = px(2);
-      ctx.beginPath();
-      ctx.moveTo(x0, y);
-      ctx.lineTo(xCut, y);
-      ctx.stroke();
+      segment(ctx, plotPalette.cut, 2, x0, y, xCut, y);
     }
   }
   for (const p of pins) {
@@ -136,13 +130,8 @@ export function drawMarks(u: uPlot, spans: readonly TraceLayerSpan[], pins: read
     if (t === null) continue;
     const x = u.valToPos(t, 'x', true);
     const yFoot = top + height - px(16);
-    ctx.strokeStyle = plotPalette.annotation;
+    segment(ctx, plotPalette.annotation, 1.5, x, top + height, x, yFoot - px(10));
     ctx.fillStyle = plotPalette.annotation;
-    ctx.lineWidth = px(1.5);
-    ctx.beginPath();
-    ctx.moveTo(x, top + height);
-    ctx.lineTo(x, yFoot - px(10));
-    ctx.stroke();
     ctx.fillRect(x, yFoot - px(10), px(16), px(12));
     ctx.fillStyle = '#fffdf8';
     ctx.textBaseline = 'top';

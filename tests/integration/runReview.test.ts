@@ -125,7 +125,7 @@ describe('GET /api/runs/{id}/series', () => {
   });
 
   it('gives a window at full resolution: every sample of the raw file in it, and a model that fits them to the stored residual', async () => {
-    const id = await runId('B1-0412');
+    const id = await runId('B3-1121');
     const refit = (await latestAnalyses(id)).refit!;
     const layer = refit.layers[1];
     const from = Number(layer.detail.startTimeS);

@@ -1,6 +1,7 @@
 'use server';
 
 import { revalidatePath } from 'next/cache';
+import type { z } from 'zod';
 import { addNote, changeNote, setDisposition } from '@/db/queries/review';
 import { authorize } from '@/app/_lib/auth';
 import { failure, formObject, fromZod, ok, unexpected, type ActionResult } from '@/app/_lib/errors';
@@ -8,36 +9,30 @@ import { annotationSchema, commentSchema, dispositionSchema, noteChangeSchema } 
 
 const page = (runId: number) => `/runs/${runId}`;
 
-/** Pins a note to a time of the run or one of its layers (operators, engineers, supervisors). */
-export async function addAnnotation(_prev: ActionResult<{ id: number }> | null, form: FormData): Promise<ActionResult<{ id: number }>> {
-  const parsed = annotationSchema.safeParse(formObject(form));
+type Added = ActionResult<{ id: number }>;
+
+async function add(kind: 'annotation' | 'comment', parsed: { success: true; data: { runId: number; body: string; timeS?: number | null; layer?: number | null } } | { success: false; error: z.ZodError }): Promise<Added> {
   if (!parsed.success) return fromZod(parsed.error);
   const auth = await authorize('writeRunNotes');
   if (!auth.ok) return auth;
   try {
-    const row = await addNote('annotation', { ...parsed.data, authorId: auth.user.id });
+    const row = await addNote(kind, { ...parsed.data, authorId: auth.user.id });
     if (!row) return failure('not_found:run');
     revalidatePath(page(parsed.data.runId));
     return ok(row);
   } catch (err) {
-    return unexpected('add annotation', err);
+    return unexpected(`add ${kind}`, err);
   }
 }
 
+/** Pins a note to a time of the run or one of its layers (operators, engineers, supervisors). */
+export async function addAnnotation(_prev: Added | null, form: FormData): Promise<Added> {
+  return add('annotation', annotationSchema.safeParse(formObject(form)));
+}
+
 /** Adds to the run's comment thread. */
-export async function addComment(_prev: ActionResult<{ id: number }> | null, form: FormData): Promise<ActionResult<{ id: number }>> {
-  const parsed = commentSchema.safeParse(formObject(form));
-  if (!parsed.success) return fromZod(parsed.error);
-  const auth = await authorize('writeRunNotes');
-  if (!auth.ok) return auth;
-  try {
-    const row = await addNote('comment', { ...parsed.data, authorId: auth.user.id });
-    if (!row) return failure('not_found:run');
-    revalidatePath(page(parsed.data.runId));
-    return ok(row);
-  } catch (err) {
-    return unexpected('add comment', err);
-  }
+export async function addComment(_prev: Added | null, form: FormData): Promise<Added> {
+  return add('comment', commentSchema.safeParse(formObject(form)));
 }
 
 /** Edits (with a body) or deletes (without) one's own annotation or comment. */
