@@ -7,10 +7,12 @@ import { LayerTable, type LayerView } from './LayerTable';
 import { NoteList, type NoteView } from './NoteList';
 import { TracePlot } from './TracePlot';
 import type { TraceLayerSpan } from './traceMarks';
+import type { SeriesPayload } from './useTraceSeries';
 
 type Props = {
   runId: number;
   analysisId: number | null;
+  overview: SeriesPayload | null;
   layers: LayerView[];
   spans: TraceLayerSpan[];
   annotations: NoteView[];
@@ -73,6 +75,7 @@ export function RunReview(p: Props) {
         <TracePlot
           runId={p.runId}
           analysisId={p.analysisId}
+          initial={p.overview}
           spans={p.spans}
           pins={pins}
           selectedLayer={selected}

@@ -4,11 +4,13 @@ import { useCallback, useEffect, useMemo, useRef } from 'react';
 import type uPlot from 'uplot';
 import { Plot, axis, plotPalette } from '@/components/plot';
 import { drawBands, drawMarks, layerAt, type TraceLayerSpan, type TracePin } from './traceMarks';
-import { toPlotData, useTraceSeries } from './useTraceSeries';
+import { toPlotData, useTraceSeries, type SeriesPayload } from './useTraceSeries';
 
 export type TracePlotProps = {
   runId: number;
   analysisId: number | null;
+  /** The whole-run overview, when the page already has it. */
+  initial?: SeriesPayload | null;
   spans: TraceLayerSpan[];
   pins: TracePin[];
   selectedLayer: number | null;
@@ -30,7 +32,7 @@ const btn = 'rounded-md border border-paper-line bg-paper-raised px-2.5 py-1 tex
  * or pins a note there when pinning is on.
  */
 export function TracePlot(p: TracePlotProps) {
-  const { overview, error, fetchWindow } = useTraceSeries(p.runId, p.analysisId);
+  const { overview, error, fetchWindow } = useTraceSeries(p.runId, p.analysisId, p.initial ?? null);
   const main = useRef<uPlot | null>(null);
   const strip = useRef<uPlot | null>(null);
   const live = useRef(p);

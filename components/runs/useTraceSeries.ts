@@ -12,16 +12,18 @@ export function toPlotData(p: SeriesPayload): { main: uPlot.AlignedData; residua
 }
 
 /**
- * The run's series from /api/runs/{id}/series: the whole-run overview once, then a window at
+ * The run's series from /api/runs/{id}/series: the whole-run overview once (unless the page
+ * brought it along, saving a round trip before the first draw), then a window at
  * full resolution each time the view settles on a narrower stretch (latest request wins).
  */
-export function useTraceSeries(runId: number, analysisId: number | null) {
-  const [overview, setOverview] = useState<SeriesPayload | null>(null);
+export function useTraceSeries(runId: number, analysisId: number | null, initial: SeriesPayload | null = null) {
+  const [overview, setOverview] = useState<SeriesPayload | null>(initial);
   const [error, setError] = useState<string | null>(null);
   const pending = useRef<AbortController | null>(null);
   const base = `/api/runs/${runId}/series${analysisId === null ? '' : `?analysis=${analysisId}`}`;
 
   useEffect(() => {
+    if (initial) return;
     const ac = new AbortController();
     fetch(base, { signal: ac.signal })
       .then(async (r) => {
@@ -33,7 +35,7 @@ export function useTraceSeries(runId: number, analysisId: number | null) {
         if (!ac.signal.aborted) setError(e instanceof Error ? e.message : String(e));
       });
     return () => ac.abort();
-  }, [base]);
+  }, [base, initial]);
 
   const fetchWindow = useCallback(
     async (fromS: number, toS: number): Promise<SeriesPayload | null> => {

@@ -50,6 +50,9 @@ export async function run(): Promise<void> {
     await page.waitForURL(`${app}/`);
     const interactive: number[] = [];
     const loaded: number[] = [];
+    const firstByte: number[] = [];
+    const parsed: number[] = [];
+    let htmlKb = 0;
     for (let i = 0; i < 4; i++) {
       await page.goto(`${app}/runs/${id}`, { waitUntil: 'commit' });
       // Drawn: the plot has its overview and view range; the table's first layer button answers.
@@ -58,10 +61,16 @@ export async function run(): Promise<void> {
         const button = document.querySelector('[data-testid="layer-table"] button');
         return plot?.hasAttribute('data-view-to') && plot.querySelector('canvas') && button ? performance.now() : false;
       }, undefined, { polling: 'raf', timeout: 30_000 });
-      const nav = await page.evaluate(() => (performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming).loadEventEnd);
+      const nav = await page.evaluate(() => {
+        const n = performance.getEntriesByType('navigation')[0] as PerformanceNavigationTiming;
+        return { ttfb: n.responseStart, dcl: n.domContentLoadedEventEnd, load: n.loadEventEnd, htmlKb: n.transferSize / 1024 };
+      });
       if (i > 0) {
         interactive.push(Number(await t.jsonValue()));
-        loaded.push(nav);
+        loaded.push(nav.load);
+        firstByte.push(nav.ttfb);
+        parsed.push(nav.dcl);
+        htmlKb = nav.htmlKb;
       }
     }
     const span = await page.evaluate(async (runId) => {
@@ -75,7 +84,8 @@ export async function run(): Promise<void> {
     }, id);
     console.log(`run page: run ${id}, 10⁶ samples, 40 layers, Chromium 1280×800, median of 3 warm loads`);
     console.log(`  navigation → trace drawn and layer table ready   ${median(interactive).toFixed(0)} ms   (target < 1500)`);
-    console.log(`  navigation → load event                          ${median(loaded).toFixed(0)} ms`);
+    console.log(`  navigation → first byte / DOM parsed / load      ${median(firstByte).toFixed(0)} / ${median(parsed).toFixed(0)} / ${median(loaded).toFixed(0)} ms   (page ${htmlKb.toFixed(0)} kB)`);
+    console.log(`  machine load average while measuring             ${os.loadavg()[0].toFixed(1)} (on ${os.cpus().length} cores)`);
     console.log(`  series route: whole run (no analysis overview)   ${span.overviewMs.toFixed(0)} ms; a 60 s window, ${span.windowPoints} samples at full resolution: ${span.windowMs.toFixed(0)} ms`);
   } finally {
     await context.close();

@@ -14,6 +14,7 @@ import { PageHeader, Panel, formatTime } from '@/components/ui/Page';
 import { latestAnalyses, type AnalysisMode } from '@/db/queries/analyses';
 import { dispositionAuthor, listAnnotations, listComments, runDesignDocument } from '@/db/queries/review';
 import { findRun } from '@/db/queries/runs';
+import { findOverview } from '@/db/queries/series';
 import { requireCapability } from '@/app/_lib/auth';
 import { can } from '@/app/_lib/capabilities';
 import { addAnnotation, addComment, changeOwnNote, decideRun } from './actions';
@@ -64,6 +65,7 @@ export default async function RunPage({ params, searchParams }: { params: Promis
   const done = current?.analysis.state === 'done' ? current : undefined;
   const layers = done ? layerRows(done, parsed, other?.analysis.state === 'done' ? other : null, names) : [];
   const drift = done ? driftRows(done) : [];
+  const overview = done ? await findOverview(done.analysis.id) : undefined;
   const summary = done?.analysis.summary ?? {};
   const tooling = (Array.isArray(summary.tooling) ? summary.tooling : []) as Omit<ToolingView, 'label'>[];
   const spectrum = summary.spectrum as SpectrumView | undefined;
@@ -147,8 +149,10 @@ export default async function RunPage({ params, searchParams }: { params: Promis
               <span>cut errors graded against the design&apos;s tolerances, else the shop default</span>
             </div>
             <RunReview
+              key={done.analysis.id}
               runId={run.id}
               analysisId={done.analysis.id}
+              overview={overview ? { ...overview, decimated: true } : null}
               layers={layers}
               spans={traceSpans(layers)}
               annotations={annotations}
