@@ -11,7 +11,9 @@ export default {
         paper: { DEFAULT: '#f6f4ee', raised: '#fffdf8', sunk: '#ebe7dc', line: '#d9d3c4' },
         fringe: { DEFAULT: '#1f5f68', dark: '#163f46', light: '#d5e8e6' },
         film: { DEFAULT: '#8a3a6b', light: '#f3e2ec' },
-        brass: { DEFAULT: '#b07a1e', light: '#f6ead2' },
+        brass: { DEFAULT: '#b07a1e', dark: '#7d5612', light: '#f6ead2' },
+        // Tolerance grades: within (leaf), near (brass), outside (alarm).
+        leaf: { DEFAULT: '#2f7a4f', light: '#dcefe2' },
         alarm: { DEFAULT: '#a3302a', light: '#f8e1de' },
       },
       fontFamily: {

@@ -271,3 +271,66 @@ export const alertPreferences = pgTable('alert_preferences', {
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 });
 export type AlertPreferences = typeof alertPreferences.$inferSelect;
+/**
+ * A run's trace as plotted: every sample's time and reading as little-endian float64 in bytea
+ * (one row a run, not one a sample), and every 1024th sample's time, so a zoomed window is found
+ * and read (substring) without the whole column.
+ */
+export const runSeries = pgTable('run_series', {
+  runId: integer('run_id')
+    .primaryKey()
+    .references(() => runs.id, { onDelete: 'cascade' }),
+  sampleCount: integer('sample_count').notNull(),
+  timeS: bytea('time_s').notNull(),
+  signal: bytea('signal').notNull(),
+  /** Time of samples 0, 1024, 2048, … (float64 LE). */
+  timeIndex: bytea('time_index').notNull(),
+  createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+});
+export type RunSeriesRow = typeof runSeries.$inferSelect;
+
+/** One analysis's fitted model at every trace sample (float64 LE, NaN outside fitted layers), and the whole-run overview as plotted. */
+export const analysisSeries = pgTable('analysis_series', {
+  analysisId: integer('analysis_id')
+    .primaryKey()
+    .references(() => analyses.id, { onDelete: 'cascade' }),
+  model: bytea('model').notNull(),
+  /** The decimated whole run: { timeS, signal, model } (model null where none). */
+  overview: jsonb('overview').$type<{ timeS: number[]; signal: number[]; model: (number | null)[] }>().notNull(),
+});
+
+/** A note pinned to a moment of a run (time_s) or to one of its layers, or both. */
+export const runAnnotations = pgTable(
+  'run_annotations',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    runId: integer('run_id')
+      .notNull()
+      .references(() => runs.id, { onDelete: 'cascade' }),
+    authorId: integer('author_id').references(() => users.id, { onDelete: 'set null' }),
+    timeS: doublePrecision('time_s'),
+    layer: integer('layer'),
+    body: text('body').notNull(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('run_annotations_run_idx').on(t.runId), index('run_annotations_author_idx').on(t.authorId)],
+);
+export type RunAnnotation = typeof runAnnotations.$inferSelect;
+
+/** The discussion of a run, oldest first. */
+export const runComments = pgTable(
+  'run_comments',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    runId: integer('run_id')
+      .notNull()
+      .references(() => runs.id, { onDelete: 'cascade' }),
+    authorId: integer('author_id').references(() => users.id, { onDelete: 'set null' }),
+    body: text('body').notNull(),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('run_comments_run_idx').on(t.runId), index('run_comments_author_idx').on(t.authorId)],
+);
+export type RunComment = typeof runComments.$inferSelect;

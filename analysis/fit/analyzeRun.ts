@@ -61,6 +61,7 @@ export const ANALYZE_DEFAULTS = {
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
   spectrum: { fromNm: 400, toNm: 800, stepNm: 2 },
+  modelSeries: false,
 } as const;
 
 function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): Float64Array {
@@ -238,8 +239,10 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   if (reference === null && states.length >= 3) {
     reference = median(states.map((s) => layerResult(s, belowOf(s), trace, 1, o).residualRms * s.estimate.gain));
   }
-  const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o));
-  return runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum);
+  const model = o.modelSeries ? new Float64Array(trace.rowCount).fill(NaN) : undefined;
+  const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model));
+  const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum);
+  return model ? { ...result, model } : result;
 }
 
 /**

@@ -12,8 +12,12 @@ interface ResultOptions {
   cutErrorWarnPct: number;
 }
 
-/** The reported figures of one fitted layer: residuals on all samples, cut timing, warnings. */
-export function layerResult(s: LayerState, below: readonly LayerAt[], trace: TraceData, noiseSigma: number, o: ResultOptions): LayerResult {
+/**
+ * The reported figures of one fitted layer: residuals on all samples, cut timing, warnings.
+ * With modelOut (one slot per trace sample), the modelled reading offset + gain·M(d(τ)) is
+ * written at each of the layer's samples, for plotting the fit over the trace.
+ */
+export function layerResult(s: LayerState, below: readonly LayerAt[], trace: TraceData, noiseSigma: number, o: ResultOptions, modelOut?: Float64Array): LayerResult {
   const { design: dl, samples, optics, nominal, estimate: e, calibration } = s;
   const wl = optics.wavelengthNm;
   const k = -nominal.im;
@@ -25,6 +29,7 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   for (let i = 0; i < n; i++) {
     const r = (trace.signal[samples.indices[i]] - calibration.offset) / e.gain - m[i];
     ss += r * r;
+    if (modelOut) modelOut[samples.indices[i]] = calibration.offset + e.gain * m[i];
   }
   const residualRms = Math.sqrt(ss / n);
   const noise = noiseSigma / e.gain;

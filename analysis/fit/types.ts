@@ -46,6 +46,8 @@ export interface AnalyzeOptions {
   cutErrorWarnPct?: number;
   /** Wavelength range of the as-built spectrum. @default { fromNm: 400, toNm: 800, stepNm: 2 } */
   spectrum?: { fromNm: number; toNm: number; stepNm: number };
+  /** Also return the fitted model at every trace sample (AnalysisResult.model). @default false */
+  modelSeries?: boolean;
   /** Called after each layer's fit. */
   onProgress?: (layersDone: number, layerCount: number) => void;
 }
@@ -138,4 +140,6 @@ export interface AnalysisResult {
   tooling: ToolingCheck[];
   spectrum: { wavelengthNm: Float64Array; designR: Float64Array; designT: Float64Array; asBuiltR: Float64Array; asBuiltT: Float64Array };
   warnings: string[];
+  /** With AnalyzeOptions.modelSeries: the modelled reading (detector units) at every trace sample, NaN outside fitted layers. */
+  model?: Float64Array;
 }

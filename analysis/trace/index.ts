@@ -6,6 +6,7 @@ export { savitzkyGolay, savitzkyGolayCoefficients, type SavitzkyGolayOptions } f
 export { findTurningPoints, type TurningPoint, type TurningPointOptions } from './turningPoints';
 export { fringeSpectrum, type FringeSpectrum, type FringeSpectrumOptions, type SpectrumPeak, type Disturbance } from './fringeSpectrum';
 export { decimateMinMax } from './decimate';
+export { decimateIndices } from './decimateIndices';
 export { realFftMagnitude } from './realFftMagnitude';
 export { median, noiseSigma } from './robustStats';
 export type { ReadTraceOptions, TraceData, TraceWarning, Segment, Segmentation } from './types';

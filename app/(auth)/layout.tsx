@@ -31,31 +31,33 @@ export default function AuthLayout({ children }: { children: React.ReactNode }) 
 }
 
 /**
- * A sketch of what Fringelog reads: the transmittance of a witness chip while a quarter-wave
- * stack grows. Each layer runs from one turning point to the next; the minima deepen as the
- * stack's reflectance builds up.
+ * A coating in cross-section: the layers of a stack as strata of two tints (thicknesses from a
+ * quarter-wave mirror with a spacer), and a ray of light falling on it, part of it sent back at
+ * every interface. What Fringelog measures is the sum of those partial reflections.
  */
 function FringeBackdrop() {
-  const extremes = [0.92, 0.78, 0.91, 0.6, 0.9, 0.44, 0.89, 0.31, 0.88, 0.22, 0.87];
-  const layerWidth = 400 / (extremes.length - 1);
-  const y = (t: number) => 560 - t * 240;
-  const layers = extremes.slice(1).map((end, i) => {
-    const start = extremes[i];
-    const points: string[] = [];
-    for (let k = 0; k <= 24; k++) {
-      const f = k / 24;
-      const value = start + ((end - start) * (1 - Math.cos(Math.PI * f))) / 2;
-      points.push(`${(i + f) * layerWidth},${y(value).toFixed(1)}`);
-    }
-    return { x: i * layerWidth, d: `M${points.join(' L')}` };
+  const thicknesses = [9, 15, 9, 15, 9, 15, 30, 15, 9, 15, 9, 15, 9];
+  const surface = 120;
+  let y = surface;
+  const strata = thicknesses.map((h, i) => {
+    const band = { y, h, high: i % 2 === 0 };
+    y += h;
+    return band;
   });
+  const entry = 130;
+  // Inside the stack the ray runs steeper (refraction); each interface sends part of it back up.
+  const rays = strata.slice(0, 8).map((s, i) => ({ x: entry + (s.y - surface) * 0.35, y: s.y, opacity: 0.55 - i * 0.05 }));
+  const last = rays[rays.length - 1];
   return (
-    <svg className="absolute inset-x-0 bottom-0 h-[70%] w-full" viewBox="0 0 400 600" preserveAspectRatio="none" aria-hidden="true">
-      {layers.map((l, i) => (
-        <g key={l.x}>
-          <line x1={l.x} x2={l.x} y1="300" y2="580" stroke="#f6f4ee" strokeOpacity="0.08" strokeDasharray="2 4" />
-          <path d={l.d} fill="none" stroke={i % 2 ? '#c77aa6' : '#5fb3b3'} strokeWidth="2.2" strokeOpacity="0.55" vectorEffect="non-scaling-stroke" />
-        </g>
+    <svg className="absolute inset-x-0 bottom-0 h-[36%] w-full" viewBox="0 0 400 300" preserveAspectRatio="none" aria-hidden="true">
+      {strata.map((s) => (
+        <rect key={s.y} x="0" y={s.y} width="400" height={s.h} fill={s.high ? '#5fb3b3' : '#f6f4ee'} fillOpacity={s.high ? 0.16 : 0.05} />
+      ))}
+      <rect x="0" y={y} width="400" height={300 - y} fill="#f6f4ee" fillOpacity="0.1" />
+      <line x1={entry - 110} y1="0" x2={entry} y2={surface} stroke="#f6ead2" strokeOpacity="0.7" strokeWidth="2" vectorEffect="non-scaling-stroke" />
+      <line x1={entry} y1={surface} x2={last.x} y2={last.y} stroke="#f6ead2" strokeOpacity="0.45" strokeWidth="1.5" vectorEffect="non-scaling-stroke" />
+      {rays.map((r) => (
+        <line key={r.y} x1={r.x} y1={r.y} x2={r.x + 110 + (r.y - surface) * 0.9} y2="0" stroke="#c77aa6" strokeOpacity={r.opacity} strokeWidth="1.5" vectorEffect="non-scaling-stroke" />
       ))}
     </svg>
   );

@@ -19,6 +19,10 @@ export type Capabilities = {
   compareRuns: boolean;
   /** Receive e-mail when an analysis finds a layer out of tolerance or a control-chart rule fires (opt-in on the account page). */
   receiveToleranceAlerts: boolean;
+  /** Pin annotations to a run and write in its comment thread (and edit or delete one's own). */
+  writeRunNotes: boolean;
+  /** Decide a run's disposition, with a reason. */
+  setRunDisposition: boolean;
 };
 export type Capability = keyof Capabilities;
 
@@ -34,6 +38,8 @@ const holders: Record<Capability, readonly Role[]> = {
   viewSystemHealth: ['admin'],
   compareRuns: everyone,
   receiveToleranceAlerts: ['engineer', 'supervisor'],
+  writeRunNotes: ['operator', 'engineer', 'supervisor'],
+  setRunDisposition: ['engineer', 'supervisor'],
 };
 
 function grantsOf(role: Role): Capabilities {

@@ -6,6 +6,8 @@ export const errorCodes = {
   'forbidden:role': { status: 403, message: 'Your role does not allow this.' },
   'bad_request:input': { status: 400, message: 'Check the highlighted fields.' },
   'not_found:user': { status: 404, message: 'No such user.' },
+  'not_found:run': { status: 404, message: 'No such run.' },
+  'not_found:note': { status: 404, message: 'No such note of yours on this run.' },
   'conflict:last_admin': { status: 409, message: 'This is the last active administrator; make another admin first.' },
   'rate_limited:sign_in': { status: 429, message: 'Too many failed sign-ins.' },
   'unavailable:mail': { status: 503, message: 'The e-mail could not be sent.' },

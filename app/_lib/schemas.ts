@@ -97,3 +97,31 @@ export const alertPreferencesSchema = z.object({
   outOfTolerance: checkbox,
   controlRules: checkbox,
 });
+
+const noteBody = z.string().trim().min(1, 'Write something first.').max(4000, 'Keep it under 4000 characters.');
+const optionalNumber = z.preprocess((v) => (v === '' || v === undefined || v === null ? null : v), z.coerce.number().finite().nullable());
+
+export const annotationSchema = z
+  .object({
+    runId: idField,
+    body: noteBody,
+    timeS: optionalNumber.refine((v) => v === null || v >= 0, 'A time into the run, 0 s or later.'),
+    layer: optionalNumber.refine((v) => v === null || (Number.isInteger(v) && v >= 1), 'A layer number, 1 or more.'),
+  })
+  .refine((a) => a.timeS !== null || a.layer !== null, { message: 'Pin the note to a time or a layer.', path: ['timeS'] });
+
+export const commentSchema = z.object({ runId: idField, body: noteBody });
+
+export const noteChangeSchema = z.object({
+  runId: idField,
+  noteId: idField,
+  kind: z.enum(['annotation', 'comment']),
+  /** Absent to delete. */
+  body: noteBody.optional(),
+});
+
+export const dispositionSchema = z.object({
+  runId: idField,
+  disposition: z.enum(['accepted', 'on_hold', 'rejected'], { error: 'Choose a decision.' }),
+  reason: z.string().trim().min(3, 'Give the reason for the decision.').max(2000, 'Keep the reason under 2000 characters.'),
+});

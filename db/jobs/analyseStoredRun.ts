@@ -5,6 +5,8 @@ import { readTrace, TraceFormatError } from '../../analysis/trace';
 import { db, type Executor } from '../client';
 import { createAnalysis, failAnalysis, markAnalysisRunning, storeAnalysisResult } from '../queries/analyses';
 import { findRunForAnalysis, traceFileChunks } from '../queries/runs';
+import { hasRunSeries, storeRunSeries } from '../queries/series';
+import { OVERVIEW_POINTS, plotPoints } from './seriesOverview';
 import type { AnalysisSummary } from '../schema';
 import { toJsonValue } from './toJsonValue';
 
@@ -20,7 +22,7 @@ function messageOf(err: unknown): string {
 
 /** The run-level part of the result, typed arrays as plain arrays, ready for jsonb. */
 export function summaryOf(result: AnalysisResult): AnalysisSummary {
-  const { layers: _layers, warnings: _warnings, ...rest } = result;
+  const { layers: _layers, warnings: _warnings, model: _model, ...rest } = result;
   return toJsonValue(rest) as AnalysisSummary;
 }
 
@@ -47,18 +49,22 @@ export async function analyseStoredRun(
   const analysis = await createAnalysis({ runId, mode, settings, requestedBy: opts.requestedBy ?? null }, ex);
   await markAnalysisRunning(analysis.id, ex);
   let result: AnalysisResult;
+  let trace: Awaited<ReturnType<typeof readTrace>>;
   try {
     const designFile = stored.revision.sourceFileName ?? `${stored.revision.name} (revision ${stored.revision.revision})`;
     const design = parseDesign(stored.revision.document, designFile);
-    const trace = await readTrace(traceFileChunks(runId, opts.chunkBytes, ex), { fileName: stored.trace.fileName, layerCount: design.layers.length });
-    result = await analyzeRun(design, trace, settings);
+    trace = await readTrace(traceFileChunks(runId, opts.chunkBytes, ex), { fileName: stored.trace.fileName, layerCount: design.layers.length });
+    result = await analyzeRun(design, trace, { ...settings, modelSeries: true });
   } catch (err) {
     const error = messageOf(err);
     await failAnalysis(analysis.id, error, ex);
     return { analysisId: analysis.id, state: 'failed', error };
   }
   try {
-    await storeAnalysisResult(analysis.id, { layers: result.layers, warnings: result.warnings, summary: summaryOf(result) }, ex);
+    // The samples as plotted are kept once per run; the model once per analysis, with its results.
+    await storeRunSeries(runId, trace.timeS, trace.signal, ex);
+    const series = result.model ? { model: result.model, overview: plotPoints(trace.timeS, trace.signal, result.model, OVERVIEW_POINTS) } : undefined;
+    await storeAnalysisResult(analysis.id, { layers: result.layers, warnings: result.warnings, summary: summaryOf(result), series }, ex);
   } catch (err) {
     await failAnalysis(analysis.id, messageOf(err), ex);
     throw err;
@@ -71,4 +77,13 @@ export async function analyseStoredRun(
     }
   }
   return { analysisId: analysis.id, state: 'done', layers: result.layers.length, warnings: result.warnings.length };
+}
+
+/** Stores the run's samples for plotting from its raw trace, when no analysis has done so yet. */
+export async function ensureRunSeries(runId: number, ex: Executor = db()): Promise<void> {
+  if (await hasRunSeries(runId, ex)) return;
+  const stored = await findRunForAnalysis(runId, ex);
+  if (!stored) return;
+  const trace = await readTrace(traceFileChunks(runId, undefined, ex), { fileName: stored.trace.fileName });
+  await storeRunSeries(runId, trace.timeS, trace.signal, ex);
 }

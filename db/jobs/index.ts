@@ -1,2 +1,3 @@
 export * from './analyseStoredRun';
 export * from './toJsonValue';
+export * from './seriesOverview';

@@ -3,6 +3,7 @@ import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import type { AnalysisMode, LayerResult } from '../../analysis/fit';
 import { db, type Executor } from '../client';
 import { analyses, layerResults, runs, type Analysis, type AnalysisSummary, type LayerResultRow } from '../schema';
+import { storeAnalysisSeries, type SeriesOverview } from './series';
 
 export type { AnalysisMode };
 
@@ -35,13 +36,13 @@ function layerRow(analysisId: number, l: LayerResult): typeof layerResults.$infe
 }
 
 /**
- * Stores a finished analysis: its layer results, warnings and run-level summary, the analysis
+ * Stores a finished analysis: its layer results, warnings, run-level summary and model series, the analysis
  * marked 'done' and the run 'analysed', in one transaction. Refuses (returns false, writes
  * nothing) unless the analysis is still running.
  */
 export async function storeAnalysisResult(
   id: number,
-  result: { layers: readonly LayerResult[]; warnings: string[]; summary: AnalysisSummary },
+  result: { layers: readonly LayerResult[]; warnings: string[]; summary: AnalysisSummary; series?: { model: Float64Array; overview: SeriesOverview } },
   ex: Executor = db(),
 ): Promise<boolean> {
   return ex.transaction(async (tx) => {
@@ -52,6 +53,7 @@ export async function storeAnalysisResult(
       .returning({ runId: analyses.runId });
     if (!done) return false;
     if (result.layers.length > 0) await tx.insert(layerResults).values(result.layers.map((l) => layerRow(id, l)));
+    if (result.series) await storeAnalysisSeries(id, result.series.model, result.series.overview, tx);
     await tx.update(runs).set({ status: 'analysed' }).where(eq(runs.id, done.runId));
     return true;
   });

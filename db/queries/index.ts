@@ -8,3 +8,5 @@ export * from './users';
 export * from './analyses';
 export * from './designs';
 export * from './runs';
+export * from './series';
+export * from './review';

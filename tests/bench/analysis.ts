@@ -10,26 +10,34 @@ import { readTrace } from '../../analysis/trace';
 const LAYERS = 40;
 const TARGET_SAMPLES = 1_000_000;
 
-function design40() {
+/** The design of the bench run: 40 layers, (HL)^20 at 600 nm, a fresh chip every 8 layers. */
+export function design40Document() {
   const layers = Array.from({ length: LAYERS }, (_, i) => ({
     material: i % 2 === 0 ? 'H' : 'L',
     qwot: 1,
     monitor: { wavelengthNm: 600, mode: 'T', chip: 1 + Math.floor(i / 8), cut: 'turning-point' },
   }));
-  return parseDesign({
+  return {
     format: 'fringelog.design/1', name: 'bench (HL)^20, a fresh chip every 8 layers', referenceWavelengthNm: 600,
     substrate: 'fused-silica', substrateBackside: true, materials: { H: 'TiO2', L: 'SiO2' }, layers,
-  });
+  };
+}
+
+const design40 = () => parseDesign(design40Document());
+
+/** The bench run's trace: about 10⁶ samples, with the synthesiser's truth. */
+export function benchSynth(design = design40()) {
+  const base: SynthOptions = { seed: 40, rateNmPerS: { H: 0.25, L: 0.5 }, rateDriftFraction: 0.03, indexDriftPerHour: { H: -0.02 } };
+  // Idle stretches are rounded to whole samples, so size the interval from a coarse probe run.
+  const probe = synthesizeRun(design, { ...base, sampleIntervalS: 0.1 });
+  return synthesizeRun(design, { ...base, sampleIntervalS: (0.1 * probe.timeS.length) / (TARGET_SAMPLES * 1.01) });
 }
 
 const mb = (bytes: number) => `${(bytes / 2 ** 20).toFixed(0)} MB`;
 
 export async function run(): Promise<void> {
   const design = design40();
-  const base: SynthOptions = { seed: 40, rateNmPerS: { H: 0.25, L: 0.5 }, rateDriftFraction: 0.03, indexDriftPerHour: { H: -0.02 } };
-  // Idle stretches are rounded to whole samples, so size the interval from a coarse probe run.
-  const probe = synthesizeRun(design, { ...base, sampleIntervalS: 0.1 });
-  const synth = synthesizeRun(design, { ...base, sampleIntervalS: (0.1 * probe.timeS.length) / (TARGET_SAMPLES * 1.01) });
+  const synth = benchSynth(design);
   const chunks = Array.from(traceCsvChunks(synth, { rowsPerChunk: 50_000 }));
   const bytes = chunks.reduce((a, c) => a + c.length, 0);
   const rssBefore = process.memoryUsage().rss;

@@ -2,5 +2,6 @@
 import { run as analysis } from './analysis';
 import { run as compare } from './compare';
 import { run as optics } from './optics';
+import { run as runPage } from './runPage';
 
-for (const section of [optics, analysis, compare]) await section();
+for (const section of [optics, analysis, compare, runPage]) await section();

@@ -77,6 +77,45 @@ export class RunView {
   advisory() {
     return this.page.getByTestId('advisory');
   }
+
+  plot() {
+    return this.page.getByTestId('trace-plot');
+  }
+
+  /** The plot's visible time range, s (kept on the plot's element as data-view-from/to). */
+  async view(): Promise<[number, number]> {
+    const el = this.plot();
+    return [Number(await el.getAttribute('data-view-from')), Number(await el.getAttribute('data-view-to'))];
+  }
+
+  async showLayer(layer: number): Promise<void> {
+    await this.page.getByTestId('layer-table').getByRole('button', { name: `Show layer ${layer} on the trace` }).click();
+  }
+
+  async pinNoteAtPlotCentre(text: string): Promise<void> {
+    await this.page.getByRole('button', { name: 'Pin a note' }).click();
+    const box = await this.plot().locator('.u-over').first().boundingBox();
+    if (!box) throw new Error('the trace plot is not drawn');
+    await this.page.mouse.click(box.x + box.width / 2, box.y + box.height / 2);
+    const note = this.page.getByTestId('annotation-form').getByLabel('Note');
+    await note.fill(text);
+    await this.page.getByRole('button', { name: 'Pin note' }).click();
+  }
+
+  annotationForm() {
+    return this.page.getByTestId('annotation-form');
+  }
+
+  disposition() {
+    return this.page.getByTestId('disposition');
+  }
+
+  async decide(word: string, reason: string): Promise<void> {
+    await this.page.getByRole('button', { name: /Decide the disposition|Change the disposition/ }).click();
+    await this.disposition().getByLabel(word).check();
+    await this.disposition().getByLabel('Reason (required)').fill(reason);
+    await this.page.getByRole('button', { name: 'Record the disposition' }).click();
+  }
 }
 
 export class ComparePage {

@@ -24,7 +24,9 @@ const context = await chromium.launchPersistentContext(userDataDir, {
 context.setDefaultTimeout(10000);
 let passed = 0;
 let failed = 0;
-for (const t of tests) {
+// BROWSER_GREP=words runs only the tests whose names contain them (while working on one area).
+const grep = process.env.BROWSER_GREP;
+for (const t of tests.filter((x) => !grep || x.name.includes(grep))) {
   await context.clearCookies();
   const page = await context.newPage();
   watchCsp(page);

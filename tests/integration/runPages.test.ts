@@ -75,8 +75,10 @@ describe('the runs pages', () => {
     expect(cut).toBeGreaterThan(ideal);
     const rows = layerRows(refit);
     expect(rows[0]).toMatchObject({ cutTimeS: cut, idealCutTimeS: ideal });
+    expect(rows[0].cutDeltaS).toBeCloseTo(cut - ideal, 9);
+    // one Δt in seconds, not two absolute times
     const html = renderToStaticMarkup(createElement(LayerTable, { layers: rows }));
-    expect(html).toContain(`${cut.toFixed(1)} <span class="text-ink-faint">· ${ideal.toFixed(1)}</span>`);
+    expect(html).toContain(`${(cut - ideal).toFixed(1)} s late`);
   });
 
   it('answer 404 for a run that does not exist or a malformed number', async () => {

@@ -16,6 +16,8 @@ const capabilityText: Record<Capability, { text: string; href?: string }> = {
   viewSystemHealth: { text: 'Read the database’s version and migrations at /api/health' },
   compareRuns: { text: 'Compare runs across shifts and chambers, with control charts', href: '/compare' },
   receiveToleranceAlerts: { text: 'Get e-mail when a layer is out of tolerance (choose on your account page)', href: '/account' },
+  writeRunNotes: { text: 'Pin notes to a moment or a layer of a run, and join its discussion' },
+  setRunDisposition: { text: 'Decide whether a run is good to ship, held for review or not to ship, with the reason' },
 };
 
 export default async function HomePage() {

@@ -1,6 +1,7 @@
 import type { Metadata } from 'next';
 import { PageHeader, Panel, formatTime } from '@/components/ui/Page';
 import { formatBytes } from '@/components/runs/format';
+import { dispositionLooks, type DispositionValue } from '@/components/runs/disposition';
 import { listAudit, type AuditRow } from '@/db/queries/audit';
 import { requireCapability } from '@/app/_lib/auth';
 import { roleLabels, type Role } from '@/app/_lib/capabilities';
@@ -19,6 +20,13 @@ const verbs: Record<string, string> = {
   'user.password_reset': 'reset the password of',
   'design.revision_created': 'stored a revision of design',
   'run.uploaded': 'stored the trace of run',
+  'run.disposition_set': 'recorded the disposition of run',
+  'run.annotation_added': 'pinned a note on run',
+  'run.annotation_edited': 'edited their note on run',
+  'run.annotation_deleted': 'deleted their note on run',
+  'run.comment_added': 'commented on run',
+  'run.comment_edited': 'edited their comment on run',
+  'run.comment_deleted': 'deleted their comment on run',
 };
 
 /** Phrases for what people do to their own account. */
@@ -27,6 +35,10 @@ const ownVerbs: Record<string, string> = {
   'user.password_changed': 'changed their password',
   'user.password_reset': 'set a new password through a reset link',
 };
+
+function dispositionWord(value: unknown): string {
+  return typeof value === 'string' && value in dispositionLooks ? dispositionLooks[value as DispositionValue].word : String(value);
+}
 
 function role(value: unknown): string {
   return typeof value === 'string' && value in roleLabels ? roleLabels[value as Role] : String(value);
@@ -38,6 +50,8 @@ function details(e: AuditRow): string {
   if (e.action === 'user.invited') return `as ${role(d.role)}, ${String(d.email)}`;
   if (e.action === 'design.revision_created') return `revision ${String(d.revision)}`;
   if (e.action === 'run.uploaded' && typeof d.bytes === 'number') return `${String(d.file)}, ${formatBytes(d.bytes)}`;
+  if (e.action === 'run.disposition_set') return `${dispositionWord(d.disposition)}: ${String(d.reason)}${d.was ? ` (was ${dispositionWord(d.was)})` : ''}`;
+  if (/^run\.(annotation|comment)_/.test(e.action)) return [d.was !== undefined ? `was “${String(d.was)}”` : null, d.now !== undefined || d.body !== undefined ? `“${String(d.now ?? d.body)}”` : null].filter(Boolean).join(' → ');
   return Object.entries(d)
     .map(([k, v]) => `${k}: ${typeof v === 'string' ? v : JSON.stringify(v)}`)
     .join(' · ');
@@ -73,8 +87,8 @@ export default async function AuditPage() {
         {events.length === 0 ? (
           <p className="text-ink-soft">Nothing has been changed yet.</p>
         ) : (
-          <table className="w-full text-left text-sm">
-            <thead className="text-xs uppercase tracking-wider text-ink-faint">
+          <table className="block w-full text-left text-sm md:table">
+            <thead className="hidden text-xs uppercase tracking-wider text-ink-faint md:table-header-group">
               <tr>
                 <th className="pb-2 font-medium">When</th>
                 <th className="pb-2 font-medium">What happened</th>
@@ -82,13 +96,13 @@ export default async function AuditPage() {
                 <th className="pb-2 font-medium">Event</th>
               </tr>
             </thead>
-            <tbody className="divide-y divide-paper-line">
+            <tbody className="block divide-y divide-paper-line md:table-row-group">
               {events.map((e) => (
-                <tr key={e.id} data-audit-action={e.action}>
-                  <td className="py-2 pr-4 font-mono text-xs whitespace-nowrap text-ink-soft">{formatTime(e.at)}</td>
-                  <td className="py-2 pr-4">{sentence(e)}</td>
-                  <td className="py-2 pr-4 text-ink-soft">{details(e)}</td>
-                  <td className="py-2 font-mono text-xs text-ink-faint">{e.action}</td>
+                <tr key={e.id} data-audit-action={e.action} className="block py-2 md:table-row md:py-0">
+                  <td className="block font-mono text-xs text-ink-soft md:table-cell md:py-2 md:pr-4 md:whitespace-nowrap">{formatTime(e.at)}</td>
+                  <td className="block break-words md:table-cell md:py-2 md:pr-4">{sentence(e)}</td>
+                  <td className="block break-words text-ink-soft md:table-cell md:py-2 md:pr-4">{details(e)}</td>
+                  <td className="hidden font-mono text-xs text-ink-faint md:table-cell md:py-2">{e.action}</td>
                 </tr>
               ))}
             </tbody>

@@ -23,6 +23,8 @@ import { changePassword, saveAlertPreferences } from '@/app/(app)/account/action
 import ComparePage from '@/app/(app)/compare/page';
 import { GET as compareCsv } from '@/app/api/compare/csv/route';
 import { changeRole, inviteUser, resendInvite, setActive } from '@/app/(app)/admin/users/actions';
+import { addAnnotation, addComment, changeOwnNote, decideRun } from '@/app/(app)/runs/[runId]/actions';
+import { GET as runSeries } from '@/app/api/runs/[id]/series/route';
 import { form, uniqueEmail } from '../helpers';
 
 /** Who asks. Chamber tokens join here (and get a column in every row) once they exist. */
@@ -56,6 +58,13 @@ async function aRun() {
   return { params: Promise.resolve({ runId: String(run.id) }), searchParams: Promise.resolve({}) };
 }
 const NO_USER = 2147483647;
+async function aRunId(): Promise<string> {
+  const [run] = await listRuns(1);
+  if (!run) throw new Error('the test database has no run (seed:sample-runs)');
+  return String(run.id);
+}
+/** Note actions on a run that does not exist: past the access check they answer not_found (a `yes`). */
+const NO_RUN = 2147483647;
 
 export const accessTable: Row[] = [
   page('/', () => HomePage(), signedIn),
@@ -70,6 +79,7 @@ export const accessTable: Row[] = [
   page('/set-password', () => SetPasswordPage({ searchParams: Promise.resolve({ token: 'no-such-token-000000000' }) }), everyone),
   page('/compare', () => ComparePage(noSearch), signedIn),
   route('GET /api/compare/csv', () => compareCsv(new Request('http://localhost/api/compare/csv?table=layers')), signedIn),
+  route('GET /api/runs/[id]/series', async () => runSeries(new Request('http://localhost/api/runs/x/series'), { params: Promise.resolve({ id: await aRunId() }) }), signedIn),
   route('GET /api/health', () => health(), cells((p) => (p === 'admin' ? 'details' : 'up'))),
   action('(auth)/sign-in#signIn', () => signIn(null, form({ email: uniqueEmail('table'), password: 'wrong-password-1' })), everyone),
   action('(auth)/reset-password#requestPasswordReset', () => requestPasswordReset(null, form({ email: uniqueEmail('table') })), everyone),
@@ -77,6 +87,10 @@ export const accessTable: Row[] = [
   action('(app)#signOut', () => signOut(), everyone),
   action('(app)/account#changePassword', () => changePassword(null, form({ current: 'not-the-password-1', password: 'table-pass-123', confirm: 'table-pass-123' })), signedIn),
   action('(app)/account#saveAlertPreferences', () => saveAlertPreferences(null, form({ outOfTolerance: 'on' })), only('engineer', 'supervisor')),
+  action('(app)/runs/[runId]#addAnnotation', () => addAnnotation(null, form({ runId: NO_RUN, body: 'table row', timeS: 1 })), only('operator', 'engineer', 'supervisor')),
+  action('(app)/runs/[runId]#addComment', () => addComment(null, form({ runId: NO_RUN, body: 'table row' })), only('operator', 'engineer', 'supervisor')),
+  action('(app)/runs/[runId]#changeOwnNote', () => changeOwnNote(null, form({ runId: NO_RUN, noteId: NO_RUN, kind: 'comment', body: 'x' })), only('operator', 'engineer', 'supervisor')),
+  action('(app)/runs/[runId]#decideRun', () => decideRun(null, form({ runId: NO_RUN, disposition: 'on_hold', reason: 'table row' })), only('engineer', 'supervisor')),
   action('(app)/admin/users#inviteUser', () => inviteUser(null, form({ email: uniqueEmail('table'), name: 'Table Row', role: 'operator' })), only('admin')),
   action('(app)/admin/users#resendInvite', () => resendInvite(null, form({ userId: NO_USER })), only('admin')),
   action('(app)/admin/users#changeRole', () => changeRole(null, form({ userId: NO_USER, role: 'operator' })), only('admin')),

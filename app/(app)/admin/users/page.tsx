@@ -23,8 +23,8 @@ export default async function UsersPage() {
         <InviteUserForm action={inviteUser} roles={roleOptions} />
       </Panel>
       <Panel title={`${users.length} people`}>
-        <table className="w-full text-left text-sm">
-          <thead className="text-xs uppercase tracking-wider text-ink-faint">
+        <table className="block w-full text-left text-sm md:table">
+          <thead className="hidden text-xs uppercase tracking-wider text-ink-faint md:table-header-group">
             <tr>
               <th className="pb-2 font-medium">Name</th>
               <th className="pb-2 font-medium">Status</th>
@@ -34,21 +34,21 @@ export default async function UsersPage() {
               </th>
             </tr>
           </thead>
-          <tbody className="divide-y divide-paper-line">
+          <tbody className="block divide-y divide-paper-line md:table-row-group">
             {users.map((u) => (
-              <tr key={u.id} data-user-email={u.email}>
-                <td className="py-3 pr-4">
+              <tr key={u.id} data-user-email={u.email} className="flex flex-wrap items-center gap-x-4 gap-y-2 py-3 md:table-row md:py-0">
+                <td className="block w-full min-w-0 md:table-cell md:w-auto md:py-3 md:pr-4">
                   <div className="font-medium">{u.name}</div>
-                  <div className="font-mono text-xs text-ink-faint">{u.email}</div>
+                  <div className="font-mono text-xs break-all text-ink-faint">{u.email}</div>
                 </td>
-                <td className="py-3 pr-4">
+                <td className="block md:table-cell md:py-3 md:pr-4">
                   <Badge tone={statusTone[u.status]}>{u.status}</Badge>
                 </td>
-                <td className="py-3 pr-4">
+                <td className="block md:table-cell md:py-3 md:pr-4">
                   <RoleControl action={changeRole} userId={u.id} role={u.role} roles={roleOptions} />
                 </td>
-                <td className="py-3">
-                  <div className="flex flex-wrap justify-end gap-2">
+                <td className="block md:table-cell md:py-3">
+                  <div className="flex flex-wrap gap-2 md:justify-end">
                     {u.status === 'invited' ? <ResendInviteControl action={resendInvite} userId={u.id} /> : null}
                     {u.id !== me.id && u.status !== 'invited' ? <ActiveControl action={setActive} userId={u.id} active={u.status === 'active'} /> : null}
                     {u.status === 'invited' ? <ActiveControl action={setActive} userId={u.id} active /> : null}

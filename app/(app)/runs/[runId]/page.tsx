@@ -1,15 +1,24 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
+import { parseDesign, type Design } from '@/analysis/design';
 import { AnalysisStateBadge } from '@/components/runs/AnalysisStateBadge';
+import { ChipTable, ToolingList, type ChipView, type ToolingView } from '@/components/runs/ChipsAndTooling';
+import { DispositionPanel } from '@/components/runs/DispositionPanel';
 import { IndexDriftList } from '@/components/runs/IndexDriftList';
-import { LayerTable } from '@/components/runs/LayerTable';
+import { CommentForm, NoteList } from '@/components/runs/NoteList';
+import { IndexPlot, SpectrumPlot, type SpectrumView } from '@/components/runs/RunCharts';
+import { RunReview } from '@/components/runs/RunReview';
 import { formatBytes, formatDate } from '@/components/runs/format';
 import { PageHeader, Panel, formatTime } from '@/components/ui/Page';
 import { latestAnalyses, type AnalysisMode } from '@/db/queries/analyses';
+import { dispositionAuthor, listAnnotations, listComments, runDesignDocument } from '@/db/queries/review';
 import { findRun } from '@/db/queries/runs';
+import { findOverview } from '@/db/queries/series';
 import { requireCapability } from '@/app/_lib/auth';
-import { driftRows, layerRows, parseRunId } from './runView';
+import { can } from '@/app/_lib/capabilities';
+import { addAnnotation, addComment, changeOwnNote, decideRun } from './actions';
+import { chipRows, driftRows, driftWarnings, layerRows, materialNames, parseRunId, traceSpans } from './runView';
 
 export const metadata: Metadata = { title: 'Run' };
 
@@ -20,34 +29,61 @@ const modes: { mode: AnalysisMode; label: string; about: string }[] = [
 
 function Fact({ label, children }: { label: string; children: React.ReactNode }) {
   return (
-    <div>
+    <div className="min-w-0">
       <dt className="text-xs uppercase tracking-wider text-ink-faint">{label}</dt>
       <dd className="mt-0.5">{children}</dd>
     </div>
   );
 }
 
+function designOf(document: unknown): Design | null {
+  try {
+    return parseDesign(document);
+  } catch {
+    return null;
+  }
+}
+
 export default async function RunPage({ params, searchParams }: { params: Promise<{ runId: string }>; searchParams: Promise<{ mode?: string | string[] }> }) {
-  await requireCapability('viewRuns');
+  const user = await requireCapability('viewRuns');
   const { runId } = await params;
   const id = parseRunId(runId);
   const found = id === null ? undefined : await findRun(id);
   if (!found) notFound();
   const { run, design, chamber, trace } = found;
-  const byMode = await latestAnalyses(run.id);
+  const [byMode, annotations, comments, decidedBy, stored] = await Promise.all([
+    latestAnalyses(run.id), listAnnotations(run.id), listComments(run.id), dispositionAuthor(run.dispositionBy), runDesignDocument(run.id),
+  ]);
   const asked = (await searchParams).mode;
   const available = modes.filter((m) => byMode[m.mode]);
   const shown = available.find((m) => m.mode === asked) ?? available[0];
   const current = shown ? byMode[shown.mode] : undefined;
+  const other = shown ? byMode[shown.mode === 'refit' ? 'sequential' : 'refit'] : undefined;
+  const parsed = designOf(stored?.document);
+  const names = materialNames(stored?.document);
+  const labelOf = (m: string) => (names[m] ? `${m} · ${names[m]}` : m);
+  const done = current?.analysis.state === 'done' ? current : undefined;
+  const layers = done ? layerRows(done, parsed, other?.analysis.state === 'done' ? other : null, names) : [];
+  const drift = done ? driftRows(done) : [];
+  const overview = done ? await findOverview(done.analysis.id) : undefined;
+  const summary = done?.analysis.summary ?? {};
+  const tooling = (Array.isArray(summary.tooling) ? summary.tooling : []) as Omit<ToolingView, 'label'>[];
+  const spectrum = summary.spectrum as SpectrumView | undefined;
+  const warnings = done ? [...driftWarnings(drift, names), ...done.analysis.warnings] : [];
+  const monitorWavelengths = [...new Set(layers.map((l) => l.wavelengthNm).filter((w) => w !== null))];
+  const writes = can(user.role, 'writeRunNotes');
 
   return (
     <>
       <p className="mb-2 text-sm">
-        <Link href="/runs" className="text-fringe underline-offset-2 hover:underline">
-          ← All runs
-        </Link>
+        <Link href="/runs" className="text-fringe underline-offset-2 hover:underline">← All runs</Link>
       </p>
       <PageHeader title={`Run ${run.runCode}`} lead={`${design.name} (revision ${design.revision}, ${design.layerCount} layer${design.layerCount === 1 ? '' : 's'}) in ${chamber.name}`} />
+      <DispositionPanel
+        runId={run.id}
+        current={run.disposition ? { value: run.disposition, reason: run.dispositionReason, byName: decidedBy, at: run.dispositionAt } : null}
+        decide={can(user.role, 'setRunDisposition') ? decideRun : null}
+      />
       <p className="mb-6 rounded-md border border-brass/40 bg-brass-light px-4 py-2 text-sm" data-testid="advisory">
         Fringelog&apos;s figures are advisory; cut and disposition decisions follow your shop&apos;s procedures.
       </p>
@@ -57,86 +93,106 @@ export default async function RunPage({ params, searchParams }: { params: Promis
           <Fact label="Operator">{found.operatorUserName ?? run.operatorName ?? '–'}</Fact>
           <Fact label="Shift">{run.shift ?? '–'}</Fact>
           <Fact label="Date">{formatDate(run.startedAt)}</Fact>
-          <Fact label="Design">
-            {design.name} <span className="text-ink-faint">rev. {design.revision}</span>
-          </Fact>
-          <Fact label="Reference wavelength">{design.referenceWavelengthNm} nm</Fact>
+          <Fact label="Design">{design.name} <span className="text-ink-faint">rev. {design.revision}</span></Fact>
+          <Fact label="Materials">{Object.keys(names).length ? Object.keys(names).map(labelOf).join(', ') : '–'}</Fact>
           <Fact label="Trace file">
-            <span className="font-mono text-xs">{trace?.fileName ?? '–'}</span>
+            <span className="font-mono text-xs break-all">{trace?.fileName ?? '–'}</span>
             {trace ? (
               <span className="block text-xs text-ink-faint">
                 {formatBytes(trace.byteSize)} · {trace.rowCount.toLocaleString('en-GB')} samples · {trace.columns.join(', ')}
               </span>
             ) : null}
           </Fact>
-          <Fact label="SHA-256">
-            <span className="font-mono text-xs break-all text-ink-soft" title={trace?.sha256}>
-              {trace ? `${trace.sha256.slice(0, 16)}…` : '–'}
-            </span>
+          <Fact label="Downloads">
+            <a className="block text-fringe underline-offset-2 hover:underline" href={`/api/runs/${run.id}/trace`} download>Raw trace (CSV)</a>
+            <a className="block text-fringe underline-offset-2 hover:underline" href={`/api/runs/${run.id}/results.csv`} download>Results (CSV)</a>
+            <span className="block font-mono text-xs break-all text-ink-faint" title={trace?.sha256}>SHA-256 {trace ? `${trace.sha256.slice(0, 12)}…` : '–'}</span>
           </Fact>
         </dl>
       </Panel>
 
       {available.length === 0 ? (
-        <Panel>
-          <p className="text-ink-soft">This run has not been analysed yet.</p>
-        </Panel>
+        <Panel className="mb-6"><p className="text-ink-soft">This run has not been analysed yet.</p></Panel>
       ) : (
-        <>
-          <nav aria-label="Analysis" className="mb-4 flex flex-wrap items-center gap-2">
-            {available.map((m) => (
-              <Link
-                key={m.mode}
-                href={`/runs/${run.id}?mode=${m.mode}`}
-                aria-current={m.mode === shown?.mode ? 'page' : undefined}
-                className={`rounded-md border px-3 py-1.5 text-sm font-medium ${
-                  m.mode === shown?.mode ? 'border-fringe bg-fringe-light text-fringe-dark' : 'border-paper-line bg-paper-raised text-ink-soft hover:bg-paper-sunk'
-                }`}
-              >
-                {m.label}
-              </Link>
-            ))}
-            {shown ? <span className="text-sm text-ink-faint">{shown.about}</span> : null}
-          </nav>
-          {current ? (
-            <>
-              <Panel title="Layers" className="mb-6">
-                <div className="mb-3 flex flex-wrap items-center gap-3 text-sm text-ink-soft">
-                  <AnalysisStateBadge state={current.analysis.state} />
-                  {current.analysis.finishedAt ? <span>finished {formatTime(current.analysis.finishedAt)}</span> : null}
-                </div>
-                {current.analysis.state === 'failed' ? (
-                  <p className="rounded-md bg-alarm-light px-3 py-2 font-mono text-sm text-alarm" data-testid="analysis-error">
-                    {current.analysis.error}
-                  </p>
-                ) : current.analysis.state === 'done' ? (
-                  <LayerTable layers={layerRows(current)} />
-                ) : (
-                  <p className="text-ink-soft">The analysis is not finished yet.</p>
-                )}
-              </Panel>
-              {current.analysis.state === 'done' ? (
-                <div className="grid gap-6 md:grid-cols-2">
-                  <Panel title="Run warnings">
-                    {current.analysis.warnings.length ? (
-                      <ul className="flex list-disc flex-col gap-1 pl-5 text-sm" data-testid="run-warnings">
-                        {current.analysis.warnings.map((w, i) => (
-                          <li key={i}>{w}</li>
-                        ))}
-                      </ul>
-                    ) : (
-                      <p className="text-sm text-ink-soft">None.</p>
-                    )}
-                  </Panel>
-                  <Panel title="Index against nominal, per material">
-                    <IndexDriftList drift={driftRows(current)} />
-                  </Panel>
-                </div>
-              ) : null}
-            </>
-          ) : null}
-        </>
+        <nav aria-label="Analysis" className="mb-4 flex flex-wrap items-center gap-2">
+          {available.map((m) => (
+            <Link
+              key={m.mode}
+              href={`/runs/${run.id}?mode=${m.mode}`}
+              aria-current={m.mode === shown?.mode ? 'page' : undefined}
+              className={`rounded-md border px-3 py-1.5 text-sm font-medium ${m.mode === shown?.mode ? 'border-fringe bg-fringe-light text-fringe-dark' : 'border-paper-line bg-paper-raised text-ink-soft hover:bg-paper-sunk'}`}
+            >
+              {m.label}
+            </Link>
+          ))}
+          {shown ? <span className="text-sm text-ink-faint">{shown.about}</span> : null}
+        </nav>
       )}
+      {current && current.analysis.state !== 'done' ? (
+        <Panel className="mb-6">
+          <div className="mb-3 flex flex-wrap items-center gap-3 text-sm text-ink-soft">
+            <AnalysisStateBadge state={current.analysis.state} />
+          </div>
+          {current.analysis.state === 'failed' ? (
+            <p className="rounded-md bg-alarm-light px-3 py-2 font-mono text-sm break-words text-alarm" data-testid="analysis-error">{current.analysis.error}</p>
+          ) : (
+            <p className="text-ink-soft">The analysis is not finished yet.</p>
+          )}
+        </Panel>
+      ) : null}
+      {done ? (
+        <>
+          <Panel title="Trace and layers" className="mb-6">
+            <div className="mb-3 flex flex-wrap items-center gap-3 text-sm text-ink-soft">
+              <AnalysisStateBadge state={done.analysis.state} />
+              {done.analysis.finishedAt ? <span>finished {formatTime(done.analysis.finishedAt)}</span> : null}
+              <span>cut errors graded against the design&apos;s tolerances, else the shop default</span>
+            </div>
+            <RunReview
+              key={done.analysis.id}
+              runId={run.id}
+              analysisId={done.analysis.id}
+              overview={overview ? { ...overview, decimated: true } : null}
+              layers={layers}
+              spans={traceSpans(layers)}
+              annotations={annotations}
+              me={user.id}
+              addAnnotation={writes ? addAnnotation : null}
+              changeNote={writes ? changeOwnNote : null}
+            />
+          </Panel>
+          <div className="mb-6 grid gap-6 md:grid-cols-2">
+            <Panel title="Run warnings" className="min-w-0">
+              {warnings.length ? (
+                <ul className="flex list-disc flex-col gap-1 pl-5 text-sm break-words" data-testid="run-warnings">
+                  {warnings.map((w, i) => <li key={i}>{w}</li>)}
+                </ul>
+              ) : (
+                <p className="text-sm text-ink-soft">None.</p>
+              )}
+            </Panel>
+            <Panel title="Index against nominal, per material" className="min-w-0">
+              <IndexPlot
+                wavelengthNm={monitorWavelengths.length === 1 ? monitorWavelengths[0] : null}
+                series={drift.map((d) => ({ ...d, label: labelOf(d.material) }))}
+              />
+              <div className="mt-3 overflow-x-auto"><IndexDriftList drift={drift.map((d) => ({ ...d, material: labelOf(d.material) }))} /></div>
+            </Panel>
+            <Panel title="As-built spectrum against the design" className="min-w-0">
+              {spectrum?.wavelengthNm ? <SpectrumPlot spectrum={spectrum} /> : <p className="text-sm text-ink-soft">No spectrum stored.</p>}
+            </Panel>
+            <Panel title="Chips and tooling" className="min-w-0">
+              <ChipTable chips={chipRows(done) as ChipView[]} />
+              <h3 className="mt-4 mb-2 text-sm font-semibold">Tooling check against the crystal</h3>
+              <ToolingList tooling={tooling.map((t) => ({ ...t, label: labelOf(t.material) }))} />
+            </Panel>
+          </div>
+        </>
+      ) : null}
+      <Panel title="Discussion">
+        <NoteList notes={comments} kind="comment" runId={run.id} me={user.id} change={writes ? changeOwnNote : null} empty="No comments yet." />
+        {writes ? <CommentForm runId={run.id} add={addComment} /> : null}
+      </Panel>
     </>
   );
 }
