@@ -13,15 +13,19 @@ export type Capabilities = {
   viewMailSink: boolean;
   /** Change one's own password. */
   changeOwnPassword: boolean;
+  /** Read designs, their revisions, spectra and cut plans, and the materials. */
+  viewDesigns: boolean;
+  /** Save design revisions, import designs, create and change shop materials. */
+  editDesigns: boolean;
 };
 export type Capability = keyof Capabilities;
 
 /** The one map from role to what it may do. */
 export const capabilities: Record<Role, Capabilities> = {
-  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true },
-  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true },
+  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, viewDesigns: true, editDesigns: false },
+  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, viewDesigns: true, editDesigns: true },
+  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true, viewDesigns: true, editDesigns: false },
+  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true, viewDesigns: true, editDesigns: true },
 };
 
 export function can(role: Role, capability: Capability): boolean {

@@ -8,3 +8,4 @@ export * from './users';
 export * from './analyses';
 export * from './designs';
 export * from './runs';
+export * from './materials';

@@ -13,6 +13,8 @@ const capabilityText: Record<Capability, { text: string; href?: string }> = {
   viewAuditLog: { text: 'Read the audit log of who changed what', href: '/audit' },
   viewMailSink: { text: 'Read the mail the local sink caught', href: '/admin/mail' },
   changeOwnPassword: { text: 'Change your own password', href: '/account' },
+  viewDesigns: { text: 'Read the designs, their spectra, cut plans and monitor curves, and the materials', href: '/designs' },
+  editDesigns: { text: 'Edit and import designs (each save a new revision) and the shop materials', href: '/materials' },
 };
 
 export default async function HomePage() {

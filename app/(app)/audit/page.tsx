@@ -19,6 +19,9 @@ const verbs: Record<string, string> = {
   'user.password_reset': 'reset the password of',
   'design.revision_created': 'stored a revision of design',
   'run.uploaded': 'stored the trace of run',
+  'material.created': 'created the material',
+  'material.updated': 'changed the material',
+  'material.index_adopted': 'adopted the runs\' fitted index for the material',
 };
 
 /** Phrases for what people do to their own account. */
@@ -36,7 +39,9 @@ function details(e: AuditRow): string {
   const d = e.detail;
   if (e.action === 'user.role_changed') return `${role(d.from)} → ${role(d.to)}`;
   if (e.action === 'user.invited') return `as ${role(d.role)}, ${String(d.email)}`;
-  if (e.action === 'design.revision_created') return `revision ${String(d.revision)}`;
+  if (e.action === 'design.revision_created') return `revision ${String(d.revision)}${typeof d.via === 'string' && d.via !== 'uploaded' ? `, ${d.via}` : ''}`;
+  if (e.action === 'material.index_adopted') return `n = ${String(d.index)} at ${String(d.wavelengthNm)} nm (was ${String(d.previousIndex)})`;
+  if (e.action === 'material.created' || e.action === 'material.updated') return typeof d.after === 'object' || typeof d.model === 'object' ? 'model stored with the event' : '';
   if (e.action === 'run.uploaded' && typeof d.bytes === 'number') return `${String(d.file)}, ${formatBytes(d.bytes)}`;
   return Object.entries(d)
     .map(([k, v]) => `${k}: ${typeof v === 'string' ? v : JSON.stringify(v)}`)
@@ -48,6 +53,7 @@ function targetLabel(e: AuditRow): string {
   if (e.targetType === 'user' && e.targetName) return e.targetName;
   if (e.targetType === 'design' && typeof e.detail.name === 'string') return e.detail.name;
   if (e.targetType === 'run' && typeof e.detail.runCode === 'string') return e.detail.runCode;
+  if (e.targetType === 'material' && typeof e.detail.name === 'string') return e.detail.name;
   return `${e.targetType}${e.targetId ? ` #${e.targetId}` : ''}`;
 }
 
