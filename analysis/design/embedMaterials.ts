@@ -7,7 +7,9 @@ type Doc = Record<string, unknown>;
  * Writes the models of the shop's own materials into a design document so it parses on its own
  * forever: every layer material, `materials` entry, substrate or ambient that names a shop
  * material (not a built-in, not already a model in the file) becomes that material's model now,
- * and `materialOrigins` records which shop material each came from. Built-in names stay names.
+ * and `materialOrigins` records which shop material each came from. A copy made by an earlier
+ * save is taken again from the shop (a new revision uses the material as it is now; the old
+ * revision keeps its copy). Built-in names stay names.
  * Anything that is not an object is returned as it is, for parseDesign to refuse with its key.
  */
 export function embedMaterials(document: unknown, shopModel: (name: string) => MaterialModel | undefined): unknown {
@@ -20,9 +22,12 @@ export function embedMaterials(document: unknown, shopModel: (name: string) => M
     typeof doc.materialOrigins === 'object' && doc.materialOrigins !== null ? { ...(doc.materialOrigins as Record<string, string>) } : {};
 
   for (const [key, ref] of Object.entries(materials)) {
+    const origin = Object.hasOwn(origins, key) ? origins[key] : undefined;
     if (isShop(ref)) {
       materials[key] = shopModel(ref);
       origins[key] = ref;
+    } else if (typeof ref === 'object' && origin !== undefined && shopModel(origin) !== undefined) {
+      materials[key] = shopModel(origin);
     }
   }
   if (Array.isArray(doc.layers)) {
@@ -38,6 +43,8 @@ export function embedMaterials(document: unknown, shopModel: (name: string) => M
     if (isShop(doc[key])) {
       origins[key] = doc[key];
       doc[key] = shopModel(doc[key]);
+    } else if (typeof doc[key] === 'object' && Object.hasOwn(origins, key) && shopModel(origins[key]) !== undefined) {
+      doc[key] = shopModel(origins[key]);
     }
   }
   if (Object.keys(materials).length) doc.materials = materials;

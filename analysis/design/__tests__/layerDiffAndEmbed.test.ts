@@ -40,6 +40,17 @@ describe('embedMaterials', () => {
     expect(parseDesign(out).layers[0].thicknessNm).toBeCloseTo(550 / (4 * 1.47), 9);
   });
 
+  it('takes an earlier copy again from the shop, so a new revision uses the material as it is now', () => {
+    const first = embedMaterials(doc([{ material: 'LK-SiO2', qwot: 1, monitor }]), lookup);
+    const changed: Record<string, MaterialModel> = { ...shop, 'LK-SiO2': { model: 'constant', n: 1.46, k: 0 } };
+    const second = embedMaterials(first, (name) => changed[name]) as { materials: Record<string, unknown> };
+    expect(second.materials['LK-SiO2']).toEqual({ model: 'constant', n: 1.46, k: 0 });
+    expect((first as { materials: Record<string, unknown> }).materials['LK-SiO2']).toEqual(shop['LK-SiO2']);
+    // a model the file wrote itself (no origin) is left alone
+    const own = embedMaterials(doc([{ material: 'LK-SiO2', qwot: 1, monitor }], { 'LK-SiO2': { model: 'constant', n: 1.5 } }), lookup) as { materials: Record<string, unknown> };
+    expect(own.materials['LK-SiO2']).toEqual({ model: 'constant', n: 1.5 });
+  });
+
   it('leaves an unknown name for parseDesign to refuse at its key', () => {
     const out = embedMaterials(doc([{ material: 'nope', qwot: 1, monitor }]), lookup);
     expect(() => parseDesign(out)).toThrow(/layers\[0\]\.material: "nope" is neither in "materials" nor built in/);

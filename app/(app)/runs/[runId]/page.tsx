@@ -58,7 +58,9 @@ export default async function RunPage({ params, searchParams }: { params: Promis
           <Fact label="Shift">{run.shift ?? '–'}</Fact>
           <Fact label="Date">{formatDate(run.startedAt)}</Fact>
           <Fact label="Design">
-            {design.name} <span className="text-ink-faint">rev. {design.revision}</span>
+            <Link className="text-fringe underline-offset-2 hover:underline" href={`/designs/${design.designId}?revision=${design.revision}`} data-testid="run-design-link">
+              {design.name} <span className="text-ink-faint">rev. {design.revision}</span>
+            </Link>
           </Fact>
           <Fact label="Reference wavelength">{design.referenceWavelengthNm} nm</Fact>
           <Fact label="Trace file">
