@@ -40,7 +40,8 @@ export function MaterialCurve({ model, name }: { model: MaterialModel; name: str
   }, [model]);
   const options = useMemo<Omit<uPlot.Options, 'width' | 'height'>>(
     () => ({
-      scales: { x: { time: false }, k: { auto: true } },
+      // k is often 0 throughout: a fixed floor keeps the axis from inventing a 0–100 range.
+      scales: { x: { time: false }, k: { range: (_u, _min, max) => [0, Math.max((max ?? 0) * 1.2, 0.001)] } },
       axes: [axis('Wavelength (nm)'), axis('n'), axis('k', { side: 1, scale: 'k', grid: { show: false } })],
       series: [
         { label: 'λ (nm)', value: (_u, v) => (v == null ? '–' : v.toFixed(0)) },

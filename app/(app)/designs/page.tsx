@@ -28,7 +28,9 @@ export default async function DesignsPage() {
                     <th className="pb-2 pr-4 font-medium">Design</th>
                     <th className="pb-2 pr-4 text-right font-medium">Revision</th>
                     <th className="pb-2 pr-4 text-right font-medium">Layers</th>
-                    <th className="pb-2 pr-4 text-right font-medium">λ ref nm</th>
+                    <th className="pb-2 pr-4 text-right font-medium">
+                      <span className="normal-case">λ</span> ref nm
+                    </th>
                     <th className="pb-2 pr-4 text-right font-medium">Runs</th>
                     <th className="pb-2 font-medium">Last saved</th>
                   </tr>

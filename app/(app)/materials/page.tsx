@@ -64,34 +64,20 @@ export default async function MaterialsPage() {
           )}
         </Panel>
         <Panel title="Built-in library (read-only)">
-          <div className="overflow-x-auto">
-            <table className="w-full text-left text-sm" data-testid="builtin-materials">
-              <thead className="text-xs uppercase tracking-wider text-ink-faint">
-                <tr>
-                  <th className={th}>Name</th>
-                  <th className={th}>Kind</th>
-                  <th className={`${th} text-right`}>n at 550 nm</th>
-                  <th className={th}>Source</th>
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-paper-line">
-                {Object.values(materialLibrary).map((m) => (
-                  <tr key={m.name} data-material={m.name} className="align-top">
-                    <td className="py-2 pr-4 whitespace-nowrap">
-                      <Link className="text-fringe underline-offset-2 hover:underline" href={href(m.name)}>
-                        {m.name}
-                      </Link>
-                    </td>
-                    <td className="py-2 pr-4 whitespace-nowrap">
-                      <Badge tone={m.kind === 'published-fit' ? 'fringe' : m.kind === 'from-memory' ? 'brass' : 'plain'}>{kindLabels[m.kind]}</Badge>
-                    </td>
-                    <td className="py-2 pr-4 text-right font-mono">{fixed(nAt(m.model, 550), 4)}</td>
-                    <td className="py-2 text-xs text-ink-soft">{m.source}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
+          <ul className="divide-y divide-paper-line text-sm" data-testid="builtin-materials">
+            {Object.values(materialLibrary).map((m) => (
+              <li key={m.name} data-material={m.name} className="flex flex-col gap-1 py-2.5">
+                <div className="flex flex-wrap items-baseline gap-x-3 gap-y-1">
+                  <Link className="font-medium text-fringe underline-offset-2 hover:underline" href={href(m.name)}>
+                    {m.name}
+                  </Link>
+                  <Badge tone={m.kind === 'published-fit' ? 'fringe' : m.kind === 'from-memory' ? 'brass' : 'plain'}>{kindLabels[m.kind]}</Badge>
+                  <span className="font-mono text-xs text-ink-soft">n(550 nm) = {fixed(nAt(m.model, 550), 4)}</span>
+                </div>
+                <p className="text-xs text-ink-soft">{m.source}</p>
+              </li>
+            ))}
+          </ul>
         </Panel>
       </div>
     </>

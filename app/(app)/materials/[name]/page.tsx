@@ -58,7 +58,7 @@ export default async function MaterialPage({ params }: { params: Promise<{ name:
           ) : (
             <div className="overflow-x-auto">
               <table className="w-full text-left text-sm" data-testid="fitted-index">
-                <thead className="text-xs uppercase tracking-wider text-ink-faint">
+                <thead className="text-xs text-ink-faint">
                   <tr>
                     <th className="pb-2 pr-4 font-medium">Monitor λ nm</th>
                     <th className="pb-2 pr-4 text-right font-medium">Runs · layers</th>
