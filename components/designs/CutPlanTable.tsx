@@ -24,10 +24,13 @@ export function CutPlanTable({ plan }: { plan: PlanLayer[] }) {
               <th className={`${th} text-right`}>Thickness nm</th>
               <th className={th}>Monitor</th>
               <th className={th}>Cut</th>
-              <th className={`${th} text-right`}>QW at monitor</th>
-              <th className={`${th} text-right`}>Turning points</th>
-              <th className={`${th} text-right`}>Start signal</th>
-              <th className={`${th} text-right`}>Cut signal</th>
+              <th className={`${th} text-right`}>
+                QW at <span className="normal-case">λ</span> mon.
+              </th>
+              <th className={`${th} text-right`}>
+                <abbr title="turning points passed in the layer, one at its end included">TPs</abbr>
+              </th>
+              <th className={`${th} text-right`}>Signal start → cut</th>
               <th className={`${th} text-right`}>Swing %</th>
               <th className={`${th} text-right`}>Slope at cut /nm</th>
               <th className={`${th} text-right`}>
@@ -51,8 +54,9 @@ export function CutPlanTable({ plan }: { plan: PlanLayer[] }) {
                   <td className="py-1.5 pr-3 whitespace-nowrap">{l.cut === 'level' ? 'at a level' : 'turning point'}</td>
                   <td className="py-1.5 pr-3 text-right font-mono">{fixed(l.qwotAtMonitor, 3)}</td>
                   <td className="py-1.5 pr-3 text-right font-mono">{l.turningPoints}</td>
-                  <td className="py-1.5 pr-3 text-right font-mono">{fixed(l.startSignal, 4)}</td>
-                  <td className="py-1.5 pr-3 text-right font-mono">{fixed(l.cutSignal, 4)}</td>
+                  <td className="py-1.5 pr-3 text-right font-mono whitespace-nowrap">
+                    {fixed(l.startSignal, 4)} → {fixed(l.cutSignal, 4)}
+                  </td>
                   <td className="py-1.5 pr-3 text-right font-mono">{fixed(l.swingPct, 1)}</td>
                   <td className="py-1.5 pr-3 text-right font-mono">{l.slopePerNm.toExponential(2).replace('-', '−')}</td>
                   <td className="py-1.5 pr-3 text-right font-mono whitespace-nowrap">

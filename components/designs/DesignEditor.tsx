@@ -1,7 +1,7 @@
 'use client';
 
-import { useActionState, useReducer } from 'react';
-import { FormMessage, SubmitButton } from '@/components/forms';
+import { startTransition, useActionState, useReducer } from 'react';
+import { FormMessage } from '@/components/forms';
 import type { FormAction } from '@/components/forms/types';
 import { editorReducer, fromDocument, toDocument, FROM_FILE, type EditorLayer } from './editorState';
 
@@ -54,10 +54,22 @@ function MaterialOptions({ materials, current }: { materials: MaterialChoices; c
   );
 }
 
+/** "design: layers[1].thicknessNm: …" as the table numbers it: "Layer 2, thicknessNm: …". */
+function readable(message: string): string {
+  return message.replace(/^design: /, '').replace(/^layers\[(\d+)\]\.?/, (_m, i: string) => `Layer ${Number(i) + 1}, `);
+}
+
 /** The layer table and design settings; saving stores a new revision (runs keep theirs). */
 export function DesignEditor({ designId, document, materials, save }: Props) {
   const [s, dispatch] = useReducer(editorReducer, document, fromDocument);
-  const [state, action] = useActionState(save, null);
+  const [state, action, pending] = useActionState(save, null);
+  // Submitted by hand: a <form action> would be reset by React after the action, putting every
+  // <select> back on its first option while the state still holds the chosen values.
+  const submit = (e: React.FormEvent<HTMLFormElement>) => {
+    e.preventDefault();
+    const data = new FormData(e.currentTarget);
+    startTransition(() => action(data));
+  };
   const errors = state && !state.ok ? (state.fieldErrors ?? {}) : {};
   const err = (key: string) => errors[key];
   const inv = (key: string) => (errors[key]?.length ? 'border-alarm' : 'border-paper-line');
@@ -71,7 +83,7 @@ export function DesignEditor({ designId, document, materials, save }: Props) {
   );
 
   return (
-    <form action={action} className="flex flex-col gap-6" data-testid="design-editor">
+    <form onSubmit={submit} className="flex flex-col gap-6" data-testid="design-editor">
       <input type="hidden" name="designId" value={designId} />
       <input type="hidden" name="document" value={JSON.stringify(toDocument(s))} />
 
@@ -132,7 +144,9 @@ export function DesignEditor({ designId, document, materials, save }: Props) {
               <th className="pb-2 pr-2 font-medium">#</th>
               <th className="pb-2 pr-2 font-medium">Material</th>
               <th className="pb-2 pr-2 font-medium">Thickness</th>
-              <th className="pb-2 pr-2 font-medium">Monitor nm</th>
+              <th className="pb-2 pr-2 font-medium">
+                Monitor <span className="normal-case">λ</span> nm
+              </th>
               <th className="pb-2 pr-2 font-medium">T/R</th>
               <th className="pb-2 pr-2 font-medium">Chip</th>
               <th className="pb-2 pr-2 font-medium">Cut</th>
@@ -154,7 +168,7 @@ export function DesignEditor({ designId, document, materials, save }: Props) {
                   <td className="py-1.5 pr-2">
                     <select
                       aria-label={`Material of layer ${n}`}
-                      className={`${cell} ${inv(layerKey(i, 'material'))}`}
+                      className={`${cell} max-w-36 ${inv(layerKey(i, 'material'))}`}
                       value={l.material}
                       onChange={(e) => setLayer(i, { material: e.target.value })}
                     >
@@ -244,8 +258,14 @@ export function DesignEditor({ designId, document, materials, save }: Props) {
                       <button type="button" className="rounded border border-paper-line px-2 py-1" aria-label={`Duplicate layer ${n}`} onClick={() => dispatch({ type: 'duplicate', index: i })}>
                         Copy
                       </button>
-                      <button type="button" className="rounded border border-alarm/40 px-2 py-1 text-alarm" aria-label={`Remove layer ${n}`} onClick={() => dispatch({ type: 'remove', index: i })}>
-                        Remove
+                      <button
+                        type="button"
+                        className="rounded border border-alarm/40 px-2 py-1 text-alarm"
+                        aria-label={`Remove layer ${n}`}
+                        title={`Remove layer ${n}`}
+                        onClick={() => dispatch({ type: 'remove', index: i })}
+                      >
+                        ✕
                       </button>
                     </div>
                   </td>
@@ -261,10 +281,16 @@ export function DesignEditor({ designId, document, materials, save }: Props) {
         <button type="button" className="rounded-md border border-paper-line bg-paper-raised px-4 py-2 text-sm font-medium hover:bg-paper-sunk" onClick={() => dispatch({ type: 'add' })}>
           Add a layer
         </button>
-        <SubmitButton>Save as a new revision</SubmitButton>
+        <button
+          type="submit"
+          disabled={pending}
+          className="inline-flex items-center justify-center rounded-md bg-fringe px-4 py-2 text-sm font-medium text-paper-raised transition hover:bg-fringe-dark disabled:cursor-wait disabled:opacity-60"
+        >
+          {pending ? 'Saving…' : 'Save as a new revision'}
+        </button>
         <span className="text-sm text-ink-soft">Runs already made keep the revision they were made with.</span>
       </div>
-      {state && !state.ok ? <FormMessage tone="error">{state.message}</FormMessage> : null}
+      {state && !state.ok ? <FormMessage tone="error">{readable(state.message)}</FormMessage> : null}
     </form>
   );
 }

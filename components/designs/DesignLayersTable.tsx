@@ -12,7 +12,9 @@ export function DesignLayersTable({ design }: { design: Design }) {
             <th className={th}>Layer</th>
             <th className={th}>Material</th>
             <th className={`${th} text-right`}>Thickness nm</th>
-            <th className={`${th} text-right`}>QWOT at λ ref</th>
+            <th className={`${th} text-right`}>
+              QWOT at <span className="normal-case">λ</span> ref
+            </th>
             <th className={th}>Monitor</th>
             <th className={th}>Cut</th>
             <th className={`${th} text-right`}>± % thickness</th>

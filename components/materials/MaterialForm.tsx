@@ -1,8 +1,8 @@
 'use client';
 
-import { useActionState, useMemo, useState } from 'react';
+import { startTransition, useActionState, useMemo, useState } from 'react';
 import { materialModelSchema } from '@/analysis/materials';
-import { FormMessage, SubmitButton, formError, type FormAction } from '@/components/forms';
+import { FormMessage, formError, type FormAction } from '@/components/forms';
 import { MaterialCurve } from './MaterialCurve';
 import { formFromModel, modelFromForm, type MaterialFormState, type ModelKind } from './materialFormState';
 
@@ -16,7 +16,13 @@ const input = 'rounded-md border bg-paper-raised px-3 py-2 text-sm';
 
 /** A shop material: name, where its numbers come from, and a model of shared/FORMATS.md, with its n and k drawn as typed. */
 export function MaterialForm({ action, existing }: Props) {
-  const [state, formAction] = useActionState(action, null);
+  const [state, formAction, pending] = useActionState(action, null);
+  // Submitted by hand: React resets a <form action> afterwards, which would put the model <select> back on its first option.
+  const submit = (e: React.FormEvent<HTMLFormElement>) => {
+    e.preventDefault();
+    const data = new FormData(e.currentTarget);
+    startTransition(() => formAction(data));
+  };
   const [name, setName] = useState(existing?.name ?? '');
   const [description, setDescription] = useState(existing?.description ?? '');
   const [source, setSource] = useState(existing?.source ?? '');
@@ -48,7 +54,7 @@ export function MaterialForm({ action, existing }: Props) {
   const message = formError(state);
 
   return (
-    <form action={formAction} className="flex flex-col gap-5" data-testid="material-form">
+    <form onSubmit={submit} className="flex flex-col gap-5" data-testid="material-form">
       <input type="hidden" name="name" value={existing?.name ?? name} />
       <input type="hidden" name="input" value={JSON.stringify({ name: existing?.name ?? name, description, source, model })} />
       {message ? <FormMessage tone="error">{message}</FormMessage> : null}
@@ -110,7 +116,13 @@ export function MaterialForm({ action, existing }: Props) {
         {preview.success ? <MaterialCurve model={preview.data} name={existing?.name ?? (name || 'the new material')} /> : <p className="text-sm text-ink-faint">The curve appears once the model is complete.</p>}
       </div>
       <div>
-        <SubmitButton>{existing ? 'Save changes' : 'Create material'}</SubmitButton>
+        <button
+          type="submit"
+          disabled={pending}
+          className="inline-flex items-center justify-center rounded-md bg-fringe px-4 py-2 text-sm font-medium text-paper-raised transition hover:bg-fringe-dark disabled:cursor-wait disabled:opacity-60"
+        >
+          {pending ? 'Working…' : existing ? 'Save changes' : 'Create material'}
+        </button>
       </div>
     </form>
   );
