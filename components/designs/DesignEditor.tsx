@@ -3,56 +3,12 @@
 import { startTransition, useActionState, useReducer } from 'react';
 import { FormMessage } from '@/components/forms';
 import type { FormAction } from '@/components/forms/types';
+import { cell, FieldError, MaterialOptions, NumberCell, type MaterialChoices } from './editorCells';
 import { editorReducer, fromDocument, toDocument, FROM_FILE, type EditorLayer } from './editorState';
 
-export type MaterialChoices = { design: string[]; shop: string[]; builtIn: string[] };
+export type { MaterialChoices };
 
 type Props = { designId: number; document: unknown; materials: MaterialChoices; save: FormAction<undefined> };
-
-const cell = 'rounded border bg-paper-raised px-2 py-1 text-sm';
-
-function FieldError({ errors, id }: { errors?: string[]; id: string }) {
-  if (!errors?.length) return null;
-  return (
-    <span id={id} role="alert" className="mt-0.5 block text-xs text-alarm" data-field-error>
-      {errors.join(' ')}
-    </span>
-  );
-}
-
-function MaterialOptions({ materials, current }: { materials: MaterialChoices; current: string }) {
-  const known = new Set([...materials.design, ...materials.shop, ...materials.builtIn]);
-  return (
-    <>
-      {current && !known.has(current) ? <option value={current}>{current} (unknown)</option> : null}
-      {materials.design.length ? (
-        <optgroup label="In this design">
-          {materials.design.map((m) => (
-            <option key={`d-${m}`} value={m}>
-              {m}
-            </option>
-          ))}
-        </optgroup>
-      ) : null}
-      {materials.shop.length ? (
-        <optgroup label="Shop materials">
-          {materials.shop.filter((m) => !materials.design.includes(m)).map((m) => (
-            <option key={`s-${m}`} value={m}>
-              {m}
-            </option>
-          ))}
-        </optgroup>
-      ) : null}
-      <optgroup label="Built-in library">
-        {materials.builtIn.map((m) => (
-          <option key={`b-${m}`} value={m}>
-            {m}
-          </option>
-        ))}
-      </optgroup>
-    </>
-  );
-}
 
 /** "design: layers[1].thicknessNm: …" as the table numbers it: "Layer 2, thicknessNm: …". */
 function readable(message: string): string {
@@ -190,32 +146,14 @@ export function DesignEditor({ designId, document, materials, save }: Props) {
                     </select>
                     <FieldError errors={err(thicknessKey)} id={`err-${n}-thickness`} />
                   </td>
-                  <td className="py-1.5 pr-2">
-                    <input
-                      aria-label={`Monitor wavelength of layer ${n}`}
-                      className={`${cell} w-20 ${inv(layerKey(i, 'monitor.wavelengthNm'))}`}
-                      inputMode="decimal"
-                      value={l.wavelengthNm}
-                      onChange={(e) => setLayer(i, { wavelengthNm: e.target.value })}
-                    />
-                    <FieldError errors={err(layerKey(i, 'monitor.wavelengthNm'))} id={`err-${n}-wl`} />
-                  </td>
+                  <NumberCell label={`Monitor wavelength of layer ${n}`} value={l.wavelengthNm} onChange={(v) => setLayer(i, { wavelengthNm: v })} errors={err(layerKey(i, 'monitor.wavelengthNm'))} />
                   <td className="py-1.5 pr-2">
                     <select aria-label={`Monitor mode of layer ${n}`} className={`${cell} border-paper-line`} value={l.mode} onChange={(e) => setLayer(i, { mode: e.target.value as 'T' | 'R' })}>
                       <option value="T">T</option>
                       <option value="R">R</option>
                     </select>
                   </td>
-                  <td className="py-1.5 pr-2">
-                    <input
-                      aria-label={`Witness chip of layer ${n}`}
-                      className={`${cell} w-14 ${inv(layerKey(i, 'monitor.chip'))}`}
-                      inputMode="numeric"
-                      value={l.chip}
-                      onChange={(e) => setLayer(i, { chip: e.target.value })}
-                    />
-                    <FieldError errors={err(layerKey(i, 'monitor.chip'))} id={`err-${n}-chip`} />
-                  </td>
+                  <NumberCell label={`Witness chip of layer ${n}`} value={l.chip} onChange={(v) => setLayer(i, { chip: v })} errors={err(layerKey(i, 'monitor.chip'))} widthClass="w-14" />
                   <td className="py-1.5 pr-2">
                     <select aria-label={`Cut of layer ${n}`} className={`${cell} border-paper-line`} value={l.cut} onChange={(e) => setLayer(i, { cut: e.target.value as EditorLayer['cut'] })}>
                       <option value="turning-point">turning point</option>
@@ -229,17 +167,7 @@ export function DesignEditor({ designId, document, materials, save }: Props) {
                       ['tolCutErrorQwotPct', 'tolerance.cutErrorQwotPct', 'cut error tolerance % QWOT'],
                     ] as const
                   ).map(([field, key, label]) => (
-                    <td key={field} className="py-1.5 pr-2">
-                      <input
-                        aria-label={`${label} of layer ${n}`}
-                        placeholder="design"
-                        className={`${cell} w-16 ${inv(layerKey(i, key))}`}
-                        inputMode="decimal"
-                        value={l[field]}
-                        onChange={(e) => setLayer(i, { [field]: e.target.value })}
-                      />
-                      <FieldError errors={err(layerKey(i, key))} id={`err-${n}-${field}`} />
-                    </td>
+                    <NumberCell key={field} label={`${label} of layer ${n}`} placeholder="design" widthClass="w-16" value={l[field]} onChange={(v) => setLayer(i, { [field]: v })} errors={err(layerKey(i, key))} />
                   ))}
                   <td className="py-1.5 whitespace-nowrap">
                     <div className="flex gap-1">

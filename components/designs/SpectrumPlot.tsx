@@ -22,8 +22,8 @@ function input(v: string, fallback: number): number {
  */
 export function SpectrumPlot({ sources, referenceWavelengthNm }: { sources: SpectrumSource[]; referenceWavelengthNm: number }) {
   const [s, setS] = useState<Settings>({
-    fromNm: String(Math.round(0.7 * referenceWavelengthNm)),
-    toNm: String(Math.round(1.45 * referenceWavelengthNm)),
+    fromNm: String(Math.round((0.7 * referenceWavelengthNm) / 10) * 10),
+    toNm: String(Math.round((1.45 * referenceWavelengthNm) / 10) * 10),
     angleDeg: '0',
     pol: 'mean',
     backside: 'design',

@@ -28,26 +28,26 @@ export default async function DesignsPage() {
                     <th className="pb-2 pr-4 font-medium">Design</th>
                     <th className="pb-2 pr-4 text-right font-medium">Revision</th>
                     <th className="pb-2 pr-4 text-right font-medium">Layers</th>
-                    <th className="pb-2 pr-4 text-right font-medium">
+                    <th className="hidden pb-2 pr-4 text-right font-medium sm:table-cell">
                       <span className="normal-case">λ</span> ref nm
                     </th>
                     <th className="pb-2 pr-4 text-right font-medium">Runs</th>
-                    <th className="pb-2 font-medium">Last saved</th>
+                    <th className="hidden pb-2 font-medium sm:table-cell">Last saved</th>
                   </tr>
                 </thead>
                 <tbody className="divide-y divide-paper-line">
                   {designs.map((d) => (
                     <tr key={d.id} data-design={d.name}>
-                      <td className="py-2 pr-4">
+                      <td className="min-w-40 py-2 pr-4">
                         <Link className="text-fringe underline-offset-2 hover:underline" href={`/designs/${d.id}`}>
                           {d.name}
                         </Link>
                       </td>
                       <td className="py-2 pr-4 text-right font-mono">{d.revision}</td>
                       <td className="py-2 pr-4 text-right font-mono">{d.layerCount}</td>
-                      <td className="py-2 pr-4 text-right font-mono">{d.referenceWavelengthNm}</td>
+                      <td className="hidden py-2 pr-4 text-right font-mono sm:table-cell">{d.referenceWavelengthNm}</td>
                       <td className="py-2 pr-4 text-right font-mono">{d.runs}</td>
-                      <td className="py-2 font-mono text-xs whitespace-nowrap text-ink-soft">{formatDate(d.updatedAt)}</td>
+                      <td className="hidden py-2 font-mono text-xs whitespace-nowrap text-ink-soft sm:table-cell">{formatDate(d.updatedAt)}</td>
                     </tr>
                   ))}
                 </tbody>

@@ -33,7 +33,7 @@ export default async function CompareRevisionsPage({ params, searchParams }: Pro
   const changed = rows.filter((r) => r.kind !== 'same').length;
   return (
     <>
-      <PageHeader title={`${first.design.name}: revision ${ra} against ${rb}`} lead={changed ? `${changed} layer${changed === 1 ? '' : 's'} differ.` : 'The layer tables are the same.'}>
+      <PageHeader title={`${first.design.name}: revision ${ra} against ${rb}`} lead={changed ? `${changed} layer${changed === 1 ? ' differs' : 's differ'}.` : 'The layer tables are the same.'}>
         <Link className="rounded-md border border-paper-line bg-paper-raised px-3 py-1.5 text-sm font-medium hover:bg-paper-sunk" href={`/designs/${first.design.id}?revision=${rb}`}>
           Back to revision {rb}
         </Link>
