@@ -58,7 +58,7 @@ export function CutPlanTable({ plan }: { plan: PlanLayer[] }) {
                     {fixed(l.startSignal, 4)} → {fixed(l.cutSignal, 4)}
                   </td>
                   <td className="py-1.5 pr-3 text-right font-mono">{fixed(l.swingPct, 1)}</td>
-                  <td className="py-1.5 pr-3 text-right font-mono">{l.slopePerNm.toExponential(2).replace('-', '−')}</td>
+                  <td className="py-1.5 pr-3 text-right font-mono">{l.slopePerNm.toExponential(2).replace(/-/g, '−')}</td>
                   <td className="py-1.5 pr-3 text-right font-mono whitespace-nowrap">
                     {shift === null ? (
                       <span className="text-ink-faint">at the extremum</span>

@@ -42,7 +42,7 @@ export function MaterialCurve({ model, name }: { model: MaterialModel; name: str
     () => ({
       // k is often 0 throughout: a fixed floor keeps the axis from inventing a 0–100 range.
       scales: { x: { time: false }, k: { range: (_u, _min, max) => [0, Math.max((max ?? 0) * 1.2, 0.001)] } },
-      axes: [axis('Wavelength (nm)'), axis('n'), axis('k', { side: 1, scale: 'k', grid: { show: false } })],
+      axes: [axis('Wavelength (nm)'), axis('n'), axis('k', { side: 1, scale: 'k', grid: { show: false }, values: (_u: uPlot, ticks: number[]) => ticks.map((t) => (t === 0 ? '0' : Math.abs(t) < 0.01 ? t.toExponential(0) : t.toFixed(2))) })],
       series: [
         { label: 'λ (nm)', value: (_u, v) => (v == null ? '–' : v.toFixed(0)) },
         { label: 'n', stroke: plotPalette.model, width: 2, value: (_u, v) => (v == null ? '–' : v.toFixed(4)) },
