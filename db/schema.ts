@@ -334,3 +334,22 @@ export const runComments = pgTable(
   (t) => [index('run_comments_run_idx').on(t.runId), index('run_comments_author_idx').on(t.authorId)],
 );
 export type RunComment = typeof runComments.$inferSelect;
+/** The shop's own materials (designs name them; a saved design revision carries a copy of the model). */
+export const materials = pgTable(
+  'materials',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    name: text('name').notNull().unique(),
+    /** A material model of shared/FORMATS.md (analysis/materials materialModelSchema). */
+    model: jsonb('model').$type<unknown>().notNull(),
+    description: text('description').notNull().default(''),
+    /** Where the numbers come from (a fit of the shop's runs, a supplier sheet, a paper). */
+    source: text('source').notNull().default(''),
+    createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+    updatedBy: integer('updated_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index('materials_created_by_idx').on(t.createdBy), index('materials_updated_by_idx').on(t.updatedBy)],
+);
+export type MaterialRow = typeof materials.$inferSelect;

@@ -8,3 +8,6 @@ export * from './designSpectrum';
 export * from './monitorCurve';
 export * from './modelTurningPoints';
 export * from './cutPlan';
+export * from './singleLayerRule';
+export * from './layerDiff';
+export * from './embedMaterials';

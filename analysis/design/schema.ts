@@ -56,6 +56,8 @@ export const designFileSchema = z
     substrate: z.unknown().refine((v) => v !== undefined, 'is required'),
     substrateBackside: z.boolean().optional(),
     materials: z.record(z.string(), z.unknown()).optional(),
+    /** Which shop material (by name) each embedded entry of `materials` was copied from, for the record. */
+    materialOrigins: z.record(z.string(), z.string()).optional(),
     tolerance: toleranceSchema.optional(),
     layers: z.array(designLayerSchema),
   })

@@ -2,3 +2,4 @@ export * from './schema';
 export * from './indexAt';
 export * from './library';
 export * from './resolveMaterial';
+export * from './adoptIndex';

@@ -23,6 +23,10 @@ export type Capabilities = {
   writeRunNotes: boolean;
   /** Decide a run's disposition, with a reason. */
   setRunDisposition: boolean;
+  /** Read designs, their revisions, spectra and cut plans, and the materials. */
+  viewDesigns: boolean;
+  /** Save design revisions, import designs, create and change shop materials. */
+  editDesigns: boolean;
 };
 export type Capability = keyof Capabilities;
 
@@ -40,6 +44,8 @@ const holders: Record<Capability, readonly Role[]> = {
   receiveToleranceAlerts: ['engineer', 'supervisor'],
   writeRunNotes: ['operator', 'engineer', 'supervisor'],
   setRunDisposition: ['engineer', 'supervisor'],
+  viewDesigns: everyone,
+  editDesigns: ['engineer', 'admin'],
 };
 
 function grantsOf(role: Role): Capabilities {

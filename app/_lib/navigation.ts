@@ -6,6 +6,8 @@ type Entry = { href: string; label: string; needs?: Capability };
 const entries: Entry[] = [
   { href: '/', label: 'Overview' },
   { href: '/runs', label: 'Runs', needs: 'viewRuns' },
+  { href: '/designs', label: 'Designs', needs: 'viewDesigns' },
+  { href: '/materials', label: 'Materials', needs: 'viewDesigns' },
   { href: '/compare', label: 'Compare', needs: 'compareRuns' },
   { href: '/audit', label: 'Audit log', needs: 'viewAuditLog' },
   { href: '/admin/users', label: 'Users', needs: 'manageUsers' },

@@ -10,3 +10,4 @@ export * from './designs';
 export * from './runs';
 export * from './series';
 export * from './review';
+export * from './materials';

@@ -156,7 +156,7 @@ export async function findRun(runId: number) {
   const [row] = await db()
     .select({
       run: runs,
-      design: { name: designRevisions.name, revision: designRevisions.revision, referenceWavelengthNm: designRevisions.referenceWavelengthNm, layerCount: designRevisions.layerCount },
+      design: { designId: designRevisions.designId, name: designRevisions.name, revision: designRevisions.revision, referenceWavelengthNm: designRevisions.referenceWavelengthNm, layerCount: designRevisions.layerCount },
       chamber: { name: chambers.name, process: chambers.process },
       operatorUserName: users.name,
       trace: { fileName: traceFiles.fileName, byteSize: traceFiles.byteSize, rowCount: traceFiles.rowCount, sha256: traceFiles.sha256, columns: traceFiles.columns },

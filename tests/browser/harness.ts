@@ -50,6 +50,26 @@ export function takeCspViolations(page: Page): string[] {
   return seen.splice(0, seen.length);
 }
 
+/** The password the reset-password test gives the demo engineer (specs that run after it sign in with it). */
+export const engineerPasswordAfterReset = 'idris-new-pass-77';
+
+/** Signs the demo engineer in, with the demo password or, once the reset test has run, the one it set. */
+export async function signInEngineer(page: Page): Promise<void> {
+  const u = demoUsers.find((d) => d.role === 'engineer');
+  assert(u, 'no demo engineer');
+  const signIn = new SignInPage(page, baseUrl);
+  for (const password of [u.password, engineerPasswordAfterReset]) {
+    await signIn.open();
+    await signIn.signIn(u.email, password);
+    const outcome = await Promise.race([
+      page.waitForURL(`${baseUrl}/`).then(() => 'in' as const, () => 'timeout' as const),
+      signIn.fieldError('password').waitFor().then(() => 'wrong' as const, () => 'timeout' as const),
+    ]);
+    if (outcome === 'in') return;
+  }
+  throw new Error('the demo engineer could not sign in with either known password');
+}
+
 export type Test = { name: string; run(page: Page, context: BrowserContext): Promise<void> };
 export const tests: Test[] = [];
 export const test = (name: string, run: Test['run']) => tests.push({ name, run });

@@ -146,3 +146,56 @@ export class ComparePage {
     return this.page.getByTestId('rule-signals');
   }
 }
+
+export class DesignsList {
+  constructor(private page: Page) {}
+
+  async open(nameContains: string): Promise<void> {
+    await this.page.locator(`tr[data-design*="${nameContains}"]`).getByRole('link').click();
+  }
+
+  async importFile(fileName: string, contents: string): Promise<void> {
+    await this.page.getByLabel('Design file (fringelog.design/1, .json)').setInputFiles({ name: fileName, mimeType: 'application/json', buffer: Buffer.from(contents) });
+    await this.page.getByRole('button', { name: 'Import' }).click();
+  }
+
+  importError() {
+    return this.page.locator('[data-field-error="file"]');
+  }
+}
+
+export class DesignView {
+  constructor(private page: Page) {}
+
+  planRows() {
+    return this.page.getByTestId('cut-plan').locator('tbody tr');
+  }
+
+  revisions() {
+    return this.page.getByTestId('revisions').locator('li');
+  }
+
+  async revisionNumbers(): Promise<number[]> {
+    return this.page.locator('[data-revision]').evaluateAll((els) => els.map((e) => Number(e.getAttribute('data-revision'))));
+  }
+
+  exportHref() {
+    return this.page.getByRole('link', { name: 'Export JSON' }).getAttribute('href');
+  }
+}
+
+export class DesignEditorPage {
+  constructor(private page: Page) {}
+
+  thickness(layer: number) {
+    return this.page.getByLabel(`Thickness of layer ${layer}`, { exact: true });
+  }
+
+  async save(): Promise<void> {
+    await this.page.getByRole('button', { name: 'Save as a new revision' }).click();
+  }
+
+  fieldErrors() {
+    return this.page.getByTestId('design-editor').locator('[data-field-error]');
+  }
+}

@@ -18,6 +18,8 @@ const capabilityText: Record<Capability, { text: string; href?: string }> = {
   receiveToleranceAlerts: { text: 'Get e-mail when a layer is out of tolerance (choose on your account page)', href: '/account' },
   writeRunNotes: { text: 'Pin notes to a moment or a layer of a run, and join its discussion' },
   setRunDisposition: { text: 'Decide whether a run is good to ship, held for review or not to ship, with the reason' },
+  viewDesigns: { text: 'Read the designs, their spectra, cut plans and monitor curves, and the materials', href: '/designs' },
+  editDesigns: { text: 'Edit and import designs (each save a new revision) and the shop materials', href: '/materials' },
 };
 
 export default async function HomePage() {

@@ -27,6 +27,9 @@ const verbs: Record<string, string> = {
   'run.comment_added': 'commented on run',
   'run.comment_edited': 'edited their comment on run',
   'run.comment_deleted': 'deleted their comment on run',
+  'material.created': 'created the material',
+  'material.updated': 'changed the material',
+  'material.index_adopted': 'adopted the runs\' fitted index for the material',
 };
 
 /** Phrases for what people do to their own account. */
@@ -48,7 +51,9 @@ function details(e: AuditRow): string {
   const d = e.detail;
   if (e.action === 'user.role_changed') return `${role(d.from)} → ${role(d.to)}`;
   if (e.action === 'user.invited') return `as ${role(d.role)}, ${String(d.email)}`;
-  if (e.action === 'design.revision_created') return `revision ${String(d.revision)}`;
+  if (e.action === 'design.revision_created') return `revision ${String(d.revision)}${typeof d.via === 'string' && d.via !== 'uploaded' ? `, ${d.via}` : ''}`;
+  if (e.action === 'material.index_adopted') return `n = ${String(d.index)} at ${String(d.wavelengthNm)} nm (was ${String(d.previousIndex)})`;
+  if (e.action === 'material.created' || e.action === 'material.updated') return typeof d.after === 'object' || typeof d.model === 'object' ? 'model stored with the event' : '';
   if (e.action === 'run.uploaded' && typeof d.bytes === 'number') return `${String(d.file)}, ${formatBytes(d.bytes)}`;
   if (e.action === 'run.disposition_set') return `${dispositionWord(d.disposition)}: ${String(d.reason)}${d.was ? ` (was ${dispositionWord(d.was)})` : ''}`;
   if (/^run\.(annotation|comment)_/.test(e.action)) return [d.was !== undefined ? `was “${String(d.was)}”` : null, d.now !== undefined || d.body !== undefined ? `“${String(d.now ?? d.body)}”` : null].filter(Boolean).join(' → ');
@@ -62,6 +67,7 @@ function targetLabel(e: AuditRow): string {
   if (e.targetType === 'user' && e.targetName) return e.targetName;
   if (e.targetType === 'design' && typeof e.detail.name === 'string') return e.detail.name;
   if (e.targetType === 'run' && typeof e.detail.runCode === 'string') return e.detail.runCode;
+  if (e.targetType === 'material' && typeof e.detail.name === 'string') return e.detail.name;
   return `${e.targetType}${e.targetId ? ` #${e.targetId}` : ''}`;
 }
 

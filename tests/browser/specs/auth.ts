@@ -1,12 +1,12 @@
-import { baseUrl, assert, assertEqual, shot, signInAs, test } from '../harness';
+import { baseUrl, assert, assertEqual, engineerPasswordAfterReset, shot, signInAs, test } from '../harness';
 import { demoUsers } from '../../../db/seed/demoData';
 import { Shell, SignInPage } from '../pages';
 
 const expectedNav: Record<string, string[]> = {
-  operator: ['Overview', 'Runs', 'Compare', 'Account'],
-  engineer: ['Overview', 'Runs', 'Compare', 'Account'],
-  supervisor: ['Overview', 'Runs', 'Compare', 'Audit log', 'Account'],
-  admin: ['Overview', 'Runs', 'Compare', 'Audit log', 'Users', 'Mail', 'Account'],
+  operator: ['Overview', 'Runs', 'Designs', 'Materials', 'Compare', 'Account'],
+  engineer: ['Overview', 'Runs', 'Designs', 'Materials', 'Compare', 'Account'],
+  supervisor: ['Overview', 'Runs', 'Designs', 'Materials', 'Compare', 'Audit log', 'Account'],
+  admin: ['Overview', 'Runs', 'Designs', 'Materials', 'Compare', 'Audit log', 'Users', 'Mail', 'Account'],
 };
 
 test('a signed-out visitor is sent to sign-in with a 307', async () => {
@@ -144,7 +144,7 @@ test('forgot password: the reset link from the mail sets a new password, and the
   await new Shell(page).signOut();
   await context.clearCookies();
 
-  const fresh = 'idris-new-pass-77';
+  const fresh = engineerPasswordAfterReset;
   await page.goto(link);
   await page.getByRole('heading', { name: 'Choose a new password' }).waitFor();
   await page.getByLabel('New password', { exact: true }).fill(fresh);

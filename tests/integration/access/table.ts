@@ -25,6 +25,24 @@ import { GET as compareCsv } from '@/app/api/compare/csv/route';
 import { changeRole, inviteUser, resendInvite, setActive } from '@/app/(app)/admin/users/actions';
 import { addAnnotation, addComment, changeOwnNote, decideRun } from '@/app/(app)/runs/[runId]/actions';
 import { GET as runSeries } from '@/app/api/runs/[id]/series/route';
+import { listDesigns } from '@/db/queries/designs';
+import { createShopMaterial, findShopMaterial } from '@/db/queries/materials';
+import { GET as listDesignsRoute, POST as importDesignRoute } from '@/app/api/designs/route';
+import { GET as readDesignRoute } from '@/app/api/designs/[designId]/route';
+import { POST as newRevisionRoute } from '@/app/api/designs/[designId]/revisions/route';
+import { GET as exportDesignRoute } from '@/app/api/designs/[designId]/export/route';
+import { GET as listMaterialsRoute, POST as createMaterialRoute } from '@/app/api/materials/route';
+import { GET as readMaterialRoute, PUT as changeMaterialRoute } from '@/app/api/materials/[name]/route';
+import DesignsPage from '@/app/(app)/designs/page';
+import DesignPage from '@/app/(app)/designs/[designId]/page';
+import EditDesignPage from '@/app/(app)/designs/[designId]/edit/page';
+import CompareRevisionsPage from '@/app/(app)/designs/[designId]/compare/page';
+import MaterialsPage from '@/app/(app)/materials/page';
+import MaterialPage from '@/app/(app)/materials/[name]/page';
+import NewMaterialPage from '@/app/(app)/materials/new/page';
+import EditMaterialPage from '@/app/(app)/materials/[name]/edit/page';
+import { importDesign, saveDesign } from '@/app/(app)/designs/actions';
+import { adoptIndex, createMaterial, updateMaterial } from '@/app/(app)/materials/actions';
 import { form, uniqueEmail } from '../helpers';
 
 /** Who asks. Chamber tokens join here (and get a column in every row) once they exist. */
@@ -66,6 +84,30 @@ async function aRunId(): Promise<string> {
 /** Note actions on a run that does not exist: past the access check they answer not_found (a `yes`). */
 const NO_RUN = 2147483647;
 
+async function aDesign() {
+  const [d] = await listDesigns();
+  if (!d) throw new Error('the test database has no design (seed:sample-runs)');
+  return { params: Promise.resolve({ designId: String(d.id) }), searchParams: Promise.resolve({}) };
+}
+/** A shop material for the rows that need one (built-ins have no edit page). */
+const SHOP_MATERIAL = 'LK-access-table-film';
+async function aShopMaterial() {
+  if (!(await findShopMaterial(SHOP_MATERIAL))) {
+    await createShopMaterial({ name: SHOP_MATERIAL, model: { model: 'constant', n: 1.46, k: 0 }, description: 'for the access table', source: 'invented for a test' }, null as unknown as number);
+  }
+  return { params: Promise.resolve({ name: SHOP_MATERIAL }) };
+}
+const jsonRequest = (url: string, method: string, body: unknown) =>
+  new Request(`http://localhost${url}`, { method, body: JSON.stringify(body), headers: { 'content-type': 'application/json' } });
+/** A well-formed design file whose layer names no material: past the access check it is refused at its key. */
+const faultyDesign = { format: 'fringelog.design/1', name: 'access table', referenceWavelengthNm: 550, substrate: 'crown-glass-1.52', layers: [{ material: 'no-such-film', qwot: 1, monitor: { wavelengthNm: 550, mode: 'T', chip: 1, cut: 'turning-point' } }] };
+const designFileForm = () => {
+  const f = new FormData();
+  f.set('file', new File([JSON.stringify(faultyDesign)], 'access.json', { type: 'application/json' }));
+  return f;
+};
+const editors = only('engineer', 'admin');
+
 export const accessTable: Row[] = [
   page('/', () => HomePage(), signedIn),
   page('/account', () => AccountPage(), signedIn),
@@ -80,6 +122,23 @@ export const accessTable: Row[] = [
   page('/compare', () => ComparePage(noSearch), signedIn),
   route('GET /api/compare/csv', () => compareCsv(new Request('http://localhost/api/compare/csv?table=layers')), signedIn),
   route('GET /api/runs/[id]/series', async () => runSeries(new Request('http://localhost/api/runs/x/series'), { params: Promise.resolve({ id: await aRunId() }) }), signedIn),
+  page('/designs', () => DesignsPage(), signedIn),
+  page('/designs/[designId]', async () => DesignPage(await aDesign()), signedIn),
+  page('/designs/[designId]/compare', async () => CompareRevisionsPage({ ...(await aDesign()), searchParams: Promise.resolve({ a: '1', b: '1' }) }), signedIn),
+  page('/designs/[designId]/edit', async () => EditDesignPage(await aDesign()), editors),
+  page('/materials', () => MaterialsPage(), signedIn),
+  page('/materials/[name]', () => MaterialPage({ params: Promise.resolve({ name: 'SiO2' }) }), signedIn),
+  page('/materials/new', () => NewMaterialPage(), editors),
+  page('/materials/[name]/edit', async () => EditMaterialPage(await aShopMaterial()), editors),
+  route('GET /api/designs', () => listDesignsRoute(), signedIn),
+  route('POST /api/designs', () => importDesignRoute(jsonRequest('/api/designs', 'POST', faultyDesign)), editors),
+  route('GET /api/designs/[designId]', async () => readDesignRoute(new Request('http://localhost/api/designs/x'), { params: (await aDesign()).params }), signedIn),
+  route('POST /api/designs/[designId]/revisions', async () => newRevisionRoute(jsonRequest('/api/designs/x/revisions', 'POST', faultyDesign), { params: (await aDesign()).params }), editors),
+  route('GET /api/designs/[designId]/export', async () => exportDesignRoute(new Request('http://localhost/api/designs/x/export?revision=1'), { params: (await aDesign()).params }), signedIn),
+  route('GET /api/materials', () => listMaterialsRoute(), signedIn),
+  route('POST /api/materials', () => createMaterialRoute(jsonRequest('/api/materials', 'POST', { name: 'SiO2', model: { model: 'constant', n: 1.46 } })), editors),
+  route('GET /api/materials/[name]', () => readMaterialRoute(new Request('http://localhost/api/materials/SiO2'), { params: Promise.resolve({ name: 'SiO2' }) }), signedIn),
+  route('PUT /api/materials/[name]', () => changeMaterialRoute(jsonRequest('/api/materials/x', 'PUT', { name: 'LK-no-such-film', model: { model: 'constant', n: 1.46 } }), { params: Promise.resolve({ name: 'LK-no-such-film' }) }), editors),
   route('GET /api/health', () => health(), cells((p) => (p === 'admin' ? 'details' : 'up'))),
   action('(auth)/sign-in#signIn', () => signIn(null, form({ email: uniqueEmail('table'), password: 'wrong-password-1' })), everyone),
   action('(auth)/reset-password#requestPasswordReset', () => requestPasswordReset(null, form({ email: uniqueEmail('table') })), everyone),
@@ -91,6 +150,11 @@ export const accessTable: Row[] = [
   action('(app)/runs/[runId]#addComment', () => addComment(null, form({ runId: NO_RUN, body: 'table row' })), only('operator', 'engineer', 'supervisor')),
   action('(app)/runs/[runId]#changeOwnNote', () => changeOwnNote(null, form({ runId: NO_RUN, noteId: NO_RUN, kind: 'comment', body: 'x' })), only('operator', 'engineer', 'supervisor')),
   action('(app)/runs/[runId]#decideRun', () => decideRun(null, form({ runId: NO_RUN, disposition: 'on_hold', reason: 'table row' })), only('engineer', 'supervisor')),
+  action('(app)/designs#saveDesign', () => saveDesign(null, form({ designId: NO_RUN, document: JSON.stringify(faultyDesign) })), editors),
+  action('(app)/designs#importDesign', () => importDesign(null, designFileForm()), editors),
+  action('(app)/materials#createMaterial', () => createMaterial(null, form({ input: JSON.stringify({ name: 'SiO2', model: { model: 'constant', n: 1.46 } }) })), editors),
+  action('(app)/materials#updateMaterial', () => updateMaterial(null, form({ name: 'LK-no-such-film', input: JSON.stringify({ name: 'LK-no-such-film', model: { model: 'constant', n: 1.46 } }) })), editors),
+  action('(app)/materials#adoptIndex', () => adoptIndex(null, form({ name: 'LK-no-such-film', wavelengthNm: 550 })), editors),
   action('(app)/admin/users#inviteUser', () => inviteUser(null, form({ email: uniqueEmail('table'), name: 'Table Row', role: 'operator' })), only('admin')),
   action('(app)/admin/users#resendInvite', () => resendInvite(null, form({ userId: NO_USER })), only('admin')),
   action('(app)/admin/users#changeRole', () => changeRole(null, form({ userId: NO_USER, role: 'operator' })), only('admin')),

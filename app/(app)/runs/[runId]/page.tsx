@@ -93,7 +93,11 @@ export default async function RunPage({ params, searchParams }: { params: Promis
           <Fact label="Operator">{found.operatorUserName ?? run.operatorName ?? '–'}</Fact>
           <Fact label="Shift">{run.shift ?? '–'}</Fact>
           <Fact label="Date">{formatDate(run.startedAt)}</Fact>
-          <Fact label="Design">{design.name} <span className="text-ink-faint">rev. {design.revision}</span></Fact>
+          <Fact label="Design">
+            <Link className="text-fringe underline-offset-2 hover:underline" href={`/designs/${design.designId}?revision=${design.revision}`} data-testid="run-design-link">
+              {design.name} <span className="text-ink-faint">rev. {design.revision}</span>
+            </Link>
+          </Fact>
           <Fact label="Materials">{Object.keys(names).length ? Object.keys(names).map(labelOf).join(', ') : '–'}</Fact>
           <Fact label="Trace file">
             <span className="font-mono text-xs break-all">{trace?.fileName ?? '–'}</span>
