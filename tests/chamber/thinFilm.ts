@@ -102,3 +102,9 @@ export function response(forward: Mat, reverse: Mat | null, media: Media): { R: 
   const den = 1 - Rs * Rb;
   return { R: Rf + (Tf * Tf * Rb) / den, T: (Tf * (1 - Rb)) / den };
 }
+
+/** R and T of layers (deposition order) on a substrate, light from the ambient: for tests elsewhere that want an independent evaluation. */
+export function stackRT(layers: readonly FilmLayer[], wavelengthNm: number, media: Media): { R: number; T: number } {
+  const m = stackMatrices(layers, wavelengthNm);
+  return response(m.forward, m.reverse, media);
+}
