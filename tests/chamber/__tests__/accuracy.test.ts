@@ -13,8 +13,11 @@ describe('analysis accuracy on the chamber simulator', () => {
     it(`${scenario.name}: ${MODES.map((m) => `${m} ${scenario.modes[m].status}`).join(', ')}`, { timeout: 600_000 }, async () => {
       const errors: Record<Mode, LayerError[]> = { sequential: [], refit: [] };
       for (const seed of scenario.seeds) {
-        const { run, results } = await runScenario(scenario, seed, MODES);
-        for (const mode of MODES) errors[mode].push(...layerErrors(seed, results[mode]!, run.truth.layers));
+        const { run, results, failures } = await runScenario(scenario, seed, MODES);
+        for (const mode of MODES) {
+          if (failures[mode]) console.log(`${scenario.name}, seed ${seed}, ${mode}: the analysis failed: ${failures[mode]}`);
+          errors[mode].push(...layerErrors(seed, results[mode], run.truth.layers));
+        }
       }
       const failures: string[] = [];
       for (const mode of MODES) {

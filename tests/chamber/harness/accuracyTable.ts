@@ -17,9 +17,9 @@ export interface LayerError {
   zCut: number | null;
 }
 
-export function layerErrors(seed: number, result: AnalysisResult, truth: LayerTruth[]): LayerError[] {
+export function layerErrors(seed: number, result: AnalysisResult | undefined, truth: LayerTruth[]): LayerError[] {
   return truth.map((t) => {
-    const l = result.layers.find((x) => x.layer === t.layer);
+    const l = result?.layers.find((x) => x.layer === t.layer);
     if (!l) return { seed, layer: t.layer, qwot: t.qwotAtMonitor, thicknessPct: null, opticalPct: null, index: null, cutQwotPct: null, zThickness: null, zIndex: null, zCut: null };
     const z = (err: number, sigma: number) => (sigma > 0 && Number.isFinite(sigma) ? Math.abs(err) / sigma : null);
     const cutErr = l.cutErrorQwotPct - t.cutErrorQwotPct;
