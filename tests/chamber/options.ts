@@ -37,6 +37,10 @@ export interface ChamberOptions {
   rateScatter?: number;
   /** Rate ramp as the shutter opens: r·(1 − e^(−t/τ)), τ in s. @default 0 (instant) */
   rampS?: number;
+  /** Linear rate change over each layer, as a fraction of its rate over the layer's nominal duration. @default 0 */
+  rateDriftFraction?: number;
+  /** Rate jumps: ×factor for durationS, from atFraction of the layer's nominal duration. @default [] */
+  rateSpikes?: { layer: number; atFraction: number; durationS: number; factor: number }[];
   /** Rate wandering within a layer (OU, σ as a fraction of the rate, correlation time). @default none */
   rateWander?: { fraction: number; correlationS: number };
 

@@ -12,7 +12,7 @@ const SLAB_NM = 2;
 function resolve(o: ChamberOptions) {
   return {
     seed: 1, sampleIntervalS: 0.1, meta: {}, gain: 1, lampDriftPerHour: 0, darkOffset: 0, strayFraction: 0, darkS: 0, whiteNoise: 0.0005,
-    jitterFraction: 0, rateNmPerS: {}, defaultRateNmPerS: 0.3, rateScatter: 0.02, rampS: 0, indexOffset: {}, indexDriftPerHour: {},
+    jitterFraction: 0, rateNmPerS: {}, defaultRateNmPerS: 0.3, rateScatter: 0.02, rampS: 0, rateDriftFraction: 0, rateSpikes: [], indexOffset: {}, indexDriftPerHour: {},
     indexWithinLayer: {}, indexScatter: 0, turningPointOvershoot: { meanPct: 0, sigmaPct: 0 }, levelLatencyS: [0, 0] as [number, number],
     overshoot: {}, shutterCloseS: [0, 0] as [number, number], bareChipS: 20, settleS: 3, ...o,
     columns: { layer: o.columns?.layer ?? true, chip: o.columns?.chip ?? true },
@@ -135,6 +135,8 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
       return mode === 'R' ? r.R : r.T;
     };
     const crystal = (x: number) => (o.tooling ? x / (o.tooling[material] ?? 1) : 0);
+    const nominalS = dDesign / rate;
+    const spikes = o.rateSpikes.filter((q) => q.layer === layerNo);
     const maxSamples = Math.ceil((5 * dDesign) / rate / dt) + 100;
     const firstLogged = out.length;
     for (let i = 0; i < maxSamples; i++) {
@@ -144,7 +146,9 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
         loggedEnd = d;
         break;
       }
-      const r = rate * (o.rampS > 0 ? 1 - Math.exp(-(tau + dt / 2) / o.rampS) : 1) * (1 + w);
+      const mid = tau + dt / 2;
+      const spike = spikes.reduce((f, q) => (mid >= q.atFraction * nominalS && mid < q.atFraction * nominalS + q.durationS ? f * q.factor : f), 1);
+      const r = rate * (o.rampS > 0 ? 1 - Math.exp(-mid / o.rampS) : 1) * (1 + w) * (1 + (o.rateDriftFraction * mid) / nominalS) * spike;
       grow(r * dt);
       tau += dt;
       if (wander) w = rho * w + wander.fraction * Math.sqrt(1 - rho * rho) * rngWander.gauss();
@@ -152,7 +156,7 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
     if (loggedEnd < 0) loggedEnd = d;
     const endS = out.timeAt(out.length - 1);
     // the shutter closes over closeS while the log already says idle
-    const rEnd = rate * (1 + w);
+    const rEnd = rate * (1 + w) * (1 + (o.rateDriftFraction * tau) / nominalS);
     const closeCount = Math.ceil(closeS / dt);
     for (let k = 1; k <= closeCount; k++) {
       const s0 = (k - 1) * dt, s1 = Math.min(k * dt, closeS);
