@@ -3,7 +3,11 @@ import { type ChamberRun } from './options';
 /** The run as trace CSV (shared/FORMATS.md), in chunks: metadata, header, rows. */
 export function* chamberCsvChunks(run: ChamberRun, rowsPerChunk = 20000): Generator<string> {
   const { layer: withLayer, chip: withChip, crystal: withCrystal } = run.columns;
-  const timeDigits = run.sampleIntervalS < 0.01 ? 4 : 3;
+  // enough decimals that jittered time stamps stay strictly increasing once rounded
+  let minStep = Infinity;
+  for (let i = 1; i < run.timeS.length; i++) minStep = Math.min(minStep, run.timeS[i] - run.timeS[i - 1]);
+  let timeDigits = 3;
+  while (timeDigits < 9 && 10 ** -timeDigits > minStep / 4) timeDigits++;
   let head = '';
   for (const [k, v] of Object.entries(run.meta)) head += `# ${k}: ${v}\n`;
   head += ['time_s', 'signal', ...(withLayer ? ['layer'] : []), ...(withChip ? ['chip'] : []), ...(withCrystal ? ['crystal_nm'] : [])].join(',') + '\n';
