@@ -50,8 +50,9 @@ export interface Summary {
   coverage: { thickness: number | null; index: number | null; cut: number | null };
 }
 
-const rms = (v: number[]) => (v.length ? Math.sqrt(v.reduce((a, b) => a + b * b, 0) / v.length) : 0);
-const maxAbs = (v: number[]) => v.reduce((a, b) => Math.max(a, Math.abs(b)), 0);
+const rms = (v: number[]) => (v.length ? Math.sqrt(v.reduce((a, b) => a + b * b, 0) / v.length) : NaN);
+/** NaN for no values (printed as —), so a scenario without results never reads as error-free. */
+const maxAbs = (v: number[]) => (v.length ? v.reduce((a, b) => Math.max(a, Math.abs(b)), 0) : NaN);
 const within3 = (z: (number | null)[]) => {
   const has = z.filter((v): v is number => v !== null);
   return has.length ? has.filter((v) => v <= 3).length / has.length : null;
@@ -85,7 +86,7 @@ export function misses(s: Summary, t: Targets): string[] {
   return out;
 }
 
-const f = (v: number | null, d = 3, w = 8) => (v === null ? '—' : v.toFixed(d)).padStart(w);
+const f = (v: number | null, d = 3, w = 8) => (v === null || !Number.isFinite(v) ? '—' : v.toFixed(d)).padStart(w);
 const pct = (v: number | null) => (v === null ? '   —' : `${(v * 100).toFixed(0).padStart(3)}%`);
 
 /** The per-layer table and the summary line of one scenario and mode. */
@@ -93,9 +94,10 @@ export function formatTable(title: string, errors: LayerError[], s: Summary): st
   const head = 'seed layer  QWOT   d err %    n err  cut %QW   |z_d|   |z_n| |z_cut|';
   const rows = errors.map((e) =>
     `${String(e.seed).padStart(4)} ${String(e.layer).padStart(5)} ${f(e.qwot, 2, 5)} ${f(e.thicknessPct)} ${f(e.index, 4)} ${f(e.cutQwotPct)} ${f(e.zThickness, 1, 7)} ${f(e.zIndex, 1, 7)} ${f(e.zCut, 1, 7)}`);
+  const g = (v: number, d: number) => f(v, d, 0);
   const sum =
-    `max|d| ${s.maxThicknessPct.toFixed(3)} % (RMS ${s.rmsThicknessPct.toFixed(3)})  max|n| ${s.maxIndex.toFixed(4)} (RMS ${s.rmsIndex.toFixed(4)})  ` +
-    `max|cut| ${s.maxCutQwotPct.toFixed(3)} %QW (RMS ${s.rmsCutQwotPct.toFixed(3)})  thin max|nd| ${s.maxThinOpticalPct.toFixed(3)} %  ` +
+    `max|d| ${g(s.maxThicknessPct, 3)} % (RMS ${g(s.rmsThicknessPct, 3)})  max|n| ${g(s.maxIndex, 4)} (RMS ${g(s.rmsIndex, 4)})  ` +
+    `max|cut| ${g(s.maxCutQwotPct, 3)} %QW (RMS ${g(s.rmsCutQwotPct, 3)})  thin max|nd| ${g(s.maxThinOpticalPct, 3)} %  ` +
     `3σ coverage d ${pct(s.coverage.thickness)} n ${pct(s.coverage.index)} cut ${pct(s.coverage.cut)}  missing ${s.missing}/${s.layers}`;
   return `${title}\n${head}\n${rows.join('\n')}\n${sum}`;
 }
