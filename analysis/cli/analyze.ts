@@ -1,4 +1,5 @@
 import { createReadStream, statSync } from 'node:fs';
+import { AnalysisInputError } from '../fit/AnalysisInputError';
 import { analyzeRun } from '../fit/analyzeRun';
 import { readTrace, TraceFormatError, type TraceData } from '../trace';
 import { choiceFlag, CliInputError, loadDesignFile, parseFlags, requireFlag, runCli } from './args';
@@ -29,7 +30,10 @@ export async function analyzeCommand(argv: string[]) {
   const mode = choiceFlag(flags, 'mode', ['sequential', 'refit'] as const, 'sequential');
   const design = loadDesignFile(designPath);
   const trace = await loadTrace(tracePath, design.layers.length);
-  const result = await analyzeRun(design, trace, { mode });
+  const result = await analyzeRun(design, trace, { mode }).catch((e: unknown) => {
+    if (e instanceof AnalysisInputError) throw new CliInputError(`${tracePath}: ${e.message}`);
+    throw e;
+  });
   const { format, layers, warnings, ...rest } = result;
   return { format, layers, warnings, ...rest };
 }

@@ -6,6 +6,7 @@ import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
 import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers';
+import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
@@ -92,8 +93,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }
   const order = design.layers.filter((l) => samplesByLayer.has(l.layer)).sort((a, b) => samplesByLayer.get(a.layer)!.startTimeS - samplesByLayer.get(b.layer)!.startTimeS);
-  const missing = design.layers.filter((l) => !samplesByLayer.has(l.layer)).map((l) => l.layer);
-  if (missing.length) warnings.push(`no samples for design layer${missing.length > 1 ? 's' : ''} ${missing.join(', ')}`);
+  assertEveryLayerSampled(design, samplesByLayer, seg.inferred);
 
   const mismatch = monitorWavelengthMismatch(trace.meta, order);
   if (mismatch) warnings.push(mismatch);

@@ -13,3 +13,5 @@ export * from './runSummary';
 export * from './analyzeRun';
 export * from './refineSegments';
 export * from './chipCalibrations';
+export * from './AnalysisInputError';
+export * from './everyLayerSampled';

@@ -32,8 +32,9 @@ export function gatherLayerSamples(trace: TraceData, segments: readonly Segment[
     let k = 0, tauEnd = 0;
     for (let si = 0; si < segs.length; si++) {
       const s = segs[si];
-      // A resumed run continues one sample step after the previous run's end.
-      const step = s.endIndex - s.startIndex > 1 ? t[s.startIndex + 1] - t[s.startIndex] : 0;
+      // A resumed run continues one sample step after the previous run's end (a run of a
+      // single sample takes the step before it, so τ stays strictly increasing).
+      const step = s.endIndex - s.startIndex > 1 ? t[s.startIndex + 1] - t[s.startIndex] : t[s.startIndex] - t[s.startIndex - 1];
       const base = si === 0 ? 0 : tauEnd + step;
       for (let i = s.startIndex; i < s.endIndex; i++) {
         indices[k] = i;

@@ -1,5 +1,6 @@
 export { readTrace, readTraceText } from './readTrace';
 export { TraceFormatError } from './TraceFormatError';
+export { MAX_LISTED_WARNINGS } from './traceParser';
 export { segmentTrace, type SegmentOptions } from './segment';
 export { autoSegment, type AutoSegmentOptions } from './autoSegment';
 export { savitzkyGolay, savitzkyGolayCoefficients, type SavitzkyGolayOptions } from './savitzkyGolay';

@@ -34,6 +34,9 @@ class Grow<T extends Float64Array | Int32Array> {
   }
 }
 
+/** Warnings of one kind listed in full; the rest are counted (a file of a million bad lines must not make a million messages). */
+export const MAX_LISTED_WARNINGS = 20;
+
 export interface ParserLimits {
   fileName?: string;
   maxRows: number;
@@ -58,6 +61,7 @@ export class TraceParser {
   private blankLine = 0;
   private prevTime = -Infinity;
   private prevTimeText = '';
+  private readonly warningCounts = new Map<string, { count: number; firstLine?: number }>();
 
   constructor(private readonly limits: ParserLimits) {}
 
@@ -94,6 +98,20 @@ export class TraceParser {
       this.fail(lastLine, 'no_header', 'no header row (expected one naming at least time_s and signal)');
     }
     if (this.rowCount === 0) this.fail(this.headerLine, 'no_data', 'the header is not followed by any data rows');
+    for (const [code, c] of this.warningCounts) {
+      if (c.count <= MAX_LISTED_WARNINGS) continue;
+      this.warnings.push({
+        code: `${code}_more`,
+        message: `${c.count - MAX_LISTED_WARNINGS} more "${code}" warnings not listed (${c.count} in all, the first at line ${c.firstLine})`,
+      });
+    }
+  }
+
+  private warn(w: TraceWarning): void {
+    const c = this.warningCounts.get(w.code) ?? { count: 0, firstLine: w.line };
+    c.count++;
+    this.warningCounts.set(w.code, c);
+    if (c.count <= MAX_LISTED_WARNINGS) this.warnings.push(w);
   }
 
   private metadata(s: string, lineNo: number): void {
@@ -101,7 +119,7 @@ export class TraceParser {
     const colon = body.indexOf(':');
     const key = colon < 0 ? '' : body.slice(0, colon).trim();
     if (key === '') {
-      this.warnings.push({
+      this.warn({
         code: 'metadata_malformed',
         line: lineNo,
         message: `line ${lineNo}: metadata line is not "# key: value"; ignored`,
@@ -109,7 +127,7 @@ export class TraceParser {
       return;
     }
     if (key in this.meta) {
-      this.warnings.push({ code: 'metadata_duplicate', line: lineNo, message: `line ${lineNo}: metadata key "${key}" repeated; the last value is kept` });
+      this.warn({ code: 'metadata_duplicate', line: lineNo, message: `line ${lineNo}: metadata key "${key}" repeated; the last value is kept` });
     }
     this.meta[key] = body.slice(colon + 1).trim();
   }
@@ -130,7 +148,7 @@ export class TraceParser {
       const kind = KNOWN[name] ?? KIND_IGNORE;
       this.kinds[i] = kind;
       if (kind === KIND_IGNORE) {
-        this.warnings.push({ code: 'unknown_column', line: lineNo, message: `line ${lineNo}: unknown column "${name}" ignored` });
+        this.warn({ code: 'unknown_column', line: lineNo, message: `line ${lineNo}: unknown column "${name}" ignored` });
       }
     });
     for (const required of ['time_s', 'signal']) {

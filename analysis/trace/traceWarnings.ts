@@ -2,6 +2,7 @@ import { median } from './robustStats';
 import type { TraceData, TraceWarning } from './types';
 
 const MAX_GAP_WARNINGS = 20;
+const MAX_FEW_WARNINGS = 20;
 const SATURATION_RUN = 5;
 
 /** Warnings about a parsed trace: thin layers, gaps in time, a clipped signal. */
@@ -16,14 +17,16 @@ export function traceWarnings(
   if (layer) {
     const counts = new Map<number, number>();
     for (let i = 0; i < n; i++) if (layer[i] > 0) counts.set(layer[i], (counts.get(layer[i]) ?? 0) + 1);
-    for (const [l, c] of [...counts].sort((a, b) => a[0] - b[0])) {
-      if (c < options.minLayerSamples) {
-        out.push({
-          code: 'few_samples',
-          layer: l,
-          message: `layer ${l} has only ${c} samples (at least ${options.minLayerSamples} are needed for a reliable fit)`,
-        });
-      }
+    const few = [...counts].sort((a, b) => a[0] - b[0]).filter(([, c]) => c < options.minLayerSamples);
+    for (const [l, c] of few.slice(0, MAX_FEW_WARNINGS)) {
+      out.push({
+        code: 'few_samples',
+        layer: l,
+        message: `layer ${l} has only ${c} samples (at least ${options.minLayerSamples} are needed for a reliable fit)`,
+      });
+    }
+    if (few.length > MAX_FEW_WARNINGS) {
+      out.push({ code: 'few_samples_more', message: `${few.length - MAX_FEW_WARNINGS} more layers with fewer than ${options.minLayerSamples} samples not listed (${few.length} in all)` });
     }
   }
 

@@ -1,5 +1,5 @@
 import 'server-only';
-import { analyzeRun, type AnalysisMode, type AnalysisResult } from '../../analysis/fit';
+import { AnalysisInputError, analyzeRun, type AnalysisMode, type AnalysisResult } from '../../analysis/fit';
 import { DesignFormatError, parseDesign } from '../../analysis/design';
 import { readTrace, TraceFormatError } from '../../analysis/trace';
 import { db, type Executor } from '../client';
@@ -16,7 +16,7 @@ export type AnalyseOutcome =
 
 /** Input faults get their own message (file, line, column or key); anything else is reported as an internal failure. */
 function messageOf(err: unknown): string {
-  if (err instanceof TraceFormatError || err instanceof DesignFormatError) return err.message;
+  if (err instanceof TraceFormatError || err instanceof DesignFormatError || err instanceof AnalysisInputError) return err.message;
   return `the analysis stopped on an internal error: ${err instanceof Error ? err.message : String(err)}`;
 }
 

@@ -1,7 +1,8 @@
 // `npm run bench`: each section prints its own figures; a benchmark is never a timed test.
 import { run as analysis } from './analysis';
+import { run as analyzeProcess } from './analyzeProcess';
 import { run as compare } from './compare';
 import { run as optics } from './optics';
 import { run as runPage } from './runPage';
 
-for (const section of [optics, analysis, compare, runPage]) await section();
+for (const section of [optics, analysis, analyzeProcess, compare, runPage]) await section();

@@ -112,7 +112,7 @@ describe('runs and their raw trace', () => {
     expect(back.bytes.equals(bytes)).toBe(true);
     expect(back.count).toBe(Math.ceil(bytes.byteLength / 1000));
     const [file] = await db().select({ rowCount: traceFiles.rowCount, columns: traceFiles.columns }).from(traceFiles).where(eq(traceFiles.runId, stored.run.id));
-    expect(file).toEqual({ rowCount: 1481, columns: ['time_s', 'signal', 'layer', 'chip'] });
+    expect(file).toEqual({ rowCount: 1498, columns: ['time_s', 'signal', 'layer', 'chip'] });
   });
 
   it('writes nothing when the run cannot be stored (same run code twice in a chamber)', async () => {

@@ -10,7 +10,11 @@ const tsx = path.join(root, 'node_modules/.bin/tsx');
 const tmp = mkdtempSync(path.join(tmpdir(), 'fringelog-analyze-'));
 
 function analyze(...args: string[]) {
-  const r = spawnSync(tsx, [path.join(root, 'analysis/cli/analyze.ts'), ...args], { cwd: root, encoding: 'utf8' });
+  return analyzeWith({}, ...args);
+}
+
+function analyzeWith(env: Record<string, string>, ...args: string[]) {
+  const r = spawnSync(tsx, [path.join(root, 'analysis/cli/analyze.ts'), ...args], { cwd: root, encoding: 'utf8', env: { ...process.env, ...env }, maxBuffer: 64 * 2 ** 20 });
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
@@ -87,4 +91,38 @@ describe('analyze CLI (shared/FORMATS.md)', () => {
       expect(r.stderr).toMatch(message);
     });
   }
+
+  it('a layer column of zeros is a failed analysis naming the layers: message on stderr, exit 1', () => {
+    const rows = readFileSync(trace, 'utf8').split('\n').map((l) => (/^[\d.]+,/.test(l) ? l.replace(/^([^,]*,[^,]*),\d+/, '$1,0') : l));
+    const file = writeTmp('zeros.csv', rows.join('\n'));
+    const r = analyze('--design', design, '--trace', file);
+    expect(r.code).toBe(1);
+    expect(r.stdout).toBe('');
+    expect(r.stderr).toMatch(new RegExp(`^analyze: ${escape(file)}: 4 of the design's 4 layers would get no result: layer 1 \\(H\\): the trace's layer column never says 1; layer 2 \\(L\\)`));
+  });
+
+  it('two single rows marked paused inside a layer: analysed, the layer joined from its runs', () => {
+    const rows = readFileSync(trace, 'utf8').split('\n');
+    const inLayer3 = rows.flatMap((l, i) => (/^[\d.]+,[^,]*,3,/.test(l) ? [i] : []));
+    const mid = inLayer3[inLayer3.length >> 1];
+    for (const i of [mid, mid + 2]) rows[i] = rows[i].replace(/^([^,]*,[^,]*),3,/, '$1,0,');
+    const r = analyze('--design', design, '--trace', writeTmp('paused.csv', rows.join('\n')));
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const l3 = JSON.parse(r.stdout).layers[2];
+    expect(l3.warnings).toContain('the layer was deposited in 3 runs; the pauses are left out of its time base');
+  });
+
+  it('two million bare "#" lines: warnings capped (some listed, then a count), memory bounded by the samples', () => {
+    const file = writeTmp('hashes.csv', '#\n'.repeat(2_000_000) + readFileSync(trace, 'utf8'));
+    // 160 MB of heap is far below what one message per line took (about 1 GB)
+    const r = analyzeWith({ NODE_OPTIONS: '--max-old-space-size=160' }, '--design', design, '--trace', file);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const out = JSON.parse(r.stdout);
+    const malformed = out.warnings.filter((w: string) => w.includes('metadata line is not "# key: value"'));
+    expect(malformed).toHaveLength(20);
+    expect(out.warnings).toContain('1999980 more "metadata_malformed" warnings not listed (2000000 in all, the first at line 1)');
+    expect(r.stdout.length).toBeLessThan(2e6);
+  });
 });
