@@ -1,4 +1,4 @@
-import { median, noiseSigma } from '../trace';
+import { levelSteps, median, noiseSigma, type Level } from '../trace';
 
 export interface ChipCalibration {
   chip: number;
@@ -6,14 +6,25 @@ export interface ChipCalibration {
   gain: number;
   /** 1σ of the gain from the noise of the samples it came from (median: √(π/2)·σ/√N). */
   gainSigma: number;
-  /** Detector reading with no light (from dark samples, else an earlier chip's, else 0). */
+  /** Detector reading with no light from the chip (dark level, or stray light fitted). */
   offset: number;
+  /** 1σ of the offset (0 when it was assumed, not measured). */
+  offsetSigma: number;
+  /**
+   * 'dark': from dark samples just before the bare chip; 'fitted': from the chip's layers (no
+   * dark samples); 'earlier-chip': an earlier chip's; 'assumed': 0, nothing better known.
+   */
+  offsetSource: 'dark' | 'fitted' | 'earlier-chip' | 'assumed';
   /** 'bare-chip': from the idle stretch before the chip's first layer; 'first-layer': from the first layer's start. */
   source: 'bare-chip' | 'first-layer';
   bareSamples: number;
   darkSamples: number;
+  /** Samples of the idle stretch left out as the previous chip's level or a transient. */
+  otherSamples: number;
   /** White-noise σ of the reading, detector units. */
   noiseSigma: number;
+  /** Bare-chip reading (median of the bare stretch), detector units; NaN from a first layer. */
+  bareLevel: number;
   /** Refit mode with a chip-wide gain: the gain at the chip's first layer start, refined by the joint fit. */
   refinedGain?: number;
   refinedGainSigma?: number;
@@ -30,37 +41,75 @@ export interface CalibrationInput {
   firstLayerSignal: ArrayLike<number>;
   /** The model's signal (fraction) of the chip as it is before its first layer (bare chip). */
   modelledBare: number;
-  /** The detector's offset known from an earlier chip, used when this stretch has no dark samples. @default 0 */
+  /** The detector's offset known from an earlier chip, used when this stretch has no dark samples. */
   knownOffset?: number;
+  /**
+   * The reading expected from the previous chip's finished stack (design stack, its calibration),
+   * when this chip replaced another: a low level near it is that chip, not a dark reading.
+   */
+  previousChipLevel?: number;
 }
 
+/** A level counts as dark below this fraction of the bare chip's reading. */
+const DARK_FRACTION = 0.3;
+
 /**
- * Gain and offset of the detector for one chip. Idle samples far below the stretch's upper
- * level (below 30 % of its 90th percentile) are taken as dark readings (lamp or shutter off)
- * and give the offset; the rest give the gain against the modelled bare-chip signal.
+ * Gain and offset of the detector for one chip from the idle stretch before its first layer,
+ * read as a sequence of levels (levelSteps): the last level before the layer is the bare new
+ * chip; the levels just before it, far below it (under 30 % of it), are dark readings while the
+ * chips were exchanged; anything earlier (the previous chip's last level, the end of its last
+ * layer) is not this chip's and is left out. A low level next to the expected previous-chip
+ * reading and far from the known offset is the previous chip too.
  */
 export function calibrateChip(input: CalibrationInput): ChipCalibration {
   const idle = Float64Array.from(input.idleSignal);
   const { chip, modelledBare } = input;
-  if (idle.length >= 5) {
-    const sorted = Float64Array.from(idle).sort();
-    const upper = sorted[Math.floor(0.9 * (sorted.length - 1))];
-    const dark: number[] = [], bare: number[] = [];
-    for (const v of idle) (v < 0.3 * upper ? dark : bare).push(v);
-    const offset = dark.length >= 5 ? dark.reduce((a, b) => a + b, 0) / dark.length : (input.knownOffset ?? 0);
-    if (bare.length >= 5) {
+  const fallbackOffset = input.knownOffset ?? 0;
+  const offsetSource = input.knownOffset === undefined ? 'assumed' : 'earlier-chip';
+  if (idle.length >= 10) {
+    const sigma = noiseSigma(idle);
+    const levels = levelSteps(idle, { sigma, minLength: 5 });
+    const bare = levels[levels.length - 1];
+    const bareCount = bare.end - bare.start;
+    if (bareCount >= 5 && bare.mean > 0) {
+      const dark = darkLevels(levels, sigma, input);
+      const darkCount = dark.reduce((a, l) => a + l.end - l.start, 0);
+      const offset = dark.length ? dark.reduce((a, l) => a + l.mean * (l.end - l.start), 0) / darkCount : fallbackOffset;
+      const bareSignal = idle.subarray(bare.start, bare.end);
+      const bareLevel = median(bareSignal);
+      const s = noiseSigma(bareSignal);
       return {
-        chip, gain: (median(bare) - offset) / modelledBare, offset, source: 'bare-chip',
-        gainSigma: (1.2533 * noiseSigma(bare)) / Math.sqrt(bare.length) / modelledBare,
-        bareSamples: bare.length, darkSamples: dark.length >= 5 ? dark.length : 0, noiseSigma: noiseSigma(bare),
+        chip, gain: (bareLevel - offset) / modelledBare, offset, offsetSource: dark.length ? 'dark' : offsetSource,
+        offsetSigma: dark.length ? sigma / Math.sqrt(darkCount) : 0,
+        gainSigma: (1.2533 * s) / Math.sqrt(bareCount) / modelledBare, source: 'bare-chip',
+        bareSamples: bareCount, darkSamples: darkCount, otherSamples: idle.length - bareCount - darkCount, noiseSigma: s, bareLevel,
       };
     }
   }
   const first = Float64Array.from(input.firstLayerSignal);
   if (first.length === 0) throw new RangeError(`chip ${chip}: no samples to calibrate the gain from`);
   return {
-    chip, gain: (median(first) - (input.knownOffset ?? 0)) / modelledBare, offset: input.knownOffset ?? 0, source: 'first-layer',
+    chip, gain: (median(first) - fallbackOffset) / modelledBare, offset: fallbackOffset, offsetSigma: 0, offsetSource, source: 'first-layer',
     gainSigma: (1.2533 * noiseSigma(first)) / Math.sqrt(first.length) / modelledBare,
-    bareSamples: 0, darkSamples: 0, noiseSigma: noiseSigma(first),
+    bareSamples: 0, darkSamples: 0, otherSamples: idle.length, noiseSigma: noiseSigma(first), bareLevel: NaN,
   };
+}
+
+/** The dark levels right before the bare chip's (last) level, walking back until a level that is not dark. */
+function darkLevels(levels: readonly Level[], sigma: number, input: CalibrationInput): Level[] {
+  const bare = levels[levels.length - 1].mean;
+  const out: Level[] = [];
+  for (let i = levels.length - 2; i >= 0; i--) {
+    const l = levels[i];
+    if (l.mean >= DARK_FRACTION * bare) break;
+    if (l.end - l.start < 5) continue;
+    // Consecutive dark levels agree within the noise (a decaying transient's tail still counts).
+    if (out.length && Math.abs(l.mean - out[0].mean) > Math.max(8 * sigma, 0.02 * bare)) break;
+    if (input.previousChipLevel !== undefined) {
+      const ref = input.knownOffset ?? 0;
+      if (Math.abs(l.mean - input.previousChipLevel) < Math.abs(l.mean - ref)) break;
+    }
+    out.push(l);
+  }
+  return out;
 }
