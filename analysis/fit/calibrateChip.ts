@@ -23,8 +23,8 @@ export interface ChipCalibration {
   otherSamples: number;
   /** White-noise σ of the reading, detector units. */
   noiseSigma: number;
-  /** Bare-chip reading (median of the bare stretch), detector units; NaN from a first layer. */
-  bareLevel: number;
+  /** Bare-chip reading (median of the bare stretch), detector units; null from a first layer. */
+  bareLevel: number | null;
   /** Refit mode with a chip-wide gain: the gain at the chip's first layer start, refined by the joint fit. */
   refinedGain?: number;
   refinedGainSigma?: number;
@@ -55,8 +55,8 @@ const DARK_FRACTION = 0.3;
 
 /**
  * Gain and offset of the detector for one chip from the idle stretch before its first layer,
- * read as a sequence of levels (levelSteps): the last level before the layer is the bare new
- * chip; the levels just before it, far below it (under 30 % of it), are dark readings while the
+ * read as a sequence of levels (levelSteps): the last long level before the layer is the bare
+ * new chip; the levels just before it, far below it (under 30 % of it), are dark readings while the
  * chips were exchanged; anything earlier (the previous chip's last level, the end of its last
  * layer) is not this chip's and is left out. A low level next to the expected previous-chip
  * reading and far from the known offset is the previous chip too.
@@ -69,10 +69,11 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
   if (idle.length >= 10) {
     const sigma = noiseSigma(idle);
     const levels = levelSteps(idle, { sigma, minLength: 5 });
-    const bare = levels[levels.length - 1];
+    const bareAt = bareLevelIndex(levels);
+    const bare = levels[bareAt];
     const bareCount = bare.end - bare.start;
     if (bareCount >= 5 && bare.mean > 0) {
-      const dark = darkLevels(levels, sigma, input);
+      const dark = darkLevels(levels.slice(0, bareAt + 1), sigma, input);
       const darkCount = dark.reduce((a, l) => a + l.end - l.start, 0);
       const offset = dark.length ? dark.reduce((a, l) => a + l.mean * (l.end - l.start), 0) / darkCount : fallbackOffset;
       const bareSignal = idle.subarray(bare.start, bare.end);
@@ -91,8 +92,25 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
   return {
     chip, gain: (median(first) - fallbackOffset) / modelledBare, offset: fallbackOffset, offsetSigma: 0, offsetSource, source: 'first-layer',
     gainSigma: (1.2533 * noiseSigma(first)) / Math.sqrt(first.length) / modelledBare,
-    bareSamples: 0, darkSamples: 0, otherSamples: idle.length, noiseSigma: noiseSigma(first), bareLevel: NaN,
+    bareSamples: 0, darkSamples: 0, otherSamples: idle.length, noiseSigma: noiseSigma(first), bareLevel: null,
   };
+}
+
+/** Samples a level needs to be taken as the bare chip (2 s at 10 Hz) when there is a choice. */
+const MIN_BARE = 20;
+
+/**
+ * The bare chip's level: the last one of at least MIN_BARE samples (or a quarter of the stretch),
+ * so that a short trailing step (the layer's first growth, when its start is placed late) is not
+ * taken for it; else the longest.
+ */
+function bareLevelIndex(levels: readonly Level[]): number {
+  const total = levels[levels.length - 1].end - levels[0].start;
+  const need = Math.min(MIN_BARE, Math.ceil(total / 4));
+  for (let i = levels.length - 1; i >= 0; i--) if (levels[i].end - levels[i].start >= need) return i;
+  let longest = 0;
+  levels.forEach((l, i) => { if (l.end - l.start > levels[longest].end - levels[longest].start) longest = i; });
+  return longest;
 }
 
 /** The dark levels right before the bare chip's (last) level, walking back until a level that is not dark. */

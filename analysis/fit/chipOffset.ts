@@ -1,5 +1,5 @@
 import { fromNK } from '../optics';
-import { fitLayers, type LayerEstimate } from './fitLayers';
+import { fitLayers } from './fitLayers';
 import { type FitLayerData, type LayerParams } from './layerModel';
 import { startValues } from './startValues';
 
@@ -21,6 +21,8 @@ export interface OffsetFit {
   sigma: number;
   /** Sum of squares at the offset found. */
   ssr: number;
+  /** Residual RMS there, detector units. */
+  residualRms: number;
   evaluations: number;
 }
 
@@ -49,14 +51,13 @@ export function fitChipOffset(input: OffsetFitInput): OffsetFit {
     below.push(layerEnd(l, p));
   });
   let evaluations = 0;
-  let current = starts;
-  const profile = (o: number): { ssr: number; dof: number } => {
+  const profile = (o: number): { ssr: number; dof: number; rms: number } => {
     evaluations++;
     const g = gainAt(o);
     const data = layers.map((l) => ({ ...l, heldGain: g }));
-    const fit = fitLayers({ fixedBelow: [], layers: data, start: current.map((s) => ({ ...s, gain: g })), offsetSignal: o }, { maxRounds: 6 });
-    current = fit.layers.map((e: LayerEstimate) => ({ index: e.index, rateNmPerS: e.rateNmPerS, rateDriftNmPerS2: e.rateDriftNmPerS2, gain: g }));
-    return { ssr: fit.solver.ssr, dof: fit.solver.dof };
+    // Every trial from the same start, so the profile is a function of o alone (not of the path).
+    const fit = fitLayers({ fixedBelow: [], layers: data, start: starts.map((s) => ({ ...s, gain: g })), offsetSignal: o }, { maxRounds: 4 });
+    return { ssr: fit.solver.ssr, dof: fit.solver.dof, rms: fit.solver.residualRms };
   };
   // Step: 1 % of the bare reading; two parabola passes, the second centred on the first vertex.
   let h = 0.01 * Math.abs(B);
@@ -81,7 +82,7 @@ export function fitChipOffset(input: OffsetFitInput): OffsetFit {
   }
   const at = profile(vertex);
   const s2 = at.ssr / Math.max(at.dof, 1);
-  return { offset: vertex, sigma: curvature > 0 ? Math.sqrt((2 * s2) / curvature) : Infinity, ssr: at.ssr, evaluations };
+  return { offset: vertex, sigma: curvature > 0 ? Math.sqrt((2 * s2) / curvature) : Infinity, ssr: at.ssr, residualRms: at.rms, evaluations };
 }
 
 function layerEnd(l: FitLayerData, p: LayerParams) {
