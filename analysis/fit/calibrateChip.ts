@@ -1,4 +1,4 @@
-import { levelSteps, median, noiseSigma, type Level } from '../trace';
+import { levelSteps, longRunSigma, median, noiseSigma, type Level } from '../trace';
 
 export interface ChipCalibration {
   chip: number;
@@ -12,9 +12,10 @@ export interface ChipCalibration {
   offsetSigma: number;
   /**
    * 'dark': from dark samples just before the bare chip; 'fitted': from the chip's layers (no
-   * dark samples); 'earlier-chip': an earlier chip's; 'assumed': 0, nothing better known.
+   * dark samples); 'earlier-chip': an earlier chip's; 'other-chips': the median of the other
+   * chips' dark readings (this chip's own was missing or disagreed); 'assumed': 0, nothing better known.
    */
-  offsetSource: 'dark' | 'fitted' | 'earlier-chip' | 'assumed';
+  offsetSource: 'dark' | 'fitted' | 'earlier-chip' | 'other-chips' | 'assumed';
   /** 'bare-chip': from the idle stretch before the chip's first layer; 'first-layer': from the first layer's start. */
   source: 'bare-chip' | 'first-layer';
   bareSamples: number;
@@ -56,10 +57,9 @@ const DARK_FRACTION = 0.3;
 /**
  * Gain and offset of the detector for one chip from the idle stretch before its first layer,
  * read as a sequence of levels (levelSteps): the last long level before the layer is the bare
- * new chip; the levels just before it, far below it (under 30 % of it), are dark readings while the
- * chips were exchanged; anything earlier (the previous chip's last level, the end of its last
- * layer) is not this chip's and is left out. A low level next to the expected previous-chip
- * reading and far from the known offset is the previous chip too.
+ * new chip; the bottom of a dip far below it (under 30 % of it) is the dark reading while the chips were
+ * exchanged (darkLevels); anything else (the previous chip's last level, the end of its last
+ * layer, the dip's sides) is not this chip's and is left out.
  */
 export function calibrateChip(input: CalibrationInput): ChipCalibration {
   const idle = Float64Array.from(input.idleSignal);
@@ -67,13 +67,18 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
   const fallbackOffset = input.knownOffset ?? 0;
   const offsetSource = input.knownOffset === undefined ? 'assumed' : 'earlier-chip';
   if (idle.length >= 10) {
-    const sigma = noiseSigma(idle);
+    const sigma = longRunSigma(idle);
     const levels = levelSteps(idle, { sigma, minLength: 5 });
-    const bareAt = bareLevelIndex(levels);
-    const bare = levels[bareAt];
+    // The bare chip's stretch: the last long level, extended back over levels at the same reading
+    // (lamp drift and slow noise split a long stretch).
+    const last = bareLevelIndex(levels);
+    const same = Math.max(5 * sigma, 0.003 * Math.abs(levels[last].mean));
+    let first = last;
+    while (first > 0 && Math.abs(levels[first - 1].mean - levels[last].mean) < same) first--;
+    const bare = { start: levels[first].start, end: levels[last].end, mean: levels[last].mean };
     const bareCount = bare.end - bare.start;
     if (bareCount >= 5 && bare.mean > 0) {
-      const dark = darkLevels(levels.slice(0, bareAt + 1), sigma, input);
+      const dark = darkLevels(idle, levels.slice(0, first + 1), noiseSigma(idle.subarray(bare.start, bare.end)), input);
       const darkCount = dark.reduce((a, l) => a + l.end - l.start, 0);
       const offset = dark.length ? dark.reduce((a, l) => a + l.mean * (l.end - l.start), 0) / darkCount : fallbackOffset;
       const bareSignal = idle.subarray(bare.start, bare.end);
@@ -81,7 +86,7 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
       const s = noiseSigma(bareSignal);
       return {
         chip, gain: (bareLevel - offset) / modelledBare, offset, offsetSource: dark.length ? 'dark' : offsetSource,
-        offsetSigma: dark.length ? sigma / Math.sqrt(darkCount) : 0,
+        offsetSigma: dark.length ? longRunSigma(idle.subarray(bare.start, bare.end)) / Math.sqrt(darkCount) : 0,
         gainSigma: (1.2533 * s) / Math.sqrt(bareCount) / modelledBare, source: 'bare-chip',
         bareSamples: bareCount, darkSamples: darkCount, otherSamples: idle.length - bareCount - darkCount, noiseSigma: s, bareLevel,
       };
@@ -113,21 +118,25 @@ function bareLevelIndex(levels: readonly Level[]): number {
   return longest;
 }
 
-/** The dark levels right before the bare chip's (last) level, walking back until a level that is not dark. */
-function darkLevels(levels: readonly Level[], sigma: number, input: CalibrationInput): Level[] {
+/**
+ * The dark reading before the bare chip: while the chips are exchanged the holder blocks the
+ * beam for a moment, a dip between the previous chip's level and the bare chip's, with sloping
+ * sides. The lowest level far below the bare chip (under 30 % of it) is that dip, unless it sits
+ * nearer the previous chip's expected reading than the known offset; the dip is split again
+ * finely and its flat bottom (the lowest level of at least 3 samples) is the dark reading.
+ */
+function darkLevels(idle: Float64Array, levels: readonly Level[], sigma: number, input: CalibrationInput): Level[] {
   const bare = levels[levels.length - 1].mean;
-  const out: Level[] = [];
-  for (let i = levels.length - 2; i >= 0; i--) {
-    const l = levels[i];
-    if (l.mean >= DARK_FRACTION * bare) break;
-    if (l.end - l.start < 5) continue;
-    // Consecutive dark levels agree within the noise (a decaying transient's tail still counts).
-    if (out.length && Math.abs(l.mean - out[0].mean) > Math.max(8 * sigma, 0.02 * bare)) break;
-    if (input.previousChipLevel !== undefined) {
-      const ref = input.knownOffset ?? 0;
-      if (Math.abs(l.mean - input.previousChipLevel) < Math.abs(l.mean - ref)) break;
-    }
-    out.push(l);
+  let lowest: Level | null = null;
+  for (const l of levels.slice(0, -1)) if (l.mean < DARK_FRACTION * bare && (!lowest || l.mean < lowest.mean)) lowest = l;
+  if (!lowest) return [];
+  if (input.previousChipLevel !== undefined) {
+    const ref = input.knownOffset ?? 0;
+    if (Math.abs(lowest.mean - input.previousChipLevel) < Math.abs(lowest.mean - ref)) return [];
   }
-  return out;
+  const from = Math.max(0, lowest.start - 3), to = Math.min(idle.length, lowest.end + 3);
+  const fine = levelSteps(idle.subarray(from, to), { sigma, minLength: 3 });
+  let bottom: Level | null = null;
+  for (const l of fine) if (l.end - l.start >= 3 && (!bottom || l.mean < bottom.mean)) bottom = l;
+  return bottom ? [{ start: from + bottom.start, end: from + bottom.end, mean: bottom.mean }] : [];
 }

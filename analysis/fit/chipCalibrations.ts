@@ -60,7 +60,32 @@ export function calibrateChips(
     lastOffset = calibration.offset;
     chips.set(samples.chip, { calibration, startS: samples.startTimeS, wavelengthNm: dl.monitor.wavelengthNm, mode: dl.monitor.mode });
   }
+  shareDarkReadings(chips, warnings);
   return chips;
+}
+
+/**
+ * The dark reading (with the stray light while the beam is blocked) belongs to the detector,
+ * not the chip: with two or more chips' dark readings, their median serves the chips that had
+ * none (or only an assumed or inherited one), and replaces a reading that disagrees with it by
+ * more than 5σ and 0.1 % of full scale (a dip caught on its slope or a spike), with a warning.
+ */
+function shareDarkReadings(chips: Map<number, ChipStart>, warnings: string[]): void {
+  const dark = [...chips.values()].map((c) => c.calibration).filter((c) => c.offsetSource === 'dark');
+  if (dark.length < 2) return;
+  const offsets = dark.map((c) => c.offset).sort((a, b) => a - b);
+  const mid = offsets.length >> 1;
+  const med = offsets.length % 2 ? offsets[mid] : 0.5 * (offsets[mid - 1] + offsets[mid]);
+  const sigma = Math.sqrt(dark.reduce((a, c) => a + c.offsetSigma ** 2, 0) / dark.length) / Math.sqrt(dark.length);
+  for (const [chip, start] of chips) {
+    const c = start.calibration;
+    if (c.offsetSource === 'fitted' || c.bareLevel === null) continue;
+    const odd = c.offsetSource === 'dark' && Math.abs(c.offset - med) > 5 * Math.hypot(c.offsetSigma, sigma) + 0.001 * c.gain;
+    if (c.offsetSource === 'dark' && !odd) continue;
+    if (odd) warnings.push(`chip ${chip}: its dark reading ${c.offset.toFixed(4)} disagrees with the other chips' (median ${med.toFixed(4)}); the median used`);
+    const m0 = (c.bareLevel - c.offset) / c.gain;
+    chips.set(chip, { ...start, calibration: { ...c, offset: med, offsetSigma: sigma, offsetSource: 'other-chips', gain: (c.bareLevel - med) / m0 } });
+  }
 }
 
 /** The modelled signal (fraction) of a chip carrying `stack` (design thicknesses, nominal indices) at dl's monitor wavelength. */
@@ -83,7 +108,9 @@ function withFittedOffset(
   cal: ChipCalibration, modelledBare: number, warnings: string[],
 ): ChipCalibration {
   const own = order.filter((l) => samplesByLayer.get(l.layer)!.chip === cal.chip && samplesByLayer.get(l.layer)!.tauS.length >= 20).slice(0, OFFSET_FIT_LAYERS);
-  if (own.length === 0 || cal.bareLevel === null) return cal;
+  // In transmittance the chip's first layers (high readings) cannot tell an offset from the gain
+  // (σ of 0.3–1 % of full scale on our tests, and biased by rate drift): not attempted.
+  if (own.length === 0 || cal.bareLevel === null || own[0].monitor.mode === 'T') return cal;
   const layers = own.map((dl) => offsetFitData(design, trace, dl, samplesByLayer.get(dl.layer)!));
   const fit = fitChipOffset({
     layers, bareLevel: cal.bareLevel, modelledBare, startOffset: cal.offset,
@@ -97,12 +124,9 @@ function withFittedOffset(
   }
   // Keep the assumed offset unless the layers show a clearly different one. The profile holds
   // the rate constant within each layer (a free rate drift makes the offset undetermined), so a
-  // drifting rate biases it: by about 0.1 % of full scale in reflectance and 1–1.5 % in
-  // transmittance on our tests (4 % rate drift per layer). Hence the floors; in transmittance an
-  // offset is mostly absorbed by the gain anyway.
-  const floor = (cal.gain * (own[0].monitor.mode === 'R' ? 0.0015 : 0.02));
+  // drifting or wandering rate biases it, by about 0.1 % of full scale in reflectance on our tests.
   const shift = Math.abs(fit.offset - cal.offset);
-  if (shift <= 3 * fit.sigma || shift <= floor) return { ...cal, offsetSigma: fit.sigma };
+  if (shift <= 3 * fit.sigma || shift <= 0.0015 * cal.gain) return { ...cal, offsetSigma: fit.sigma };
   return {
     ...cal, offset: fit.offset, offsetSigma: fit.sigma, offsetSource: 'fitted',
     gain: (cal.bareLevel - fit.offset) / modelledBare,

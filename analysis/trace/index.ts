@@ -8,5 +8,5 @@ export { fringeSpectrum, type FringeSpectrum, type FringeSpectrumOptions, type S
 export { decimateMinMax } from './decimate';
 export { realFftMagnitude } from './realFftMagnitude';
 export { median, noiseSigma } from './robustStats';
-export { levelSteps, type Level, type LevelStepOptions } from './levelSteps';
+export { levelSteps, longRunSigma, type Level, type LevelStepOptions } from './levelSteps';
 export type { ReadTraceOptions, TraceData, TraceWarning, Segment, Segmentation } from './types';

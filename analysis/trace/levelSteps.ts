@@ -1,4 +1,4 @@
-import { noiseSigma } from './robustStats';
+import { median, noiseSigma } from './robustStats';
 
 /** A stretch of samples at one level, [start, end) within the series given. */
 export interface Level {
@@ -10,9 +10,8 @@ export interface Level {
 
 export interface LevelStepOptions {
   /**
-   * Noise σ of one sample for the penalty, held. When absent it is estimated: σ from second
-   * differences (robustStats.noiseSigma), then, from the residuals about the levels found with
-   * it, the long-run σ of correlated noise (AR(1): σ²·(1 + ρ)/(1 − ρ)), and the search repeated.
+   * Noise σ for the penalty, held. When absent: the long-run σ of the series (longRunSigma), so
+   * that correlated noise (a lock-in, a rotating holder) does not read as steps.
    */
   sigma?: number;
   /**
@@ -35,30 +34,34 @@ export interface LevelStepOptions {
  * still growing after the logged cut) comes out as a staircase of short levels.
  */
 export function levelSteps(y: ArrayLike<number>, options: LevelStepOptions = {}): Level[] {
-  if (options.sigma !== undefined) return search(y, options.sigma, options);
-  const first = search(y, noiseSigma(y), options);
-  const longRun = longRunSigma(y, first);
-  return longRun > 0 ? search(y, longRun, options) : first;
+  return search(y, options.sigma ?? longRunSigma(y), options);
 }
 
 /**
- * Long-run σ of the residuals about the levels, AR(1) model: σ_r²·(1 + ρ)/(1 − ρ), ρ the lag-1
- * autocorrelation (clipped to [0, 0.98]); the variance of a mean of m samples is that over m
- * (e.g. G. E. P. Box, G. M. Jenkins, Time Series Analysis, AR(1) process; from memory).
+ * Long-run σ of the noise (σ of a mean of m samples is this over √m) for an AR(1) model,
+ * σ²·(1 + ρ)/(1 − ρ) (G. E. P. Box, G. M. Jenkins, Time Series Analysis, the AR(1) process;
+ * from memory), from robust scales that a few level steps do not disturb: σ² from the MAD of
+ * differences at a lag beyond the correlation (Var(y[i+k] − y[i]) → 2σ²), ρ from the MAD of
+ * first differences (Var = 2σ²(1 − ρ)). Never below the white σ of second differences.
  */
-function longRunSigma(y: ArrayLike<number>, levels: readonly Level[]): number {
-  let s0 = 0, s1 = 0, count = 0;
-  for (const l of levels) {
-    for (let i = l.start; i < l.end; i++) {
-      const r = y[i] - l.mean;
-      s0 += r * r;
-      count++;
-      if (i > l.start) s1 += r * (y[i - 1] - l.mean);
-    }
-  }
-  if (count < 10 || s0 === 0) return 0;
-  const rho = Math.min(Math.max(s1 / s0, 0), 0.98);
-  return Math.sqrt((s0 / count) * ((1 + rho) / (1 - rho)));
+export function longRunSigma(y: ArrayLike<number>): number {
+  const n = y.length;
+  const white = noiseSigma(y);
+  if (n < 40) return white;
+  // Two or three correlation times of a lock-in (1 s at 10 Hz), few enough to keep steps rare among the differences.
+  const lag = Math.min(25, Math.floor(n / 8));
+  const mad = (k: number) => {
+    const d = new Float64Array(n - k);
+    for (let i = 0; i + k < n; i++) d[i] = y[i + k] - y[i];
+    const m = median(d);
+    for (let i = 0; i < d.length; i++) d[i] = Math.abs(d[i] - m);
+    return 1.4826 * median(d);
+  };
+  const total2 = mad(lag) ** 2 / 2;
+  const first2 = mad(1) ** 2;
+  if (!(total2 > 0)) return white;
+  const rho = Math.min(Math.max(1 - first2 / (2 * total2), 0), 0.98);
+  return Math.max(white, Math.sqrt(total2 * ((1 + rho) / (1 - rho))));
 }
 
 function search(y: ArrayLike<number>, sigma: number, options: LevelStepOptions): Level[] {
