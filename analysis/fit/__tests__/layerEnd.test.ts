@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { stackRT } from '../../../tests/chamber/thinFilm';
+import { stackRT } from '@/tests/chamber/thinFilm';
 import { gaussian } from '../../trace/__tests__/rng';
 import { layerEnd, settledLevelAfter, startCheck } from '../layerEnd';
 
