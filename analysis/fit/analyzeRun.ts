@@ -8,6 +8,7 @@ import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
 import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers';
 import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
+import { layerEnds } from './layerEnd';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
@@ -89,6 +90,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     warnings.push(...refined.warnings);
   }
   const samplesByLayer = gatherLayerSamples(trace, layerSegments);
+  const endLayer = layerEnds(trace, samplesByLayer, warnings);
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }
@@ -150,11 +152,11 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
     const durationS = samples.tauS[n - 1];
     // make() is called again after the pass (final refit), when the layer's state exists.
-    const built: { state?: LayerState } = {};
+    const built: { state?: LayerState; extraS?: number } = {};
     const make = (maxPoints: number): FitLayerData => {
       const sub = subsampleUniform(samples.tauS, 0, n, maxPoints);
       return {
-        optics, nominalAt, tauS: pick(samples.tauS, sub), y: pick(trace.signal, sub, samples.indices), durationS,
+        optics, nominalAt, tauS: pick(samples.tauS, sub), y: pick(trace.signal, sub, samples.indices), durationS: durationS + (built.extraS ?? 0),
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: !held, weight: built.state?.weight ?? 1,
         heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
       };
@@ -191,6 +193,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum,
     };
     built.state = state;
+    built.extraS = endLayer(state, below, noiseFloor.sigma ?? calibration.noiseSigma);
     prior.push(state);
     chipLayers.set(chip, prior);
     states.push(state);

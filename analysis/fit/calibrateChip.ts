@@ -1,4 +1,4 @@
-import { median, noiseSigma } from '../trace';
+import { levelSteps, longRunSigma, median, noiseSigma, type Level } from '../trace';
 
 export interface ChipCalibration {
   chip: number;
@@ -6,14 +6,26 @@ export interface ChipCalibration {
   gain: number;
   /** 1σ of the gain from the noise of the samples it came from (median: √(π/2)·σ/√N). */
   gainSigma: number;
-  /** Detector reading with no light (from dark samples, else an earlier chip's, else 0). */
+  /** Detector reading with no light from the chip (dark level, or stray light fitted). */
   offset: number;
+  /** 1σ of the offset (0 when it was assumed, not measured). */
+  offsetSigma: number;
+  /**
+   * 'dark': from dark samples just before the bare chip; 'fitted': from the chip's layers (no
+   * dark samples); 'earlier-chip': an earlier chip's; 'other-chips': the median of the other
+   * chips' dark readings (this chip's own was missing or disagreed); 'assumed': 0, nothing better known.
+   */
+  offsetSource: 'dark' | 'fitted' | 'earlier-chip' | 'other-chips' | 'assumed';
   /** 'bare-chip': from the idle stretch before the chip's first layer; 'first-layer': from the first layer's start. */
   source: 'bare-chip' | 'first-layer';
   bareSamples: number;
   darkSamples: number;
+  /** Samples of the idle stretch left out as the previous chip's level or a transient. */
+  otherSamples: number;
   /** White-noise σ of the reading, detector units. */
   noiseSigma: number;
+  /** Bare-chip reading (median of the bare stretch), detector units; null from a first layer. */
+  bareLevel: number | null;
   /** Refit mode with a chip-wide gain: the gain at the chip's first layer start, refined by the joint fit. */
   refinedGain?: number;
   refinedGainSigma?: number;
@@ -30,37 +42,101 @@ export interface CalibrationInput {
   firstLayerSignal: ArrayLike<number>;
   /** The model's signal (fraction) of the chip as it is before its first layer (bare chip). */
   modelledBare: number;
-  /** The detector's offset known from an earlier chip, used when this stretch has no dark samples. @default 0 */
+  /** The detector's offset known from an earlier chip, used when this stretch has no dark samples. */
   knownOffset?: number;
+  /**
+   * The reading expected from the previous chip's finished stack (design stack, its calibration),
+   * when this chip replaced another: a low level near it is that chip, not a dark reading.
+   */
+  previousChipLevel?: number;
 }
 
+/** A level counts as dark below this fraction of the bare chip's reading. */
+const DARK_FRACTION = 0.3;
+
 /**
- * Gain and offset of the detector for one chip. Idle samples far below the stretch's upper
- * level (below 30 % of its 90th percentile) are taken as dark readings (lamp or shutter off)
- * and give the offset; the rest give the gain against the modelled bare-chip signal.
+ * Gain and offset of the detector for one chip from the idle stretch before its first layer,
+ * read as a sequence of levels (levelSteps): the last long level before the layer is the bare
+ * new chip; the bottom of a dip far below it (under 30 % of it) is the dark reading while the chips were
+ * exchanged (darkLevels); anything else (the previous chip's last level, the end of its last
+ * layer, the dip's sides) is not this chip's and is left out.
  */
 export function calibrateChip(input: CalibrationInput): ChipCalibration {
   const idle = Float64Array.from(input.idleSignal);
   const { chip, modelledBare } = input;
-  if (idle.length >= 5) {
-    const sorted = Float64Array.from(idle).sort();
-    const upper = sorted[Math.floor(0.9 * (sorted.length - 1))];
-    const dark: number[] = [], bare: number[] = [];
-    for (const v of idle) (v < 0.3 * upper ? dark : bare).push(v);
-    const offset = dark.length >= 5 ? dark.reduce((a, b) => a + b, 0) / dark.length : (input.knownOffset ?? 0);
-    if (bare.length >= 5) {
+  const fallbackOffset = input.knownOffset ?? 0;
+  const offsetSource = input.knownOffset === undefined ? 'assumed' : 'earlier-chip';
+  if (idle.length >= 10) {
+    const sigma = longRunSigma(idle);
+    const levels = levelSteps(idle, { sigma, minLength: 5 });
+    // The bare chip's stretch: the last long level, extended back over levels at the same reading
+    // (lamp drift and slow noise split a long stretch).
+    const last = bareLevelIndex(levels);
+    const same = Math.max(5 * sigma, 0.003 * Math.abs(levels[last].mean));
+    let first = last;
+    while (first > 0 && Math.abs(levels[first - 1].mean - levels[last].mean) < same) first--;
+    const bare = { start: levels[first].start, end: levels[last].end, mean: levels[last].mean };
+    const bareCount = bare.end - bare.start;
+    if (bareCount >= 5 && bare.mean > 0) {
+      const dark = darkLevels(idle, levels.slice(0, first + 1), noiseSigma(idle.subarray(bare.start, bare.end)), input);
+      const darkCount = dark.reduce((a, l) => a + l.end - l.start, 0);
+      const offset = dark.length ? dark.reduce((a, l) => a + l.mean * (l.end - l.start), 0) / darkCount : fallbackOffset;
+      const bareSignal = idle.subarray(bare.start, bare.end);
+      const bareLevel = median(bareSignal);
+      const s = noiseSigma(bareSignal);
       return {
-        chip, gain: (median(bare) - offset) / modelledBare, offset, source: 'bare-chip',
-        gainSigma: (1.2533 * noiseSigma(bare)) / Math.sqrt(bare.length) / modelledBare,
-        bareSamples: bare.length, darkSamples: dark.length >= 5 ? dark.length : 0, noiseSigma: noiseSigma(bare),
+        chip, gain: (bareLevel - offset) / modelledBare, offset, offsetSource: dark.length ? 'dark' : offsetSource,
+        offsetSigma: dark.length ? longRunSigma(idle.subarray(bare.start, bare.end)) / Math.sqrt(darkCount) : 0,
+        gainSigma: (1.2533 * s) / Math.sqrt(bareCount) / modelledBare, source: 'bare-chip',
+        bareSamples: bareCount, darkSamples: darkCount, otherSamples: idle.length - bareCount - darkCount, noiseSigma: s, bareLevel,
       };
     }
   }
   const first = Float64Array.from(input.firstLayerSignal);
   if (first.length === 0) throw new RangeError(`chip ${chip}: no samples to calibrate the gain from`);
   return {
-    chip, gain: (median(first) - (input.knownOffset ?? 0)) / modelledBare, offset: input.knownOffset ?? 0, source: 'first-layer',
+    chip, gain: (median(first) - fallbackOffset) / modelledBare, offset: fallbackOffset, offsetSigma: 0, offsetSource, source: 'first-layer',
     gainSigma: (1.2533 * noiseSigma(first)) / Math.sqrt(first.length) / modelledBare,
-    bareSamples: 0, darkSamples: 0, noiseSigma: noiseSigma(first),
+    bareSamples: 0, darkSamples: 0, otherSamples: idle.length, noiseSigma: noiseSigma(first), bareLevel: null,
   };
+}
+
+/** Samples a level needs to be taken as the bare chip (2 s at 10 Hz) when there is a choice. */
+const MIN_BARE = 20;
+
+/**
+ * The bare chip's level: the last one of at least MIN_BARE samples (or a quarter of the stretch),
+ * so that a short trailing step (the layer's first growth, when its start is placed late) is not
+ * taken for it; else the longest.
+ */
+function bareLevelIndex(levels: readonly Level[]): number {
+  const total = levels[levels.length - 1].end - levels[0].start;
+  const need = Math.min(MIN_BARE, Math.ceil(total / 4));
+  for (let i = levels.length - 1; i >= 0; i--) if (levels[i].end - levels[i].start >= need) return i;
+  let longest = 0;
+  levels.forEach((l, i) => { if (l.end - l.start > levels[longest].end - levels[longest].start) longest = i; });
+  return longest;
+}
+
+/**
+ * The dark reading before the bare chip: while the chips are exchanged the holder blocks the
+ * beam for a moment, a dip between the previous chip's level and the bare chip's, with sloping
+ * sides. The lowest level far below the bare chip (under 30 % of it) is that dip, unless it sits
+ * nearer the previous chip's expected reading than the known offset; the dip is split again
+ * finely and its flat bottom (the lowest level of at least 3 samples) is the dark reading.
+ */
+function darkLevels(idle: Float64Array, levels: readonly Level[], sigma: number, input: CalibrationInput): Level[] {
+  const bare = levels[levels.length - 1].mean;
+  let lowest: Level | null = null;
+  for (const l of levels.slice(0, -1)) if (l.mean < DARK_FRACTION * bare && (!lowest || l.mean < lowest.mean)) lowest = l;
+  if (!lowest) return [];
+  if (input.previousChipLevel !== undefined) {
+    const ref = input.knownOffset ?? 0;
+    if (Math.abs(lowest.mean - input.previousChipLevel) < Math.abs(lowest.mean - ref)) return [];
+  }
+  const from = Math.max(0, lowest.start - 3), to = Math.min(idle.length, lowest.end + 3);
+  const fine = levelSteps(idle.subarray(from, to), { sigma, minLength: 3 });
+  let bottom: Level | null = null;
+  for (const l of fine) if (l.end - l.start >= 3 && (!bottom || l.mean < bottom.mean)) bottom = l;
+  return bottom ? [{ start: from + bottom.start, end: from + bottom.end, mean: bottom.mean }] : [];
 }

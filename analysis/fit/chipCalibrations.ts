@@ -4,7 +4,10 @@ import { fromNK, growingLayerSignal } from '../optics';
 import { linearTrend } from '../stats';
 import { type TraceData } from '../trace';
 import { calibrateChip, type ChipCalibration } from './calibrateChip';
+import { fitChipOffset } from './chipOffset';
+import { type FitLayerData } from './layerModel';
 import { type LayerSamples } from './layerSamples';
+import { subsampleUniform } from './subsample';
 
 export interface ChipStart {
   calibration: ChipCalibration;
@@ -16,57 +19,161 @@ export interface ChipStart {
 }
 
 /**
- * Calibrates every chip at its first layer (layers in deposition order): the idle samples between
- * the previous layer of any chip and this one, against the modelled bare chip.
+ * Calibrates every chip at its first layer (layers in deposition order) from the idle samples
+ * between the previous layer of any chip and this one, read as levels (calibrateChip): the
+ * previous chip's last level is told from a dark reading by the reading its finished design
+ * stack should give. A chip with no dark samples gets its offset (stray light) fitted from its
+ * first layers (fitChipOffset), with σ and a warning when the data do not pin it down.
  */
 export function calibrateChips(
   design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>, warnings: string[],
+  fitOffset = true,
 ): Map<number, ChipStart> {
   const chips = new Map<number, ChipStart>();
   const ends = [...samplesByLayer.values()].map((s) => s.indices[s.indices.length - 1]).sort((a, b) => a - b);
   let lastOffset: number | undefined;
+  let previous: DesignLayer | null = null;
   for (const dl of order) {
     const samples = samplesByLayer.get(dl.layer)!;
+    const before = previous;
+    previous = dl;
     if (chips.has(samples.chip)) continue;
     const first = samples.indices[0];
     let idleFrom = 0;
     for (const e of ends) if (e < first) idleFrom = e + 1;
-    const wl = dl.monitor.wavelengthNm;
-    const modelledBare = growingLayerSignal({
-      ambient: indexAt(design.ambient, wl), substrate: indexAt(design.substrate, wl), below: [], growing: fromNK(1),
-      wavelengthNm: wl, mode: dl.monitor.mode, backside: design.substrateBackside, pol: 's',
-    }, [0])[0];
+    const modelledBare = chipSignal(design, dl, []);
+    const prevChip = before ? samplesByLayer.get(before.layer)!.chip : null;
+    const prevCal = prevChip !== null ? chips.get(prevChip)?.calibration : undefined;
+    const previousChipLevel = before && prevCal
+      ? prevCal.gain * chipSignal(design, before, design.layers.filter((l) => l.monitor.chip === before.monitor.chip && l.layer <= before.layer)) + prevCal.offset
+      : undefined;
     const firstCount = Math.min(samples.indices.length, 20);
-    const calibration = calibrateChip({
-      chip: samples.chip, modelledBare, knownOffset: lastOffset,
+    let calibration = calibrateChip({
+      chip: samples.chip, modelledBare, knownOffset: lastOffset, previousChipLevel,
       idleSignal: trace.signal.subarray(idleFrom, first),
       firstLayerSignal: Float64Array.from({ length: firstCount }, (_, i) => trace.signal[samples.indices[i]]),
     });
     if (calibration.source === 'first-layer') warnings.push(`chip ${samples.chip}: no bare-chip stretch before layer ${dl.layer}; gain taken from the layer's first samples`);
+    if (fitOffset && calibration.source === 'bare-chip' && calibration.offsetSource !== 'dark') {
+      calibration = withFittedOffset(design, trace, order, samplesByLayer, calibration, modelledBare, warnings);
+    }
     lastOffset = calibration.offset;
-    chips.set(samples.chip, { calibration, startS: samples.startTimeS, wavelengthNm: wl, mode: dl.monitor.mode });
+    chips.set(samples.chip, { calibration, startS: samples.startTimeS, wavelengthNm: dl.monitor.wavelengthNm, mode: dl.monitor.mode });
   }
+  shareDarkReadings(chips, warnings);
   return chips;
+}
+
+/**
+ * The dark reading (with the stray light while the beam is blocked) belongs to the detector,
+ * not the chip: with two or more chips' dark readings, their median serves the chips that had
+ * none (or only an assumed or inherited one), and replaces a reading that disagrees with it by
+ * more than 5σ and 0.1 % of full scale (a dip caught on its slope or a spike), with a warning.
+ */
+function shareDarkReadings(chips: Map<number, ChipStart>, warnings: string[]): void {
+  const dark = [...chips.values()].map((c) => c.calibration).filter((c) => c.offsetSource === 'dark');
+  if (dark.length < 2) return;
+  const offsets = dark.map((c) => c.offset).sort((a, b) => a - b);
+  const mid = offsets.length >> 1;
+  const med = offsets.length % 2 ? offsets[mid] : 0.5 * (offsets[mid - 1] + offsets[mid]);
+  const sigma = Math.sqrt(dark.reduce((a, c) => a + c.offsetSigma ** 2, 0) / dark.length) / Math.sqrt(dark.length);
+  for (const [chip, start] of chips) {
+    const c = start.calibration;
+    if (c.offsetSource === 'fitted' || c.bareLevel === null) continue;
+    const odd = c.offsetSource === 'dark' && Math.abs(c.offset - med) > 5 * Math.hypot(c.offsetSigma, sigma) + 0.001 * c.gain;
+    if (c.offsetSource === 'dark' && !odd) continue;
+    if (odd) warnings.push(`chip ${chip}: its dark reading ${c.offset.toFixed(4)} disagrees with the other chips' (median ${med.toFixed(4)}); the median used`);
+    const m0 = (c.bareLevel - c.offset) / c.gain;
+    chips.set(chip, { ...start, calibration: { ...c, offset: med, offsetSigma: sigma, offsetSource: 'other-chips', gain: (c.bareLevel - med) / m0 } });
+  }
+}
+
+/** The modelled signal (fraction) of a chip carrying `stack` (design thicknesses, nominal indices) at dl's monitor wavelength. */
+function chipSignal(design: Design, dl: DesignLayer, stack: readonly DesignLayer[]): number {
+  const wl = dl.monitor.wavelengthNm;
+  return growingLayerSignal({
+    ambient: indexAt(design.ambient, wl), substrate: indexAt(design.substrate, wl), growing: fromNK(1),
+    below: stack.map((l) => ({ n: indexAt(design.materials[l.material], wl), thicknessNm: l.thicknessNm })),
+    wavelengthNm: wl, mode: dl.monitor.mode, backside: design.substrateBackside, pol: 's',
+  }, [0])[0];
+}
+
+/** Layers the offset fit uses: the chip's first ones. */
+const OFFSET_FIT_LAYERS = 3;
+/** Samples per layer in the offset fit. */
+const OFFSET_FIT_POINTS = 100;
+
+function withFittedOffset(
+  design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>,
+  cal: ChipCalibration, modelledBare: number, warnings: string[],
+): ChipCalibration {
+  const own = order.filter((l) => samplesByLayer.get(l.layer)!.chip === cal.chip && samplesByLayer.get(l.layer)!.tauS.length >= 20).slice(0, OFFSET_FIT_LAYERS);
+  // In transmittance the chip's first layers (high readings) cannot tell an offset from the gain
+  // (σ of 0.3–1 % of full scale on our tests, and biased by rate drift): not attempted.
+  if (own.length === 0 || cal.bareLevel === null || own[0].monitor.mode === 'T') return cal;
+  const layers = own.map((dl) => offsetFitData(design, trace, dl, samplesByLayer.get(dl.layer)!));
+  const fit = fitChipOffset({
+    layers, bareLevel: cal.bareLevel, modelledBare, startOffset: cal.offset,
+    rateGuess: own.map((dl, j) => dl.thicknessNm / Math.max(layers[j].durationS, 1e-9)),
+  });
+  const scale = Math.abs(cal.bareLevel);
+  const firstLayer = own[0].layer;
+  if (!(fit.sigma < 0.01 * scale)) {
+    warnings.push(`chip ${cal.chip}: no dark samples before layer ${firstLayer}, and its layers do not determine a detector offset (σ ${fmt(fit.sigma / scale)} % of the bare reading); ${cal.offsetSource === 'assumed' ? 'offset taken as 0' : "an earlier chip's offset used"}: thicknesses may carry a bias`);
+    return { ...cal, offsetSigma: Number.isFinite(fit.sigma) ? fit.sigma : 0 };
+  }
+  // Keep the assumed offset unless the layers show a clearly different one. The profile holds
+  // the rate constant within each layer (a free rate drift makes the offset undetermined), so a
+  // drifting or wandering rate biases it, by about 0.1 % of full scale in reflectance on our tests.
+  const shift = Math.abs(fit.offset - cal.offset);
+  if (shift <= 3 * fit.sigma || shift <= 0.0015 * cal.gain) return { ...cal, offsetSigma: fit.sigma };
+  return {
+    ...cal, offset: fit.offset, offsetSigma: fit.sigma, offsetSource: 'fitted',
+    gain: (cal.bareLevel - fit.offset) / modelledBare,
+  };
+}
+
+const fmt = (x: number) => (100 * x).toFixed(2);
+
+/** One layer's samples (at most OFFSET_FIT_POINTS) for the offset fit: index free above half a quarter-wave, no rate drift. */
+function offsetFitData(design: Design, trace: TraceData, dl: DesignLayer, s: LayerSamples): FitLayerData {
+  const wl = dl.monitor.wavelengthNm;
+  const model = design.materials[dl.material];
+  const nominal = indexAt(model, wl);
+  const n = s.tauS.length;
+  const sub = subsampleUniform(s.tauS, 0, n, OFFSET_FIT_POINTS);
+  const thin = (4 * nominal.re * dl.thicknessNm) / wl < 0.5;
+  return {
+    optics: { ambient: indexAt(design.ambient, wl), substrate: indexAt(design.substrate, wl), backside: design.substrateBackside, wavelengthNm: wl, mode: dl.monitor.mode },
+    nominalAt: (w) => indexAt(model, w), tauS: Float64Array.from(sub, (k) => s.tauS[k]), y: Float64Array.from(sub, (k) => trace.signal[s.indices[k]]),
+    durationS: s.tauS[n - 1], extinction: -nominal.im, heldIndex: thin ? nominal.re : null, fitDrift: false, heldGain: null, chipTimeS: 0,
+  };
 }
 
 /**
  * The detector's gain drift from the bare-chip calibrations of successive chips (every fresh
  * chip reads the same bare substrate): a linear trend of gain against time, as a fraction per
- * second of the mean gain. Null with fewer than two bare-chip calibrations, or when they were
- * taken at different monitor wavelengths or modes (the gains are then not comparable).
+ * second of the mean gain. Only where the data can carry it: three or more bare-chip
+ * calibrations at one monitor wavelength and mode (two chips cannot tell a drift from a
+ * difference between the chips, so the scatter about the line must be seen), each gain's σ
+ * including its offset's (σ_g² + (σ_o/M₀)², M₀ = (B − o)/g). Null otherwise.
  */
 export function gainDriftFromChips(chips: ReadonlyMap<number, ChipStart>): { driftPerS: number; sigmaPerS: number; chips: number } | null {
   const bare = [...chips.values()].filter((c) => c.calibration.source === 'bare-chip');
-  if (bare.length < 2) return null;
+  if (bare.length < 3) return null;
   if (bare.some((c) => c.wavelengthNm !== bare[0].wavelengthNm || c.mode !== bare[0].mode)) return null;
   const gains = bare.map((c) => c.calibration.gain);
   const mean = gains.reduce((a, b) => a + b, 0) / gains.length;
   const times = bare.map((c) => c.startS);
   const trend = linearTrend(times, gains);
-  // σ of the slope from the calibrations' own σ (the scatter about the line needs > 2 chips).
-  const tMean = times.reduce((a, b) => a + b, 0) / times.length;
+  const gainVar = (c: ChipCalibration) => {
+    const m0 = ((c.bareLevel ?? c.offset) - c.offset) / c.gain;
+    return c.gainSigma ** 2 + (m0 > 0 ? (c.offsetSigma / m0) ** 2 : 0);
+  };
+  // σ of the slope: the larger of the scatter about the line and the calibrations' own σ.
+  const tMean = times.reduce((a, t) => a + t, 0) / times.length;
   const sxx = times.reduce((a, t) => a + (t - tMean) ** 2, 0);
-  const fromNoise = Math.sqrt(bare.reduce((a, c, i) => a + ((times[i] - tMean) / sxx) ** 2 * c.calibration.gainSigma ** 2, 0));
+  const fromNoise = Math.sqrt(bare.reduce((a, c, i) => a + ((times[i] - tMean) / sxx) ** 2 * gainVar(c.calibration), 0));
   const sigma = Number.isFinite(trend.slopeSigma) ? Math.max(trend.slopeSigma, fromNoise) : fromNoise;
   return { driftPerS: trend.slope / mean, sigmaPerS: sigma / mean, chips: bare.length };
 }

@@ -1,0 +1,47 @@
+import { describe, expect, it } from 'vitest';
+import { analyzeRun, type AnalysisResult } from '..';
+import { type SynthRun } from '../../synth';
+import { mirror18, synthTrace } from './scenarios';
+
+/** The 18-layer mirror monitored in reflectance (bare fused silica, both faces: R ≈ 6.7 %). */
+function mirrorR() {
+  const d = mirror18();
+  for (const l of d.layers) l.monitor.mode = 'R';
+  return d;
+}
+
+const rmsThicknessPct = (r: AnalysisResult, run: SynthRun) =>
+  Math.sqrt(r.layers.reduce((a, l) => a + ((l.thicknessNm / run.truth[l.layer - 1].thicknessNm - 1) * 100) ** 2, 0) / r.layers.length);
+
+describe('chip calibration without dark samples', () => {
+  it('fits a stray-light offset of 0.5 % of full scale in reflectance, with σ, and the thicknesses come close to a run with dark samples', async () => {
+    const design = mirrorR();
+    const { run, trace } = await synthTrace(design, { seed: 41, offset: 0.005 });
+    const result = await analyzeRun(design, trace);
+    const c = result.chips[0];
+    expect(c.offsetSource).toBe('fitted');
+    // The profile holds each layer's rate constant: allow 3σ and a small bias.
+    expect(Math.abs(c.offset - 0.005)).toBeLessThan(3 * c.offsetSigma + 3e-4);
+    expect(c.offsetSigma).toBeGreaterThan(0);
+    expect(c.offsetSigma).toBeLessThan(0.001);
+    // The same run with 10 s of dark samples at the start (offset measured, not fitted).
+    const { run: withDark, trace: darkTrace } = await synthTrace(design, { seed: 41, offset: 0.005, darkS: 10 });
+    const reference = await analyzeRun(design, darkTrace);
+    expect(reference.chips[0].offsetSource).toBe('dark');
+    const fitted = rmsThicknessPct(result, run), measured = rmsThicknessPct(reference, withDark);
+    console.log(`reflectance mirror, 0.5 % offset: RMS thickness error ${fitted.toFixed(2)} % (offset fitted) vs ${measured.toFixed(2)} % (dark samples)`);
+    expect(fitted).toBeLessThan(2.5 * measured + 0.2);
+    expect(fitted).toBeLessThan(1.5);
+  });
+
+  it('keeps a zero offset when the layers show none, and reports how well it is known', async () => {
+    const design = mirrorR();
+    const { trace } = await synthTrace(design, { seed: 42 });
+    const result = await analyzeRun(design, trace);
+    for (const c of result.chips) {
+      expect(c.offset).toBe(0);
+      expect(c.offsetSource === 'assumed' || c.offsetSource === 'earlier-chip').toBe(true);
+      expect(c.offsetSigma).toBeGreaterThan(0);
+    }
+  });
+});

@@ -1,0 +1,115 @@
+import { median, noiseSigma } from './robustStats';
+
+/** A stretch of samples at one level, [start, end) within the series given. */
+export interface Level {
+  start: number;
+  /** Exclusive. */
+  end: number;
+  mean: number;
+}
+
+export interface LevelStepOptions {
+  /**
+   * Noise σ for the penalty, held. When absent: the long-run σ of the series (longRunSigma), so
+   * that correlated noise (a lock-in, a rotating holder) does not read as steps.
+   */
+  sigma?: number;
+  /**
+   * Penalty per change point, in units of σ²·ln n. 2 is the Schwarz (BIC) choice for a mean
+   * shift of known σ; the default is larger for margin against spikes and slow wander. @default 6
+   */
+  penalty?: number;
+  /** Fewest samples in a level. @default 5 */
+  minLength?: number;
+  /** Adjacent levels closer than this (absolute) are merged after the search. @default 0 */
+  mergeBelow?: number;
+}
+
+/**
+ * Piecewise-constant levels of a series by binary segmentation (A. J. Scott and M. Knott,
+ * Biometrics 30, 507–512 (1974); the penalised-cost form as reviewed by R. Killick, P. Fearnhead
+ * and I. A. Eckley, "Optimal detection of changepoints with a linear computational cost",
+ * J. Am. Stat. Assoc. 107, 1590–1598 (2012)): the split that lowers the squared-error cost most
+ * is kept while the gain exceeds penalty·σ²·ln n, recursively on both sides. A ramp (a layer
+ * still growing after the logged cut) comes out as a staircase of short levels.
+ */
+export function levelSteps(y: ArrayLike<number>, options: LevelStepOptions = {}): Level[] {
+  return search(y, options.sigma ?? longRunSigma(y), options);
+}
+
+/**
+ * Long-run σ of the noise (σ of a mean of m samples is this over √m) for an AR(1) model,
+ * σ²·(1 + ρ)/(1 − ρ) (G. E. P. Box, G. M. Jenkins, Time Series Analysis, the AR(1) process;
+ * from memory), from robust scales that a few level steps do not disturb: σ² from the MAD of
+ * differences at a lag beyond the correlation (Var(y[i+k] − y[i]) → 2σ²), ρ from the MAD of
+ * first differences (Var = 2σ²(1 − ρ)). Never below the white σ of second differences.
+ */
+export function longRunSigma(y: ArrayLike<number>): number {
+  const n = y.length;
+  const white = noiseSigma(y);
+  if (n < 40) return white;
+  // Two or three correlation times of a lock-in (1 s at 10 Hz), few enough to keep steps rare among the differences.
+  const lag = Math.min(25, Math.floor(n / 8));
+  const mad = (k: number) => {
+    const d = new Float64Array(n - k);
+    for (let i = 0; i + k < n; i++) d[i] = y[i + k] - y[i];
+    const m = median(d);
+    for (let i = 0; i < d.length; i++) d[i] = Math.abs(d[i] - m);
+    return 1.4826 * median(d);
+  };
+  const total2 = mad(lag) ** 2 / 2;
+  const first2 = mad(1) ** 2;
+  if (!(total2 > 0)) return white;
+  const rho = Math.min(Math.max(1 - first2 / (2 * total2), 0), 0.98);
+  return Math.max(white, Math.sqrt(total2 * ((1 + rho) / (1 - rho))));
+}
+
+function search(y: ArrayLike<number>, sigma: number, options: LevelStepOptions): Level[] {
+  const n = y.length;
+  if (n === 0) return [];
+  const minLength = Math.max(1, options.minLength ?? 5);
+  const cs = new Float64Array(n + 1), cs2 = new Float64Array(n + 1);
+  for (let i = 0; i < n; i++) {
+    cs[i + 1] = cs[i] + y[i];
+    cs2[i + 1] = cs2[i] + y[i] * y[i];
+  }
+  const cost = (a: number, b: number) => cs2[b] - cs2[a] - (cs[b] - cs[a]) ** 2 / (b - a);
+  // A floor on σ keeps a noiseless series from splitting at rounding error.
+  const scale = Math.max(sigma, 1e-9 * (Math.abs(cs[n] / n) + 1));
+  const beta = (options.penalty ?? 6) * scale * scale * Math.log(Math.max(n, 3));
+  const cuts: number[] = [];
+  const stack: [number, number][] = [[0, n]];
+  while (stack.length) {
+    const [a, b] = stack.pop()!;
+    if (b - a < 2 * minLength) continue;
+    const whole = cost(a, b);
+    let best = -1, bestGain = beta;
+    for (let c = a + minLength; c <= b - minLength; c++) {
+      const gain = whole - cost(a, c) - cost(c, b);
+      if (gain > bestGain) [best, bestGain] = [c, gain];
+    }
+    if (best < 0) continue;
+    cuts.push(best);
+    stack.push([a, best], [best, b]);
+  }
+  cuts.sort((p, q) => p - q);
+  const bounds = [0, ...cuts, n];
+  let levels: Level[] = [];
+  for (let i = 0; i + 1 < bounds.length; i++) {
+    const [a, b] = [bounds[i], bounds[i + 1]];
+    levels.push({ start: a, end: b, mean: (cs[b] - cs[a]) / (b - a) });
+  }
+  const merge = options.mergeBelow ?? 0;
+  if (merge > 0) {
+    const out: Level[] = [];
+    for (const l of levels) {
+      const last = out[out.length - 1];
+      if (last && Math.abs(last.mean - l.mean) < merge) {
+        last.mean = (cs[l.end] - cs[last.start]) / (l.end - last.start);
+        last.end = l.end;
+      } else out.push({ ...l });
+    }
+    levels = out;
+  }
+  return levels;
+}
