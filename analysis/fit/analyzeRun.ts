@@ -256,7 +256,7 @@ export function refitChip(
 ): JointFitResult['sharedGain'] {
   const joint = fitLayers(
     { fixedBelow: [], layers: data, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) },
-    final ? {} : { maxRounds: 2 },
+    final ? {} : { maxIterations: 4 },
   );
   if (chipGain && joint.sharedGain) {
     chipGain.gain = joint.sharedGain.gain;

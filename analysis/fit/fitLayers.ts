@@ -96,6 +96,16 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
     pos += l.y.length;
   }
   const width = total + priors.length;
+  // Block structure: a layer's parameters touch its own samples and the later layers' (and a
+  // prior's row at the end); a per-layer gain without a prior only its own samples.
+  const rowStart = new Int32Array(layout.count), rowEnd = new Int32Array(layout.count).fill(width);
+  pos = 0;
+  layers.forEach((l, j) => {
+    const next = j + 1 < layers.length ? layout.offsets[j + 1] : shared ? layout.shared : layout.count;
+    for (let k = layout.offsets[j]; k < next; k++) rowStart[k] = pos;
+    if (!shared && l.heldGain === null && !priors.some((q) => q.param === next - 1)) rowEnd[next - 1] = pos + l.y.length;
+    pos += l.y.length;
+  });
   const solver = leastSquares(
     {
       y,
@@ -115,8 +125,9 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
       scale,
       min,
       max,
+      columnRows: { start: rowStart, end: rowEnd },
     },
-    options,
+    { robust: true, ...options },
   );
   const np = layout.count;
   const cov = (a: number, b: number) => (a < 0 || b < 0 ? 0 : solver.covariance[a * np + b]);
