@@ -32,8 +32,18 @@ export interface AnalyzeOptions {
    * (with any known drift), σ as a fraction of the gain; 0 leaves the gains free. @default 0.005
    */
   gainPriorFraction?: number;
-  /** Layers below this many quarter-waves at the monitor wavelength get a held index. @default 0.5 */
+  /**
+   * Layers below this many quarter-waves at the monitor wavelength get a free trial fit, and
+   * their index is held when that fit cannot separate it from the thickness (heldIndexCorrelation,
+   * heldIndexSigma). @default 0.9
+   */
   thinLayerQwot?: number;
+  /** A thin layer's index is held when its trial fit's index–thickness |correlation| exceeds this. @default 0.99 */
+  heldIndexCorrelation?: number;
+  /** Huber's loss in every fit, so spikes and outliers count less (see fit/solver/huber.ts). @default true */
+  robustLoss?: boolean;
+  /** …or when its trial fit's index σ exceeds this. @default 0.05 */
+  heldIndexSigma?: number;
   /** The index a thin layer is held at: the nominal, or this run's drift estimate. @default 'run-drift' */
   heldIndex?: 'nominal' | 'run-drift';
   /**

@@ -1,2 +1,3 @@
 export * from './linearTrend';
 export * from './indexDrift';
+export * from './correlatedNoise';
