@@ -1,7 +1,9 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { designSpectrum, designStackAt, layersOnChipBelow, monitorCurve, parseDesign, spectrumOfStack, wavelengthGrid } from '..';
-import { fromNK, stackResponse } from '../../optics';
+import { fromNK } from '../../optics';
+import { dispersion, type ChamberMaterial } from '@/tests/chamber/design';
+import { stackRT } from '@/tests/chamber/thinFilm';
 
 const load = (name: string) => parseDesign(JSON.parse(readFileSync(new URL(`./fixtures/${name}`, import.meta.url), 'utf8')), name);
 
@@ -42,13 +44,14 @@ describe('designStackAt', () => {
 
 describe('designSpectrum', () => {
   const d = load('ar4-visible.json');
-  it('matches stackResponse with the design backside at every wavelength', () => {
+  it('matches the chamber simulator\'s own optics and dispersion (tests/chamber, no shared code) with the design backside', () => {
     const sp = designSpectrum(d, { fromNm: 420, toNm: 780, stepNm: 20 });
     expect(Array.from(sp.wavelengthNm)).toEqual(Array.from({ length: 19 }, (_, i) => 420 + 20 * i));
     sp.wavelengthNm.forEach((wl, i) => {
-      const r = stackResponse(designStackAt(d, wl), wl, { backside: true });
-      expect(sp.R[i]).toBe(r.R);
-      expect(sp.T[i]).toBe(r.T);
+      const layers = d.layers.map((l) => ({ ...dispersion(d.materials[l.material] as ChamberMaterial, wl), thicknessNm: l.thicknessNm }));
+      const r = stackRT(layers, wl, { ambient: 1, substrate: dispersion(d.substrate as ChamberMaterial, wl).n, backside: true });
+      expect(sp.R[i]).toBeCloseTo(r.R, 12);
+      expect(sp.T[i]).toBeCloseTo(r.T, 12);
       expect(sp.R[i] + sp.T[i]).toBeCloseTo(1, 12);
     });
   });
@@ -75,15 +78,15 @@ describe('designSpectrum', () => {
 });
 
 describe('monitorCurve', () => {
-  it('equals the full stack of the chip at each thickness, including a returning chip', () => {
+  it('equals the full stack of the chip at each thickness (chamber simulator optics, no shared code), including a returning chip', () => {
     const d = load('hl7-reflector.json');
     const ts = [0, 20, 50, 67.3];
     for (const layerNo of [1, 5, 6, 7]) {
       const curve = monitorCurve(d, layerNo, ts);
       const below = layersOnChipBelow(d, layerNo);
       ts.forEach((t, i) => {
-        const layers = [...below.map((l) => ({ n: fromNK(d.materials[l.material].model === 'constant' ? (d.materials[l.material] as { n: number }).n : 0), thicknessNm: l.thicknessNm })), { n: fromNK(layerNo % 2 ? 2.35 : 1.46), thicknessNm: t }];
-        expect(curve[i]).toBeCloseTo(stackResponse({ ambient: fromNK(1), substrate: fromNK(1.52), layers }, 633).R, 12);
+        const layers = [...below.map((l) => ({ n: (d.materials[l.material] as { n: number }).n, k: 0, thicknessNm: l.thicknessNm })), { n: layerNo % 2 ? 2.35 : 1.46, k: 0, thicknessNm: t }];
+        expect(curve[i]).toBeCloseTo(stackRT(layers, 633, { ambient: 1, substrate: 1.52, backside: false }).R, 12);
       });
     }
   });
@@ -94,7 +97,7 @@ describe('monitorCurve', () => {
   it('overrides replace the stack below and the growing index', () => {
     const d = load('ar4-visible.json');
     const a = monitorCurve(d, 2, [10, 20], { belowOverride: [{ n: fromNK(2.0), thicknessNm: 15 }], growingIndex: fromNK(1.45) });
-    const s = (t: number) => stackResponse({ ambient: fromNK(1), substrate: fromNK(1.52), layers: [{ n: fromNK(2.0), thicknessNm: 15 }, { n: fromNK(1.45), thicknessNm: t }] }, 550, { backside: true }).T;
+    const s = (t: number) => stackRT([{ n: 2.0, k: 0, thicknessNm: 15 }, { n: 1.45, k: 0, thicknessNm: t }], 550, { ambient: 1, substrate: 1.52, backside: true }).T;
     expect(a[0]).toBeCloseTo(s(10), 12);
     expect(a[1]).toBeCloseTo(s(20), 12);
   });

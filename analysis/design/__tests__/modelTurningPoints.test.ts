@@ -1,9 +1,11 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { modelTurningPoints } from '..';
-import { fromNK, growingLayerSignal } from '../../optics';
+import { fromNK } from '../../optics';
+import { growingCurve } from '@/tests/chamber/chipStacks';
+import { stackMatrices } from '@/tests/chamber/thinFilm';
 
-describe('modelTurningPoints (property test against a dense brute-force scan)', () => {
+describe('modelTurningPoints (property test against a dense brute-force scan of independent optics)', () => {
   it('finds every extremum of random absorbing stacks, in order, with the right kind', () => {
     const layer = fc.record({ n: fc.double({ min: 1.3, max: 2.6, noNaN: true }), k: fc.double({ min: 0, max: 0.05, noNaN: true }), d: fc.double({ min: 5, max: 200, noNaN: true }) });
     fc.assert(
@@ -15,7 +17,10 @@ describe('modelTurningPoints (property test against a dense brute-force scan)', 
         const found = modelTurningPoints(spec, 0, toNm);
         const n = 200_001;
         const grid = Float64Array.from({ length: n }, (_, i) => (toNm * i) / (n - 1));
-        const y = growingLayerSignal(spec, grid);
+        // the scan uses the chamber simulator's optics (tests/chamber), which share no code with modelTurningPoints
+        const media = { ambient: 1, substrate: 1.52, backside };
+        const stack = stackMatrices(below.map((l) => ({ n: l.n, k: l.k, thicknessNm: l.d })), 600);
+        const y = growingCurve(stack, media, mode, grow.n, grow.k, 600, grid);
         const brute: { d: number; kind: string }[] = [];
         for (let i = 1; i < n - 1; i++) {
           if (y[i] > y[i - 1] && y[i] >= y[i + 1]) brute.push({ d: grid[i], kind: 'max' });

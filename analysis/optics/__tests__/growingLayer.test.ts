@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { fromNK, growingLayerSignal, stackResponse, type LayerAt } from '..';
+import { stackRT } from '@/tests/chamber/thinFilm';
 
 const air = fromNK(1);
 const glass = fromNK(1.52);
@@ -23,6 +24,12 @@ describe('growingLayerSignal', () => {
               { backside, angleDeg },
             );
             expect(curve[i]).toBeCloseTo(mode === 'T' ? full.T : full.R, 12);
+            if (angleDeg === 0) {
+              // and against optics that share no code with analysis/ (the chamber simulator's, tests/chamber)
+              const layers = [...below, { n: spec.growing, thicknessNm: d }].map((l) => ({ n: l.n.re, k: -l.n.im, thicknessNm: l.thicknessNm }));
+              const own = stackRT(layers, 550, { ambient: 1, substrate: 1.52, backside });
+              expect(curve[i]).toBeCloseTo(mode === 'T' ? own.T : own.R, 12);
+            }
           });
         }
       }

@@ -1,0 +1,62 @@
+import { growingCurve } from './chipStacks';
+import { type Mat, type Media } from './thinFilm';
+
+const STEPS = 3000;
+
+interface CurveInput {
+  below: { forward: Mat; reverse: Mat };
+  media: Media;
+  mode: 'R' | 'T';
+  n: number;
+  k: number;
+  wavelengthNm: number;
+}
+
+function grid(dMax: number): Float64Array {
+  return Float64Array.from({ length: STEPS + 1 }, (_, i) => (i * dMax) / STEPS);
+}
+
+/**
+ * Turning-point cut: the thickness of the true curve's extremum nearest the design thickness
+ * (the controller cuts on the turning point it sees, not on the design's).
+ */
+export function turningPointThickness(truth: CurveInput, designNm: number): number {
+  const d = grid(1.6 * designNm);
+  const s = growingCurve(truth.below, truth.media, truth.mode, truth.n, truth.k, truth.wavelengthNm, d);
+  let best = designNm, bestGap = Infinity;
+  for (let i = 1; i < STEPS; i++) {
+    const extremum = (s[i] - s[i - 1]) * (s[i + 1] - s[i]) <= 0 && s[i + 1] !== s[i - 1];
+    if (!extremum) continue;
+    // refine by the parabola through three points
+    const den = s[i - 1] - 2 * s[i] + s[i + 1];
+    const at = d[i] + (den === 0 ? 0 : (0.5 * (s[i - 1] - s[i + 1]) * (d[1] - d[0])) / den);
+    if (Math.abs(at - designNm) < bestGap) {
+      bestGap = Math.abs(at - designNm);
+      best = at;
+    }
+  }
+  return best;
+}
+
+/**
+ * Level cut: the trigger is the design's modelled signal at the design thickness (nominal stack
+ * below); the true curve reaches it on the branch of the same slope nearest the design thickness.
+ */
+export function levelCutThickness(design: CurveInput, truth: CurveInput, designNm: number): { thicknessNm: number; triggerLevel: number } {
+  const eps = designNm * 1e-4;
+  const [lo, at, hi] = growingCurve(design.below, design.media, design.mode, design.n, design.k, design.wavelengthNm, [designNm - eps, designNm, designNm + eps]);
+  const slope = Math.sign(hi - lo);
+  const d = grid(1.6 * designNm);
+  const s = growingCurve(truth.below, truth.media, truth.mode, truth.n, truth.k, truth.wavelengthNm, d);
+  let best = designNm, bestGap = Infinity;
+  for (let i = 1; i <= STEPS; i++) {
+    const a = s[i - 1] - at, b = s[i] - at;
+    if (a * b > 0 || a === b || Math.sign(s[i] - s[i - 1]) !== slope) continue;
+    const x = d[i - 1] + ((d[i] - d[i - 1]) * a) / (a - b);
+    if (Math.abs(x - designNm) < bestGap) {
+      bestGap = Math.abs(x - designNm);
+      best = x;
+    }
+  }
+  return { thicknessNm: best, triggerLevel: at };
+}

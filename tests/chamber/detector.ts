@@ -1,0 +1,63 @@
+import { type ChamberOptions } from './options';
+import { type ChamberRng } from './rng';
+
+/**
+ * The detector chain from optical response to reading: lamp gain with drift, stray light, the
+ * electronic offset, white noise, AR(1) correlated noise (x ← ρx + √(1−ρ²)·σ·g with
+ * ρ = e^(−Δt/τ), the exact discretisation of an Ornstein–Uhlenbeck process) and short spikes.
+ */
+export class Detector {
+  private ar = 0;
+  private rho = 0;
+  private arScale = 0;
+  private spikeLeft = 0;
+  private spikeValue = 0;
+  private readonly spikeP: number;
+
+  constructor(
+    private readonly o: Required<Pick<ChamberOptions, 'gain' | 'lampDriftPerHour' | 'darkOffset' | 'strayFraction' | 'whiteNoise'>> & ChamberOptions,
+    private readonly dt: number,
+    private readonly noiseRng: ChamberRng,
+    private readonly arRng: ChamberRng,
+    private readonly spikeRng: ChamberRng,
+  ) {
+    const c = o.correlatedNoise;
+    if (c && c.fraction > 0) {
+      this.rho = Math.exp(-dt / c.correlationS);
+      this.arScale = c.fraction * Math.sqrt(1 - this.rho * this.rho);
+      this.ar = c.fraction * arRng.gauss();
+    }
+    this.spikeP = o.spikes ? (o.spikes.perMinute * dt) / 60 : 0;
+  }
+
+  gainAt(tS: number): number {
+    return this.o.gain * (1 + (this.o.lampDriftPerHour * tS) / 3600);
+  }
+
+  /** What the detector reads with no light from the chip (lamp on: stray light; off: dark only). */
+  offsetAt(tS: number, lampOn = true): number {
+    return this.o.darkOffset + (lampOn ? this.gainAt(tS) * this.o.strayFraction : 0);
+  }
+
+  reading(fraction: number, tS: number, lampOn = true): number {
+    let v = this.offsetAt(tS, lampOn) + (lampOn ? this.gainAt(tS) * fraction : 0);
+    const fullScale = this.o.gain;
+    v += fullScale * this.o.whiteNoise * this.noiseRng.gauss();
+    if (this.arScale > 0) {
+      this.ar = this.rho * this.ar + this.arScale * this.arRng.gauss();
+      if (lampOn) v += fullScale * this.ar;
+    }
+    if (this.spikeP > 0) {
+      const s = this.o.spikes!;
+      if (this.spikeLeft === 0 && this.spikeRng.next() < this.spikeP) {
+        this.spikeLeft = 1 + Math.floor(this.spikeRng.next() * s.maxSamples);
+        this.spikeValue = (this.spikeRng.next() < 0.5 ? -1 : 1) * this.spikeRng.between(s.amplitude[0], s.amplitude[1]);
+      }
+      if (this.spikeLeft > 0) {
+        v += fullScale * this.spikeValue;
+        this.spikeLeft--;
+      }
+    }
+    return v;
+  }
+}

@@ -1,0 +1,5 @@
+export * from './design';
+export * from './options';
+export * from './simulateChamberRun';
+export * from './traceFiles';
+export { chamberRng, type ChamberRng } from './rng';

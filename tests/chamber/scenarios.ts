@@ -1,0 +1,150 @@
+import { type ChamberDesign, type ChamberLayer } from './design';
+import { CROWN, MGF2_FILM, SILICA, SIO2_FILM, TA2O5_FILM, TIO2_FILM } from './materials';
+import { type ChamberOptions } from './options';
+
+export type Mode = 'sequential' | 'refit';
+/** 'target': the targets are asserted; 'pending': the table is printed, nothing asserted yet. */
+export type Status = { status: 'target' } | { status: 'pending'; reason: string };
+
+export interface Targets {
+  /** Layers of ≥ 0.5 QWOT at the monitor wavelength. */
+  thicknessPct: number;
+  index: number;
+  cutQwotPct: number;
+  /** Thinner layers: optical thickness, %. */
+  thinOpticalPct: number;
+  /** Least fraction of layers whose truth lies within the reported 3σ (thickness, index, cut error). */
+  coverage: number | null;
+}
+
+export interface Scenario {
+  name: string;
+  about: string;
+  design: ChamberDesign & { format: 'fringelog.design/1'; name: string };
+  options: ChamberOptions;
+  seeds: number[];
+  targets: Targets;
+  modes: Record<Mode, Status>;
+}
+
+/** Today's targets with white noise (issue 4): 0.3 %, 0.003, 0.5 % QWOT, thin layers 1 % optical. */
+export const WHITE_TARGETS: Targets = { thicknessPct: 0.3, index: 0.003, cutQwotPct: 0.5, thinOpticalPct: 1, coverage: 0.9 };
+/** Issue 7 targets with correlated noise of 0.05–0.08 % of full scale. */
+export const CHAMBER_TARGETS: Targets = { thicknessPct: 0.5, index: 0.005, cutQwotPct: 0.7, thinOpticalPct: 1.5, coverage: 0.95 };
+/** Issue 7, without a layer column: layers of ≥ 0.5 QWOT within 1 % and 0.01. */
+export const NO_LAYER_TARGETS: Targets = { thicknessPct: 1, index: 0.01, cutQwotPct: Infinity, thinOpticalPct: Infinity, coverage: null };
+
+/** Everything a real chamber adds, with correlated noise 0.06 % and white 0.03 % of full scale (0.067 % in all). */
+export const REAL_CHAMBER: ChamberOptions = {
+  whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, spikes: { perMinute: 0.3, amplitude: [0.002, 0.01], maxSamples: 2 },
+  jitterFraction: 0.2, rampS: 1.5, rateWander: { fraction: 0.015, correlationS: 15 }, rateScatter: 0.03,
+  indexDriftPerHour: { H: -0.01 }, indexWithinLayer: { H: 0.003, L: -0.001 }, indexScatter: 0.002, lampDriftPerHour: -0.01,
+  strayFraction: 0.003, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 }, levelLatencyS: [0.1, 0.3], shutterCloseS: [0.1, 1],
+  chipChange: { oldLevelS: [2, 5], darkS: [1, 2] }, settleS: 4, bareChipS: 20,
+};
+
+const RATES = { rateNmPerS: { H: 0.25, L: 0.5 } };
+const mon = (wavelengthNm: number, mode: 'R' | 'T', chip: number, cut: 'turning-point' | 'level') => ({ wavelengthNm, mode, chip, cut });
+
+function named(name: string, rest: Omit<ChamberDesign, 'layers'>, layers: ChamberLayer[]): Scenario['design'] {
+  return { format: 'fringelog.design/1', name, ...rest, layers };
+}
+
+/** (HL)^(count/2) quarter-wave mirror at 600 nm, TiO2/SiO2 on fused silica, a fresh chip every `perChip` layers. */
+export function mirrorDesign(count: number, perChip: number): Scenario['design'] {
+  const layers = Array.from({ length: count }, (_, i) => ({ material: i % 2 ? 'L' : 'H', qwot: 1, monitor: mon(600, 'T', 1 + Math.floor(i / perChip), 'turning-point') }));
+  return named(`test mirror, ${count} layers`, { referenceWavelengthNm: 600, substrate: SILICA, substrateBackside: true, materials: { H: TIO2_FILM, L: SIO2_FILM } }, layers);
+}
+
+/** Four-layer broadband AR cut on level at 520 nm, two layers under 0.5 QWOT. */
+export function bbarDesign(): Scenario['design'] {
+  const m = (thicknessNm: number, material: string) => ({ material, thicknessNm, monitor: mon(520, 'T', 1, 'level') });
+  return named('test BBAR4', { referenceWavelengthNm: 550, substrate: CROWN, substrateBackside: true, materials: { H: TA2O5_FILM, L: SIO2_FILM } },
+    [m(13.5, 'H'), m(36, 'L'), m(119, 'H'), m(91.5, 'L')]);
+}
+
+/** Reflectance-monitored stack on a front-face-only chip: quarter-waves on turning points and a 1.6-QWOT level cut. */
+export function reflectanceDesign(): Scenario['design'] {
+  const layers = Array.from({ length: 8 }, (_, i) => ({ material: i % 2 ? 'L' : 'H', qwot: i === 3 ? 1.6 : 1, monitor: mon(600, 'R', 1, i === 3 ? 'level' : 'turning-point') }));
+  return named('test R monitor', { referenceWavelengthNm: 600, substrate: CROWN, substrateBackside: false, materials: { H: TA2O5_FILM, L: SIO2_FILM } }, layers);
+}
+
+/** Thin level-cut layers in reflectance (0.25–0.4 QWOT), between thicker ones. */
+export function thinLevelDesign(): Scenario['design'] {
+  const q = [0.3, 0.4, 1.2, 0.25, 0.8, 1.1];
+  const layers = q.map((qwot, i) => ({ material: i % 2 ? 'L' : 'H', qwot, monitor: mon(550, 'R', 1, 'level') }));
+  return named('test thin level cuts (R)', { referenceWavelengthNm: 550, substrate: CROWN, substrateBackside: false, materials: { H: TA2O5_FILM, L: SIO2_FILM } }, layers);
+}
+
+/** One quarter-wave of MgF2 on crown glass, cut on its turning point. */
+export function singleLayerDesign(): Scenario['design'] {
+  return named('test single MgF2', { referenceWavelengthNm: 550, substrate: CROWN, substrateBackside: true, materials: { L: MGF2_FILM } },
+    [{ material: 'L', qwot: 1, monitor: mon(550, 'T', 1, 'turning-point') }]);
+}
+
+const both = (s: Status): Record<Mode, Status> => ({ sequential: s, refit: s });
+const pending = (reason: string): Status => ({ status: 'pending', reason });
+
+/** The scenarios of the accuracy harness; the lead flips statuses as the fixes of issue 7 land. */
+export function scenarios(): Scenario[] {
+  return [
+    {
+      name: 'white noise, mirror', about: '18-layer mirror, 3 chips, white noise 0.1 %, rate and index drift; no other chamber effect',
+      design: mirrorDesign(18, 6), seeds: [11, 12], targets: WHITE_TARGETS,
+      options: { ...RATES, whiteNoise: 0.001, indexDriftPerHour: { H: -0.02 }, indexOffset: { L: -0.004 } },
+      modes: both({ status: 'target' }),
+    },
+    {
+      name: 'white noise, BBAR level cuts', about: 'four-layer AR cut on level, white noise 0.1 %',
+      design: bbarDesign(), seeds: [11, 12], targets: WHITE_TARGETS, options: { ...RATES, whiteNoise: 0.001, indexOffset: { H: -0.01 } },
+      modes: {
+        sequential: pending('issue 7 items 4 and 7: thin layers pile up their errors (1.6 % optical) and held-index σ omit the index (|z| up to 7)'),
+        refit: pending('issue 7 items 4 and 7: held-index thin layers report σ without the index uncertainty (|z| up to 7); layer 4 at 0.34 % (2σ)'),
+      },
+    },
+    {
+      name: 'real chamber, mirror', about: '18-layer mirror, 3 chips, every chamber effect (correlated noise, chip changes, stray light, shutter delay, …)',
+      design: mirrorDesign(18, 6), seeds: [21, 22], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER },
+      modes: both(pending('issue 7 items 2–4: calibration on the old chip, stray offset, growth after the cut, correlated-noise σ')),
+    },
+    {
+      name: 'real chamber, BBAR', about: 'four-layer AR on level cuts with every chamber effect',
+      design: bbarDesign(), seeds: [21, 22], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER },
+      modes: both(pending('issue 7 items 2–4, 7: stray offset, growth after the cut, σ, thin layers')),
+    },
+    {
+      name: 'no layer column', about: '9-layer quarter-wave stack cut on turning points, correlated noise, no layer column',
+      design: mirrorDesign(9, 9), seeds: [31], targets: NO_LAYER_TARGETS,
+      options: { ...RATES, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 }, settleS: 20, columns: { layer: false } },
+      modes: both(pending('issue 7 item 5: segmentation from the design (a flat stretch after a turning-point cut is a pause)')),
+    },
+    {
+      name: 'no layer column, single layer', about: 'one quarter-wave MgF2 layer, no layer column',
+      design: singleLayerDesign(), seeds: [32], targets: NO_LAYER_TARGETS,
+      options: { defaultRateNmPerS: 0.8, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 }, columns: { layer: false, chip: false } },
+      modes: both(pending('issue 7 item 5: segmentation from the design')),
+    },
+    {
+      name: '40 layers, 5 chips, no chip column', about: '(HL)^20 on 5 chips, every chamber effect, no chip column',
+      design: mirrorDesign(40, 8), seeds: [41], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER, columns: { chip: false } },
+      modes: both(pending('issue 7 item 2: chip changes from the design; the idle stretch read as old chip, dark, bare chip')),
+    },
+    {
+      name: 'R monitoring with an offset', about: '8 layers in reflectance, stray light 0.5 % of full scale, no dark samples, correlated noise',
+      design: reflectanceDesign(), seeds: [51, 52], targets: CHAMBER_TARGETS,
+      options: { ...RATES, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, strayFraction: 0.005, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 } },
+      modes: both(pending('issue 7 item 2: fit the offset per chip when there are no dark samples')),
+    },
+    {
+      name: '1 s shutter delay', about: '18-layer mirror, the shutter takes 1 s to close after every logged cut, white noise 0.05 %',
+      design: mirrorDesign(18, 6), seeds: [61], targets: CHAMBER_TARGETS, options: { ...RATES, whiteNoise: 0.0005, shutterCloseS: [1, 1] },
+      modes: both(pending('issue 7 item 3: model the growth between the last logged sample and the idle level')),
+    },
+    {
+      name: 'thin level-cut layers (R)', about: '0.25–0.4 QWOT layers cut on level in reflectance, correlated noise',
+      design: thinLevelDesign(), seeds: [71, 72], targets: CHAMBER_TARGETS,
+      options: { ...RATES, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, levelLatencyS: [0.1, 0.3] },
+      modes: both(pending('issue 7 item 7: hold the index from the index–thickness correlation; thin level cuts 1–3 % off')),
+    },
+  ];
+}

@@ -1,0 +1,186 @@
+import { ChipStacks, type Sublayer } from './chipStacks';
+import { levelCutThickness, turningPointThickness } from './cutPlan';
+import { type ChamberDesign, designThicknessNm, dispersion } from './design';
+import { Detector } from './detector';
+import { type ChamberOptions, type ChamberRun, type ChipTruth, type LayerTruth } from './options';
+import { chamberRng } from './rng';
+import { identity, layerMatrix, mul, response, stackMatrices } from './thinFilm';
+import { Samples } from './samples';
+
+const SLAB_NM = 2;
+
+function resolve(o: ChamberOptions) {
+  return {
+    seed: 1, sampleIntervalS: 0.1, meta: {}, gain: 1, lampDriftPerHour: 0, darkOffset: 0, strayFraction: 0, darkS: 0, whiteNoise: 0.0005,
+    jitterFraction: 0, rateNmPerS: {}, defaultRateNmPerS: 0.3, rateScatter: 0.02, rampS: 0, indexOffset: {}, indexDriftPerHour: {},
+    indexWithinLayer: {}, indexScatter: 0, turningPointOvershoot: { meanPct: 0, sigmaPct: 0 }, levelLatencyS: [0, 0] as [number, number],
+    overshoot: {}, shutterCloseS: [0, 0] as [number, number], bareChipS: 20, settleS: 3, ...o,
+    columns: { layer: o.columns?.layer ?? true, chip: o.columns?.chip ?? true },
+  };
+}
+
+/**
+ * A monitor trace of `design` as a real chamber logs it, with the truth of what was deposited.
+ * Every sample is the characteristic-matrix product of the whole stack on the chip (the growing
+ * film as slabs of the index it had when each was deposited). Deterministic for a seed; each
+ * effect draws from its own stream, so switching one off leaves the others as they were.
+ */
+export function simulateChamberRun(design: ChamberDesign, options: ChamberOptions = {}): ChamberRun {
+  const o = resolve(options);
+  const dt = o.sampleIntervalS;
+  if (!(dt > 0)) throw new RangeError(`sampleIntervalS must be > 0 (got ${dt})`);
+  if (!(o.jitterFraction >= 0 && o.jitterFraction < 0.5)) throw new RangeError('jitterFraction must be in [0, 0.5)');
+  const root = chamberRng(o.seed);
+  const rngLayer = root.fork('layers'), rngWander = root.fork('rate-wander'), rngJitter = root.fork('jitter'), rngTiming = root.fork('timing');
+  const det = new Detector(o, dt, root.fork('white'), root.fork('correlated'), root.fork('spikes'));
+  const stacks = new ChipStacks(design);
+  const out = new Samples(o.tooling !== undefined);
+  const tNow = () => out.length * dt;
+  const push = (fraction: number, layer: number, chip: number, crystal: number, lampOn = true) => {
+    const t = tNow();
+    out.push(t + o.jitterFraction * dt * (2 * rngJitter.next() - 1), det.reading(fraction, t, lampOn), fraction, layer, chip, crystal);
+  };
+  const hold = (seconds: number, fraction: (s: number) => number, chip: number, lampOn = true) => {
+    const count = Math.round(seconds / dt);
+    for (let i = 0; i < count; i++) push(fraction(i / Math.max(count - 1, 1)), 0, chip, 0, lampOn);
+  };
+  const layers: LayerTruth[] = [];
+  const chips: ChipTruth[] = [];
+  const designOnChip = new Map<number, { material: string; thicknessNm: number }[]>();
+  let prev: { chip: number; wavelengthNm: number; mode: 'R' | 'T' } | null = null;
+
+  for (const [li, dl] of design.layers.entries()) {
+    const layerNo = li + 1;
+    const { chip, wavelengthNm: wl, mode } = dl.monitor;
+    const material = dl.material;
+    const dDesign = designThicknessNm(design, dl);
+    const media = stacks.media(wl);
+    if (!prev || prev.chip !== chip) {
+      if (!prev && o.darkS > 0) hold(o.darkS, () => 0, chip, false);
+      if (prev && o.chipChange) {
+        const old = stacks.level(prev.chip, wl, mode);
+        const bare = stacks.level(chip, wl, mode);
+        hold(rngTiming.between(...o.chipChange.oldLevelS), () => old, chip);
+        // the holder turns: the old chip leaves the beam, nothing, then the new chip arrives
+        hold(rngTiming.between(...o.chipChange.darkS), (s) => (s < 0.3 ? old * (1 - s / 0.3) : s > 0.7 ? (bare * (s - 0.7)) / 0.3 : 0), chip);
+      }
+      chips.push({ chip, gain: NaN, offset: NaN, bareFromS: tNow() });
+      hold(o.bareChipS, () => stacks.level(chip, wl, mode), chip);
+    } else {
+      const level = stacks.level(chip, wl, mode);
+      hold(o.settleS, () => level, chip);
+    }
+    prev = { chip, wavelengthNm: wl, mode };
+
+    const startS = tNow();
+
+    const chipTruth = chips[chips.length - 1];
+    if (Number.isNaN(chipTruth.gain)) {
+      chipTruth.gain = det.gainAt(startS);
+      chipTruth.offset = det.offsetAt(startS);
+    }
+    const nominal = dispersion(design.materials[material], wl);
+    const base = nominal.n + (o.indexOffset[material] ?? 0) + ((o.indexDriftPerHour[material] ?? 0) * startS) / 3600 + o.indexScatter * rngLayer.gauss();
+    const grade = o.indexWithinLayer[material] ?? 0;
+    const below = stacks.matrices(chip, wl);
+    const designBelow = (designOnChip.get(chip) ?? []).map((l) => {
+      const nk = dispersion(design.materials[l.material], wl);
+      return { n: nk.n, k: nk.k, thicknessNm: l.thicknessNm };
+    });
+    let dCut: number;
+    const truthCurve = { below, media, mode, n: base, k: nominal.k, wavelengthNm: wl };
+    if (dl.monitor.cut === 'turning-point') {
+      const pct = Math.max(0, o.turningPointOvershoot.meanPct + o.turningPointOvershoot.sigmaPct * rngLayer.gauss());
+      dCut = turningPointThickness(truthCurve, dDesign) * (1 + pct / 100);
+    } else {
+      const designCurve = { below: stackMatrices(designBelow, wl), media, mode, n: nominal.n, k: nominal.k, wavelengthNm: wl };
+      dCut = levelCutThickness(designCurve, truthCurve, dDesign).thicknessNm;
+    }
+    dCut *= 1 + (o.overshoot[layerNo] ?? 0);
+    const rate = (o.rateNmPerS[material] ?? o.defaultRateNmPerS) * (1 + o.rateScatter * rngLayer.gauss());
+    const latencyS = dl.monitor.cut === 'level' ? rngTiming.between(...o.levelLatencyS) : 0;
+    const closeS = rngTiming.between(...o.shutterCloseS);
+    const wander = o.rateWander;
+    const rho = wander ? Math.exp(-dt / wander.correlationS) : 0;
+    let w = wander ? wander.fraction * rngWander.gauss() : 0;
+
+    // growing film: forward G = S_newest ⋯ S_1 and reverse Gr = S_1 ⋯ S_newest
+    const G = identity(), Gr = identity();
+    const S = new Float64Array(8), tmp = new Float64Array(8), F = new Float64Array(8), R = new Float64Array(8);
+    const slabs: Sublayer[] = [];
+    let slabD = 0, slabND = 0, d = 0, nd = 0, tau = 0, loggedEnd = -1, cutAt = -1, afterCut = 0;
+    const indexAt = (x: number) => base + grade * (Math.min(x, 1.05) - 0.5);
+    const grow = (dd: number) => {
+      if (dd <= 0) return;
+      const n = indexAt((d + dd / 2) / dCut);
+      layerMatrix(n, nominal.k, dd, wl, S);
+      G.set(mul(S, G, tmp));
+      Gr.set(mul(Gr, S, tmp));
+      d += dd;
+      nd += n * dd;
+      slabD += dd;
+      slabND += n * dd;
+      if (slabD >= SLAB_NM) flushSlab();
+    };
+    const flushSlab = () => {
+      if (slabD <= 0) return;
+      slabs.push({ material, dn: slabND / slabD - nominal.n, thicknessNm: slabD });
+      slabD = 0;
+      slabND = 0;
+    };
+    const now = () => {
+      mul(G, below.forward, F);
+      mul(below.reverse, Gr, R);
+      const r = response(F, R, media);
+      return mode === 'R' ? r.R : r.T;
+    };
+    const crystal = (x: number) => (o.tooling ? x / (o.tooling[material] ?? 1) : 0);
+    const maxSamples = Math.ceil((5 * dDesign) / rate / dt) + 100;
+    const firstLogged = out.length;
+    for (let i = 0; i < maxSamples; i++) {
+      push(now(), layerNo, chip, crystal(d));
+      if (cutAt < 0 && d >= dCut) cutAt = tau;
+      if (cutAt >= 0 && tau >= cutAt + latencyS - 1e-9) {
+        loggedEnd = d;
+        break;
+      }
+      const r = rate * (o.rampS > 0 ? 1 - Math.exp(-(tau + dt / 2) / o.rampS) : 1) * (1 + w);
+      grow(r * dt);
+      tau += dt;
+      if (wander) w = rho * w + wander.fraction * Math.sqrt(1 - rho * rho) * rngWander.gauss();
+    }
+    if (loggedEnd < 0) loggedEnd = d;
+    const endS = out.timeAt(out.length - 1);
+    // the shutter closes over closeS while the log already says idle
+    const rEnd = rate * (1 + w);
+    const closeCount = Math.ceil(closeS / dt);
+    for (let k = 1; k <= closeCount; k++) {
+      const s0 = (k - 1) * dt, s1 = Math.min(k * dt, closeS);
+      // ∫ r(1 − s/closeS) ds over [s0, s1]
+      const dd = rEnd * (s1 - s0 - (s1 * s1 - s0 * s0) / (2 * closeS));
+      grow(dd);
+      afterCut += dd;
+      push(now(), 0, chip, 0);
+    }
+    flushSlab();
+    stacks.add(chip, slabs);
+    const list = designOnChip.get(chip) ?? [];
+    list.push({ material, thicknessNm: dDesign });
+    designOnChip.set(chip, list);
+    const mean = nd / d;
+    layers.push({
+      layer: layerNo, material, chip, wavelengthNm: wl, mode, thicknessNm: d, designThicknessNm: dDesign, index: mean, nominalIndex: nominal.n,
+      cutErrorQwotPct: ((mean * d - nominal.n * dDesign) / (wl / 4)) * 100, qwotAtMonitor: (4 * nominal.n * dDesign) / wl,
+      rateNmPerS: loggedEnd / Math.max(tau, dt), startTimeS: out.timeAt(firstLogged), endTimeS: endS, afterCutNm: afterCut, shutterCloseS: closeS,
+      indexStart: indexAt(0), indexEnd: indexAt(d / dCut),
+    });
+  }
+  if (prev) {
+    const level = stacks.level(prev.chip, prev.wavelengthNm, prev.mode);
+    hold(o.settleS, () => level, prev.chip);
+  }
+  return {
+    meta: { ...o.meta }, columns: { ...o.columns, crystal: o.tooling !== undefined }, ...out.take(), sampleIntervalS: dt,
+    truth: { layers, chips },
+  };
+}
