@@ -16,7 +16,7 @@ import { refineInferredSegments } from './refineSegments';
 import { carryStackUncertainty, emptyStack, type StackCovariance } from './stackUncertainty';
 import { startValues } from './startValues';
 import { applyHeldIndexSigma, indexSeparation } from './thinLayer';
-import { subsampleUniform } from './subsample';
+import { binMeans } from './subsample';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -56,16 +56,16 @@ function heldNoteFor(held: number, nominal: number, from: number, qwot: number, 
 
 export const ANALYZE_DEFAULTS = {
   mode: 'sequential',
-  maxFitPoints: 2000,
-  refitPointsPerLayer: 400,
-  refitFinalPoints: 16000,
+  maxFitPoints: 400,
+  refitPointsPerLayer: 100,
+  refitFinalPoints: 3200,
   gainDrift: false,
   gainDriftFromChips: true,
   gainPriorFraction: 0.005,
   thinLayerQwot: 0.9,
   heldIndexSigma: 0.05,
   heldIndexCorrelation: 0.99,
-  robustLoss: true,
+  robustLoss: false,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -156,16 +156,17 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     // make() is called again after the pass (final refit), when the layer's state exists.
     const built: { state?: LayerState } = {};
     const make = (maxPoints: number): FitLayerData => {
-      const sub = subsampleUniform(samples.tauS, 0, n, maxPoints);
+      // Bin means, not picked samples: every sample's information at a fraction of the points.
+      const binned = binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
       return {
-        optics, nominalAt, tauS: pick(samples.tauS, sub), y: pick(trace.signal, sub, samples.indices), durationS,
+        optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
         heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
       };
     };
     const fit = make(o.maxFitPoints);
     const refit = make(o.refitPointsPerLayer);
-    const grid = make(300);
+    const grid = make(150);
     const spectrum = layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     const gridInput = {
       gain: fit.heldGain ?? undefined, optics, below, extinction: -nominal.im, tauS: grid.tauS, y: grid.y, offsetSignal: calibration.offset,

@@ -130,7 +130,7 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
       max,
       columnRows: { start: rowStart, end: rowEnd },
     },
-    { robust: true, ...options },
+    options,
   );
   const np = layout.count;
   const tau = inflateForCorrelatedNoise(solver, layers, layout, shared);

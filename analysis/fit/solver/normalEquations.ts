@@ -29,10 +29,11 @@ export function normalEquations(
 }
 
 /**
- * Solves A·x = b for a symmetric positive-definite p×p A (row-major) by Cholesky, after scaling
- * to unit diagonal. Null when A is not positive definite to working precision.
+ * Cholesky factor L (row-major, lower) of D·A·D, D = diag(1/√a_ii), a symmetric positive-definite
+ * p×p A scaled to unit diagonal so that parameters of very different sizes do not matter. Null
+ * when A is not positive definite to working precision.
  */
-export function choleskySolve(a: Float64Array, b: Float64Array, p: number): Float64Array | null {
+export function choleskyScaled(a: ArrayLike<number>, p: number): { l: Float64Array; d: Float64Array } | null {
   const d = new Float64Array(p);
   for (let i = 0; i < p; i++) {
     const v = a[i * p + i];
@@ -50,6 +51,14 @@ export function choleskySolve(a: Float64Array, b: Float64Array, p: number): Floa
       } else l[i * p + j] = s / l[j * p + j];
     }
   }
+  return { l, d };
+}
+
+/** Solves A·x = b for a symmetric positive-definite A (see choleskyScaled); null when it is not. */
+export function choleskySolve(a: Float64Array, b: Float64Array, p: number): Float64Array | null {
+  const f = choleskyScaled(a, p);
+  if (!f) return null;
+  const { l, d } = f;
   const x = new Float64Array(p);
   for (let i = 0; i < p; i++) {
     let s = b[i] * d[i];
