@@ -216,7 +216,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     prior.push(state);
     chipLayers.set(chip, prior);
     states.push(state);
-    if (o.mode === 'refit' && (prior.length > 1 || o.gain === 'chip')) {
+    if (o.mode === 'refit' && o.refitPointsPerLayer > 0 && (prior.length > 1 || o.gain === 'chip')) {
       refitChip(prior.map((p) => p.refit), prior, calibration.offset, false, o.gain === 'chip' ? cg : null, o.robustLoss);
     }
     done++;

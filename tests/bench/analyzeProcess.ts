@@ -4,8 +4,8 @@
 // error against the synthetic truth is checked against the accuracy targets (thickness 0.5 %,
 // index 0.005, cut error 0.7 % QWOT).
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { cpus, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { synthesizeRun, traceCsvChunks, type SynthOptions } from '../../analysis/synth';
 import { parseDesign } from '../../analysis/design';
@@ -30,6 +30,21 @@ const time = (f: () => void) => {
   return performance.now() - t0;
 };
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[v.length >> 1];
+/**
+ * CPU seconds (user + system) of this process's waited-for children, from /proc/self/stat
+ * (cutime, cstime in clock ticks, 100 per second on Linux): the figure that stays meaningful when
+ * other work shares the cores.
+ */
+function childrenCpuS(): number {
+  const stat = readFileSync('/proc/self/stat', 'utf8');
+  const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+  return (Number(fields[13]) + Number(fields[14])) / 100;
+}
+const timeWithCpu = (f: () => void): [number, number] => {
+  const c0 = childrenCpuS();
+  const ms = time(f);
+  return [ms, (childrenCpuS() - c0) * 1000];
+};
 
 export async function run(): Promise<void> {
   const file = designFile();
@@ -43,11 +58,13 @@ export async function run(): Promise<void> {
     writeFileSync(designPath, JSON.stringify(file));
     writeFileSync(tracePath, Array.from(traceCsvChunks(synth, { rowsPerChunk: 50_000 })).join(''));
     const node = process.execPath;
-    const startup = median([0, 1, 2].map(() => time(() => execFileSync(node, ['--import', 'tsx', '-e', ''], { stdio: 'ignore' }))));
+    const startupRuns = [0, 1, 2].map(() => timeWithCpu(() => execFileSync(node, ['--import', 'tsx', '-e', ''], { stdio: 'ignore' })));
     let out = '';
-    const runs = [0, 1, 2].map(() => time(() => {
+    const analyzeRuns = [0, 1, 2].map(() => timeWithCpu(() => {
       out = execFileSync(node, ['--import', 'tsx', 'analysis/cli/analyze.ts', '--design', designPath, '--trace', tracePath, '--mode', 'refit'], { encoding: 'utf8', maxBuffer: 1 << 28 });
     }));
+    const startup = median(startupRuns.map((r) => r[0])), startupCpu = median(startupRuns.map((r) => r[1]));
+    const runs = analyzeRuns.map((r) => r[0]), cpu = median(analyzeRuns.map((r) => r[1]));
     const result = JSON.parse(out) as { layers: { layer: number; thicknessNm: number; index: number; cutErrorQwotPct: number; converged: boolean }[] };
     let within = 0, worstD = 0, worstN = 0, worstCut = 0, converged = 0;
     for (const l of result.layers) {
@@ -60,8 +77,9 @@ export async function run(): Promise<void> {
       if (l.converged) converged++;
     }
     console.log(`analyze process, refit: ${LAYERS} layers on 5 chips, ${synth.timeS.length.toLocaleString('en')} samples`);
-    console.log(`  tsx start-up alone (node --import tsx -e '')   ${startup.toFixed(0)} ms (median of 3)`);
-    console.log(`  whole analyze process                          ${median(runs).toFixed(0)} ms (median of 3: ${runs.map((r) => r.toFixed(0)).join(', ')}; target ≤ 1500)`);
+    console.log(`  tsx start-up alone (node --import tsx -e '')   ${startup.toFixed(0)} ms, CPU ${startupCpu.toFixed(0)} ms (medians of 3)`);
+    console.log(`  whole analyze process                          ${median(runs).toFixed(0)} ms (median of 3: ${runs.map((r) => r.toFixed(0)).join(', ')}; target ≤ 1500), CPU ${cpu.toFixed(0)} ms`);
+    console.log(`  load average while measuring                   ${loadavg().map((v) => v.toFixed(1)).join(', ')} on ${cpus().length} cores`);
     console.log(`  layers within the accuracy targets: ${within}/${result.layers.length}; converged ${converged}/${result.layers.length}; worst d ${worstD.toFixed(3)} %, n ${worstN.toFixed(4)}, cut ${worstCut.toFixed(3)} %QW`);
   } finally {
     rmSync(dir, { recursive: true, force: true });
