@@ -1,7 +1,7 @@
 import { type Design, type DesignLayer } from '../design';
 import { indexAt } from '../materials';
 import { type Complex } from '../optics';
-import { driftEstimateAt, type IndexPoint } from '../stats';
+import { driftEstimateAt, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
@@ -15,8 +15,10 @@ import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { runSummary } from './runSummary';
 import { refineInferredSegments } from './refineSegments';
+import { carryStackUncertainty, emptyStack, type StackCovariance } from './stackUncertainty';
 import { startValues } from './startValues';
-import { subsampleUniform } from './subsample';
+import { applyHeldIndexSigma, indexSeparation } from './thinLayer';
+import { binMeans } from './subsample';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -35,6 +37,10 @@ export interface LayerState {
   fitPoints: number;
   wellDetermined: boolean;
   heldNote: string | null;
+  /** Why the index was held (from the trial fit), for the note. */
+  heldWhy?: string;
+  /** σ of the held index (the drift estimate's prediction σ, or the nominal's). */
+  heldIndexSigma?: number;
   calibration: ChipCalibration;
   /** Design optical thickness in quarter-waves at the monitor wavelength. */
   qwotAtMonitor: number;
@@ -43,22 +49,25 @@ export interface LayerState {
   spectrum: LayerSpectrum;
 }
 
-function heldNoteFor(held: number, nominal: number, from: number, qwot: number, wl: number, wholeRun: boolean): string {
+function heldNoteFor(held: number, nominal: number, from: number, qwot: number, wl: number, wholeRun: boolean, why: string): string {
   const basis = from > 0
     ? `nominal ${nominal.toFixed(4)} + the drift estimate from ${from} fitted layer${from > 1 ? 's' : ''} of ${wholeRun ? 'the whole run' : 'this run so far'}`
     : "the material's nominal";
-  return `index held at ${held.toFixed(4)} (${basis}): the layer is ${qwot.toFixed(2)} QWOT at ${wl} nm, too thin to separate index from thickness; thickness only (rate drift not fitted)`;
+  return `index held at ${held.toFixed(4)} (${basis}): the layer is ${qwot.toFixed(2)} QWOT at ${wl} nm and ${why}; thickness only (rate drift not fitted)`;
 }
 
 export const ANALYZE_DEFAULTS = {
   mode: 'sequential',
-  maxFitPoints: 2000,
-  refitPointsPerLayer: 400,
-  refitFinalPoints: 16000,
+  maxFitPoints: 400,
+  refitPointsPerLayer: 100,
+  refitFinalPoints: 3200,
   gainDrift: false,
   gainDriftFromChips: true,
   gainPriorFraction: 0.005,
-  thinLayerQwot: 0.5,
+  thinLayerQwot: 0.9,
+  heldIndexSigma: 0.05,
+  heldIndexCorrelation: 0.99,
+  robustLoss: false,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -113,6 +122,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   /** Chip-wide gain G·(1 + γ·t), t from the chip's first layer start (gain mode 'chip'). */
   const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, { gain: c.calibration.gain, driftPerS: knownDrift, startS: c.startS, fitDrift: o.gainDrift }]));
   const states: LayerState[] = [];
+  const stacks = new Map<number, StackCovariance>();
   let done = 0;
   for (const dl of order) {
     const samples = samplesByLayer.get(dl.layer)!;
@@ -137,14 +147,9 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     };
     const nominal = nominalAt(wl);
     const qwotAtMonitor = (4 * nominal.re * dl.thicknessNm) / wl;
-    const held = qwotAtMonitor < o.thinLayerQwot;
-    let heldIndex: number | null = null, heldNote: string | null = null;
-    if (held) {
-      const points: IndexPoint[] = states.map(toIndexPoint);
-      const drift = o.heldIndex === 'run-drift' ? driftEstimateAt(points, dl.material, samples.startTimeS) : null;
-      heldIndex = nominal.re + (drift?.deviation ?? 0);
-      heldNote = heldNoteFor(heldIndex, nominal.re, drift?.from ?? 0, qwotAtMonitor, wl, false);
-    }
+    // A thin layer gets a free trial fit; its index is held when that fit cannot separate it from the thickness.
+    const thin = qwotAtMonitor < o.thinLayerQwot;
+    let heldIndex: number | null = null, heldNote: string | null = null, heldSigma = 0;
     const n = samples.tauS.length;
     if (n < 10) {
       warnings.push(`layer ${dl.layer}: only ${n} samples; not fitted`);
@@ -154,20 +159,21 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     // make() is called again after the pass (final refit), when the layer's state exists.
     const built: { state?: LayerState; extraS?: number } = {};
     const make = (maxPoints: number): FitLayerData => {
-      const sub = subsampleUniform(samples.tauS, 0, n, maxPoints);
+      // Bin means, not picked samples: every sample's information at a fraction of the points.
+      const binned = binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
       return {
-        optics, nominalAt, tauS: pick(samples.tauS, sub), y: pick(trace.signal, sub, samples.indices), durationS: durationS + (built.extraS ?? 0),
-        extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: !held, weight: built.state?.weight ?? 1,
+        optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: durationS + (built.extraS ?? 0),
+        extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
         heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
       };
     };
     const fit = make(o.maxFitPoints);
     const refit = make(o.refitPointsPerLayer);
-    const grid = make(300);
+    const grid = make(150);
     const spectrum = layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     const gridInput = {
       gain: fit.heldGain ?? undefined, optics, below, extinction: -nominal.im, tauS: grid.tauS, y: grid.y, offsetSignal: calibration.offset,
-      index: heldIndex ?? nominal.re, searchIndex: !held, rateGuessNmPerS: dl.thicknessNm / Math.max(durationS, 1e-9),
+      index: nominal.re, searchIndex: !thin, rateGuessNmPerS: dl.thicknessNm / Math.max(durationS, 1e-9),
     };
     let sv = startValues(gridInput);
     // The grid spans ±35 % of the design rate; a fringe rate well outside that widens the search.
@@ -179,11 +185,27 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     // Per-layer gains start at (and are held near, by a prior) the chip calibration.
     const anchor = cg.gain * (1 + cg.driftPerS * chipTimeS);
     const withPrior = o.gainPriorFraction > 0 && fit.heldGain === null;
-    const single = fitLayers({
-      fixedBelow: below, layers: [fit], offsetSignal: calibration.offset,
-      start: [{ index: sv.index, rateNmPerS: sv.rateNmPerS, rateDriftNmPerS2: 0, gain: fit.heldGain ?? (withPrior ? anchor : sv.gain) }],
+    const fitSingle = (index: number, rateNmPerS: number, gain: number) => fitLayers({
+      fixedBelow: below, layers: [fit], offsetSignal: calibration.offset, start: [{ index, rateNmPerS, rateDriftNmPerS2: 0, gain }],
       ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
-    });
+    }, { robust: o.robustLoss });
+    let single = fitSingle(sv.index, sv.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : sv.gain));
+    const separation = thin ? indexSeparation(single, o.heldIndexSigma, o.heldIndexCorrelation) : null;
+    if (separation?.hold) {
+      const drift = o.heldIndex === 'run-drift' ? driftEstimateAt(states.map(toIndexPoint), dl.material, samples.startTimeS) : null;
+      heldIndex = nominal.re + (drift?.deviation ?? 0);
+      heldSigma = drift?.sigma ?? NOMINAL_INDEX_SIGMA;
+      heldNote = heldNoteFor(heldIndex, nominal.re, drift?.from ?? 0, qwotAtMonitor, wl, false, separation.reason);
+      fit.heldIndex = refit.heldIndex = heldIndex;
+      fit.fitDrift = refit.fitDrift = false;
+      const e = single.layers[0];
+      single = fitSingle(heldIndex, e.rateNmPerS, fit.heldGain ?? e.gain);
+    }
+    if (o.mode === 'sequential') {
+      // The stack below's uncertainty, carried into this layer's σ (refit fits them jointly instead).
+      const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
+      stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, stacks.get(chip) ?? emptyStack(), c, heldSigma));
+    }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
     const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;
     const weight = ratio > o.residualWarnFactor ? 1 / ratio : 1;
@@ -191,14 +213,15 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     const state: LayerState = {
       weight, qwotAtMonitor, design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
       converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum,
+      ...(separation?.hold ? { heldWhy: separation.reason, heldIndexSigma: heldSigma } : {}),
     };
     built.state = state;
     built.extraS = endLayer(state, below, noiseFloor.sigma ?? calibration.noiseSigma);
     prior.push(state);
     chipLayers.set(chip, prior);
     states.push(state);
-    if (o.mode === 'refit' && (prior.length > 1 || o.gain === 'chip')) {
-      refitChip(prior.map((p) => p.refit), prior, calibration.offset, false, o.gain === 'chip' ? cg : null);
+    if (o.mode === 'refit' && o.refitPointsPerLayer > 0 && (prior.length > 1 || o.gain === 'chip')) {
+      refitChip(prior.map((p) => p.refit), prior, calibration.offset, false, o.gain === 'chip' ? cg : null, o.robustLoss);
     }
     done++;
     o.onProgress?.(done, order.length);
@@ -213,14 +236,15 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const drift = driftEstimateAt(points, s.design.material, s.samples.startTimeS);
       if (!drift) continue;
       const held = s.nominal.re + drift.deviation;
-      s.heldNote = heldNoteFor(held, s.nominal.re, drift.from, s.qwotAtMonitor, s.optics.wavelengthNm, true);
+      s.heldNote = heldNoteFor(held, s.nominal.re, drift.from, s.qwotAtMonitor, s.optics.wavelengthNm, true, s.heldWhy ?? 'its index does not separate from its thickness');
       s.fit.heldIndex = held;
+      s.heldIndexSigma = drift.sigma;
       s.estimate = { ...s.estimate, index: held };
     }
     for (const [chip, chipStates] of chipLayers) {
       const perLayer = Math.max(100, Math.min(o.maxFitPoints, Math.floor(o.refitFinalPoints / chipStates.length)));
       const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
-      const shared = refitChip(chipStates.map((p) => p.make(perLayer)), chipStates, chipStates[0].calibration.offset, true, cg);
+      const shared = refitChip(chipStates.map((p) => p.make(perLayer)), chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
       if (shared) {
         cal.refinedGain = shared.gain;
@@ -231,6 +255,8 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
         }
       }
     }
+    // A held index's own σ, into its layer's figures (the joint fit took the index as exact).
+    for (const s of states) if (s.fit.heldIndex !== null) applyHeldIndexSigma(s.estimate, s.heldIndexSigma ?? NOMINAL_INDEX_SIGMA);
   }
 
   const belowOf = (s: LayerState) => {
@@ -258,11 +284,11 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
  */
 export function refitChip(
   data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean,
-  chipGain: { gain: number; driftPerS: number; fitDrift: boolean } | null,
+  chipGain: { gain: number; driftPerS: number; fitDrift: boolean } | null, robust = true,
 ): JointFitResult['sharedGain'] {
   const joint = fitLayers(
     { fixedBelow: [], layers: data, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) },
-    final ? {} : { maxRounds: 2 },
+    final ? { robust } : { maxIterations: 4, robust },
   );
   if (chipGain && joint.sharedGain) {
     chipGain.gain = joint.sharedGain.gain;

@@ -56,7 +56,7 @@ export function fitChipOffset(input: OffsetFitInput): OffsetFit {
     const g = gainAt(o);
     const data = layers.map((l) => ({ ...l, heldGain: g }));
     // Every trial from the same start, so the profile is a function of o alone (not of the path).
-    const fit = fitLayers({ fixedBelow: [], layers: data, start: starts.map((s) => ({ ...s, gain: g })), offsetSignal: o }, { maxRounds: 4 });
+    const fit = fitLayers({ fixedBelow: [], layers: data, start: starts.map((s) => ({ ...s, gain: g })), offsetSignal: o }, { maxIterations: 10 });
     return { ssr: fit.solver.ssr, dof: fit.solver.dof, rms: fit.solver.residualRms };
   };
   // Step: 1 % of the bare reading; two parabola passes, the second centred on the first vertex.

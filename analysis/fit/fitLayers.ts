@@ -1,4 +1,5 @@
 import { type LayerAt } from '../optics';
+import { autocorrelationTime } from '../stats';
 import { leastSquares, type LeastSquaresOptions, type LeastSquaresResult } from './leastSquares';
 import {
   decodeLayer, encodeLayer, evaluateLayers, jacobianLayers, paramLayout, thicknessAt,
@@ -36,6 +37,8 @@ export interface LayerEstimate extends LayerParams {
   /** n·d at the monitor wavelength. */
   opticalThicknessNm: number;
   opticalThicknessSigmaNm: number;
+  /** Integrated autocorrelation time of the layer's residuals, in fit points (1 for white noise); the σ include √ of it. */
+  noiseCorrelation: number;
 }
 
 export interface JointFitResult {
@@ -96,6 +99,16 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
     pos += l.y.length;
   }
   const width = total + priors.length;
+  // Block structure: a layer's parameters touch its own samples and the later layers' (and a
+  // prior's row at the end); a per-layer gain without a prior only its own samples.
+  const rowStart = new Int32Array(layout.count), rowEnd = new Int32Array(layout.count).fill(width);
+  pos = 0;
+  layers.forEach((l, j) => {
+    const next = j + 1 < layers.length ? layout.offsets[j + 1] : shared ? layout.shared : layout.count;
+    for (let k = layout.offsets[j]; k < next; k++) rowStart[k] = pos;
+    if (!shared && l.heldGain === null && !priors.some((q) => q.param === next - 1)) rowEnd[next - 1] = pos + l.y.length;
+    pos += l.y.length;
+  });
   const solver = leastSquares(
     {
       y,
@@ -115,10 +128,12 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
       scale,
       min,
       max,
+      columnRows: { start: rowStart, end: rowEnd },
     },
     options,
   );
   const np = layout.count;
+  const tau = inflateForCorrelatedNoise(solver, layers, layout, shared);
   const cov = (a: number, b: number) => (a < 0 || b < 0 ? 0 : solver.covariance[a * np + b]);
   const estimates = layers.map((layer, j) => {
     const v = decodeLayer(layer, solver.params, layout.offsets[j], layout);
@@ -151,6 +166,7 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
       thicknessSigmaNm: Math.sqrt(Math.max(0, varD)),
       opticalThicknessNm: v.index * d,
       opticalThicknessSigmaNm: Math.sqrt(Math.max(0, varND)),
+      noiseCorrelation: tau[j],
     };
   });
   const k = layout.shared;
@@ -162,4 +178,32 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
       }
     : null;
   return { layers: estimates, sharedGain: sharedResult, solver };
+}
+
+/**
+ * Scales the covariance for correlated noise: each layer's residuals give its autocorrelation
+ * time τ (stats/correlatedNoise), and cov(a, b) grows by √(τ_a·τ_b), τ of a parameter being its
+ * layer's (of a chip-wide one, the sample-weighted mean). Returns τ per layer.
+ */
+function inflateForCorrelatedNoise(solver: LeastSquaresResult, layers: readonly FitLayerData[], layout: ReturnType<typeof paramLayout>, shared: boolean): number[] {
+  const tau: number[] = [];
+  let pos = 0, pooled = 0;
+  for (const l of layers) {
+    const t = Math.max(1, autocorrelationTime(solver.residuals, pos, pos + l.y.length));
+    tau.push(t);
+    pooled += t * l.y.length;
+    pos += l.y.length;
+  }
+  pooled /= Math.max(pos, 1);
+  const np = layout.count;
+  const f = new Float64Array(np).fill(Math.sqrt(pooled));
+  layers.forEach((_, j) => {
+    const next = j + 1 < layers.length ? layout.offsets[j + 1] : shared ? layout.shared : np;
+    for (let k = layout.offsets[j]; k < next; k++) f[k] = Math.sqrt(tau[j]);
+  });
+  for (let a = 0; a < np; a++) {
+    for (let b = 0; b < np; b++) solver.covariance[a * np + b] *= f[a] * f[b];
+    solver.sigma[a] *= f[a];
+  }
+  return tau;
 }

@@ -1,5 +1,5 @@
-import { levenbergMarquardt } from 'ml-levenberg-marquardt';
 import { invertSymmetric } from './invertSymmetric';
+import { huberFit, levenbergMarquardt, type SolverResult, type StopReason } from './solver';
 
 /** A nonlinear least-squares problem in physical parameters p. */
 export interface LeastSquaresProblem {
@@ -20,26 +20,27 @@ export interface LeastSquaresProblem {
    * of `model` are used.
    */
   jacobian?: (p: Float64Array, modelAtP: Float64Array, stepNm: Float64Array, out: Float64Array) => void;
+  /** Rows outside which each Jacobian column is zero (see SolverProblem.columnRows). */
+  columnRows?: { start: Int32Array; end: Int32Array };
 }
 
 export interface LeastSquaresOptions {
   /** Finite-difference step, in scaled units. @default 0.001 */
   gradientStep?: number;
-  /** Levenberg–Marquardt iterations per round; convergence is checked between rounds. @default 2 */
-  iterationsPerRound?: number;
-  /** @default 15 */
-  maxRounds?: number;
+  /** @default 100 */
+  maxIterations?: number;
   /**
-   * A round that lowers χ² = SSR/s² (s² = SSR/(N − p)) by less than this ends the fit: the
-   * parameters then move by a negligible fraction of their σ (Numerical Recipes, 3rd ed.,
-   * §15.5.2, from memory). @default 0.01
+   * Converged when the Gauss–Newton step still to go would lower χ² = SSR/s² by less than this
+   * (the parameters within √tolerance·σ of the minimum). @default 0.001
    */
   tolerance?: number;
+  /** Huber's loss by IRLS (spikes and outliers count less). @default false */
+  robust?: boolean;
 }
 
 export interface LeastSquaresResult {
   params: Float64Array;
-  /** 1σ from cov = s²·(JᵀJ)⁻¹, s² = SSR/(N − p); NaN where JᵀJ is singular. */
+  /** 1σ from cov = s²·(JᵀJ)⁻¹ (robust: Huber's M-estimate form); NaN where JᵀJ is singular. */
   sigma: Float64Array;
   /** Row-major p×p covariance. */
   covariance: Float64Array;
@@ -47,23 +48,24 @@ export interface LeastSquaresResult {
   dof: number;
   residualRms: number;
   iterations: number;
-  rounds: number;
   converged: boolean;
+  /** Why the solver stopped. */
+  reason: StopReason;
   /** False when JᵀJ was singular at the solution (a parameter the data do not determine). */
   wellDetermined: boolean;
+  /** Residuals y − model at the solution (unweighted). */
+  residuals: Float64Array;
+  /** IRLS weights (robust fits), else null. */
+  weights: Float64Array | null;
 }
 
-const DEFAULTS: Required<LeastSquaresOptions> = {
-  gradientStep: 0.001,
-  iterationsPerRound: 2,
-  maxRounds: 15,
-  tolerance: 0.01,
-};
+const DEFAULTS: Required<LeastSquaresOptions> = { gradientStep: 0.001, maxIterations: 100, tolerance: 0.001, robust: false };
 
 /**
- * Fits with ml-levenberg-marquardt in rounds: the library runs a fixed number of iterations and
- * keeps its best point, so convergence is judged here from the sum of squares between rounds.
- * Uncertainties come from a central-difference Jacobian at the solution.
+ * Fits with the Levenberg–Marquardt of ./solver on parameters scaled to unit Jacobian columns at
+ * the start (D. W. Marquardt, J. SIAM 11, 431 (1963): the normal equations scaled to unit
+ * diagonal; from memory), so one damping μ means the same for every parameter. Uncertainties
+ * come from the Jacobian at the solution.
  */
 export function leastSquares(problem: LeastSquaresProblem, options: LeastSquaresOptions = {}): LeastSquaresResult {
   const opt = { ...DEFAULTS, ...options };
@@ -75,136 +77,66 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
   const scale = Float64Array.from(problem.scale);
   const steps = new Float64Array(np);
   for (let j = 0; j < np; j++) steps[j] = opt.gradientStep * scale[j];
-  // Solver units: each parameter scaled by its Jacobian column norm at the start, so JᵀJ has a
-  // unit diagonal and the library's fixed damping means the same for every parameter
-  // (D. W. Marquardt, J. SIAM 11, 431 (1963): the normal equations scaled to unit diagonal; from memory).
+  const physicalJacobian = (q: Float64Array, at: Float64Array, out: Float64Array) => {
+    if (problem.jacobian) problem.jacobian(q, at, steps, out);
+    else fillCentralJacobian(problem, q, steps, out);
+  };
+  const at0 = new Float64Array(n);
+  problem.model(start, at0);
+  const j0 = new Float64Array(np * n);
+  physicalJacobian(start, at0, j0);
   const unit = new Float64Array(np);
-  const j0 = jacobianAt(problem, start, scale, opt.gradientStep);
   for (let j = 0; j < np; j++) {
     let c = 0;
     for (let i = 0; i < n; i++) c += j0[j * n + i] ** 2;
     unit[j] = c > 0 && Number.isFinite(c) ? 1 / Math.sqrt(c) : scale[j];
   }
-  const toPhysical = (u: ArrayLike<number>, out = new Float64Array(np)): Float64Array => {
+  const q = new Float64Array(np);
+  const toPhysical = (u: ArrayLike<number>, out = q): Float64Array => {
     for (let i = 0; i < np; i++) out[i] = start[i] + unit[i] * u[i];
     return out;
   };
-  const minU = new Array<number>(np), maxU = new Array<number>(np);
-  const gradientDifference = new Array<number>(np);
+  const lower = new Float64Array(np), upper = new Float64Array(np);
   for (let i = 0; i < np; i++) {
-    minU[i] = problem.min ? (problem.min[i] - start[i]) / unit[i] : -Number.MAX_VALUE;
-    maxU[i] = problem.max ? (problem.max[i] - start[i]) / unit[i] : Number.MAX_VALUE;
-    gradientDifference[i] = steps[i] / unit[i];
+    lower[i] = problem.min ? (problem.min[i] - start[i]) / unit[i] : -Infinity;
+    upper[i] = problem.max ? (problem.max[i] - start[i]) / unit[i] : Infinity;
   }
-  const p = new Float64Array(np);
-  // The library asks for the model at the same point again for the Jacobian: keep the last one.
-  let lastU: number[] | null = null;
-  let lastBuf = new Float64Array(0);
-  const fn = (u: number[]) => {
-    const buf = new Float64Array(n);
-    problem.model(toPhysical(u, p), buf);
-    lastU = u.slice();
-    lastBuf = buf;
-    return (x: number) => buf[x];
-  };
-  const sameAsLast = (u: number[]) => lastU !== null && u.every((v, i) => v === lastU![i]);
-  const x = new Float64Array(n);
-  for (let i = 0; i < n; i++) x[i] = i;
-  const data = { x, y: problem.y };
-
-  const jacobianFunction = problem.jacobian
-    ? (uu: number[]) => {
-        const q = toPhysical(uu);
-        let at = lastBuf;
-        if (!sameAsLast(uu)) {
-          at = new Float64Array(n);
-          problem.model(q, at);
-        }
-        const jac = new Float64Array(np * n);
-        problem.jacobian!(q, at, steps, jac);
-        const row = new Array<number>(np);
-        return (xi: number) => {
-          for (let j = 0; j < np; j++) row[j] = jac[j * n + xi] * unit[j];
-          return row;
-        };
+  const solverProblem = {
+    n, p: np, y: problem.y, lower, upper, columnRows: problem.columnRows,
+    model: (u: Float64Array, out: Float64Array) => problem.model(toPhysical(u), out),
+    jacobian: (u: Float64Array, at: Float64Array, out: Float64Array) => {
+      physicalJacobian(toPhysical(u), at, out);
+      for (let j = 0; j < np; j++) {
+        const c = unit[j];
+        for (let i = j * n, end = i + n; i < end; i++) out[i] *= c;
       }
-    : undefined;
-  let u = new Array<number>(np).fill(0);
-  let ssr = sumSquares(problem, toPhysical(u));
-  let iterations = 0, rounds = 0, converged = false;
-  while (rounds < opt.maxRounds) {
-    rounds++;
-    let result;
-    try {
-      result = levenbergMarquardt(data, fn, {
-        initialValues: u,
-        gradientDifference,
-        maxIterations: opt.iterationsPerRound,
-        errorTolerance: 1e-300,
-        damping: 0.001,
-        minValues: minU,
-        maxValues: maxU,
-        ...(jacobianFunction ? { jacobianFunction } : {}),
-      });
-    } catch {
-      break;
-    }
-    iterations += result.iterations;
-    const next = result.parameterValues;
-    const nextSsr = sumSquares(problem, toPhysical(next));
-    if (!(nextSsr <= ssr)) break;
-    const drop = ssr - nextSsr;
-    u = next;
-    ssr = nextSsr;
-    if (drop <= (opt.tolerance * ssr) / Math.max(n - np, 1) || ssr === 0) {
-      converged = true;
-      break;
-    }
+    },
+  };
+  const solverOptions = { maxIterations: opt.maxIterations, tolerance: opt.tolerance };
+  const u0 = new Float64Array(np);
+  const result: SolverResult & { weights?: Float64Array } = opt.robust ? huberFit(solverProblem, u0, solverOptions) : levenbergMarquardt(solverProblem, u0, solverOptions);
+  const params = toPhysical(result.u, new Float64Array(np));
+  const residuals = new Float64Array(n);
+  let ssr = 0;
+  for (let i = 0; i < n; i++) {
+    residuals[i] = problem.y[i] - result.fit[i];
+    ssr += residuals[i] * residuals[i];
   }
-  const params = toPhysical(u);
   const dof = n - np;
-  const { covariance, sigma, ok } = covarianceAt(problem, params, scale, opt.gradientStep, ssr / Math.max(dof, 1));
-  return { params, sigma, covariance, ssr, dof, residualRms: Math.sqrt(ssr / n), iterations, rounds, converged, wellDetermined: ok };
+  const weights = result.weights ?? null;
+  const { covariance, sigma, ok } = covarianceFrom(result.jac, residuals, weights, n, np, unit);
+  return {
+    params, sigma, covariance, ssr, dof, residualRms: Math.sqrt(ssr / n), iterations: result.iterations,
+    converged: result.converged, reason: result.reason, wellDetermined: ok, residuals, weights,
+  };
 }
 
-function sumSquares(problem: LeastSquaresProblem, p: Float64Array): number {
-  const out = new Float64Array(problem.y.length);
-  problem.model(p, out);
-  let s = 0, c = 0;
-  for (let i = 0; i < out.length; i++) {
-    // Kahan-compensated sum of squared residuals
-    const r = problem.y[i] - out[i];
-    const t = r * r - c;
-    const next = s + t;
-    c = next - s - t;
-    s = next;
-  }
-  return Number.isFinite(s) ? s : Infinity;
-}
-
-function covarianceAt(problem: LeastSquaresProblem, params: Float64Array, scale: Float64Array, stepU: number, s2: number) {
-  return covarianceFrom(jacobianAt(problem, params, scale, stepU), problem.y.length, params.length, s2);
-}
-
-function jacobianAt(problem: LeastSquaresProblem, params: Float64Array, scale: Float64Array, stepU: number): Float64Array {
-  const n = problem.y.length, np = params.length;
-  const jac = new Float64Array(np * n);
-  if (problem.jacobian) {
-    const at = new Float64Array(n);
-    problem.model(params, at);
-    const steps = new Float64Array(np);
-    for (let j = 0; j < np; j++) steps[j] = stepU * scale[j];
-    problem.jacobian(params, at, steps, jac);
-  } else fillCentralJacobian(problem, params, scale, stepU, jac);
-  return jac;
-}
-
-function fillCentralJacobian(problem: LeastSquaresProblem, params: Float64Array, scale: Float64Array, stepU: number, jac: Float64Array): void {
+function fillCentralJacobian(problem: LeastSquaresProblem, params: Float64Array, steps: Float64Array, jac: Float64Array): void {
   const n = problem.y.length, np = params.length;
   const plus = new Float64Array(n), minus = new Float64Array(n);
   const q = new Float64Array(params);
   for (let j = 0; j < np; j++) {
-    const h = stepU * scale[j];
+    const h = steps[j];
     q[j] = params[j] + h;
     problem.model(q, plus);
     q[j] = params[j] - h;
@@ -214,7 +146,13 @@ function fillCentralJacobian(problem: LeastSquaresProblem, params: Float64Array,
   }
 }
 
-function covarianceFrom(jac: Float64Array, n: number, np: number, s2: number) {
+/**
+ * cov = s²·(JᵀJ)⁻¹ with s² = SSR/(N − p); for a Huber fit the M-estimate's form
+ * [Σψ²/(N − p)]/[Σψ′/N]²·(JᵀJ)⁻¹ (P. J. Huber, "Robust Statistics", Wiley (1981), §7.6, the
+ * correction factor κ ≈ 1 for N ≫ p dropped; from memory), which is the same without outliers.
+ * jac is in solver units; unit maps back to physical parameters.
+ */
+function covarianceFrom(jac: Float64Array, e: Float64Array, w: Float64Array | null, n: number, np: number, unit: Float64Array) {
   const jtj = new Float64Array(np * np);
   for (let a = 0; a < np; a++) {
     for (let b = a; b < np; b++) {
@@ -225,11 +163,19 @@ function covarianceFrom(jac: Float64Array, n: number, np: number, s2: number) {
       jtj[b * np + a] = s;
     }
   }
+  let psi2 = 0, inside = 0;
+  for (let i = 0; i < n; i++) {
+    const wi = w ? w[i] : 1;
+    psi2 += (wi * e[i]) ** 2;
+    if (wi === 1) inside++;
+  }
+  const dof = Math.max(n - np, 1);
+  const s2 = psi2 / dof / ((inside || 1) / n) ** 2;
   const inv = invertSymmetric(jtj, np);
   const covariance = new Float64Array(np * np);
   const sigma = new Float64Array(np).fill(NaN);
   if (!inv) return { covariance: covariance.fill(NaN), sigma, ok: false };
-  for (let i = 0; i < np * np; i++) covariance[i] = s2 * inv[i];
+  for (let a = 0; a < np; a++) for (let b = 0; b < np; b++) covariance[a * np + b] = s2 * inv[a * np + b] * unit[a] * unit[b];
   for (let j = 0; j < np; j++) sigma[j] = Math.sqrt(Math.max(0, covariance[j * np + j]));
   return { covariance, sigma, ok: true };
 }

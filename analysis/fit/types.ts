@@ -6,11 +6,15 @@ export type AnalysisMode = 'sequential' | 'refit';
 export interface AnalyzeOptions {
   /** @default 'sequential' */
   mode?: AnalysisMode;
-  /** Most samples per layer used in the iterations (uniform in time); residuals use all. @default 2000 */
+  /** Most points per layer in the iterations: means of bins equal in time (fit/subsample.ts binMeans); residuals use all samples. @default 400 */
   maxFitPoints?: number;
-  /** Samples per layer in the joint re-fit after each layer (refit mode). @default 400 */
+  /**
+   * Bin means per layer in a joint re-fit of the chip after each layer (refit mode); 0 skips
+   * these (a quarter less time; the errors of the plain runs stay, but a layer with a rate spike
+   * then pulls its neighbours, and reflectance runs lose accuracy). @default 100
+   */
   refitPointsPerLayer?: number;
-  /** Samples in all, shared by the chip's layers (each at most maxFitPoints), in the final joint fit. @default 16000 */
+  /** Bin means in all, shared by the chip's layers (each at most maxFitPoints), in the final joint fit. @default 3200 */
   refitFinalPoints?: number;
   /**
    * 'chip': one gain per chip from its bare-chip calibration, held in sequential mode; in refit
@@ -32,8 +36,23 @@ export interface AnalyzeOptions {
    * (with any known drift), σ as a fraction of the gain; 0 leaves the gains free. @default 0.005
    */
   gainPriorFraction?: number;
-  /** Layers below this many quarter-waves at the monitor wavelength get a held index. @default 0.5 */
+  /**
+   * Layers below this many quarter-waves at the monitor wavelength get a free trial fit, and
+   * their index is held when that fit cannot separate it from the thickness (heldIndexCorrelation,
+   * heldIndexSigma). @default 0.9
+   */
   thinLayerQwot?: number;
+  /** A thin layer's index is held when its trial fit's index–thickness |correlation| exceeds this. @default 0.99 */
+  heldIndexCorrelation?: number;
+  /**
+   * Huber's loss in every fit, so spikes and outliers count less (fit/solver/huber.ts). Off by
+   * default: the fits work on bin means, which dilute short spikes, and on the chamber simulator's
+   * spiky traces Huber changed the errors by < 0.03 % while its 5 % efficiency loss cost the
+   * white-noise mirror 0.04 % in thickness. @default false
+   */
+  robustLoss?: boolean;
+  /** …or when its trial fit's index σ exceeds this. @default 0.05 */
+  heldIndexSigma?: number;
   /** The index a thin layer is held at: the nominal, or this run's drift estimate. @default 'run-drift' */
   heldIndex?: 'nominal' | 'run-drift';
   /**

@@ -6,3 +6,4 @@ export * from './groupDifference';
 export * from './individualsChart';
 export * from './runRules';
 export * from './newestPointRules';
+export * from './correlatedNoise';

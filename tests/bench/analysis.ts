@@ -1,6 +1,6 @@
 // Trace analysis figures for `npm run bench`: a 40-layer, 10⁶-sample synthetic run through
 // parse (readTrace from CSV chunks), segmentation, the fit of every layer and the spectra.
-// The fit uses at most 2000 samples per layer (uniform in time) in its iterations and all
+// The fit uses at most 400 bin means per layer (bins equal in time) in its iterations and all
 // samples for the residuals (AnalyzeOptions.maxFitPoints).
 import { parseDesign } from '../../analysis/design';
 import { analyzeRun } from '../../analysis/fit';

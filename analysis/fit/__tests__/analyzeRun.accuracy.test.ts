@@ -62,7 +62,7 @@ function expectWithinTargets(e: Errors[]): void {
 }
 
 describe('analyzeRun accuracy on synthetic traces (issue 4 targets)', () => {
-  it('18-layer mirror, chip change every 6 layers, rate and index drift: refit meets the targets and beats sequential', async () => {
+  it('18-layer mirror, chip change every 6 layers, rate and index drift: refit meets the targets and beats sequential', { timeout: 240_000 }, async () => {
     const design = mirror18();
     for (const seed of [11, 12, 13]) {
       const { run, trace } = await synthTrace(design, { seed, ...FAULTS });
@@ -75,7 +75,7 @@ describe('analyzeRun accuracy on synthetic traces (issue 4 targets)', () => {
     }
   });
 
-  it('four-layer BBAR cut on level, two thin layers with held index: refit meets the targets', async () => {
+  it('four-layer BBAR cut on level, thin layers held where the data cannot separate index and thickness: refit meets the targets', { timeout: 120_000 }, async () => {
     const design = bbar4();
     for (const seed of [11, 12, 13]) {
       const { run, trace } = await synthTrace(design, { seed, ...FAULTS });
@@ -84,13 +84,16 @@ describe('analyzeRun accuracy on synthetic traces (issue 4 targets)', () => {
       const ref = errors(result, run);
       table(`bbar4 seed ${seed}`, seq, ref);
       expectWithinTargets(ref);
-      expect(result.layers[0].indexHeld && result.layers[1].indexHeld).toBe(true);
-      expect(result.layers[0].warnings.some((w) => w.startsWith('index held'))).toBe(true);
-      expect(result.layers[2].indexHeld || result.layers[3].indexHeld).toBe(false);
+      // The 0.22-QWOT layer's index does not separate from its thickness (trial fit correlation
+      // ≈ −1): held, and its note says why; the 0.4-QWOT one separates at 0.1 % noise: fitted.
+      expect(result.layers[0].indexHeld).toBe(true);
+      expect(result.layers[0].warnings.some((w) => w.startsWith('index held') && w.includes('a free fit of this layer finds index and thickness correlated at'))).toBe(true);
+      expect(result.layers[1].indexHeld || result.layers[2].indexHeld || result.layers[3].indexHeld).toBe(false);
+      expect(result.layers[1].indexSigma).toBeLessThan(0.01);
     }
   });
 
-  it('uncertainties are sane: the truth lies within 3σ for at least 90 % of layers', async () => {
+  it('uncertainties are sane: the truth lies within 3σ for at least 90 % of layers', { timeout: 240_000 }, async () => {
     const design = mirror18();
     const z: number[] = [];
     for (const seed of [21, 22, 23, 24]) {

@@ -55,7 +55,7 @@ describe('analyzeRun on faulty runs', () => {
     for (const c of result.chips) expect(c.gain).toBeCloseTo(1.3, 2);
   });
 
-  it('estimates a detector gain drift from the bare-chip calibrations of successive chips and corrects for it', async () => {
+  it('estimates a detector gain drift from the bare-chip calibrations of successive chips and corrects for it', { timeout: 120_000 }, async () => {
     const design = mirror18();
     const { run, trace } = await synthTrace(design, { seed: 35, gainDriftPerHour: -0.03, rateNmPerS: { H: 0.25, L: 0.5 } });
     const result = await analyzeRun(design, trace, { mode: 'refit' });

@@ -23,9 +23,13 @@ describe('indexDrift', () => {
 
   it("estimates a material's deviation at a time from this run's fitted layers", () => {
     expect(driftEstimateAt([], 'H', 0)).toBeNull();
-    expect(driftEstimateAt([point(1, 'H', 0, 0.01), point(2, 'H', 100, 0.02)], 'H', 500)).toEqual({ deviation: 0.015, from: 2 });
+    // Two layers: their mean; σ of a new layer's index from their spread s² = 5·10⁻⁵ as s·√(1 + 1/n).
+    expect(driftEstimateAt([point(1, 'H', 0, 0.01), point(2, 'H', 100, 0.02)], 'H', 500)).toEqual({ deviation: 0.015, sigma: Math.sqrt(5e-5 * 1.5), from: 2 });
     const e = driftEstimateAt([point(1, 'H', 0, 0), point(2, 'H', 3600, -0.01), point(3, 'H', 7200, -0.02)], 'H', 10800)!;
     expect(e.deviation).toBeCloseTo(-0.03, 10);
     expect(e.from).toBe(3);
+    // On an exact line the scatter floor (0.005) stands in for s; the prediction of a new
+    // observation three hours on: s²·(1 + 1/3 + (3 − 1)²/2) (Draper & Smith, ch. 1).
+    expect(e.sigma).toBeCloseTo(0.005 * Math.sqrt(1 + 1 / 3 + 2), 10);
   });
 });
