@@ -1,4 +1,4 @@
-export { readTrace, readTraceText } from './readTrace';
+export { readTrace, readTraceText, scanTrace } from './readTrace';
 export { TraceFormatError } from './TraceFormatError';
 export { segmentTrace, type SegmentOptions } from './segment';
 export { autoSegment, type AutoSegmentOptions } from './autoSegment';
@@ -8,4 +8,4 @@ export { fringeSpectrum, type FringeSpectrum, type FringeSpectrumOptions, type S
 export { decimateMinMax } from './decimate';
 export { realFftMagnitude } from './realFftMagnitude';
 export { median, noiseSigma } from './robustStats';
-export type { ReadTraceOptions, TraceData, TraceWarning, Segment, Segmentation } from './types';
+export type { ReadTraceOptions, TraceData, TraceScan, TraceWarning, Segment, Segmentation } from './types';

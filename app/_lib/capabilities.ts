@@ -13,15 +13,21 @@ export type Capabilities = {
   viewMailSink: boolean;
   /** Change one's own password. */
   changeOwnPassword: boolean;
+  /** Upload run traces (the upload page, POST /api/runs). */
+  uploadRuns: boolean;
+  /** Queue a new analysis of a run with other settings. */
+  reanalyseRuns: boolean;
+  /** Create and revoke chamber tokens. */
+  manageChamberTokens: boolean;
 };
 export type Capability = keyof Capabilities;
 
 /** The one map from role to what it may do. */
 export const capabilities: Record<Role, Capabilities> = {
-  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true },
-  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true },
-  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true },
+  operator: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, uploadRuns: true, reanalyseRuns: false, manageChamberTokens: false },
+  engineer: { viewRuns: true, manageUsers: false, viewAuditLog: false, viewMailSink: false, changeOwnPassword: true, uploadRuns: true, reanalyseRuns: true, manageChamberTokens: false },
+  supervisor: { viewRuns: true, manageUsers: false, viewAuditLog: true, viewMailSink: false, changeOwnPassword: true, uploadRuns: true, reanalyseRuns: false, manageChamberTokens: false },
+  admin: { viewRuns: true, manageUsers: true, viewAuditLog: true, viewMailSink: true, changeOwnPassword: true, uploadRuns: true, reanalyseRuns: true, manageChamberTokens: true },
 };
 
 export function can(role: Role, capability: Capability): boolean {

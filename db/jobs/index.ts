@@ -1,2 +1,5 @@
 export * from './analyseStoredRun';
+export * from './analysisSettings';
+export * from './runAnalysisJob';
 export * from './toJsonValue';
+export * from './queueAnalysis';

@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { AnalysisMode, LayerResult } from '../../analysis/fit';
 import { db, type Executor } from '../client';
 import { analyses, layerResults, runs, type Analysis, type AnalysisSummary, type LayerResultRow } from '../schema';
@@ -18,14 +18,23 @@ export async function createAnalysis(
   return row;
 }
 
-/** queued → running; false when the analysis was not queued (taken by someone else, or finished). */
-export async function markAnalysisRunning(id: number, ex: Executor = db()): Promise<boolean> {
-  const rows = await ex
+/**
+ * A worker takes the analysis: queued (or running, when an earlier worker died or its job
+ * expired) → running, with the attempt number bumped. Returns the new attempt, or null when the
+ * analysis is already done or failed (a repeated job has nothing to do).
+ */
+export async function claimAnalysis(id: number, ex: Executor = db()): Promise<{ attempt: number; analysis: Analysis } | null> {
+  const [row] = await ex
     .update(analyses)
-    .set({ state: 'running', startedAt: new Date() })
-    .where(and(eq(analyses.id, id), eq(analyses.state, 'queued')))
-    .returning({ id: analyses.id });
-  return rows.length === 1;
+    .set({ state: 'running', startedAt: new Date(), attempt: sql`${analyses.attempt} + 1` })
+    .where(and(eq(analyses.id, id), inArray(analyses.state, ['queued', 'running'])))
+    .returning();
+  return row ? { attempt: row.attempt, analysis: row } : null;
+}
+
+/** The seed's synchronous path: queued → running as attempt 1. */
+export async function markAnalysisRunning(id: number, ex: Executor = db()): Promise<boolean> {
+  return (await claimAnalysis(id, ex)) !== null;
 }
 
 /** The keys of FORMATS.md have their own columns; every other key of the layer result goes to `detail`. */
@@ -41,16 +50,19 @@ function layerRow(analysisId: number, l: LayerResult): typeof layerResults.$infe
  */
 export async function storeAnalysisResult(
   id: number,
-  result: { layers: readonly LayerResult[]; warnings: string[]; summary: AnalysisSummary },
+  result: { layers: readonly LayerResult[]; warnings: string[]; summary: AnalysisSummary; cutsOutsideTolerance?: number; attempt?: number },
   ex: Executor = db(),
 ): Promise<boolean> {
   return ex.transaction(async (tx) => {
+    const stillOurs = result.attempt === undefined ? undefined : eq(analyses.attempt, result.attempt);
     const [done] = await tx
       .update(analyses)
-      .set({ state: 'done', finishedAt: new Date(), warnings: result.warnings, summary: result.summary, error: null })
-      .where(and(eq(analyses.id, id), eq(analyses.state, 'running')))
+      .set({ state: 'done', finishedAt: new Date(), warnings: result.warnings, summary: result.summary, error: null, cutsOutsideTolerance: result.cutsOutsideTolerance ?? null })
+      .where(and(eq(analyses.id, id), eq(analyses.state, 'running'), stillOurs))
       .returning({ runId: analyses.runId });
     if (!done) return false;
+    // Nothing should be there (results are only written with 'done'); clearing keeps a repeat harmless.
+    await tx.delete(layerResults).where(eq(layerResults.analysisId, id));
     if (result.layers.length > 0) await tx.insert(layerResults).values(result.layers.map((l) => layerRow(id, l)));
     await tx.update(runs).set({ status: 'analysed' }).where(eq(runs.id, done.runId));
     return true;
@@ -58,12 +70,12 @@ export async function storeAnalysisResult(
 }
 
 /** Marks a queued or running analysis 'failed' with its message (and the run 'failed' unless an earlier analysis of it succeeded). */
-export async function failAnalysis(id: number, message: string, ex: Executor = db()): Promise<void> {
+export async function failAnalysis(id: number, message: string, ex: Executor = db(), attempt?: number): Promise<void> {
   await ex.transaction(async (tx) => {
     const [failed] = await tx
       .update(analyses)
       .set({ state: 'failed', finishedAt: new Date(), error: message })
-      .where(and(eq(analyses.id, id), inArray(analyses.state, ['queued', 'running'])))
+      .where(and(eq(analyses.id, id), inArray(analyses.state, ['queued', 'running']), attempt === undefined ? undefined : eq(analyses.attempt, attempt)))
       .returning({ runId: analyses.runId });
     if (!failed) return;
     const [ok] = await tx.select({ id: analyses.id }).from(analyses).where(and(eq(analyses.runId, failed.runId), eq(analyses.state, 'done'))).limit(1);
@@ -88,4 +100,9 @@ export async function latestAnalyses(runId: number, ex: Executor = db()): Promis
   const layers = ids.length ? await ex.select().from(layerResults).where(inArray(layerResults.analysisId, ids)).orderBy(asc(layerResults.layer)) : [];
   for (const analysis of rows) out[analysis.mode] = { analysis, layers: layers.filter((l) => l.analysisId === analysis.id) };
   return out;
+}
+
+/** Every analysis of a run, newest first, without layers (the run page's list of earlier results). */
+export async function listAnalysesOfRun(runId: number, ex: Executor = db()): Promise<Analysis[]> {
+  return ex.select().from(analyses).where(eq(analyses.runId, runId)).orderBy(desc(analyses.id));
 }

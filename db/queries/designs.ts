@@ -1,5 +1,5 @@
 import 'server-only';
-import { desc, eq, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, sql } from 'drizzle-orm';
 import { db, type Executor } from '../client';
 import { auditEvents, designRevisions, designs, type DesignRevision } from '../schema';
 
@@ -65,4 +65,25 @@ export async function latestDesignRevision(name: string, ex: Executor = db()): P
     .orderBy(desc(designRevisions.revision))
     .limit(1);
   return row?.revision;
+}
+
+/** Revision `revision` of the design of that name. */
+export async function findDesignRevisionByNumber(name: string, revision: number, ex: Executor = db()): Promise<DesignRevision | undefined> {
+  const [row] = await ex
+    .select({ revision: designRevisions })
+    .from(designRevisions)
+    .innerJoin(designs, eq(designs.id, designRevisions.designId))
+    .where(and(eq(designs.name, name), eq(designRevisions.revision, revision)));
+  return row?.revision;
+}
+
+export type DesignRevisionChoice = { designName: string; revision: number; layerCount: number; createdAt: Date };
+
+/** Every revision of every design, by name then newest revision first (the upload page's list). */
+export async function listDesignRevisions(): Promise<DesignRevisionChoice[]> {
+  return db()
+    .select({ designName: designs.name, revision: designRevisions.revision, layerCount: designRevisions.layerCount, createdAt: designRevisions.createdAt })
+    .from(designRevisions)
+    .innerJoin(designs, eq(designs.id, designRevisions.designId))
+    .orderBy(asc(designs.name), desc(designRevisions.revision));
 }

@@ -8,3 +8,7 @@ export * from './users';
 export * from './analyses';
 export * from './designs';
 export * from './runs';
+export * from './uploads';
+export * from './transaction';
+export * from './chamberTokens';
+export * from './runList';

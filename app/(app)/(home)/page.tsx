@@ -13,6 +13,9 @@ const capabilityText: Record<Capability, { text: string; href?: string }> = {
   viewAuditLog: { text: 'Read the audit log of who changed what', href: '/audit' },
   viewMailSink: { text: 'Read the mail the local sink caught', href: '/admin/mail' },
   changeOwnPassword: { text: 'Change your own password', href: '/account' },
+  uploadRuns: { text: 'Upload the trace of a finished run for analysis', href: '/runs/upload' },
+  reanalyseRuns: { text: 'Analyse a run again with other fit settings' },
+  manageChamberTokens: { text: "Issue and revoke the chamber tokens that let a coater's PC upload its runs", href: '/admin/chamber-tokens' },
 };
 
 export default async function HomePage() {
