@@ -53,3 +53,10 @@ export const changePasswordSchema = z
   })
   .refine((v) => v.password === v.confirm, { path: ['confirm'], message: 'The two passwords differ.' })
   .refine((v) => v.password !== v.current, { path: ['password'], message: 'Choose a password different from the current one.' });
+
+export const createChamberTokenSchema = z.object({
+  chamberId: z.coerce.number({ error: 'Choose a chamber.' }).int().positive('Choose a chamber.'),
+  label: z.string().trim().min(2, 'Say where the token will be used, e.g. “Bay 1 controller PC”.').max(120, 'That label is too long.'),
+});
+
+export const chamberTokenIdSchema = z.object({ tokenId: z.coerce.number().int().positive() });

@@ -2,7 +2,7 @@ import 'server-only';
 import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { AnalysisMode, LayerResult } from '../../analysis/fit';
 import { db, type Executor } from '../client';
-import { analyses, layerResults, runs, type Analysis, type AnalysisSummary, type LayerResultRow } from '../schema';
+import { analyses, auditEvents, layerResults, runs, type Analysis, type AnalysisSummary, type LayerResultRow } from '../schema';
 
 export type { AnalysisMode };
 
@@ -105,4 +105,18 @@ export async function latestAnalyses(runId: number, ex: Executor = db()): Promis
 /** Every analysis of a run, newest first, without layers (the run page's list of earlier results). */
 export async function listAnalysesOfRun(runId: number, ex: Executor = db()): Promise<Analysis[]> {
   return ex.select().from(analyses).where(eq(analyses.runId, runId)).orderBy(desc(analyses.id));
+}
+
+/** A re-analysis asked for by someone: the queued row and its audit entry (inside the caller's transaction). */
+export async function createRequestedAnalysis(input: { runId: number; mode: AnalysisMode; settings: Record<string, unknown>; requestedBy: number | null }, ex: Executor): Promise<Analysis> {
+  const analysis = await createAnalysis(input, ex);
+  const [run] = await ex.select({ runCode: runs.runCode }).from(runs).where(eq(runs.id, input.runId));
+  await ex.insert(auditEvents).values({
+    actorId: input.requestedBy,
+    action: 'run.reanalysis_queued',
+    targetType: 'run',
+    targetId: String(input.runId),
+    detail: { runCode: run?.runCode ?? null, analysisId: analysis.id, settings: input.settings },
+  });
+  return analysis;
 }

@@ -21,7 +21,7 @@ export const uniqueCode = (prefix = 'U') => `${prefix}-${Date.now().toString(36)
 export function uploadRequest(fields: Record<string, string>, file?: { name: string; bytes: Buffer | string; type?: string }, headers: Record<string, string> = {}): Request {
   const form = new FormData();
   for (const [k, v] of Object.entries(fields)) form.set(k, v);
-  if (file) form.set('trace', new Blob([file.bytes], { type: file.type ?? 'text/csv' }), file.name);
+  if (file) form.set('trace', new Blob([typeof file.bytes === 'string' ? file.bytes : new Uint8Array(file.bytes)], { type: file.type ?? 'text/csv' }), file.name);
   return new Request('http://localhost/api/runs', { method: 'POST', body: form, headers });
 }
 

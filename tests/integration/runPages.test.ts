@@ -33,7 +33,7 @@ describe('the runs pages', () => {
   it('send signed-out visitors to sign-in', async () => {
     const id = await demoRunId('B1-0412');
     anonymous();
-    expect(await interruptOf(() => RunsPage())).toEqual({ kind: 'redirect', location: '/sign-in' });
+    expect(await interruptOf(() => RunsPage({}))).toEqual({ kind: 'redirect', location: '/sign-in' });
     expect(await interruptOf(() => runPage(id))).toEqual({ kind: 'redirect', location: '/sign-in' });
   });
 
@@ -41,7 +41,7 @@ describe('the runs pages', () => {
     it(`show the list and a run to the ${role}`, async () => {
       const id = await demoRunId('B2-0587');
       await signInDemo(role);
-      const list = textOf(await RunsPage());
+      const list = textOf(await RunsPage({}));
       for (const code of ['B1-0412', 'B1-0413', 'B2-0587', 'B2-0588', 'B3-1120', 'B3-1121']) expect(list).toContain(code);
       expect(list).toContain('Bay 3 sputter');
       const run = textOf(await runPage(id));

@@ -19,6 +19,9 @@ const verbs: Record<string, string> = {
   'user.password_reset': 'reset the password of',
   'design.revision_created': 'stored a revision of design',
   'run.uploaded': 'stored the trace of run',
+  'run.reanalysis_queued': 'queued a new analysis of run',
+  'chamber_token.created': 'created chamber token',
+  'chamber_token.revoked': 'revoked chamber token',
 };
 
 /** Phrases for what people do to their own account. */
@@ -37,7 +40,8 @@ function details(e: AuditRow): string {
   if (e.action === 'user.role_changed') return `${role(d.from)} → ${role(d.to)}`;
   if (e.action === 'user.invited') return `as ${role(d.role)}, ${String(d.email)}`;
   if (e.action === 'design.revision_created') return `revision ${String(d.revision)}`;
-  if (e.action === 'run.uploaded' && typeof d.bytes === 'number') return `${String(d.file)}, ${formatBytes(d.bytes)}`;
+  if (e.action === 'run.uploaded' && typeof d.bytes === 'number') return `${String(d.file)}, ${formatBytes(d.bytes)}${d.chamberToken ? `, by chamber token #${String(d.chamberToken)}` : ''}`;
+  if (e.action.startsWith('chamber_token.')) return `${typeof d.label === 'string' ? d.label : 'demo token'} (chamber #${String(d.chamberId)})`;
   return Object.entries(d)
     .map(([k, v]) => `${k}: ${typeof v === 'string' ? v : JSON.stringify(v)}`)
     .join(' · ');
@@ -48,6 +52,7 @@ function targetLabel(e: AuditRow): string {
   if (e.targetType === 'user' && e.targetName) return e.targetName;
   if (e.targetType === 'design' && typeof e.detail.name === 'string') return e.detail.name;
   if (e.targetType === 'run' && typeof e.detail.runCode === 'string') return e.detail.runCode;
+  if (e.targetType === 'chamber_token' && typeof e.detail.hint === 'string') return e.detail.hint;
   return `${e.targetType}${e.targetId ? ` #${e.targetId}` : ''}`;
 }
 

@@ -6,9 +6,12 @@ import { IndexDriftList } from '@/components/runs/IndexDriftList';
 import { LayerTable } from '@/components/runs/LayerTable';
 import { formatBytes, formatDate } from '@/components/runs/format';
 import { PageHeader, Panel, formatTime } from '@/components/ui/Page';
-import { latestAnalyses, type AnalysisMode } from '@/db/queries/analyses';
+import { AnalysisHistory } from '@/components/runs/AnalysisHistory';
+import { ReanalyseForm } from '@/components/runs/ReanalyseForm';
+import { findAnalysis, latestAnalyses, listAnalysesOfRun, type AnalysisMode } from '@/db/queries/analyses';
 import { findRun } from '@/db/queries/runs';
 import { requireCapability } from '@/app/_lib/auth';
+import { can } from '@/app/_lib/capabilities';
 import { driftRows, layerRows, parseRunId } from './runView';
 
 export const metadata: Metadata = { title: 'Run' };
@@ -27,18 +30,25 @@ function Fact({ label, children }: { label: string; children: React.ReactNode })
   );
 }
 
-export default async function RunPage({ params, searchParams }: { params: Promise<{ runId: string }>; searchParams: Promise<{ mode?: string | string[] }> }) {
-  await requireCapability('viewRuns');
+export default async function RunPage({ params, searchParams }: { params: Promise<{ runId: string }>; searchParams: Promise<{ mode?: string | string[]; analysis?: string | string[] }> }) {
+  const user = await requireCapability('viewRuns');
   const { runId } = await params;
   const id = parseRunId(runId);
   const found = id === null ? undefined : await findRun(id);
   if (!found) notFound();
   const { run, design, chamber, trace } = found;
   const byMode = await latestAnalyses(run.id);
-  const asked = (await searchParams).mode;
+  const query = await searchParams;
+  // An earlier analysis, asked for by ?analysis=ID, takes the place of the newest of its mode.
+  const pinnedId = parseRunId(String(query.analysis ?? ''));
+  const pinned = pinnedId === null ? undefined : await findAnalysis(pinnedId);
+  if (pinned && pinned.analysis.runId === run.id) byMode[pinned.analysis.mode] = pinned;
+  const asked = pinned?.analysis.runId === run.id ? pinned.analysis.mode : query.mode;
   const available = modes.filter((m) => byMode[m.mode]);
   const shown = available.find((m) => m.mode === asked) ?? available[0];
   const current = shown ? byMode[shown.mode] : undefined;
+  const history = await listAnalysesOfRun(run.id);
+  const newestIds = modes.map((m) => history.find((a) => a.mode === m.mode)?.id).filter((x): x is number => x !== undefined);
 
   return (
     <>
@@ -137,6 +147,15 @@ export default async function RunPage({ params, searchParams }: { params: Promis
           ) : null}
         </>
       )}
+      <Panel title="Analyses of this run" className="mt-6">
+        <p className="mb-2 text-xs text-ink-faint">Every result is kept; the newest of each mode is the one shown unless an earlier one is picked.</p>
+        <AnalysisHistory runId={run.id} entries={history} shownId={current?.analysis.id} newestIds={newestIds} />
+      </Panel>
+      {can(user.role, 'reanalyseRuns') ? (
+        <Panel title="Analyse again with other settings" className="mt-6">
+          <ReanalyseForm runId={run.id} />
+        </Panel>
+      ) : null}
     </>
   );
 }
