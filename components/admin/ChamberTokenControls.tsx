@@ -13,9 +13,9 @@ export function CreateChamberTokenForm({ action, chambers, appUrl }: { action: F
   return (
     <div className="flex flex-col gap-4">
       <form action={formAction} className="grid gap-3 sm:grid-cols-[1fr_2fr_auto] sm:items-end">
-        <label className="flex flex-col gap-1 text-sm font-medium text-ink-soft">
-          Chamber
-          <select name="chamberId" className="rounded-md border border-paper-line bg-paper-raised px-3 py-2 text-ink" defaultValue="">
+        <div className="flex flex-col gap-1 text-sm font-medium text-ink-soft">
+          <label htmlFor="token-chamber">Chamber</label>
+          <select id="token-chamber" name="chamberId" className="rounded-md border border-paper-line bg-paper-raised px-3 py-2 text-ink" defaultValue="">
             <option value="">Choose…</option>
             {chambers.map((c) => (
               <option key={c.id} value={c.id}>
@@ -24,12 +24,12 @@ export function CreateChamberTokenForm({ action, chambers, appUrl }: { action: F
             ))}
           </select>
           {errorsOf(state, 'chamberId') ? <span className="text-sm text-alarm">{errorsOf(state, 'chamberId')?.join(' ')}</span> : null}
-        </label>
-        <label className="flex flex-col gap-1 text-sm font-medium text-ink-soft">
-          Used by
-          <input name="label" placeholder="Bay 1 controller PC" className="rounded-md border border-paper-line bg-paper-raised px-3 py-2 text-ink" />
+        </div>
+        <div className="flex flex-col gap-1 text-sm font-medium text-ink-soft">
+          <label htmlFor="token-label">Used by</label>
+          <input id="token-label" name="label" placeholder="Bay 1 controller PC" className="rounded-md border border-paper-line bg-paper-raised px-3 py-2 text-ink" />
           {errorsOf(state, 'label') ? <span className="text-sm text-alarm">{errorsOf(state, 'label')?.join(' ')}</span> : null}
-        </label>
+        </div>
         <SubmitButton>Create token</SubmitButton>
       </form>
       {problem ? (

@@ -42,9 +42,9 @@ export function UploadCard({ item, designs, chambers, onChange, onUpload, onRemo
         <span className="text-xs text-ink-faint">{formatBytes(item.file.size)}</span>
       </div>
       <div className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4">
-        <label className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          Design
-          <select className={input} value={f.design} disabled={locked} onChange={(e) => {
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor={`${item.key}-design`}>Design</label>
+          <select id={`${item.key}-design`} className={input} value={f.design} disabled={locked} onChange={(e) => {
             const newest = designs.filter((d) => d.name === e.target.value).map((d) => d.revision);
             onChange({ ...f, design: e.target.value, designRevision: newest.length ? String(Math.max(...newest)) : '' });
           }}>
@@ -55,20 +55,20 @@ export function UploadCard({ item, designs, chambers, onChange, onUpload, onRemo
               </option>
             ))}
           </select>
-        </label>
-        <label className="flex flex-col gap-1 text-xs text-ink-soft">
-          Revision
-          <select className={input} value={f.designRevision} disabled={locked || !f.design} onChange={set('designRevision')}>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor={`${item.key}-revision`}>Revision</label>
+          <select id={`${item.key}-revision`} className={input} value={f.designRevision} disabled={locked || !f.design} onChange={set('designRevision')}>
             {revisions.map((d) => (
               <option key={d.revision} value={String(d.revision)}>
                 rev. {d.revision} · {d.layerCount} layer{d.layerCount === 1 ? '' : 's'}
               </option>
             ))}
           </select>
-        </label>
-        <label className="flex flex-col gap-1 text-xs text-ink-soft">
-          Chamber
-          <select className={input} value={f.chamber} disabled={locked} onChange={set('chamber')}>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor={`${item.key}-chamber`}>Chamber</label>
+          <select id={`${item.key}-chamber`} className={input} value={f.chamber} disabled={locked} onChange={set('chamber')}>
             <option value="">Choose…</option>
             {chambers.map((c) => (
               <option key={c} value={c}>
@@ -76,23 +76,23 @@ export function UploadCard({ item, designs, chambers, onChange, onUpload, onRemo
               </option>
             ))}
           </select>
-        </label>
-        <label className="flex flex-col gap-1 text-xs text-ink-soft">
-          Run code
-          <input className={`${input} font-mono`} value={f.runCode} disabled={locked} onChange={set('runCode')} />
-        </label>
-        <label className="flex flex-col gap-1 text-xs text-ink-soft">
-          Shift
-          <input className={input} value={f.shift} disabled={locked} onChange={set('shift')} />
-        </label>
-        <label className="flex flex-col gap-1 text-xs text-ink-soft">
-          Operator
-          <input className={input} value={f.operator} disabled={locked} onChange={set('operator')} />
-        </label>
-        <label className="flex flex-col gap-1 text-xs text-ink-soft">
-          Date of the run
-          <input type="date" className={input} value={f.startedAt} disabled={locked} onChange={set('startedAt')} />
-        </label>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor={`${item.key}-runCode`}>Run code</label>
+          <input id={`${item.key}-runCode`} className={`${input} font-mono`} value={f.runCode} disabled={locked} onChange={set('runCode')} />
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor={`${item.key}-shift`}>Shift</label>
+          <input id={`${item.key}-shift`} className={input} value={f.shift} disabled={locked} onChange={set('shift')} />
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor={`${item.key}-operator`}>Operator</label>
+          <input id={`${item.key}-operator`} className={input} value={f.operator} disabled={locked} onChange={set('operator')} />
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor={`${item.key}-startedAt`}>Date of the run</label>
+          <input id={`${item.key}-startedAt`} type="date" className={input} value={f.startedAt} disabled={locked} onChange={set('startedAt')} />
+        </div>
       </div>
 
       {item.stage === 'uploading' || item.stage === 'stored' ? (

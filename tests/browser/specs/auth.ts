@@ -3,10 +3,10 @@ import { demoUsers } from '../../../db/seed/demoData';
 import { Shell, SignInPage } from '../pages';
 
 const expectedNav: Record<string, string[]> = {
-  operator: ['Overview', 'Runs', 'Account'],
-  engineer: ['Overview', 'Runs', 'Account'],
-  supervisor: ['Overview', 'Runs', 'Audit log', 'Account'],
-  admin: ['Overview', 'Runs', 'Audit log', 'Users', 'Mail', 'Account'],
+  operator: ['Overview', 'Runs', 'Upload', 'Account'],
+  engineer: ['Overview', 'Runs', 'Upload', 'Account'],
+  supervisor: ['Overview', 'Runs', 'Upload', 'Audit log', 'Account'],
+  admin: ['Overview', 'Runs', 'Upload', 'Audit log', 'Users', 'Mail', 'Chamber tokens', 'Account'],
 };
 
 test('a signed-out visitor is sent to sign-in with a 307', async () => {
