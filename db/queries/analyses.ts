@@ -32,9 +32,14 @@ export async function claimAnalysis(id: number, ex: Executor = db()): Promise<{ 
   return row ? { attempt: row.attempt, analysis: row } : null;
 }
 
-/** The seed's synchronous path: queued → running as attempt 1. */
+/** queued → running only (attempt + 1); false when it was not queued (taken by someone else, or finished). */
 export async function markAnalysisRunning(id: number, ex: Executor = db()): Promise<boolean> {
-  return (await claimAnalysis(id, ex)) !== null;
+  const rows = await ex
+    .update(analyses)
+    .set({ state: 'running', startedAt: new Date(), attempt: sql`${analyses.attempt} + 1` })
+    .where(and(eq(analyses.id, id), eq(analyses.state, 'queued')))
+    .returning({ id: analyses.id });
+  return rows.length === 1;
 }
 
 /** The keys of FORMATS.md have their own columns; every other key of the layer result goes to `detail`. */
