@@ -1,6 +1,7 @@
 import 'server-only';
 import { sql, type SQL } from 'drizzle-orm';
 import { db } from '../client';
+import type { RunListRow } from './runs';
 
 export type RunState = 'queued' | 'running' | 'done' | 'failed';
 
@@ -24,17 +25,9 @@ export type RunFilters = {
 export const runSorts = ['-startedAt', 'startedAt', 'runCode', '-runCode', 'chamber', '-chamber', 'design', '-design'] as const;
 export type RunSort = (typeof runSorts)[number];
 
-export type RunSummaryRow = {
-  id: number;
-  runCode: string;
-  designName: string;
-  designRevision: number;
-  chamberName: string;
-  operatorName: string | null;
-  shift: string | null;
-  startedAt: Date | null;
+/** A row of the runs list: the fields of listRuns' rows, the disposition, and why the run needs a look. */
+export type RunSummaryRow = Omit<RunListRow, 'analysisState' | 'worstCutMode'> & {
   createdAt: Date;
-  status: 'uploaded' | 'analysed' | 'failed';
   disposition: 'accepted' | 'on_hold' | 'rejected' | null;
   /** Across the newest analysis of each mode: running if any runs, else queued if any waits, else failed if any failed, else done. */
   analysisState: RunState | null;
@@ -42,7 +35,6 @@ export type RunSummaryRow = {
   warningCount: number;
   /** Layers cut outside tolerance in the newest finished analyses (the most of any mode). */
   cutsOutsideTolerance: number;
-  worstCutErrorQwotPct: number | null;
   /** Needs attention: a failed analysis, a warning, or a cut outside tolerance. */
   flagged: boolean;
 };

@@ -61,9 +61,9 @@ async function writeLargeTrace(file: string, bytes: number): Promise<number> {
     let chunk = '';
     for (let k = 0; k < 20000; k++, i++) chunk += `${(i * 0.01).toFixed(2)},${(0.5 + 0.3 * Math.sin(i / 500)).toFixed(6)},${Math.min(8, 1 + Math.floor(i / perLayer))},1\n`;
     written += chunk.length;
-    if (!out.write(chunk)) await new Promise((r) => out.once('drain', r));
+    if (!out.write(chunk)) await new Promise<void>((r) => out.once('drain', () => r()));
   }
-  await new Promise((r) => out.end(r));
+  await new Promise<void>((r) => out.end(() => r()));
   return fs.statSync(file).size;
 }
 
@@ -72,7 +72,7 @@ export async function run(): Promise<void> {
   const pg = await boot.startPostgres(boot.ensurePostgresInstalled());
   try {
     const password = boot.ensureDatabases(pg, ['fringelog_bench'], { recreate: ['fringelog_bench'] });
-    const env = {
+    const env: NodeJS.ProcessEnv = {
       ...process.env,
       NODE_ENV: 'production',
       NEXT_TELEMETRY_DISABLED: '1',
