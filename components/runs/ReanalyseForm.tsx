@@ -51,33 +51,33 @@ export function ReanalyseForm({ runId }: { runId: number }) {
   return (
     <form action={submit} className="flex flex-col gap-3" data-testid="reanalyse-form">
       <div className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4">
-        <label className="flex flex-col gap-1 text-xs text-ink-soft">
-          Mode
-          <select name="mode" className={select} defaultValue="refit">
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-mode">Mode</label>
+          <select id="re-mode" name="mode" className={select} defaultValue="refit">
             <option value="refit">Joint re-fit</option>
             <option value="sequential">Layer by layer</option>
           </select>
-        </label>
-        <label className="flex flex-col gap-1 text-xs text-ink-soft">
-          Detector gain
-          <select name="gain" className={select} defaultValue="">
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-gain">Detector gain</label>
+          <select id="re-gain" name="gain" className={select} defaultValue="">
             <option value="">Mode default</option>
             <option value="chip">One per chip (from its bare-chip stretch)</option>
             <option value="per-layer">Fitted per layer</option>
           </select>
-        </label>
-        <label className="flex flex-col gap-1 text-xs text-ink-soft">
-          Index of thin layers
-          <select name="heldIndex" className={select} defaultValue="">
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-held">Index of thin layers</label>
+          <select id="re-held" name="heldIndex" className={select} defaultValue="">
             <option value="">Default (this run&apos;s drift estimate)</option>
             <option value="run-drift">Held at this run&apos;s drift estimate</option>
             <option value="nominal">Held at the nominal index</option>
           </select>
-        </label>
-        <label className="flex flex-col gap-1 text-xs text-ink-soft">
-          Hold the index below (QWOT; 0 leaves every index free)
-          <input name="thinLayerQwot" type="number" min="0" max="4" step="0.05" placeholder="0.5 (default)" className={select} />
-        </label>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-thin">Hold the index below (QWOT; 0 leaves every index free)</label>
+          <input id="re-thin" name="thinLayerQwot" type="number" min="0" max="4" step="0.05" placeholder="0.5 (default)" className={select} />
+        </div>
         <div className="flex flex-col justify-end gap-1 text-sm sm:col-span-2 lg:col-span-4">
           <label className="flex items-center gap-2">
             <input type="checkbox" name="gainDrift" /> Fit a gain drift within each chip (re-fit, one gain per chip)

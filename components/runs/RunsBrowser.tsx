@@ -102,7 +102,7 @@ export function RunsBrowser({ initialQuery, initialPage, options }: { initialQue
         </p>
       ) : (
         <div className="overflow-x-auto">
-          <table className={`w-full text-left text-sm ${isFetching ? 'opacity-80' : ''}`} data-testid="runs-table">
+          <table className={`w-full min-w-[60rem] text-left text-sm ${isFetching ? 'opacity-80' : ''}`} data-testid="runs-table">
             <thead className="text-xs uppercase tracking-wider text-ink-faint">
               <tr>
                 <th className="pb-2 pr-4 font-medium">Run</th>

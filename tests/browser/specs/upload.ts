@@ -109,3 +109,26 @@ test('an admin creates a chamber token, sees it once, and revokes it after confi
   assertEqual(after.status(), 401, 'a revoked token is refused');
   await shot(page, 'chamber-token-revoked');
 });
+
+// As the admin: the password-reset test of specs/auth.ts changes the engineer's password.
+test('an admin (as an engineer may) queues a re-analysis with other settings; it joins the list of analyses when done', async (page) => {
+  await signInAs(page, 'admin');
+  await page.goto(`${baseUrl}/runs`);
+  await page.locator('tr[data-run-code="B2-0587"]').getByRole('link', { name: 'B2-0587' }).click();
+  await page.getByRole('heading', { name: 'Run B2-0587' }).waitFor();
+  const history = page.getByTestId('analysis-history').locator('li');
+  const before = await history.count();
+  const form = page.getByTestId('reanalyse-form');
+  await form.getByLabel('Mode', { exact: true }).selectOption('sequential');
+  await form.getByLabel('Index of thin layers').selectOption('nominal');
+  await form.getByRole('button', { name: 'Queue the analysis' }).click();
+  await page.waitForFunction((n) => document.querySelectorAll('[data-testid="analysis-history"] li').length === n + 1, before, { timeout: 15000 });
+  await page.getByRole('status').filter({ hasText: /finished/ }).waitFor({ timeout: 90000 });
+  const newest = history.first();
+  assert(((await newest.textContent()) ?? '').includes('thin layers held at the nominal index'), 'the new analysis lists its settings');
+  await shot(page, 'run-reanalysed');
+  await page.setViewportSize({ width: 390, height: 844 });
+  await page.goto(`${baseUrl}/runs?chamber=Bay%202%20IAD`);
+  await page.getByTestId('runs-table').waitFor();
+  await shot(page, 'runs-list-phone');
+});
