@@ -1,7 +1,7 @@
 import tseslint from 'typescript-eslint';
 
 export default tseslint.config(
-  { ignores: ['node_modules/', '.next/', '.next-test/', '.data/', 'drizzle/', 'next-env.d.ts', 'tests/screenshots/', '**/*.mjs', '**/*.cjs'] },
+  { ignores: ['node_modules/', '.next/', '.next-test/', '.next-bench/', '.data/', 'drizzle/', 'next-env.d.ts', 'tests/screenshots/', '**/*.mjs', '**/*.cjs'] },
   {
     files: ['app/**/*.{ts,tsx}', 'components/**/*.{ts,tsx}', 'db/**/*.ts', 'tests/**/*.ts', 'analysis/**/*.ts', 'sample-traces/**/*.ts', '*.ts'],
     extends: [tseslint.configs.recommended],

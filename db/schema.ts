@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm';
-import { boolean, customType, doublePrecision, index, integer, jsonb, pgEnum, pgTable, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
+import { boolean, customType, doublePrecision, index, integer, jsonb, pgEnum, pgTable, primaryKey, text, timestamp, uniqueIndex } from 'drizzle-orm/pg-core';
 
 export const roleEnum = pgEnum('role', ['operator', 'engineer', 'supervisor', 'admin']);
 export const userStatusEnum = pgEnum('user_status', ['invited', 'active', 'deactivated']);
@@ -188,15 +188,14 @@ export const traceFiles = pgTable(
   'trace_files',
   {
     id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    /** Null only inside the upload's transaction, while the bytes stream in before the run row exists. */
     runId: integer('run_id')
-      .notNull()
       .unique()
       .references(() => runs.id, { onDelete: 'cascade' }),
     fileName: text('file_name').notNull(),
     byteSize: integer('byte_size').notNull(),
     /** Hex SHA-256 of the bytes. */
     sha256: text('sha256').notNull(),
-    bytes: bytea('bytes').notNull(),
     rowCount: integer('row_count').notNull(),
     /** Header names as read (lower-cased). */
     columns: text('columns').array().notNull(),
@@ -207,6 +206,42 @@ export const traceFiles = pgTable(
   (t) => [index('trace_files_sha256_idx').on(t.sha256)],
 );
 export type TraceFile = typeof traceFiles.$inferSelect;
+
+/** The bytes of a trace file in order, in slices of about 1 MiB, so no upload or read holds the whole file. */
+export const traceFileChunkRows = pgTable(
+  'trace_file_chunks',
+  {
+    traceFileId: integer('trace_file_id')
+      .notNull()
+      .references(() => traceFiles.id, { onDelete: 'cascade' }),
+    seq: integer('seq').notNull(),
+    bytes: bytea('bytes').notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.traceFileId, t.seq] })],
+);
+
+/** A chamber's controller PC authenticates with one of these; only the SHA-256 of the token is stored. */
+export const chamberTokens = pgTable(
+  'chamber_tokens',
+  {
+    id: integer('id').primaryKey().generatedAlwaysAsIdentity(),
+    chamberId: integer('chamber_id')
+      .notNull()
+      .references(() => chambers.id, { onDelete: 'cascade' }),
+    label: text('label').notNull(),
+    tokenHash: text('token_hash').notNull().unique(),
+    /** The token's last four characters, to tell tokens apart in the list. */
+    hint: text('hint').notNull(),
+    createdBy: integer('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    /** Written at most once a minute. */
+    lastUsedAt: timestamp('last_used_at', { withTimezone: true }),
+    revokedAt: timestamp('revoked_at', { withTimezone: true }),
+    revokedBy: integer('revoked_by').references(() => users.id, { onDelete: 'set null' }),
+  },
+  (t) => [index('chamber_tokens_chamber_idx').on(t.chamberId), index('chamber_tokens_created_by_idx').on(t.createdBy), index('chamber_tokens_revoked_by_idx').on(t.revokedBy)],
+);
+export type ChamberToken = typeof chamberTokens.$inferSelect;
 
 export const analysisModeEnum = pgEnum('analysis_mode', ['sequential', 'refit']);
 export const analysisStateEnum = pgEnum('analysis_state', ['queued', 'running', 'done', 'failed']);
@@ -231,6 +266,10 @@ export const analyses = pgTable(
     finishedAt: timestamp('finished_at', { withTimezone: true }),
     warnings: jsonb('warnings').$type<string[]>().notNull().default([]),
     summary: jsonb('summary').$type<AnalysisSummary>(),
+    /** Bumped each time a worker takes the analysis; only the holder of the current attempt may store its result. */
+    attempt: integer('attempt').notNull().default(0),
+    /** Layers whose |cut error| grades outside their tolerance (analysis/design/tolerance.ts); set when done. */
+    cutsOutsideTolerance: integer('cuts_outside_tolerance'),
   },
   (t) => [index('analyses_run_idx').on(t.runId, t.mode), index('analyses_requested_by_idx').on(t.requestedBy)],
 );

@@ -5,10 +5,12 @@ export class TraceFormatError extends Error {
   readonly line: number;
   /** Header name of the offending column, where one applies. */
   readonly column?: string;
+  /** 1-based position of that column in the header, where known. */
+  readonly columnNumber?: number;
   /** Stable machine-readable code, e.g. `not_a_number`, `missing_column`. */
   readonly code: string;
 
-  constructor(init: { fileName?: string; line: number; column?: string; code: string; detail: string }) {
+  constructor(init: { fileName?: string; line: number; column?: string; columnNumber?: number; code: string; detail: string }) {
     const where = `${init.fileName ? `${init.fileName} ` : ''}line ${init.line}`;
     const col = init.column === undefined ? '' : `, column "${init.column}"`;
     super(`${where}${col}: ${init.detail}`);
@@ -16,6 +18,7 @@ export class TraceFormatError extends Error {
     this.fileName = init.fileName;
     this.line = init.line;
     this.column = init.column;
+    this.columnNumber = init.columnNumber;
     this.code = init.code;
   }
 }

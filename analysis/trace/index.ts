@@ -1,4 +1,4 @@
-export { readTrace, readTraceText } from './readTrace';
+export { readTrace, readTraceText, scanTrace } from './readTrace';
 export { TraceFormatError } from './TraceFormatError';
 export { MAX_LISTED_WARNINGS } from './traceParser';
 export { segmentTrace, type SegmentOptions } from './segment';
@@ -11,4 +11,4 @@ export { decimateIndices } from './decimateIndices';
 export { realFftMagnitude } from './realFftMagnitude';
 export { median, noiseSigma } from './robustStats';
 export { levelSteps, longRunSigma, type Level, type LevelStepOptions } from './levelSteps';
-export type { ReadTraceOptions, TraceData, TraceWarning, Segment, Segmentation } from './types';
+export type { ReadTraceOptions, TraceData, TraceScan, TraceWarning, Segment, Segmentation } from './types';

@@ -1,7 +1,7 @@
 import { TraceFormatError } from './TraceFormatError';
 import { TraceParser } from './traceParser';
 import { traceWarnings } from './traceWarnings';
-import type { ReadTraceOptions, TraceData } from './types';
+import type { ReadTraceOptions, TraceData, TraceScan } from './types';
 
 const MIB = 1024 * 1024;
 
@@ -28,7 +28,49 @@ export async function readTrace(
   options: ReadTraceOptions = {},
 ): Promise<TraceData> {
   const o = resolve(options);
-  const parser = new TraceParser({ fileName: o.fileName, maxRows: o.maxRows, layerCount: o.layerCount });
+  const parser = await parse(chunks, o, true);
+  const n = parser.rowCount;
+  const data: TraceData = {
+    meta: parser.meta,
+    columns: parser.columns,
+    timeS: TraceParser.samples(parser.time, n),
+    signal: TraceParser.samples(parser.signal, n),
+    layer: parser.layer ? TraceParser.samples(parser.layer, n) : null,
+    chip: parser.chip ? TraceParser.samples(parser.chip, n) : null,
+    crystalNm: parser.crystal ? TraceParser.samples(parser.crystal, n) : null,
+    rowCount: n,
+    warnings: parser.warnings,
+    separator: parser.separator,
+    headerLine: parser.headerLine,
+  };
+  data.warnings.push(...traceWarnings(data, { gapFactor: o.gapFactor, minLayerSamples: o.minLayerSamples }));
+  return data;
+}
+
+/**
+ * Checks a trace as readTrace does, row by row, but keeps no samples: memory stays flat however
+ * large the file (an upload is checked while it streams to storage). The warnings that need the
+ * samples (gaps, short layers) are left to readTrace.
+ */
+export async function scanTrace(
+  chunks: AsyncIterable<string | Uint8Array> | Iterable<string | Uint8Array>,
+  options: ReadTraceOptions = {},
+): Promise<TraceScan> {
+  const parser = await parse(chunks, resolve(options), false);
+  return {
+    meta: parser.meta,
+    columns: parser.columns,
+    rowCount: parser.rowCount,
+    maxLayer: parser.maxLayer,
+    warnings: parser.warnings,
+    headerLine: parser.headerLine,
+  };
+}
+
+type Chunks = AsyncIterable<string | Uint8Array> | Iterable<string | Uint8Array>;
+
+async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples: boolean): Promise<TraceParser> {
+  const parser = new TraceParser({ fileName: o.fileName, maxRows: o.maxRows, layerCount: o.layerCount, keepSamples });
   const decoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: false });
   let bytes = 0;
   let lineNo = 0;
@@ -87,22 +129,7 @@ export async function readTrace(
   if (carry.length > 0) parser.line(carry, ++lineNo);
   parser.finish(Math.max(lineNo, 1));
 
-  const n = parser.rowCount;
-  const data: TraceData = {
-    meta: parser.meta,
-    columns: parser.columns,
-    timeS: parser.time.take(n),
-    signal: parser.signal.take(n),
-    layer: parser.layer ? parser.layer.take(n) : null,
-    chip: parser.chip ? parser.chip.take(n) : null,
-    crystalNm: parser.crystal ? parser.crystal.take(n) : null,
-    rowCount: n,
-    warnings: parser.warnings,
-    separator: parser.separator,
-    headerLine: parser.headerLine,
-  };
-  data.warnings.push(...traceWarnings(data, { gapFactor: o.gapFactor, minLayerSamples: o.minLayerSamples }));
-  return data;
+  return parser;
 }
 
 /** readTrace on text already in memory (tests, small uploads). */

@@ -37,10 +37,18 @@ class Grow<T extends Float64Array | Int32Array> {
 /** Warnings of one kind listed in full; the rest are counted (a file of a million bad lines must not make a million messages). */
 export const MAX_LISTED_WARNINGS = 20;
 
+/** Stands in for Grow when only the checks are wanted (an upload being validated as it streams). */
+class Discard {
+  set(_i: number, _v: number): void {}
+}
+type Column<T extends Float64Array | Int32Array> = Pick<Grow<T>, 'set'>;
+
 export interface ParserLimits {
   fileName?: string;
   maxRows: number;
   layerCount?: number;
+  /** false: check every row but keep no samples (readTrace needs them; scanTrace does not). @default true */
+  keepSamples?: boolean;
 }
 
 /** Line-by-line state machine for the trace CSV of shared/FORMATS.md. */
@@ -51,11 +59,13 @@ export class TraceParser {
   separator: ',' | '\t' = ',';
   headerLine = 0;
   rowCount = 0;
-  time = new Grow((n) => new Float64Array(n));
-  signal = new Grow((n) => new Float64Array(n));
-  layer: Grow<Int32Array> | null = null;
-  chip: Grow<Int32Array> | null = null;
-  crystal: Grow<Float64Array> | null = null;
+  time: Column<Float64Array>;
+  signal: Column<Float64Array>;
+  layer: Column<Int32Array> | null = null;
+  chip: Column<Int32Array> | null = null;
+  crystal: Column<Float64Array> | null = null;
+  /** Highest layer number seen (0 without a layer column). */
+  maxLayer = 0;
   private kinds = new Int8Array(0);
   private sawContent = false;
   private blankLine = 0;
@@ -63,10 +73,24 @@ export class TraceParser {
   private prevTimeText = '';
   private readonly warningCounts = new Map<string, { count: number; firstLine?: number }>();
 
-  constructor(private readonly limits: ParserLimits) {}
+  constructor(private readonly limits: ParserLimits) {
+    this.time = this.column((n) => new Float64Array(n));
+    this.signal = this.column((n) => new Float64Array(n));
+  }
+
+  private column<T extends Float64Array | Int32Array>(make: (n: number) => T): Column<T> {
+    return this.limits.keepSamples === false ? new Discard() : new Grow(make);
+  }
+
+  /** The samples of a column read with keepSamples (the default). */
+  static samples<T extends Float64Array | Int32Array>(c: Column<T>, n: number): T {
+    if (!(c instanceof Grow)) throw new Error('the trace was read without keeping its samples');
+    return (c as Grow<T>).take(n);
+  }
 
   fail(line: number, code: string, detail: string, column?: string): never {
-    throw new TraceFormatError({ fileName: this.limits.fileName, line, column, code, detail });
+    const at = column === undefined ? -1 : this.columns.indexOf(column);
+    throw new TraceFormatError({ fileName: this.limits.fileName, line, column, columnNumber: at >= 0 ? at + 1 : undefined, code, detail });
   }
 
   line(raw: string, lineNo: number): void {
@@ -156,9 +180,9 @@ export class TraceParser {
         this.fail(lineNo, 'missing_column', `the header has no "${required}" column (required: time_s, signal)`);
       }
     }
-    if (seen.has('layer')) this.layer = new Grow((n) => new Int32Array(n));
-    if (seen.has('chip')) this.chip = new Grow((n) => new Int32Array(n));
-    if (seen.has('crystal_nm')) this.crystal = new Grow((n) => new Float64Array(n));
+    if (seen.has('layer')) this.layer = this.column((n) => new Int32Array(n));
+    if (seen.has('chip')) this.chip = this.column((n) => new Int32Array(n));
+    if (seen.has('crystal_nm')) this.crystal = this.column((n) => new Float64Array(n));
     this.columns = names;
     this.headerLine = lineNo;
   }
@@ -222,6 +246,7 @@ export class TraceParser {
         if (this.limits.layerCount !== undefined && v > this.limits.layerCount) {
           this.fail(lineNo, 'layer_out_of_range', `layer ${v} is beyond the design's ${this.limits.layerCount} layers`, this.columns[j]);
         }
+        if (v > this.maxLayer) this.maxLayer = v;
         this.layer!.set(r, v);
         break;
       case KIND_CHIP:

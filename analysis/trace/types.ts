@@ -26,6 +26,17 @@ export interface ReadTraceOptions {
   maxLineLength?: number;
 }
 
+/** What scanTrace learns of a trace without keeping its samples. */
+export interface TraceScan {
+  meta: Record<string, string>;
+  columns: string[];
+  rowCount: number;
+  /** Highest layer number in the layer column (0 without one). */
+  maxLayer: number;
+  warnings: TraceWarning[];
+  headerLine: number;
+}
+
 /** A parsed trace: one typed array per known column, all of length rowCount. */
 export interface TraceData {
   /** `# key: value` lines before the header, keys as written (trimmed). */

@@ -27,6 +27,12 @@ export type Capabilities = {
   viewDesigns: boolean;
   /** Save design revisions, import designs, create and change shop materials. */
   editDesigns: boolean;
+  /** Upload run traces (the upload page, POST /api/runs). */
+  uploadRuns: boolean;
+  /** Queue a new analysis of a run with other settings. */
+  reanalyseRuns: boolean;
+  /** Create and revoke chamber tokens. */
+  manageChamberTokens: boolean;
 };
 export type Capability = keyof Capabilities;
 
@@ -46,6 +52,9 @@ const holders: Record<Capability, readonly Role[]> = {
   setRunDisposition: ['engineer', 'supervisor'],
   viewDesigns: everyone,
   editDesigns: ['engineer', 'admin'],
+  uploadRuns: everyone,
+  reanalyseRuns: ['engineer', 'admin'],
+  manageChamberTokens: ['admin'],
 };
 
 function grantsOf(role: Role): Capabilities {

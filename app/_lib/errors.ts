@@ -17,6 +17,15 @@ export const errorCodes = {
   'conflict:last_admin': { status: 409, message: 'This is the last active administrator; make another admin first.' },
   'rate_limited:sign_in': { status: 429, message: 'Too many failed sign-ins.' },
   'unavailable:mail': { status: 503, message: 'The e-mail could not be sent.' },
+  'unauthorized:token': { status: 401, message: 'The chamber token is not valid (unknown or revoked).' },
+  'forbidden:chamber': { status: 403, message: 'This chamber token is for another chamber.' },
+  'not_found:analysis': { status: 404, message: 'No such analysis.' },
+  'not_found:token': { status: 404, message: 'No such chamber token, or it is already revoked.' },
+  'conflict:run_code': { status: 409, message: 'This run code is already used in this chamber.' },
+  'too_large:upload': { status: 413, message: 'The file is larger than the upload limit.' },
+  'unsupported_media_type:upload': { status: 415, message: 'Send the trace as multipart/form-data with a file field named "trace".' },
+  'unprocessable:field': { status: 422, message: 'A field of the upload is missing or unknown.' },
+  'unprocessable:trace': { status: 422, message: 'The trace file is not valid.' },
   'internal:unexpected': { status: 500, message: 'Something went wrong on our side. It has been logged.' },
 } as const;
 export type ErrorCode = keyof typeof errorCodes;
@@ -50,9 +59,19 @@ export function unexpected(context: string, err: unknown): ReturnType<typeof fai
   return failure('internal:unexpected');
 }
 
-export function httpError(code: ErrorCode, detail?: string): Response {
+/** Where a refusal points: `line`/`column` in an uploaded file (column 1-based), or a form `field`. */
+export type ErrorPlace = { line?: number; column?: number; columnName?: string; field?: string };
+
+/** The HTTP API's error answer (shared/FORMATS.md): `{ error: { code, message, line?, column? } }`. */
+export function httpError(code: ErrorCode, detail?: string, place: ErrorPlace = {}): Response {
   const { status, message } = errorCodes[code];
-  return Response.json({ error: code, message: detail ?? message }, { status });
+  const defined = Object.fromEntries(Object.entries(place).filter(([, v]) => v !== undefined));
+  return Response.json({ error: { code, message: detail ?? message, ...defined } }, { status });
+}
+
+/** A failure result (from authorize, a zod check) as the HTTP API's error answer. */
+export function httpFailure(f: { code: ErrorCode; message: string }): Response {
+  return httpError(f.code, f.message);
 }
 
 /**

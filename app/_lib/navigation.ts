@@ -6,12 +6,14 @@ type Entry = { href: string; label: string; needs?: Capability };
 const entries: Entry[] = [
   { href: '/', label: 'Overview' },
   { href: '/runs', label: 'Runs', needs: 'viewRuns' },
+  { href: '/runs/upload', label: 'Upload', needs: 'uploadRuns' },
   { href: '/designs', label: 'Designs', needs: 'viewDesigns' },
   { href: '/materials', label: 'Materials', needs: 'viewDesigns' },
   { href: '/compare', label: 'Compare', needs: 'compareRuns' },
   { href: '/audit', label: 'Audit log', needs: 'viewAuditLog' },
   { href: '/admin/users', label: 'Users', needs: 'manageUsers' },
   { href: '/admin/mail', label: 'Mail', needs: 'viewMailSink' },
+  { href: '/admin/chamber-tokens', label: 'Chamber tokens', needs: 'manageChamberTokens' },
   { href: '/account', label: 'Account', needs: 'changeOwnPassword' },
 ];
 

@@ -125,3 +125,9 @@ export const dispositionSchema = z.object({
   disposition: z.enum(['accepted', 'on_hold', 'rejected'], { error: 'Choose a decision.' }),
   reason: z.string().trim().min(3, 'Give the reason for the decision.').max(2000, 'Keep the reason under 2000 characters.'),
 });
+export const createChamberTokenSchema = z.object({
+  chamberId: idField,
+  label: z.string().trim().min(2, 'Say where the token will be used, e.g. “Bay 1 controller PC”.').max(120, 'That label is too long.'),
+});
+
+export const chamberTokenIdSchema = z.object({ tokenId: idField });

@@ -7,10 +7,14 @@ export type NavItem = { href: string; label: string };
 
 export function AppNav({ items }: { items: NavItem[] }) {
   const pathname = usePathname();
+  // The longest matching entry is the current one (/runs/upload is Upload, not Runs).
+  const current = items
+    .filter((i) => (i.href === '/' ? pathname === '/' : pathname === i.href || pathname.startsWith(`${i.href}/`)))
+    .sort((a, b) => b.href.length - a.href.length)[0]?.href;
   return (
     <nav aria-label="Main" className="flex flex-wrap gap-1">
       {items.map((item) => {
-        const active = item.href === '/' ? pathname === '/' : pathname.startsWith(item.href);
+        const active = item.href === current;
         return (
           <Link
             key={item.href}

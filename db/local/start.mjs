@@ -76,6 +76,16 @@ if (!externalSmtp) {
   });
 }
 
+// One analysis worker beside the web server; `npm run worker` (here or on another machine) adds more.
+const worker = spawn(bin('tsx'), ['--conditions=react-server', 'db/local/worker.ts'], { cwd: root, env, stdio: 'inherit' });
+children.push(worker);
+worker.on('exit', (code) => {
+  if (!stopping) {
+    console.error(`[fringelog] ERROR: the analysis worker exited (${code})`);
+    stopAll(1);
+  }
+});
+
 log('next build');
 if ((await runInherit(bin('next'), ['build'], { env })) !== 0) {
   console.error('[fringelog] ERROR: next build failed (see above)');

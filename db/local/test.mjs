@@ -64,6 +64,9 @@ if (prep.status !== 0) {
 
 const sink = spawn(bin('tsx'), ['--conditions=react-server', 'db/local/mailSink.ts'], { cwd: root, env, stdio: 'inherit' });
 children.push(sink);
+// The analysis worker for the tests that need queued analyses to finish (integration and browser).
+const worker = spawn(bin('tsx'), ['--conditions=react-server', 'db/local/worker.ts'], { cwd: root, env, stdio: 'inherit' });
+children.push(worker);
 
 // `npm test -- lint types vitest browser` runs only the named parts (all when none is named).
 const only = process.argv.slice(2);

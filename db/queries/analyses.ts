@@ -1,8 +1,8 @@
 import 'server-only';
-import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { AnalysisMode, LayerResult } from '../../analysis/fit';
 import { db, type Executor } from '../client';
-import { analyses, layerResults, runs, type Analysis, type AnalysisSummary, type LayerResultRow } from '../schema';
+import { analyses, auditEvents, layerResults, runs, type Analysis, type AnalysisSummary, type LayerResultRow } from '../schema';
 import { storeAnalysisSeries, type SeriesOverview } from './series';
 
 export type { AnalysisMode };
@@ -19,11 +19,25 @@ export async function createAnalysis(
   return row;
 }
 
-/** queued → running; false when the analysis was not queued (taken by someone else, or finished). */
+/**
+ * A worker takes the analysis: queued (or running, when an earlier worker died or its job
+ * expired) → running, with the attempt number bumped. Returns the new attempt, or null when the
+ * analysis is already done or failed (a repeated job has nothing to do).
+ */
+export async function claimAnalysis(id: number, ex: Executor = db()): Promise<{ attempt: number; analysis: Analysis } | null> {
+  const [row] = await ex
+    .update(analyses)
+    .set({ state: 'running', startedAt: new Date(), attempt: sql`${analyses.attempt} + 1` })
+    .where(and(eq(analyses.id, id), inArray(analyses.state, ['queued', 'running'])))
+    .returning();
+  return row ? { attempt: row.attempt, analysis: row } : null;
+}
+
+/** queued → running only (attempt + 1); false when it was not queued (taken by someone else, or finished). */
 export async function markAnalysisRunning(id: number, ex: Executor = db()): Promise<boolean> {
   const rows = await ex
     .update(analyses)
-    .set({ state: 'running', startedAt: new Date() })
+    .set({ state: 'running', startedAt: new Date(), attempt: sql`${analyses.attempt} + 1` })
     .where(and(eq(analyses.id, id), eq(analyses.state, 'queued')))
     .returning({ id: analyses.id });
   return rows.length === 1;
@@ -42,16 +56,26 @@ function layerRow(analysisId: number, l: LayerResult): typeof layerResults.$infe
  */
 export async function storeAnalysisResult(
   id: number,
-  result: { layers: readonly LayerResult[]; warnings: string[]; summary: AnalysisSummary; series?: { model: Float64Array; overview: SeriesOverview } },
+  result: {
+    layers: readonly LayerResult[];
+    warnings: string[];
+    summary: AnalysisSummary;
+    series?: { model: Float64Array; overview: SeriesOverview };
+    cutsOutsideTolerance?: number;
+    attempt?: number;
+  },
   ex: Executor = db(),
 ): Promise<boolean> {
   return ex.transaction(async (tx) => {
+    const stillOurs = result.attempt === undefined ? undefined : eq(analyses.attempt, result.attempt);
     const [done] = await tx
       .update(analyses)
-      .set({ state: 'done', finishedAt: new Date(), warnings: result.warnings, summary: result.summary, error: null })
-      .where(and(eq(analyses.id, id), eq(analyses.state, 'running')))
+      .set({ state: 'done', finishedAt: new Date(), warnings: result.warnings, summary: result.summary, error: null, cutsOutsideTolerance: result.cutsOutsideTolerance ?? null })
+      .where(and(eq(analyses.id, id), eq(analyses.state, 'running'), stillOurs))
       .returning({ runId: analyses.runId });
     if (!done) return false;
+    // Nothing should be there (results are only written with 'done'); clearing keeps a repeat harmless.
+    await tx.delete(layerResults).where(eq(layerResults.analysisId, id));
     if (result.layers.length > 0) await tx.insert(layerResults).values(result.layers.map((l) => layerRow(id, l)));
     if (result.series) await storeAnalysisSeries(id, result.series.model, result.series.overview, tx);
     await tx.update(runs).set({ status: 'analysed' }).where(eq(runs.id, done.runId));
@@ -60,12 +84,12 @@ export async function storeAnalysisResult(
 }
 
 /** Marks a queued or running analysis 'failed' with its message (and the run 'failed' unless an earlier analysis of it succeeded). */
-export async function failAnalysis(id: number, message: string, ex: Executor = db()): Promise<void> {
+export async function failAnalysis(id: number, message: string, ex: Executor = db(), attempt?: number): Promise<void> {
   await ex.transaction(async (tx) => {
     const [failed] = await tx
       .update(analyses)
       .set({ state: 'failed', finishedAt: new Date(), error: message })
-      .where(and(eq(analyses.id, id), inArray(analyses.state, ['queued', 'running'])))
+      .where(and(eq(analyses.id, id), inArray(analyses.state, ['queued', 'running']), attempt === undefined ? undefined : eq(analyses.attempt, attempt)))
       .returning({ runId: analyses.runId });
     if (!failed) return;
     const [ok] = await tx.select({ id: analyses.id }).from(analyses).where(and(eq(analyses.runId, failed.runId), eq(analyses.state, 'done'))).limit(1);
@@ -90,4 +114,23 @@ export async function latestAnalyses(runId: number, ex: Executor = db()): Promis
   const layers = ids.length ? await ex.select().from(layerResults).where(inArray(layerResults.analysisId, ids)).orderBy(asc(layerResults.layer)) : [];
   for (const analysis of rows) out[analysis.mode] = { analysis, layers: layers.filter((l) => l.analysisId === analysis.id) };
   return out;
+}
+
+/** Every analysis of a run, newest first, without layers (the run page's list of earlier results). */
+export async function listAnalysesOfRun(runId: number, ex: Executor = db()): Promise<Analysis[]> {
+  return ex.select().from(analyses).where(eq(analyses.runId, runId)).orderBy(desc(analyses.id));
+}
+
+/** A re-analysis asked for by someone: the queued row and its audit entry (inside the caller's transaction). */
+export async function createRequestedAnalysis(input: { runId: number; mode: AnalysisMode; settings: Record<string, unknown>; requestedBy: number | null }, ex: Executor): Promise<Analysis> {
+  const analysis = await createAnalysis(input, ex);
+  const [run] = await ex.select({ runCode: runs.runCode }).from(runs).where(eq(runs.id, input.runId));
+  await ex.insert(auditEvents).values({
+    actorId: input.requestedBy,
+    action: 'run.reanalysis_queued',
+    targetType: 'run',
+    targetId: String(input.runId),
+    detail: { runCode: run?.runCode ?? null, analysisId: analysis.id, settings: input.settings },
+  });
+  return analysis;
 }

@@ -11,3 +11,8 @@ export async function findChamberByName(name: string, ex: Executor = db()): Prom
   const [row] = await ex.select().from(chambers).where(eq(chambers.name, name));
   return row;
 }
+
+export async function findChamberById(id: number, ex: Executor = db()): Promise<Chamber | undefined> {
+  const [row] = await ex.select().from(chambers).where(eq(chambers.id, id));
+  return row;
+}

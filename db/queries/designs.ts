@@ -1,5 +1,5 @@
 import 'server-only';
-import { and, desc, eq, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, sql } from 'drizzle-orm';
 import { db, type Executor } from '../client';
 import { auditEvents, designRevisions, designs, runs, type DesignRevision } from '../schema';
 
@@ -129,4 +129,25 @@ export async function runsOfRevision(revisionId: number, ex: Executor = db()): P
     .from(runs)
     .where(eq(runs.designRevisionId, revisionId))
     .orderBy(desc(runs.id));
+}
+
+/** Revision `revision` of the design of that name. */
+export async function findDesignRevisionByNumber(name: string, revision: number, ex: Executor = db()): Promise<DesignRevision | undefined> {
+  const [row] = await ex
+    .select({ revision: designRevisions })
+    .from(designRevisions)
+    .innerJoin(designs, eq(designs.id, designRevisions.designId))
+    .where(and(eq(designs.name, name), eq(designRevisions.revision, revision)));
+  return row?.revision;
+}
+
+export type DesignRevisionChoice = { designName: string; revision: number; layerCount: number; createdAt: Date };
+
+/** Every revision of every design, by name then newest revision first (the upload page's list). */
+export async function listDesignRevisions(): Promise<DesignRevisionChoice[]> {
+  return db()
+    .select({ designName: designs.name, revision: designRevisions.revision, layerCount: designRevisions.layerCount, createdAt: designRevisions.createdAt })
+    .from(designRevisions)
+    .innerJoin(designs, eq(designs.id, designRevisions.designId))
+    .orderBy(asc(designs.name), desc(designRevisions.revision));
 }

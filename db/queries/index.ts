@@ -11,3 +11,7 @@ export * from './runs';
 export * from './series';
 export * from './review';
 export * from './materials';
+export * from './uploads';
+export * from './transaction';
+export * from './chamberTokens';
+export * from './runList';

@@ -1,8 +1,8 @@
 import 'server-only';
 import { createHash } from 'node:crypto';
-import { desc, eq, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, sql } from 'drizzle-orm';
 import { db, type Executor } from '../client';
-import { analyses, auditEvents, chambers, designRevisions, runs, traceFiles, users, type Run } from '../schema';
+import { analyses, auditEvents, chambers, designRevisions, runs, traceFileChunkRows, traceFiles, users, type Run } from '../schema';
 
 export type NewRun = {
   designRevisionId: number;
@@ -23,6 +23,9 @@ export type NewRun = {
 };
 
 export type StoredRun = { run: Run; traceFileId: number; sha256: string };
+
+/** Size of the slices a trace file is stored in (trace_file_chunks). */
+export const CHUNK_BYTES = 1 << 20;
 
 /** Stores a run, its raw trace file (byte for byte, with its SHA-256) and the audit entry in one transaction. */
 export async function createRunWithTrace(input: NewRun, ex: Executor = db()): Promise<StoredRun> {
@@ -52,12 +55,15 @@ export async function createRunWithTrace(input: NewRun, ex: Executor = db()): Pr
         fileName: input.trace.fileName,
         byteSize: input.trace.bytes.byteLength,
         sha256,
-        bytes: input.trace.bytes,
         rowCount: input.trace.rowCount,
         columns: input.trace.columns,
         meta: input.trace.meta,
       })
       .returning({ id: traceFiles.id });
+    const bytes = input.trace.bytes;
+    for (let seq = 0, at = 0; at < bytes.byteLength; seq++, at += CHUNK_BYTES) {
+      await tx.insert(traceFileChunkRows).values({ traceFileId: file.id, seq, bytes: bytes.subarray(at, at + CHUNK_BYTES) });
+    }
     await tx.insert(auditEvents).values({
       actorId: input.uploadedBy,
       action: 'run.uploaded',
@@ -70,19 +76,25 @@ export async function createRunWithTrace(input: NewRun, ex: Executor = db()): Pr
 }
 
 /**
- * The raw trace file of a run, read back from PostgreSQL in slices of chunkBytes (substring on
- * the bytea), so a large file is never one buffer.
+ * The raw trace file of a run, read back from PostgreSQL one stored slice (trace_file_chunks) at
+ * a time, so a large file is never one buffer. Slices are re-cut to chunkBytes when given.
  */
-export async function* traceFileChunks(runId: number, chunkBytes = 1 << 20, ex: Executor = db()): AsyncGenerator<Uint8Array> {
-  const [file] = await ex.select({ id: traceFiles.id, byteSize: traceFiles.byteSize }).from(traceFiles).where(eq(traceFiles.runId, runId));
+export async function* traceFileChunks(runId: number, chunkBytes?: number, ex: Executor = db()): AsyncGenerator<Uint8Array> {
+  const [file] = await ex.select({ id: traceFiles.id }).from(traceFiles).where(eq(traceFiles.runId, runId));
   if (!file) throw new Error(`run ${runId} has no trace file`);
-  for (let offset = 0; offset < file.byteSize; offset += chunkBytes) {
-    const result = await ex.execute<{ part: Buffer }>(
-      sql`select substring(${traceFiles.bytes} from ${offset + 1} for ${chunkBytes}) as part from ${traceFiles} where ${traceFiles.id} = ${file.id}`,
-    );
-    const part = result.rows[0]?.part;
-    if (!part) throw new Error(`run ${runId}: trace file vanished while being read`);
-    yield new Uint8Array(part.buffer, part.byteOffset, part.byteLength);
+  const seqs = await ex.select({ seq: traceFileChunkRows.seq }).from(traceFileChunkRows).where(eq(traceFileChunkRows.traceFileId, file.id)).orderBy(asc(traceFileChunkRows.seq));
+  for (const { seq } of seqs) {
+    const [row] = await ex
+      .select({ bytes: traceFileChunkRows.bytes })
+      .from(traceFileChunkRows)
+      .where(and(eq(traceFileChunkRows.traceFileId, file.id), eq(traceFileChunkRows.seq, seq)));
+    if (!row) throw new Error(`run ${runId}: trace file vanished while being read`);
+    const part = row.bytes;
+    if (!chunkBytes) {
+      yield new Uint8Array(part.buffer, part.byteOffset, part.byteLength);
+      continue;
+    }
+    for (let at = 0; at < part.byteLength; at += chunkBytes) yield new Uint8Array(part.buffer, part.byteOffset + at, Math.min(chunkBytes, part.byteLength - at));
   }
 }
 

@@ -4,5 +4,6 @@ import { run as analyzeProcess } from './analyzeProcess';
 import { run as compare } from './compare';
 import { run as optics } from './optics';
 import { run as runPage } from './runPage';
+import { run as upload } from './upload';
 
-for (const section of [optics, analysis, analyzeProcess, compare, runPage]) await section();
+for (const section of [optics, analysis, analyzeProcess, upload, compare, runPage]) await section();

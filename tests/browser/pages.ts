@@ -199,3 +199,35 @@ export class DesignEditorPage {
     return this.page.getByTestId('design-editor').locator('[data-field-error]');
   }
 }
+
+export class UploadDeskPage {
+  constructor(private page: Page) {}
+
+  async choose(...files: string[]): Promise<void> {
+    await this.page.getByTestId('trace-input').setInputFiles(files);
+  }
+
+  item(fileName: string) {
+    return this.page.locator(`[data-testid="upload-item"][data-file="${fileName}"]`);
+  }
+
+  field(fileName: string, label: string) {
+    return this.item(fileName).getByLabel(label, { exact: true });
+  }
+
+  async upload(fileName: string): Promise<void> {
+    await this.item(fileName).getByRole('button', { name: 'Upload' }).click();
+  }
+
+  progress(fileName: string) {
+    return this.item(fileName).getByRole('progressbar');
+  }
+
+  analysisStates(fileName: string) {
+    return this.item(fileName).locator('[data-testid="analysis-watch"] li[data-state]');
+  }
+
+  error(fileName: string) {
+    return this.item(fileName).getByTestId('upload-error');
+  }
+}

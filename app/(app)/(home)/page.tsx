@@ -20,6 +20,9 @@ const capabilityText: Record<Capability, { text: string; href?: string }> = {
   setRunDisposition: { text: 'Decide whether a run is good to ship, held for review or not to ship, with the reason' },
   viewDesigns: { text: 'Read the designs, their spectra, cut plans and monitor curves, and the materials', href: '/designs' },
   editDesigns: { text: 'Edit and import designs (each save a new revision) and the shop materials', href: '/materials' },
+  uploadRuns: { text: 'Upload the trace of a finished run for analysis', href: '/runs/upload' },
+  reanalyseRuns: { text: 'Analyse a run again with other fit settings' },
+  manageChamberTokens: { text: "Issue and revoke the chamber tokens that let a coater's PC upload its runs", href: '/admin/chamber-tokens' },
 };
 
 export default async function HomePage() {

@@ -30,6 +30,9 @@ const verbs: Record<string, string> = {
   'material.created': 'created the material',
   'material.updated': 'changed the material',
   'material.index_adopted': 'adopted the runs\' fitted index for the material',
+  'run.reanalysis_queued': 'queued a new analysis of run',
+  'chamber_token.created': 'created chamber token',
+  'chamber_token.revoked': 'revoked chamber token',
 };
 
 /** Phrases for what people do to their own account. */
@@ -54,7 +57,8 @@ function details(e: AuditRow): string {
   if (e.action === 'design.revision_created') return `revision ${String(d.revision)}${typeof d.via === 'string' && d.via !== 'uploaded' ? `, ${d.via}` : ''}`;
   if (e.action === 'material.index_adopted') return `n = ${String(d.index)} at ${String(d.wavelengthNm)} nm (was ${String(d.previousIndex)})`;
   if (e.action === 'material.created' || e.action === 'material.updated') return typeof d.after === 'object' || typeof d.model === 'object' ? 'model stored with the event' : '';
-  if (e.action === 'run.uploaded' && typeof d.bytes === 'number') return `${String(d.file)}, ${formatBytes(d.bytes)}`;
+  if (e.action === 'run.uploaded' && typeof d.bytes === 'number') return `${String(d.file)}, ${formatBytes(d.bytes)}${d.chamberToken ? `, by chamber token #${String(d.chamberToken)}` : ''}`;
+  if (e.action.startsWith('chamber_token.')) return `${typeof d.label === 'string' ? d.label : 'demo token'} (chamber #${String(d.chamberId)})`;
   if (e.action === 'run.disposition_set') return `${dispositionWord(d.disposition)}: ${String(d.reason)}${d.was ? ` (was ${dispositionWord(d.was)})` : ''}`;
   if (/^run\.(annotation|comment)_/.test(e.action)) return [d.was !== undefined ? `was “${String(d.was)}”` : null, d.now !== undefined || d.body !== undefined ? `“${String(d.now ?? d.body)}”` : null].filter(Boolean).join(' → ');
   return Object.entries(d)
@@ -68,6 +72,7 @@ function targetLabel(e: AuditRow): string {
   if (e.targetType === 'design' && typeof e.detail.name === 'string') return e.detail.name;
   if (e.targetType === 'run' && typeof e.detail.runCode === 'string') return e.detail.runCode;
   if (e.targetType === 'material' && typeof e.detail.name === 'string') return e.detail.name;
+  if (e.targetType === 'chamber_token' && typeof e.detail.hint === 'string') return e.detail.hint;
   return `${e.targetType}${e.targetId ? ` #${e.targetId}` : ''}`;
 }
 

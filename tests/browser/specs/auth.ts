@@ -3,10 +3,10 @@ import { demoUsers } from '../../../db/seed/demoData';
 import { Shell, SignInPage } from '../pages';
 
 const expectedNav: Record<string, string[]> = {
-  operator: ['Overview', 'Runs', 'Designs', 'Materials', 'Compare', 'Account'],
-  engineer: ['Overview', 'Runs', 'Designs', 'Materials', 'Compare', 'Account'],
-  supervisor: ['Overview', 'Runs', 'Designs', 'Materials', 'Compare', 'Audit log', 'Account'],
-  admin: ['Overview', 'Runs', 'Designs', 'Materials', 'Compare', 'Audit log', 'Users', 'Mail', 'Account'],
+  operator: ['Overview', 'Runs', 'Upload', 'Designs', 'Materials', 'Compare', 'Account'],
+  engineer: ['Overview', 'Runs', 'Upload', 'Designs', 'Materials', 'Compare', 'Account'],
+  supervisor: ['Overview', 'Runs', 'Upload', 'Designs', 'Materials', 'Compare', 'Audit log', 'Account'],
+  admin: ['Overview', 'Runs', 'Upload', 'Designs', 'Materials', 'Compare', 'Audit log', 'Users', 'Mail', 'Chamber tokens', 'Account'],
 };
 
 test('a signed-out visitor is sent to sign-in with a 307', async () => {

@@ -43,6 +43,17 @@ import NewMaterialPage from '@/app/(app)/materials/new/page';
 import EditMaterialPage from '@/app/(app)/materials/[name]/edit/page';
 import { importDesign, saveDesign } from '@/app/(app)/designs/actions';
 import { adoptIndex, createMaterial, updateMaterial } from '@/app/(app)/materials/actions';
+import { GET as listRunsRoute, POST as uploadRunRoute } from '@/app/api/runs/route';
+import { GET as readRunRoute } from '@/app/api/runs/[id]/route';
+import { GET as rawTraceRoute } from '@/app/api/runs/[id]/trace/route';
+import { GET as resultsCsvRoute } from '@/app/api/runs/[id]/results.csv/route';
+import { POST as reanalyseRoute } from '@/app/api/runs/[id]/analyses/route';
+import { GET as readAnalysisRoute } from '@/app/api/analyses/[id]/route';
+import UploadPage from '@/app/(app)/runs/upload/page';
+import ChamberTokensPage from '@/app/(app)/admin/chamber-tokens/page';
+import { createChamberTokenAction, revokeChamberTokenAction } from '@/app/(app)/admin/chamber-tokens/actions';
+import { latestAnalyses } from '@/db/queries/analyses';
+import { getRequest, params, uploadRequest } from '../apiHelpers';
 import { form, uniqueEmail } from '../helpers';
 
 /** Who asks. Chamber tokens join here (and get a column in every row) once they exist. */
@@ -108,13 +119,23 @@ const designFileForm = () => {
 };
 const editors = only('engineer', 'admin');
 
+async function anAnalysisId(): Promise<string> {
+  const byMode = await latestAnalyses(Number(await aRunId()));
+  const a = byMode.refit ?? byMode.sequential;
+  if (!a) throw new Error('the first run has no analysis');
+  return String(a.analysis.id);
+}
+/** An upload every caller may send: past the access check it is refused (unknown design), storing nothing. */
+const refusedUpload = () => uploadRequest({ design: 'no such design', chamber: 'Bay 1 e-beam', runCode: 'ACCESS-0' }, { name: 'access.csv', bytes: 'time_s,signal\n0,0.9\n' });
+const reanalysis = () => new Request('http://localhost/api/runs/x/analyses', { method: 'POST', body: JSON.stringify({ mode: 'refit' }), headers: { 'content-type': 'application/json' } });
+
 export const accessTable: Row[] = [
   page('/', () => HomePage(), signedIn),
   page('/account', () => AccountPage(), signedIn),
   page('/admin/users', () => UsersPage(), only('admin')),
   page('/admin/mail', () => MailPage(), only('admin')),
   page('/audit', () => AuditPage(), only('supervisor', 'admin')),
-  page('/runs', () => RunsPage(), signedIn),
+  page('/runs', () => RunsPage({ searchParams: Promise.resolve({}) }), signedIn),
   page('/runs/[runId]', async () => { const p = await aRun(); await RunLayout({ children: null, params: p.params }); return RunPage(p); }, signedIn),
   page('/sign-in', () => SignInPage(noSearch), cells((p) => (p === 'anonymous' ? 'yes' : 'home'))),
   page('/reset-password', () => Promise.resolve(ResetPasswordPage()), everyone),
@@ -139,6 +160,15 @@ export const accessTable: Row[] = [
   route('POST /api/materials', () => createMaterialRoute(jsonRequest('/api/materials', 'POST', { name: 'SiO2', model: { model: 'constant', n: 1.46 } })), editors),
   route('GET /api/materials/[name]', () => readMaterialRoute(new Request('http://localhost/api/materials/SiO2'), { params: Promise.resolve({ name: 'SiO2' }) }), signedIn),
   route('PUT /api/materials/[name]', () => changeMaterialRoute(jsonRequest('/api/materials/x', 'PUT', { name: 'LK-no-such-film', model: { model: 'constant', n: 1.46 } }), { params: Promise.resolve({ name: 'LK-no-such-film' }) }), editors),
+  page('/runs/upload', () => UploadPage(), signedIn),
+  page('/admin/chamber-tokens', () => ChamberTokensPage(), only('admin')),
+  route('GET /api/runs', () => listRunsRoute(getRequest('/api/runs')), signedIn),
+  route('POST /api/runs', () => uploadRunRoute(refusedUpload()), signedIn),
+  route('GET /api/runs/[id]', async () => readRunRoute(getRequest('/api/runs/x'), params(await aRunId())), signedIn),
+  route('GET /api/runs/[id]/trace', async () => rawTraceRoute(getRequest('/api/runs/x/trace'), params(await aRunId())), signedIn),
+  route('GET /api/runs/[id]/results.csv', async () => resultsCsvRoute(getRequest('/api/runs/x/results.csv'), params(await aRunId())), signedIn),
+  route('POST /api/runs/[id]/analyses', () => reanalyseRoute(reanalysis(), params(NO_RUN)), editors),
+  route('GET /api/analyses/[id]', async () => readAnalysisRoute(getRequest('/api/analyses/x'), params(await anAnalysisId())), signedIn),
   route('GET /api/health', () => health(), cells((p) => (p === 'admin' ? 'details' : 'up'))),
   action('(auth)/sign-in#signIn', () => signIn(null, form({ email: uniqueEmail('table'), password: 'wrong-password-1' })), everyone),
   action('(auth)/reset-password#requestPasswordReset', () => requestPasswordReset(null, form({ email: uniqueEmail('table') })), everyone),
@@ -155,6 +185,8 @@ export const accessTable: Row[] = [
   action('(app)/materials#createMaterial', () => createMaterial(null, form({ input: JSON.stringify({ name: 'SiO2', model: { model: 'constant', n: 1.46 } }) })), editors),
   action('(app)/materials#updateMaterial', () => updateMaterial(null, form({ name: 'LK-no-such-film', input: JSON.stringify({ name: 'LK-no-such-film', model: { model: 'constant', n: 1.46 } }) })), editors),
   action('(app)/materials#adoptIndex', () => adoptIndex(null, form({ name: 'LK-no-such-film', wavelengthNm: 550 })), editors),
+  action('(app)/admin/chamber-tokens#createChamberTokenAction', () => createChamberTokenAction(null, form({ chamberId: NO_RUN, label: 'access table row' })), only('admin')),
+  action('(app)/admin/chamber-tokens#revokeChamberTokenAction', () => revokeChamberTokenAction(null, form({ tokenId: NO_RUN })), only('admin')),
   action('(app)/admin/users#inviteUser', () => inviteUser(null, form({ email: uniqueEmail('table'), name: 'Table Row', role: 'operator' })), only('admin')),
   action('(app)/admin/users#resendInvite', () => resendInvite(null, form({ userId: NO_USER })), only('admin')),
   action('(app)/admin/users#changeRole', () => changeRole(null, form({ userId: NO_USER, role: 'operator' })), only('admin')),

@@ -11,8 +11,10 @@ import { IndexPlot, SpectrumPlot, type SpectrumView } from '@/components/runs/Ru
 import { RunReview } from '@/components/runs/RunReview';
 import { formatBytes, formatDate } from '@/components/runs/format';
 import { PageHeader, Panel, formatTime } from '@/components/ui/Page';
-import { latestAnalyses, type AnalysisMode } from '@/db/queries/analyses';
+import { findAnalysis, latestAnalyses, listAnalysesOfRun, type AnalysisMode } from '@/db/queries/analyses';
 import { dispositionAuthor, listAnnotations, listComments, runDesignDocument } from '@/db/queries/review';
+import { AnalysisHistory } from '@/components/runs/AnalysisHistory';
+import { ReanalyseForm } from '@/components/runs/ReanalyseForm';
 import { findRun } from '@/db/queries/runs';
 import { findOverview } from '@/db/queries/series';
 import { requireCapability } from '@/app/_lib/auth';
@@ -44,7 +46,7 @@ function designOf(document: unknown): Design | null {
   }
 }
 
-export default async function RunPage({ params, searchParams }: { params: Promise<{ runId: string }>; searchParams: Promise<{ mode?: string | string[] }> }) {
+export default async function RunPage({ params, searchParams }: { params: Promise<{ runId: string }>; searchParams: Promise<{ mode?: string | string[]; analysis?: string | string[] }> }) {
   const user = await requireCapability('viewRuns');
   const { runId } = await params;
   const id = parseRunId(runId);
@@ -54,7 +56,12 @@ export default async function RunPage({ params, searchParams }: { params: Promis
   const [byMode, annotations, comments, decidedBy, stored] = await Promise.all([
     latestAnalyses(run.id), listAnnotations(run.id), listComments(run.id), dispositionAuthor(run.dispositionBy), runDesignDocument(run.id),
   ]);
-  const asked = (await searchParams).mode;
+  const query = await searchParams;
+  // An earlier analysis, asked for by ?analysis=ID, takes the place of the newest of its mode.
+  const pinnedId = parseRunId(String(query.analysis ?? ''));
+  const pinned = pinnedId === null ? undefined : await findAnalysis(pinnedId);
+  if (pinned && pinned.analysis.runId === run.id) byMode[pinned.analysis.mode] = pinned;
+  const asked = pinned?.analysis.runId === run.id ? pinned.analysis.mode : query.mode;
   const available = modes.filter((m) => byMode[m.mode]);
   const shown = available.find((m) => m.mode === asked) ?? available[0];
   const current = shown ? byMode[shown.mode] : undefined;
@@ -72,6 +79,8 @@ export default async function RunPage({ params, searchParams }: { params: Promis
   const warnings = done ? [...driftWarnings(drift, names), ...done.analysis.warnings] : [];
   const monitorWavelengths = [...new Set(layers.map((l) => l.wavelengthNm).filter((w) => w !== null))];
   const writes = can(user.role, 'writeRunNotes');
+  const history = await listAnalysesOfRun(run.id);
+  const newestIds = modes.map((m) => history.find((a) => a.mode === m.mode)?.id).filter((x): x is number => x !== undefined);
 
   return (
     <>
@@ -197,6 +206,15 @@ export default async function RunPage({ params, searchParams }: { params: Promis
         <NoteList notes={comments} kind="comment" runId={run.id} me={user.id} change={writes ? changeOwnNote : null} empty="No comments yet." />
         {writes ? <CommentForm runId={run.id} add={addComment} /> : null}
       </Panel>
+      <Panel title="Analyses of this run" className="mt-6">
+        <p className="mb-2 text-xs text-ink-faint">Every result is kept; the newest of each mode is the one shown unless an earlier one is picked.</p>
+        <AnalysisHistory runId={run.id} entries={history} shownId={current?.analysis.id} newestIds={newestIds} />
+      </Panel>
+      {can(user.role, 'reanalyseRuns') ? (
+        <Panel title="Analyse again with other settings" className="mt-6">
+          <ReanalyseForm runId={run.id} />
+        </Panel>
+      ) : null}
     </>
   );
 }

@@ -1,0 +1,98 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useEffect, useState } from 'react';
+
+type Answer = { analysis?: { id: string; state: string }; error?: { message: string } };
+const select = 'rounded-md border border-paper-line bg-paper-raised px-2 py-1.5 text-sm text-ink';
+
+/**
+ * Queues a new analysis of this run with other fit settings (POST /api/runs/{id}/analyses), then
+ * watches it and refreshes the page when it has finished. Every earlier result is kept.
+ */
+export function ReanalyseForm({ runId }: { runId: number }) {
+  const router = useRouter();
+  const [waiting, setWaiting] = useState<string | null>(null);
+  const [message, setMessage] = useState<string | null>(null);
+
+  useEffect(() => {
+    if (!waiting) return;
+    const timer = setInterval(() => {
+      void fetch(`/api/analyses/${waiting}`, { cache: 'no-store' })
+        .then((r) => r.json() as Promise<{ state: string }>)
+        .then((a) => {
+          if (a.state === 'done' || a.state === 'failed') {
+            setWaiting(null);
+            setMessage(`Analysis #${waiting} ${a.state === 'done' ? 'finished' : 'failed'}.`);
+            router.refresh();
+          }
+        })
+        .catch(() => undefined);
+    }, 1500);
+    return () => clearInterval(timer);
+  }, [waiting, router]);
+
+  async function submit(form: FormData) {
+    setMessage(null);
+    const settings: Record<string, unknown> = { mode: form.get('mode') };
+    for (const key of ['gain', 'heldIndex'] as const) if (form.get(key)) settings[key] = form.get(key);
+    const thin = String(form.get('thinLayerQwot') ?? '').trim();
+    if (thin !== '') settings.thinLayerQwot = Number(thin);
+    if (form.get('gainDrift') === 'on') settings.gainDrift = true;
+    if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
+    const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
+    const body = (await res.json().catch(() => ({}))) as Answer;
+    if (res.status === 201 && body.analysis) {
+      setWaiting(body.analysis.id);
+      router.refresh();
+    } else setMessage(body.error?.message ?? `The server answered ${res.status}.`);
+  }
+
+  return (
+    <form action={submit} className="flex flex-col gap-3" data-testid="reanalyse-form">
+      <div className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4">
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-mode">Mode</label>
+          <select id="re-mode" name="mode" className={select} defaultValue="refit">
+            <option value="refit">Joint re-fit</option>
+            <option value="sequential">Layer by layer</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-gain">Detector gain</label>
+          <select id="re-gain" name="gain" className={select} defaultValue="">
+            <option value="">Mode default</option>
+            <option value="chip">One per chip (from its bare-chip stretch)</option>
+            <option value="per-layer">Fitted per layer</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-held">Index of thin layers</label>
+          <select id="re-held" name="heldIndex" className={select} defaultValue="">
+            <option value="">Default (this run&apos;s drift estimate)</option>
+            <option value="run-drift">Held at this run&apos;s drift estimate</option>
+            <option value="nominal">Held at the nominal index</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-thin">Hold the index below (QWOT; 0 leaves every index free)</label>
+          <input id="re-thin" name="thinLayerQwot" type="number" min="0" max="4" step="0.05" placeholder="0.5 (default)" className={select} />
+        </div>
+        <div className="flex flex-col justify-end gap-1 text-sm sm:col-span-2 lg:col-span-4">
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="gainDrift" /> Fit a gain drift within each chip (re-fit, one gain per chip)
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="gainDriftFromChips" defaultChecked /> Gain drift from chip to chip
+          </label>
+        </div>
+      </div>
+      <div className="flex flex-wrap items-center gap-3">
+        <button type="submit" disabled={waiting !== null} className="rounded-md bg-fringe px-4 py-1.5 text-sm font-medium text-paper-raised hover:bg-fringe-dark disabled:opacity-50">
+          {waiting ? `Analysis #${waiting} in the queue…` : 'Queue the analysis'}
+        </button>
+        {message ? <span className="text-sm text-ink-soft" role="status">{message}</span> : null}
+      </div>
+    </form>
+  );
+}

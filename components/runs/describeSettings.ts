@@ -1,0 +1,12 @@
+/** Words for a settings object, for lists ("refit · gain per chip · thin layers held at nominal"). */
+export function describeSettings(s: Record<string, unknown>): string {
+  const parts = [String(s.mode ?? '')];
+  if (s.gain === 'chip') parts.push('one gain per chip');
+  if (s.gain === 'per-layer') parts.push('gain per layer');
+  if (s.gainDrift === true) parts.push('gain drift fitted');
+  if (s.gainDriftFromChips === false) parts.push('no chip-to-chip gain drift');
+  if (s.heldIndex === 'nominal') parts.push('thin layers held at the nominal index');
+  if (s.heldIndex === 'run-drift') parts.push("thin layers held at the run's drift index");
+  if (typeof s.thinLayerQwot === 'number') parts.push(`held below ${s.thinLayerQwot} QWOT`);
+  return parts.join(' · ');
+}

@@ -1,0 +1,17 @@
+import { z } from 'zod';
+
+/**
+ * The settings an analysis may be queued with: the options of analysis/fit AnalyzeOptions that
+ * change the physics of the fit. Stored as the analysis's `settings` and handed to analyzeRun.
+ */
+export const analysisSettingsSchema = z
+  .object({
+    mode: z.enum(['sequential', 'refit']),
+    gain: z.enum(['per-layer', 'chip']).optional(),
+    gainDrift: z.boolean().optional(),
+    gainDriftFromChips: z.boolean().optional(),
+    heldIndex: z.enum(['nominal', 'run-drift']).optional(),
+    thinLayerQwot: z.number().min(0).max(4).optional(),
+  })
+  .strict();
+export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;

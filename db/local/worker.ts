@@ -1,0 +1,27 @@
+// `npm run worker`: one analysis worker on the database in DATABASE_URL. Start as many as the
+// machines have cores to spare, here or on other machines pointed at the same database.
+import { startAnalysisWorker } from '../jobs/worker';
+import { closeDb } from '../client';
+import { sendAnalysisAlerts } from '../../app/_lib/alerts';
+
+// The worker is the app's composition root for analyses: it wires the tolerance alerts (app/_lib) in.
+const boss = await startAnalysisWorker({
+  hooks: { onStored: sendAnalysisAlerts },
+  onOutcome: (o) => {
+    if (o.state === 'done') console.log(`[fringelog] worker: analysis ${o.analysisId} done (${o.layers} layers, ${o.warnings} warnings, try ${o.attempt})`);
+    if (o.state === 'failed') console.log(`[fringelog] worker: analysis ${o.analysisId} failed: ${o.error}`);
+  },
+});
+console.log(`[fringelog] analysis worker ${process.pid} waiting for jobs`);
+
+let stopping = false;
+async function stop(): Promise<void> {
+  if (stopping) return;
+  stopping = true;
+  // Finish the job in hand (up to the timeout); an unfinished one is retried by another worker.
+  await boss.stop({ graceful: true, wait: true, timeout: 60_000 });
+  await closeDb();
+  process.exit(0);
+}
+process.on('SIGTERM', () => void stop());
+process.on('SIGINT', () => void stop());

@@ -1,0 +1,134 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { baseUrl, assert, assertEqual, shot, signInAs, test } from '../harness';
+import { Shell, UploadDeskPage } from '../pages';
+
+const samples = path.resolve(import.meta.dirname, '..', '..', '..', 'sample-traces');
+const BB4 = 'Larkspur LK-BB4 four-layer broadband visible antireflection';
+
+/** A copy of a sample trace under a name and run code of this test's own (the demo already holds the original). */
+function copyOf(sample: string, runCode: string, edit: (lines: string[]) => void = () => undefined): string {
+  const lines = fs.readFileSync(path.join(samples, sample), 'utf8').split('\n');
+  const at = lines.findIndex((l) => l.startsWith('# run:'));
+  lines[at] = `# run: ${runCode}`;
+  edit(lines);
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'fringelog-upload-'));
+  const file = path.join(dir, `${runCode}.csv`);
+  fs.writeFileSync(file, lines.join('\n'));
+  return file;
+}
+
+test('an operator uploads a trace: fields from its header, progress, the analyses until done, then the run', async (page, context) => {
+  await signInAs(page, 'operator');
+  await new Shell(page).go('Upload');
+  await page.getByRole('heading', { name: 'Upload traces' }).waitFor();
+  const runCode = `B2-T${Date.now().toString(36).toUpperCase()}`;
+  const file = copyOf('bay2-bb4-run0587.csv', runCode);
+  const name = path.basename(file);
+  const desk = new UploadDeskPage(page);
+  await desk.choose(file);
+  // filled from the trace's "# key: value" lines; the design is not named there, so the operator picks it
+  assertEqual(await desk.field(name, 'Chamber').inputValue(), 'Bay 2 IAD', 'chamber from the header');
+  assertEqual(await desk.field(name, 'Run code').inputValue(), runCode, 'run code from the header');
+  assertEqual(await desk.field(name, 'Design').inputValue(), '', 'design left to choose');
+  await desk.field(name, 'Design').selectOption(BB4);
+  assertEqual(await desk.field(name, 'Revision').inputValue(), '1', 'newest revision chosen');
+  await shot(page, 'upload-ready');
+
+  // A slow link, so the progress bar is seen part-way.
+  const cdp = await context.newCDPSession(page);
+  await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 20, downloadThroughput: -1, uploadThroughput: 80 * 1024 });
+  await desk.upload(name);
+  const bar = desk.progress(name);
+  await bar.waitFor();
+  let partWay = false;
+  for (let i = 0; i < 100 && !partWay; i++) {
+    const now = Number(await bar.getAttribute('aria-valuenow'));
+    partWay = now > 0 && now < 100;
+    if (!partWay) await page.waitForTimeout(20);
+  }
+  assert(partWay, 'the progress bar showed the upload part-way');
+  await shot(page, 'upload-progress');
+  await cdp.send('Network.emulateNetworkConditions', { offline: false, latency: 0, downloadThroughput: -1, uploadThroughput: -1 });
+
+  await page.locator(`[data-testid="upload-item"][data-file="${name}"][data-stage="stored"]`).waitFor({ timeout: 30000 });
+  await page.waitForFunction((n) => document.querySelectorAll(`[data-file="${n}"] [data-testid="analysis-watch"] li[data-state="done"]`).length === 2, name, { timeout: 90000 });
+  assertEqual(await desk.analysisStates(name).count(), 2, 'two analyses watched');
+  await shot(page, 'upload-analysed');
+  await desk.item(name).getByTestId('open-run').click();
+  await page.getByRole('heading', { name: `Run ${runCode}` }).waitFor();
+  assertEqual(await page.getByTestId('layer-table').locator('tbody tr').count(), 4, 'layers of the uploaded run');
+  await shot(page, 'upload-run');
+});
+
+test('a malformed trace is refused with its line, and the phone layout holds', async (page) => {
+  await page.setViewportSize({ width: 390, height: 844 });
+  await signInAs(page, 'operator');
+  await page.goto(`${baseUrl}/runs/upload`);
+  let badLine = 0;
+  const file = copyOf('bay1-ar1-run0412.csv', `B1-BAD${Date.now().toString(36).toUpperCase()}`, (lines) => {
+    const i = lines.findIndex((l) => /^\d/.test(l)) + 10;
+    lines[i] = lines[i].replace(/^([^,]*),([^,]*)/, '$1,n/a');
+    badLine = i + 1;
+  });
+  const name = path.basename(file);
+  const desk = new UploadDeskPage(page);
+  await desk.choose(file);
+  await desk.field(name, 'Design').selectOption('Larkspur LK-AR1 single-layer MgF2 antireflection on crown glass');
+  await desk.upload(name);
+  const error = desk.error(name);
+  await error.waitFor();
+  const text = (await error.textContent()) ?? '';
+  assert(text.includes(`line ${badLine}`) && text.includes('signal'), `the refusal names line ${badLine} and the column: ${text}`);
+  await shot(page, 'upload-refused-phone');
+  const width = await page.evaluate(() => document.documentElement.scrollWidth);
+  assert(width <= 390, `no sideways scrolling on a phone (page is ${width} px wide)`);
+});
+
+test('an admin creates a chamber token, sees it once, and revokes it after confirming', async (page) => {
+  await signInAs(page, 'admin');
+  await new Shell(page).go('Chamber tokens');
+  await page.getByRole('heading', { name: 'Chamber tokens' }).waitFor();
+  await page.getByLabel('Chamber', { exact: true }).selectOption({ label: 'Bay 3 sputter' });
+  await page.getByLabel('Used by').fill('Bay 3 controller PC (browser test)');
+  await page.getByRole('button', { name: 'Create token' }).click();
+  const value = (await page.getByTestId('token-value').textContent())?.trim() ?? '';
+  assert(/^flk_[A-Za-z0-9_-]{43}$/.test(value), `a token is shown once: ${value}`);
+  await shot(page, 'chamber-token-created');
+  const res = await page.request.get(`${baseUrl}/api/runs?pageSize=5`, { headers: { authorization: `Bearer ${value}` } });
+  assertEqual(res.status(), 200, 'the token reads its chamber');
+  await page.reload();
+  assertEqual(await page.getByTestId('token-value').count(), 0, 'not shown again');
+  const row = page.locator(`tr[data-token-hint="flk_…${value.slice(-4)}"]`);
+  assert(((await row.getByTestId('token-last-used').textContent()) ?? '').includes('UTC'), 'last use shown');
+  await row.getByRole('button', { name: 'Revoke…' }).click();
+  await row.getByRole('button', { name: 'Revoke token' }).click();
+  await row.getByText(/^revoked/).waitFor();
+  const after = await page.request.get(`${baseUrl}/api/runs?pageSize=5`, { headers: { authorization: `Bearer ${value}` } });
+  assertEqual(after.status(), 401, 'a revoked token is refused');
+  await shot(page, 'chamber-token-revoked');
+});
+
+// As the admin: the password-reset test of specs/auth.ts changes the engineer's password.
+test('an admin (as an engineer may) queues a re-analysis with other settings; it joins the list of analyses when done', async (page) => {
+  await signInAs(page, 'admin');
+  await page.goto(`${baseUrl}/runs`);
+  await page.locator('tr[data-run-code="B2-0587"]').getByRole('link', { name: 'B2-0587' }).click();
+  await page.getByRole('heading', { name: 'Run B2-0587' }).waitFor();
+  const history = page.getByTestId('analysis-history').locator('li');
+  const before = await history.count();
+  const form = page.getByTestId('reanalyse-form');
+  await form.getByLabel('Mode', { exact: true }).selectOption('sequential');
+  await form.getByLabel('Index of thin layers').selectOption('nominal');
+  await form.getByRole('button', { name: 'Queue the analysis' }).click();
+  await page.waitForFunction((n) => document.querySelectorAll('[data-testid="analysis-history"] li').length === n + 1, before, { timeout: 15000 });
+  await page.getByRole('status').filter({ hasText: /finished/ }).waitFor({ timeout: 90000 });
+  const newest = history.first();
+  assert(((await newest.textContent()) ?? '').includes('thin layers held at the nominal index'), 'the new analysis lists its settings');
+  await shot(page, 'run-reanalysed');
+  await page.setViewportSize({ width: 390, height: 844 });
+  await page.goto(`${baseUrl}/runs?chamber=Bay%202%20IAD`);
+  await page.getByTestId('runs-table').waitFor();
+  await shot(page, 'runs-list-phone');
+});
