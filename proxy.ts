@@ -37,6 +37,10 @@ function refusal(request: NextRequest): NextResponse | null {
     if (!host || hostOf(origin) !== host) return plain(403, 'Posts from other sites are refused.');
   }
   if (Number(request.headers.get('content-length') ?? 0) > ACTION_BODY_LIMIT_BYTES) return plain(413, 'The form sent more than 1 MB.');
+  // A body without a stated length could only be measured by reading it; browsers always state it.
+  if (request.headers.get('content-length') === null && /chunked/i.test(request.headers.get('transfer-encoding') ?? '')) {
+    return plain(411, 'Send the form with a Content-Length.');
+  }
   return null;
 }
 

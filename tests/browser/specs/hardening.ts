@@ -190,6 +190,10 @@ test('bad input is answered with 4xx or the page’s own message, never 500', as
   assertEqual(crossForm.status(), 403, 'cross-origin form post');
   const big = await req.post(`${baseUrl}/sign-in`, { headers: { origin, 'next-action': '0'.repeat(42) }, multipart: { email: 'x'.repeat(2 * 1024 * 1024) } });
   assertEqual(big.status(), 413, 'action body over the limit');
+  // The same body streamed with no stated length (chunked): refused before Next reads it.
+  const body = new ReadableStream<Uint8Array>({ start: (c) => { c.enqueue(new TextEncoder().encode('x'.repeat(2 * 1024 * 1024))); c.close(); } });
+  const chunked = await fetch(`${baseUrl}/sign-in`, { method: 'POST', headers: { origin, 'next-action': '0'.repeat(42), 'content-type': 'text/plain' }, body, duplex: 'half' } as RequestInit & { duplex: 'half' });
+  assertEqual(chunked.status, 411, 'chunked action body with no length');
   const health = await req.get(`${baseUrl}/api/health`);
   assertEqual(await health.json(), { status: 'up' }, 'public health answer');
 });
