@@ -63,6 +63,7 @@ export const ANALYZE_DEFAULTS = {
   refitFinalPoints: 3200,
   gainDrift: false,
   gainDriftFromChips: true,
+  fitOffset: true,
   gainPriorFraction: 0.005,
   thinLayerQwot: 0.9,
   heldIndexSigma: 0.05,
@@ -111,7 +112,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
 
   const noiseFloor = idleNoise(trace, seg.idle);
   const chipLayers = new Map<number, LayerState[]>();
-  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings);
+  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
   // A gain drift seen across the chips' bare-chip calibrations is applied within every chip.
   const drift = o.gainDriftFromChips ? gainDriftFromChips(chipStarts) : null;

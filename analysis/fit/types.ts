@@ -32,6 +32,12 @@ export interface AnalyzeOptions {
    */
   gainDriftFromChips?: boolean;
   /**
+   * Fit a chip's detector offset (stray light) from its first layers when it has no dark samples
+   * (reflectance monitoring; see fit/chipCalibrations.ts); false keeps the offset assumed from
+   * other chips or zero. @default true
+   */
+  fitOffset?: boolean;
+  /**
    * Gain mode 'per-layer': a Gaussian prior holding each layer's gain near the chip calibration
    * (with any known drift), σ as a fraction of the gain; 0 leaves the gains free. @default 0.005
    */

@@ -40,6 +40,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (thin !== '') settings.thinLayerQwot = Number(thin);
     if (form.get('gainDrift') === 'on') settings.gainDrift = true;
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
+    if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
     if (res.status === 201 && body.analysis) {
@@ -84,6 +85,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="gainDriftFromChips" defaultChecked /> Gain drift from chip to chip
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="fitOffset" defaultChecked /> Fit the detector offset (stray light) where a chip has no dark reading
           </label>
         </div>
       </div>

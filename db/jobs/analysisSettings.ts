@@ -10,6 +10,7 @@ export const analysisSettingsSchema = z
     gain: z.enum(['per-layer', 'chip']).optional(),
     gainDrift: z.boolean().optional(),
     gainDriftFromChips: z.boolean().optional(),
+    fitOffset: z.boolean().optional(),
     heldIndex: z.enum(['nominal', 'run-drift']).optional(),
     thinLayerQwot: z.number().min(0).max(4).optional(),
   })

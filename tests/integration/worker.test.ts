@@ -114,4 +114,35 @@ describe('analysis workers', () => {
     expect(await runAnalysisJob(analysis.id)).toEqual({ analysisId: analysis.id, state: 'skipped' });
     expect((await findAnalysis(analysis.id))?.analysis.attempt).toBe(1);
   });
+
+  it('a database fault mid-job (connection dropped) is retried by the queue and the analysis finishes once', async () => {
+    const queue = `analysis-test-${randomBytes(4).toString('hex')}`;
+    const outcomes: JobOutcome[] = [];
+    let faults = 0;
+    const w = await startAnalysisWorker({
+      queue,
+      policy: { retryLimit: 3, retryDelay: 1, retryBackoff: false, expireInSeconds: 60 },
+      pollingIntervalSeconds: 0.5,
+      hooks: {
+        // As pg reports a server that went away: SQLSTATE 57P01 (admin_shutdown), once.
+        beforeStore: () => {
+          if (faults++ > 0) return Promise.resolve();
+          return Promise.reject(Object.assign(new Error('terminating connection due to administrator command'), { code: '57P01' }));
+        },
+      },
+      onOutcome: (o) => outcomes.push(o),
+    });
+    bosses.push(w);
+    const [runRow] = (await db().execute<{ id: number }>(sql`select id from runs where run_code = 'B1-0412'`)).rows;
+    const analysis = await createAnalysis({ runId: runRow.id, mode: 'sequential', requestedBy: null });
+    await sendAnalysisJob(analysis.id, undefined, queue);
+    const done = await until('the retried analysis to finish', async () => {
+      const a = await findAnalysis(analysis.id);
+      return a?.analysis.state === 'done' ? a : undefined;
+    });
+    expect(faults).toBe(2);
+    expect(done.analysis.attempt).toBe(2);
+    expect(done.layers.map((l) => l.layer)).toEqual([1]);
+    expect(outcomes).toEqual([expect.objectContaining({ analysisId: analysis.id, state: 'done', attempt: 2 })]);
+  });
 });

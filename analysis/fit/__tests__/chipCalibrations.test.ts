@@ -34,6 +34,10 @@ describe('chip calibration without dark samples', () => {
     // 0.5 % target for this case is tracked by the chamber harness's pending R-offset scenario.
     expect(fitted).toBeLessThan(1.5);
     expect(measured).toBeLessThan(fitted);
+    // fitOffset: false (an engineer's re-analysis) keeps the offset assumed, and the error returns.
+    const assumed = await analyzeRun(design, trace, { fitOffset: false });
+    expect(assumed.chips[0].offsetSource).not.toBe('fitted');
+    expect(rmsThicknessPct(assumed, run)).toBeGreaterThan(2 * fitted);
   });
 
   it('keeps a zero offset when the layers show none, and reports how well it is known', async () => {
