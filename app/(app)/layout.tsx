@@ -10,7 +10,7 @@ export default async function AppLayout({ children }: { children: React.ReactNod
   const user = await requireUser();
   return (
     <div className="flex min-h-screen flex-col">
-      <header className="bg-ink text-paper">
+      <header className="bg-ink text-paper print:hidden">
         <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-8 gap-y-3 px-6 py-3">
           <Link href="/" className="text-paper-raised">
             <Wordmark onDark />
@@ -33,8 +33,8 @@ export default async function AppLayout({ children }: { children: React.ReactNod
           </div>
         </div>
       </header>
-      <main className="mx-auto w-full max-w-6xl flex-1 px-6 py-8">{children}</main>
-      <footer className="border-t border-paper-line">
+      <main className="mx-auto w-full max-w-6xl flex-1 px-6 py-8 print:max-w-none print:p-0">{children}</main>
+      <footer className="border-t border-paper-line print:hidden">
         <div className="mx-auto max-w-6xl px-6 py-3 font-mono text-xs text-ink-faint">Fringelog · Larkspur Optical Works</div>
       </footer>
     </div>

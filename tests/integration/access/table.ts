@@ -12,6 +12,7 @@ import AuditPage from '@/app/(app)/audit/page';
 import RunsPage from '@/app/(app)/runs/(list)/page';
 import RunLayout from '@/app/(app)/runs/[runId]/layout';
 import RunPage from '@/app/(app)/runs/[runId]/page';
+import RunReportPage from '@/app/(app)/runs/[runId]/report/page';
 import SignInPage from '@/app/(auth)/sign-in/page';
 import ResetPasswordPage from '@/app/(auth)/reset-password/page';
 import SetPasswordPage from '@/app/(auth)/set-password/page';
@@ -137,6 +138,7 @@ export const accessTable: Row[] = [
   page('/audit', () => AuditPage(), only('supervisor', 'admin')),
   page('/runs', () => RunsPage({ searchParams: Promise.resolve({}) }), signedIn),
   page('/runs/[runId]', async () => { const p = await aRun(); await RunLayout({ children: null, params: p.params }); return RunPage(p); }, signedIn),
+  page('/runs/[runId]/report', async () => { const p = await aRun(); await RunLayout({ children: null, params: p.params }); return RunReportPage(p); }, signedIn),
   page('/sign-in', () => SignInPage(noSearch), cells((p) => (p === 'anonymous' ? 'yes' : 'home'))),
   page('/reset-password', () => Promise.resolve(ResetPasswordPage()), everyone),
   page('/set-password', () => SetPasswordPage({ searchParams: Promise.resolve({ token: 'no-such-token-000000000' }) }), everyone),

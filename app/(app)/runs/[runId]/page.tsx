@@ -1,7 +1,6 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
-import { parseDesign, type Design } from '@/analysis/design';
 import { AnalysisStateBadge } from '@/components/runs/AnalysisStateBadge';
 import { ChipTable, ToolingList, type ChipView, type ToolingView } from '@/components/runs/ChipsAndTooling';
 import { DispositionPanel } from '@/components/runs/DispositionPanel';
@@ -20,7 +19,7 @@ import { findOverview } from '@/db/queries/series';
 import { requireCapability } from '@/app/_lib/auth';
 import { can } from '@/app/_lib/capabilities';
 import { addAnnotation, addComment, changeOwnNote, decideRun } from './actions';
-import { chipRows, driftRows, driftWarnings, layerRows, materialNames, parseRunId, traceSpans } from './runView';
+import { chipRows, designOf, driftRows, driftWarnings, layerRows, materialNames, parseRunId, traceSpans } from './runView';
 
 export const metadata: Metadata = { title: 'Run' };
 
@@ -36,14 +35,6 @@ function Fact({ label, children }: { label: string; children: React.ReactNode })
       <dd className="mt-0.5">{children}</dd>
     </div>
   );
-}
-
-function designOf(document: unknown): Design | null {
-  try {
-    return parseDesign(document);
-  } catch {
-    return null;
-  }
 }
 
 export default async function RunPage({ params, searchParams }: { params: Promise<{ runId: string }>; searchParams: Promise<{ mode?: string | string[]; analysis?: string | string[] }> }) {
@@ -86,6 +77,7 @@ export default async function RunPage({ params, searchParams }: { params: Promis
     <>
       <p className="mb-2 text-sm">
         <Link href="/runs" className="text-fringe underline-offset-2 hover:underline">← All runs</Link>
+        <Link href={`/runs/${run.id}/report`} className="ml-4 text-fringe underline-offset-2 hover:underline" data-testid="report-link">Printable report</Link>
       </p>
       <PageHeader title={`Run ${run.runCode}`} lead={`${design.name} (revision ${design.revision}, ${design.layerCount} layer${design.layerCount === 1 ? '' : 's'}) in ${chamber.name}`} />
       <DispositionPanel

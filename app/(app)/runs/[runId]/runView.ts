@@ -1,5 +1,5 @@
 import 'server-only';
-import { planLayer, type Design } from '@/analysis/design';
+import { parseDesign, planLayer, type Design } from '@/analysis/design';
 import type { AnalysisWithLayers } from '@/db/queries/analyses';
 import type { DriftView } from '@/components/runs/IndexDriftList';
 import type { LayerView } from '@/components/runs/layerView';
@@ -85,6 +85,15 @@ export function layerRows(a: AnalysisWithLayers, design: Design | null = null, o
       warnings: strings(d.warnings),
     };
   });
+}
+
+/** The run's stored design document parsed, or null when it no longer parses (the page then shows no tolerances from it). */
+export function designOf(document: unknown): Design | null {
+  try {
+    return parseDesign(document);
+  } catch {
+    return null;
+  }
 }
 
 /** What the trace plot needs of each layer. */
