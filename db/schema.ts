@@ -307,6 +307,8 @@ export const alertPreferences = pgTable('alert_preferences', {
   outOfTolerance: boolean('out_of_tolerance').notNull().default(false),
   /** A finished analysis completes a Western Electric rule on its chamber's control chart. */
   controlRules: boolean('control_rules').notNull().default(false),
+  /** A digest of each shift's runs and flags when the shift ends (db/jobs/shifts.ts). */
+  shiftDigest: boolean('shift_digest').notNull().default(false),
   updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
 });
 export type AlertPreferences = typeof alertPreferences.$inferSelect;

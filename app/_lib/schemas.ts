@@ -96,6 +96,7 @@ const checkbox = z.enum(['on']).optional().transform((v) => v === 'on');
 export const alertPreferencesSchema = z.object({
   outOfTolerance: checkbox,
   controlRules: checkbox,
+  shiftDigest: checkbox,
 });
 
 const noteBody = z.string().trim().min(1, 'Write something first.').max(4000, 'Keep it under 4000 characters.');

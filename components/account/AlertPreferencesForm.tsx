@@ -3,7 +3,7 @@
 import { useActionState } from 'react';
 import { formError, FormMessage, SubmitButton, type FormAction } from '@/components/forms';
 
-export function AlertPreferencesForm({ action, current }: { action: FormAction; current: { outOfTolerance: boolean; controlRules: boolean } }) {
+export function AlertPreferencesForm({ action, current }: { action: FormAction; current: { outOfTolerance: boolean; controlRules: boolean; shiftDigest: boolean } }) {
   const [state, formAction] = useActionState(action, null);
   const message = formError(state);
   return (
@@ -22,6 +22,13 @@ export function AlertPreferencesForm({ action, current }: { action: FormAction; 
         <span>
           E-mail me when a run fires a control-chart rule
           <span className="block text-ink-faint">Western Electric rules on its chamber&apos;s runs of the same design, limits from the 20 runs before it</span>
+        </span>
+      </label>
+      <label className="flex items-start gap-2">
+        <input type="checkbox" name="shiftDigest" defaultChecked={current.shiftDigest} className="mt-1" />
+        <span>
+          E-mail me a digest when each shift ends
+          <span className="block text-ink-faint">the shift&apos;s runs with their worst cut and flags; nothing is sent for a shift without runs</span>
         </span>
       </label>
       <div>

@@ -3,6 +3,8 @@
 import { startAnalysisWorker } from '../jobs/worker';
 import { closeDb } from '../client';
 import { sendAnalysisAlerts } from '../../app/_lib/alerts';
+import { sendShiftDigest } from '../../app/_lib/shiftDigest';
+import { registerShiftDigests } from '../jobs/shiftDigestSchedule';
 
 // The worker is the app's composition root for analyses: it wires the tolerance alerts (app/_lib) in.
 const boss = await startAnalysisWorker({
@@ -11,6 +13,11 @@ const boss = await startAnalysisWorker({
     if (o.state === 'done') console.log(`[fringelog] worker: analysis ${o.analysisId} done (${o.layers} layers, ${o.warnings} warnings, try ${o.attempt})`);
     if (o.state === 'failed') console.log(`[fringelog] worker: analysis ${o.analysisId} failed: ${o.error}`);
   },
+});
+// The shift digests ride on the same pg-boss: each worker registers the schedules (an upsert).
+await registerShiftDigests(boss, async (window) => {
+  const mailed = await sendShiftDigest(window);
+  console.log(`[fringelog] worker: ${window.shift} shift digest ${window.from.toISOString()}: ${mailed.length} mailed`);
 });
 console.log(`[fringelog] analysis worker ${process.pid} waiting for jobs`);
 

@@ -4,11 +4,13 @@ import { db, type Executor } from '../client';
 import { alertPreferences, users, type AlertPreferences, type Role } from '../schema';
 import { layerFigures, layerLimits } from './compare';
 
-export type AlertKind = 'outOfTolerance' | 'controlRules';
+export type AlertKind = 'outOfTolerance' | 'controlRules' | 'shiftDigest';
+
+const column = { outOfTolerance: alertPreferences.outOfTolerance, controlRules: alertPreferences.controlRules, shiftDigest: alertPreferences.shiftDigest } as const;
 
 export async function findAlertPreferences(userId: number, ex: Executor = db()): Promise<Pick<AlertPreferences, AlertKind>> {
   const [row] = await ex.select().from(alertPreferences).where(eq(alertPreferences.userId, userId));
-  return { outOfTolerance: row?.outOfTolerance ?? false, controlRules: row?.controlRules ?? false };
+  return { outOfTolerance: row?.outOfTolerance ?? false, controlRules: row?.controlRules ?? false, shiftDigest: row?.shiftDigest ?? false };
 }
 
 export async function saveAlertPreferences(userId: number, prefs: Pick<AlertPreferences, AlertKind>, ex: Executor = db()): Promise<void> {
@@ -25,7 +27,7 @@ export async function alertRecipients(kind: AlertKind, roles: Role[], ex: Execut
     .select({ id: users.id, name: users.name, email: users.email })
     .from(users)
     .innerJoin(alertPreferences, eq(alertPreferences.userId, users.id))
-    .where(and(eq(users.status, 'active'), inArray(users.role, roles), eq(kind === 'outOfTolerance' ? alertPreferences.outOfTolerance : alertPreferences.controlRules, true)))
+    .where(and(eq(users.status, 'active'), inArray(users.role, roles), eq(column[kind], true)))
     .orderBy(users.id);
 }
 

@@ -1,0 +1,1 @@
+ALTER TABLE "alert_preferences" ADD COLUMN "shift_digest" boolean DEFAULT false NOT NULL;
