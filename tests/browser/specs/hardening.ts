@@ -74,7 +74,10 @@ async function fontsAndHydration(page: Page, what: string): Promise<void> {
     return [...document.fonts].filter((f) => f.status === 'loaded').map((f) => f.family);
   });
   assert(loaded.length > 0, `${what}: the shipped fonts load (${loaded.join(', ')})`);
-  const hydrated = await page.evaluate(() => Object.keys(document.querySelector('main') ?? {}).some((k) => k.startsWith('__react')));
+  // Hydration finishes after the load event on a busy machine: wait for it (up to 10 s), don't sample once.
+  const hydrated = await page
+    .waitForFunction(() => Object.keys(document.querySelector('main') ?? {}).some((k) => k.startsWith('__react')), null, { timeout: 10_000 })
+    .then(() => true, () => false);
   assert(hydrated, `${what}: React hydrated the page`);
 }
 
