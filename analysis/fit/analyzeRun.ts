@@ -165,7 +165,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const binned = binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
       return {
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: durationS + (built.extraS ?? 0),
-        extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? (process.env.DBG_NODRIFT ? false : qwotAtMonitor >= 0.5), weight: built.state?.weight ?? 1,
+        extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
         heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
       };
     };
@@ -192,11 +192,11 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
     }, { robust: o.robustLoss });
     let single = fitSingle(sv.index, sv.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : sv.gain));
-    const separation = thin ? indexSeparation(single, o.heldIndexSigma, o.heldIndexCorrelation) : null;
-    if (process.env.DBG_THIN) console.error(`L${dl.layer} q=${qwotAtMonitor.toFixed(2)} sv n=${sv.index.toFixed(4)} r=${sv.rateNmPerS.toFixed(4)} trial n=${single.layers[0].index.toFixed(4)}±${single.layers[0].indexSigma.toFixed(4)} d=${single.layers[0].thicknessNm.toFixed(2)}±${single.layers[0].thicknessSigmaNm.toFixed(2)} g=${single.layers[0].gain.toFixed(5)} rho=${separation?.correlation.toFixed(4)} hold=${separation?.hold}`);
+    // Held also when the data tell the index less well than the run's other layers of the material do.
+    const drift = thin && o.heldIndex === 'run-drift' ? driftEstimateAt(states.map(toIndexPoint), dl.material, samples.startTimeS) : null;
+    const separation = thin ? indexSeparation(single, Math.min(o.heldIndexSigma, drift?.sigma ?? NOMINAL_INDEX_SIGMA), o.heldIndexCorrelation) : null;
     if (separation?.hold) {
-      const drift = o.heldIndex === 'run-drift' ? driftEstimateAt(states.map(toIndexPoint), dl.material, samples.startTimeS) : null;
-      heldIndex = nominal.re + (drift?.deviation ?? 0) + Number(process.env.DBG_HELD ?? 0);
+      heldIndex = nominal.re + (drift?.deviation ?? 0);
       heldSigma = drift?.sigma ?? NOMINAL_INDEX_SIGMA;
       heldNote = heldNoteFor(heldIndex, nominal.re, drift?.from ?? 0, qwotAtMonitor, wl, false, separation.reason);
       fit.heldIndex = refit.heldIndex = heldIndex;
