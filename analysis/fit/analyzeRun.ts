@@ -193,12 +193,12 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }, { robust: o.robustLoss });
     let single = fitSingle(sv.index, sv.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : sv.gain));
     // Held also when the data tell the index less well than the run's other layers of the material do.
-    const drift = thin && o.heldIndex === 'run-drift' ? driftEstimateAt(states.map(toIndexPoint), dl.material, samples.startTimeS) : null;
-    const separation = thin ? indexSeparation(single, Math.min(o.heldIndexSigma, drift?.sigma ?? NOMINAL_INDEX_SIGMA), o.heldIndexCorrelation) : null;
+    const indexPrior = thin && o.heldIndex === 'run-drift' ? driftEstimateAt(states.map(toIndexPoint), dl.material, samples.startTimeS) : null;
+    const separation = thin ? indexSeparation(single, Math.min(o.heldIndexSigma, indexPrior?.sigma ?? NOMINAL_INDEX_SIGMA), o.heldIndexCorrelation) : null;
     if (separation?.hold) {
-      heldIndex = nominal.re + (drift?.deviation ?? 0);
-      heldSigma = drift?.sigma ?? NOMINAL_INDEX_SIGMA;
-      heldNote = heldNoteFor(heldIndex, nominal.re, drift?.from ?? 0, qwotAtMonitor, wl, false, separation.reason);
+      heldIndex = nominal.re + (indexPrior?.deviation ?? 0);
+      heldSigma = indexPrior?.sigma ?? NOMINAL_INDEX_SIGMA;
+      heldNote = heldNoteFor(heldIndex, nominal.re, indexPrior?.from ?? 0, qwotAtMonitor, wl, false, separation.reason);
       fit.heldIndex = refit.heldIndex = heldIndex;
       fit.fitDrift = refit.fitDrift = false;
       const e = single.layers[0];

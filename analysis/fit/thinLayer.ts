@@ -15,8 +15,9 @@ export interface IndexSeparation {
  * Whether a thin layer's index can be fitted, judged from a free trial fit of that layer alone:
  * held when index and end thickness correlate beyond `maxCorrelation` in the trial fit (the
  * data then see only their product, the optical thickness; common practice: a parameter pair
- * with |ρ| → 1 is not separately determined), when the index σ exceeds `maxIndexSigma`, or when
- * the normal matrix is singular. The trial's σ is that of one layer on the stack as estimated so
+ * with |ρ| → 1 is not separately determined), when the index σ exceeds `maxIndexSigma` (the caller
+ * passes what the run's other layers of the material already tell, so a held value is the better
+ * estimate), or when the normal matrix is singular. The trial's σ is that of one layer on the stack as estimated so
  * far, so the correlation, which does not depend on the noise level, decides first.
  */
 export function indexSeparation(trial: JointFitResult, maxIndexSigma: number, maxCorrelation: number): IndexSeparation {
