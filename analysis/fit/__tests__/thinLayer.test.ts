@@ -4,8 +4,8 @@ import { chamberCsvChunks, simulateChamberRun } from '@/tests/chamber';
 import { bbarDesign } from '@/tests/chamber/scenarios';
 import { readTrace } from '../../trace';
 import { analyzeRun } from '..';
-import { type LayerEstimate } from '../fitLayers';
-import { addHeldIndexSigma, heldIndexShift } from '../thinLayer';
+import { type JointFitResult, type LayerEstimate } from '../fitLayers';
+import { addHeldIndexSigma, heldIndexShift, indexSeparation } from '../thinLayer';
 
 const estimate = (index: number, thicknessNm: number, sigma = { n: 0, d: 0, nd: 0 }): LayerEstimate => ({
   index, rateNmPerS: 0.25, rateDriftNmPerS2: 0, gain: 1, indexSigma: sigma.n, rateSigma: 0, rateDriftSigma: 0, gainSigma: 0,
@@ -30,6 +30,35 @@ describe('a held index carried into the σ', () => {
     expect(extra[1]).toBeCloseTo(-15 * 4e-4, 15);
     expect(extra[2]).toBe(extra[1]);
     expect(extra[3]).toBeCloseTo(225 * 4e-4, 15);
+  });
+});
+
+/** A trial fit of one layer, parameters [n, r, g], with σn, σr and their correlation ρ; d = r·T. */
+function trial(sigmaN: number, rho: number, wellDetermined = true): JointFitResult {
+  const sigmaR = 0.001, T = 60, r = 0.25;
+  const cov = new Float64Array([sigmaN ** 2, rho * sigmaN * sigmaR, 0, rho * sigmaN * sigmaR, sigmaR ** 2, 0, 0, 0, 1e-8]);
+  const layer = { ...estimate(2.1, r * T, { n: sigmaN, d: T * sigmaR, nd: 0 }), rateNmPerS: r };
+  return {
+    layers: [layer], sharedGain: null,
+    solver: {
+      params: new Float64Array([2.1, r, 1]), sigma: new Float64Array(3), covariance: cov, ssr: 0, dof: 100, residualRms: 0, iterations: 5,
+      converged: true, reason: 'cost', wellDetermined, residuals: new Float64Array(0), weights: null,
+    },
+  };
+}
+
+describe("whether a thin layer's index is held", () => {
+  it('reads the index–thickness correlation of the trial fit: cov(n, d) = T·cov(n, r)', () => {
+    expect(indexSeparation(trial(0.01, 0.5), 0.02, 0.99).correlation).toBeCloseTo(0.5, 12);
+    expect(indexSeparation(trial(0.01, -0.995), 0.02, 0.99).correlation).toBeCloseTo(-0.995, 12);
+  });
+
+  it('holds beyond the correlation limit, above the σ limit (what the run already knows), or when singular', () => {
+    expect(indexSeparation(trial(0.01, 0.5), 0.02, 0.99).hold).toBe(false);
+    expect(indexSeparation(trial(0.01, -0.995), 0.02, 0.99).hold).toBe(true);
+    // Well separated (ρ = 0.5) but told only to ±0.01, worse than the ±0.006 the other layers give.
+    expect(indexSeparation(trial(0.01, 0.5), 0.006, 0.99).hold).toBe(true);
+    expect(indexSeparation(trial(0.01, 0.5, false), 0.02, 0.99).hold).toBe(true);
   });
 });
 
