@@ -17,7 +17,8 @@ import { runSummary } from './runSummary';
 import { refineInferredSegments } from './refineSegments';
 import { carryStackUncertainty, emptyStack, type StackCovariance } from './stackUncertainty';
 import { startValues } from './startValues';
-import { applyHeldIndexSigma, indexSeparation } from './thinLayer';
+import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
+import { indexSeparation } from './thinLayer';
 import { binMeans } from './subsample';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
@@ -191,12 +192,13 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
     }, { robust: o.robustLoss });
     let single = fitSingle(sv.index, sv.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : sv.gain));
-    const separation = thin ? indexSeparation(single, o.heldIndexSigma, o.heldIndexCorrelation) : null;
+    // Held also when the data tell the index less well than the run's other layers of the material do.
+    const indexPrior = thin && o.heldIndex === 'run-drift' ? driftEstimateAt(states.map(toIndexPoint), dl.material, samples.startTimeS) : null;
+    const separation = thin ? indexSeparation(single, Math.min(o.heldIndexSigma, indexPrior?.sigma ?? NOMINAL_INDEX_SIGMA), o.heldIndexCorrelation) : null;
     if (separation?.hold) {
-      const drift = o.heldIndex === 'run-drift' ? driftEstimateAt(states.map(toIndexPoint), dl.material, samples.startTimeS) : null;
-      heldIndex = nominal.re + (drift?.deviation ?? 0);
-      heldSigma = drift?.sigma ?? NOMINAL_INDEX_SIGMA;
-      heldNote = heldNoteFor(heldIndex, nominal.re, drift?.from ?? 0, qwotAtMonitor, wl, false, separation.reason);
+      heldIndex = nominal.re + (indexPrior?.deviation ?? 0);
+      heldSigma = indexPrior?.sigma ?? NOMINAL_INDEX_SIGMA;
+      heldNote = heldNoteFor(heldIndex, nominal.re, indexPrior?.from ?? 0, qwotAtMonitor, wl, false, separation.reason);
       fit.heldIndex = refit.heldIndex = heldIndex;
       fit.fitDrift = refit.fitDrift = false;
       const e = single.layers[0];
@@ -205,7 +207,8 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     if (o.mode === 'sequential') {
       // The stack below's uncertainty, carried into this layer's σ (refit fits them jointly instead).
       const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
-      stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, stacks.get(chip) ?? emptyStack(), c, heldSigma));
+      const held = heldIndex !== null ? { sigma: heldSigma, shift: shiftWithHeldIndex(fit, heldIndex, heldSigma, single.layers[0], fitSingle) } : null;
+      stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, stacks.get(chip) ?? emptyStack(), c, held));
     }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
     const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;
@@ -245,7 +248,10 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     for (const [chip, chipStates] of chipLayers) {
       const perLayer = Math.max(100, Math.min(o.maxFitPoints, Math.floor(o.refitFinalPoints / chipStates.length)));
       const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
-      const shared = refitChip(chipStates.map((p) => p.make(perLayer)), chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
+      const data = chipStates.map((p) => p.make(perLayer));
+      const shared = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
+      // A held index's own σ, into every layer of the chip (the joint fit took the index as exact).
+      heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
       if (shared) {
         cal.refinedGain = shared.gain;
@@ -256,8 +262,6 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
         }
       }
     }
-    // A held index's own σ, into its layer's figures (the joint fit took the index as exact).
-    for (const s of states) if (s.fit.heldIndex !== null) applyHeldIndexSigma(s.estimate, s.heldIndexSigma ?? NOMINAL_INDEX_SIGMA);
   }
 
   const belowOf = (s: LayerState) => {

@@ -1,7 +1,7 @@
 import { type LayerAt } from '../optics';
 import { type LayerEstimate } from './fitLayers';
 import { invertSymmetric } from './invertSymmetric';
-import { applyHeldIndexSigma } from './thinLayer';
+import { addHeldIndexSigma, type HeldIndexShift } from './thinLayer';
 import { evaluateLayers, jacobianLayers, paramLayout, type FitLayerData } from './layerModel';
 
 /**
@@ -22,11 +22,12 @@ export const emptyStack = (): StackCovariance => ({ size: 0, cov: new Float64Arr
  * least-squares estimate; e.g. Y. Bard, "Nonlinear Parameter Estimation", Academic Press (1974),
  * §7-2, from memory). The layer's (n, d) = G·θ then has covariance G·Cθ·Gᵀ + G·S·Σs·Sᵀ·Gᵀ and
  * cross-covariance G·S·Σs with the stack. Updates the estimate's σ in place and returns the
- * stack covariance with the layer appended. `gainPriorWeight` is the prior's c (see fitLayers).
+ * stack covariance with the layer appended. `gainPriorWeight` is the prior's c (see fitLayers);
+ * `held`, a held index's σ and how the layer's estimates move with it (see heldIndexShift).
  */
 export function carryStackUncertainty(
   below: readonly LayerAt[], layer: FitLayerData, estimate: LayerEstimate, params: Float64Array, paramCov: Float64Array,
-  offsetSignal: number, stack: StackCovariance, gainPriorWeight = 0, heldIndexSigma = 0,
+  offsetSignal: number, stack: StackCovariance, gainPriorWeight = 0, held: { sigma: number; shift: HeldIndexShift } | null = null,
 ): StackCovariance {
   const layout = paramLayout([layer]);
   const np = layout.count;
@@ -104,8 +105,8 @@ export function carryStackUncertainty(
   estimate.thicknessSigmaNm = Math.sqrt(Math.max(0, varD));
   const nn = estimate.index, d = estimate.thicknessNm;
   estimate.opticalThicknessSigmaNm = Math.sqrt(Math.max(0, nn * nn * varD + d * d * varN + 2 * nn * d * covND));
-  if (layer.heldIndex !== null && heldIndexSigma > 0) {
-    const extra = applyHeldIndexSigma(estimate, heldIndexSigma);
+  if (layer.heldIndex !== null && held && held.sigma > 0) {
+    const extra = addHeldIndexSigma(estimate, held.sigma, held.shift);
     ownCov = ownCov.map((v, i) => v + extra[i]);
   }
   // The stack grows by the layer's (n, d).

@@ -15,8 +15,9 @@ export interface IndexSeparation {
  * Whether a thin layer's index can be fitted, judged from a free trial fit of that layer alone:
  * held when index and end thickness correlate beyond `maxCorrelation` in the trial fit (the
  * data then see only their product, the optical thickness; common practice: a parameter pair
- * with |ρ| → 1 is not separately determined), when the index σ exceeds `maxIndexSigma`, or when
- * the normal matrix is singular. The trial's σ is that of one layer on the stack as estimated so
+ * with |ρ| → 1 is not separately determined), when the index σ exceeds `maxIndexSigma` (the caller
+ * passes what the run's other layers of the material already tell, so a held value is the better
+ * estimate), or when the normal matrix is singular. The trial's σ is that of one layer on the stack as estimated so
  * far, so the correlation, which does not depend on the noise level, decides first.
  */
 export function indexSeparation(trial: JointFitResult, maxIndexSigma: number, maxCorrelation: number): IndexSeparation {
@@ -35,16 +36,38 @@ export function indexSeparation(trial: JointFitResult, maxIndexSigma: number, ma
   return { hold, indexSigma: sigma, correlation, reason };
 }
 
+/** How a layer's estimates move per unit change of a held index (its own or one below it). */
+export interface HeldIndexShift {
+  index: number;
+  thicknessNm: number;
+  opticalNm: number;
+}
+
 /**
- * A held index's own uncertainty σh carried into the layer's figures: the data fix the optical
- * thickness n·d, so an index off by δn moves the thickness by −(d/n)·δn. Returns the extra
- * covariance of (n, d) and updates the estimate's index and thickness σ in place (the optical
- * thickness σ stays).
+ * The shift of a layer's estimates per unit of a held index, by a secant over one σ of that index:
+ * the fit repeated with the index moved by `step`. Not n·d held constant: for a layer well under a
+ * quarter-wave the signal's swing depends on the index itself (the Fresnel coefficients), so the
+ * data fix neither d nor n·d alone (in a 0.22-QWOT Ta2O5 layer, n·d moves by about 1.1 % per 0.01
+ * of index).
  */
-export function applyHeldIndexSigma(e: LayerEstimate, sigmaHeld: number): [number, number, number, number] {
-  const k = -e.thicknessNm / e.index;
+export function heldIndexShift(base: LayerEstimate, moved: LayerEstimate, step: number): HeldIndexShift {
+  return {
+    index: (moved.index - base.index) / step,
+    thicknessNm: (moved.thicknessNm - base.thicknessNm) / step,
+    opticalNm: (moved.opticalThicknessNm - base.opticalThicknessNm) / step,
+  };
+}
+
+/**
+ * A held index's σh carried into a layer's figures (the held layer's own, shift.index = 1, or a
+ * layer fitted with it): to first order each estimate moves by shift·δn, so σ² gains (shift·σh)².
+ * Updates the estimate's σ in place and returns the extra covariance of (n, d), row-major.
+ */
+export function addHeldIndexSigma(e: LayerEstimate, sigmaHeld: number, shift: HeldIndexShift): [number, number, number, number] {
   const v = sigmaHeld * sigmaHeld;
-  e.indexSigma = sigmaHeld;
-  e.thicknessSigmaNm = Math.sqrt(e.thicknessSigmaNm ** 2 + k * k * v);
-  return [v, k * v, k * v, k * k * v];
+  e.indexSigma = Math.sqrt(e.indexSigma ** 2 + shift.index ** 2 * v);
+  e.thicknessSigmaNm = Math.sqrt(e.thicknessSigmaNm ** 2 + shift.thicknessNm ** 2 * v);
+  e.opticalThicknessSigmaNm = Math.sqrt(e.opticalThicknessSigmaNm ** 2 + shift.opticalNm ** 2 * v);
+  const nd = shift.index * shift.thicknessNm * v;
+  return [shift.index ** 2 * v, nd, nd, shift.thicknessNm ** 2 * v];
 }

@@ -58,28 +58,35 @@ export const NOMINAL_INDEX_SIGMA = 0.02;
 
 /**
  * This run's estimate of a material's index deviation at a time, from its fitted layers so far:
- * the linear trend in time from three or more layers, their mean from one or two, null from none.
- * σ is that of a new layer's index there: the trend's prediction σ, s²·(1 + 1/n + (t − t̄)²/Sxx)
- * (N. R. Draper, H. Smith, Applied Regression Analysis, ch. 1, the prediction of a new
- * observation), at least the layers' own σ and INDEX_SCATTER_FLOOR.
+ * the linear trend in time from three or more layers, their mean from one or two, null from none;
+ * each layer weighted by 1/(σᵢ² + s₀²), its own σ and the layer-to-layer scatter s₀ =
+ * INDEX_SCATTER_FLOOR, so a layer whose index the data barely tell (a thin one, or one on a
+ * poorly known stack) does not pull the estimate (weighted least squares: N. R. Draper, H. Smith,
+ * Applied Regression Analysis, ch. 9, from memory). σ is that of a new layer's index there:
+ * f·(1/Σw + (t − t̄)²/Sxx + s₀²), the weighted prediction of a new observation (ch. 1 for equal
+ * weights), with t̄ and Sxx weighted and f = max(1, χ²/ν) when the layers scatter more than
+ * their σ say.
  */
 export function driftEstimateAt(points: readonly IndexPoint[], material: string, timeS: number): { deviation: number; sigma: number; from: number } | null {
   const list = points.filter((p) => p.material === material && !p.indexHeld && Number.isFinite(p.indexDeviation));
   if (list.length === 0) return null;
   const n = list.length;
-  const ownVar = list.reduce((a, p) => a + (Number.isFinite(p.indexSigma) ? p.indexSigma ** 2 : 0), 0) / n;
-  const floor = Math.max(ownVar, INDEX_SCATTER_FLOOR ** 2);
-  if (n < 3) {
-    const mean = list.reduce((a, p) => a + p.indexDeviation, 0) / n;
-    const spread = list.reduce((a, p) => a + (p.indexDeviation - mean) ** 2, 0);
-    return { deviation: mean, sigma: Math.sqrt(Math.max(floor, spread) * (1 + 1 / n)), from: n };
-  }
+  const s0 = INDEX_SCATTER_FLOOR ** 2;
+  const w = list.map((p) => 1 / ((Number.isFinite(p.indexSigma) ? p.indexSigma ** 2 : 0) + s0));
   const x = list.map((p) => p.timeS / 3600);
-  const t = linearTrend(x, list.map((p) => p.indexDeviation));
+  const y = list.map((p) => p.indexDeviation);
+  const sw = w.reduce((a, b) => a + b, 0);
+  const mx = w.reduce((a, wi, i) => a + wi * x[i], 0) / sw;
+  const my = w.reduce((a, wi, i) => a + wi * y[i], 0) / sw;
+  const sxx = w.reduce((a, wi, i) => a + wi * (x[i] - mx) ** 2, 0);
+  // A line from three or more layers spread in time; else their mean.
+  const line = n >= 3 && sxx > 0;
+  const slope = line ? w.reduce((a, wi, i) => a + wi * (x[i] - mx) * (y[i] - my), 0) / sxx : 0;
   const x0 = timeS / 3600;
-  const mx = x.reduce((a, b) => a + b, 0) / n;
-  const sxx = x.reduce((a, b) => a + (b - mx) ** 2, 0);
-  const s2 = Math.max((t.residualRms ** 2 * n) / (n - 2), floor);
-  const lever = sxx > 0 ? (x0 - mx) ** 2 / sxx : 0;
-  return { deviation: t.intercept + t.slope * x0, sigma: Math.sqrt(s2 * (1 + 1 / n + lever)), from: n };
+  let chi2 = 0;
+  for (let i = 0; i < n; i++) chi2 += w[i] * (y[i] - my - slope * (x[i] - mx)) ** 2;
+  const dof = n - (line ? 2 : 1);
+  const f = dof > 0 ? Math.max(1, chi2 / dof) : 1;
+  const lever = line ? (x0 - mx) ** 2 / sxx : 0;
+  return { deviation: my + slope * (x0 - mx), sigma: Math.sqrt(f * (1 / sw + lever + s0)), from: n };
 }

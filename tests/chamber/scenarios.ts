@@ -102,8 +102,8 @@ export function scenarios(): Scenario[] {
       name: 'white noise, BBAR level cuts', about: 'four-layer AR cut on level, white noise 0.1 %',
       design: bbarDesign(), seeds: [11, 12], targets: WHITE_TARGETS, options: { ...RATES, whiteNoise: 0.001, indexOffset: { H: -0.01 } },
       modes: {
-        sequential: pending('issue 7 items 4 and 7: thin layers pile up their errors (1.6 % optical) and held-index σ omit the index (|z| up to 7)'),
-        refit: pending('issue 7 items 4 and 7: held-index thin layers report σ without the index uncertainty (|z| up to 7); layer 4 at 0.34 % (2σ)'),
+        sequential: pending('3σ coverage met (100 %); layer 1 (0.22 QWOT) held at the nominal with the film 0.01 below it (nothing earlier in the run tells) is 1.5 % off in optical thickness, and the stack below carries up: layer 3 0.90 % (1.9σ), layer 4 index 0.012 (1.8σ), cut 1.25 % QWOT'),
+        refit: pending('3σ coverage met (100 %), thin layers within 0.8 % optical; layer 4 (1.03 QWOT, last on the chip, cut on level just past its turning point) 0.37 % (1.6σ): its end rests on the fitted rate drift (0.15 % without it)'),
       },
     },
     {
@@ -163,7 +163,10 @@ export function scenarios(): Scenario[] {
       name: 'thin level-cut layers (R)', about: '0.25–0.4 QWOT layers cut on level in reflectance, correlated noise',
       design: thinLevelDesign(), seeds: [71, 72], targets: CHAMBER_TARGETS,
       options: { ...RATES, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, levelLatencyS: [0.1, 0.3] },
-      modes: both(pending('issue 7 item 7: hold the index from the index–thickness correlation; thin level cuts 1–3 % off')),
+      modes: {
+        sequential: pending('3σ coverage met (100 %); in R a thin stack below amplifies its errors tenfold: layer 3 (1.2 QWOT) 5 % with σ 3.5 %, layer 4 (0.25 QWOT) 6 % optical; the information is not in the layer\'s own data'),
+        refit: pending('3σ coverage met (100 %), thin layers within 1.4 % optical; layer 5 (0.8 QWOT) 1.4 % (σ 1.4 %) and index 0.010: it moves 100 nm per unit of the held index of the 0.25-QWOT layer below (σ 0.0064, the L layers\' scatter floor); layer 3 cut 0.81 % QWOT (1.4σ)'),
+      },
     },
   ];
 }
