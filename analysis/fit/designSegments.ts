@@ -1,0 +1,215 @@
+import { type Design } from '../design';
+import { flatStretches, type FlatStretch, type Segment, type TraceData } from '../trace';
+import { expectedLevels } from './expectedLevels';
+import { type BoundaryWindow } from './placeBoundaries';
+
+export interface DesignSegmentOptions {
+  /** Level mismatch that costs one unit, as a fraction of the detector's full scale. @default 0.02 */
+  levelTolerance?: number;
+  /** Flat stretches closer than this may together make one pause (e.g. fragments around a turning-point cut), s. @default 20 */
+  spanGapS?: number;
+  /** Cost of a flat stretch inside a layer beyond the layer's expected inner turning points. @default 6 */
+  extraFlatCost?: number;
+  /** Cost of a design layer left without a segment. @default 40 */
+  skipCost?: number;
+}
+
+export interface DesignSegmentation {
+  /** One segment per design layer found, numbered by design layer, in time order. */
+  layers: Segment[];
+  idle: Segment[];
+  warnings: string[];
+  /** Design layers the trace shows no segment for. */
+  missing: number[];
+  /** Per layer segment: from the start of the pause before it to the end of the pause after it (fit/placeBoundaries searches there). */
+  windows: BoundaryWindow[];
+}
+
+/** A pause between layers: one flat stretch, or several close ones read together. */
+interface Pause { first: number; last: number; extra: number }
+
+const CAP = 9;
+
+/**
+ * Segments a trace without a layer column from the design. Candidate pauses are the trace's flat
+ * stretches (trace/flatStretches); the design says how many layers there are and what the monitor
+ * shows at each layer's start and end and at its inner turning points (fit/expectedLevels). A
+ * dynamic programme picks, for layers 1…L in order, the pause before and after each so that the
+ * levels at the pauses match the design (one unknown detector gain, re-estimated once from the
+ * match), flat stretches inside a layer are explained by its turning points, and the chip column
+ * (when there is one) agrees with the design's chip. A flat stretch at an extreme right after a
+ * turning-point cut is thereby a pause when the levels say so, and a layer's own slow stretch near
+ * an inner turning point is not. A layer the trace does not show can be skipped at a cost; it is
+ * returned in `missing` (the caller fails the run naming it). The boundaries are coarse (the
+ * edges of flat stretches); fit/refineSegments places them on the model.
+ */
+export function segmentByDesign(trace: TraceData, design: Design, options: DesignSegmentOptions = {}): DesignSegmentation {
+  const n = trace.rowCount;
+  const t = trace.timeS, y = trace.signal;
+  const expected = expectedLevels(design);
+  const L = expected.length;
+  const flats = flatStretches(t, y);
+  // virtual zero-length pauses at both ends: a run may start or end while a layer grows
+  const edge = (from: number, to: number) => median(y, Math.max(0, from), Math.min(n, to));
+  const k2 = Math.max(1, Math.round(2 / Math.max((t[n - 1] - t[0]) / Math.max(n - 1, 1), 1e-9)));
+  const cands: FlatStretch[] = [
+    { startIndex: 0, endIndex: 0, startLevel: edge(0, k2), endLevel: edge(0, k2) },
+    ...flats.filter((f) => f.startIndex > 0 && f.endIndex < n),
+    { startIndex: n, endIndex: n, startLevel: edge(n - k2, n), endLevel: edge(n - k2, n) },
+  ];
+  // a flat stretch touching the trace's start or end replaces the virtual one there
+  if (flats.length && flats[0].startIndex === 0) cands[0] = flats[0];
+  if (flats.length && flats[flats.length - 1].endIndex === n) cands[cands.length - 1] = flats[flats.length - 1];
+  const m = cands.length;
+  const spanGap = options.spanGapS ?? 20;
+  const pauses: Pause[] = [];
+  for (let i = 0; i < m; i++) {
+    for (let j = i; j < m; j++) {
+      if (j > i && t[Math.min(cands[j].startIndex, n - 1)] - t[Math.max(cands[j - 1].endIndex - 1, 0)] > spanGap) break;
+      pauses.push({ first: i, last: j, extra: j - i });
+    }
+  }
+  const top = quantile(y, 0.99);
+  const stepTol = 0.01 * top;
+  const gain0 = top / Math.max(...expected.map((e) => e.maxLevel), 1e-6);
+  let best = solve(gain0);
+  const refit = best.gainFit;
+  if (refit && Math.abs(refit / gain0 - 1) > 1e-3) {
+    const second = solve(refit);
+    if (second.cost < best.cost) best = second;
+  }
+
+  const layers: Segment[] = [];
+  const windows: BoundaryWindow[] = [];
+  const missing: number[] = [];
+  for (let k = 1; k <= L; k++) {
+    const bound = best.bounds[k];
+    if (!bound) {
+      missing.push(k);
+      continue;
+    }
+    const [p, q] = bound;
+    const startIndex = cands[pauses[p].last].endIndex, endIndex = cands[pauses[q].first].startIndex;
+    layers.push({
+      layer: k, chip: trace.chip ? trace.chip[startIndex] : expected[k - 1].chip, startIndex, endIndex,
+      startTimeS: t[startIndex], endTimeS: t[endIndex - 1], sampleCount: endIndex - startIndex, run: 1,
+    });
+    // the search reaches over the neighbouring flat stretches at the layer's own start and end level (not across a chip change's steps)
+    let a = pauses[p].last, b = pauses[q].first;
+    const near = (i: number, j: number) => t[Math.min(cands[j].startIndex, n - 1)] - t[Math.max(cands[i].endIndex - 1, 0)] <= spanGap;
+    while (a > 0 && near(a - 1, a) && Math.abs(cands[a - 1].endLevel - cands[a].startLevel) < stepTol) a--;
+    while (b < m - 1 && near(b, b + 1) && Math.abs(cands[b + 1].startLevel - cands[b].endLevel) < stepTol) b++;
+    windows.push({ from: cands[a].startIndex, to: cands[b].endIndex });
+  }
+  const idle = idleBetween(trace, layers, (l) => expected[l - 1]?.chip ?? 1);
+  const warnings = [
+    `the trace has no layer column: ${layers.length} layer segment${layers.length === 1 ? '' : 's'} found from the design's monitor levels and the trace's flat stretches (pauses); check them against the design`,
+  ];
+  return { layers, idle, warnings, missing, windows };
+
+  function solve(gain: number): { cost: number; bounds: ([number, number] | undefined)[]; gainFit: number | null } {
+    const tol = (options.levelTolerance ?? 0.02) * gain;
+    const lc = (obs: number, exp: number) => Math.min(((obs - gain * exp) / tol) ** 2, CAP);
+    const extraCost = options.extraFlatCost ?? 6;
+    const skip = options.skipCost ?? 40;
+    const P = pauses.length;
+    // cost[k][q]: layers 1…k placed (or skipped), the last pause used is q
+    let prev = new Float64Array(P).fill(Infinity);
+    const from: Int32Array[] = [];
+    // b_0: the pause before layer 1; stretches before it are leading idle (free)
+    for (let q = 0; q < P; q++) prev[q] = lc(cands[pauses[q].last].endLevel, expected[0].startLevel) + 0.5 * pauses[q].extra;
+    for (let k = 1; k <= L; k++) {
+      const e = expected[k - 1];
+      const next = expected[k];
+      const cur = new Float64Array(P).fill(Infinity);
+      const arg = new Int32Array(P).fill(-1);
+      for (let q = 0; q < P; q++) {
+        // skipped layer: the same pause, at a cost (arg −2 − q marks the skip)
+        if (prev[q] + skip < cur[q]) {
+          cur[q] = prev[q] + skip;
+          arg[q] = -2 - q;
+        }
+      }
+      for (let p = 0; p < P; p++) {
+        if (!Number.isFinite(prev[p])) continue;
+        const a = pauses[p].last;
+        const s = cands[a].endIndex;
+        let inner = 0, innerCount = 0;
+        for (let q = 0; q < P; q++) {
+          const b = pauses[q].first;
+          if (b <= a) continue;
+          // flat stretches strictly between the two pauses lie inside the layer
+          if (b - a - 1 > innerCount) {
+            for (let c = a + 1 + innerCount; c < b; c++) {
+              const lvl = 0.5 * (cands[c].startLevel + cands[c].endLevel);
+              inner += e.turningPointLevels.length ? Math.min(...e.turningPointLevels.map((v) => lc(lvl, v))) : 0;
+              innerCount++;
+            }
+          }
+          if (innerCount > e.turningPointLevels.length + 6) break;
+          const end = cands[b].startIndex;
+          if (end - s < 20) continue;
+          let c = prev[p] + inner + extraCost * Math.max(0, innerCount - e.turningPointLevels.length);
+          c += lc(cands[b].startLevel, e.endLevel) + 0.5 * pauses[q].extra;
+          // the pause ends where the next layer starts: the same level, or the bare new chip
+          if (next) c += lc(cands[pauses[q].last].endLevel, next.startLevel);
+          if (trace.chip && trace.chip[(s + end) >> 1] !== e.chip) c += 4 * CAP;
+          if (c < cur[q]) {
+            cur[q] = c;
+            arg[q] = p;
+          }
+        }
+      }
+      from.push(arg);
+      prev = cur;
+    }
+    let q = 0;
+    for (let i = 1; i < P; i++) if (prev[i] < prev[q]) q = i;
+    const cost = prev[q];
+    const bounds: ([number, number] | undefined)[] = new Array(L + 1);
+    let sxy = 0, sxx = 0;
+    for (let k = L; k >= 1; k--) {
+      const a = from[k - 1][q];
+      if (a <= -2) continue; // skipped: the same pause carries on
+      bounds[k] = [a, q];
+      const e = expected[k - 1];
+      const lvl = cands[pauses[q].first].startLevel;
+      if (Math.abs(lvl - gain * e.endLevel) < 3 * tol) {
+        sxy += lvl * e.endLevel;
+        sxx += e.endLevel * e.endLevel;
+      }
+      q = a;
+    }
+    return { cost, bounds, gainFit: sxx > 0 ? sxy / sxx : null };
+  }
+}
+
+/** Idle segments: what lies between the layer segments, each with the chip of the layer after it (the bare-chip stretch belongs to the new chip). */
+function idleBetween(trace: TraceData, layers: readonly Segment[], chipOf: (layer: number) => number): Segment[] {
+  const out: Segment[] = [];
+  let from = 0;
+  const push = (a: number, b: number, chip: number) => {
+    if (b > a) out.push({ layer: 0, chip, startIndex: a, endIndex: b, startTimeS: trace.timeS[a], endTimeS: trace.timeS[b - 1], sampleCount: b - a, run: 1 });
+  };
+  for (const s of layers) {
+    push(from, s.startIndex, trace.chip ? trace.chip[from] : s.chip);
+    from = s.endIndex;
+  }
+  const last = layers[layers.length - 1];
+  push(from, trace.rowCount, trace.chip ? trace.chip[Math.min(from, trace.rowCount - 1)] : last ? last.chip : chipOf(1));
+  return out;
+}
+
+function median(y: ArrayLike<number>, from: number, to: number): number {
+  if (to <= from) return NaN;
+  const a = new Float64Array(to - from);
+  for (let i = from; i < to; i++) a[i - from] = y[i];
+  a.sort();
+  const h = a.length >> 1;
+  return a.length % 2 ? a[h] : 0.5 * (a[h - 1] + a[h]);
+}
+
+function quantile(y: ArrayLike<number>, q: number): number {
+  const a = Float64Array.from(y).sort();
+  return a[Math.floor(q * (a.length - 1))];
+}
