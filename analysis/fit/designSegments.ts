@@ -41,7 +41,7 @@ const CAP = 9;
  * turning-point cut is thereby a pause when the levels say so, and a layer's own slow stretch near
  * an inner turning point is not. A layer the trace does not show can be skipped at a cost; it is
  * returned in `missing` (the caller fails the run naming it). The boundaries are coarse (the
- * edges of flat stretches); fit/refineSegments places them on the model.
+ * edges of flat stretches); fit/placeBoundaries places them on the model.
  */
 export function segmentByDesign(trace: TraceData, design: Design, options: DesignSegmentOptions = {}): DesignSegmentation {
   const n = trace.rowCount;
@@ -82,6 +82,7 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
   const layers: Segment[] = [];
   const windows: BoundaryWindow[] = [];
   const missing: number[] = [];
+  const misfits: string[] = [];
   for (let k = 1; k <= L; k++) {
     const bound = best.bounds[k];
     if (!bound) {
@@ -100,14 +101,21 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
     while (a > 0 && near(a - 1, a) && Math.abs(cands[a - 1].endLevel - cands[a].startLevel) < stepTol) a--;
     while (b < m - 1 && near(b, b + 1) && Math.abs(cands[b + 1].startLevel - cands[b].endLevel) < stepTol) b++;
     windows.push({ from: cands[a].startIndex, to: cands[b].endIndex });
+    const seen = cands[pauses[q].first].startLevel, want = best.gain * expected[k - 1].endLevel;
+    if (Math.abs(seen - want) > 3 * (options.levelTolerance ?? 0.02) * best.gain) {
+      misfits.push(`layer ${k} (${design.layers[k - 1].material}) ends at ${(seen / best.gain * 100).toFixed(1)} % where the design expects ${(expected[k - 1].endLevel * 100).toFixed(1)} %`);
+    }
   }
   const idle = idleBetween(trace, layers, (l) => expected[l - 1]?.chip ?? 1);
   const warnings = [
     `the trace has no layer column: ${layers.length} layer segment${layers.length === 1 ? '' : 's'} found from the design's monitor levels and the trace's flat stretches (pauses); check them against the design`,
   ];
+  if (misfits.length) {
+    warnings.push(`the inferred segments may be wrong: ${misfits.slice(0, 5).join('; ')}${misfits.length > 5 ? `; and ${misfits.length - 5} more` : ''} (as a fraction of the detector gain found from the levels)`);
+  }
   return { layers, idle, warnings, missing, windows };
 
-  function solve(gain: number): { cost: number; bounds: ([number, number] | undefined)[]; gainFit: number | null } {
+  function solve(gain: number): { gain: number; cost: number; bounds: ([number, number] | undefined)[]; gainFit: number | null } {
     const tol = (options.levelTolerance ?? 0.02) * gain;
     const lc = (obs: number, exp: number) => Math.min(((obs - gain * exp) / tol) ** 2, CAP);
     const extraCost = options.extraFlatCost ?? 6;
@@ -180,7 +188,7 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
       }
       q = a;
     }
-    return { cost, bounds, gainFit: sxx > 0 ? sxy / sxx : null };
+    return { gain, cost, bounds, gainFit: sxx > 0 ? sxy / sxx : null };
   }
 }
 

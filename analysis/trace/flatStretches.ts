@@ -16,9 +16,9 @@ export interface FlatStretch {
 export interface FlatStretchOptions {
   /** Bin width for the slope estimate, s. @default 0.5 */
   binS?: number;
-  /** Slope windows tried, shortest first, s: the shortest whose noise stays well under the layers' slopes is used. @default [3, 6, 12, 24] */
+  /** Slope windows tried, shortest first, s: the shortest whose noise stays well under the layers' slopes is used. @default [1.5, 3, 6, 12, 24] */
   windowsS?: readonly number[];
-  /** Flat runs shorter than this are dropped, s. @default 1.5 */
+  /** Flat runs shorter than this are dropped, s. @default 1 */
   minS?: number;
   /** Flat runs separated by less than this are one stretch (a chip change: old level, dark, bare chip), s. @default 4 */
   mergeS?: number;
@@ -33,9 +33,9 @@ export interface FlatStretchOptions {
  * between layers. The slope comes from a Savitzky–Golay first derivative of bin means; its noise
  * from the spread of the difference to a three-times-longer window's slope (which holds the
  * trend), so correlated noise is measured as it is, not from white-noise assumptions. A sample
- * is flat where |slope| < max(3σ, 5 % of the 90th percentile of |slope|). The shortest window
- * whose 3σ stays under a quarter of that percentile is used: short pauses need short windows,
- * layers with small swings long ones. Which stretches are pauses, which turning points, is left
+ * is flat where |slope| < max(3σ, 5 % of the steepest slope within ±localS, level steps capped
+ * at twice the 90th percentile). At each sample the shortest window whose 3σ stays under a quarter
+ * of that local slope is used: short pauses need short windows, layers with small swings long ones. Which stretches are pauses, which turning points, is left
  * to the caller (it needs the design).
  */
 export function flatStretches(timeS: ArrayLike<number>, signal: ArrayLike<number>, options: FlatStretchOptions = {}): FlatStretch[] {
@@ -59,7 +59,7 @@ export function flatStretches(timeS: ArrayLike<number>, signal: ArrayLike<number
   };
   const flat = new Uint8Array(nb);
   const decided = new Uint8Array(nb);
-  const windows = options.windowsS ?? [3, 6, 12, 24];
+  const windows = options.windowsS ?? [1.5, 3, 6, 12, 24];
   windows.forEach((windowS, k) => {
     const w = oddBins(windowS);
     const short = savitzkyGolay(y, { window: w, order: 1, derivative: 1 });
@@ -69,7 +69,10 @@ export function flatStretches(timeS: ArrayLike<number>, signal: ArrayLike<number
     const m = median(diff);
     for (let b = 0; b < nb; b++) diff[b] = Math.abs(diff[b] - m);
     const sigma = 1.4826 * median(diff);
-    const local = slidingMax(long, Math.round((options.localS ?? 60) / binS));
+    // level steps (chip changes, dark) are not layers: their slope is capped at twice the 90th percentile
+    const sortedAbs = Float64Array.from(long, Math.abs).sort();
+    const cap = 2 * sortedAbs[Math.floor(0.9 * (nb - 1))];
+    const local = slidingMax(long.map((v) => Math.min(Math.abs(v), cap)), Math.round((options.localS ?? 60) / binS));
     for (let b = 0; b < nb; b++) {
       if (decided[b]) continue;
       // this window resolves the local slopes well enough, or it is the longest there is
@@ -97,7 +100,7 @@ export function flatStretches(timeS: ArrayLike<number>, signal: ArrayLike<number
   const edge = options.edgeS ?? 2;
   const out: FlatStretch[] = [];
   for (const [a, b] of runs) {
-    if ((b - a) * binS < (options.minS ?? 1.5)) continue;
+    if ((b - a) * binS < (options.minS ?? 1)) continue;
     const startIndex = a * per;
     const endIndex = b === nb ? n : b * per;
     const k = Math.max(1, Math.min(Math.round(edge / dt), Math.floor((endIndex - startIndex) / 2)));

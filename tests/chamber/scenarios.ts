@@ -144,6 +144,18 @@ export function scenarios(): Scenario[] {
       modes: both(pending('issue 7 item 5: segmentation from the design')),
     },
     {
+      name: 'no layer column, BBAR level cuts', about: 'four-layer AR cut on level, white noise 0.1 %, no layer column',
+      design: bbarDesign(), seeds: [33, 34], targets: NO_LAYER_TARGETS,
+      options: { ...RATES, whiteNoise: 0.001, indexOffset: { H: -0.01 }, columns: { layer: false } },
+      modes: both(pending('issue 7 item 5')),
+    },
+    {
+      name: 'no layer or chip column, 12 layers on 2 chips', about: '(HL)^6 on 2 chips, every chamber effect, neither layer nor chip column',
+      design: mirrorDesign(12, 6), seeds: [35, 36], targets: NO_LAYER_TARGETS,
+      options: { ...RATES, ...REAL_CHAMBER, columns: { layer: false, chip: false } },
+      modes: both(pending('issue 7 item 5')),
+    },
+    {
       name: '40 layers, 5 chips, no chip column', about: '(HL)^20 on 5 chips, every chamber effect, no chip column',
       design: mirrorDesign(40, 8), seeds: [41], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER, columns: { chip: false } },
       modes: both(pending('issue 7 item 2: chip changes from the design; the idle stretch read as old chip, dark, bare chip')),
