@@ -118,6 +118,8 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
   function solve(gain: number): { gain: number; cost: number; bounds: ([number, number] | undefined)[]; gainFit: number | null } {
     const tol = (options.levelTolerance ?? 0.02) * gain;
     const lc = (obs: number, exp: number) => Math.min(((obs - gain * exp) / tol) ** 2, CAP);
+    // a flat stretch may drift slowly (the approach to a turning point): either of its levels may be the cut's
+    const lvl = (f: FlatStretch, exp: number) => Math.min(lc(f.startLevel, exp), lc(f.endLevel, exp));
     const extraCost = options.extraFlatCost ?? 6;
     const skip = options.skipCost ?? 40;
     const P = pauses.length;
@@ -125,7 +127,7 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
     let prev = new Float64Array(P).fill(Infinity);
     const from: Int32Array[] = [];
     // b_0: the pause before layer 1; stretches before it are leading idle (free)
-    for (let q = 0; q < P; q++) prev[q] = lc(cands[pauses[q].last].endLevel, expected[0].startLevel) + 0.5 * pauses[q].extra;
+    for (let q = 0; q < P; q++) prev[q] = lvl(cands[pauses[q].last], expected[0].startLevel) + 0.5 * pauses[q].extra;
     for (let k = 1; k <= L; k++) {
       const e = expected[k - 1];
       const next = expected[k];
@@ -142,7 +144,7 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
         if (!Number.isFinite(prev[p])) continue;
         const a = pauses[p].last;
         const s = cands[a].endIndex;
-        let inner = 0, innerCount = 0;
+        let inner = 0, innerCount = 0, innerWeight = 0;
         for (let q = 0; q < P; q++) {
           const b = pauses[q].first;
           if (b <= a) continue;
@@ -152,15 +154,17 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
               const lvl = 0.5 * (cands[c].startLevel + cands[c].endLevel);
               inner += e.turningPointLevels.length ? Math.min(...e.turningPointLevels.map((v) => lc(lvl, v))) : 0;
               innerCount++;
+              // a short flat inside a layer (noise, a spike's shadow) weighs less than a pause-long one
+              innerWeight += Math.min(1, (t[cands[c].endIndex - 1] - t[cands[c].startIndex]) / 10);
             }
           }
           if (innerCount > e.turningPointLevels.length + 6) break;
           const end = cands[b].startIndex;
           if (end - s < 20) continue;
-          let c = prev[p] + inner + extraCost * Math.max(0, innerCount - e.turningPointLevels.length);
-          c += lc(cands[b].startLevel, e.endLevel) + 0.5 * pauses[q].extra;
+          let c = prev[p] + inner + extraCost * Math.max(0, innerWeight - e.turningPointLevels.length);
+          c += lvl(cands[b], e.endLevel) + 0.5 * pauses[q].extra;
           // the pause ends where the next layer starts: the same level, or the bare new chip
-          if (next) c += lc(cands[pauses[q].last].endLevel, next.startLevel);
+          if (next) c += lvl(cands[pauses[q].last], next.startLevel);
           if (trace.chip && trace.chip[(s + end) >> 1] !== e.chip) c += 4 * CAP;
           if (c < cur[q]) {
             cur[q] = c;
