@@ -10,6 +10,8 @@ export interface BoundaryWindow {
 export interface PlaceBoundaryOptions {
   /** Most samples per cost evaluation. @default 600 */
   maxPoints?: number;
+  /** Passes after the first with the windows clipped at the neighbours' boundaries. @default 2 */
+  passes?: number;
   /** Thickness range searched, as a fraction of the design thickness (±). @default 0.2 */
   thicknessRange?: number;
 }
@@ -27,8 +29,25 @@ export interface PlaceBoundaryOptions {
 export function placeBoundaries(
   trace: TraceData, design: Design, layers: readonly Segment[], windows: readonly BoundaryWindow[], options: PlaceBoundaryOptions = {},
 ): Segment[] {
+  let placed = placeOnce(trace, design, layers, windows, options);
+  // Further passes: each window ends where the neighbours now start and end, so the next layer's
+  // own slow start (or the last one's slow end) no longer pulls a boundary towards it.
+  for (let pass = 0; pass < (options.passes ?? 2); pass++) {
+    const prev = placed;
+    const clipped = windows.map((w, j) => ({
+      from: Math.max(w.from, j > 0 ? prev[j - 1].endIndex : w.from),
+      to: Math.min(w.to, j + 1 < prev.length ? prev[j + 1].startIndex : w.to),
+    }));
+    placed = placeOnce(trace, design, prev, clipped, options);
+  }
+  return placed;
+}
+
+function placeOnce(
+  trace: TraceData, design: Design, layers: readonly Segment[], windows: readonly BoundaryWindow[], options: PlaceBoundaryOptions,
+): Segment[] {
   const t = trace.timeS, y = trace.signal;
-  const maxPoints = options.maxPoints ?? 600;
+  const maxPoints = options.maxPoints ?? 3000;
   const range = options.thicknessRange ?? 0.2;
   const out: Segment[] = [];
   layers.forEach((seg, j) => {
