@@ -12,6 +12,8 @@ export interface PlaceBoundaryOptions {
   maxPoints?: number;
   /** Passes after the first with the windows clipped at the neighbours' boundaries. @default 2 */
   passes?: number;
+  /** Fit an offset as well as the gain (stray light; levels off the design's by more than a gain) where the layer swings the signal by ≥ 10 %. @default true */
+  affine?: boolean;
   /** Thickness range searched, as a fraction of the design thickness (±). @default 0.2 */
   thicknessRange?: number;
 }
@@ -49,6 +51,7 @@ function placeOnce(
   const t = trace.timeS, y = trace.signal;
   const maxPoints = options.maxPoints ?? 3000;
   const range = options.thicknessRange ?? 0.2;
+  const affine = options.affine ?? true;
   const out: Segment[] = [];
   layers.forEach((seg, j) => {
     const dl = design.layers[seg.layer - 1];
@@ -65,11 +68,15 @@ function placeOnce(
     const grid = new Float64Array(steps + 1);
     for (let i = 0; i <= steps; i++) grid[i] = (top * i) / steps;
     const table = monitorCurve(design, dl.layer, grid, { pol: 's' });
+    // an offset is told apart from the gain only where the layer swings the signal well (≥ 10 %: a threshold chosen here, not from a source)
+    let lo = Infinity, hi = -Infinity;
+    for (let i = 0; i <= steps / (1 + range) / 1.05; i++) [lo, hi] = [Math.min(lo, table[i]), Math.max(hi, table[i])];
+    const withOffset = affine && hi - lo >= 0.1 * hi;
     const stride = Math.max(1, Math.ceil((w.to - w.from) / maxPoints));
     const idx: number[] = [];
     for (let i = w.from; i < w.to; i += stride) idx.push(i);
     const cost = (ts: number, te: number, D: number): number => {
-      let sym = 0, smm = 0, syy = 0;
+      let sym = 0, smm = 0, syy = 0, sm = 0, sy = 0;
       const span = Math.max(te - ts, 1e-9);
       for (const i of idx) {
         const u = Math.min(Math.max((t[i] - ts) / span, 0), 1);
@@ -79,8 +86,15 @@ function placeOnce(
         sym += y[i] * m;
         smm += m * m;
         syy += y[i] * y[i];
+        sm += m;
+        sy += y[i];
       }
-      return syy - (sym * sym) / smm;
+      if (!withOffset) return syy - (sym * sym) / smm;
+      // y ≈ g·m + c: least squares, residual Σy² − (g·Σym + c·Σy)
+      const N = idx.length, det = smm * N - sm * sm;
+      if (!(det > 1e-12 * smm * N)) return syy - (sym * sym) / smm;
+      const g = (sym * N - sm * sy) / det, c = (smm * sy - sm * sym) / det;
+      return syy - g * sym - c * sy;
     };
     let s = seg.startIndex, e = seg.endIndex - 1, D = dl.thicknessNm;
     const dur = Math.max(e - s, 20);
