@@ -49,7 +49,7 @@ function placeOnce(
   trace: TraceData, design: Design, layers: readonly Segment[], windows: readonly BoundaryWindow[], options: PlaceBoundaryOptions,
 ): Segment[] {
   const t = trace.timeS, y = trace.signal;
-  const maxPoints = options.maxPoints ?? 3000;
+  const maxPoints = options.maxPoints ?? 600;
   const range = options.thicknessRange ?? 0.2;
   const affine = options.affine ?? true;
   const out: Segment[] = [];
@@ -73,25 +73,33 @@ function placeOnce(
     for (let i = 0; i <= steps / (1 + range) / 1.05; i++) [lo, hi] = [Math.min(lo, table[i]), Math.max(hi, table[i])];
     const withOffset = affine && hi - lo >= 0.1 * hi;
     const stride = Math.max(1, Math.ceil((w.to - w.from) / maxPoints));
-    const idx: number[] = [];
-    for (let i = w.from; i < w.to; i += stride) idx.push(i);
+    // bin means, not picked samples: every sample's information at a fraction of the points
+    const nb = Math.ceil((w.to - w.from) / stride);
+    const bt = new Float64Array(nb), by = new Float64Array(nb);
+    for (let b = 0; b < nb; b++) {
+      const a = w.from + b * stride, z = Math.min(a + stride, w.to);
+      for (let i = a; i < z; i++) {
+        bt[b] += t[i] / (z - a);
+        by[b] += y[i] / (z - a);
+      }
+    }
     const cost = (ts: number, te: number, D: number): number => {
       let sym = 0, smm = 0, syy = 0, sm = 0, sy = 0;
       const span = Math.max(te - ts, 1e-9);
-      for (const i of idx) {
-        const u = Math.min(Math.max((t[i] - ts) / span, 0), 1);
+      for (let i = 0; i < nb; i++) {
+        const u = Math.min(Math.max((bt[i] - ts) / span, 0), 1);
         const x = (D * u * steps) / top;
         const k = Math.min(Math.floor(x), steps - 1);
         const m = table[k] + (x - k) * (table[k + 1] - table[k]);
-        sym += y[i] * m;
+        sym += by[i] * m;
         smm += m * m;
-        syy += y[i] * y[i];
+        syy += by[i] * by[i];
         sm += m;
-        sy += y[i];
+        sy += by[i];
       }
       if (!withOffset) return syy - (sym * sym) / smm;
       // y ≈ g·m + c: least squares, residual Σy² − (g·Σym + c·Σy)
-      const N = idx.length, det = smm * N - sm * sm;
+      const N = nb, det = smm * N - sm * sm;
       if (!(det > 1e-12 * smm * N)) return syy - (sym * sym) / smm;
       const g = (sym * N - sm * sy) / det, c = (smm * sy - sm * sym) / det;
       return syy - g * sym - c * sy;
