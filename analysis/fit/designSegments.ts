@@ -25,6 +25,9 @@ export interface DesignSegmentation {
   windows: BoundaryWindow[];
 }
 
+/** A candidate pause; `unseen` where no flat stretch was found (a level cut's short pause under the noise). */
+type Cand = FlatStretch & { unseen?: boolean };
+
 /** A pause between layers: one flat stretch, or several close ones read together. */
 interface Pause { first: number; last: number; extra: number }
 
@@ -52,31 +55,62 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
   // virtual zero-length pauses at both ends: a run may start or end while a layer grows
   const edge = (from: number, to: number) => median(y, Math.max(0, from), Math.min(n, to));
   const k2 = Math.max(1, Math.round(2 / Math.max((t[n - 1] - t[0]) / Math.max(n - 1, 1), 1e-9)));
-  const cands: FlatStretch[] = [
-    { startIndex: 0, endIndex: 0, startLevel: edge(0, k2), endLevel: edge(0, k2) },
-    ...flats.filter((f) => f.startIndex > 0 && f.endIndex < n),
-    { startIndex: n, endIndex: n, startLevel: edge(n - k2, n), endLevel: edge(n - k2, n) },
-  ];
-  // a flat stretch touching the trace's start or end replaces the virtual one there
-  if (flats.length && flats[0].startIndex === 0) cands[0] = flats[0];
-  if (flats.length && flats[flats.length - 1].endIndex === n) cands[cands.length - 1] = flats[flats.length - 1];
-  const m = cands.length;
   const spanGap = options.spanGapS ?? 20;
-  const pauses: Pause[] = [];
-  for (let i = 0; i < m; i++) {
-    for (let j = i; j < m; j++) {
-      if (j > i && t[Math.min(cands[j].startIndex, n - 1)] - t[Math.max(cands[j - 1].endIndex - 1, 0)] > spanGap) break;
-      pauses.push({ first: i, last: j, extra: j - i });
+  let cands: Cand[] = [];
+  let m = 0;
+  let pauses: Pause[] = [];
+  /** The candidate pauses: the flat stretches, and (for level cuts) zero-length ones where the reading crosses a cut level. */
+  const build = (extra: Cand[]) => {
+    cands = [
+      { startIndex: 0, endIndex: 0, startLevel: edge(0, k2), endLevel: edge(0, k2) },
+      ...[...flats.filter((f) => f.startIndex > 0 && f.endIndex < n), ...extra].sort((a, b) => a.startIndex - b.startIndex),
+      { startIndex: n, endIndex: n, startLevel: edge(n - k2, n), endLevel: edge(n - k2, n) },
+    ];
+    // a flat stretch touching the trace's start or end replaces the virtual one there
+    if (flats.length && flats[0].startIndex === 0) cands[0] = flats[0];
+    if (flats.length && flats[flats.length - 1].endIndex === n) cands[cands.length - 1] = flats[flats.length - 1];
+    m = cands.length;
+    pauses = [];
+    for (let i = 0; i < m; i++) {
+      for (let j = i; j < m; j++) {
+        if (j > i && t[Math.min(cands[j].startIndex, n - 1)] - t[Math.max(cands[j - 1].endIndex - 1, 0)] > spanGap) break;
+        pauses.push({ first: i, last: j, extra: j - i });
+      }
     }
-  }
+  };
+  build([]);
   const top = quantile(y, 0.99);
   const stepTol = 0.01 * top;
-  const gain0 = top / Math.max(...expected.map((e) => e.maxLevel), 1e-6);
-  let best = solve(gain0);
-  const refit = best.gainFit;
-  if (refit && Math.abs(refit / gain0 - 1) > 1e-3) {
-    const second = solve(refit);
-    if (second.cost < best.cost) best = second;
+  // The detector gain: from the highest reading against the design's highest level, and from the
+  // first flat stretch against the bare chip; each refined once from the levels it matched.
+  const gains = [top / Math.max(...expected.map((e) => e.maxLevel), 1e-6)];
+  if (cands.length > 2 && expected[0].startLevel > 0) gains.push(cands[cands[0].endIndex > 0 ? 0 : 1].endLevel / expected[0].startLevel);
+  // the mean rate over the run, from the design's total thickness and the time the trace is not flat
+  let flatS = 0;
+  for (const f of flats) flatS += t[f.endIndex - 1] - t[f.startIndex];
+  const meanRate = design.layers.reduce((a, l) => a + l.thicknessNm, 0) / Math.max(t[n - 1] - t[0] - flatS, 1e-9);
+  let best: ReturnType<typeof solve> | null = null;
+  for (const g0 of gains) {
+    if (!(g0 > 0) || !Number.isFinite(g0)) continue;
+    let trial = solve(g0);
+    if (trial.gainFit && Math.abs(trial.gainFit / g0 - 1) > 1e-3) {
+      const second = solve(trial.gainFit);
+      if (second.cost < trial.cost) trial = second;
+    }
+    if (!best || trial.cost < best.cost) best = trial;
+  }
+  if (!best) best = solve(1);
+  // A level cut's pause may be too short to show as flat: where the reading crosses a level-cut
+  // layer's cut level (at the gain found) is a candidate too, at a cost for the pause not seen.
+  if (design.layers.some((l) => l.monitor.cut === 'level')) {
+    const g = best.gain;
+    build(levelCrossings(t, y, design.layers.filter((l) => l.monitor.cut === 'level').map((l) => g * expected[l.layer - 1].endLevel)));
+    let trial = solve(g);
+    if (trial.gainFit && Math.abs(trial.gainFit / g - 1) > 1e-3) {
+      const second = solve(trial.gainFit);
+      if (second.cost < trial.cost) trial = second;
+    }
+    best = trial;
   }
 
   const layers: Segment[] = [];
@@ -96,11 +130,19 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
       startTimeS: t[startIndex], endTimeS: t[endIndex - 1], sampleCount: endIndex - startIndex, run: 1,
     });
     // the search reaches over the neighbouring flat stretches at the layer's own start and end level (not across a chip change's steps)
-    let a = pauses[p].last, b = pauses[q].first;
+    // within a pause on one chip every flat stretch may hold the boundary; across a chip change only those after the last step
+    const sameChipBefore = k > 1 && expected[k - 2].chip === expected[k - 1].chip;
+    const sameChipAfter = k < L && expected[k].chip === expected[k - 1].chip;
+    let a = sameChipBefore ? pauses[p].first : pauses[p].last, b = sameChipAfter ? pauses[q].last : pauses[q].first;
     const near = (i: number, j: number) => t[Math.min(cands[j].startIndex, n - 1)] - t[Math.max(cands[i].endIndex - 1, 0)] <= spanGap;
     while (a > 0 && near(a - 1, a) && Math.abs(cands[a - 1].endLevel - cands[a].startLevel) < stepTol) a--;
     while (b < m - 1 && near(b, b + 1) && Math.abs(cands[b + 1].startLevel - cands[b].endLevel) < stepTol) b++;
-    windows.push({ from: cands[a].startIndex, to: cands[b].endIndex });
+    // around a pause not seen (a level crossing) the boundary may lie a quarter of the layer either way
+    const reach = () => Math.max(30, 0.25 * (t[endIndex - 1] - t[startIndex])) / Math.max((t[n - 1] - t[0]) / Math.max(n - 1, 1), 1e-9);
+    windows.push({
+      from: cands[a].unseen ? Math.max(0, Math.round(cands[a].startIndex - reach())) : cands[a].startIndex,
+      to: cands[b].unseen ? Math.min(n, Math.round(cands[b].endIndex + reach())) : cands[b].endIndex,
+    });
     const seen = cands[pauses[q].first].startLevel, want = best.gain * expected[k - 1].endLevel;
     if (Math.abs(seen - want) > 3 * (options.levelTolerance ?? 0.02) * best.gain) {
       misfits.push(`layer ${k} (${design.layers[k - 1].material}) ends at ${(seen / best.gain * 100).toFixed(1)} % where the design expects ${(expected[k - 1].endLevel * 100).toFixed(1)} %`);
@@ -127,7 +169,9 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
     let prev = new Float64Array(P).fill(Infinity);
     const from: Int32Array[] = [];
     // b_0: the pause before layer 1; stretches before it are leading idle (free)
-    for (let q = 0; q < P; q++) prev[q] = lvl(cands[pauses[q].last], expected[0].startLevel) + 0.5 * pauses[q].extra;
+    const unseenCost = 3;
+    const pauseCost = (q: number) => 0.5 * pauses[q].extra + (cands[pauses[q].first].unseen || cands[pauses[q].last].unseen ? unseenCost : 0);
+    for (let q = 0; q < P; q++) prev[q] = lvl(cands[pauses[q].last], expected[0].startLevel) + pauseCost(q);
     for (let k = 1; k <= L; k++) {
       const e = expected[k - 1];
       const next = expected[k];
@@ -151,6 +195,10 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
           // flat stretches strictly between the two pauses lie inside the layer
           if (b - a - 1 > innerCount) {
             for (let c = a + 1 + innerCount; c < b; c++) {
+              if (cands[c].unseen) {
+                innerCount++;
+                continue;
+              }
               const lvl = 0.5 * (cands[c].startLevel + cands[c].endLevel);
               inner += e.turningPointLevels.length ? Math.min(...e.turningPointLevels.map((v) => lc(lvl, v))) : 0;
               innerCount++;
@@ -161,8 +209,11 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
           if (innerCount > e.turningPointLevels.length + 6) break;
           const end = cands[b].startIndex;
           if (end - s < 20) continue;
-          let c = prev[p] + inner + extraCost * Math.max(0, innerWeight - e.turningPointLevels.length);
-          c += lvl(cands[b], e.endLevel) + 0.5 * pauses[q].extra;
+          // a layer's rate far from the run's mean (×2.5 costs one unit) is unlikely: a fringe fragment, not a layer
+          const rate = design.layers[k - 1].thicknessNm / Math.max(t[end - 1] - t[s], 1e-9);
+          const durCost = Math.min((Math.log(rate / meanRate) / Math.log(2.5)) ** 2, CAP);
+          let c = prev[p] + durCost + inner + extraCost * Math.max(0, innerWeight - e.turningPointLevels.length);
+          c += lvl(cands[b], e.endLevel) + pauseCost(q);
           // the pause ends where the next layer starts: the same level, or the bare new chip
           if (next) c += lvl(cands[pauses[q].last], next.startLevel);
           if (trace.chip && trace.chip[(s + end) >> 1] !== e.chip) c += 4 * CAP;
@@ -224,4 +275,27 @@ function median(y: ArrayLike<number>, from: number, to: number): number {
 function quantile(y: ArrayLike<number>, q: number): number {
   const a = Float64Array.from(y).sort();
   return a[Math.floor(q * (a.length - 1))];
+}
+
+/** Sample indices where 1 s means of the reading cross one of the levels (at most one per level every 10 s), as zero-length unseen pauses. */
+function levelCrossings(t: ArrayLike<number>, y: ArrayLike<number>, levels: readonly number[]): Cand[] {
+  const n = y.length;
+  if (n < 4) return [];
+  const dt = (t[n - 1] - t[0]) / (n - 1);
+  const per = Math.max(1, Math.round(1 / Math.max(dt, 1e-9)));
+  const out: Cand[] = [];
+  for (const level of levels) {
+    let last = -Infinity, prevSign = 0;
+    for (let a = 0; a + per <= n; a += per) {
+      let sum = 0;
+      for (let i = a; i < a + per; i++) sum += y[i];
+      const sign = Math.sign(sum / per - level);
+      if (sign !== 0 && prevSign !== 0 && sign !== prevSign && t[a] - last > 10) {
+        out.push({ startIndex: a, endIndex: a, startLevel: level, endLevel: level, unseen: true });
+        last = t[a];
+      }
+      if (sign !== 0) prevSign = sign;
+    }
+  }
+  return out;
 }
