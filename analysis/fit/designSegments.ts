@@ -43,7 +43,11 @@ const CAP = 9;
  * (when there is one) agrees with the design's chip. A flat stretch at an extreme right after a
  * turning-point cut is thereby a pause when the levels say so, and a layer's own slow stretch near
  * an inner turning point is not. A layer the trace does not show can be skipped at a cost; it is
- * returned in `missing` (the caller fails the run naming it). The boundaries are coarse (the
+ * returned in `missing` (the caller fails the run naming it). A level cut's pause may be too short
+ * to show as flat; the times the reading crosses the cut level are then candidates too, at a cost.
+ * The costs (one unit per 2 % of full scale of level mismatch, capped at 9; 6 per unexplained flat
+ * stretch; 40 per skipped layer; one unit for a rate 2.5× off the run's mean) are chosen here, not
+ * taken from a source. The boundaries are coarse (the
  * edges of flat stretches); fit/placeBoundaries places them on the model.
  */
 export function segmentByDesign(trace: TraceData, design: Design, options: DesignSegmentOptions = {}): DesignSegmentation {
