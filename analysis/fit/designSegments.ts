@@ -55,6 +55,9 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
   const t = trace.timeS, y = trace.signal;
   const expected = expectedLevels(design);
   const L = expected.length;
+  if (n < 20) {
+    return { layers: [], idle: [], warnings: [], missing: expected.map((e) => e.layer), windows: [] };
+  }
   const flats = flatStretches(t, y);
   // virtual zero-length pauses at both ends: a run may start or end while a layer grows
   const edge = (from: number, to: number) => median(y, Math.max(0, from), Math.min(n, to));
