@@ -14,7 +14,8 @@ import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { runSummary } from './runSummary';
-import { refineInferredSegments } from './refineSegments';
+import { placeBoundaries } from './placeBoundaries';
+import { segmentByDesign } from './designSegments';
 import { carryStackUncertainty, emptyStack, type StackCovariance } from './stackUncertainty';
 import { startValues } from './startValues';
 import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
@@ -92,14 +93,11 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
   const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
   const warnings: string[] = trace.warnings.map((w) => w.message);
-  const seg = segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
-  for (const w of seg.warnings) warnings.push(w.code === 'segments_inferred' && !w.message ? 'the trace has no layer column: layer segments were found from the signal' : w.message);
-  let layerSegments = seg.layers;
-  if (seg.inferred) {
-    const refined = refineInferredSegments(trace, design, seg.layers);
-    layerSegments = refined.layers;
-    warnings.push(...refined.warnings);
-  }
+  // Without a layer column the design segments the trace (designSegments), not the signal alone.
+  const byDesign = trace.layer ? null : segmentByDesign(trace, design);
+  const seg = byDesign ? { ...byDesign, inferred: true } : segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
+  for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
+  const layerSegments = byDesign ? placeBoundaries(trace, design, byDesign.layers, byDesign.windows) : seg.layers;
   const samplesByLayer = gatherLayerSamples(trace, layerSegments);
   const endLayer = layerEnds(trace, samplesByLayer, warnings);
   for (const l of samplesByLayer.keys()) {

@@ -11,7 +11,6 @@ export * from './layerSamples';
 export * from './layerResult';
 export * from './runSummary';
 export * from './analyzeRun';
-export * from './refineSegments';
 export * from './chipCalibrations';
 export * from './AnalysisInputError';
 export * from './everyLayerSampled';
