@@ -1,10 +1,13 @@
-import { levelSteps, longRunSigma, median, noiseSigma, type Level } from '../trace';
+import { levelSteps, longRunSigma, meanSigma, median, noiseSigma, type Level } from '../trace';
 
 export interface ChipCalibration {
   chip: number;
   /** Detector reading per unit of modelled signal. */
   gain: number;
-  /** 1σ of the gain from the noise of the samples it came from (median: √(π/2)·σ/√N). */
+  /**
+   * 1σ of the gain from the noise of the bare-chip samples it came from (median: √(π/2) times
+   * the σ of their mean, correlated noise included: meanSigma); the offset's σ is not in it.
+   */
   gainSigma: number;
   /** Detector reading with no light from the chip (dark level, or stray light fitted). */
   offset: number;
@@ -84,10 +87,12 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
       const bareSignal = idle.subarray(bare.start, bare.end);
       const bareLevel = median(bareSignal);
       const s = noiseSigma(bareSignal);
+      // σ of the short dark mean and of the bare mean from the bare stretch's noise (correlated
+      // noise does not average away over a dip shorter than its correlation time).
       return {
         chip, gain: (bareLevel - offset) / modelledBare, offset, offsetSource: dark.length ? 'dark' : offsetSource,
-        offsetSigma: dark.length ? longRunSigma(idle.subarray(bare.start, bare.end)) / Math.sqrt(darkCount) : 0,
-        gainSigma: (1.2533 * s) / Math.sqrt(bareCount) / modelledBare, source: 'bare-chip',
+        offsetSigma: dark.length ? meanSigma(bareSignal, darkCount) : 0,
+        gainSigma: (1.2533 * meanSigma(bareSignal, bareCount)) / modelledBare, source: 'bare-chip',
         bareSamples: bareCount, darkSamples: darkCount, otherSamples: idle.length - bareCount - darkCount, noiseSigma: s, bareLevel,
       };
     }

@@ -4,10 +4,8 @@ import { fromNK, growingLayerSignal } from '../optics';
 import { linearTrend } from '../stats';
 import { type TraceData } from '../trace';
 import { calibrateChip, type ChipCalibration } from './calibrateChip';
-import { fitChipOffset } from './chipOffset';
-import { type FitLayerData } from './layerModel';
+import { fitOffsets } from './fittedOffsets';
 import { type LayerSamples } from './layerSamples';
-import { subsampleUniform } from './subsample';
 
 export interface ChipStart {
   calibration: ChipCalibration;
@@ -16,6 +14,8 @@ export interface ChipStart {
   /** Monitor wavelength and mode of that layer (the detector's gain depends on both). */
   wavelengthNm: number;
   mode: 'R' | 'T';
+  /** The modelled bare-chip signal M₀ at that wavelength (gain = (bare reading − offset)/M₀). */
+  modelledBare: number;
 }
 
 /**
@@ -48,19 +48,18 @@ export function calibrateChips(
       ? prevCal.gain * chipSignal(design, before, design.layers.filter((l) => l.monitor.chip === before.monitor.chip && l.layer <= before.layer)) + prevCal.offset
       : undefined;
     const firstCount = Math.min(samples.indices.length, 20);
-    let calibration = calibrateChip({
+    const calibration = calibrateChip({
       chip: samples.chip, modelledBare, knownOffset: lastOffset, previousChipLevel,
       idleSignal: trace.signal.subarray(idleFrom, first),
       firstLayerSignal: Float64Array.from({ length: firstCount }, (_, i) => trace.signal[samples.indices[i]]),
     });
     if (calibration.source === 'first-layer') warnings.push(`chip ${samples.chip}: no bare-chip stretch before layer ${dl.layer}; gain taken from the layer's first samples`);
-    if (fitOffset && calibration.source === 'bare-chip' && calibration.offsetSource !== 'dark') {
-      calibration = withFittedOffset(design, trace, order, samplesByLayer, calibration, modelledBare, warnings);
-    }
     lastOffset = calibration.offset;
-    chips.set(samples.chip, { calibration, startS: samples.startTimeS, wavelengthNm: dl.monitor.wavelengthNm, mode: dl.monitor.mode });
+    chips.set(samples.chip, { calibration, startS: samples.startTimeS, wavelengthNm: dl.monitor.wavelengthNm, mode: dl.monitor.mode, modelledBare });
   }
   shareDarkReadings(chips, warnings);
+  // Only where no chip of the run saw a dark reading is the offset fitted from the layers.
+  if (fitOffset) fitOffsets(design, trace, order, samplesByLayer, chips, warnings);
   return chips;
 }
 
@@ -96,58 +95,6 @@ function chipSignal(design: Design, dl: DesignLayer, stack: readonly DesignLayer
     below: stack.map((l) => ({ n: indexAt(design.materials[l.material], wl), thicknessNm: l.thicknessNm })),
     wavelengthNm: wl, mode: dl.monitor.mode, backside: design.substrateBackside, pol: 's',
   }, [0])[0];
-}
-
-/** Layers the offset fit uses: the chip's first ones. */
-const OFFSET_FIT_LAYERS = 3;
-/** Samples per layer in the offset fit. */
-const OFFSET_FIT_POINTS = 100;
-
-function withFittedOffset(
-  design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>,
-  cal: ChipCalibration, modelledBare: number, warnings: string[],
-): ChipCalibration {
-  const own = order.filter((l) => samplesByLayer.get(l.layer)!.chip === cal.chip && samplesByLayer.get(l.layer)!.tauS.length >= 20).slice(0, OFFSET_FIT_LAYERS);
-  // In transmittance the chip's first layers (high readings) cannot tell an offset from the gain
-  // (σ of 0.3–1 % of full scale on our tests, and biased by rate drift): not attempted.
-  if (own.length === 0 || cal.bareLevel === null || own[0].monitor.mode === 'T') return cal;
-  const layers = own.map((dl) => offsetFitData(design, trace, dl, samplesByLayer.get(dl.layer)!));
-  const fit = fitChipOffset({
-    layers, bareLevel: cal.bareLevel, modelledBare, startOffset: cal.offset,
-    rateGuess: own.map((dl, j) => dl.thicknessNm / Math.max(layers[j].durationS, 1e-9)),
-  });
-  const scale = Math.abs(cal.bareLevel);
-  const firstLayer = own[0].layer;
-  if (!(fit.sigma < 0.01 * scale)) {
-    warnings.push(`chip ${cal.chip}: no dark samples before layer ${firstLayer}, and its layers do not determine a detector offset (σ ${fmt(fit.sigma / scale)} % of the bare reading); ${cal.offsetSource === 'assumed' ? 'offset taken as 0' : "an earlier chip's offset used"}: thicknesses may carry a bias`);
-    return { ...cal, offsetSigma: Number.isFinite(fit.sigma) ? fit.sigma : 0 };
-  }
-  // Keep the assumed offset unless the layers show a clearly different one. The profile holds
-  // the rate constant within each layer (a free rate drift makes the offset undetermined), so a
-  // drifting or wandering rate biases it, by about 0.1 % of full scale in reflectance on our tests.
-  const shift = Math.abs(fit.offset - cal.offset);
-  if (shift <= 3 * fit.sigma || shift <= 0.0015 * cal.gain) return { ...cal, offsetSigma: fit.sigma };
-  return {
-    ...cal, offset: fit.offset, offsetSigma: fit.sigma, offsetSource: 'fitted',
-    gain: (cal.bareLevel - fit.offset) / modelledBare,
-  };
-}
-
-const fmt = (x: number) => (100 * x).toFixed(2);
-
-/** One layer's samples (at most OFFSET_FIT_POINTS) for the offset fit: index free above half a quarter-wave, no rate drift. */
-function offsetFitData(design: Design, trace: TraceData, dl: DesignLayer, s: LayerSamples): FitLayerData {
-  const wl = dl.monitor.wavelengthNm;
-  const model = design.materials[dl.material];
-  const nominal = indexAt(model, wl);
-  const n = s.tauS.length;
-  const sub = subsampleUniform(s.tauS, 0, n, OFFSET_FIT_POINTS);
-  const thin = (4 * nominal.re * dl.thicknessNm) / wl < 0.5;
-  return {
-    optics: { ambient: indexAt(design.ambient, wl), substrate: indexAt(design.substrate, wl), backside: design.substrateBackside, wavelengthNm: wl, mode: dl.monitor.mode },
-    nominalAt: (w) => indexAt(model, w), tauS: Float64Array.from(sub, (k) => s.tauS[k]), y: Float64Array.from(sub, (k) => trace.signal[s.indices[k]]),
-    durationS: s.tauS[n - 1], extinction: -nominal.im, heldIndex: thin ? nominal.re : null, fitDrift: false, heldGain: null, chipTimeS: 0,
-  };
 }
 
 /**

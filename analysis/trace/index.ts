@@ -10,5 +10,5 @@ export { decimateMinMax } from './decimate';
 export { decimateIndices } from './decimateIndices';
 export { realFftMagnitude } from './realFftMagnitude';
 export { median, noiseSigma } from './robustStats';
-export { levelSteps, longRunSigma, type Level, type LevelStepOptions } from './levelSteps';
+export { levelSteps, longRunSigma, meanSigma, type Level, type LevelStepOptions } from './levelSteps';
 export type { ReadTraceOptions, TraceData, TraceScan, TraceWarning, Segment, Segmentation } from './types';

@@ -155,6 +155,12 @@ export function scenarios(): Scenario[] {
       modes: both(pending('issue 7 item 2: fit the offset per chip when there are no dark samples')),
     },
     {
+      name: 'T monitoring with stray light', about: '12-layer mirror in transmittance, 2 chips, stray light 0.5 % of full scale, no dark samples, correlated noise',
+      design: mirrorDesign(12, 6), seeds: [55, 56], targets: CHAMBER_TARGETS,
+      options: { ...RATES, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, strayFraction: 0.005, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 } },
+      modes: both(pending('issue 7 item 2: fit the offset per chip in transmittance when there are no dark samples')),
+    },
+    {
       name: '1 s shutter delay', about: '18-layer mirror, the shutter takes 1 s to close after every logged cut, white noise 0.05 %',
       design: mirrorDesign(18, 6), seeds: [61], targets: CHAMBER_TARGETS, options: { ...RATES, whiteNoise: 0.0005, shutterCloseS: [1, 1] },
       modes: both(pending('issue 7 item 3: model the growth between the last logged sample and the idle level')),
