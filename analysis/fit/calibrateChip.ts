@@ -5,8 +5,8 @@ export interface ChipCalibration {
   /** Detector reading per unit of modelled signal. */
   gain: number;
   /**
-   * 1σ of the gain from the noise of the bare-chip samples it came from (median: √(π/2) times
-   * the σ of their mean, correlated noise included: meanSigma); the offset's σ is not in it.
+   * 1σ of the gain from the noise of the bare-chip samples it came from (the σ of their median,
+   * correlated noise included: medianSigma); the offset's σ is not in it.
    */
   gainSigma: number;
   /** Detector reading with no light from the chip (dark level, or stray light fitted). */
@@ -92,7 +92,7 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
       return {
         chip, gain: (bareLevel - offset) / modelledBare, offset, offsetSource: dark.length ? 'dark' : offsetSource,
         offsetSigma: dark.length ? meanSigma(bareSignal, darkCount) : 0,
-        gainSigma: (1.2533 * meanSigma(bareSignal, bareCount)) / modelledBare, source: 'bare-chip',
+        gainSigma: medianSigma(bareSignal, s) / modelledBare, source: 'bare-chip',
         bareSamples: bareCount, darkSamples: darkCount, otherSamples: idle.length - bareCount - darkCount, noiseSigma: s, bareLevel,
       };
     }
@@ -104,6 +104,15 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
     gainSigma: (1.2533 * noiseSigma(first)) / Math.sqrt(first.length) / modelledBare,
     bareSamples: 0, darkSamples: 0, otherSamples: idle.length, noiseSigma: noiseSigma(first), bareLevel: null,
   };
+}
+
+/**
+ * σ of the median of a stretch: the σ of its mean (meanSigma, correlated noise included) plus the
+ * median's extra variance on the white part, (π/2 − 1)·σ²/N (the median's asymptotic variance
+ * πσ²/(2N) for normal samples; from memory).
+ */
+function medianSigma(y: Float64Array, white: number): number {
+  return Math.sqrt(meanSigma(y, y.length) ** 2 + ((Math.PI / 2 - 1) * white * white) / y.length);
 }
 
 /** Samples a level needs to be taken as the bare chip (2 s at 10 Hz) when there is a choice. */

@@ -9,12 +9,13 @@ import { type LayerSamples } from './layerSamples';
 import { subsampleUniform } from './subsample';
 
 /**
- * Layers the offset fit uses: the chip's first ones. In transmittance the first layers read high
- * and cannot tell an offset from the gain (σ of 0.3–1 % of full scale from three layers of a
- * quarter-wave mirror); six, reaching down to a third of the bare reading, bring σ to about
- * 0.07 % of full scale on the chamber harness.
+ * Layers the offset fit uses: the chip's first ones, per monitor mode. In transmittance the first
+ * layers read high and cannot tell an offset from the gain (σ of 0.2–0.3 % of full scale from
+ * three layers of a quarter-wave mirror); six, reaching down to a third of the bare reading,
+ * bring σ to about 0.05 % of full scale on the chamber harness. In reflectance three suffice
+ * (σ about 0.02 % of full scale); more bring in the level-cut and later layers' rate errors.
  */
-const OFFSET_FIT_LAYERS = 6;
+const OFFSET_FIT_LAYERS = { R: 3, T: 6 } as const;
 /** Samples per layer in the offset fit. */
 const OFFSET_FIT_POINTS = 100;
 /** A fit counts only with σ under this fraction of full scale (bare reading / modelled bare signal). */
@@ -83,7 +84,7 @@ export function pool(fits: readonly Pick<OffsetFit, 'offset' | 'sigma'>[]): { of
 
 function fitOne(design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>, start: ChipStart): OffsetFit | null {
   const cal = start.calibration;
-  const own = order.filter((l) => samplesByLayer.get(l.layer)!.chip === cal.chip && samplesByLayer.get(l.layer)!.tauS.length >= 20).slice(0, OFFSET_FIT_LAYERS);
+  const own = order.filter((l) => samplesByLayer.get(l.layer)!.chip === cal.chip && samplesByLayer.get(l.layer)!.tauS.length >= 20).slice(0, OFFSET_FIT_LAYERS[start.mode]);
   if (own.length === 0 || cal.bareLevel === null) return null;
   const layers = own.map((dl) => offsetFitData(design, trace, dl, samplesByLayer.get(dl.layer)!));
   const fit = fitChipOffset({
