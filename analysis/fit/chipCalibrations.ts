@@ -4,7 +4,7 @@ import { fromNK, growingLayerSignal } from '../optics';
 import { linearTrend } from '../stats';
 import { type TraceData } from '../trace';
 import { calibrateChip, type ChipCalibration } from './calibrateChip';
-import { fitOffsets } from './fittedOffsets';
+import { fitOffsets, pool } from './fittedOffsets';
 import { type LayerSamples } from './layerSamples';
 
 export interface ChipStart {
@@ -68,6 +68,9 @@ export function calibrateChips(
  * not the chip: with two or more chips' dark readings, their median serves the chips that had
  * none (or only an assumed or inherited one), and replaces a reading that disagrees with it by
  * more than 5σ and 0.1 % of full scale (a dip caught on its slope or a spike), with a warning.
+ * When the remaining readings agree (each within 3σ of their weighted mean), every chip takes
+ * that mean: a dip of half a second under noise correlated over a second is a poor reading on
+ * its own (σ about the noise's), and the chip's gain (bare reading − offset)/M₀ carries its error.
  */
 function shareDarkReadings(chips: Map<number, ChipStart>, warnings: string[]): void {
   const dark = [...chips.values()].map((c) => c.calibration).filter((c) => c.offsetSource === 'dark');
@@ -75,15 +78,19 @@ function shareDarkReadings(chips: Map<number, ChipStart>, warnings: string[]): v
   const offsets = dark.map((c) => c.offset).sort((a, b) => a - b);
   const mid = offsets.length >> 1;
   const med = offsets.length % 2 ? offsets[mid] : 0.5 * (offsets[mid - 1] + offsets[mid]);
-  const sigma = Math.sqrt(dark.reduce((a, c) => a + c.offsetSigma ** 2, 0) / dark.length) / Math.sqrt(dark.length);
+  const spread = Math.sqrt(dark.reduce((a, c) => a + c.offsetSigma ** 2, 0) / dark.length) / Math.sqrt(dark.length);
+  const odd = (c: ChipCalibration) => c.offsetSource === 'dark' && Math.abs(c.offset - med) > 5 * Math.hypot(c.offsetSigma, spread) + 0.001 * c.gain;
+  const agreed = pool(dark.filter((c) => !odd(c) && c.offsetSigma > 0).map((c) => ({ offset: c.offset, sigma: c.offsetSigma })));
+  const shared = agreed ?? { offset: med, sigma: spread };
   for (const [chip, start] of chips) {
     const c = start.calibration;
     if (c.offsetSource === 'fitted' || c.bareLevel === null) continue;
-    const odd = c.offsetSource === 'dark' && Math.abs(c.offset - med) > 5 * Math.hypot(c.offsetSigma, sigma) + 0.001 * c.gain;
-    if (c.offsetSource === 'dark' && !odd) continue;
-    if (odd) warnings.push(`chip ${chip}: its dark reading ${c.offset.toFixed(4)} disagrees with the other chips' (median ${med.toFixed(4)}); the median used`);
+    const isOdd = odd(c);
+    if (c.offsetSource === 'dark' && !isOdd && !agreed) continue;
+    if (isOdd) warnings.push(`chip ${chip}: its dark reading ${c.offset.toFixed(4)} disagrees with the other chips' (median ${med.toFixed(4)}); ${agreed ? 'their mean' : 'the median'} used`);
     const m0 = (c.bareLevel - c.offset) / c.gain;
-    chips.set(chip, { ...start, calibration: { ...c, offset: med, offsetSigma: sigma, offsetSource: 'other-chips', gain: (c.bareLevel - med) / m0 } });
+    const source = c.offsetSource === 'dark' && !isOdd ? 'dark' : 'other-chips';
+    chips.set(chip, { ...start, calibration: { ...c, offset: shared.offset, offsetSigma: shared.sigma, offsetSource: source, gain: (c.bareLevel - shared.offset) / m0 } });
   }
 }
 
