@@ -65,16 +65,16 @@ export function calibrateChips(
 
 /**
  * The dark reading (with the stray light while the beam is blocked) belongs to the detector,
- * not the chip: with two or more chips' dark readings, their median serves the chips that had
- * none (or only an assumed or inherited one), and replaces a reading that disagrees with it by
+ * not the chip: the median of the chips' dark readings serves the chips that had none (or only
+ * an assumed or inherited one), with its σ, and replaces a reading that disagrees with it by
  * more than 5σ and 0.1 % of full scale (a dip caught on its slope or a spike), with a warning.
  * When the remaining readings agree (each within 3σ of their weighted mean), every chip takes
  * that mean: a dip of half a second under noise correlated over a second is a poor reading on
  * its own (σ about the noise's), and the chip's gain (bare reading − offset)/M₀ carries its error.
  */
-function shareDarkReadings(chips: Map<number, ChipStart>, warnings: string[]): void {
+export function shareDarkReadings(chips: Map<number, ChipStart>, warnings: string[]): void {
   const dark = [...chips.values()].map((c) => c.calibration).filter((c) => c.offsetSource === 'dark');
-  if (dark.length < 2) return;
+  if (dark.length === 0) return;
   const offsets = dark.map((c) => c.offset).sort((a, b) => a - b);
   const mid = offsets.length >> 1;
   const med = offsets.length % 2 ? offsets[mid] : 0.5 * (offsets[mid - 1] + offsets[mid]);
