@@ -114,9 +114,10 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
-  // A gain drift seen across the chips' bare-chip calibrations is applied within every chip.
+  // A gain drift seen across the chips' bare-chip calibrations (at 3σ: with three chips the
+  // slope's scatter has one degree of freedom) is applied within every chip.
   const drift = o.gainDriftFromChips ? gainDriftFromChips(chipStarts) : null;
-  const knownDrift = drift && Math.abs(drift.driftPerS) > 2 * drift.sigmaPerS ? drift.driftPerS : 0;
+  const knownDrift = drift && Math.abs(drift.driftPerS) > 3 * drift.sigmaPerS ? drift.driftPerS : 0;
   if (drift && knownDrift !== 0) {
     warnings.push(`detector gain drifting ${(knownDrift * 360000).toFixed(2)} % per hour (from the bare-chip calibrations of ${drift.chips} chips); applied within each chip`);
   }

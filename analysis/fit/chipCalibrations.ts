@@ -110,7 +110,8 @@ function chipSignal(design: Design, dl: DesignLayer, stack: readonly DesignLayer
  * second of the mean gain. Only where the data can carry it: three or more bare-chip
  * calibrations at one monitor wavelength and mode (two chips cannot tell a drift from a
  * difference between the chips, so the scatter about the line must be seen), each gain's σ
- * including its offset's (σ_g² + (σ_o/M₀)², M₀ = (B − o)/g). Null otherwise.
+ * including its offset's (σ_g² + (σ_o/M₀)², M₀ = (B − o)/g) unless one offset serves every
+ * chip. The caller applies it only where it is significant. Null otherwise.
  */
 export function gainDriftFromChips(chips: ReadonlyMap<number, ChipStart>): { driftPerS: number; sigmaPerS: number; chips: number } | null {
   const bare = [...chips.values()].filter((c) => c.calibration.source === 'bare-chip');
@@ -120,9 +121,12 @@ export function gainDriftFromChips(chips: ReadonlyMap<number, ChipStart>): { dri
   const mean = gains.reduce((a, b) => a + b, 0) / gains.length;
   const times = bare.map((c) => c.startS);
   const trend = linearTrend(times, gains);
+  // One offset shared by every chip (pooled dark readings, a pooled fit, or one assumed) moves
+  // all their gains alike and tells nothing about a drift: its σ is left out then.
+  const common = bare.every((c) => c.calibration.offset === bare[0].calibration.offset);
   const gainVar = (c: ChipCalibration) => {
     const m0 = ((c.bareLevel ?? c.offset) - c.offset) / c.gain;
-    return c.gainSigma ** 2 + (m0 > 0 ? (c.offsetSigma / m0) ** 2 : 0);
+    return c.gainSigma ** 2 + (m0 > 0 && !common ? (c.offsetSigma / m0) ** 2 : 0);
   };
   // σ of the slope: the larger of the scatter about the line and the calibrations' own σ.
   const tMean = times.reduce((a, t) => a + t, 0) / times.length;
