@@ -12,6 +12,7 @@ import { layerEnds } from './layerEnd';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
+import { carryOffsetSigma } from './offsetSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { runSummary } from './runSummary';
 import { refineInferredSegments } from './refineSegments';
@@ -246,8 +247,10 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     for (const [chip, chipStates] of chipLayers) {
       const perLayer = Math.max(100, Math.min(o.maxFitPoints, Math.floor(o.refitFinalPoints / chipStates.length)));
       const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
-      const shared = refitChip(chipStates.map((p) => p.make(perLayer)), chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
+      const finalData = chipStates.map((p) => p.make(perLayer));
+      const shared = refitChip(finalData, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
+      carryOffsetSigma(finalData, chipStates.map((p) => p.estimate), cal.offset, cal.offsetSigma, cg, o.robustLoss);
       if (shared) {
         cal.refinedGain = shared.gain;
         cal.refinedGainSigma = shared.gainSigma;
