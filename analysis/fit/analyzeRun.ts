@@ -250,7 +250,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const finalData = chipStates.map((p) => p.make(perLayer));
       const shared = refitChip(finalData, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
-      carryOffsetSigma(finalData, chipStates.map((p) => p.estimate), cal.offset, cal.offsetSigma, cg, o.robustLoss);
+      carryOffsetSigma(finalData, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss);
       if (shared) {
         cal.refinedGain = shared.gain;
         cal.refinedGainSigma = shared.gainSigma;

@@ -16,6 +16,11 @@ export interface ChipStart {
   mode: 'R' | 'T';
   /** The modelled bare-chip signal M₀ at that wavelength (gain = (bare reading − offset)/M₀). */
   modelledBare: number;
+  /**
+   * The random part of the offset's σ, where the calibration's offsetSigma adds a systematic
+   * one (a fitted offset): what the layers' σ take up (see carryOffsetSigma).
+   */
+  offsetSigmaRandom?: number;
 }
 
 /**

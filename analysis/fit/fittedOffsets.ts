@@ -56,20 +56,20 @@ export function fitOffsets(
       if (f.fit === null) continue;
       const sigma = f.fit.sigma;
       warnings.push(`chip ${cal.chip}: no dark samples before layer ${firstLayer}, and its layers do not determine a detector offset (σ ${Number.isFinite(sigma) ? `${fmt(sigma / scale)} % of full scale` : 'unbounded'}); ${cal.offsetSource === 'assumed' ? 'offset taken as 0' : "an earlier chip's offset used"}: thicknesses may carry a bias`);
-      set(chips, f.start, { ...cal, offsetSigma: Number.isFinite(sigma) ? sigma : 0 });
+      set(chips, f.start, { ...cal, offsetSigma: Number.isFinite(sigma) ? sigma : 0 }, Number.isFinite(sigma) ? sigma : 0);
       continue;
     }
     const shift = Math.abs(est.offset - cal.offset);
     if (shift <= 3 * est.sigma) {
-      set(chips, f.start, { ...cal, offsetSigma: est.sigma });
+      set(chips, f.start, { ...cal, offsetSigma: est.sigma }, own!.sigma);
       continue;
     }
-    set(chips, f.start, { ...cal, offset: est.offset, offsetSigma: est.sigma, offsetSource: 'fitted', gain: (cal.bareLevel! - est.offset) / f.start.modelledBare });
+    set(chips, f.start, { ...cal, offset: est.offset, offsetSigma: est.sigma, offsetSource: 'fitted', gain: (cal.bareLevel! - est.offset) / f.start.modelledBare }, own!.sigma);
   }
 }
 
-function set(chips: Map<number, ChipStart>, start: ChipStart, calibration: ChipCalibration): void {
-  chips.set(calibration.chip, { ...start, calibration });
+function set(chips: Map<number, ChipStart>, start: ChipStart, calibration: ChipCalibration, offsetSigmaRandom: number): void {
+  chips.set(calibration.chip, { ...start, calibration, offsetSigmaRandom });
 }
 
 /** Inverse-variance weighted mean of agreeing fits (each within 3σ of it); null when none or they disagree. */

@@ -6,8 +6,11 @@ import { type FitLayerData } from './layerModel';
  * the offset as exact): the joint fit again with the offset moved by σ_o, started from its
  * estimates, and the change of every index, thickness, optical thickness and rate added in
  * quadrature (first-order propagation; σ² += (∂θ/∂o · σ_o)², the linearised change being
- * ∂θ/∂o · σ_o). A fitted offset in transmittance (σ ≈ 0.15 % of full scale) moves an index
- * deep in the stack by several thousandths, more than the layer's own σ.
+ * ∂θ/∂o · σ_o). σ_o is the offset's random part (a dark reading's noise, a fit's profile and
+ * bare reading): the systematic allowance of a fitted offset for a wandering rate is left out,
+ * since the layers' own σ already grow with the residuals a wandering rate leaves. In
+ * transmittance an offset error of 0.05 % of full scale moves an index deep in the stack by a
+ * few thousandths, more than the layer's own σ.
  * The held gain or the chip-wide gain is refitted with the layers, as in the fit itself.
  */
 export function carryOffsetSigma(

@@ -81,10 +81,8 @@ describe('the offset\'s σ carried into the layers (refit)', () => {
     const { run, trace } = await synthTrace(design, { seed: 44, offset: 0.005, noiseFraction: 0.0005 });
     const r = await analyzeRun(design, trace, { mode: 'refit' });
     const z = r.layers.map((l) => Math.abs(l.index - run.truth[l.layer - 1].index) / l.indexSigma);
+    // Without the offset's σ (the fit taking the fitted offset as exact) the worst layer here
+    // is at 7σ.
     expect(Math.max(...z)).toBeLessThan(3);
-    // The widening follows the offset's σ: an index deep in a transmittance stack moves by
-    // thousandths per 0.15 % of full scale, far above its noise σ (about 3·10⁻⁴ here).
-    const deep = r.layers.filter((l) => (l.layer - 1) % 6 >= 4);
-    for (const l of deep) expect(l.indexSigma).toBeGreaterThan(1e-3);
   });
 });
