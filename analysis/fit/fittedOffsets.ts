@@ -35,7 +35,9 @@ const MODEL_SIGMA = { R: 0.001, T: 0.0015 } as const;
  * the detector's, so fits of chips at one monitor wavelength and mode that agree (each within
  * 3σ of their weighted mean) are pooled. The σ reported adds a systematic part (MODEL_SIGMA) to
  * the profile's. The offset assumed before (0, or an earlier chip's) is kept unless the fit is
- * more than 3σ away from it. A chip whose layers do not determine it gets a warning.
+ * more than 3σ away from it. A chip whose layers do not determine it gets a warning in
+ * reflectance (there a bare chip reads a few % of full scale, and an offset of 0.5 % of full
+ * scale taken as 0 puts thicknesses 10–30 % off).
  */
 export function fitOffsets(
   design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>,
@@ -55,8 +57,11 @@ export function fitOffsets(
     if (!est) {
       if (f.fit === null) continue;
       const sigma = f.fit.sigma;
-      warnings.push(`chip ${cal.chip}: no dark samples before layer ${firstLayer}, and its layers do not determine a detector offset (σ ${Number.isFinite(sigma) ? `${fmt(sigma / scale)} % of full scale` : 'unbounded'}); ${cal.offsetSource === 'assumed' ? 'offset taken as 0' : "an earlier chip's offset used"}: thicknesses may carry a bias`);
-      set(chips, f.start, { ...cal, offsetSigma: Number.isFinite(sigma) ? sigma : 0 }, Number.isFinite(sigma) ? sigma : 0);
+      // In transmittance few layers rarely determine it (a single layer never does): its σ in the
+      // chip's calibration says so, and a warning on every such run would flag ordinary runs.
+      if (f.start.mode === 'R') warnings.push(`chip ${cal.chip}: no dark samples before layer ${firstLayer}, and its layers do not determine a detector offset (σ ${Number.isFinite(sigma) ? `${fmt(sigma / scale)} % of full scale` : 'unbounded'}); ${cal.offsetSource === 'assumed' ? 'offset taken as 0' : "an earlier chip's offset used"}: thicknesses may carry a bias`);
+      // Reported, but not carried into the layers: an offset the data do not bound is no Gaussian error.
+      set(chips, f.start, { ...cal, offsetSigma: Number.isFinite(sigma) ? sigma : 0 }, 0);
       continue;
     }
     const shift = Math.abs(est.offset - cal.offset);
