@@ -12,6 +12,7 @@ import { layerEnds } from './layerEnd';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
+import { carryOffsetSigma } from './offsetSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
@@ -113,9 +114,10 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
-  // A gain drift seen across the chips' bare-chip calibrations is applied within every chip.
+  // A gain drift seen across the chips' bare-chip calibrations (at 3σ: with three chips the
+  // slope's scatter has one degree of freedom) is applied within every chip.
   const drift = o.gainDriftFromChips ? gainDriftFromChips(chipStarts) : null;
-  const knownDrift = drift && Math.abs(drift.driftPerS) > 2 * drift.sigmaPerS ? drift.driftPerS : 0;
+  const knownDrift = drift && Math.abs(drift.driftPerS) > 3 * drift.sigmaPerS ? drift.driftPerS : 0;
   if (drift && knownDrift !== 0) {
     warnings.push(`detector gain drifting ${(knownDrift * 360000).toFixed(2)} % per hour (from the bare-chip calibrations of ${drift.chips} chips); applied within each chip`);
   }
@@ -251,6 +253,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       // A held index's own σ, into every layer of the chip (the joint fit took the index as exact).
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
+      carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss);
       if (shared) {
         cal.refinedGain = shared.gain;
         cal.refinedGainSigma = shared.gainSigma;

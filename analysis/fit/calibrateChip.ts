@@ -1,10 +1,13 @@
-import { levelSteps, longRunSigma, median, noiseSigma, type Level } from '../trace';
+import { levelSteps, longRunSigma, meanSigma, median, noiseSigma, type Level } from '../trace';
 
 export interface ChipCalibration {
   chip: number;
   /** Detector reading per unit of modelled signal. */
   gain: number;
-  /** 1σ of the gain from the noise of the samples it came from (median: √(π/2)·σ/√N). */
+  /**
+   * 1σ of the gain from the noise of the bare-chip samples it came from (the σ of their median,
+   * correlated noise included: medianSigma); the offset's σ is not in it.
+   */
   gainSigma: number;
   /** Detector reading with no light from the chip (dark level, or stray light fitted). */
   offset: number;
@@ -84,10 +87,12 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
       const bareSignal = idle.subarray(bare.start, bare.end);
       const bareLevel = median(bareSignal);
       const s = noiseSigma(bareSignal);
+      // σ of the short dark mean and of the bare mean from the bare stretch's noise (correlated
+      // noise does not average away over a dip shorter than its correlation time).
       return {
         chip, gain: (bareLevel - offset) / modelledBare, offset, offsetSource: dark.length ? 'dark' : offsetSource,
-        offsetSigma: dark.length ? longRunSigma(idle.subarray(bare.start, bare.end)) / Math.sqrt(darkCount) : 0,
-        gainSigma: (1.2533 * s) / Math.sqrt(bareCount) / modelledBare, source: 'bare-chip',
+        offsetSigma: dark.length ? meanSigma(bareSignal, darkCount) : 0,
+        gainSigma: medianSigma(bareSignal, s) / modelledBare, source: 'bare-chip',
         bareSamples: bareCount, darkSamples: darkCount, otherSamples: idle.length - bareCount - darkCount, noiseSigma: s, bareLevel,
       };
     }
@@ -99,6 +104,15 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
     gainSigma: (1.2533 * noiseSigma(first)) / Math.sqrt(first.length) / modelledBare,
     bareSamples: 0, darkSamples: 0, otherSamples: idle.length, noiseSigma: noiseSigma(first), bareLevel: null,
   };
+}
+
+/**
+ * σ of the median of a stretch: the σ of its mean (meanSigma, correlated noise included) plus the
+ * median's extra variance on the white part, (π/2 − 1)·σ²/N (the median's asymptotic variance
+ * πσ²/(2N) for normal samples; from memory).
+ */
+function medianSigma(y: Float64Array, white: number): number {
+  return Math.sqrt(meanSigma(y, y.length) ** 2 + ((Math.PI / 2 - 1) * white * white) / y.length);
 }
 
 /** Samples a level needs to be taken as the bare chip (2 s at 10 Hz) when there is a choice. */

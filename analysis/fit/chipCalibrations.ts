@@ -4,10 +4,8 @@ import { fromNK, growingLayerSignal } from '../optics';
 import { linearTrend } from '../stats';
 import { type TraceData } from '../trace';
 import { calibrateChip, type ChipCalibration } from './calibrateChip';
-import { fitChipOffset } from './chipOffset';
-import { type FitLayerData } from './layerModel';
+import { fitOffsets, pool } from './fittedOffsets';
 import { type LayerSamples } from './layerSamples';
-import { subsampleUniform } from './subsample';
 
 export interface ChipStart {
   calibration: ChipCalibration;
@@ -16,6 +14,13 @@ export interface ChipStart {
   /** Monitor wavelength and mode of that layer (the detector's gain depends on both). */
   wavelengthNm: number;
   mode: 'R' | 'T';
+  /** The modelled bare-chip signal M₀ at that wavelength (gain = (bare reading − offset)/M₀). */
+  modelledBare: number;
+  /**
+   * The random part of the offset's σ, where the calibration's offsetSigma adds a systematic
+   * one (a fitted offset): what the layers' σ take up (see carryOffsetSigma).
+   */
+  offsetSigmaRandom?: number;
 }
 
 /**
@@ -48,43 +53,49 @@ export function calibrateChips(
       ? prevCal.gain * chipSignal(design, before, design.layers.filter((l) => l.monitor.chip === before.monitor.chip && l.layer <= before.layer)) + prevCal.offset
       : undefined;
     const firstCount = Math.min(samples.indices.length, 20);
-    let calibration = calibrateChip({
+    const calibration = calibrateChip({
       chip: samples.chip, modelledBare, knownOffset: lastOffset, previousChipLevel,
       idleSignal: trace.signal.subarray(idleFrom, first),
       firstLayerSignal: Float64Array.from({ length: firstCount }, (_, i) => trace.signal[samples.indices[i]]),
     });
     if (calibration.source === 'first-layer') warnings.push(`chip ${samples.chip}: no bare-chip stretch before layer ${dl.layer}; gain taken from the layer's first samples`);
-    if (fitOffset && calibration.source === 'bare-chip' && calibration.offsetSource !== 'dark') {
-      calibration = withFittedOffset(design, trace, order, samplesByLayer, calibration, modelledBare, warnings);
-    }
     lastOffset = calibration.offset;
-    chips.set(samples.chip, { calibration, startS: samples.startTimeS, wavelengthNm: dl.monitor.wavelengthNm, mode: dl.monitor.mode });
+    chips.set(samples.chip, { calibration, startS: samples.startTimeS, wavelengthNm: dl.monitor.wavelengthNm, mode: dl.monitor.mode, modelledBare });
   }
   shareDarkReadings(chips, warnings);
+  // Only where no chip of the run saw a dark reading is the offset fitted from the layers.
+  if (fitOffset) fitOffsets(design, trace, order, samplesByLayer, chips, warnings);
   return chips;
 }
 
 /**
  * The dark reading (with the stray light while the beam is blocked) belongs to the detector,
- * not the chip: with two or more chips' dark readings, their median serves the chips that had
- * none (or only an assumed or inherited one), and replaces a reading that disagrees with it by
+ * not the chip: the median of the chips' dark readings serves the chips that had none (or only
+ * an assumed or inherited one), with its σ, and replaces a reading that disagrees with it by
  * more than 5σ and 0.1 % of full scale (a dip caught on its slope or a spike), with a warning.
+ * When the remaining readings agree (each within 3σ of their weighted mean), every chip takes
+ * that mean: a dip of half a second under noise correlated over a second is a poor reading on
+ * its own (σ about the noise's), and the chip's gain (bare reading − offset)/M₀ carries its error.
  */
-function shareDarkReadings(chips: Map<number, ChipStart>, warnings: string[]): void {
+export function shareDarkReadings(chips: Map<number, ChipStart>, warnings: string[]): void {
   const dark = [...chips.values()].map((c) => c.calibration).filter((c) => c.offsetSource === 'dark');
-  if (dark.length < 2) return;
+  if (dark.length === 0) return;
   const offsets = dark.map((c) => c.offset).sort((a, b) => a - b);
   const mid = offsets.length >> 1;
   const med = offsets.length % 2 ? offsets[mid] : 0.5 * (offsets[mid - 1] + offsets[mid]);
-  const sigma = Math.sqrt(dark.reduce((a, c) => a + c.offsetSigma ** 2, 0) / dark.length) / Math.sqrt(dark.length);
+  const spread = Math.sqrt(dark.reduce((a, c) => a + c.offsetSigma ** 2, 0) / dark.length) / Math.sqrt(dark.length);
+  const odd = (c: ChipCalibration) => c.offsetSource === 'dark' && Math.abs(c.offset - med) > 5 * Math.hypot(c.offsetSigma, spread) + 0.001 * c.gain;
+  const agreed = pool(dark.filter((c) => !odd(c) && c.offsetSigma > 0).map((c) => ({ offset: c.offset, sigma: c.offsetSigma })));
+  const shared = agreed ?? { offset: med, sigma: spread };
   for (const [chip, start] of chips) {
     const c = start.calibration;
     if (c.offsetSource === 'fitted' || c.bareLevel === null) continue;
-    const odd = c.offsetSource === 'dark' && Math.abs(c.offset - med) > 5 * Math.hypot(c.offsetSigma, sigma) + 0.001 * c.gain;
-    if (c.offsetSource === 'dark' && !odd) continue;
-    if (odd) warnings.push(`chip ${chip}: its dark reading ${c.offset.toFixed(4)} disagrees with the other chips' (median ${med.toFixed(4)}); the median used`);
+    const isOdd = odd(c);
+    if (c.offsetSource === 'dark' && !isOdd && !agreed) continue;
+    if (isOdd) warnings.push(`chip ${chip}: its dark reading ${c.offset.toFixed(4)} disagrees with the other chips' (median ${med.toFixed(4)}); ${agreed ? 'their mean' : 'the median'} used`);
     const m0 = (c.bareLevel - c.offset) / c.gain;
-    chips.set(chip, { ...start, calibration: { ...c, offset: med, offsetSigma: sigma, offsetSource: 'other-chips', gain: (c.bareLevel - med) / m0 } });
+    const source = c.offsetSource === 'dark' && !isOdd ? 'dark' : 'other-chips';
+    chips.set(chip, { ...start, calibration: { ...c, offset: shared.offset, offsetSigma: shared.sigma, offsetSource: source, gain: (c.bareLevel - shared.offset) / m0 } });
   }
 }
 
@@ -98,65 +109,14 @@ function chipSignal(design: Design, dl: DesignLayer, stack: readonly DesignLayer
   }, [0])[0];
 }
 
-/** Layers the offset fit uses: the chip's first ones. */
-const OFFSET_FIT_LAYERS = 3;
-/** Samples per layer in the offset fit. */
-const OFFSET_FIT_POINTS = 100;
-
-function withFittedOffset(
-  design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>,
-  cal: ChipCalibration, modelledBare: number, warnings: string[],
-): ChipCalibration {
-  const own = order.filter((l) => samplesByLayer.get(l.layer)!.chip === cal.chip && samplesByLayer.get(l.layer)!.tauS.length >= 20).slice(0, OFFSET_FIT_LAYERS);
-  // In transmittance the chip's first layers (high readings) cannot tell an offset from the gain
-  // (σ of 0.3–1 % of full scale on our tests, and biased by rate drift): not attempted.
-  if (own.length === 0 || cal.bareLevel === null || own[0].monitor.mode === 'T') return cal;
-  const layers = own.map((dl) => offsetFitData(design, trace, dl, samplesByLayer.get(dl.layer)!));
-  const fit = fitChipOffset({
-    layers, bareLevel: cal.bareLevel, modelledBare, startOffset: cal.offset,
-    rateGuess: own.map((dl, j) => dl.thicknessNm / Math.max(layers[j].durationS, 1e-9)),
-  });
-  const scale = Math.abs(cal.bareLevel);
-  const firstLayer = own[0].layer;
-  if (!(fit.sigma < 0.01 * scale)) {
-    warnings.push(`chip ${cal.chip}: no dark samples before layer ${firstLayer}, and its layers do not determine a detector offset (σ ${fmt(fit.sigma / scale)} % of the bare reading); ${cal.offsetSource === 'assumed' ? 'offset taken as 0' : "an earlier chip's offset used"}: thicknesses may carry a bias`);
-    return { ...cal, offsetSigma: Number.isFinite(fit.sigma) ? fit.sigma : 0 };
-  }
-  // Keep the assumed offset unless the layers show a clearly different one. The profile holds
-  // the rate constant within each layer (a free rate drift makes the offset undetermined), so a
-  // drifting or wandering rate biases it, by about 0.1 % of full scale in reflectance on our tests.
-  const shift = Math.abs(fit.offset - cal.offset);
-  if (shift <= 3 * fit.sigma || shift <= 0.0015 * cal.gain) return { ...cal, offsetSigma: fit.sigma };
-  return {
-    ...cal, offset: fit.offset, offsetSigma: fit.sigma, offsetSource: 'fitted',
-    gain: (cal.bareLevel - fit.offset) / modelledBare,
-  };
-}
-
-const fmt = (x: number) => (100 * x).toFixed(2);
-
-/** One layer's samples (at most OFFSET_FIT_POINTS) for the offset fit: index free above half a quarter-wave, no rate drift. */
-function offsetFitData(design: Design, trace: TraceData, dl: DesignLayer, s: LayerSamples): FitLayerData {
-  const wl = dl.monitor.wavelengthNm;
-  const model = design.materials[dl.material];
-  const nominal = indexAt(model, wl);
-  const n = s.tauS.length;
-  const sub = subsampleUniform(s.tauS, 0, n, OFFSET_FIT_POINTS);
-  const thin = (4 * nominal.re * dl.thicknessNm) / wl < 0.5;
-  return {
-    optics: { ambient: indexAt(design.ambient, wl), substrate: indexAt(design.substrate, wl), backside: design.substrateBackside, wavelengthNm: wl, mode: dl.monitor.mode },
-    nominalAt: (w) => indexAt(model, w), tauS: Float64Array.from(sub, (k) => s.tauS[k]), y: Float64Array.from(sub, (k) => trace.signal[s.indices[k]]),
-    durationS: s.tauS[n - 1], extinction: -nominal.im, heldIndex: thin ? nominal.re : null, fitDrift: false, heldGain: null, chipTimeS: 0,
-  };
-}
-
 /**
  * The detector's gain drift from the bare-chip calibrations of successive chips (every fresh
  * chip reads the same bare substrate): a linear trend of gain against time, as a fraction per
  * second of the mean gain. Only where the data can carry it: three or more bare-chip
  * calibrations at one monitor wavelength and mode (two chips cannot tell a drift from a
  * difference between the chips, so the scatter about the line must be seen), each gain's σ
- * including its offset's (σ_g² + (σ_o/M₀)², M₀ = (B − o)/g). Null otherwise.
+ * including its offset's (σ_g² + (σ_o/M₀)², M₀ = (B − o)/g) unless one offset serves every
+ * chip. The caller applies it only where it is significant. Null otherwise.
  */
 export function gainDriftFromChips(chips: ReadonlyMap<number, ChipStart>): { driftPerS: number; sigmaPerS: number; chips: number } | null {
   const bare = [...chips.values()].filter((c) => c.calibration.source === 'bare-chip');
@@ -166,9 +126,12 @@ export function gainDriftFromChips(chips: ReadonlyMap<number, ChipStart>): { dri
   const mean = gains.reduce((a, b) => a + b, 0) / gains.length;
   const times = bare.map((c) => c.startS);
   const trend = linearTrend(times, gains);
+  // One offset shared by every chip (pooled dark readings, a pooled fit, or one assumed) moves
+  // all their gains alike and tells nothing about a drift: its σ is left out then.
+  const common = bare.every((c) => c.calibration.offset === bare[0].calibration.offset);
   const gainVar = (c: ChipCalibration) => {
     const m0 = ((c.bareLevel ?? c.offset) - c.offset) / c.gain;
-    return c.gainSigma ** 2 + (m0 > 0 ? (c.offsetSigma / m0) ** 2 : 0);
+    return c.gainSigma ** 2 + (m0 > 0 && !common ? (c.offsetSigma / m0) ** 2 : 0);
   };
   // σ of the slope: the larger of the scatter about the line and the calibrations' own σ.
   const tMean = times.reduce((a, t) => a + t, 0) / times.length;

@@ -11,5 +11,5 @@ export { decimateIndices } from './decimateIndices';
 export { realFftMagnitude } from './realFftMagnitude';
 export { median, noiseSigma } from './robustStats';
 export { flatStretches, type FlatStretch, type FlatStretchOptions } from './flatStretches';
-export { levelSteps, longRunSigma, type Level, type LevelStepOptions } from './levelSteps';
+export { levelSteps, longRunSigma, meanSigma, type Level, type LevelStepOptions } from './levelSteps';
 export type { ReadTraceOptions, TraceData, TraceScan, TraceWarning, Segment, Segmentation } from './types';

@@ -45,9 +45,32 @@ export function levelSteps(y: ArrayLike<number>, options: LevelStepOptions = {})
  * first differences (Var = 2σ²(1 − ρ)). Never below the white σ of second differences.
  */
 export function longRunSigma(y: ArrayLike<number>): number {
+  const ar = ar1Noise(y);
+  if (!ar) return noiseSigma(y);
+  return Math.max(noiseSigma(y), Math.sqrt(ar.variance * ((1 + ar.rho) / (1 - ar.rho))));
+}
+
+/**
+ * σ of the mean of m consecutive samples with the noise of `y` (AR(1), as longRunSigma):
+ * Var = (σ²/m)·[1 + 2·Σ_{k=1}^{m−1} (1 − k/m)·ρ^k] (Box and Jenkins, the variance of a sample
+ * mean of a stationary series; from memory). For m much shorter than the correlation this stays
+ * near σ (a short dark dip under a lock-in's slow noise averages nothing away); for m much
+ * longer it tends to longRunSigma/√m. Never below the white σ over √m.
+ */
+export function meanSigma(y: ArrayLike<number>, m: number): number {
+  const count = Math.max(1, Math.floor(m));
+  const white = noiseSigma(y) / Math.sqrt(count);
+  const ar = ar1Noise(y);
+  if (!ar) return white;
+  let sum = 1;
+  for (let k = 1, rk = ar.rho; k < count; k++, rk *= ar.rho) sum += 2 * (1 - k / count) * rk;
+  return Math.max(white, Math.sqrt((ar.variance / count) * sum));
+}
+
+/** Robust σ² and lag-1 correlation ρ of an AR(1) noise (see longRunSigma); null for short series. */
+function ar1Noise(y: ArrayLike<number>): { variance: number; rho: number } | null {
   const n = y.length;
-  const white = noiseSigma(y);
-  if (n < 40) return white;
+  if (n < 40) return null;
   // Two or three correlation times of a lock-in (1 s at 10 Hz), few enough to keep steps rare among the differences.
   const lag = Math.min(25, Math.floor(n / 8));
   const mad = (k: number) => {
@@ -59,9 +82,8 @@ export function longRunSigma(y: ArrayLike<number>): number {
   };
   const total2 = mad(lag) ** 2 / 2;
   const first2 = mad(1) ** 2;
-  if (!(total2 > 0)) return white;
-  const rho = Math.min(Math.max(1 - first2 / (2 * total2), 0), 0.98);
-  return Math.max(white, Math.sqrt(total2 * ((1 + rho) / (1 - rho))));
+  if (!(total2 > 0)) return null;
+  return { variance: total2, rho: Math.min(Math.max(1 - first2 / (2 * total2), 0), 0.98) };
 }
 
 function search(y: ArrayLike<number>, sigma: number, options: LevelStepOptions): Level[] {

@@ -23,17 +23,21 @@ describe('chip calibration without dark samples', () => {
     // The profile holds each layer's rate constant: allow 3σ and a small bias.
     expect(Math.abs(c.offset - 0.005)).toBeLessThan(3 * c.offsetSigma + 3e-4);
     expect(c.offsetSigma).toBeGreaterThan(0);
-    expect(c.offsetSigma).toBeLessThan(0.001);
+    // σ: the profile's (about 0.02 % of full scale) and the systematic 0.1 % of full scale for a
+    // rate the profile holds constant, in quadrature.
+    expect(c.offsetSigma).toBeLessThan(0.0015);
     // The same run with 10 s of dark samples at the start (offset measured, not fitted).
     const { run: withDark, trace: darkTrace } = await synthTrace(design, { seed: 41, offset: 0.005, darkS: 10 });
     const reference = await analyzeRun(design, darkTrace);
     expect(reference.chips[0].offsetSource).toBe('dark');
     const fitted = rmsThicknessPct(result, run), measured = rmsThicknessPct(reference, withDark);
     console.log(`reflectance mirror, 0.5 % offset: RMS thickness error ${fitted.toFixed(2)} % (offset fitted) vs ${measured.toFixed(2)} % (dark samples)`);
-    // Without the fitted offset this run came out 10–30 % off. With it, still about 1 %: issue 7's
-    // 0.5 % target for this case is tracked by the chamber harness's pending R-offset scenario.
-    expect(fitted).toBeLessThan(1.5);
-    expect(measured).toBeLessThan(fitted);
+    // Without the fitted offset this run came out 10–30 % off. With it (three chips' fits pooled),
+    // as close as with a measured dark reading: the two traces differ in their noise (the dark
+    // samples shift the noise stream), so neither need be the better.
+    expect(fitted).toBeLessThan(0.5);
+    expect(fitted).toBeLessThan(1.5 * measured);
+    expect(Math.abs(c.offset - reference.chips[0].offset)).toBeLessThan(3 * c.offsetSigma);
     // fitOffset: false (an engineer's re-analysis) keeps the offset assumed, and the error returns.
     const assumed = await analyzeRun(design, trace, { fitOffset: false });
     expect(assumed.chips[0].offsetSource).not.toBe('fitted');

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { levelSteps } from '../levelSteps';
+import { levelSteps, meanSigma } from '../levelSteps';
 import { gaussian } from './rng';
 
 /** Levels [value, samples] in sequence with white noise σ, or AR(1) noise of correlation ρ. */
@@ -45,5 +45,44 @@ describe('levelSteps (binary segmentation of a piecewise-constant series)', () =
     expect(merged[0].mean).toBeCloseTo(1.005, 3);
     expect(levelSteps([])).toEqual([]);
     expect(levelSteps([3, 3, 3])).toEqual([{ start: 0, end: 3, mean: 3 }]);
+  });
+});
+
+describe('meanSigma (σ of a mean of m consecutive samples)', () => {
+  // The check: block means of simulated series, their spread measured directly (no formula of
+  // the code involved), against the code's estimate from one stretch of the same noise.
+  function blockMeanSpread(y: Float64Array, m: number): number {
+    const means: number[] = [];
+    for (let i = 0; i + m <= y.length; i += m) {
+      let s = 0;
+      for (let k = i; k < i + m; k++) s += y[k];
+      means.push(s / m);
+    }
+    const mu = means.reduce((a, b) => a + b, 0) / means.length;
+    return Math.sqrt(means.reduce((a, b) => a + (b - mu) ** 2, 0) / (means.length - 1));
+  }
+
+  it('is σ/√m for white noise', () => {
+    const y = staircase([[0.5, 4000]], 0.001, 21);
+    for (const m of [5, 50]) expect(meanSigma(y, m) / (0.001 / Math.sqrt(m))).toBeCloseTo(1, 1);
+  });
+
+  it('follows the measured spread of block means for AR(1) noise, from short dips to long stretches', () => {
+    // ρ = e^(−0.1): a 1 s correlation sampled at 10 Hz, as a lock-in gives.
+    const rho = Math.exp(-0.1);
+    const long = staircase([[0.5, 200_000]], 0.0006, 22, rho);
+    // A stretch of 400 correlation times; one of 20 (a 20 s bare chip) gives σ within a factor of
+    // about 3 either way (the long-run variance of a short stretch is itself that uncertain).
+    for (const from of [0, 50_000, 100_000]) {
+      const stretch = long.subarray(from, from + 4000);
+      for (const m of [5, 20, 200]) {
+        const ratio = meanSigma(stretch, m) / blockMeanSpread(long, m);
+        expect(ratio).toBeGreaterThan(0.75);
+        expect(ratio).toBeLessThan(1.33);
+      }
+    }
+    const stretch = long.subarray(0, 4000);
+    // A short dip averages almost nothing away: σ of a 5-sample mean stays near the noise's σ.
+    expect(meanSigma(stretch, 5)).toBeGreaterThan(0.8 * 0.0006);
   });
 });

@@ -1,0 +1,120 @@
+import { type Design, type DesignLayer } from '../design';
+import { indexAt } from '../materials';
+import { type TraceData } from '../trace';
+import { type ChipCalibration } from './calibrateChip';
+import { type ChipStart } from './chipCalibrations';
+import { fitChipOffset, type OffsetFit } from './chipOffset';
+import { type FitLayerData } from './layerModel';
+import { type LayerSamples } from './layerSamples';
+import { subsampleUniform } from './subsample';
+
+/**
+ * Layers the offset fit uses: the chip's first ones, per monitor mode. In transmittance the first
+ * layers read high and cannot tell an offset from the gain (σ of 0.2–0.3 % of full scale from
+ * three layers of a quarter-wave mirror); six, reaching down to a third of the bare reading,
+ * bring σ to about 0.05 % of full scale on the chamber harness. In reflectance three suffice
+ * (σ about 0.02 % of full scale); more bring in the level-cut and later layers' rate errors.
+ */
+const OFFSET_FIT_LAYERS = { R: 3, T: 6 } as const;
+/** Samples per layer in the offset fit. */
+const OFFSET_FIT_POINTS = 100;
+/** A fit counts only with σ under this fraction of full scale (bare reading / modelled bare signal). */
+const WELL_DETERMINED = 0.002;
+/**
+ * Systematic σ of a fitted offset, as a fraction of full scale, per monitor mode: the profile
+ * holds each layer's rate constant (a free rate drift leaves the offset undetermined in
+ * transmittance), so a rate that wanders within the layer biases it, alike on every chip of a
+ * run: by 0.3–0.4 % of full scale in transmittance (1.5 % wander, 15 s correlation) and about
+ * 0.1 % in reflectance on the chamber harness. Not reduced by pooling chips.
+ */
+const MODEL_SIGMA = { R: 0.001, T: 0.0015 } as const;
+
+/**
+ * The detector offset (stray light) of chips that had no dark reading (nor one shared from
+ * another chip): fitted from each chip's first layers (fitChipOffset), with σ. The offset is
+ * the detector's, so fits of chips at one monitor wavelength and mode that agree (each within
+ * 3σ of their weighted mean) are pooled. The σ reported adds a systematic part (MODEL_SIGMA) to
+ * the profile's. The offset assumed before (0, or an earlier chip's) is kept unless the fit is
+ * more than 3σ away from it. A chip whose layers do not determine it gets a warning in
+ * reflectance (there a bare chip reads a few % of full scale, and an offset of 0.5 % of full
+ * scale taken as 0 puts thicknesses 10–30 % off).
+ */
+export function fitOffsets(
+  design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>,
+  chips: Map<number, ChipStart>, warnings: string[],
+): void {
+  const todo = [...chips.values()].filter((c) => c.calibration.bareLevel !== null && (c.calibration.offsetSource === 'assumed' || c.calibration.offsetSource === 'earlier-chip'));
+  const fits = todo.map((start) => ({ start, fit: fitOne(design, trace, order, samplesByLayer, start) }));
+  const good = (f: (typeof fits)[number]) => f.fit !== null && f.fit.sigma < WELL_DETERMINED * Math.abs(f.start.calibration.bareLevel! / f.start.modelledBare);
+  for (const f of fits) {
+    const cal = f.start.calibration;
+    const scale = Math.abs(cal.bareLevel! / f.start.modelledBare);
+    const group = fits.filter((g) => good(g) && g.start.wavelengthNm === f.start.wavelengthNm && g.start.mode === f.start.mode);
+    const pooled = pool(group.map((g) => g.fit!));
+    const own = pooled ?? (good(f) ? { offset: f.fit!.offset, sigma: f.fit!.sigma } : null);
+    const est = own && { offset: own.offset, sigma: Math.hypot(own.sigma, MODEL_SIGMA[f.start.mode] * scale) };
+    const firstLayer = order.find((l) => samplesByLayer.get(l.layer)!.chip === cal.chip)?.layer;
+    if (!est) {
+      if (f.fit === null) continue;
+      const sigma = f.fit.sigma;
+      // In transmittance few layers rarely determine it (a single layer never does): its σ in the
+      // chip's calibration says so, and a warning on every such run would flag ordinary runs.
+      if (f.start.mode === 'R') warnings.push(`chip ${cal.chip}: no dark samples before layer ${firstLayer}, and its layers do not determine a detector offset (σ ${Number.isFinite(sigma) ? `${fmt(sigma / scale)} % of full scale` : 'unbounded'}); ${cal.offsetSource === 'assumed' ? 'offset taken as 0' : "an earlier chip's offset used"}: thicknesses may carry a bias`);
+      // Reported, but not carried into the layers: an offset the data do not bound is no Gaussian error.
+      set(chips, f.start, { ...cal, offsetSigma: Number.isFinite(sigma) ? sigma : 0 }, 0);
+      continue;
+    }
+    const shift = Math.abs(est.offset - cal.offset);
+    if (shift <= 3 * est.sigma) {
+      set(chips, f.start, { ...cal, offsetSigma: est.sigma }, own!.sigma);
+      continue;
+    }
+    set(chips, f.start, { ...cal, offset: est.offset, offsetSigma: est.sigma, offsetSource: 'fitted', gain: (cal.bareLevel! - est.offset) / f.start.modelledBare }, own!.sigma);
+  }
+}
+
+function set(chips: Map<number, ChipStart>, start: ChipStart, calibration: ChipCalibration, offsetSigmaRandom: number): void {
+  chips.set(calibration.chip, { ...start, calibration, offsetSigmaRandom });
+}
+
+/** Inverse-variance weighted mean of agreeing fits (each within 3σ of it); null when none or they disagree. */
+export function pool(fits: readonly Pick<OffsetFit, 'offset' | 'sigma'>[]): { offset: number; sigma: number } | null {
+  if (fits.length === 0) return null;
+  const w = fits.map((f) => 1 / (f.sigma * f.sigma));
+  const sw = w.reduce((a, b) => a + b, 0);
+  const offset = fits.reduce((a, f, i) => a + w[i] * f.offset, 0) / sw;
+  if (fits.some((f) => Math.abs(f.offset - offset) > 3 * f.sigma)) return null;
+  return { offset, sigma: 1 / Math.sqrt(sw) };
+}
+
+function fitOne(design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>, start: ChipStart): OffsetFit | null {
+  const cal = start.calibration;
+  const own = order.filter((l) => samplesByLayer.get(l.layer)!.chip === cal.chip && samplesByLayer.get(l.layer)!.tauS.length >= 20).slice(0, OFFSET_FIT_LAYERS[start.mode]);
+  if (own.length === 0 || cal.bareLevel === null) return null;
+  const layers = own.map((dl) => offsetFitData(design, trace, dl, samplesByLayer.get(dl.layer)!));
+  const fit = fitChipOffset({
+    layers, bareLevel: cal.bareLevel, modelledBare: start.modelledBare, startOffset: cal.offset,
+    rateGuess: own.map((dl, j) => dl.thicknessNm / Math.max(layers[j].durationS, 1e-9)),
+  });
+  // The gain is tied to the bare reading: where the layers pin the gain down, the offset takes up
+  // the bare reading's own error (σ_B = gainSigma·M₀), which the profile does not see.
+  const bareSigma = cal.gainSigma * start.modelledBare;
+  return { ...fit, sigma: Math.hypot(fit.sigma, bareSigma) };
+}
+
+const fmt = (x: number) => (100 * x).toFixed(2);
+
+/** One layer's samples (at most OFFSET_FIT_POINTS) for the offset fit: index free above half a quarter-wave, no rate drift. */
+function offsetFitData(design: Design, trace: TraceData, dl: DesignLayer, s: LayerSamples): FitLayerData {
+  const wl = dl.monitor.wavelengthNm;
+  const model = design.materials[dl.material];
+  const nominal = indexAt(model, wl);
+  const n = s.tauS.length;
+  const sub = subsampleUniform(s.tauS, 0, n, OFFSET_FIT_POINTS);
+  const thin = (4 * nominal.re * dl.thicknessNm) / wl < 0.5;
+  return {
+    optics: { ambient: indexAt(design.ambient, wl), substrate: indexAt(design.substrate, wl), backside: design.substrateBackside, wavelengthNm: wl, mode: dl.monitor.mode },
+    nominalAt: (w) => indexAt(model, w), tauS: Float64Array.from(sub, (k) => s.tauS[k]), y: Float64Array.from(sub, (k) => trace.signal[s.indices[k]]),
+    durationS: s.tauS[n - 1], extinction: -nominal.im, heldIndex: thin ? nominal.re : null, fitDrift: false, heldGain: null, chipTimeS: 0,
+  };
+}
