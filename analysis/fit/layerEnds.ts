@@ -1,0 +1,251 @@
+import { type LayerAt } from '../optics';
+import { type TraceData } from '../trace';
+import { timeToThickness } from './cutTiming';
+import { type JointFitResult, type LayerEstimate } from './fitLayers';
+import { growthFromNext } from './growthFromNext';
+import { jointGrowth } from './jointGrowth';
+import { growthLogLikelihood, growthPosterior, type GaussianEvidence, type GrowthEstimate, type GrowthEvidence } from './growthPosterior';
+import { levelEvidence, settledLevelAfter, startCheck, startLevel, type LevelEvidence, type SettledLevel } from './layerEnd';
+import { layerAtWavelength, thicknessAt, type FitLayerData, type MonitorOptics } from './layerModel';
+import { type LayerSamples } from './layerSamples';
+import { ShutterTime } from './shutterTime';
+import { type StackCovariance } from './stackUncertainty';
+
+/** What the end of a layer needs of its state (a LayerState's parts); `estimate`, `fit.durationS` and `refit.durationS` are updated. */
+export interface EndedLayer {
+  design: { layer: number };
+  samples: LayerSamples;
+  optics: MonitorOptics;
+  nominal: { im: number };
+  calibration: { offset: number };
+  estimate: LayerEstimate;
+  fit: FitLayerData;
+  refit: FitLayerData;
+}
+
+/** Longest shutter closing time considered, s (the issue's chambers take 0.1–1 s; margin above). */
+export const MAX_SHUTTER_S = 2;
+/** The layer's last readings that set its curve's local misfit, s. */
+const LAST_READINGS_S = 3;
+/** A growth counts as determined by the data (and its time joins the run's shutter time) when its σ is below this fraction of the largest growth considered. */
+const DETERMINED = 0.1;
+
+interface EndRecord {
+  s: EndedLayer;
+  chip: number;
+  /** Time base at the last logged sample, s. */
+  loggedS: number;
+  settled: SettledLevel | null;
+  level: LevelEvidence | null;
+  /** The growth from the next layer's start (absolute, nm), once that layer is fitted. */
+  next: GaussianEvidence | null;
+  growth: GrowthEstimate;
+}
+
+/**
+ * The end of every layer of a run (one instance per analysis, layers in deposition order).
+ *
+ * The film keeps growing while the shutter closes after the logged cut. Three things in the
+ * data tell how much (see layerEnd, growthFromNext, shutterTime): the idle level once the
+ * shutter has closed (first order off an extremum, second order at a turning point); the next
+ * layer on the chip, whose start on its fringe depends on the stack below (first order even
+ * after a turning-point cut); and, for a layer with neither (a turning-point cut, last on its
+ * chip), the shutter time the other layers of the run show. Their posterior (growthPosterior)
+ * extends the layer's time base, so its thickness and the stack under later layers are the
+ * final ones, and its σ reaches the layer's thickness, optical thickness and cut error σ.
+ * Each layer is also checked to start where the one below ended (startCheck).
+ */
+export class LayerEnds {
+  private readonly starts: number[];
+  private readonly lastOnChip = new Map<number, EndRecord>();
+  private readonly records: EndRecord[] = [];
+  private readonly shutter = new ShutterTime();
+  /** Layers whose growth the final joint fit of their chip re-estimated (their σ hold it already). */
+  private readonly joint = new WeakSet<EndRecord>();
+  /** The thickness and optical-thickness σ of an estimate before the growth's σ was added. */
+  private readonly baseSigma = new WeakMap<LayerEstimate, { d: number; nd: number }>();
+
+  constructor(private readonly trace: TraceData, samplesByLayer: ReadonlyMap<number, LayerSamples>, private readonly warnings: string[]) {
+    this.starts = [...samplesByLayer.values()].map((s) => s.indices[0]).sort((a, b) => a - b);
+  }
+
+  /** After a layer's own fit: checks its start against the layer below, reads its settled level and sets a first estimate of its growth. */
+  ended(s: EndedLayer, below: readonly LayerAt[]): void {
+    const { samples } = s;
+    const { signal } = this.trace;
+    const n = samples.indices.length;
+    const previous = this.lastOnChip.get(samples.chip);
+    if (previous?.settled) {
+      const count = Math.min(n, 40);
+      const start = startLevel(samples.tauS.subarray(0, count), Array.from({ length: count }, (_, i) => signal[samples.indices[i]]));
+      const note = start ? startCheck(s.design.layer, previous.s.design.layer, previous.settled, start) : null;
+      if (note) this.warnings.push(note);
+    }
+    const lastIndex = samples.indices[n - 1];
+    const nextStart = this.starts.find((i) => i > lastIndex) ?? signal.length;
+    const settled = settledLevelAfter(signal, lastIndex + 1, nextStart);
+    const loggedS = s.fit.durationS;
+    const rec: EndRecord = { s, chip: samples.chip, loggedS, settled, level: null, next: null, growth: { deltaNm: 0, sigmaNm: 0 } };
+    const e = s.estimate;
+    if (settled && n >= 10) {
+      let k = n - 1;
+      while (k > 0 && n - k < 10) k--;
+      while (k > 0 && samples.tauS[n - 1] - samples.tauS[k - 1] <= LAST_READINGS_S) k--;
+      rec.level = levelEvidence({
+        settled, optics: s.optics, below, index: e.index, extinction: -s.nominal.im, rateNmPerS: e.rateNmPerS, rateDriftNmPerS2: e.rateDriftNmPerS2,
+        durationS: loggedS, gain: e.gain, offset: s.calibration.offset,
+        lastReadings: Array.from({ length: n - k }, (_, i) => signal[samples.indices[k + i]]), lastTauS: samples.tauS.subarray(k),
+      });
+      if (offCurve(this.evidence(rec, false))) {
+        this.warnings.push(`layer ${s.design.layer}: the idle reading after the cut (${settled.level.toFixed(4)}) is not on the layer's modelled curve within ${MAX_SHUTTER_S} s of further growth; the growth after the cut is not read from it`);
+        rec.level = null;
+      }
+    }
+    this.records.push(rec);
+    this.lastOnChip.set(samples.chip, rec);
+    this.estimateAlone(rec);
+  }
+
+  /**
+   * After a layer's fit on a chip with a layer below: the growth of the layer below from this
+   * layer's start (growthFromNext), combined with that layer's idle level. Updates the layer
+   * below (its time base, estimate and σ) and its entry in `below`; true when it moved enough
+   * that this layer should be fitted again on the new stack.
+   */
+  fromNext(chip: number, below: LayerAt[], layer: FitLayerData, result: JointFitResult, offsetSignal: number, gainPriorWeight: number): boolean {
+    const rec = this.lastOnChip.get(chip);
+    if (!rec || below.length === 0) return false;
+    const g = growthFromNext({
+      below, layer, params: result.solver.params, offsetSignal, gainPriorWeight,
+      residualVariance: result.solver.ssr / Math.max(result.solver.dof, 1), noiseCorrelation: result.layers[0].noiseCorrelation,
+    });
+    if (!g) return false;
+    rec.next = { meanNm: rec.growth.deltaNm + g.deltaNm, sigmaNm: g.sigmaNm };
+    const before = rec.growth.deltaNm;
+    const growth = growthPosterior(this.evidence(rec, false));
+    (globalThis as any).__endNext?.push({ layer: rec.s.design.layer, prov: before, step: g.deltaNm, sigma: g.sigmaNm, final: growth.deltaNm, fsigma: growth.sigmaNm });
+    if ((globalThis as any).__endDebug) console.log(`DBG next L${rec.s.design.layer} prov ${before.toFixed(3)} step ${g.deltaNm.toFixed(3)}±${g.sigmaNm.toFixed(3)} level ${rec.level ? JSON.stringify(growthPosterior({ maxNm: this.evidence(rec, false).maxNm, level: this.evidence(rec, false).level })) : '-'} → ${growth.deltaNm.toFixed(3)}±${growth.sigmaNm.toFixed(3)}`);
+    this.apply(rec, growth);
+    this.record(rec, growth);
+    below[below.length - 1] = layerAtWavelength(rec.s.fit, rec.s.estimate, layer.optics.wavelengthNm);
+    return Math.abs(growth.deltaNm - before) > 0.25 * Math.max(growth.sigmaNm, 1e-6);
+  }
+
+  /** The chip's stack covariance (sequential fits) with the growth's variance added to the thickness of its top layer. */
+  stackWithGrowth(chip: number, stack: StackCovariance): StackCovariance {
+    const rec = this.lastOnChip.get(chip);
+    if (!rec || stack.size === 0) return stack;
+    const cov = Float64Array.from(stack.cov);
+    cov[stack.size * stack.size - 1] += rec.growth.sigmaNm ** 2;
+    return { size: stack.size, cov };
+  }
+
+  /**
+   * After a chip's final joint fit (refit): every growth but the chip's last re-read against
+   * the jointly fitted stack (jointGrowth), the layers' estimates and σ with it.
+   */
+  afterJointFit(data: readonly FitLayerData[], states: readonly EndedLayer[], offsetSignal: number, sharedGain: { gain: number; driftPerS: number; fitDrift: boolean } | null): void {
+    const recs = states.map((s) => this.records.find((r) => r.s === s) ?? null);
+    const out = jointGrowth({
+      data, estimates: states.map((s) => s.estimate), sharedGain, offsetSignal,
+      growth: recs.map((r, j) => (r && j + 1 < states.length ? { loggedS: r.loggedS, deltaNm: r.growth.deltaNm } : null)),
+      finalize: (j, joint) => {
+        const rec = recs[j]!;
+        rec.next = joint;
+        return growthPosterior(this.evidence(rec, false));
+      },
+    });
+    if (!out) return;
+    out.forEach((o, j) => {
+      const s = states[j];
+      s.estimate = o.estimate;
+      s.fit.durationS = s.refit.durationS = o.durationS;
+      const rec = recs[j];
+      if (rec && o.growth) {
+        rec.growth = o.growth;
+        this.joint.add(rec);
+      }
+    });
+  }
+
+  /**
+   * After the pass (and, in refit, after the final joint fits): a layer with no next layer
+   * takes the run's shutter time; with `jointEstimates` (refit, whose final fits replaced
+   * every estimate) the growth's σ is added where the joint step did not already.
+   */
+  finish(jointEstimates: boolean): void {
+    for (const rec of this.records) {
+      if (rec.next === null) this.estimateAlone(rec);
+      else if (jointEstimates && !this.joint.has(rec)) this.apply(rec, rec.growth, true);
+    }
+  }
+
+  /**
+   * The growth of a layer without its next layer's evidence: its idle level when that
+   * determines it; else the run's shutter time (other layers); else none is added and its
+   * possible size goes into σ (the level's posterior's root-mean-square distance from 0).
+   */
+  private estimateAlone(rec: EndRecord): void {
+    const own = growthPosterior(this.evidence(rec, false));
+    const maxNm = finalRate(rec.loggedS, rec.s.estimate) * MAX_SHUTTER_S;
+    const determined = own.sigmaNm < DETERMINED * maxNm;
+    const withShutter = this.evidence(rec, true);
+    const growth = determined ? own
+      : withShutter.gaussians?.length ? growthPosterior(withShutter)
+        : { deltaNm: 0, sigmaNm: Math.hypot(own.deltaNm, own.sigmaNm) };
+    if ((globalThis as any).__endDebug) console.log(`DBG alone L${rec.s.design.layer} own ${own.deltaNm.toFixed(3)}±${own.sigmaNm.toFixed(3)} → ${growth.deltaNm.toFixed(3)}±${growth.sigmaNm.toFixed(3)} pool ${JSON.stringify(this.shutter.predict(rec.s.design.layer))}`);
+    this.apply(rec, growth);
+    this.record(rec, determined ? own : null);
+  }
+
+  private evidence(rec: EndRecord, withShutter: boolean): GrowthEvidence {
+    const e = rec.s.estimate;
+    const rate = finalRate(rec.loggedS, e);
+    const gaussians: GaussianEvidence[] = [];
+    if (rec.next) gaussians.push(rec.next);
+    const t = withShutter ? this.shutter.predict(rec.s.design.layer) : null;
+    if (t) gaussians.push({ meanNm: rate * t.timeS, sigmaNm: rate * t.sigmaS });
+    return {
+      maxNm: rate * MAX_SHUTTER_S, gaussians,
+      ...(rec.level ? { level: { predict: rec.level.predict, observed: rec.level.settled.level, sigma: rec.level.sigma } } : {}),
+    };
+  }
+
+  /** A determined growth's time joins the run's shutter time; an undetermined one leaves it. */
+  private record(rec: EndRecord, growth: GrowthEstimate | null): void {
+    const rate = finalRate(rec.loggedS, rec.s.estimate);
+    const layer = rec.s.design.layer;
+    if (growth && growth.sigmaNm < DETERMINED * rate * MAX_SHUTTER_S) this.shutter.add(layer, growth.deltaNm / rate, growth.sigmaNm / rate);
+    else this.shutter.remove(layer);
+  }
+
+  /** The growth into the layer's time base (unless `keepTime`), thickness and σ. */
+  private apply(rec: EndRecord, growth: GrowthEstimate, keepTime = false): void {
+    rec.growth = growth;
+    const { s } = rec;
+    const e = s.estimate;
+    const base = this.baseSigma.get(e) ?? { d: e.thicknessSigmaNm, nd: e.opticalThicknessSigmaNm };
+    if (!keepTime) {
+      const loggedNm = thicknessAt(rec.loggedS, e.rateNmPerS, e.rateDriftNmPerS2);
+      const T = growth.deltaNm > 0 ? timeToThickness(loggedNm + growth.deltaNm, e.rateNmPerS, e.rateDriftNmPerS2) : rec.loggedS;
+      s.fit.durationS = s.refit.durationS = Number.isFinite(T) ? T : rec.loggedS + growth.deltaNm / finalRate(rec.loggedS, e);
+    }
+    const d = thicknessAt(s.fit.durationS, e.rateNmPerS, e.rateDriftNmPerS2);
+    const next: LayerEstimate = {
+      ...e, thicknessNm: d, opticalThicknessNm: e.index * d,
+      thicknessSigmaNm: Math.hypot(base.d, growth.sigmaNm), opticalThicknessSigmaNm: Math.hypot(base.nd, e.index * growth.sigmaNm),
+    };
+    this.baseSigma.set(next, base);
+    s.estimate = next;
+  }
+}
+
+const finalRate = (T: number, e: LayerEstimate) => Math.max(e.rateNmPerS + e.rateDriftNmPerS2 * T, 1e-9);
+
+/** The level lies more than 5σ from the curve for every growth considered. */
+function offCurve(e: GrowthEvidence): boolean {
+  if (!e.level) return false;
+  const d = Float64Array.from({ length: 401 }, (_, i) => (e.maxNm * i) / 400);
+  const ll = growthLogLikelihood({ maxNm: e.maxNm, level: e.level }, d);
+  return Math.max(...ll) < -12.5;
+}
