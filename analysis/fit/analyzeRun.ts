@@ -204,7 +204,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
     const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
     // The growth after the cut of the layer below, from where this layer starts on its fringe (LayerEnds).
-    if (ends.fromNext(chip, below, fit, single, calibration.offset, c)) {
+    if (ends.fromNext(chip, below, fit, single, calibration.offset, c, stacks.get(chip))) {
       const e = single.layers[0];
       single = fitSingle(e.index, e.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : e.gain));
     }

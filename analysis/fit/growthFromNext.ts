@@ -14,6 +14,12 @@ export interface GrowthFromNextInput {
   /** Residual variance per fit point (SSR/dof) and the residuals' autocorrelation time in fit points. */
   residualVariance: number;
   noiseCorrelation: number;
+  /**
+   * The covariance of the (index, thickness) pairs of the chip's layers, the last entries of
+   * `below` (stackUncertainty's StackCovariance), when known: their uncertainty is carried into
+   * the growth's σ, all but the thickness of the layer below itself (which the growth corrects).
+   */
+  stack?: { size: number; cov: Float64Array };
 }
 
 export interface GrowthFromNext {
@@ -76,7 +82,27 @@ export function growthFromNext(input: GrowthFromNextInput): GrowthFromNext | nul
   let g = 0;
   for (let i = 0; i < n; i++) g += col(np, i) * (w * layer.y[i] - at[i]);
   const cdd = inv[m * m - 1];
-  const variance = input.residualVariance * Math.max(1, input.noiseCorrelation) * cdd;
+  let variance = input.residualVariance * Math.max(1, input.noiseCorrelation) * cdd;
+  const stack = input.stack;
+  if (stack && stack.size >= 2 && stack.size / 2 <= below.length) {
+    // First-order sensitivity of δ to the stack s, −[A⁻¹·Jᵀ·J_s]_δ (as in stackUncertainty), then sᵀ·Σ·s.
+    const k = stack.size / 2, offset = below.length - k;
+    const sens = new Float64Array(stack.size);
+    const shifted = new Float64Array(n);
+    for (let c = 0; c < stack.size - 1; c++) {
+      const b = offset + (c >> 1), isIndex = c % 2 === 0, step = isIndex ? 1e-5 : 1e-3;
+      const moved2 = below.map((l, i) => (i !== b ? l : isIndex ? { ...l, n: { re: l.n.re + step, im: l.n.im } } : { ...l, thicknessNm: l.thicknessNm + step }));
+      evaluateLayers(moved2, [layer], layout, params, offsetSignal, shifted);
+      let v = 0;
+      for (let q = 0; q < m; q++) {
+        let jq = 0;
+        for (let i = 0; i < n; i++) jq += col(q, i) * (shifted[i] - at[i]);
+        v -= inv[(m - 1) * m + q] * (jq / step);
+      }
+      sens[c] = v;
+    }
+    for (let a = 0; a < stack.size - 1; a++) for (let b = 0; b < stack.size - 1; b++) variance += sens[a] * sens[b] * stack.cov[a * stack.size + b];
+  }
   if (!(cdd > 0) || !Number.isFinite(variance)) return null;
   return { deltaNm: cdd * g, sigmaNm: Math.sqrt(variance) };
 }

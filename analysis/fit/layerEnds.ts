@@ -37,8 +37,10 @@ interface EndRecord {
   loggedS: number;
   settled: SettledLevel | null;
   level: LevelEvidence | null;
-  /** The growth from the next layer's start (absolute, nm), once that layer is fitted. */
+  /** The growth from the next layer's start (or the chip's joint fit), nm, once that layer is fitted: a likelihood on the growth counted from the fitted logged thickness. */
   next: GaussianEvidence | null;
+  /** The same as a measure of the true growth (with the logged thickness's own σ), for the run's shutter time. */
+  nextAsGrowth: GaussianEvidence | null;
   growth: GrowthEstimate;
 }
 
@@ -85,7 +87,7 @@ export class LayerEnds {
     const nextStart = this.starts.find((i) => i > lastIndex) ?? signal.length;
     const settled = settledLevelAfter(signal, lastIndex + 1, nextStart);
     const loggedS = s.fit.durationS;
-    const rec: EndRecord = { s, chip: samples.chip, loggedS, settled, level: null, next: null, growth: { deltaNm: 0, sigmaNm: 0 } };
+    const rec: EndRecord = { s, chip: samples.chip, loggedS, settled, level: null, next: null, nextAsGrowth: null, growth: { deltaNm: 0, sigmaNm: 0 } };
     const e = s.estimate;
     if (settled && n >= 10) {
       let k = n - 1;
@@ -96,14 +98,14 @@ export class LayerEnds {
         durationS: loggedS, gain: e.gain, offset: s.calibration.offset,
         lastReadings: Array.from({ length: n - k }, (_, i) => signal[samples.indices[k + i]]), lastTauS: samples.tauS.subarray(k),
       });
-      if (offCurve(this.evidence(rec, false))) {
+      if (offCurve(this.evidence(rec, false, false))) {
         this.warnings.push(`layer ${s.design.layer}: the idle reading after the cut (${settled.level.toFixed(4)}) is not on the layer's modelled curve within ${MAX_SHUTTER_S} s of further growth; the growth after the cut is not read from it`);
         rec.level = null;
       }
     }
     this.records.push(rec);
     this.lastOnChip.set(samples.chip, rec);
-    this.estimateAlone(rec);
+    this.update(rec);
   }
 
   /**
@@ -112,21 +114,21 @@ export class LayerEnds {
    * below (its time base, estimate and σ) and its entry in `below`; true when it moved enough
    * that this layer should be fitted again on the new stack.
    */
-  fromNext(chip: number, below: LayerAt[], layer: FitLayerData, result: JointFitResult, offsetSignal: number, gainPriorWeight: number): boolean {
+  fromNext(chip: number, below: LayerAt[], layer: FitLayerData, result: JointFitResult, offsetSignal: number, gainPriorWeight: number, stack?: StackCovariance): boolean {
     const rec = this.lastOnChip.get(chip);
     if (!rec || below.length === 0) return false;
     const g = growthFromNext({
       below, layer, params: result.solver.params, offsetSignal, gainPriorWeight,
       residualVariance: result.solver.ssr / Math.max(result.solver.dof, 1), noiseCorrelation: result.layers[0].noiseCorrelation,
+      ...(stack ? { stack } : {}),
     });
     if (!g) return false;
+    // The next layer tells the final thickness; as a measure of the true growth it also carries
+    // the error of the thickness at the last logged sample (the layer's own σ).
     rec.next = { meanNm: rec.growth.deltaNm + g.deltaNm, sigmaNm: g.sigmaNm };
+    rec.nextAsGrowth = { meanNm: rec.next.meanNm, sigmaNm: Math.hypot(g.sigmaNm, this.base(rec).d) };
     const before = rec.growth.deltaNm;
-    const growth = growthPosterior(this.evidence(rec, false));
-    (globalThis as any).__endNext?.push({ layer: rec.s.design.layer, prov: before, step: g.deltaNm, sigma: g.sigmaNm, final: growth.deltaNm, fsigma: growth.sigmaNm });
-    if ((globalThis as any).__endDebug) console.log(`DBG next L${rec.s.design.layer} prov ${before.toFixed(3)} step ${g.deltaNm.toFixed(3)}±${g.sigmaNm.toFixed(3)} level ${rec.level ? JSON.stringify(growthPosterior({ maxNm: this.evidence(rec, false).maxNm, level: this.evidence(rec, false).level })) : '-'} → ${growth.deltaNm.toFixed(3)}±${growth.sigmaNm.toFixed(3)}`);
-    this.apply(rec, growth);
-    this.record(rec, growth);
+    const growth = this.update(rec);
     below[below.length - 1] = layerAtWavelength(rec.s.fit, rec.s.estimate, layer.optics.wavelengthNm);
     return Math.abs(growth.deltaNm - before) > 0.25 * Math.max(growth.sigmaNm, 1e-6);
   }
@@ -136,7 +138,7 @@ export class LayerEnds {
     const rec = this.lastOnChip.get(chip);
     if (!rec || stack.size === 0) return stack;
     const cov = Float64Array.from(stack.cov);
-    cov[stack.size * stack.size - 1] += rec.growth.sigmaNm ** 2;
+    cov[stack.size * stack.size - 1] = rec.s.estimate.thicknessSigmaNm ** 2;
     return { size: stack.size, cov };
   }
 
@@ -151,8 +153,9 @@ export class LayerEnds {
       growth: recs.map((r, j) => (r && j + 1 < states.length ? { loggedS: r.loggedS, deltaNm: r.growth.deltaNm } : null)),
       finalize: (j, joint) => {
         const rec = recs[j]!;
-        rec.next = joint;
-        return growthPosterior(this.evidence(rec, false));
+        rec.next = rec.nextAsGrowth = joint;
+        this.record(rec);
+        return growthPosterior(this.evidence(rec, true, false));
       },
     });
     if (!out) return;
@@ -175,47 +178,62 @@ export class LayerEnds {
    */
   finish(jointEstimates: boolean): void {
     for (const rec of this.records) {
-      if (rec.next === null) this.estimateAlone(rec);
-      else if (jointEstimates && !this.joint.has(rec)) this.apply(rec, rec.growth, true);
+      if (this.joint.has(rec)) continue;
+      this.update(rec, jointEstimates && rec.next !== null);
     }
   }
 
   /**
-   * The growth of a layer without its next layer's evidence: its idle level when that
-   * determines it; else the run's shutter time (other layers); else none is added and its
-   * possible size goes into σ (the level's posterior's root-mean-square distance from 0).
+   * A layer's growth from all its evidence: its idle level, the next layer's start (when
+   * fitted), and the run's shutter time (the other layers); with none of these, none is added
+   * and its possible size goes into σ (the level posterior's root-mean-square distance from 0).
    */
-  private estimateAlone(rec: EndRecord): void {
-    const own = growthPosterior(this.evidence(rec, false));
-    const maxNm = finalRate(rec.loggedS, rec.s.estimate) * MAX_SHUTTER_S;
-    const determined = own.sigmaNm < DETERMINED * maxNm;
-    const withShutter = this.evidence(rec, true);
-    const growth = determined ? own
-      : withShutter.gaussians?.length ? growthPosterior(withShutter)
-        : { deltaNm: 0, sigmaNm: Math.hypot(own.deltaNm, own.sigmaNm) };
-    if ((globalThis as any).__endDebug) console.log(`DBG alone L${rec.s.design.layer} own ${own.deltaNm.toFixed(3)}±${own.sigmaNm.toFixed(3)} → ${growth.deltaNm.toFixed(3)}±${growth.sigmaNm.toFixed(3)} pool ${JSON.stringify(this.shutter.predict(rec.s.design.layer))}`);
-    this.apply(rec, growth);
-    this.record(rec, determined ? own : null);
+  private update(rec: EndRecord, keepTime = false): GrowthEstimate {
+    this.record(rec);
+    const e = this.evidence(rec);
+    let growth = growthPosterior(e);
+    if (!e.gaussians?.length && !e.prior) {
+      const own = growthPosterior({ ...e, smoothNm: 0 });
+      // Nothing but a level that does not determine it: no growth added, its size into σ.
+      if (!(own.sigmaNm < DETERMINED * e.maxNm)) growth = { deltaNm: 0, sigmaNm: Math.hypot(own.deltaNm, own.sigmaNm, e.smoothNm ?? 0) };
+    }
+    this.apply(rec, growth, keepTime);
+    return growth;
   }
 
-  private evidence(rec: EndRecord, withShutter: boolean): GrowthEvidence {
+  /** The thickness and optical-thickness σ of the layer's estimate before the growth. */
+  private base(rec: EndRecord): { d: number; nd: number } {
+    const e = rec.s.estimate;
+    return this.baseSigma.get(e) ?? { d: e.thicknessSigmaNm, nd: e.opticalThicknessSigmaNm };
+  }
+
+  /** The evidence on a layer's growth; counted from its fitted logged thickness (smeared by its σ) unless `fromParameter` (a joint fit's growth parameter). */
+  private evidence(rec: EndRecord, withShutter = true, smeared = true): GrowthEvidence {
     const e = rec.s.estimate;
     const rate = finalRate(rec.loggedS, e);
-    const gaussians: GaussianEvidence[] = [];
-    if (rec.next) gaussians.push(rec.next);
     const t = withShutter ? this.shutter.predict(rec.s.design.layer) : null;
-    if (t) gaussians.push({ meanNm: rate * t.timeS, sigmaNm: rate * t.sigmaS });
     return {
-      maxNm: rate * MAX_SHUTTER_S, gaussians,
+      maxNm: rate * MAX_SHUTTER_S, gaussians: rec.next ? [rec.next] : [],
+      ...(t ? { prior: { meanNm: rate * t.timeS, sigmaNm: Math.max(rate * t.sigmaS, 1e-6) } } : {}),
+      ...(smeared ? { smoothNm: this.base(rec).d } : {}),
       ...(rec.level ? { level: { predict: rec.level.predict, observed: rec.level.settled.level, sigma: rec.level.sigma } } : {}),
     };
   }
 
-  /** A determined growth's time joins the run's shutter time; an undetermined one leaves it. */
-  private record(rec: EndRecord, growth: GrowthEstimate | null): void {
+  /**
+   * The layer's own estimate of its growth joins the run's shutter time: the next layer's
+   * (unbounded, so that noise about a growth of 0 averages out), else its level's when that
+   * determines it; a layer with neither leaves it.
+   */
+  private record(rec: EndRecord): void {
     const rate = finalRate(rec.loggedS, rec.s.estimate);
     const layer = rec.s.design.layer;
-    if (growth && growth.sigmaNm < DETERMINED * rate * MAX_SHUTTER_S) this.shutter.add(layer, growth.deltaNm / rate, growth.sigmaNm / rate);
+    let own: GaussianEvidence | null = rec.nextAsGrowth;
+    if (!own && rec.level) {
+      const p = growthPosterior(this.evidence(rec, false, false));
+      if (p.sigmaNm < DETERMINED * rate * MAX_SHUTTER_S) own = { meanNm: p.deltaNm, sigmaNm: p.sigmaNm };
+    }
+    if (own) this.shutter.add(layer, own.meanNm / rate, own.sigmaNm / rate);
     else this.shutter.remove(layer);
   }
 
@@ -224,16 +242,20 @@ export class LayerEnds {
     rec.growth = growth;
     const { s } = rec;
     const e = s.estimate;
-    const base = this.baseSigma.get(e) ?? { d: e.thicknessSigmaNm, nd: e.opticalThicknessSigmaNm };
+    const base = this.base(rec);
     if (!keepTime) {
       const loggedNm = thicknessAt(rec.loggedS, e.rateNmPerS, e.rateDriftNmPerS2);
-      const T = growth.deltaNm > 0 ? timeToThickness(loggedNm + growth.deltaNm, e.rateNmPerS, e.rateDriftNmPerS2) : rec.loggedS;
+      const T = growth.deltaNm !== 0 ? timeToThickness(loggedNm + growth.deltaNm, e.rateNmPerS, e.rateDriftNmPerS2) : rec.loggedS;
       s.fit.durationS = s.refit.durationS = Number.isFinite(T) ? T : rec.loggedS + growth.deltaNm / finalRate(rec.loggedS, e);
     }
     const d = thicknessAt(s.fit.durationS, e.rateNmPerS, e.rateDriftNmPerS2);
+    // The growth's σ is that of the final thickness (see growthPosterior's smoothNm): it takes
+    // the place of the logged thickness's σ, in n·d too (where the index's correlation with the
+    // logged thickness made n·d the better known, no less than n·σ of the final thickness).
+    const n = e.index;
+    const varND = Math.max(base.nd ** 2 + n * n * (growth.sigmaNm ** 2 - base.d ** 2), (n * growth.sigmaNm) ** 2);
     const next: LayerEstimate = {
-      ...e, thicknessNm: d, opticalThicknessNm: e.index * d,
-      thicknessSigmaNm: Math.hypot(base.d, growth.sigmaNm), opticalThicknessSigmaNm: Math.hypot(base.nd, e.index * growth.sigmaNm),
+      ...e, thicknessNm: d, opticalThicknessNm: n * d, thicknessSigmaNm: growth.sigmaNm, opticalThicknessSigmaNm: Math.sqrt(varND),
     };
     this.baseSigma.set(next, base);
     s.estimate = next;
