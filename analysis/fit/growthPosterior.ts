@@ -8,7 +8,11 @@ export interface GrowthEvidence {
   /** Most growth considered, nm (the final rate times the longest shutter time). */
   maxNm: number;
   /** A reading predicted for each growth, against an observed level with its σ (the settled idle level). */
-  level?: { predict: (deltaNm: ArrayLike<number>) => Float64Array; observed: number; sigma: number };
+  level?: {
+    predict: (deltaNm: ArrayLike<number>) => Float64Array; observed: number; sigma: number;
+    /** A σ growing with the growth (the curve's slope uncertain at the end), added in quadrature: sigmaPerNm·δ. */
+    sigmaPerNm?: number;
+  };
   /** Gaussian likelihoods of the growth (the next layer's start, a joint fit's marginal). */
   gaussians?: readonly GaussianEvidence[];
   /** A Gaussian prior on the true growth within [0, maxNm] (the run's shutter time). */
@@ -86,7 +90,11 @@ export function growthLogLikelihood(e: GrowthEvidence, deltaNm: Float64Array): F
   const ll = new Float64Array(deltaNm.length);
   if (e.level) {
     const p = e.level.predict(deltaNm);
-    for (let i = 0; i < ll.length; i++) ll[i] -= 0.5 * ((p[i] - e.level.observed) / e.level.sigma) ** 2;
+    const k = e.level.sigmaPerNm ?? 0;
+    for (let i = 0; i < ll.length; i++) {
+      const sd = Math.hypot(e.level.sigma, k * deltaNm[i]);
+      ll[i] -= 0.5 * ((p[i] - e.level.observed) / sd) ** 2 + Math.log(sd / e.level.sigma);
+    }
   }
   for (const g of e.gaussians ?? []) {
     for (let i = 0; i < ll.length; i++) ll[i] -= 0.5 * ((deltaNm[i] - g.meanNm) / g.sigmaNm) ** 2;

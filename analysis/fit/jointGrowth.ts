@@ -145,6 +145,26 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
     }
     return v;
   };
+  // A safeguard for the linear step: the fit at the new values must be as good as the old one
+  // but for the pull of the growths' bounds and priors (about one unit of χ² each).
+  {
+    const moved = data.map((l, j) => {
+      const c = grown.indexOf(j);
+      if (c < 0) return l;
+      const v = decodeLayer(l, theta, layout.offsets[j], layout);
+      const rate = Math.max(v.rateNmPerS + v.rateDriftNmPerS2 * input.growth[j]!.loggedS, 1e-9);
+      return { ...l, durationS: input.growth[j]!.loggedS + final[c].deltaNm / rate };
+    });
+    const after = new Float64Array(N);
+    evaluateLayers([], moved, layout, theta, offsetSignal, after);
+    let ssrAfter = 0;
+    pos = 0;
+    for (const l of data) {
+      const w = l.weight ?? 1;
+      for (let i = 0; i < l.y.length; i++, pos++) ssrAfter += (w * l.y[i] - after[pos]) ** 2;
+    }
+    if (!(ssrAfter <= ssr + (2 * m + 10) * s2 * Math.max(...f) ** 2)) return null;
+  }
   return data.map((layer, j) => {
     const e = estimates[j];
     const v = decodeLayer(layer, theta, layout.offsets[j], layout);

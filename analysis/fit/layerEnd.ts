@@ -68,6 +68,8 @@ export interface LevelEvidence {
   predict: (deltaNm: ArrayLike<number>) => Float64Array;
   /** 1σ of the settled level against that prediction (the level's σ and the σ of the curve's local misfit). */
   sigma: number;
+  /** σ of the prediction per nm of growth: the curve's slope at the end, as uncertain as the last readings' trend against it. */
+  sigmaPerNm: number;
 }
 
 export interface LevelEvidenceInput {
@@ -107,15 +109,40 @@ export function levelEvidence(input: LevelEvidenceInput): LevelEvidence {
   for (let i = 0; i < k; i++) residuals[i] = input.lastReadings[i] - (offset + gain * m[i]);
   const misfit = meanSigma(residuals);
   const endNm = thicknessAt(input.durationS, input.rateNmPerS, input.rateDriftNmPerS2);
+  // The residuals' trend over the last readings (per nm of the curve): a curve whose slope at the
+  // end is off (a misfit of the model) would carry that error into the growth; its size and σ
+  // bound how far the curve may be continued.
+  const trend = lineSlope(d, residuals);
   return {
     settled: input.settled,
     sigma: Math.hypot(input.settled.sigma, misfit.sigma),
+    sigmaPerNm: Math.abs(trend.slope) + trend.sigma,
     predict: (deltaNm) => {
       const at = Float64Array.from(deltaNm, (x) => endNm + x);
       const curve = growingLayerSignal(spec, at);
       return curve.map((v) => offset + gain * v + misfit.mean);
     },
   };
+}
+
+/** Least-squares slope of y on x and its σ (widened for correlation, ar1Inflation). */
+function lineSlope(x: ArrayLike<number>, y: ArrayLike<number>): { slope: number; sigma: number } {
+  const n = x.length;
+  let mx = 0, my = 0;
+  for (let i = 0; i < n; i++) {
+    mx += x[i] / n;
+    my += y[i] / n;
+  }
+  let sxx = 0, sxy = 0;
+  for (let i = 0; i < n; i++) {
+    sxx += (x[i] - mx) ** 2;
+    sxy += (x[i] - mx) * (y[i] - my);
+  }
+  if (!(sxx > 0) || n < 3) return { slope: 0, sigma: 0 };
+  const slope = sxy / sxx;
+  const r = Float64Array.from({ length: n }, (_, i) => y[i] - my - slope * (x[i] - mx));
+  const s2 = r.reduce((a, v) => a + v * v, 0) / (n - 2);
+  return { slope, sigma: Math.sqrt(s2 / sxx) * ar1Inflation(r) };
 }
 
 /** Readings used for a layer's start level, and the most time they may span, s. */

@@ -13,7 +13,7 @@ import { type StackCovariance } from './stackUncertainty';
 
 /** What the end of a layer needs of its state (a LayerState's parts); `estimate`, `fit.durationS` and `refit.durationS` are updated. */
 export interface EndedLayer {
-  design: { layer: number };
+  design: { layer: number; monitor: { cut: 'turning-point' | 'level' } };
   samples: LayerSamples;
   optics: MonitorOptics;
   nominal: { im: number };
@@ -64,6 +64,7 @@ export class LayerEnds {
   private readonly shutter = new ShutterTime();
   /** Layers whose growth the final joint fit of their chip re-estimated (their σ hold it already). */
   private readonly joint = new WeakSet<EndRecord>();
+  private startsDropped = false;
   /** The thickness and optical-thickness σ of an estimate before the growth's σ was added. */
   private readonly baseSigma = new WeakMap<LayerEstimate, { d: number; nd: number }>();
 
@@ -89,7 +90,10 @@ export class LayerEnds {
     const loggedS = s.fit.durationS;
     const rec: EndRecord = { s, chip: samples.chip, loggedS, settled, level: null, next: null, nextAsGrowth: null, growth: { deltaNm: 0, sigmaNm: 0 } };
     const e = s.estimate;
-    if (settled && n >= 10) {
+    // The level is read after a level cut, where the curve still slopes and the level tells the
+    // growth to first order; at a turning point it tells it only to second order, through the
+    // curve's curvature, which any misfit of the model (an offset, a gain) bends.
+    if (settled && n >= 10 && s.design.monitor.cut === 'level') {
       let k = n - 1;
       while (k > 0 && n - k < 10) k--;
       while (k > 0 && samples.tauS[n - 1] - samples.tauS[k - 1] <= LAST_READINGS_S) k--;
@@ -116,17 +120,28 @@ export class LayerEnds {
    */
   fromNext(chip: number, below: LayerAt[], layer: FitLayerData, result: JointFitResult, offsetSignal: number, gainPriorWeight: number, stack?: StackCovariance): boolean {
     const rec = this.lastOnChip.get(chip);
-    if (!rec || below.length === 0) return false;
+    // Read only after a cut at a turning point, where the idle level cannot tell the growth (after
+    // a level cut it can, to first order); and not across a held index (a thin layer, below or
+    // here), which leaves the stack too loosely known.
+    if (!rec || below.length === 0 || rec.s.design.monitor.cut !== 'turning-point' || rec.s.fit.heldIndex !== null || layer.heldIndex !== null) return false;
     const g = growthFromNext({
       below, layer, params: result.solver.params, offsetSignal, gainPriorWeight,
       residualVariance: result.solver.ssr / Math.max(result.solver.dof, 1), noiseCorrelation: result.layers[0].noiseCorrelation,
       ...(stack ? { stack } : {}),
     });
-    if (!g) return false;
+    if (!g || !Number.isFinite(g.deltaNm) || !(g.sigmaNm > 0)) return false;
     // The next layer tells the final thickness; as a measure of the true growth it also carries
     // the error of the thickness at the last logged sample (the layer's own σ).
     rec.next = { meanNm: rec.growth.deltaNm + g.deltaNm, sigmaNm: g.sigmaNm };
-    rec.nextAsGrowth = { meanNm: rec.next.meanNm, sigmaNm: Math.hypot(g.sigmaNm, this.base(rec).d) };
+    rec.nextAsGrowth = Number.isFinite(this.base(rec).d) ? { meanNm: rec.next.meanNm, sigmaNm: Math.hypot(g.sigmaNm, this.base(rec).d) } : null;
+    // A growth well outside [0, the longest shutter] is no growth but a misfit (the model, the
+    // stack or the detector offset): the start is then not read.
+    const check = rec.nextAsGrowth ?? rec.next;
+    const maxNm = finalRate(rec.loggedS, rec.s.estimate) * MAX_SHUTTER_S;
+    if (check.meanNm < -3 * check.sigmaNm || check.meanNm > maxNm + 3 * check.sigmaNm) {
+      rec.next = rec.nextAsGrowth = null;
+      return false;
+    }
     const before = rec.growth.deltaNm;
     const growth = this.update(rec);
     below[below.length - 1] = layerAtWavelength(rec.s.fit, rec.s.estimate, layer.optics.wavelengthNm);
@@ -137,8 +152,10 @@ export class LayerEnds {
   stackWithGrowth(chip: number, stack: StackCovariance): StackCovariance {
     const rec = this.lastOnChip.get(chip);
     if (!rec || stack.size === 0) return stack;
+    const sigma = rec.s.estimate.thicknessSigmaNm;
+    if (!Number.isFinite(sigma)) return stack;
     const cov = Float64Array.from(stack.cov);
-    cov[stack.size * stack.size - 1] = rec.s.estimate.thicknessSigmaNm ** 2;
+    cov[stack.size * stack.size - 1] = sigma ** 2;
     return { size: stack.size, cov };
   }
 
@@ -147,10 +164,11 @@ export class LayerEnds {
    * the jointly fitted stack (jointGrowth), the layers' estimates and σ with it.
    */
   afterJointFit(data: readonly FitLayerData[], states: readonly EndedLayer[], offsetSignal: number, sharedGain: { gain: number; driftPerS: number; fitDrift: boolean } | null): void {
+    if (!this.startsConsistent()) return;
     const recs = states.map((s) => this.records.find((r) => r.s === s) ?? null);
     const out = jointGrowth({
       data, estimates: states.map((s) => s.estimate), sharedGain, offsetSignal,
-      growth: recs.map((r, j) => (r && j + 1 < states.length ? { loggedS: r.loggedS, deltaNm: r.growth.deltaNm } : null)),
+      growth: recs.map((r, j) => (r && r.next && j + 1 < states.length ? { loggedS: r.loggedS, deltaNm: r.growth.deltaNm } : null)),
       finalize: (j, joint) => {
         const rec = recs[j]!;
         rec.next = rec.nextAsGrowth = joint;
@@ -177,10 +195,46 @@ export class LayerEnds {
    * every estimate) the growth's σ is added where the joint step did not already.
    */
   finish(jointEstimates: boolean): void {
+    this.startsConsistent();
     for (const rec of this.records) {
       if (this.joint.has(rec)) continue;
       this.update(rec, jointEstimates && rec.next !== null);
     }
+  }
+
+  /**
+   * Whether the layers' starts, read as growth after the cuts below them, agree with a growth
+   * that is not negative: across the run their mean time (weighted, its σ no smaller than their
+   * scatter allows) may not lie more than 3σ below 0. When it does, the model does not follow
+   * the stack (a detector offset, a wrong index or gain bends every curve alike) and no start is
+   * read: the evidence is dropped, with a warning (once).
+   */
+  private startsConsistent(): boolean {
+    if (this.startsDropped) return false;
+    const t = this.records.filter((r) => r.nextAsGrowth).map((r) => {
+      const rate = finalRate(r.loggedS, r.s.estimate);
+      return { t: r.nextAsGrowth!.meanNm / rate, s: r.nextAsGrowth!.sigmaNm / rate };
+    });
+    if (t.length < 3) return true;
+    let sw = 0, swt = 0;
+    for (const x of t) {
+      sw += 1 / (x.s * x.s);
+      swt += x.t / (x.s * x.s);
+    }
+    const mean = swt / sw;
+    const scatter = t.reduce((a, x) => a + (x.t - mean) ** 2, 0) / (t.length - 1);
+    const sigma = Math.max(1 / Math.sqrt(sw), Math.sqrt(scatter / t.length));
+    if (mean + 3 * sigma >= 0) return true;
+    this.startsDropped = true;
+    this.warnings.push(`the layers' starts read as growth after the cuts below them give a negative shutter time (${mean.toFixed(2)} ± ${sigma.toFixed(2)} s over ${t.length} layers): ` +
+      'the model does not follow the stack (a detector offset, index or gain?); the growth after each cut is taken from the idle levels and the shutter time only');
+    for (const r of this.records) {
+      if (!r.nextAsGrowth && !r.next) continue;
+      r.next = r.nextAsGrowth = null;
+      this.shutter.remove(r.s.design.layer);
+    }
+    for (const r of this.records) this.record(r);
+    return false;
   }
 
   /**
@@ -193,7 +247,7 @@ export class LayerEnds {
     const e = this.evidence(rec);
     let growth = growthPosterior(e);
     if (!e.gaussians?.length && !e.prior) {
-      const own = growthPosterior({ ...e, smoothNm: 0 });
+      const own = growthPosterior(this.evidence(rec, false, false));
       // Nothing but a level that does not determine it: no growth added, its size into σ.
       if (!(own.sigmaNm < DETERMINED * e.maxNm)) growth = { deltaNm: 0, sigmaNm: Math.hypot(own.deltaNm, own.sigmaNm, e.smoothNm ?? 0) };
     }
@@ -207,17 +261,30 @@ export class LayerEnds {
     return this.baseSigma.get(e) ?? { d: e.thicknessSigmaNm, nd: e.opticalThicknessSigmaNm };
   }
 
-  /** The evidence on a layer's growth; counted from its fitted logged thickness (smeared by its σ) unless `fromParameter` (a joint fit's growth parameter). */
+  /**
+   * The evidence on a layer's growth. The idle level and the run's shutter time are on the true
+   * growth (the level is read against the layer's last readings, whatever the fitted logged
+   * thickness); the next layer's start is on the final thickness. Counted from the fitted
+   * logged thickness (`smeared`, the sequential reading), the first two are folded into one
+   * Gaussian prior and smeared by that thickness's σ (growthPosterior's smoothNm); a joint fit's
+   * growth parameter (`smeared` false) is the true growth itself.
+   */
   private evidence(rec: EndRecord, withShutter = true, smeared = true): GrowthEvidence {
     const e = rec.s.estimate;
     const rate = finalRate(rec.loggedS, e);
+    const maxNm = rate * MAX_SHUTTER_S;
     const t = withShutter ? this.shutter.predict(rec.s.design.layer) : null;
-    return {
-      maxNm: rate * MAX_SHUTTER_S, gaussians: rec.next ? [rec.next] : [],
-      ...(t ? { prior: { meanNm: rate * t.timeS, sigmaNm: Math.max(rate * t.sigmaS, 1e-6) } } : {}),
-      ...(smeared ? { smoothNm: this.base(rec).d } : {}),
-      ...(rec.level ? { level: { predict: rec.level.predict, observed: rec.level.settled.level, sigma: rec.level.sigma } } : {}),
-    };
+    const pool = t ? { meanNm: rate * t.timeS, sigmaNm: Math.max(rate * t.sigmaS, 1e-6) } : null;
+    const level = rec.level ? { predict: rec.level.predict, observed: rec.level.settled.level, sigma: rec.level.sigma, sigmaPerNm: rec.level.sigmaPerNm } : null;
+    const gaussians = rec.next ? [rec.next] : [];
+    const smooth = this.base(rec).d;
+    if (!smeared || !Number.isFinite(smooth)) return { maxNm, gaussians, ...(pool ? { prior: pool } : {}), ...(level ? { level } : {}) };
+    let prior = pool;
+    if (level) {
+      const own = growthPosterior({ maxNm, level, ...(pool ? { prior: pool } : {}) });
+      if (pool || own.sigmaNm < DETERMINED * maxNm) prior = { meanNm: own.deltaNm, sigmaNm: Math.max(own.sigmaNm, 1e-6) };
+    }
+    return { maxNm, gaussians, ...(prior ? { prior } : {}), smoothNm: smooth };
   }
 
   /**
@@ -239,6 +306,7 @@ export class LayerEnds {
 
   /** The growth into the layer's time base (unless `keepTime`), thickness and σ. */
   private apply(rec: EndRecord, growth: GrowthEstimate, keepTime = false): void {
+    if (!Number.isFinite(growth.deltaNm)) return;
     rec.growth = growth;
     const { s } = rec;
     const e = s.estimate;

@@ -5,7 +5,7 @@
  * falls linearly; whatever the law, the time at full rate that grows as much). The true times
  * scatter from cut to cut about a mean t̄ with a spread τ; with the layers' own σ known, the
  * spread is τ² = max(0, s² − mean σ²) (s² the sample variance of the t̂), and a layer's own time
- * is predicted as t̄ with variance τ² + s²/m: the normal hierarchical model, its moment
+ * is predicted as t̄ with variance τ² + s²/m (s² no less than mean σ²): the normal hierarchical model, its moment
  * estimates (B. Efron, C. Morris, "Data analysis using Stein's estimator and its
  * generalizations", J. Am. Stat. Assoc. 70, 311–319 (1975); A. Gelman et al., Bayesian Data
  * Analysis, 3rd ed., §5.4; from memory). A layer whose growth its own data tell poorly (most
@@ -40,6 +40,7 @@ export class ShutterTime {
     const s2 = v.reduce((a, t) => a + (t.timeS - mean) ** 2, 0) / (m - 1);
     const own2 = v.reduce((a, t) => a + t.sigmaS ** 2, 0) / m;
     const spread2 = Math.max(0, s2 - own2);
-    return { timeS: mean, sigmaS: Math.sqrt(spread2 + s2 / m), from: m };
+    // The mean's variance never below the layers' own σ²/m (identical values do not make it exact).
+    return { timeS: mean, sigmaS: Math.sqrt(spread2 + Math.max(s2, own2) / m), from: m };
   }
 }

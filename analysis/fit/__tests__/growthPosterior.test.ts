@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { growthPosterior } from '../growthPosterior';
+import { growthPosterior, normalCdf } from '../growthPosterior';
 import { ShutterTime } from '../shutterTime';
+import { gaussian } from '../../trace/__tests__/rng';
 
 describe('the posterior of the growth after a cut', () => {
   it('a Gaussian well inside the bounds comes out as itself', () => {
@@ -46,29 +47,69 @@ describe('the posterior of the growth after a cut', () => {
   });
 });
 
+describe('the normal distribution function', () => {
+  it('matches the standard normal table', () => {
+    // Φ(1) = 0.8413447, Φ(−1.96) = 0.0249979, Φ(3) = 0.9986501 (Abramowitz and Stegun, table 26.1).
+    expect(normalCdf(0)).toBeCloseTo(0.5, 7);
+    expect(normalCdf(1)).toBeCloseTo(0.8413447, 6);
+    expect(normalCdf(-1.96)).toBeCloseTo(0.0249979, 6);
+    expect(normalCdf(3)).toBeCloseTo(0.9986501, 6);
+  });
+});
+
+describe('the growth counted from an estimated thickness', () => {
+  it('smears the prior by the estimate\'s σ: box and Gaussian convolved (variances add)', () => {
+    // Var of a sum of independent variables adds: box [0, 1] (1/12) plus N(0, 0.2²).
+    const g = growthPosterior({ maxNm: 1, smoothNm: 0.2 });
+    expect(g.deltaNm).toBeCloseTo(0.5, 3);
+    expect(g.sigmaNm).toBeCloseTo(Math.sqrt(1 / 12 + 0.04), 3);
+    const h = growthPosterior({ maxNm: 2, prior: { meanNm: 1, sigmaNm: 0.1 }, smoothNm: 0.05 });
+    expect(h.deltaNm).toBeCloseTo(1, 4);
+    expect(h.sigmaNm).toBeCloseTo(Math.hypot(0.1, 0.05), 4);
+  });
+
+  it('lets evidence on the final thickness pull the growth below 0 (the logged thickness was overestimated)', () => {
+    // Prior: growth 0 exactly known, logged thickness σ 0.1; the next layer says −0.1 ± 0.1: the posterior
+    // is the precision-weighted mean of N(0, 0.1²) and N(−0.1, 0.1²) (box edge at 0 is smeared).
+    const g = growthPosterior({ maxNm: 1, prior: { meanNm: 0, sigmaNm: 1e-4 }, smoothNm: 0.1, gaussians: [{ meanNm: -0.1, sigmaNm: 0.1 }] });
+    expect(g.deltaNm).toBeLessThan(0);
+    expect(g.deltaNm).toBeCloseTo(-0.05, 2);
+  });
+});
+
 describe("the run's shutter time", () => {
-  it('needs three layers, then predicts with the σ of a new observation, s·√(1 + 1/m)', () => {
+  it('needs three other layers, then predicts the mean with the spread and the mean\'s σ', () => {
     const t = new ShutterTime();
     t.add(1, 0.4, 0.01);
     t.add(2, 0.6, 0.01);
     expect(t.predict()).toBeNull();
     t.add(3, 0.5, 0.01);
     const p = t.predict()!;
-    // mean 0.5, sample σ 0.1 (m − 1 in the denominator), prediction σ 0.1·√(4/3)
+    // mean 0.5; s² = 0.01 (m − 1 in the denominator); spread² = s² − σ² = 0.0099; prediction variance spread² + s²/3
     expect(p.timeS).toBeCloseTo(0.5, 12);
-    expect(p.sigmaS).toBeCloseTo(0.1 * Math.sqrt(4 / 3), 12);
+    expect(p.sigmaS).toBeCloseTo(Math.sqrt(0.0099 + 0.01 / 3), 12);
     expect(p.from).toBe(3);
     // A layer is never predicted from itself.
-    t.add(4, 0.5, 0.01);
+    t.add(4, 0.9, 0.01);
     expect(t.predict(4)!.timeS).toBeCloseTo(0.5, 12);
     expect(t.predict(4)!.from).toBe(3);
   });
 
-  it('is never tighter than the layers’ own σ', () => {
+  it('with no spread beyond the layers\' own σ, the prediction is the mean with σ/√m', () => {
     const t = new ShutterTime();
     for (const l of [1, 2, 3, 4]) t.add(l, 0.5, 0.05);
-    expect(t.predict()!.sigmaS).toBeCloseTo(0.05 * Math.sqrt(1.25), 12);
+    expect(t.predict()!.sigmaS).toBeCloseTo(0.05 / 2, 12);
     t.remove(4);
     expect(t.count).toBe(3);
+  });
+
+  it('recovers the spread of the times from noisy estimates (the normal hierarchical model)', () => {
+    // True times N(0.4, 0.1²), each seen with σ 0.05: τ² = s² − σ² estimates 0.1² (moment estimate; Efron and Morris 1975).
+    const g = gaussian(5), t = new ShutterTime();
+    for (let l = 1; l <= 400; l++) t.add(l, 0.4 + 0.1 * g() + 0.05 * g(), 0.05);
+    const p = t.predict()!;
+    expect(p.timeS).toBeCloseTo(0.4, 1);
+    expect(Math.sqrt(p.sigmaS ** 2 - 0.0125 / 400)).toBeGreaterThan(0.09);
+    expect(Math.sqrt(p.sigmaS ** 2 - 0.0125 / 400)).toBeLessThan(0.11);
   });
 });

@@ -32,7 +32,7 @@ function fromLevel(tr: ReturnType<typeof trace>, rate: number, layerS: number) {
     settled, optics, below: [], index: 2.3, extinction: 0, rateNmPerS: rate, rateDriftNmPerS2: 0, durationS: layerS, gain: 1, offset: 0,
     lastReadings: tr.signal.subarray(k, tr.lastIndex + 1), lastTauS: tr.timeS.subarray(k, tr.lastIndex + 1),
   });
-  return growthPosterior({ maxNm: rate * 2, level: { predict: ev.predict, observed: settled.level, sigma: ev.sigma } });
+  return growthPosterior({ maxNm: rate * 2, level: { predict: ev.predict, observed: settled.level, sigma: ev.sigma, sigmaPerNm: ev.sigmaPerNm } });
 }
 
 describe('the end of a layer', () => {
