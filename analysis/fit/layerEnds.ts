@@ -198,7 +198,11 @@ export class LayerEnds {
     this.startsConsistent();
     for (const rec of this.records) {
       if (this.joint.has(rec)) continue;
-      this.update(rec, jointEstimates && rec.next !== null);
+      // After a joint fit that did not re-read it, the start read in the pass is stale (counted
+      // from that pass's thickness): the growth stands on its level and the shutter time only.
+      const stale = jointEstimates && rec.next !== null;
+      if (stale) rec.next = null;
+      this.update(rec, stale);
     }
   }
 
