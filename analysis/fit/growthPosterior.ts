@@ -37,10 +37,11 @@ const GRID = 401;
 /**
  * The growth after a cut from every piece of evidence on it, as a posterior on a grid: a flat
  * prior on [0, maxNm] (the film does not shrink; a shutter closes within the longest time
- * considered) times the level's likelihood (Gaussian in the reading, so not Gaussian in δ where
- * the curve turns) times the Gaussian pieces (the next layer's start, a shutter time from
- * other layers). Mean and σ of the posterior; a second pass refines the grid around it, so a
- * posterior far narrower than the prior is still resolved. Bayes' rule on a grid, e.g.
+ * considered), times the run's shutter time (`prior`), smeared by the σ of the thickness it is
+ * counted from (`smoothNm`), times the level's likelihood (Gaussian in the reading, so not
+ * Gaussian in δ where the curve turns) and the Gaussian likelihoods (the next layer's start, a
+ * joint fit's marginal). Mean and σ of the posterior; further passes refine the grid around it,
+ * so a posterior far narrower than the prior is still resolved. Bayes' rule on a grid, e.g.
  * D. S. Sivia, Data Analysis: A Bayesian Tutorial, 2nd ed. (2006), ch. 2 (from memory).
  */
 export function growthPosterior(e: GrowthEvidence): GrowthEstimate {

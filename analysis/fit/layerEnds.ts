@@ -253,7 +253,7 @@ export class LayerEnds {
     if (!e.gaussians?.length && !e.prior) {
       const own = growthPosterior(this.evidence(rec, false, false));
       // Nothing but a level that does not determine it: no growth added, its size into σ.
-      if (!(own.sigmaNm < DETERMINED * e.maxNm)) growth = { deltaNm: 0, sigmaNm: Math.hypot(own.deltaNm, own.sigmaNm, e.smoothNm ?? 0) };
+      if (!determines(own, e.maxNm)) growth = { deltaNm: 0, sigmaNm: Math.hypot(own.deltaNm, own.sigmaNm, e.smoothNm ?? 0) };
     }
     this.apply(rec, growth, keepTime);
     return growth;
@@ -286,7 +286,7 @@ export class LayerEnds {
     let prior = pool;
     if (level) {
       const own = growthPosterior({ maxNm, level, ...(pool ? { prior: pool } : {}) });
-      if (pool || own.sigmaNm < DETERMINED * maxNm) prior = { meanNm: own.deltaNm, sigmaNm: Math.max(own.sigmaNm, 1e-6) };
+      if (pool || determines(own, maxNm)) prior = { meanNm: own.deltaNm, sigmaNm: Math.max(own.sigmaNm, 1e-6) };
     }
     return { maxNm, gaussians, ...(prior ? { prior } : {}), smoothNm: smooth };
   }
@@ -302,7 +302,7 @@ export class LayerEnds {
     let own: GaussianEvidence | null = rec.nextAsGrowth;
     if (!own && rec.level) {
       const p = growthPosterior(this.evidence(rec, false, false));
-      if (p.sigmaNm < DETERMINED * rate * MAX_SHUTTER_S) own = { meanNm: p.deltaNm, sigmaNm: p.sigmaNm };
+      if (determines(p, rate * MAX_SHUTTER_S)) own = { meanNm: p.deltaNm, sigmaNm: p.sigmaNm };
     }
     if (own) this.shutter.add(layer, own.meanNm / rate, own.sigmaNm / rate);
     else this.shutter.remove(layer);
@@ -333,6 +333,13 @@ export class LayerEnds {
     s.estimate = next;
   }
 }
+
+/**
+ * An idle level determines the growth when its posterior is narrow against the largest growth
+ * considered and shows a growth (more than 2σ above 0): a level consistent with none adds none
+ * (the posterior mean under the bound at 0 would add about 0.8σ where nothing grew).
+ */
+const determines = (g: GrowthEstimate, maxNm: number) => g.sigmaNm < DETERMINED * maxNm && g.deltaNm > 2 * g.sigmaNm;
 
 const finalRate = (T: number, e: LayerEstimate) => Math.max(e.rateNmPerS + e.rateDriftNmPerS2 * T, 1e-9);
 
