@@ -8,7 +8,7 @@ import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
 import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers';
 import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
-import { layerEnds } from './layerEnd';
+import { LayerEnds } from './layerEnds';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
@@ -100,7 +100,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
   const layerSegments = byDesign ? placeBoundaries(trace, design, byDesign.layers, byDesign.windows) : seg.layers;
   const samplesByLayer = gatherLayerSamples(trace, layerSegments);
-  const endLayer = layerEnds(trace, samplesByLayer, warnings);
+  const ends = new LayerEnds(trace, samplesByLayer, warnings);
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }
@@ -159,12 +159,12 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
     const durationS = samples.tauS[n - 1];
     // make() is called again after the pass (final refit), when the layer's state exists.
-    const built: { state?: LayerState; extraS?: number } = {};
+    const built: { state?: LayerState } = {};
     const make = (maxPoints: number): FitLayerData => {
       // Bin means, not picked samples: every sample's information at a fraction of the points.
       const binned = binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
       return {
-        optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: durationS + (built.extraS ?? 0),
+        optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
         heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
       };
@@ -204,11 +204,16 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const e = single.layers[0];
       single = fitSingle(heldIndex, e.rateNmPerS, fit.heldGain ?? e.gain);
     }
+    const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
+    // The growth after the cut of the layer below, from where this layer starts on its fringe (LayerEnds).
+    if (ends.fromNext(chip, below, fit, single, calibration.offset, c, stacks.get(chip))) {
+      const e = single.layers[0];
+      single = fitSingle(e.index, e.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : e.gain));
+    }
     if (o.mode === 'sequential') {
       // The stack below's uncertainty, carried into this layer's σ (refit fits them jointly instead).
-      const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
       const held = heldIndex !== null ? { sigma: heldSigma, shift: shiftWithHeldIndex(fit, heldIndex, heldSigma, single.layers[0], fitSingle) } : null;
-      stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, stacks.get(chip) ?? emptyStack(), c, held));
+      stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()), c, held));
     }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
     const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;
@@ -220,7 +225,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       ...(separation?.hold ? { heldWhy: separation.reason, heldIndexSigma: heldSigma } : {}),
     };
     built.state = state;
-    built.extraS = endLayer(state, below, noiseFloor.sigma ?? calibration.noiseSigma);
+    ends.ended(state, below);
     prior.push(state);
     chipLayers.set(chip, prior);
     states.push(state);
@@ -250,6 +255,8 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
       const data = chipStates.map((p) => p.make(perLayer));
       const shared = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
+      // Each growth after a cut read again against the jointly fitted stack (LayerEnds).
+      ends.afterJointFit(data, chipStates, chipStates[0].calibration.offset, cg);
       // A held index's own σ, into every layer of the chip (the joint fit took the index as exact).
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
@@ -265,6 +272,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
   }
 
+  ends.finish(o.mode === 'refit');
   const belowOf = (s: LayerState) => {
     const chipStates = chipLayers.get(s.samples.chip)!;
     return chipStates.slice(0, chipStates.indexOf(s)).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));

@@ -1,13 +1,11 @@
 import { fromNK, growingLayerSignal, type LayerAt } from '../optics';
-import { levelSteps, longRunSigma, type TraceData } from '../trace';
-import { type LayerEstimate } from './fitLayers';
-import { thicknessAt, type FitLayerData, type MonitorOptics } from './layerModel';
-import { type LayerSamples } from './layerSamples';
+import { levelSteps } from '../trace';
+import { thicknessAt, type MonitorOptics } from './layerModel';
 
 /** The idle reading after a cut, once the shutter has closed. */
 export interface SettledLevel {
   level: number;
-  /** 1σ of the level (long-run noise over the level's samples). */
+  /** 1σ of the level (its own scatter, inflated for correlation). */
   sigma: number;
   /** Index of its first sample in the trace. */
   startIndex: number;
@@ -16,6 +14,36 @@ export interface SettledLevel {
 
 /** Longest idle stretch read for the settled level, samples. */
 const MAX_IDLE_SAMPLES = 600;
+
+/**
+ * The factor by which AR(1) noise with lag-1 autocorrelation ρ widens the σ of a mean (or of a
+ * line's intercept) over white noise: √((1 + ρ)/(1 − ρ)) (G. E. P. Box, G. M. Jenkins, Time
+ * Series Analysis, the AR(1) process; from memory). ρ from the values' own lag-1 products,
+ * capped at 0.95 so that a short stretch does not claim infinite correlation.
+ */
+export function ar1Inflation(residuals: ArrayLike<number>): number {
+  let s0 = 0, s1 = 0;
+  for (let i = 0; i < residuals.length; i++) {
+    s0 += residuals[i] * residuals[i];
+    if (i > 0) s1 += residuals[i] * residuals[i - 1];
+  }
+  const rho = s0 > 0 ? Math.min(Math.max(s1 / s0, 0), 0.95) : 0;
+  return Math.sqrt((1 + rho) / (1 - rho));
+}
+
+/** Mean of values[from, to) and its σ (sample σ/√n, times ar1Inflation). */
+export function meanSigma(values: ArrayLike<number>, from = 0, to = values.length): { mean: number; sigma: number } {
+  const n = to - from;
+  let mean = 0;
+  for (let i = from; i < to; i++) mean += values[i] / n;
+  const r = new Float64Array(n);
+  let s0 = 0;
+  for (let i = 0; i < n; i++) {
+    r[i] = values[from + i] - mean;
+    s0 += r[i] * r[i];
+  }
+  return { mean, sigma: Math.sqrt(s0 / Math.max(n - 1, 1) / n) * ar1Inflation(r) };
+}
 
 /**
  * The first level of the idle stretch [from, to) long enough to be settled (at least 10
@@ -29,96 +57,23 @@ export function settledLevelAfter(signal: Float64Array, from: number, to: number
   const levels = levelSteps(part, { minLength: 3 });
   const first = levels.find((l) => l.end - l.start >= 10);
   if (!first) return null;
-  const n = first.end - first.start;
-  // σ of the mean from the level's own scatter, inflated for correlation by the lag-1 autocorrelation (AR(1)).
-  let s0 = 0, s1 = 0;
-  for (let i = first.start; i < first.end; i++) {
-    const r = part[i] - first.mean;
-    s0 += r * r;
-    if (i > first.start) s1 += r * (part[i - 1] - first.mean);
-  }
-  const rho = s0 > 0 ? Math.min(Math.max(s1 / s0, 0), 0.95) : 0;
-  const sigma = Math.sqrt((s0 / Math.max(n - 1, 1) / n) * ((1 + rho) / (1 - rho)));
-  return { level: first.mean, sigma, startIndex: from + first.start, samples: n };
+  const { mean, sigma } = meanSigma(part, first.start, first.end);
+  return { level: mean, sigma, startIndex: from + first.start, samples: first.end - first.start };
 }
 
-export interface GrowthAfterCut {
-  /** Thickness grown after the last logged sample, nm (0 when none is seen). */
-  afterCutNm: number;
-  afterCutSigmaNm: number;
-  /** 'level': where the modelled signal meets the settled level; 'flat': the model is too flat there to tell (taken as 0); 'off-curve': the level is not on the modelled curve. */
-  method: 'level' | 'flat' | 'off-curve';
-}
-
-export interface GrowthInput {
-  optics: MonitorOptics;
-  below: readonly LayerAt[];
-  index: number;
-  extinction: number;
-  /** Thickness at the last logged sample, nm. */
-  endNm: number;
-  gain: number;
+/** What the settled level says about the growth after the cut. */
+export interface LevelEvidence {
   settled: SettledLevel;
-  /** Mean of the layer's last logged readings, and its σ. */
-  lastReading: number;
-  lastReadingSigma: number;
-  /** Most growth considered, nm (the rate times the longest shutter time). */
-  maxNm: number;
+  /** The reading the layer's curve predicts for a growth δ (nm after the last logged sample), for each δ. */
+  predict: (deltaNm: ArrayLike<number>) => Float64Array;
+  /** 1σ of the settled level against that prediction (the level's σ and the σ of the curve's local misfit). */
+  sigma: number;
+  /** σ of the prediction per nm of growth: the curve's slope at the end, as uncertain as the last readings' trend against it. */
+  sigmaPerNm: number;
 }
 
-/**
- * The growth after a cut, from the settled idle level: the film keeps growing while the shutter
- * closes, and the reading settles where the modelled signal of the layer at its final thickness
- * lies. Continuing the layer's own curve from its last logged thickness, the first thickness at
- * which the modelled change gain·(M(d) − M(d_end)) equals the change from the last logged
- * readings to the settled level is the deposited thickness; its σ is that change's σ over the
- * slope there. Where the curve is flat (a cut at a turning point) the level
- * cannot tell the growth and none is added.
- */
-export function growthAfterCut(input: GrowthInput): GrowthAfterCut {
-  const { gain, settled, maxNm } = input;
-  const steps = 120;
-  const d = new Float64Array(steps + 1);
-  for (let i = 0; i <= steps; i++) d[i] = input.endNm + (maxNm * i) / steps;
-  const m = growingLayerSignal({ ...input.optics, below: input.below, growing: fromNK(input.index, input.extinction), pol: 's' }, d);
-  // The change from the last logged readings to the settled level, against the model's change
-  // from the last logged thickness (the model's own small misfit at the end cancels).
-  const change = settled.level - input.lastReading;
-  const f = Float64Array.from(m, (v) => gain * (v - m[0]) - change);
-  const sigma = Math.hypot(settled.sigma, input.lastReadingSigma);
-  // No change seen: nothing grew after the cut that the signal can show.
-  if (Math.abs(change) <= 3 * sigma) return { afterCutNm: 0, afterCutSigmaNm: slopeSigma(f, 0, maxNm / steps, sigma, maxNm), method: 'level' };
-  for (let i = 1; i <= steps; i++) {
-    if (Math.sign(f[i]) !== Math.sign(f[i - 1])) {
-      const frac = f[i - 1] / (f[i - 1] - f[i]);
-      const afterCutNm = ((i - 1 + frac) * maxNm) / steps;
-      const s = slopeSigma(f, i, maxNm / steps, sigma, maxNm);
-      if (s > 0.5 * maxNm) return { afterCutNm: 0, afterCutSigmaNm: s, method: 'flat' };
-      return { afterCutNm, afterCutSigmaNm: s, method: 'level' };
-    }
-  }
-  return { afterCutNm: 0, afterCutSigmaNm: 0, method: 'off-curve' };
-}
-
-/** σ of the crossing thickness: level σ over |df/dd| near grid point i. */
-function slopeSigma(f: Float64Array, i: number, h: number, sigma: number, cap: number): number {
-  const a = Math.max(i - 1, 0), b = Math.min(i + 1, f.length - 1);
-  const slope = Math.abs(f[b] - f[a]) / ((b - a) * h);
-  return slope > 0 ? Math.min(sigma / slope, cap) : cap;
-}
-
-/** Readings averaged for the layer's last level. */
-const LAST_READINGS = 5;
-
-/** Longest shutter closing time considered, s. */
-const MAX_SHUTTER_S = 2;
-
-export interface LayerEndInput {
-  signal: Float64Array;
-  timeS: Float64Array;
-  /** Trace index of the layer's last logged sample, and of the next layer's first (or the trace's end). */
-  lastIndex: number;
-  nextStart: number;
+export interface LevelEvidenceInput {
+  settled: SettledLevel;
   optics: MonitorOptics;
   below: readonly LayerAt[];
   index: number;
@@ -128,106 +83,114 @@ export interface LayerEndInput {
   /** Time from the layer's start to its last logged sample, s. */
   durationS: number;
   gain: number;
-  noiseSigma: number;
-}
-
-export interface LayerEnd extends GrowthAfterCut {
-  settled: SettledLevel;
-  /** The growth as extra deposition time at the layer's final rate, s. */
-  extraS: number;
-}
-
-/** The end of a layer: its settled idle level and the growth after the logged cut (null without an idle level after it). */
-export function layerEnd(input: LayerEndInput): LayerEnd | null {
-  const settled = settledLevelAfter(input.signal, input.lastIndex + 1, input.nextStart);
-  if (!settled) return null;
-  const T = input.durationS;
-  const endNm = input.rateNmPerS * T + 0.5 * input.rateDriftNmPerS2 * T * T;
-  const finalRate = input.rateNmPerS + input.rateDriftNmPerS2 * T;
-  if (!(finalRate > 0) || !(endNm > 0) || input.lastIndex + 1 < LAST_READINGS * 4) return null;
-  let last = 0, k = 0, back = 0;
-  for (let i = input.lastIndex; i > input.lastIndex - LAST_READINGS; i--, k++) {
-    last += input.signal[i];
-    back += input.timeS[input.lastIndex] - input.timeS[i];
-  }
-  // The last readings sit on average `back` s before the last one: start the curve there.
-  back /= k;
-  const refNm = input.rateNmPerS * (T - back) + 0.5 * input.rateDriftNmPerS2 * (T - back) ** 2;
-  const growth = growthAfterCut({
-    optics: input.optics, below: input.below, index: input.index, extinction: input.extinction, endNm: refNm, gain: input.gain,
-    settled, lastReading: last / k, lastReadingSigma: longRunSigma(input.signal.subarray(input.lastIndex + 1 - LAST_READINGS * 4, input.lastIndex + 1)) / Math.sqrt(k),
-    maxNm: finalRate * MAX_SHUTTER_S,
-  });
-  const afterCutNm = Math.max(0, growth.afterCutNm - (endNm - refNm));
-  return { ...growth, afterCutNm, settled, extraS: afterCutNm / finalRate };
+  offset: number;
+  /** The layer's last logged readings and their times since the layer's start. */
+  lastReadings: ArrayLike<number>;
+  lastTauS: ArrayLike<number>;
 }
 
 /**
- * Whether a layer starts where the one below ended: its first readings against the settled idle
- * level after the layer below (same chip, no chip change between). A message naming the layer
- * when they differ by more than 5σ and 0.2 % of the level, else null.
+ * The settled idle level as evidence on the growth after the cut: the film keeps growing while
+ * the shutter closes, and the reading settles where the layer's curve lies at its final
+ * thickness. The curve is the fitted one, offset + gain·M(d), continued past the last logged
+ * thickness; its own small misfit near the end (the mean residual of the last readings) is
+ * carried into the prediction, so only the curve's shape over the last fraction of a nanometre
+ * matters. Where the curve is flat (a cut at a turning point) the level changes only to second
+ * order in δ and tells little; off an extremum it tells δ to first order.
  */
-export function startCheck(layer: number, below: number, settled: SettledLevel, firstReadings: ArrayLike<number>, noiseSigma: number): string | null {
-  const n = Math.min(firstReadings.length, 5);
-  if (n === 0) return null;
-  let start = 0;
-  for (let i = 0; i < n; i++) start += firstReadings[i] / n;
-  const diff = start - settled.level;
-  const sigma = Math.hypot(settled.sigma, noiseSigma / Math.sqrt(n));
-  if (Math.abs(diff) <= Math.max(5 * sigma, 0.002 * Math.abs(settled.level))) return null;
-  return `layer ${layer} starts at a reading of ${start.toFixed(4)}, but the reading settled at ${settled.level.toFixed(4)} after layer ${below}: ` +
-    'the layer does not start where the one below ended (the stack changed during the pause, or the segmentation or chip assignment is wrong)';
-}
-
-/** What layerEnds needs of a fitted layer (a LayerState's parts). */
-export interface EndedLayer {
-  design: { layer: number };
-  samples: LayerSamples;
-  optics: MonitorOptics;
-  nominal: { im: number };
-  estimate: LayerEstimate;
-  fit: FitLayerData;
-  refit: FitLayerData;
-}
-
-/**
- * Per run: after each layer's fit, its end (layerEnd) is applied: the growth after the logged
- * cut extends the layer's time base (so its thickness, and the stack below the next layer, are
- * the final ones), and the next layer on the chip is checked to start at the settled level.
- * Returns the function to call per layer (in deposition order), giving the extra time, s.
- */
-export function layerEnds(trace: TraceData, samplesByLayer: ReadonlyMap<number, LayerSamples>, warnings: string[]) {
-  const starts = [...samplesByLayer.values()].map((s) => s.indices[0]).sort((a, b) => a - b);
-  let previous: { chip: number; layer: number; settled: SettledLevel | null } | null = null;
-  return (s: EndedLayer, below: readonly LayerAt[], noiseSigma: number): number => {
-    const { samples, estimate: e } = s;
-    const n = samples.indices.length;
-    const lastIndex = samples.indices[n - 1];
-    const nextStart = starts.find((i) => i > lastIndex) ?? trace.signal.length;
-    if (previous && previous.chip === samples.chip && previous.settled) {
-      const first = Array.from({ length: Math.min(5, n) }, (_, i) => trace.signal[samples.indices[i]]);
-      const note = startCheck(s.design.layer, previous.layer, previous.settled, first, noiseSigma);
-      if (note) warnings.push(note);
-    }
-    const end = layerEnd({
-      signal: trace.signal, timeS: trace.timeS, lastIndex, nextStart, optics: s.optics, below, index: e.index, extinction: -s.nominal.im,
-      rateNmPerS: e.rateNmPerS, rateDriftNmPerS2: e.rateDriftNmPerS2, durationS: s.fit.durationS, gain: e.gain, noiseSigma,
-    });
-    previous = { chip: samples.chip, layer: s.design.layer, settled: end?.settled ?? null };
-    if (!end) return 0;
-    if (end.method === 'off-curve') {
-      warnings.push(`layer ${s.design.layer}: the idle reading after the cut (${end.settled.level.toFixed(4)}) is not on the layer's modelled curve within ${MAX_SHUTTER_S} s of further growth; no growth after the cut added`);
-    }
-    if (end.extraS <= 0) return 0;
-    s.fit.durationS += end.extraS;
-    s.refit.durationS += end.extraS;
-    const T = s.fit.durationS;
-    const d = thicknessAt(T, e.rateNmPerS, e.rateDriftNmPerS2);
-    const sd = Math.hypot(e.thicknessSigmaNm, end.afterCutSigmaNm);
-    s.estimate = {
-      ...e, thicknessNm: d, thicknessSigmaNm: sd, opticalThicknessNm: e.index * d,
-      opticalThicknessSigmaNm: Math.hypot(e.opticalThicknessSigmaNm, e.index * end.afterCutSigmaNm),
-    };
-    return end.extraS;
+export function levelEvidence(input: LevelEvidenceInput): LevelEvidence {
+  const { optics, below, index, extinction, gain, offset } = input;
+  const spec = { ...optics, below, growing: fromNK(index, extinction), pol: 's' as const };
+  const k = input.lastReadings.length;
+  const d = new Float64Array(k);
+  for (let i = 0; i < k; i++) d[i] = thicknessAt(input.lastTauS[i], input.rateNmPerS, input.rateDriftNmPerS2);
+  const m = growingLayerSignal(spec, d);
+  const residuals = new Float64Array(k);
+  for (let i = 0; i < k; i++) residuals[i] = input.lastReadings[i] - (offset + gain * m[i]);
+  const misfit = meanSigma(residuals);
+  const endNm = thicknessAt(input.durationS, input.rateNmPerS, input.rateDriftNmPerS2);
+  // The residuals' trend over the last readings (per nm of the curve): a curve whose slope at the
+  // end is off (a misfit of the model) would carry that error into the growth; its size and σ
+  // bound how far the curve may be continued.
+  const trend = lineSlope(d, residuals);
+  return {
+    settled: input.settled,
+    sigma: Math.hypot(input.settled.sigma, misfit.sigma),
+    sigmaPerNm: Math.abs(trend.slope) + trend.sigma,
+    predict: (deltaNm) => {
+      const at = Float64Array.from(deltaNm, (x) => endNm + x);
+      const curve = growingLayerSignal(spec, at);
+      return curve.map((v) => offset + gain * v + misfit.mean);
+    },
   };
+}
+
+/** Least-squares slope of y on x and its σ (widened for correlation, ar1Inflation). */
+function lineSlope(x: ArrayLike<number>, y: ArrayLike<number>): { slope: number; sigma: number } {
+  const n = x.length;
+  let mx = 0, my = 0;
+  for (let i = 0; i < n; i++) {
+    mx += x[i] / n;
+    my += y[i] / n;
+  }
+  let sxx = 0, sxy = 0;
+  for (let i = 0; i < n; i++) {
+    sxx += (x[i] - mx) ** 2;
+    sxy += (x[i] - mx) * (y[i] - my);
+  }
+  if (!(sxx > 0) || n < 3) return { slope: 0, sigma: 0 };
+  const slope = sxy / sxx;
+  const r = Float64Array.from({ length: n }, (_, i) => y[i] - my - slope * (x[i] - mx));
+  const s2 = r.reduce((a, v) => a + v * v, 0) / (n - 2);
+  return { slope, sigma: Math.sqrt(s2 / sxx) * ar1Inflation(r) };
+}
+
+/** Readings used for a layer's start level, and the most time they may span, s. */
+const START_READINGS = 20;
+const START_SPAN_S = 2;
+
+/**
+ * The reading at a layer's start: a straight line through its first readings (at most 20, over
+ * at most 2 s), taken at the layer's first sample; its σ from the line's residuals, widened for
+ * their correlation (ar1Inflation). A line, not a mean, so that a layer that starts
+ * on a slope (after a level cut) is read at its start.
+ */
+export function startLevel(tauS: ArrayLike<number>, readings: ArrayLike<number>): { level: number; sigma: number } | null {
+  let n = 0;
+  while (n < Math.min(START_READINGS, readings.length) && tauS[n] - tauS[0] <= START_SPAN_S) n++;
+  if (n < 5) return null;
+  let st = 0, sy = 0;
+  for (let i = 0; i < n; i++) {
+    st += tauS[i] - tauS[0];
+    sy += readings[i];
+  }
+  const tm = st / n, ym = sy / n;
+  let stt = 0, sty = 0;
+  for (let i = 0; i < n; i++) {
+    const t = tauS[i] - tauS[0] - tm;
+    stt += t * t;
+    sty += t * (readings[i] - ym);
+  }
+  const slope = stt > 0 ? sty / stt : 0;
+  const residuals = Float64Array.from({ length: n }, (_, i) => readings[i] - ym - slope * (tauS[i] - tauS[0] - tm));
+  const s2 = residuals.reduce((a, r) => a + r * r, 0) / Math.max(n - 2, 1);
+  // The intercept's σ for a straight line, √(s²·(1/n + t̄²/Stt)), widened for correlation.
+  const sigma = Math.sqrt(s2 * (1 / n + (stt > 0 ? (tm * tm) / stt : 0))) * ar1Inflation(residuals);
+  return { level: ym - slope * tm, sigma };
+}
+
+/**
+ * Whether a layer starts where the one below ended: its start level (startLevel) against the
+ * settled idle level after the layer below (same chip). A message naming both layers when they
+ * differ by more than 5σ and by more than 0.1 % of full scale, else null. A step between the two
+ * means the stack or the detector changed during the pause (a chip change not logged, a lamp
+ * step), or the segmentation or chip assignment is wrong.
+ */
+export function startCheck(layer: number, below: number, settled: SettledLevel, start: { level: number; sigma: number }): string | null {
+  const diff = start.level - settled.level;
+  const sigma = Math.hypot(settled.sigma, start.sigma);
+  if (Math.abs(diff) <= Math.max(5 * sigma, 0.001)) return null;
+  return `layer ${layer} starts at a reading of ${start.level.toFixed(4)}, but the reading settled at ${settled.level.toFixed(4)} after layer ${below} ` +
+    `(a step of ${(diff * 100).toFixed(2)} % of full scale, ${(Math.abs(diff) / sigma).toFixed(0)}σ): the layer does not start where the one below ended ` +
+    '(the stack or the detector changed during the pause, or the segmentation or chip assignment is wrong)';
 }

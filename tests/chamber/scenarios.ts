@@ -184,7 +184,13 @@ export function scenarios(): Scenario[] {
     {
       name: '1 s shutter delay', about: '18-layer mirror, the shutter takes 1 s to close after every logged cut, white noise 0.05 %',
       design: mirrorDesign(18, 6), seeds: [61], targets: CHAMBER_TARGETS, options: { ...RATES, whiteNoise: 0.0005, shutterCloseS: [1, 1] },
-      modes: both(pending('issue 7 item 3: model the growth between the last logged sample and the idle level')),
+      modes: both({ status: 'target' }),
+    },
+    {
+      name: 'variable shutter delay', about: '18-layer mirror, the shutter takes 0.1–1 s to close (a new time each cut), turning-point overshoot, white noise 0.05 %',
+      design: mirrorDesign(18, 6), seeds: [62], targets: CHAMBER_TARGETS,
+      options: { ...RATES, whiteNoise: 0.0005, shutterCloseS: [0.1, 1], turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 } },
+      modes: both({ status: 'target' }),
     },
     {
       name: 'thin level-cut layers (R)', about: '0.25–0.4 QWOT layers cut on level in reflectance, correlated noise',

@@ -1,0 +1,115 @@
+import { describe, expect, it } from 'vitest';
+import { growthPosterior, normalCdf } from '../growthPosterior';
+import { ShutterTime } from '../shutterTime';
+import { gaussian } from '../../trace/__tests__/rng';
+
+describe('the posterior of the growth after a cut', () => {
+  it('a Gaussian well inside the bounds comes out as itself', () => {
+    const g = growthPosterior({ maxNm: 1, gaussians: [{ meanNm: 0.4, sigmaNm: 0.03 }] });
+    expect(g.deltaNm).toBeCloseTo(0.4, 4);
+    expect(g.sigmaNm).toBeCloseTo(0.03, 4);
+  });
+
+  it('a very narrow Gaussian is still resolved (the grid is refined around it)', () => {
+    const g = growthPosterior({ maxNm: 1, gaussians: [{ meanNm: 0.2345, sigmaNm: 0.0002 }] });
+    expect(g.deltaNm).toBeCloseTo(0.2345, 5);
+    expect(g.sigmaNm / 0.0002).toBeCloseTo(1, 2);
+  });
+
+  it('two Gaussians combine by their precisions', () => {
+    // Product of normals: mean (μ1/σ1² + μ2/σ2²)/(1/σ1² + 1/σ2²), variance 1/(1/σ1² + 1/σ2²) (textbook identity).
+    const g = growthPosterior({ maxNm: 2, gaussians: [{ meanNm: 0.5, sigmaNm: 0.1 }, { meanNm: 0.8, sigmaNm: 0.2 }] });
+    const w1 = 1 / 0.01, w2 = 1 / 0.04;
+    expect(g.deltaNm).toBeCloseTo((0.5 * w1 + 0.8 * w2) / (w1 + w2), 4);
+    expect(g.sigmaNm).toBeCloseTo(Math.sqrt(1 / (w1 + w2)), 4);
+  });
+
+  it('a Gaussian centred on 0, cut at 0, gives the half-normal moments', () => {
+    // Half-normal: mean σ·√(2/π), σ·√(1 − 2/π) (N. L. Johnson, S. Kotz, N. Balakrishnan,
+    // Continuous Univariate Distributions, vol. 1, 2nd ed. (1994), the folded normal; from memory).
+    const s = 0.05;
+    const g = growthPosterior({ maxNm: 1, gaussians: [{ meanNm: 0, sigmaNm: s }] });
+    expect(g.deltaNm).toBeCloseTo(s * Math.sqrt(2 / Math.PI), 4);
+    expect(g.sigmaNm).toBeCloseTo(s * Math.sqrt(1 - 2 / Math.PI), 4);
+  });
+
+  it('no evidence leaves the flat prior: mean max/2, σ max/√12', () => {
+    const g = growthPosterior({ maxNm: 0.6 });
+    expect(g.deltaNm).toBeCloseTo(0.3, 6);
+    expect(g.sigmaNm).toBeCloseTo(0.6 / Math.sqrt(12), 4);
+  });
+
+  it('a level that the curve meets once pins the growth there', () => {
+    // Reading 0.5 − 0.1·δ (a slope), observed 0.47 ± 0.001: δ = 0.3 ± 0.01.
+    const g = growthPosterior({ maxNm: 1, level: { predict: (d) => Float64Array.from(d, (x) => 0.5 - 0.1 * x), observed: 0.47, sigma: 0.001 } });
+    expect(g.deltaNm).toBeCloseTo(0.3, 4);
+    expect(g.sigmaNm).toBeCloseTo(0.01, 4);
+  });
+});
+
+describe('the normal distribution function', () => {
+  it('matches the standard normal table', () => {
+    // Φ(1) = 0.8413447, Φ(−1.96) = 0.0249979, Φ(3) = 0.9986501 (Abramowitz and Stegun, table 26.1).
+    expect(normalCdf(0)).toBeCloseTo(0.5, 7);
+    expect(normalCdf(1)).toBeCloseTo(0.8413447, 6);
+    expect(normalCdf(-1.96)).toBeCloseTo(0.0249979, 6);
+    expect(normalCdf(3)).toBeCloseTo(0.9986501, 6);
+  });
+});
+
+describe('the growth counted from an estimated thickness', () => {
+  it('smears the prior by the estimate\'s σ: box and Gaussian convolved (variances add)', () => {
+    // Var of a sum of independent variables adds: box [0, 1] (1/12) plus N(0, 0.2²).
+    const g = growthPosterior({ maxNm: 1, smoothNm: 0.2 });
+    expect(g.deltaNm).toBeCloseTo(0.5, 3);
+    expect(g.sigmaNm).toBeCloseTo(Math.sqrt(1 / 12 + 0.04), 3);
+    const h = growthPosterior({ maxNm: 2, prior: { meanNm: 1, sigmaNm: 0.1 }, smoothNm: 0.05 });
+    expect(h.deltaNm).toBeCloseTo(1, 4);
+    expect(h.sigmaNm).toBeCloseTo(Math.hypot(0.1, 0.05), 4);
+  });
+
+  it('lets evidence on the final thickness pull the growth below 0 (the logged thickness was overestimated)', () => {
+    // Prior: growth 0 exactly known, logged thickness σ 0.1; the next layer says −0.1 ± 0.1: the posterior
+    // is the precision-weighted mean of N(0, 0.1²) and N(−0.1, 0.1²) (box edge at 0 is smeared).
+    const g = growthPosterior({ maxNm: 1, prior: { meanNm: 0, sigmaNm: 1e-4 }, smoothNm: 0.1, gaussians: [{ meanNm: -0.1, sigmaNm: 0.1 }] });
+    expect(g.deltaNm).toBeLessThan(0);
+    expect(g.deltaNm).toBeCloseTo(-0.05, 2);
+  });
+});
+
+describe("the run's shutter time", () => {
+  it('needs three other layers, then predicts the mean with the spread and the mean\'s σ', () => {
+    const t = new ShutterTime();
+    t.add(1, 0.4, 0.01);
+    t.add(2, 0.6, 0.01);
+    expect(t.predict()).toBeNull();
+    t.add(3, 0.5, 0.01);
+    const p = t.predict()!;
+    // mean 0.5; s² = 0.01 (m − 1 in the denominator); spread² = s² − σ² = 0.0099; prediction variance spread² + s²/3
+    expect(p.timeS).toBeCloseTo(0.5, 12);
+    expect(p.sigmaS).toBeCloseTo(Math.sqrt(0.0099 + 0.01 / 3), 12);
+    expect(p.from).toBe(3);
+    // A layer is never predicted from itself.
+    t.add(4, 0.9, 0.01);
+    expect(t.predict(4)!.timeS).toBeCloseTo(0.5, 12);
+    expect(t.predict(4)!.from).toBe(3);
+  });
+
+  it('with no spread beyond the layers\' own σ, the prediction is the mean with σ/√m', () => {
+    const t = new ShutterTime();
+    for (const l of [1, 2, 3, 4]) t.add(l, 0.5, 0.05);
+    expect(t.predict()!.sigmaS).toBeCloseTo(0.05 / 2, 12);
+    t.remove(4);
+    expect(t.count).toBe(3);
+  });
+
+  it('recovers the spread of the times from noisy estimates (the normal hierarchical model)', () => {
+    // True times N(0.4, 0.1²), each seen with σ 0.05: τ² = s² − σ² estimates 0.1² (moment estimate; Efron and Morris 1975).
+    const g = gaussian(5), t = new ShutterTime();
+    for (let l = 1; l <= 400; l++) t.add(l, 0.4 + 0.1 * g() + 0.05 * g(), 0.05);
+    const p = t.predict()!;
+    expect(p.timeS).toBeCloseTo(0.4, 1);
+    expect(Math.sqrt(p.sigmaS ** 2 - 0.0125 / 400)).toBeGreaterThan(0.09);
+    expect(Math.sqrt(p.sigmaS ** 2 - 0.0125 / 400)).toBeLessThan(0.11);
+  });
+});

@@ -1,0 +1,123 @@
+/** One Gaussian piece of evidence on the growth after a cut, nm. */
+export interface GaussianEvidence {
+  meanNm: number;
+  sigmaNm: number;
+}
+
+export interface GrowthEvidence {
+  /** Most growth considered, nm (the final rate times the longest shutter time). */
+  maxNm: number;
+  /** A reading predicted for each growth, against an observed level with its σ (the settled idle level). */
+  level?: {
+    predict: (deltaNm: ArrayLike<number>) => Float64Array; observed: number; sigma: number;
+    /** A σ growing with the growth (the curve's slope uncertain at the end), added in quadrature: sigmaPerNm·δ. */
+    sigmaPerNm?: number;
+  };
+  /** Gaussian likelihoods of the growth (the next layer's start, a joint fit's marginal). */
+  gaussians?: readonly GaussianEvidence[];
+  /** A Gaussian prior on the true growth within [0, maxNm] (the run's shutter time). */
+  prior?: GaussianEvidence;
+  /**
+   * σ of the thickness the growth is counted from (the fitted thickness at the last logged
+   * sample). The growth sought is then the final thickness minus that estimate, and its prior is
+   * the true growth's smeared by this σ; the evidence (level, next layer) is on the final
+   * thickness, so the posterior's σ is that of the final thickness. @default 0
+   */
+  smoothNm?: number;
+}
+
+export interface GrowthEstimate {
+  /** Posterior mean and σ of the growth, nm. */
+  deltaNm: number;
+  sigmaNm: number;
+}
+
+const GRID = 401;
+
+/**
+ * The growth after a cut from every piece of evidence on it, as a posterior on a grid: a flat
+ * prior on [0, maxNm] (the film does not shrink; a shutter closes within the longest time
+ * considered), times the run's shutter time (`prior`), smeared by the σ of the thickness it is
+ * counted from (`smoothNm`), times the level's likelihood (Gaussian in the reading, so not
+ * Gaussian in δ where the curve turns) and the Gaussian likelihoods (the next layer's start, a
+ * joint fit's marginal). Mean and σ of the posterior; further passes refine the grid around it,
+ * so a posterior far narrower than the prior is still resolved. Bayes' rule on a grid, e.g.
+ * D. S. Sivia, Data Analysis: A Bayesian Tutorial, 2nd ed. (2006), ch. 2 (from memory).
+ */
+export function growthPosterior(e: GrowthEvidence): GrowthEstimate {
+  const smooth = e.smoothNm ?? 0;
+  const [lo0, hi0] = [-6 * smooth, Math.max(e.maxNm, 1e-12) + 6 * smooth];
+  let [lo, hi] = [lo0, hi0];
+  let out = moments(e, lo, hi);
+  for (let pass = 0; pass < 3; pass++) {
+    const half = Math.max(8 * out.sigmaNm, (4 * (hi - lo)) / (GRID - 1));
+    const nlo = Math.max(lo0, out.deltaNm - half), nhi = Math.min(hi0, out.deltaNm + half);
+    if (!(nhi > nlo) || nhi - nlo > 0.5 * (hi - lo)) break;
+    [lo, hi] = [nlo, nhi];
+    out = moments(e, lo, hi);
+  }
+  return out;
+}
+
+/**
+ * Log-prior of the growth counted from an estimate: flat on [0, max] times the Gaussian prior,
+ * smeared by N(0, smooth²); the integral in closed form by the product of two Gaussians.
+ */
+function logPrior(e: GrowthEvidence, x: number): number {
+  const s = e.smoothNm ?? 0, max = e.maxNm, p = e.prior;
+  if (!(s > 0)) {
+    if (x < 0 || x > max) return -Infinity;
+    return p ? -0.5 * ((x - p.meanNm) / p.sigmaNm) ** 2 : 0;
+  }
+  if (!p) return Math.log(Math.max(normalCdf(x / s) - normalCdf((x - max) / s), 1e-300));
+  const v2 = p.sigmaNm ** 2 + s * s;
+  const mx = (p.meanNm * s * s + x * p.sigmaNm ** 2) / v2, v = (p.sigmaNm * s) / Math.sqrt(v2);
+  return -0.5 * ((x - p.meanNm) ** 2) / v2 + Math.log(Math.max(normalCdf((max - mx) / v) - normalCdf(-mx / v), 1e-300));
+}
+
+/**
+ * Φ(x) from erf by M. Abramowitz and I. A. Stegun, Handbook of Mathematical Functions (1964),
+ * 7.1.26 (|error| ≤ 1.5·10⁻⁷).
+ */
+export function normalCdf(x: number): number {
+  const z = Math.abs(x) / Math.SQRT2;
+  const t = 1 / (1 + 0.3275911 * z);
+  const erf = 1 - ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-z * z);
+  return x >= 0 ? 0.5 * (1 + erf) : 0.5 * (1 - erf);
+}
+
+/** Log-likelihood of the evidence at each growth (the flat prior adds nothing). */
+export function growthLogLikelihood(e: GrowthEvidence, deltaNm: Float64Array): Float64Array {
+  const ll = new Float64Array(deltaNm.length);
+  if (e.level) {
+    const p = e.level.predict(deltaNm);
+    const k = e.level.sigmaPerNm ?? 0;
+    for (let i = 0; i < ll.length; i++) {
+      const sd = Math.hypot(e.level.sigma, k * deltaNm[i]);
+      ll[i] -= 0.5 * ((p[i] - e.level.observed) / sd) ** 2 + Math.log(sd / e.level.sigma);
+    }
+  }
+  for (const g of e.gaussians ?? []) {
+    for (let i = 0; i < ll.length; i++) ll[i] -= 0.5 * ((deltaNm[i] - g.meanNm) / g.sigmaNm) ** 2;
+  }
+  return ll;
+}
+
+function moments(e: GrowthEvidence, lo: number, hi: number): GrowthEstimate {
+  const d = Float64Array.from({ length: GRID }, (_, i) => lo + ((hi - lo) * i) / (GRID - 1));
+  const ll = growthLogLikelihood(e, d);
+  for (let i = 0; i < GRID; i++) ll[i] += logPrior(e, d[i]);
+  let top = -Infinity;
+  for (const v of ll) top = Math.max(top, v);
+  if (top === -Infinity) return { deltaNm: 0.5 * (lo + hi), sigmaNm: (hi - lo) / Math.sqrt(12) };
+  // Trapezoid weights on the uniform grid.
+  let w0 = 0, w1 = 0, w2 = 0;
+  for (let i = 0; i < GRID; i++) {
+    const w = Math.exp(ll[i] - top) * (i === 0 || i === GRID - 1 ? 0.5 : 1);
+    w0 += w;
+    w1 += w * d[i];
+    w2 += w * d[i] * d[i];
+  }
+  const mean = w1 / w0;
+  return { deltaNm: mean, sigmaNm: Math.sqrt(Math.max(0, w2 / w0 - mean * mean)) };
+}

@@ -1,0 +1,200 @@
+import { type LayerEstimate } from './fitLayers';
+import { type GaussianEvidence, type GrowthEstimate } from './growthPosterior';
+import { invertSymmetric } from './invertSymmetric';
+import { decodeLayer, encodeLayer, evaluateLayers, jacobianLayers, paramLayout, thicknessAt, type FitLayerData } from './layerModel';
+
+export interface JointGrowthInput {
+  /** The chip's layers as in its joint fit (time bases with the current growth), and the fit's estimates. */
+  data: readonly FitLayerData[];
+  estimates: readonly LayerEstimate[];
+  sharedGain: { gain: number; driftPerS: number; fitDrift: boolean } | null;
+  offsetSignal: number;
+  /** Per layer: its time base at the last logged sample and its current growth, nm; null for a layer without a growth parameter (the chip's last). */
+  growth: readonly ({ loggedS: number; deltaNm: number } | null)[];
+  /** The growth's final estimate from the joint fit's Gaussian (bounds, the idle level). */
+  finalize: (layer: number, joint: GaussianEvidence) => GrowthEstimate;
+}
+
+export interface JointGrowthLayer {
+  estimate: LayerEstimate;
+  /** The layer's growth (null where it had no parameter), and its time base with the growth. */
+  growth: GrowthEstimate | null;
+  durationS: number;
+}
+
+/**
+ * The growth after each cut of a chip, re-estimated with its joint fit: one Gauss–Newton step
+ * from the converged joint fit with each layer's growth δ as one more parameter (it changes
+ * only the later layers' curves: where each starts on its fringe). In the sequential pass a
+ * layer's growth is read against the stack as then estimated, so it also absorbs that stack's
+ * error; with every layer fitted jointly the stack is known far better, and the growth must be
+ * read again against it. The gradient in the fit's own parameters θ is zero at its solution, so
+ * the step is Δ = A⁻¹·(0, J_δᵀr) with A the normal matrix of (θ, δ); the covariance is
+ * s²·A⁻¹, scaled for correlated noise per layer as the joint fit's. Each δ's marginal then goes
+ * through `finalize` (the bound δ ≥ 0, the idle level), and θ follows it by Gaussian
+ * conditioning: θ = θ̂ + K·(δ − δ̂), Cov θ = C_θθ − K·C_δθ + K·P·Kᵀ with K = C_θδ·C_δδ⁻¹ and P the
+ * final δ covariance (C. M. Bishop, Pattern Recognition and Machine Learning (2006), §2.3.1;
+ * from memory). Null when the normal matrix is singular.
+ */
+export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null {
+  const { data, estimates, sharedGain, offsetSignal } = input;
+  const shared = sharedGain !== null;
+  const layout = paramLayout(data, shared, sharedGain?.fitDrift ?? false);
+  const np = layout.count;
+  const p = new Float64Array(np);
+  {
+    const v: number[] = [];
+    data.forEach((l, j) => encodeLayer(l, estimates[j], v, shared));
+    if (sharedGain) {
+      v.push(sharedGain.gain);
+      if (sharedGain.fitDrift) v.push(sharedGain.driftPerS);
+    }
+    p.set(v);
+  }
+  const grown = input.growth.map((g, j) => (g && j + 1 < data.length ? j : -1)).filter((j) => j >= 0);
+  const m = grown.length;
+  if (m === 0) return null;
+  const M = np + m;
+  let N = 0;
+  for (const l of data) N += l.tauS.length;
+  const at = new Float64Array(N);
+  evaluateLayers([], data, layout, p, offsetSignal, at);
+  const J = new Float64Array(M * N);
+  const steps = new Float64Array(np);
+  for (let k = 0; k < np; k++) steps[k] = 1e-6 * Math.max(Math.abs(p[k]), 1e-6);
+  jacobianLayers([], data, layout, p, offsetSignal, at, steps, J.subarray(0, np * N));
+  // ∂model/∂δ_j: the layer's time base moved by h at its final rate (central differences).
+  const h = 0.01;
+  const plus = new Float64Array(N), minus = new Float64Array(N);
+  grown.forEach((j, c) => {
+    const e = estimates[j];
+    const dt = h / Math.max(e.rateNmPerS + e.rateDriftNmPerS2 * data[j].durationS, 1e-9);
+    const moved = (s: number) => data.map((l, i) => (i === j ? { ...l, durationS: l.durationS + s * dt } : l));
+    plus.set(at);
+    minus.set(at);
+    evaluateLayers([], moved(1), layout, p, offsetSignal, plus, j + 1);
+    evaluateLayers([], moved(-1), layout, p, offsetSignal, minus, j + 1);
+    const row = (np + c) * N;
+    for (let i = 0; i < N; i++) J[row + i] = (plus[i] - minus[i]) / (2 * h);
+  });
+  const r = new Float64Array(N);
+  let pos = 0, ssr = 0;
+  for (const l of data) {
+    const w = l.weight ?? 1;
+    for (let i = 0; i < l.y.length; i++, pos++) {
+      r[pos] = w * l.y[i] - at[pos];
+      ssr += r[pos] * r[pos];
+    }
+  }
+  const A = new Float64Array(M * M);
+  for (let a = 0; a < M; a++) {
+    for (let b = a; b < M; b++) {
+      let s = 0;
+      for (let i = 0, oa = a * N, ob = b * N; i < N; i++) s += J[oa + i] * J[ob + i];
+      A[a * M + b] = A[b * M + a] = s;
+    }
+  }
+  const inv = invertSymmetric(A, M);
+  if (!inv) return null;
+  const g = new Float64Array(M);
+  for (let c = 0; c < m; c++) {
+    let s = 0;
+    for (let i = 0, o = (np + c) * N; i < N; i++) s += J[o + i] * r[i];
+    g[np + c] = s;
+  }
+  const step = new Float64Array(M);
+  for (let a = 0; a < M; a++) for (let b = np; b < M; b++) step[a] += inv[a * M + b] * g[b];
+  // Covariance: s²·A⁻¹, each parameter scaled by √τ of the layer whose data carry it (a growth: the next layer's).
+  const s2 = ssr / Math.max(N - M, 1);
+  const f = new Float64Array(M);
+  const tauOf = (j: number) => Math.max(1, estimates[j].noiseCorrelation);
+  let pooled = 0;
+  data.forEach((l, j) => (pooled += tauOf(j) * l.tauS.length));
+  f.fill(Math.sqrt(pooled / N));
+  data.forEach((_, j) => {
+    const next = j + 1 < data.length ? layout.offsets[j + 1] : shared ? layout.shared : np;
+    for (let k = layout.offsets[j]; k < next; k++) f[k] = Math.sqrt(tauOf(j));
+  });
+  grown.forEach((j, c) => (f[np + c] = Math.sqrt(tauOf(j + 1))));
+  const C = (a: number, b: number) => s2 * f[a] * f[b] * inv[a * M + b];
+
+  const theta = Float64Array.from(p, (v, k) => v + step[k]);
+  const deltaHat = grown.map((j, c) => input.growth[j]!.deltaNm + step[np + c]);
+  const final = grown.map((j, c) => input.finalize(j, { meanNm: deltaHat[c], sigmaNm: Math.sqrt(Math.max(C(np + c, np + c), 0)) }));
+  // K = C_θδ·C_δδ⁻¹
+  const Cdd = new Float64Array(m * m);
+  for (let a = 0; a < m; a++) for (let b = 0; b < m; b++) Cdd[a * m + b] = C(np + a, np + b);
+  const CddInv = invertSymmetric(Cdd, m);
+  if (!CddInv) return null;
+  const K = new Float64Array(np * m);
+  for (let a = 0; a < np; a++) for (let b = 0; b < m; b++) {
+    let s = 0;
+    for (let c = 0; c < m; c++) s += C(a, np + c) * CddInv[c * m + b];
+    K[a * m + b] = s;
+  }
+  for (let a = 0; a < np; a++) for (let c = 0; c < m; c++) theta[a] += K[a * m + c] * (final[c].deltaNm - deltaHat[c]);
+  // Posterior covariance of (θ, δ), P diagonal (each δ finalized on its own).
+  const cov = (a: number, b: number): number => {
+    if (a >= np && b >= np) return a === b ? final[a - np].sigmaNm ** 2 : 0;
+    if (a >= np) return cov(b, a);
+    if (b >= np) return K[a * m + (b - np)] * final[b - np].sigmaNm ** 2;
+    let v = C(a, b);
+    for (let c = 0; c < m; c++) {
+      v -= K[a * m + c] * C(np + c, b);
+      v += K[a * m + c] * K[b * m + c] * final[c].sigmaNm ** 2;
+    }
+    return v;
+  };
+  // A safeguard for the linear step: the fit at the new values must be as good as the old one
+  // but for the pull of the growths' bounds and priors (about one unit of χ² each).
+  {
+    const moved = data.map((l, j) => {
+      const c = grown.indexOf(j);
+      if (c < 0) return l;
+      const v = decodeLayer(l, theta, layout.offsets[j], layout);
+      const rate = Math.max(v.rateNmPerS + v.rateDriftNmPerS2 * input.growth[j]!.loggedS, 1e-9);
+      return { ...l, durationS: input.growth[j]!.loggedS + final[c].deltaNm / rate };
+    });
+    const after = new Float64Array(N);
+    evaluateLayers([], moved, layout, theta, offsetSignal, after);
+    let ssrAfter = 0;
+    pos = 0;
+    for (const l of data) {
+      const w = l.weight ?? 1;
+      for (let i = 0; i < l.y.length; i++, pos++) ssrAfter += (w * l.y[i] - after[pos]) ** 2;
+    }
+    if (!(ssrAfter <= ssr + (2 * m + 10) * s2 * Math.max(...f) ** 2)) return null;
+  }
+  return data.map((layer, j) => {
+    const e = estimates[j];
+    const v = decodeLayer(layer, theta, layout.offsets[j], layout);
+    let i = layout.offsets[j];
+    const iN = layer.heldIndex === null ? i++ : -1;
+    const iR = i++;
+    const iA = layer.fitDrift ? i++ : -1;
+    const c = grown.indexOf(j);
+    const iD = c >= 0 ? np + c : -1;
+    const loggedS = c >= 0 ? input.growth[j]!.loggedS : layer.durationS;
+    const T = loggedS;
+    const delta = c >= 0 ? final[c].deltaNm : 0;
+    const d = thicknessAt(T, v.rateNmPerS, v.rateDriftNmPerS2) + delta;
+    // Gradients of d and n·d in (n, r, a, δ).
+    const idx = [iN, iR, iA, iD];
+    const gd = [0, T, 0.5 * T * T, 1];
+    const gnd = [d, v.index * T, 0.5 * v.index * T * T, v.index];
+    const q = (u: number[], w: number[]) => {
+      let s = 0;
+      for (let x = 0; x < 4; x++) for (let y = 0; y < 4; y++) if (idx[x] >= 0 && idx[y] >= 0) s += u[x] * w[y] * cov(idx[x], idx[y]);
+      return Math.sqrt(Math.max(s, 0));
+    };
+    const sd = (k: number) => (k < 0 ? 0 : Math.sqrt(Math.max(cov(k, k), 0)));
+    const estimate: LayerEstimate = {
+      ...e, index: v.index, rateNmPerS: v.rateNmPerS, rateDriftNmPerS2: v.rateDriftNmPerS2,
+      indexSigma: iN >= 0 ? sd(iN) : e.indexSigma, rateSigma: sd(iR), rateDriftSigma: sd(iA),
+      thicknessNm: d, thicknessSigmaNm: q(gd, gd), opticalThicknessNm: v.index * d, opticalThicknessSigmaNm: q(gnd, gnd),
+    };
+    const growth = c >= 0 ? final[c] : null;
+    const finalRate = Math.max(v.rateNmPerS + v.rateDriftNmPerS2 * T, 1e-9);
+    return { estimate, growth, durationS: growth ? T + growth.deltaNm / finalRate : layer.durationS };
+  });
+}
