@@ -100,7 +100,9 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
   const layerSegments = byDesign ? placeBoundaries(trace, design, byDesign.layers, byDesign.windows) : seg.layers;
   const samplesByLayer = gatherLayerSamples(trace, layerSegments);
-  const ends = new LayerEnds(trace, samplesByLayer, warnings);
+  // Boundaries placed on the design's curve (no layer column) already end where the growth after
+  // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings);
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }
@@ -206,14 +208,14 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
     const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
     // The growth after the cut of the layer below, from where this layer starts on its fringe (LayerEnds).
-    if (ends.fromNext(chip, below, fit, single, calibration.offset, c, stacks.get(chip))) {
+    if (ends?.fromNext(chip, below, fit, single, calibration.offset, c, stacks.get(chip))) {
       const e = single.layers[0];
       single = fitSingle(e.index, e.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : e.gain));
     }
     if (o.mode === 'sequential') {
       // The stack below's uncertainty, carried into this layer's σ (refit fits them jointly instead).
       const held = heldIndex !== null ? { sigma: heldSigma, shift: shiftWithHeldIndex(fit, heldIndex, heldSigma, single.layers[0], fitSingle) } : null;
-      stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()), c, held));
+      stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held));
     }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
     const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;
@@ -225,7 +227,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       ...(separation?.hold ? { heldWhy: separation.reason, heldIndexSigma: heldSigma } : {}),
     };
     built.state = state;
-    ends.ended(state, below);
+    ends?.ended(state, below);
     prior.push(state);
     chipLayers.set(chip, prior);
     states.push(state);
@@ -256,7 +258,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const data = chipStates.map((p) => p.make(perLayer));
       const shared = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
       // Each growth after a cut read again against the jointly fitted stack (LayerEnds).
-      ends.afterJointFit(data, chipStates, chipStates[0].calibration.offset, cg);
+      ends?.afterJointFit(data, chipStates, chipStates[0].calibration.offset, cg);
       // A held index's own σ, into every layer of the chip (the joint fit took the index as exact).
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
@@ -272,7 +274,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
   }
 
-  ends.finish(o.mode === 'refit');
+  ends?.finish(o.mode === 'refit');
   const belowOf = (s: LayerState) => {
     const chipStates = chipLayers.get(s.samples.chip)!;
     return chipStates.slice(0, chipStates.indexOf(s)).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));
