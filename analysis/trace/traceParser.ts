@@ -1,3 +1,4 @@
+import { plainDecimal } from './plainDecimal';
 import { TraceFormatError } from './TraceFormatError';
 import type { TraceWarning } from './types';
 
@@ -22,12 +23,13 @@ class Grow<T extends Float64Array | Int32Array> {
     this.data = make(1024);
   }
   set(i: number, v: number): void {
-    if (i >= this.data.length) {
-      const next = this.make(this.data.length * 2);
-      next.set(this.data);
-      this.data = next;
-    }
+    if (i >= this.data.length) this.grow();
     this.data[i] = v;
+  }
+  private grow(): void {
+    const next = this.make(this.data.length * 2);
+    next.set(this.data);
+    this.data = next;
   }
   take(n: number): T {
     return this.data.slice(0, n) as T;
@@ -70,7 +72,12 @@ export class TraceParser {
   private sawContent = false;
   private blankLine = 0;
   private prevTime = -Infinity;
-  private prevTimeText = '';
+  /** The previous row's time field as written, prevTimeSource[prevTimeFrom, prevTimeTo), for the message when time goes backwards. */
+  private prevTimeSource = '';
+  private prevTimeFrom = 0;
+  private prevTimeTo = 0;
+  /** Unparsed numbers of the row being read by rowAt, one slot per column. */
+  private fieldValues = new Float64Array(0);
   private readonly warningCounts = new Map<string, { count: number; firstLine?: number }>();
 
   constructor(private readonly limits: ParserLimits) {
@@ -185,6 +192,72 @@ export class TraceParser {
     if (seen.has('crystal_nm')) this.crystal = this.column((n) => new Float64Array(n));
     this.columns = names;
     this.headerLine = lineNo;
+    this.fieldValues = new Float64Array(names.length);
+  }
+
+  /**
+   * The fast path for an ordinary data row, text[start, end) (a CR before end is dropped):
+   * plain decimals and nothing to report. Returns false, having changed nothing, for anything
+   * else (blank, metadata, spaces, a bad or out-of-range value, time not increasing, too many
+   * rows), and the caller passes the line to line(), which reads it or names the fault.
+   */
+  rowAt(text: string, start: number, end: number): boolean {
+    if (this.headerLine === 0 || this.blankLine !== 0 || this.rowCount >= this.limits.maxRows) return false;
+    if (end > start && text.charCodeAt(end - 1) === 13) end--;
+    const sep = this.separator === ',' ? 44 : 9;
+    const kinds = this.kinds, values = this.fieldValues, nFields = kinds.length;
+    let pos = start, timeStart = 0, timeEnd = 0;
+    for (let j = 0; j < nFields; j++) {
+      let stop = pos;
+      while (stop < end && text.charCodeAt(stop) !== sep) stop++;
+      // the last field runs to the line's end; any other must stop at a separator
+      if ((j === nFields - 1) !== (stop === end)) return false;
+      const kind = kinds[j];
+      if (kind !== KIND_IGNORE) {
+        const v = plainDecimal(text, pos, stop);
+        if (v !== v) return false;
+        if (kind === KIND_TIME) {
+          if (!(v > this.prevTime)) return false;
+          timeStart = pos;
+          timeEnd = stop;
+        } else if (kind === KIND_LAYER) {
+          if (!Number.isInteger(v) || v < 0 || (this.limits.layerCount !== undefined && v > this.limits.layerCount)) return false;
+        } else if (kind === KIND_CHIP) {
+          if (!Number.isInteger(v) || v < 1) return false;
+        }
+        values[j] = v;
+      }
+      pos = stop + 1;
+    }
+    const r = this.rowCount;
+    for (let j = 0; j < nFields; j++) {
+      const v = values[j];
+      switch (kinds[j]) {
+        case KIND_IGNORE:
+          break;
+        case KIND_TIME:
+          this.prevTime = v;
+          this.time.set(r, v);
+          break;
+        case KIND_SIGNAL:
+          this.signal.set(r, v);
+          break;
+        case KIND_LAYER:
+          if (v > this.maxLayer) this.maxLayer = v;
+          this.layer!.set(r, v);
+          break;
+        case KIND_CHIP:
+          this.chip!.set(r, v);
+          break;
+        default:
+          this.crystal!.set(r, v);
+      }
+    }
+    this.prevTimeSource = text;
+    this.prevTimeFrom = timeStart;
+    this.prevTimeTo = timeEnd;
+    this.rowCount = r + 1;
+    return true;
   }
 
   private row(s: string, lineNo: number): void {
@@ -228,12 +301,14 @@ export class TraceParser {
           this.fail(
             lineNo,
             'time_not_increasing',
-            `${text.trim()} is not after the previous time ${this.prevTimeText} (line ${lineNo - 1}); time must be strictly increasing`,
+            `${text.trim()} is not after the previous time ${this.prevTimeSource.substring(this.prevTimeFrom, this.prevTimeTo).trim()} (line ${lineNo - 1}); time must be strictly increasing`,
             this.columns[j],
           );
         }
         this.prevTime = v;
-        this.prevTimeText = text.trim();
+        this.prevTimeSource = text;
+        this.prevTimeFrom = 0;
+        this.prevTimeTo = text.length;
         this.time.set(r, v);
         break;
       case KIND_SIGNAL:
