@@ -17,6 +17,18 @@ export interface SavitzkyGolayOptions {
  * (Savitzky & Golay 1964, Anal. Chem. 36, 1627). Row-major (order+1) × window.
  */
 function projection(window: number, order: number): Float64Array {
+  const key = `${window},${order}`;
+  let P = projections.get(key);
+  if (!P) {
+    // a handful of shapes are used, each many times (every edge point of every smoothed series)
+    if (projections.size >= 64) projections.clear();
+    projections.set(key, (P = computeProjection(window, order)));
+  }
+  return P;
+}
+const projections = new Map<string, Float64Array>();
+
+function computeProjection(window: number, order: number): Float64Array {
   const h = (window - 1) / 2;
   const m = order + 1;
   const A = new Float64Array(m * m);
