@@ -10,6 +10,18 @@ const POW10 = Float64Array.from({ length: 23 }, (_, i) => Number(`1e${i}`));
  * point numbers accurately", PLDI 1990, the fast path); other plain decimals go to Number().
  */
 export function plainDecimal(text: string, start: number, end: number): number {
+  return scanDecimal(text, start, end, -1);
+}
+
+/** Where the last successful scanDecimal stopped: the separator's position, or end. */
+export const scanned = { end: 0 };
+
+/**
+ * plainDecimal of the field that starts at `start` and runs to the first `sep` (a char code) or
+ * to end, read in the same pass that finds its end (left in scanned.end); NaN when the field is
+ * not a plain decimal.
+ */
+export function scanDecimal(text: string, start: number, end: number, sep: number): number {
   let i = start;
   let c = i < end ? text.charCodeAt(i) : 0;
   const negative = c === 45; // '-'
@@ -44,13 +56,14 @@ export function plainDecimal(text: string, start: number, end: number): number {
     if (expDigits === 0) return NaN;
     if (minus) exponent = -exponent;
   }
-  if (i !== end) return NaN;
+  if (i !== end && c !== sep) return NaN;
+  scanned.end = i;
   const e = exponent - fraction;
   if (digits <= 15 && e >= -22 && e <= 22) {
     const v = e < 0 ? mantissa / POW10[-e] : mantissa * POW10[e];
     return negative ? -v : v;
   }
   // the sign is part of the text here
-  const v = Number(text.substring(start, end));
+  const v = Number(text.substring(start, i));
   return Number.isFinite(v) ? v : NaN;
 }

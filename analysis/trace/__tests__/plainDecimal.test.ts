@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { plainDecimal } from '../plainDecimal';
+import { plainDecimal, scanDecimal, scanned } from '../plainDecimal';
 
 // The reference is the engine's own Number() (ECMAScript StringToNumber, correctly rounded), an
 // implementation independent of ours; a plain decimal must read bit for bit the same.
@@ -57,5 +57,18 @@ describe('plainDecimal', () => {
     expect(plainDecimal('xx12.5yy', 2, 6)).toBe(12.5);
     expect(plainDecimal('3,4', 0, 1)).toBe(3);
     expect(plainDecimal('3,4', 2, 3)).toBe(4);
+  });
+
+  it('scanDecimal reads a field up to its separator and says where it stopped', () => {
+    const row = '12.5,-3e2,7';
+    expect(scanDecimal(row, 0, row.length, 44)).toBe(12.5);
+    expect(scanned.end).toBe(4);
+    expect(scanDecimal(row, 5, row.length, 44)).toBe(-300);
+    expect(scanned.end).toBe(9);
+    expect(scanDecimal(row, 10, row.length, 44)).toBe(7);
+    expect(scanned.end).toBe(11);
+    expect(scanDecimal('1.5;2', 0, 5, 44)).toBeNaN();
+    expect(scanDecimal('12345678901234567890,1', 0, 22, 44)).toBe(12345678901234567890);
+    expect(scanned.end).toBe(20);
   });
 });
