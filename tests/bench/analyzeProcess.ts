@@ -91,7 +91,29 @@ export async function run(): Promise<void> {
   }
   const missing = design.layers.length - result.layers.length;
   console.log(`  layers against the truth, graded on their tolerance: ${grades.within} within, ${grades.near} near, ${grades.outside} outside, ${missing} without a result (worst thickness error ${worst.toFixed(2)} %)`);
+  commentMemory(script, dir, designFile, csv.slice(0, csv.indexOf('\n', 2_000_000) + 1));
   rmSync(dir, { recursive: true, force: true });
+}
+
+/**
+ * Issue 7's bad-input clause: memory bounded by the samples, not by the lines of comment. The
+ * same ~10⁵ rows after 2·10³ and after 2·10⁶ bare "#" lines (each a malformed-metadata warning):
+ * the process's peak resident memory (reported by itself at exit) and how much it writes.
+ */
+function commentMemory(script: { command: string; args: string[] }, dir: string, designFile: string, rows: string): void {
+  if (script.command !== process.execPath) return;
+  const header = rows.slice(rows.indexOf('time_s'));
+  const report = 'data:text/javascript,process.on("exit",()=>process.stderr.write(`\\npeak-rss-kb ${process.resourceUsage().maxRSS}\\n`))';
+  const figures = [2_000, 2_000_000].map((lines) => {
+    const file = path.join(dir, `comments-${lines}.csv`);
+    writeFileSync(file, '#\n'.repeat(lines) + header);
+    const r = spawnSync(script.command, ['--import', report, ...script.args, '--design', designFile, '--trace', file, '--mode', 'refit'], {
+      cwd: root, encoding: 'utf8', maxBuffer: 256 * 2 ** 20,
+    });
+    const kb = Number(/peak-rss-kb (\d+)/.exec(r.stderr)?.[1] ?? NaN);
+    return `${lines.toLocaleString('en')} "#" lines: peak ${(kb / 1024).toFixed(0)} MiB, ${((r.stdout.length + r.stderr.length) / 1024).toFixed(0)} KiB written (exit ${r.status})`;
+  });
+  console.log(`  comment lines before ${(header.split('\n').length - 2).toLocaleString('en')} rows: ${figures.join('; ')}`);
 }
 
 if (process.argv[1]?.endsWith('analyzeProcess.ts')) await run();
