@@ -80,6 +80,11 @@ function accumulate(
   // A transparent growing layer (real δ and η, the usual case): the terms that vanish are left
   // out; the figures are the same, operation for operation.
   const transparent = ki === 0 && gei === 0;
+  // With no absorption anywhere (real admittances, a stack below of the lossless form
+  // [[a, ib], [ic, d]]), the coated face reflects alike from both sides (R + T = 1 on each side,
+  // T the same both ways; Macleod, Thin-Film Optical Filters, ch. 2, from memory): the reversed
+  // product for the light coming back through the substrate is not needed.
+  const lossless = transparent && e0i === 0 && esi === 0 && b11i === 0 && b22i === 0 && b12r === 0 && b21r === 0;
 
   for (let i = 0; i < thicknessNm.length; i++) {
     const dr = kr * thicknessNm[i];
@@ -117,13 +122,22 @@ function accumulate(
     }
     const sumR = e0r * Br - e0i * Bi + Cr, sumI = e0r * Bi + e0i * Br + Ci;
     const den = sumR * sumR + sumI * sumI;
-    const difR = e0r * Br - e0i * Bi - Cr, difI = e0r * Bi + e0i * Br - Ci;
-    const Rf = (difR * difR + difI * difI) / den;
-    const Tf = (4 * e0r * esr) / den;
     let value: number;
-    if (!backside) {
-      value = wantR ? Rf : Tf;
+    if (!backside && !wantR) {
+      value = (4 * e0r * esr) / den;
+    } else if (!backside) {
+      const difR = e0r * Br - e0i * Bi - Cr, difI = e0r * Bi + e0i * Br - Ci;
+      value = (difR * difR + difI * difI) / den;
+    } else if (lossless) {
+      const difR = e0r * Br - e0i * Bi - Cr, difI = e0r * Bi + e0i * Br - Ci;
+      const Rf = (difR * difR + difI * difI) / den;
+      const Tf = (4 * e0r * esr) / den;
+      const denom = 1 - Rf * rBack;
+      value = wantR ? Rf + (Tf * Tf * rBack) / denom : (Tf * tBack) / denom;
     } else {
+      const difR = e0r * Br - e0i * Bi - Cr, difI = e0r * Bi + e0i * Br - Ci;
+      const Rf = (difR * difR + difI * difI) / den;
+      const Tf = (4 * e0r * esr) / den;
       // Coated face seen from inside: the reversed product Mb_rev·L with Mb_rev = [[b22, b12], [b21, b11]]
       // (see coherent.ts), applied to [1, η0]: w = L·[1, η0], then [B2, C2] = Mb_rev·w.
       const w1r = cr + l12r * e0r - l12i * e0i, w1i = ci + l12r * e0i + l12i * e0r;
