@@ -1,4 +1,4 @@
-import { median, noiseSigma } from './robustStats';
+import { medianInPlace, noiseSigma } from './robustStats';
 
 /** A stretch of samples at one level, [start, end) within the series given. */
 export interface Level {
@@ -53,9 +53,9 @@ export function longRunSigma(y: ArrayLike<number>): number {
   const mad = (k: number) => {
     const d = new Float64Array(n - k);
     for (let i = 0; i + k < n; i++) d[i] = y[i + k] - y[i];
-    const m = median(d);
+    const m = medianInPlace(d);
     for (let i = 0; i < d.length; i++) d[i] = Math.abs(d[i] - m);
-    return 1.4826 * median(d);
+    return 1.4826 * medianInPlace(d);
   };
   const total2 = mad(lag) ** 2 / 2;
   const first2 = mad(1) ** 2;

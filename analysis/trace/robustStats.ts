@@ -1,8 +1,12 @@
 /** Median of values (copied; the input is not reordered). NaN for an empty input. */
 export function median(values: ArrayLike<number>): number {
-  const n = values.length;
+  return values.length === 0 ? NaN : medianInPlace(Float64Array.from(values));
+}
+
+/** Median of a scratch array, which it reorders (no copy: for long temporary series). NaN for an empty input. */
+export function medianInPlace(a: Float64Array): number {
+  const n = a.length;
   if (n === 0) return NaN;
-  const a = Float64Array.from(values);
   const mid = n >> 1;
   const upper = quickselect(a, mid);
   return n % 2 === 1 ? upper : 0.5 * (largest(a, mid) + upper);
@@ -58,8 +62,8 @@ export function noiseSigma(y: ArrayLike<number>): number {
   const n = y.length;
   if (n < 3) return 0;
   const d = secondDifferences(y);
-  absoluteDeviations(d, median(d));
-  return (1.4826 * median(d)) / Math.sqrt(6);
+  absoluteDeviations(d, medianInPlace(d));
+  return (1.4826 * medianInPlace(d)) / Math.sqrt(6);
 }
 
 function secondDifferences(y: ArrayLike<number>): Float64Array {
