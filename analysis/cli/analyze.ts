@@ -1,4 +1,5 @@
 import { createReadStream, statSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
 import { AnalysisInputError } from '../fit/AnalysisInputError';
 import { analyzeRun } from '../fit/analyzeRun';
 import { readTrace, TraceFormatError, type TraceData } from '../trace';
@@ -30,18 +31,18 @@ export async function analyzeCommand(argv: string[]) {
   const tracePath = requireFlag(flags, 'trace', USAGE);
   const mode = choiceFlag(flags, 'mode', ['sequential', 'refit'] as const, 'sequential');
   const design = loadDesignFile(designPath);
-  // started before the trace is read, so the thread is ready when the fits begin
-  const spectra = startSpectrumThread(new URL(import.meta.url));
+  // started before the trace is read, so the thread is ready when the fits begin; one core: none
+  const spectra = availableParallelism() > 1 ? startSpectrumThread(new URL(import.meta.url)) : null;
   try {
     const trace = await loadTrace(tracePath, design.layers.length);
-    const result = await analyzeRun(design, trace, { mode, spectrumOf: spectra.spectrumOf }).catch((e: unknown) => {
+    const result = await analyzeRun(design, trace, { mode, spectrumOf: spectra?.spectrumOf }).catch((e: unknown) => {
       if (e instanceof AnalysisInputError) throw new CliInputError(`${tracePath}: ${e.message}`);
       throw e;
     });
     const { format, layers, warnings, ...rest } = result;
     return { format, layers, warnings, ...rest };
   } finally {
-    spectra.close();
+    spectra?.close();
   }
 }
 
