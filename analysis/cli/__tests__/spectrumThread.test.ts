@@ -12,6 +12,11 @@ import { startSpectrumThread } from '../spectrumThread';
 const root = path.resolve(import.meta.dirname, '../../..');
 const samples = path.join(root, 'sample-traces');
 
+// the launcher's bundle, in a cache of this test's own inside the project (it finds node_modules there)
+mkdirSync(path.join(root, 'node_modules/.cache'), { recursive: true });
+const cache = mkdtempSync(path.join(root, 'node_modules/.cache/fringelog-cli-test-'));
+afterAll(() => rmSync(cache, { recursive: true, force: true }));
+
 describe('the analyze command computes spectra on a second thread', () => {
   it('answers from this thread when the other cannot start', async () => {
     const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
@@ -24,10 +29,6 @@ describe('the analyze command computes spectra on a second thread', () => {
   });
 
   it('the bundled command (thread on) prints what analyzeRun gives in process (no thread)', async () => {
-    // the launcher's bundle, in a cache of this test's own inside the project (it finds node_modules there)
-    mkdirSync(path.join(root, 'node_modules/.cache'), { recursive: true });
-    const cache = mkdtempSync(path.join(root, 'node_modules/.cache/fringelog-cli-test-'));
-    afterAll(() => rmSync(cache, { recursive: true, force: true }));
     const designFile = path.join(samples, 'bbar4-visible.json');
     const traceFile = path.join(samples, 'bay2-bb4-run0587.csv');
     const r = spawnSync(process.execPath, [path.join(root, 'db/local/cli.mjs'), 'analyze', '--design', designFile, '--trace', traceFile, '--mode', 'refit'], {
