@@ -1,7 +1,9 @@
 import { createReadStream, statSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
 import { AnalysisInputError } from '../fit/AnalysisInputError';
 import { analyzeRun } from '../fit/analyzeRun';
 import { readTrace, TraceFormatError, type TraceData } from '../trace';
+import { isSpectrumThread, serveSpectra, startSpectrumThread } from './spectrumThread';
 import { choiceFlag, CliInputError, loadDesignFile, parseFlags, requireFlag, runCli } from './args';
 
 const USAGE = 'npm run --silent analyze -- --design FILE --trace FILE [--mode sequential|refit]';
@@ -29,13 +31,20 @@ export async function analyzeCommand(argv: string[]) {
   const tracePath = requireFlag(flags, 'trace', USAGE);
   const mode = choiceFlag(flags, 'mode', ['sequential', 'refit'] as const, 'sequential');
   const design = loadDesignFile(designPath);
-  const trace = await loadTrace(tracePath, design.layers.length);
-  const result = await analyzeRun(design, trace, { mode }).catch((e: unknown) => {
-    if (e instanceof AnalysisInputError) throw new CliInputError(`${tracePath}: ${e.message}`);
-    throw e;
-  });
-  const { format, layers, warnings, ...rest } = result;
-  return { format, layers, warnings, ...rest };
+  // started before the trace is read, so the thread is ready when the fits begin; one core: none
+  const spectra = availableParallelism() > 1 ? startSpectrumThread(new URL(import.meta.url)) : null;
+  try {
+    const trace = await loadTrace(tracePath, design.layers.length);
+    const result = await analyzeRun(design, trace, { mode, spectrumOf: spectra?.spectrumOf }).catch((e: unknown) => {
+      if (e instanceof AnalysisInputError) throw new CliInputError(`${tracePath}: ${e.message}`);
+      throw e;
+    });
+    const { format, layers, warnings, ...rest } = result;
+    return { format, layers, warnings, ...rest };
+  } finally {
+    spectra?.close();
+  }
 }
 
-await runCli('analyze', analyzeCommand);
+if (isSpectrumThread) serveSpectra();
+else await runCli('analyze', analyzeCommand);

@@ -14,6 +14,7 @@ import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
+import { requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
 import { segmentByDesign } from './designSegments';
@@ -112,6 +113,8 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const mismatch = monitorWavelengthMismatch(trace.meta, order);
   if (mismatch) warnings.push(mismatch);
 
+  // Spectra depend on each layer's samples only: with spectrumOf, all are asked for now.
+  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer) : null;
   const noiseFloor = idleNoise(trace, seg.idle);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
@@ -174,7 +177,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     const fit = make(o.maxFitPoints);
     const refit = make(o.refitPointsPerLayer);
     const grid = make(150);
-    const spectrum = layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
+    const spectrum = spectra ? await spectra.get(dl.layer)! : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     const gridInput = {
       gain: fit.heldGain ?? undefined, optics, below, extinction: -nominal.im, tauS: grid.tauS, y: grid.y, offsetSignal: calibration.offset,
       index: nominal.re, searchIndex: !thin, rateGuessNmPerS: dl.thicknessNm / Math.max(durationS, 1e-9),

@@ -22,16 +22,9 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const wl = optics.wavelengthNm;
   const k = -nominal.im;
   const n = samples.tauS.length;
-  const d = new Float64Array(n);
-  for (let i = 0; i < n; i++) d[i] = thicknessAt(samples.tauS[i], e.rateNmPerS, e.rateDriftNmPerS2);
+  const d = thicknesses(samples.tauS, e.rateNmPerS, e.rateDriftNmPerS2);
   const m = growingLayerSignal({ ...optics, below, growing: fromNK(e.index, k), pol: 's' }, d);
-  let ss = 0;
-  for (let i = 0; i < n; i++) {
-    const r = (trace.signal[samples.indices[i]] - calibration.offset) / e.gain - m[i];
-    ss += r * r;
-    if (modelOut) modelOut[samples.indices[i]] = calibration.offset + e.gain * m[i];
-  }
-  const residualRms = Math.sqrt(ss / n);
+  const residualRms = Math.sqrt(squaredResiduals(trace.signal, samples.indices, calibration.offset, e.gain, m, modelOut) / n);
   const noise = noiseSigma / e.gain;
   const residualToNoise = noise > 0 ? residualRms / noise : NaN;
 
@@ -65,8 +58,8 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   // The turning points the data show (hysteresis search), for comparison with the model's.
   // At most 5000 samples, uniform in time, keep this cheap on long layers.
   const sub = subsampleUniform(samples.tauS, 0, n, 5000);
-  const subTime = Float64Array.from(sub, (k) => trace.timeS[samples.indices[k]]);
-  const seen = findTurningPoints(subTime, Float64Array.from(sub, (k) => trace.signal[samples.indices[k]]), {
+  const subTime = gather(trace.timeS, samples.indices, sub);
+  const seen = findTurningPoints(subTime, gather(trace.signal, samples.indices, sub), {
     smoothWindow: sub.length >= 21 ? 21 : 0, includeEnd: true,
   });
   // An unconfirmed end extremum counts only if reached (not projected past the last sample) and
@@ -114,4 +107,31 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
     fringeFrequencyHz: s.spectrum.fringeFrequencyHz, fringeRateNmPerS: s.spectrum.fringeRateNmPerS, disturbances,
     sampleCount: n, fitPoints: s.fitPoints, iterations: s.iterations, converged: s.converged, warnings,
   };
+}
+
+// The per-sample loops sit in small functions of their own, so the engine optimises them apart
+// from layerResult (whose states differ in shape from layer to layer).
+
+function thicknesses(tauS: Float64Array, rateNmPerS: number, rateDriftNmPerS2: number): Float64Array {
+  const d = new Float64Array(tauS.length);
+  for (let i = 0; i < tauS.length; i++) d[i] = thicknessAt(tauS[i], rateNmPerS, rateDriftNmPerS2);
+  return d;
+}
+
+/** Σ of the squared residuals in model units, (reading − offset)/gain − M; the modelled readings into modelOut when given. */
+function squaredResiduals(signal: Float64Array, indices: Int32Array, offset: number, gain: number, m: Float64Array, modelOut?: Float64Array): number {
+  let ss = 0;
+  for (let i = 0; i < m.length; i++) {
+    const r = (signal[indices[i]] - offset) / gain - m[i];
+    ss += r * r;
+    if (modelOut) modelOut[indices[i]] = offset + gain * m[i];
+  }
+  return ss;
+}
+
+/** values[indices[sub[i]]] for each i. */
+function gather(values: Float64Array, indices: Int32Array, sub: Int32Array): Float64Array {
+  const out = new Float64Array(sub.length);
+  for (let i = 0; i < sub.length; i++) out[i] = values[indices[sub[i]]];
+  return out;
 }

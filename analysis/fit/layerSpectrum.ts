@@ -24,11 +24,7 @@ export function layerSpectrum(tauS: ArrayLike<number>, y: ArrayLike<number>, wav
   const s = fringeSpectrum(tauS, y, { maxFftSize: 4096, padFactor: 1 });
   // A true fringe carries most of the layer's swing; a small peak is noise or a harmonic of a
   // part-fringe layer, and no basis for a rate.
-  let lo = Infinity, hi = -Infinity;
-  for (let i = 0; i < y.length; i++) {
-    if (y[i] < lo) lo = y[i];
-    if (y[i] > hi) hi = y[i];
-  }
+  const { lo, hi } = range(y);
   const top = s.peaks[0];
   const strong = top !== undefined && top.amplitude >= 0.3 * ((hi - lo) / 2);
   const f = strong && Number.isFinite(s.dominantFrequencyHz) && s.dominantFrequencyHz > 0 ? s.dominantFrequencyHz : null;
@@ -37,4 +33,14 @@ export function layerSpectrum(tauS: ArrayLike<number>, y: ArrayLike<number>, wav
     fringeRateNmPerS: f === null ? null : (f * wavelengthNm) / (2 * index),
     disturbances: s.disturbances,
   };
+}
+
+/** Smallest and largest value (a function of its own, so the engine optimises this loop apart from the rest). */
+function range(y: ArrayLike<number>): { lo: number; hi: number } {
+  let lo = Infinity, hi = -Infinity;
+  for (let i = 0; i < y.length; i++) {
+    if (y[i] < lo) lo = y[i];
+    if (y[i] > hi) hi = y[i];
+  }
+  return { lo, hi };
 }

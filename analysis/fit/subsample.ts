@@ -8,8 +8,14 @@ export function subsampleUniform(timeS: ArrayLike<number>, start: number, end: n
   if (count <= 0) return new Int32Array(0);
   if (count <= maxPoints) return Int32Array.from({ length: count }, (_, i) => start + i);
   if (maxPoints < 2) return Int32Array.of(start);
-  const t0 = timeS[start], t1 = timeS[end - 1];
   const out = new Int32Array(maxPoints);
+  return out.slice(0, nearestSamples(timeS, start, end, out));
+}
+
+/** The loop of subsampleUniform, a function of its own so the engine optimises it apart: fills out, returns the count. */
+function nearestSamples(timeS: ArrayLike<number>, start: number, end: number, out: Int32Array): number {
+  const maxPoints = out.length;
+  const t0 = timeS[start], t1 = timeS[end - 1];
   let k = 0, j = start, last = -1;
   for (let i = 0; i < maxPoints; i++) {
     const target = t0 + ((t1 - t0) * i) / (maxPoints - 1);
@@ -17,7 +23,7 @@ export function subsampleUniform(timeS: ArrayLike<number>, start: number, end: n
     if (j !== last) out[k++] = j;
     last = j;
   }
-  return out.slice(0, k);
+  return k;
 }
 
 /**

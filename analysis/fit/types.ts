@@ -1,5 +1,6 @@
 import { type MaterialDrift } from '../stats';
 import { type ChipCalibration } from './calibrateChip';
+import { type LayerSpectrum } from './layerSpectrum';
 
 export type AnalysisMode = 'sequential' | 'refit';
 
@@ -75,6 +76,13 @@ export interface AnalyzeOptions {
   modelSeries?: boolean;
   /** Called after each layer's fit. */
   onProgress?: (layersDone: number, layerCount: number) => void;
+  /**
+   * Computes a layer's spectrum (fit/layerSpectrum.ts, from its samples only) elsewhere, e.g. on
+   * another thread. When given, every layer's is asked for before the first fit, so they are
+   * ready as the fits reach them; it must resolve to what layerSpectrum would return.
+   * @default layerSpectrum, in turn, on this thread
+   */
+  spectrumOf?: (tauS: Float64Array, y: Float64Array, wavelengthNm: number, index: number) => Promise<LayerSpectrum>;
 }
 
 export interface TurningPointAt {

@@ -77,33 +77,67 @@ function accumulate(
   const rBack = (rbNum.re * rbNum.re + rbNum.im * rbNum.im) / (rbDen.re * rbDen.re + rbDen.im * rbDen.im);
   const tBack = 1 - rBack;
   const kr = g.nCos.re * k, ki = g.nCos.im * k;
+  // A transparent growing layer (real δ and η, the usual case): the terms that vanish are left
+  // out; the figures are the same, operation for operation.
+  const transparent = ki === 0 && gei === 0;
+  // With no absorption anywhere (real admittances, a stack below of the lossless form
+  // [[a, ib], [ic, d]]), the coated face reflects alike from both sides (R + T = 1 on each side,
+  // T the same both ways; Macleod, Thin-Film Optical Filters, ch. 2, from memory): the reversed
+  // product for the light coming back through the substrate is not needed.
+  const lossless = transparent && e0i === 0 && esi === 0 && b11i === 0 && b22i === 0 && b12r === 0 && b21r === 0;
 
   for (let i = 0; i < thicknessNm.length; i++) {
     const dr = kr * thicknessNm[i];
-    const di = ki * thicknessNm[i];
-    // cosh and sinh from one expm1, accurate for the small di of weak absorbers
-    const em = Math.expm1(di);
-    const emInv = -em / (1 + em);
-    const sh = (em - emInv) / 2, ch = 1 + (em + emInv) / 2;
     const cd = Math.cos(dr), sd = Math.sin(dr);
-    // L = [[cos δ, i sin δ/η], [i η sin δ, cos δ]] (Macleod eq. 2.106)
-    const cr = cd * ch, ci = -sd * sh;
-    const isr = -cd * sh, isi = sd * ch;
-    const l12r = (isr * ger + isi * gei) / etaDen;
-    const l12i = (isi * ger - isr * gei) / etaDen;
-    const l21r = isr * ger - isi * gei;
-    const l21i = isr * gei + isi * ger;
-    const Br = cr * vbr - ci * vbi + l12r * vcr - l12i * vci, Bi = cr * vbi + ci * vbr + l12r * vci + l12i * vcr;
-    const Cr = l21r * vbr - l21i * vbi + cr * vcr - ci * vci, Ci = l21r * vbi + l21i * vbr + cr * vci + ci * vcr;
+    let cr: number, ci: number, l12r: number, l12i: number, l21r: number, l21i: number;
+    let Br: number, Bi: number, Cr: number, Ci: number;
+    if (transparent) {
+      cr = cd;
+      ci = 0;
+      l12r = 0;
+      l12i = (sd * ger) / etaDen;
+      l21r = 0;
+      l21i = sd * ger;
+      Br = cd * vbr - l12i * vci;
+      Bi = cd * vbi + l12i * vcr;
+      Cr = cd * vcr - l21i * vbi;
+      Ci = l21i * vbr + cd * vci;
+    } else {
+      // cosh and sinh from one expm1, accurate for the small di of weak absorbers
+      const em = Math.expm1(ki * thicknessNm[i]);
+      const emInv = -em / (1 + em);
+      const sh = (em - emInv) / 2, ch = 1 + (em + emInv) / 2;
+      // L = [[cos δ, i sin δ/η], [i η sin δ, cos δ]] (Macleod eq. 2.106)
+      cr = cd * ch;
+      ci = -sd * sh;
+      const isr = -cd * sh, isi = sd * ch;
+      l12r = (isr * ger + isi * gei) / etaDen;
+      l12i = (isi * ger - isr * gei) / etaDen;
+      l21r = isr * ger - isi * gei;
+      l21i = isr * gei + isi * ger;
+      Br = cr * vbr - ci * vbi + l12r * vcr - l12i * vci;
+      Bi = cr * vbi + ci * vbr + l12r * vci + l12i * vcr;
+      Cr = l21r * vbr - l21i * vbi + cr * vcr - ci * vci;
+      Ci = l21r * vbi + l21i * vbr + cr * vci + ci * vcr;
+    }
     const sumR = e0r * Br - e0i * Bi + Cr, sumI = e0r * Bi + e0i * Br + Ci;
     const den = sumR * sumR + sumI * sumI;
-    const difR = e0r * Br - e0i * Bi - Cr, difI = e0r * Bi + e0i * Br - Ci;
-    const Rf = (difR * difR + difI * difI) / den;
-    const Tf = (4 * e0r * esr) / den;
     let value: number;
-    if (!backside) {
-      value = wantR ? Rf : Tf;
+    if (!backside && !wantR) {
+      value = (4 * e0r * esr) / den;
+    } else if (!backside) {
+      const difR = e0r * Br - e0i * Bi - Cr, difI = e0r * Bi + e0i * Br - Ci;
+      value = (difR * difR + difI * difI) / den;
+    } else if (lossless) {
+      const difR = e0r * Br - e0i * Bi - Cr, difI = e0r * Bi + e0i * Br - Ci;
+      const Rf = (difR * difR + difI * difI) / den;
+      const Tf = (4 * e0r * esr) / den;
+      const denom = 1 - Rf * rBack;
+      value = wantR ? Rf + (Tf * Tf * rBack) / denom : (Tf * tBack) / denom;
     } else {
+      const difR = e0r * Br - e0i * Bi - Cr, difI = e0r * Bi + e0i * Br - Ci;
+      const Rf = (difR * difR + difI * difI) / den;
+      const Tf = (4 * e0r * esr) / den;
       // Coated face seen from inside: the reversed product Mb_rev·L with Mb_rev = [[b22, b12], [b21, b11]]
       // (see coherent.ts), applied to [1, η0]: w = L·[1, η0], then [B2, C2] = Mb_rev·w.
       const w1r = cr + l12r * e0r - l12i * e0i, w1i = ci + l12r * e0i + l12i * e0r;

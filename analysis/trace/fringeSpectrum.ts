@@ -1,5 +1,5 @@
 import { realFftMagnitude } from './realFftMagnitude';
-import { median } from './robustStats';
+import { median, medianInPlace } from './robustStats';
 
 export interface FringeSpectrumOptions {
   /** Largest FFT length (power of two); longer series are block-averaged first. @default 8192 */
@@ -64,10 +64,7 @@ export function fringeSpectrum(timeS: ArrayLike<number>, y: ArrayLike<number>, o
   const n = y.length;
   if (timeS.length !== n) throw new RangeError(`fringeSpectrum: timeS has ${timeS.length} samples but y has ${n}`);
   if (n < 8) throw new RangeError(`fringeSpectrum: needs at least 8 samples, got ${n}`);
-  for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(y[i]) || !Number.isFinite(timeS[i])) throw new RangeError(`fringeSpectrum: sample ${i} is not finite`);
-    if (i > 0 && !(timeS[i] > timeS[i - 1])) throw new RangeError(`fringeSpectrum: timeS is not strictly increasing at sample ${i}`);
-  }
+  assertSeries(timeS, y);
   const maxFft = options.maxFftSize ?? 8192;
   const pad = options.padFactor ?? 2;
   if (!(maxFft >= 16) || (maxFft & (maxFft - 1)) !== 0) throw new RangeError(`fringeSpectrum: maxFftSize must be a power of two ≥ 16, got ${maxFft}`);
@@ -76,38 +73,19 @@ export function fringeSpectrum(timeS: ArrayLike<number>, y: ArrayLike<number>, o
   const { values, dtS, resampled } = uniform(timeS, y);
   const block = Math.max(1, Math.ceil((values.length * pad) / maxFft));
   const m = Math.floor(values.length / block);
-  const x = new Float64Array(m);
-  for (let i = 0; i < m; i++) {
-    let s = 0;
-    for (let k = 0; k < block; k++) s += values[i * block + k];
-    x[i] = s / block;
-  }
+  const x = blockMeans(values, block, m);
   detrend(x);
-  let wSum = 0;
   const size = Math.min(maxFft, nextPow2(Math.ceil(m * pad)));
   const input = new Float64Array(size);
-  for (let i = 0; i < m; i++) {
-    const w = 0.5 * (1 - Math.cos((2 * Math.PI * i) / (m - 1)));
-    wSum += w;
-    input[i] = x[i] * w;
-  }
+  const wSum = hannInto(x, input);
   const mag = realFftMagnitude(input);
   const sampleRateHz = 1 / (dtS * block);
   const binHz = sampleRateHz / size;
-  const amp = mag.map((v) => (2 * v) / wSum);
+  const amp = amplitudes(mag, wSum);
   const durationS = m * dtS * block;
   const kMin = Math.max(1, Math.ceil((options.minFrequencyHz ?? 1.5 / durationS) / binHz));
 
-  const found: (SpectrumPeak & { widthBins: number })[] = [];
-  for (let k = Math.max(kMin, 1); k < amp.length - 1; k++) {
-    if (!(amp[k] > amp[k + 1] && amp[k] >= amp[k - 1]) || amp[k] === 0) continue;
-    const a = Math.log(amp[k - 1] || Number.MIN_VALUE);
-    const b = Math.log(amp[k]);
-    const c = Math.log(amp[k + 1] || Number.MIN_VALUE);
-    const den = a - 2 * b + c;
-    const d = den < 0 ? Math.max(-0.5, Math.min(0.5, (0.5 * (a - c)) / den)) : 0;
-    found.push({ frequencyHz: (k + d) * binHz, amplitude: Math.exp(b - 0.25 * (a - c) * d), relative: 0, widthBins: halfWidth(amp, k) });
-  }
+  const found = localPeaks(amp, kMin, binHz);
   found.sort((p, q) => q.amplitude - p.amplitude);
   const lobeHz = sampleRateHz / m;
   const real = found.filter((p) => {
@@ -120,8 +98,7 @@ export function fringeSpectrum(timeS: ArrayLike<number>, y: ArrayLike<number>, o
   });
   const dom = real[0];
   const empty = { sampleRateHz, nyquistHz: sampleRateHz / 2, fftSize: size, binHz, blockSize: block, resampled };
-  let scaleY = 0;
-  for (let i = 0; i < n; i++) scaleY = Math.max(scaleY, Math.abs(y[i]));
+  const scaleY = largestMagnitude(y);
   // a residual at rounding level (a straight line, a constant) has no fringe
   if (!dom || dom.amplitude <= 1e-10 * scaleY) return { dominantFrequencyHz: NaN, dominantPeriodS: NaN, peaks: [], disturbances: [], ...empty };
   for (const p of real) p.relative = p.amplitude / dom.amplitude;
@@ -145,14 +122,90 @@ export function fringeSpectrum(timeS: ArrayLike<number>, y: ArrayLike<number>, o
   return { dominantFrequencyHz: dom.frequencyHz, dominantPeriodS: 1 / dom.frequencyHz, peaks, disturbances, ...empty };
 }
 
+// Each loop sits in a small function of its own: the engine then optimises it with the feedback
+// of that loop alone (a long function with several loops, called once per layer, was optimised
+// mid-loop and thrown back at the next loop, call after call).
+
+function assertSeries(timeS: ArrayLike<number>, y: ArrayLike<number>): void {
+  for (let i = 0; i < y.length; i++) {
+    if (!Number.isFinite(y[i]) || !Number.isFinite(timeS[i])) throw new RangeError(`fringeSpectrum: sample ${i} is not finite`);
+    if (i > 0 && !(timeS[i] > timeS[i - 1])) throw new RangeError(`fringeSpectrum: timeS is not strictly increasing at sample ${i}`);
+  }
+}
+
+/** Means of m consecutive blocks of `block` values. */
+function blockMeans(values: Float64Array, block: number, m: number): Float64Array {
+  const x = new Float64Array(m);
+  for (let i = 0; i < m; i++) {
+    let s = 0;
+    for (let k = 0; k < block; k++) s += values[i * block + k];
+    x[i] = s / block;
+  }
+  return x;
+}
+
+/** x times a Hann window over its length, into the start of out (the rest stays zero padding); returns Σ w. */
+function hannInto(x: Float64Array, out: Float64Array): number {
+  const m = x.length;
+  let wSum = 0;
+  for (let i = 0; i < m; i++) {
+    const w = 0.5 * (1 - Math.cos((2 * Math.PI * i) / (m - 1)));
+    wSum += w;
+    out[i] = x[i] * w;
+  }
+  return wSum;
+}
+
+/** Amplitude of the equivalent sinusoid per bin: 2|X[k]| / Σ w. */
+function amplitudes(mag: Float64Array, wSum: number): Float64Array {
+  const amp = new Float64Array(mag.length);
+  for (let k = 0; k < mag.length; k++) amp[k] = (2 * mag[k]) / wSum;
+  return amp;
+}
+
+/** Local maxima from bin kMin on, each refined by a parabola through the log-amplitudes of its three bins. */
+function localPeaks(amp: Float64Array, kMin: number, binHz: number): (SpectrumPeak & { widthBins: number })[] {
+  const found: (SpectrumPeak & { widthBins: number })[] = [];
+  for (let k = Math.max(kMin, 1); k < amp.length - 1; k++) {
+    if (!(amp[k] > amp[k + 1] && amp[k] >= amp[k - 1]) || amp[k] === 0) continue;
+    const a = Math.log(amp[k - 1] || Number.MIN_VALUE);
+    const b = Math.log(amp[k]);
+    const c = Math.log(amp[k + 1] || Number.MIN_VALUE);
+    const den = a - 2 * b + c;
+    const d = den < 0 ? Math.max(-0.5, Math.min(0.5, (0.5 * (a - c)) / den)) : 0;
+    found.push({ frequencyHz: (k + d) * binHz, amplitude: Math.exp(b - 0.25 * (a - c) * d), relative: 0, widthBins: halfWidth(amp, k) });
+  }
+  return found;
+}
+
+function largestMagnitude(y: ArrayLike<number>): number {
+  let v = 0;
+  for (let i = 0; i < y.length; i++) v = Math.max(v, Math.abs(y[i]));
+  return v;
+}
+
 function uniform(timeS: ArrayLike<number>, y: ArrayLike<number>): { values: Float64Array; dtS: number; resampled: boolean } {
+  const steps = differences(timeS);
+  // in place: only the multiset of steps matters below
+  const dtS = medianInPlace(steps);
+  if (allNear(steps, dtS, 0.01 * dtS)) return { values: Float64Array.from(y), dtS, resampled: false };
+  return { values: resample(timeS, y, dtS), dtS, resampled: true };
+}
+
+function differences(t: ArrayLike<number>): Float64Array {
+  const steps = new Float64Array(t.length - 1);
+  for (let i = 1; i < t.length; i++) steps[i - 1] = t[i] - t[i - 1];
+  return steps;
+}
+
+function allNear(v: Float64Array, to: number, within: number): boolean {
+  for (let i = 0; i < v.length; i++) if (!(Math.abs(v[i] - to) <= within)) return false;
+  return true;
+}
+
+/** y linearly interpolated onto a grid of step dtS from timeS[0] to the last time. */
+function resample(timeS: ArrayLike<number>, y: ArrayLike<number>, dtS: number): Float64Array {
   const n = y.length;
-  const steps = new Float64Array(n - 1);
-  for (let i = 1; i < n; i++) steps[i - 1] = timeS[i] - timeS[i - 1];
-  const dtS = median(steps);
-  let even = true;
-  for (let i = 0; i < steps.length && even; i++) even = Math.abs(steps[i] - dtS) <= 0.01 * dtS;
-  if (even) return { values: Float64Array.from(y), dtS, resampled: false };
   const t0 = timeS[0];
   const count = Math.floor((timeS[n - 1] - t0) / dtS) + 1;
   const values = new Float64Array(count);
@@ -163,7 +216,7 @@ function uniform(timeS: ArrayLike<number>, y: ArrayLike<number>): { values: Floa
     const f = (t - timeS[j]) / (timeS[j + 1] - timeS[j]);
     values[i] = y[j] + Math.min(1, Math.max(0, f)) * (y[j + 1] - y[j]);
   }
-  return { values, dtS, resampled: true };
+  return values;
 }
 
 function detrend(x: Float64Array): void {

@@ -1,4 +1,4 @@
-import { median, noiseSigma } from './robustStats';
+import { medianInPlace, noiseSigma } from './robustStats';
 
 /** A stretch of samples at one level, [start, end) within the series given. */
 export interface Level {
@@ -76,9 +76,9 @@ function ar1Noise(y: ArrayLike<number>): { variance: number; rho: number } | nul
   const mad = (k: number) => {
     const d = new Float64Array(n - k);
     for (let i = 0; i + k < n; i++) d[i] = y[i + k] - y[i];
-    const m = median(d);
+    const m = medianInPlace(d);
     for (let i = 0; i < d.length; i++) d[i] = Math.abs(d[i] - m);
-    return 1.4826 * median(d);
+    return 1.4826 * medianInPlace(d);
   };
   const total2 = mad(lag) ** 2 / 2;
   const first2 = mad(1) ** 2;
@@ -90,12 +90,7 @@ function search(y: ArrayLike<number>, sigma: number, options: LevelStepOptions):
   const n = y.length;
   if (n === 0) return [];
   const minLength = Math.max(1, options.minLength ?? 5);
-  const cs = new Float64Array(n + 1), cs2 = new Float64Array(n + 1);
-  for (let i = 0; i < n; i++) {
-    cs[i + 1] = cs[i] + y[i];
-    cs2[i + 1] = cs2[i] + y[i] * y[i];
-  }
-  const cost = (a: number, b: number) => cs2[b] - cs2[a] - (cs[b] - cs[a]) ** 2 / (b - a);
+  const { cs, cs2 } = prefixSums(y);
   // A floor on σ keeps a noiseless series from splitting at rounding error.
   const scale = Math.max(sigma, 1e-9 * (Math.abs(cs[n] / n) + 1));
   const beta = (options.penalty ?? 6) * scale * scale * Math.log(Math.max(n, 3));
@@ -104,12 +99,7 @@ function search(y: ArrayLike<number>, sigma: number, options: LevelStepOptions):
   while (stack.length) {
     const [a, b] = stack.pop()!;
     if (b - a < 2 * minLength) continue;
-    const whole = cost(a, b);
-    let best = -1, bestGain = beta;
-    for (let c = a + minLength; c <= b - minLength; c++) {
-      const gain = whole - cost(a, c) - cost(c, b);
-      if (gain > bestGain) [best, bestGain] = [c, gain];
-    }
+    const best = bestSplit(cs, cs2, a, b, minLength, beta);
     if (best < 0) continue;
     cuts.push(best);
     stack.push([a, best], [best, b]);
@@ -134,4 +124,36 @@ function search(y: ArrayLike<number>, sigma: number, options: LevelStepOptions):
     levels = out;
   }
   return levels;
+}
+
+// The loops sit in small functions of their own, so the engine optimises each apart from the
+// search (which is called on series of several kinds).
+
+function prefixSums(y: ArrayLike<number>): { cs: Float64Array; cs2: Float64Array } {
+  const n = y.length;
+  const cs = new Float64Array(n + 1), cs2 = new Float64Array(n + 1);
+  for (let i = 0; i < n; i++) {
+    cs[i + 1] = cs[i] + y[i];
+    cs2[i + 1] = cs2[i] + y[i] * y[i];
+  }
+  return { cs, cs2 };
+}
+
+/** Squared-error cost of one level over [a, b). */
+function segmentCost(cs: Float64Array, cs2: Float64Array, a: number, b: number): number {
+  return cs2[b] - cs2[a] - (cs[b] - cs[a]) ** 2 / (b - a);
+}
+
+/** The split of [a, b) that lowers the cost by more than beta and most; −1 when none does. */
+function bestSplit(cs: Float64Array, cs2: Float64Array, a: number, b: number, minLength: number, beta: number): number {
+  const whole = segmentCost(cs, cs2, a, b);
+  let best = -1, bestGain = beta;
+  for (let c = a + minLength; c <= b - minLength; c++) {
+    const gain = whole - segmentCost(cs, cs2, a, c) - segmentCost(cs, cs2, c, b);
+    if (gain > bestGain) {
+      best = c;
+      bestGain = gain;
+    }
+  }
+  return best;
 }

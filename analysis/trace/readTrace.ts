@@ -90,13 +90,17 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
         if (carry.length > o.maxLineLength) tooLong(lineNo + 1);
         return;
       }
-      parser.line(carry + text.substring(0, nl), ++lineNo);
+      const joined = carry + text.substring(0, nl);
+      if (!parser.rowAt(joined, 0, joined.length)) parser.line(joined, lineNo + 1);
+      lineNo++;
       carry = '';
       start = nl + 1;
       nl = text.indexOf('\n', start);
     }
+    // Ordinary data rows are read in place (rowAt); any other line goes through line().
     while (nl >= 0) {
-      parser.line(text.substring(start, nl), ++lineNo);
+      lineNo++;
+      if (!parser.rowAt(text, start, nl)) parser.line(text.substring(start, nl), lineNo);
       start = nl + 1;
       nl = text.indexOf('\n', start);
     }

@@ -1,14 +1,26 @@
 /** Median of values (copied; the input is not reordered). NaN for an empty input. */
 export function median(values: ArrayLike<number>): number {
-  const n = values.length;
+  return values.length === 0 ? NaN : medianInPlace(Float64Array.from(values));
+}
+
+/** Median of a scratch array, which it reorders (no copy: for long temporary series). NaN for an empty input. */
+export function medianInPlace(a: Float64Array): number {
+  const n = a.length;
   if (n === 0) return NaN;
-  const a = Float64Array.from(values);
   const mid = n >> 1;
   const upper = quickselect(a, mid);
-  if (n % 2 === 1) return upper;
-  let lower = -Infinity;
-  for (let i = 0; i < mid; i++) if (a[i] > lower) lower = a[i];
-  return 0.5 * (lower + upper);
+  return n % 2 === 1 ? upper : 0.5 * (largest(a, mid) + upper);
+}
+
+// The loops of these functions sit in small functions of their own, so the engine optimises
+// each with the feedback of its own loop (a long function with several loops, called a few
+// times, was optimised mid-loop and thrown back at the next loop over and over).
+
+/** Largest of a[0, end). */
+function largest(a: Float64Array, end: number): number {
+  let v = -Infinity;
+  for (let i = 0; i < end; i++) if (a[i] > v) v = a[i];
+  return v;
 }
 
 /** k-th smallest element (0-based), partially reordering a in place (Hoare's selection). */
@@ -49,9 +61,19 @@ function medianOf3(x: number, y: number, z: number): number {
 export function noiseSigma(y: ArrayLike<number>): number {
   const n = y.length;
   if (n < 3) return 0;
+  const d = secondDifferences(y);
+  absoluteDeviations(d, medianInPlace(d));
+  return (1.4826 * medianInPlace(d)) / Math.sqrt(6);
+}
+
+function secondDifferences(y: ArrayLike<number>): Float64Array {
+  const n = y.length;
   const d = new Float64Array(n - 2);
   for (let i = 1; i < n - 1; i++) d[i - 1] = y[i + 1] - 2 * y[i] + y[i - 1];
-  const m = median(d);
+  return d;
+}
+
+/** d[i] ← |d[i] − m|, in place. */
+function absoluteDeviations(d: Float64Array, m: number): void {
   for (let i = 0; i < d.length; i++) d[i] = Math.abs(d[i] - m);
-  return (1.4826 * median(d)) / Math.sqrt(6);
 }

@@ -17,6 +17,18 @@ export interface SavitzkyGolayOptions {
  * (Savitzky & Golay 1964, Anal. Chem. 36, 1627). Row-major (order+1) × window.
  */
 function projection(window: number, order: number): Float64Array {
+  const key = `${window},${order}`;
+  let P = projections.get(key);
+  if (!P) {
+    // a handful of shapes are used, each many times (every edge point of every smoothed series)
+    if (projections.size >= 64) projections.clear();
+    projections.set(key, (P = computeProjection(window, order)));
+  }
+  return P;
+}
+const projections = new Map<string, Float64Array>();
+
+function computeProjection(window: number, order: number): Float64Array {
   const h = (window - 1) / 2;
   const m = order + 1;
   const A = new Float64Array(m * m);
@@ -70,9 +82,7 @@ export function savitzkyGolay(y: ArrayLike<number>, options: SavitzkyGolayOption
   checkShape(window, order);
   if (derivative !== 0 && derivative !== 1) throw new RangeError(`savitzkyGolay: derivative must be 0 or 1, got ${derivative}`);
   if (!(dx > 0) || !Number.isFinite(dx)) throw new RangeError(`savitzkyGolay: dx must be a positive finite number, got ${dx}`);
-  for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(y[i])) throw new RangeError(`savitzkyGolay: y[${i}] is not a finite number (${y[i]})`);
-  }
+  assertFinite(y);
   const out = new Float64Array(n);
   if (n === 0) return out;
   if (n < window) {
@@ -84,12 +94,7 @@ export function savitzkyGolay(y: ArrayLike<number>, options: SavitzkyGolayOption
     return out;
   }
   const h = (window - 1) / 2;
-  const centre = savitzkyGolayCoefficients(window, order, derivative, 0);
-  for (let i = h; i < n - h; i++) {
-    let s = 0;
-    for (let k = 0; k < window; k++) s += centre[k] * y[i - h + k];
-    out[i] = s / dx;
-  }
+  convolveInterior(y, savitzkyGolayCoefficients(window, order, derivative, 0), dx, out);
   for (let e = 0; e < h; e++) {
     const head = savitzkyGolayCoefficients(window, order, derivative, e - h);
     const tail = savitzkyGolayCoefficients(window, order, derivative, h - e);
@@ -103,6 +108,25 @@ export function savitzkyGolay(y: ArrayLike<number>, options: SavitzkyGolayOption
     out[n - 1 - e] = b / dx;
   }
   return out;
+}
+
+// The loops over the samples sit in small functions of their own, so the engine optimises
+// each apart from the rest of savitzkyGolay.
+
+function assertFinite(y: ArrayLike<number>): void {
+  for (let i = 0; i < y.length; i++) {
+    if (!Number.isFinite(y[i])) throw new RangeError(`savitzkyGolay: y[${i}] is not a finite number (${y[i]})`);
+  }
+}
+
+/** out[i] = Σ w[k]·y[i − h + k] / dx for the points with a whole window. */
+function convolveInterior(y: ArrayLike<number>, w: Float64Array, dx: number, out: Float64Array): void {
+  const n = y.length, window = w.length, h = (window - 1) / 2;
+  for (let i = h; i < n - h; i++) {
+    let s = 0;
+    for (let k = 0; k < window; k++) s += w[k] * y[i - h + k];
+    out[i] = s / dx;
+  }
 }
 
 function checkShape(window: number, order: number): void {

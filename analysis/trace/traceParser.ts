@@ -1,3 +1,5 @@
+import { scanDecimal, scanned } from './plainDecimal';
+import { SampleColumn } from './sampleColumn';
 import { TraceFormatError } from './TraceFormatError';
 import type { TraceWarning } from './types';
 
@@ -15,33 +17,8 @@ const KNOWN: Record<string, number> = {
   crystal_nm: KIND_CRYSTAL,
 };
 
-/** A typed array that grows by doubling, so rows never become objects. */
-class Grow<T extends Float64Array | Int32Array> {
-  data: T;
-  constructor(private readonly make: (n: number) => T) {
-    this.data = make(1024);
-  }
-  set(i: number, v: number): void {
-    if (i >= this.data.length) {
-      const next = this.make(this.data.length * 2);
-      next.set(this.data);
-      this.data = next;
-    }
-    this.data[i] = v;
-  }
-  take(n: number): T {
-    return this.data.slice(0, n) as T;
-  }
-}
-
 /** Warnings of one kind listed in full; the rest are counted (a file of a million bad lines must not make a million messages). */
 export const MAX_LISTED_WARNINGS = 20;
-
-/** Stands in for Grow when only the checks are wanted (an upload being validated as it streams). */
-class Discard {
-  set(_i: number, _v: number): void {}
-}
-type Column<T extends Float64Array | Int32Array> = Pick<Grow<T>, 'set'>;
 
 export interface ParserLimits {
   fileName?: string;
@@ -59,18 +36,23 @@ export class TraceParser {
   separator: ',' | '\t' = ',';
   headerLine = 0;
   rowCount = 0;
-  time: Column<Float64Array>;
-  signal: Column<Float64Array>;
-  layer: Column<Int32Array> | null = null;
-  chip: Column<Int32Array> | null = null;
-  crystal: Column<Float64Array> | null = null;
+  time: SampleColumn<Float64Array>;
+  signal: SampleColumn<Float64Array>;
+  layer: SampleColumn<Int32Array> | null = null;
+  chip: SampleColumn<Int32Array> | null = null;
+  crystal: SampleColumn<Float64Array> | null = null;
   /** Highest layer number seen (0 without a layer column). */
   maxLayer = 0;
   private kinds = new Int8Array(0);
   private sawContent = false;
   private blankLine = 0;
   private prevTime = -Infinity;
-  private prevTimeText = '';
+  /** The previous row's time field as written, prevTimeSource[prevTimeFrom, prevTimeTo), for the message when time goes backwards. */
+  private prevTimeSource = '';
+  private prevTimeFrom = 0;
+  private prevTimeTo = 0;
+  /** The column each field of a row goes to (null: an ignored column). */
+  private fieldColumns: (SampleColumn<Float64Array> | SampleColumn<Int32Array> | null)[] = [];
   private readonly warningCounts = new Map<string, { count: number; firstLine?: number }>();
 
   constructor(private readonly limits: ParserLimits) {
@@ -78,14 +60,13 @@ export class TraceParser {
     this.signal = this.column((n) => new Float64Array(n));
   }
 
-  private column<T extends Float64Array | Int32Array>(make: (n: number) => T): Column<T> {
-    return this.limits.keepSamples === false ? new Discard() : new Grow(make);
+  private column<T extends Float64Array | Int32Array>(make: (n: number) => T): SampleColumn<T> {
+    return new SampleColumn(make, this.limits.keepSamples !== false);
   }
 
   /** The samples of a column read with keepSamples (the default). */
-  static samples<T extends Float64Array | Int32Array>(c: Column<T>, n: number): T {
-    if (!(c instanceof Grow)) throw new Error('the trace was read without keeping its samples');
-    return (c as Grow<T>).take(n);
+  static samples<T extends Float64Array | Int32Array>(c: SampleColumn<T>, n: number): T {
+    return c.take(n);
   }
 
   fail(line: number, code: string, detail: string, column?: string): never {
@@ -185,6 +166,59 @@ export class TraceParser {
     if (seen.has('crystal_nm')) this.crystal = this.column((n) => new Float64Array(n));
     this.columns = names;
     this.headerLine = lineNo;
+    const byKind = [null, this.time, this.signal, this.layer, this.chip, this.crystal];
+    this.fieldColumns = Array.from(this.kinds, (k) => byKind[k]);
+  }
+
+  /**
+   * The fast path for an ordinary data row, text[start, end) (a CR before end is dropped):
+   * plain decimals and nothing to report. Returns false, having changed nothing, for anything
+   * else (blank, metadata, spaces, a bad or out-of-range value, time not increasing, too many
+   * rows), and the caller passes the line to line(), which reads it or names the fault.
+   */
+  rowAt(text: string, start: number, end: number): boolean {
+    if (this.headerLine === 0 || this.blankLine !== 0 || this.rowCount >= this.limits.maxRows) return false;
+    if (end > start && text.charCodeAt(end - 1) === 13) end--;
+    const sep = this.separator === ',' ? 44 : 9;
+    const kinds = this.kinds, columns = this.fieldColumns, nFields = kinds.length;
+    const r = this.rowCount;
+    const layerLimit = this.limits.layerCount ?? Infinity;
+    let pos = start, time = 0, timeStart = 0, timeEnd = 0, maxLayer = this.maxLayer;
+    // Values go straight to row r of their columns: if the row is refused after all, line()
+    // reads it again into the same row, or fails.
+    for (let j = 0; j < nFields; j++) {
+      const kind = kinds[j];
+      let stop = pos;
+      if (kind === KIND_IGNORE) {
+        while (stop < end && text.charCodeAt(stop) !== sep) stop++;
+      } else {
+        const v = scanDecimal(text, pos, end, sep);
+        if (v !== v) return false;
+        stop = scanned.end;
+        if (kind === KIND_TIME) {
+          if (!(v > this.prevTime)) return false;
+          time = v;
+          timeStart = pos;
+          timeEnd = stop;
+        } else if (kind === KIND_LAYER) {
+          if (!Number.isInteger(v) || v < 0 || v > layerLimit) return false;
+          if (v > maxLayer) maxLayer = v;
+        } else if (kind === KIND_CHIP) {
+          if (!Number.isInteger(v) || v < 1) return false;
+        }
+        columns[j]!.set(r, v);
+      }
+      // the last field runs to the line's end; any other must stop at a separator
+      if ((j === nFields - 1) !== (stop === end)) return false;
+      pos = stop + 1;
+    }
+    this.prevTime = time;
+    this.maxLayer = maxLayer;
+    this.prevTimeSource = text;
+    this.prevTimeFrom = timeStart;
+    this.prevTimeTo = timeEnd;
+    this.rowCount = r + 1;
+    return true;
   }
 
   private row(s: string, lineNo: number): void {
@@ -228,12 +262,14 @@ export class TraceParser {
           this.fail(
             lineNo,
             'time_not_increasing',
-            `${text.trim()} is not after the previous time ${this.prevTimeText} (line ${lineNo - 1}); time must be strictly increasing`,
+            `${text.trim()} is not after the previous time ${this.prevTimeSource.substring(this.prevTimeFrom, this.prevTimeTo).trim()} (line ${lineNo - 1}); time must be strictly increasing`,
             this.columns[j],
           );
         }
         this.prevTime = v;
-        this.prevTimeText = text.trim();
+        this.prevTimeSource = text;
+        this.prevTimeFrom = 0;
+        this.prevTimeTo = text.length;
         this.time.set(r, v);
         break;
       case KIND_SIGNAL:

@@ -52,11 +52,7 @@ export interface TurningPointOptions {
 export function findTurningPoints(timeS: ArrayLike<number>, y: ArrayLike<number>, options: TurningPointOptions = {}): TurningPoint[] {
   const n = y.length;
   if (timeS.length !== n) throw new RangeError(`findTurningPoints: timeS has ${timeS.length} samples but y has ${n}`);
-  for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(y[i]) || !Number.isFinite(timeS[i])) {
-      throw new RangeError(`findTurningPoints: sample ${i} is not finite (time ${timeS[i]}, value ${y[i]})`);
-    }
-  }
+  assertFinite(timeS, y);
   if (n < 3) return [];
   const win = options.smoothWindow ?? 0;
   const smooth = win > 1;
@@ -64,12 +60,7 @@ export function findTurningPoints(timeS: ArrayLike<number>, y: ArrayLike<number>
   let h = options.hysteresis;
   if (h === undefined) {
     const gain = smooth ? Math.hypot(...savitzkyGolayCoefficients(Math.min(win, n % 2 ? n : n - 1), 2)) : 1;
-    let lo = Infinity;
-    let hi = -Infinity;
-    for (let i = 0; i < n; i++) {
-      lo = Math.min(lo, ys[i]);
-      hi = Math.max(hi, ys[i]);
-    }
+    const { lo, hi } = extent(ys);
     h = Math.max((options.hysteresisSigma ?? 12) * noiseSigma(y) * gain, 1e-9 * (hi - lo), Number.MIN_VALUE);
   } else if (!(h > 0)) {
     throw new RangeError(`findTurningPoints: hysteresis must be positive, got ${h}`);
@@ -83,6 +74,27 @@ export function findTurningPoints(timeS: ArrayLike<number>, y: ArrayLike<number>
     if (last) out.push(last);
   }
   return out;
+}
+
+// The loops over the samples sit in small functions of their own, so the engine optimises
+// each apart (findTurningPoints runs once per layer).
+
+function assertFinite(timeS: ArrayLike<number>, y: ArrayLike<number>): void {
+  for (let i = 0; i < y.length; i++) {
+    if (!Number.isFinite(y[i]) || !Number.isFinite(timeS[i])) {
+      throw new RangeError(`findTurningPoints: sample ${i} is not finite (time ${timeS[i]}, value ${y[i]})`);
+    }
+  }
+}
+
+function extent(ys: Float64Array): { lo: number; hi: number } {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < ys.length; i++) {
+    lo = Math.min(lo, ys[i]);
+    hi = Math.max(hi, ys[i]);
+  }
+  return { lo, hi };
 }
 
 type Pivot = { index: number; kind: 'max' | 'min' };

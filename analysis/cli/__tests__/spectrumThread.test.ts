@@ -1,0 +1,46 @@
+import { spawnSync } from 'node:child_process';
+import { createReadStream, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import path from 'node:path';
+import { pathToFileURL } from 'node:url';
+import { afterAll, describe, expect, it } from 'vitest';
+import { parseDesign } from '../../design';
+import { analyzeRun } from '../../fit/analyzeRun';
+import { layerSpectrum } from '../../fit/layerSpectrum';
+import { readTrace } from '../../trace';
+import { startSpectrumThread } from '../spectrumThread';
+
+const root = path.resolve(import.meta.dirname, '../../..');
+const samples = path.join(root, 'sample-traces');
+
+// the launcher's bundle, in a cache of this test's own inside the project (it finds node_modules there)
+mkdirSync(path.join(root, 'node_modules/.cache'), { recursive: true });
+const cache = mkdtempSync(path.join(root, 'node_modules/.cache/fringelog-cli-test-'));
+afterAll(() => rmSync(cache, { recursive: true, force: true }));
+
+describe('the analyze command computes spectra on a second thread', () => {
+  it('answers from this thread when the other cannot start', async () => {
+    const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
+    const tauS = Float64Array.from({ length: 400 }, (_, i) => i * 0.5);
+    const y = tauS.map((s) => 0.5 + 0.3 * Math.sin(s / 9));
+    const got = await t.spectrumOf(tauS, y, 550, 2.1);
+    t.close();
+    expect(got).toEqual(layerSpectrum(tauS, y, 550, 2.1));
+    expect(got.fringeRateNmPerS).not.toBeNull();
+  });
+
+  it('the bundled command (thread on) prints what analyzeRun gives in process (no thread)', async () => {
+    const designFile = path.join(samples, 'bbar4-visible.json');
+    const traceFile = path.join(samples, 'bay2-bb4-run0587.csv');
+    const r = spawnSync(process.execPath, [path.join(root, 'db/local/cli.mjs'), 'analyze', '--design', designFile, '--trace', traceFile, '--mode', 'refit'], {
+      cwd: root, encoding: 'utf8', env: { ...process.env, FRINGELOG_CLI_CACHE: cache }, maxBuffer: 64 * 2 ** 20,
+    });
+    expect(r.stderr).toBe('');
+    const design = parseDesign(JSON.parse(readFileSync(designFile, 'utf8')), designFile);
+    const trace = await readTrace(createReadStream(traceFile), { fileName: traceFile, layerCount: design.layers.length });
+    const inProcess = await analyzeRun(design, trace, { mode: 'refit' });
+    const { format, layers, warnings, ...rest } = inProcess;
+    // as the command writes it (Float64Arrays as arrays)
+    const asWritten = JSON.stringify({ format, layers, warnings, ...rest }, (_k, v: unknown) => (v instanceof Float64Array ? Array.from(v) : v));
+    expect(r.stdout).toBe(`${asWritten}\n`);
+  });
+});
