@@ -9,7 +9,7 @@ import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers'
 import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { layerEnds } from './layerEnd';
-import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
+import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
@@ -19,6 +19,8 @@ import { carryStackUncertainty, emptyStack, type StackCovariance } from './stack
 import { startValues } from './startValues';
 import { applyHeldIndexSigma, indexSeparation } from './thinLayer';
 import { binMeans } from './subsample';
+import { type RateWander } from './rateWander';
+import { chooseRateWander } from './wanderChoice';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -69,6 +71,7 @@ export const ANALYZE_DEFAULTS = {
   heldIndexSigma: 0.05,
   heldIndexCorrelation: 0.99,
   robustLoss: false,
+  rateWander: true,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -158,7 +161,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
     const durationS = samples.tauS[n - 1];
     // make() is called again after the pass (final refit), when the layer's state exists.
-    const built: { state?: LayerState; extraS?: number } = {};
+    const built: { state?: LayerState; extraS?: number; wander?: RateWander } = {};
     const make = (maxPoints: number): FitLayerData => {
       // Bin means, not picked samples: every sample's information at a fraction of the points.
       const binned = binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
@@ -166,6 +169,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: durationS + (built.extraS ?? 0),
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
         heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
+        ...(built.wander ? { wander: { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } } : {}),
       };
     };
     const fit = make(o.maxFitPoints);
@@ -186,8 +190,8 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     // Per-layer gains start at (and are held near, by a prior) the chip calibration.
     const anchor = cg.gain * (1 + cg.driftPerS * chipTimeS);
     const withPrior = o.gainPriorFraction > 0 && fit.heldGain === null;
-    const fitSingle = (index: number, rateNmPerS: number, gain: number) => fitLayers({
-      fixedBelow: below, layers: [fit], offsetSignal: calibration.offset, start: [{ index, rateNmPerS, rateDriftNmPerS2: 0, gain }],
+    const fitSingle = (index: number, rateNmPerS: number, gain: number, more: Partial<LayerParams> = {}) => fitLayers({
+      fixedBelow: below, layers: [fit], offsetSignal: calibration.offset, start: [{ index, rateNmPerS, rateDriftNmPerS2: 0, gain, ...more }],
       ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
     }, { robust: o.robustLoss });
     let single = fitSingle(sv.index, sv.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : sv.gain));
@@ -201,6 +205,21 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       fit.fitDrift = refit.fitDrift = false;
       const e = single.layers[0];
       single = fitSingle(heldIndex, e.rateNmPerS, fit.heldGain ?? e.gain);
+    }
+    if (o.rateWander && !separation?.hold && fit.fitDrift) {
+      // A rate that wanders within the layer: more freedom where the data ask for it (fit/wanderChoice.ts).
+      const e = single.layers[0];
+      const choice = chooseRateWander({
+        below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: pick(trace.signal, samples.indices),
+        gainPriorWeight: withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0,
+      });
+      if (choice.wander) {
+        built.wander = choice.wander;
+        const pointSigma = (count: number) => choice.wander!.pointSigma * Math.sqrt(count / n);
+        fit.wander = { ...choice.wander, pointSigma: pointSigma(fit.tauS.length) };
+        refit.wander = { ...choice.wander, pointSigma: pointSigma(refit.tauS.length) };
+        single = fitSingle(e.index, e.rateNmPerS, e.gain, { rateDriftNmPerS2: e.rateDriftNmPerS2 });
+      }
     }
     if (o.mode === 'sequential') {
       // The stack below's uncertainty, carried into this layer's σ (refit fits them jointly instead).

@@ -1,7 +1,8 @@
 import { fromNK, growingLayerSignal, type LayerAt } from '../optics';
 import { levelSteps, longRunSigma, type TraceData } from '../trace';
 import { type LayerEstimate } from './fitLayers';
-import { thicknessAt, type FitLayerData, type MonitorOptics } from './layerModel';
+import { type FitLayerData, type MonitorOptics } from './layerModel';
+import { endEquivalentLaw, lawThickness } from './rateWander';
 import { type LayerSamples } from './layerSamples';
 
 /** The idle reading after a cut, once the shutter has closed. */
@@ -211,7 +212,7 @@ export function layerEnds(trace: TraceData, samplesByLayer: ReadonlyMap<number, 
     }
     const end = layerEnd({
       signal: trace.signal, timeS: trace.timeS, lastIndex, nextStart, optics: s.optics, below, index: e.index, extinction: -s.nominal.im,
-      rateNmPerS: e.rateNmPerS, rateDriftNmPerS2: e.rateDriftNmPerS2, durationS: s.fit.durationS, gain: e.gain, noiseSigma,
+      ...endEquivalentLaw(e, s.fit.wander, s.fit.durationS), durationS: s.fit.durationS, gain: e.gain, noiseSigma,
     });
     previous = { chip: samples.chip, layer: s.design.layer, settled: end?.settled ?? null };
     if (!end) return 0;
@@ -222,7 +223,7 @@ export function layerEnds(trace: TraceData, samplesByLayer: ReadonlyMap<number, 
     s.fit.durationS += end.extraS;
     s.refit.durationS += end.extraS;
     const T = s.fit.durationS;
-    const d = thicknessAt(T, e.rateNmPerS, e.rateDriftNmPerS2);
+    const d = lawThickness(e, s.fit.wander, T);
     const sd = Math.hypot(e.thicknessSigmaNm, end.afterCutSigmaNm);
     s.estimate = {
       ...e, thicknessNm: d, thicknessSigmaNm: sd, opticalThicknessNm: e.index * d,

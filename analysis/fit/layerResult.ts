@@ -4,6 +4,7 @@ import { type LayerState } from './analyzeRun';
 import { modelTurningPoints, timeToThickness } from './cutTiming';
 import { INDEX_BOUND } from './fitLayers';
 import { thicknessAt } from './layerModel';
+import { lawThickness, lawTimeToThickness } from './rateWander';
 import { subsampleUniform } from './subsample';
 import { type LayerResult, type TurningPointAt } from './types';
 
@@ -23,7 +24,8 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const k = -nominal.im;
   const n = samples.tauS.length;
   const d = new Float64Array(n);
-  for (let i = 0; i < n; i++) d[i] = thicknessAt(samples.tauS[i], e.rateNmPerS, e.rateDriftNmPerS2);
+  const wander = e.wander ? s.fit.wander : undefined;
+  for (let i = 0; i < n; i++) d[i] = wander ? lawThickness(e, wander, samples.tauS[i]) : thicknessAt(samples.tauS[i], e.rateNmPerS, e.rateDriftNmPerS2);
   const m = growingLayerSignal({ ...optics, below, growing: fromNK(e.index, k), pol: 's' }, d);
   let ss = 0;
   for (let i = 0; i < n; i++) {
@@ -41,7 +43,7 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const targetNm = (nominal.re * dl.thicknessNm) / e.index;
   const tps = modelTurningPoints(optics, below, e.index, k, 1.3 * Math.max(e.thicknessNm, targetNm));
   const toTime = (thicknessNm: number) => {
-    const tau = timeToThickness(thicknessNm, e.rateNmPerS, e.rateDriftNmPerS2);
+    const tau = wander ? lawTimeToThickness(e, wander, thicknessNm, s.fit.durationS) : timeToThickness(thicknessNm, e.rateNmPerS, e.rateDriftNmPerS2);
     return Number.isFinite(tau) ? samples.startTimeS + tau : null;
   };
   let idealCutTimeS: number | null = null;
