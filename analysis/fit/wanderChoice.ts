@@ -1,5 +1,5 @@
 import { type LayerAt } from '../optics';
-import { longRunSigma } from '../trace';
+import { fitAr1PlusWhite, whitenAr1PlusWhite } from '../stats';
 import { encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayerData, type LayerParams } from './layerModel';
 import { wanderKnots, type RateWander } from './rateWander';
 
@@ -7,6 +7,9 @@ import { wanderKnots, type RateWander } from './rateWander';
 export const WANDER_FRACTIONS = [0, 0.0025, 0.005, 0.01, 0.02, 0.04];
 /** The wander correlation times tried, s (knots one correlation time apart). */
 export const WANDER_CORRELATIONS_S = [10, 30];
+
+const HUBER_K = 2.5;
+const WANDER_HYPERPARAMETERS = 2;
 
 export interface WanderChoiceInput {
   below: readonly LayerAt[];
@@ -44,80 +47,100 @@ export interface WanderChoice {
  */
 export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
   const { below, layer, estimate, offsetSignal } = input;
-  // The noise's long-run σ from the plain fit's residuals on every sample (a wander's misfit is
-  // slow; the short-lag differences longRunSigma reads hardly see it).
-  const full: FitLayerData = { ...layer, tauS: input.allTauS, y: input.allY, weight: 1, wander: undefined };
-  const l0 = paramLayout([full]);
-  const p0: number[] = [];
-  encodeLayer(full, estimate, p0);
-  const modelAll = new Float64Array(input.allTauS.length);
-  evaluateLayers(below, [full], l0, p0, offsetSignal, modelAll);
-  const res = Float64Array.from(input.allY, (v, i) => v - modelAll[i]);
-  const sampleSigma = longRunSigma(res);
-  const n = layer.tauS.length;
-  const pointSigma = sampleSigma * Math.sqrt(n / input.allTauS.length);
+  const N = input.allTauS.length;
   const scores: WanderChoice['scores'] = [];
-  if (!(pointSigma > 0) || n < 20) return { wander: null, sampleSigma, scores };
-  const plain: FitLayerData = { ...layer, weight: 1, wander: undefined };
-  const at = new Float64Array(n);
+  const plain: FitLayerData = { ...layer, tauS: input.allTauS, y: input.allY, weight: 1, wander: undefined };
+  const l0 = paramLayout([plain]);
+  const p0: number[] = [];
+  encodeLayer(plain, estimate, p0);
+  // The noise (white + AR(1)) from the plain fit's residuals on every sample: its variogram at
+  // lags of a few seconds, which a slow misfit hardly reaches.
+  const at = new Float64Array(N);
   evaluateLayers(below, [plain], l0, p0, offsetSignal, at);
-  const r = Float64Array.from(layer.y, (v, i) => (v - at[i]) / pointSigma);
-  let best = { score: Infinity, fraction: 0, correlationS: 0 };
+  const noise = fitAr1PlusWhite(Float64Array.from(input.allY, (v, i) => v - at[i]));
+  const none = { wander: null, sampleSigma: noise.longRunSigma, scores };
+  if (N < 200 || !(noise.longRunSigma > 0)) return none;
+  let best = { score: Infinity, kappa: 0, correlationS: 0, scale2: 1 };
+  let plainScore = Infinity, plainScale2 = 1;
   for (const correlationS of WANDER_CORRELATIONS_S) {
-    const wander: RateWander = { knotsS: wanderKnots(layer.durationS, correlationS), sigmaNmPerS: 1, correlationS, pointSigma };
+    const wander: RateWander = { knotsS: wanderKnots(layer.durationS, correlationS), sigmaNmPerS: 1, correlationS, pointSigma: 1 };
     const withW: FitLayerData = { ...plain, wander };
     const layout = paramLayout([withW]);
     const p: number[] = [];
     encodeLayer(withW, estimate, p);
     const np = layout.count;
     const steps = Float64Array.from(p, (v) => 1e-6 * Math.max(Math.abs(v), 1e-3));
-    const jac = new Float64Array(np * n);
+    const jac = new Float64Array(np * N);
     jacobianLayers(below, [withW], layout, Float64Array.from(p), offsetSignal, at, steps, jac);
     const wFirst = (withW.heldIndex === null ? 1 : 0) + 1 + (withW.fitDrift ? 1 : 0), k = wander.knotsS.length;
     const isW = (j: number) => j >= wFirst && j < wFirst + k;
-    // Gram matrix of the columns (rows in units of the point σ); plain columns scaled to unit norm.
-    const norm = new Float64Array(np).fill(1 / pointSigma);
+    const pFixed = np - k;
+    // Generalised least squares: residuals and columns whitened by the noise's own filter.
+    const cols = Array.from({ length: np }, (_, j) => jac.subarray(j * N, (j + 1) * N));
+    const r = Float64Array.from(input.allY, (v, i) => v - at[i]);
+    whitenAr1PlusWhite(noise, [r, ...cols]);
+    // Huber's pseudo-residuals ψ(r), |r| capped (P. J. Huber, "Robust Statistics", Wiley (1981),
+    // §7.8, from memory): a spike does not pass for a wandering rate.
+    for (let i = 0; i < N; i++) r[i] = Math.max(-HUBER_K, Math.min(HUBER_K, r[i]));
+    const rr = r.reduce((q, v) => q + v * v, 0);
+    // Gram matrix; fixed columns scaled to unit norm (log|XᵀX| shifts every score alike).
+    const norm = new Float64Array(np).fill(1);
     for (let j = 0; j < np; j++) {
       if (isW(j)) continue;
       let c = 0;
-      for (let i = 0; i < n; i++) c += jac[j * n + i] ** 2;
+      for (let i = 0; i < N; i++) c += cols[j][i] ** 2;
       norm[j] = c > 0 ? 1 / Math.sqrt(c) : 1;
     }
     const gram = new Float64Array(np * np), b = new Float64Array(np);
     for (let a = 0; a < np; a++) {
-      let s = 0;
-      for (let i = 0; i < n; i++) s += jac[a * n + i] * r[i];
-      b[a] = s * norm[a];
+      let q = 0;
+      for (let i = 0; i < N; i++) q += cols[a][i] * r[i];
+      b[a] = q * norm[a];
       for (let c = a; c < np; c++) {
         let t = 0;
-        for (let i = 0; i < n; i++) t += jac[a * n + i] * jac[c * n + i];
+        for (let i = 0; i < N; i++) t += cols[a][i] * cols[c][i];
         gram[a * np + c] = gram[c * np + a] = t * norm[a] * norm[c];
       }
     }
     const gainParam = plain.heldGain === null ? np - 1 : -1;
-    if (gainParam >= 0 && input.gainPriorWeight > 0) gram[gainParam * np + gainParam] += (input.gainPriorWeight * norm[gainParam]) ** 2;
-    const rr = r.reduce((s, v) => s + v * v, 0);
+    if (gainParam >= 0 && input.gainPriorWeight > 0) {
+      gram[gainParam * np + gainParam] += (input.gainPriorWeight * norm[gainParam] * Math.sqrt(N / layer.tauS.length) / noise.longRunSigma) ** 2;
+    }
     for (const fraction of WANDER_FRACTIONS) {
       if (fraction === 0 && correlationS !== WANDER_CORRELATIONS_S[0]) continue;
-      const sigma = fraction * Math.abs(estimate.rateNmPerS);
-      // A′ = [XᵀX, σXᵀZ; σZᵀX, σ²ZᵀZ + I], b′ = [Xᵀr; σZᵀr]
+      // κ: the wander's σ per unit of the noise's scale, which is profiled:
+      // −2·log L = (N − p)·log(min/(N − p)) + log|A′|, A′ = [XᵀX, κXᵀZ; κZᵀX, κ²ZᵀZ + I].
+      const kappa = fraction * Math.abs(estimate.rateNmPerS);
       const a = new Float64Array(np * np), g = new Float64Array(np);
       for (let i = 0; i < np; i++) {
-        const si = isW(i) ? sigma : 1;
+        const si = isW(i) ? kappa : 1;
         g[i] = si * b[i];
-        for (let j = 0; j < np; j++) a[i * np + j] = si * (isW(j) ? sigma : 1) * gram[i * np + j];
+        for (let j = 0; j < np; j++) a[i * np + j] = si * (isW(j) ? kappa : 1) * gram[i * np + j];
         if (isW(i)) a[i * np + i] += 1;
       }
       const f = choleskyLogDet(a, np, g);
       if (!f) continue;
-      const score = f.logDet + rr - f.quad;
+      const dof = N - pFixed;
+      const min = Math.max(rr - f.quad, 1e-12);
+      const score = dof * Math.log(min / dof) + f.logDet;
       scores.push({ fraction, correlationS, score });
-      if (score < best.score) best = { score, fraction, correlationS };
+      if (fraction === 0) {
+        plainScore = score;
+        plainScale2 = min / dof;
+      }
+      if (score < best.score) best = { score, kappa: fraction, correlationS, scale2: min / dof };
     }
   }
-  if (!(best.fraction > 0)) return { wander: null, sampleSigma, scores };
+  // The wander must beat the plain law by AIC's 2 per hyperparameter it estimates (σ_w and the
+  // correlation time; H. Akaike, IEEE Trans. Autom. Control 19, 716–723 (1974)).
+  if (!(best.kappa > 0) || !(best.score < plainScore - 2 * WANDER_HYPERPARAMETERS)) {
+    return { wander: null, sampleSigma: noise.longRunSigma * Math.sqrt(plainScale2), scores };
+  }
+  // The noise's long-run σ per sample, with the profiled scale of the chosen model.
+  const sampleSigma = noise.longRunSigma * Math.sqrt(best.scale2);
   const wander: RateWander = {
-    knotsS: wanderKnots(layer.durationS, best.correlationS), sigmaNmPerS: best.fraction * Math.abs(estimate.rateNmPerS),
+    knotsS: wanderKnots(layer.durationS, best.correlationS),
+    sigmaNmPerS: best.kappa * Math.abs(estimate.rateNmPerS) * Math.sqrt(best.scale2),
     correlationS: best.correlationS, pointSigma: sampleSigma,
   };
   return { wander, sampleSigma, scores };

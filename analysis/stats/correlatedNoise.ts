@@ -37,3 +37,116 @@ export function autocorrelationTime(e: ArrayLike<number>, from = 0, to = e.lengt
 export function effectiveSampleCount(e: ArrayLike<number>): number {
   return e.length / autocorrelationTime(e);
 }
+
+/** White plus AR(1) noise: e_i = w_i + x_i, x_i = ρ·x_{i−1} + u_i; σ² of each part. */
+export interface Ar1PlusWhite {
+  whiteVar: number;
+  ar1Var: number;
+  /** Lag-one correlation of the AR(1) part. */
+  rho: number;
+  /**
+   * Long-run σ of one sample: √(2π·spectral density at zero) = √(σ_w² + σ_x²·(1 + ρ)/(1 − ρ)), so
+   * that the mean of m samples has σ ≈ longRunSigma/√m when m spans many correlation times.
+   */
+  longRunSigma: number;
+}
+
+/**
+ * White plus AR(1) noise fitted to a series' robust variogram γ(k) = ½·Var(e_{i+k} − e_i) at lags
+ * 1…maxLag: γ(k) = σ_w² + σ_x²·(1 − ρ^k) (the AR(1) autocorrelation ρ^k, G. E. P. Box,
+ * G. M. Jenkins, "Time Series Analysis", Holden-Day (1970), §3.2; the sum's variogram by
+ * independence), least squares in (σ_w², σ_x²) for each ρ on a grid. Differences at lags of a
+ * few correlation times hardly see a slow trend in the series (a model's slow misfit), unlike
+ * the series' variance; the variogram's MAD form keeps spikes out. The lag-one-only reading
+ * (trace/levelSteps longRunSigma) takes white + AR(1) for a faster AR(1) and underestimates.
+ */
+export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40): Ar1PlusWhite {
+  const n = e.length;
+  const L = Math.min(maxLag, Math.floor(n / 4));
+  const gamma: number[] = [];
+  const d = new Float64Array(n);
+  for (let k = 1; k <= L; k++) {
+    const m = n - k;
+    for (let i = 0; i < m; i++) d[i] = e[i + k] - e[i];
+    const part = d.subarray(0, m);
+    const med = medianOf(part);
+    const dev = Float64Array.from(part, (v) => Math.abs(v - med));
+    gamma.push((1.4826 * medianOf(dev)) ** 2 / 2);
+  }
+  if (L < 2) {
+    const v = gamma[0] ?? 0;
+    return { whiteVar: v, ar1Var: 0, rho: 0, longRunSigma: Math.sqrt(v) };
+  }
+  let best = { ssr: Infinity, whiteVar: gamma[0], ar1Var: 0, rho: 0 };
+  for (let g = 0; g <= 200; g++) {
+    const rho = g / 200 * 0.995;
+    // γ(k) = A − B·ρ^k with A = σ_w² + σ_x², B = σ_x²: linear least squares in (A, B).
+    let s1 = 0, sx = 0, sxx = 0, sy = 0, sxy = 0;
+    for (let k = 1; k <= L; k++) {
+      const x = rho ** k, y = gamma[k - 1];
+      s1++; sx += x; sxx += x * x; sy += y; sxy += x * y;
+    }
+    const det = s1 * sxx - sx * sx;
+    let A: number, B: number;
+    if (det > 1e-300) {
+      A = (sy * sxx - sx * sxy) / det;
+      B = -(s1 * sxy - sx * sy) / det;
+    } else {
+      A = sy / s1;
+      B = 0;
+    }
+    // Keep both variances ≥ 0: no AR(1) part (γ flat), or no white part (γ = B·(1 − ρ^k)).
+    if (B < 0) {
+      B = 0;
+      A = sy / s1;
+    } else if (B > A) {
+      let num = 0, den = 0;
+      for (let k = 1; k <= L; k++) {
+        num += gamma[k - 1] * (1 - rho ** k);
+        den += (1 - rho ** k) ** 2;
+      }
+      A = B = den > 0 ? num / den : 0;
+    }
+    let ssr = 0;
+    for (let k = 1; k <= L; k++) ssr += (gamma[k - 1] - (A - B * rho ** k)) ** 2;
+    if (ssr < best.ssr) best = { ssr, whiteVar: Math.max(0, A - B), ar1Var: B, rho };
+  }
+  const { whiteVar, ar1Var, rho } = best;
+  return { whiteVar, ar1Var, rho, longRunSigma: Math.sqrt(whiteVar + (ar1Var * (1 + rho)) / (1 - rho)) };
+}
+
+function medianOf(v: Float64Array): number {
+  const s = Float64Array.from(v).sort();
+  const m = s.length >> 1;
+  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+}
+
+/**
+ * Whitens series under white plus AR(1) noise: the Kalman filter's standardised innovations
+ * (y_i − ρ·x̂_{i−1})/√F_i of y = x + w, x AR(1) (the exact Σ^(−1/2) of generalised least squares
+ * by the innovations form; e.g. A. C. Harvey, "Forecasting, Structural Time Series Models and
+ * the Kalman Filter", CUP (1989), §3.4, from memory). Without white noise this is the
+ * Prais–Winsten transformation: (1 − ρ²)^½·y_0, then y_i − ρ·y_{i−1}, over σ_u (S. J. Prais,
+ * C. B. Winsten, Cowles Commission Discussion Paper 383 (1954)). The same linear filter is
+ * applied to every series given (residuals and Jacobian columns alike), in place.
+ */
+export function whitenAr1PlusWhite(noise: Pick<Ar1PlusWhite, 'whiteVar' | 'ar1Var' | 'rho'>, series: Float64Array[], from = 0, to = series[0]?.length ?? 0): void {
+  const { whiteVar: R, ar1Var, rho } = noise;
+  const q = ar1Var * (1 - rho * rho);
+  const m = series.length;
+  const xhat = new Float64Array(m);
+  let P = ar1Var; // prior variance of x_0: the stationary one
+  for (let i = from; i < to; i++) {
+    const Pm = i === from ? P : rho * rho * P + q;
+    const F = Pm + R;
+    const K = F > 0 ? Pm / F : 0;
+    const s = F > 0 ? 1 / Math.sqrt(F) : 0;
+    for (let j = 0; j < m; j++) {
+      const pred = i === from ? 0 : rho * xhat[j];
+      const innov = series[j][i] - pred;
+      xhat[j] = pred + K * innov;
+      series[j][i] = innov * s;
+    }
+    P = (1 - K) * Pm;
+  }
+}
