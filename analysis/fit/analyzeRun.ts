@@ -20,7 +20,7 @@ import { startValues } from './startValues';
 import { applyHeldIndexSigma, indexSeparation } from './thinLayer';
 import { binMeans } from './subsample';
 import { type RateWander } from './rateWander';
-import { chooseRateWander } from './wanderChoice';
+import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wanderChoice';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -43,6 +43,8 @@ export interface LayerState {
   heldWhy?: string;
   /** σ of the held index (the drift estimate's prediction σ, or the nominal's). */
   heldIndexSigma?: number;
+  /** Variance of the wander's share of the end thickness, nm², from the layer's own fit (joint fits hold the wander). */
+  wanderVarianceNm2?: number;
   calibration: ChipCalibration;
   /** Design optical thickness in quarter-waves at the monitor wavelength. */
   qwotAtMonitor: number;
@@ -161,7 +163,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
     const durationS = samples.tauS[n - 1];
     // make() is called again after the pass (final refit), when the layer's state exists.
-    const built: { state?: LayerState; extraS?: number; wander?: RateWander } = {};
+    const built: { state?: LayerState; extraS?: number; wander?: RateWander; wanderVariance?: number } = {};
     const make = (maxPoints: number): FitLayerData => {
       // Bin means, not picked samples: every sample's information at a fraction of the points.
       const binned = binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
@@ -211,7 +213,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const e = single.layers[0];
       const choice = chooseRateWander({
         below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: pick(trace.signal, samples.indices),
-        gainPriorWeight: withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0,
+        gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0,
       });
       if (choice.wander) {
         built.wander = choice.wander;
@@ -219,6 +221,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
         fit.wander = { ...choice.wander, pointSigma: pointSigma(fit.tauS.length) };
         refit.wander = { ...choice.wander, pointSigma: pointSigma(refit.tauS.length) };
         single = fitSingle(e.index, e.rateNmPerS, e.gain, { rateDriftNmPerS2: e.rateDriftNmPerS2 });
+        built.wanderVariance = wanderEndVariance(fit, single.solver.covariance);
       }
     }
     if (o.mode === 'sequential') {
@@ -234,6 +237,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       weight, qwotAtMonitor, design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
       converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum,
       ...(separation?.hold ? { heldWhy: separation.reason, heldIndexSigma: heldSigma } : {}),
+      ...(built.wanderVariance !== undefined ? { wanderVarianceNm2: built.wanderVariance } : {}),
     };
     built.state = state;
     built.extraS = endLayer(state, below, noiseFloor.sigma ?? calibration.noiseSigma);
@@ -306,8 +310,11 @@ export function refitChip(
   data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean,
   chipGain: { gain: number; driftPerS: number; fitDrift: boolean } | null, robust = true,
 ): JointFitResult['sharedGain'] {
+  // A wandering rate's knots are held in joint fits (at the layer's own fit); their share of the
+  // end thickness's variance is added after.
+  const layers = data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
   const joint = fitLayers(
-    { fixedBelow: [], layers: data, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) },
+    { fixedBelow: [], layers, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) },
     final ? { robust } : { maxIterations: 4, robust },
   );
   if (chipGain && joint.sharedGain) {
@@ -315,7 +322,7 @@ export function refitChip(
     chipGain.driftPerS = joint.sharedGain.driftPerS;
   }
   chipStates.forEach((s, j) => {
-    s.estimate = joint.layers[j];
+    s.estimate = withWanderVariance(joint.layers[j], s.wanderVarianceNm2 ?? 0);
     if (final) {
       s.iterations = joint.solver.iterations;
       s.converged = joint.solver.converged;

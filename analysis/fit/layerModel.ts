@@ -1,5 +1,5 @@
 import { fromNK, growingLayerSignal, type Complex, type LayerAt } from '../optics';
-import { lawThickness, wanderBasis, wanderCount, type RateWander } from './rateWander';
+import { lawThickness, lawThicknessSeries, wanderBasis, wanderCount, type RateWander } from './rateWander';
 
 /** What the monitor sees apart from the layers: media, wavelength, R or T. */
 export interface MonitorOptics {
@@ -91,7 +91,7 @@ export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: n
   const rateNmPerS = p[i++];
   const rateDriftNmPerS2 = layer.fitDrift ? p[i++] : 0;
   const k = wanderCount(layer.wander);
-  const wander = k > 0 ? Float64Array.from({ length: k }, (_, j) => p[i + j]) : undefined;
+  const wander = k > 0 ? Float64Array.from({ length: k }, (_, j) => p[i + j]) : layer.wander?.fixed;
   i += k;
   const gain = layout && layout.shared >= 0 ? sharedGainAt(p, layout, layer.chipTimeS, layer.gainDriftPerS) : layer.heldGain === null ? p[i] : layer.heldGain;
   return wander ? { index, rateNmPerS, rateDriftNmPerS2, gain, wander } : { index, rateNmPerS, rateDriftNmPerS2, gain };
@@ -137,8 +137,10 @@ export function evaluateLayers(
     const n = layer.tauS.length;
     const view = out.subarray(pos, pos + n);
     const dd = shift && shift.layer === j ? shift.deltaNm : 0;
-    if (layer.wander) for (let i = 0; i < n; i++) view[i] = lawThickness(v, layer.wander, layer.tauS[i]) + dd;
-    else for (let i = 0; i < n; i++) view[i] = thicknessAt(layer.tauS[i], v.rateNmPerS, v.rateDriftNmPerS2) + dd;
+    if (layer.wander) {
+      lawThicknessSeries(v, layer.wander, layer.tauS, view);
+      if (dd !== 0) for (let i = 0; i < n; i++) view[i] += dd;
+    } else for (let i = 0; i < n; i++) view[i] = thicknessAt(layer.tauS[i], v.rateNmPerS, v.rateDriftNmPerS2) + dd;
     // Normal incidence: s and p coincide, so one polarization suffices.
     growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view);
     const w = layer.weight ?? 1;

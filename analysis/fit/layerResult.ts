@@ -4,7 +4,7 @@ import { type LayerState } from './analyzeRun';
 import { modelTurningPoints, timeToThickness } from './cutTiming';
 import { INDEX_BOUND } from './fitLayers';
 import { thicknessAt } from './layerModel';
-import { lawThickness, lawTimeToThickness } from './rateWander';
+import { lawThicknessSeries, lawTimeToThickness } from './rateWander';
 import { subsampleUniform } from './subsample';
 import { type LayerResult, type TurningPointAt } from './types';
 
@@ -25,7 +25,8 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const n = samples.tauS.length;
   const d = new Float64Array(n);
   const wander = e.wander ? s.fit.wander : undefined;
-  for (let i = 0; i < n; i++) d[i] = wander ? lawThickness(e, wander, samples.tauS[i]) : thicknessAt(samples.tauS[i], e.rateNmPerS, e.rateDriftNmPerS2);
+  if (wander) lawThicknessSeries(e, wander, samples.tauS, d);
+  else for (let i = 0; i < n; i++) d[i] = thicknessAt(samples.tauS[i], e.rateNmPerS, e.rateDriftNmPerS2);
   const m = growingLayerSignal({ ...optics, below, growing: fromNK(e.index, k), pol: 's' }, d);
   let ss = 0;
   for (let i = 0; i < n; i++) {

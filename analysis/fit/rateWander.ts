@@ -18,10 +18,12 @@ export interface RateWander {
    * point)), weighing the prior against the data; set per fit data (bins differ between fits).
    */
   pointSigma: number;
+  /** The knot parameters v held at these values (no wander parameters in the fit). */
+  fixed?: Float64Array;
 }
 
-/** Number of wander parameters (knots). */
-export const wanderCount = (w: RateWander | undefined): number => (w ? w.knotsS.length : 0);
+/** Number of wander parameters (knots) in a fit: none when absent or held. */
+export const wanderCount = (w: RateWander | undefined): number => (w && !w.fixed ? w.knotsS.length : 0);
 
 /** Equally spaced knots over [0, durationS], about one per `spacingS` (at least 2). */
 export function wanderKnots(durationS: number, spacingS: number): Float64Array {
@@ -84,7 +86,22 @@ export function wanderKnotRates(w: RateWander, v: ArrayLike<number>): Float64Arr
 /** The wander's thickness Σ v_j·Ψ_j(τ) = ∫₀^τ w, nm (0 without wander). */
 export function wanderThickness(w: RateWander | undefined, v: ArrayLike<number> | undefined, tau: number): number {
   if (!w || !v) return 0;
-  const t = w.knotsS, K = t.length - 1, c = wanderKnotRates(w, v);
+  return integrateKnots(w.knotsS, wanderKnotRates(w, v), tau);
+}
+
+/** The law's thickness at every τ of tauS into out (knot rates computed once). */
+export function lawThicknessSeries(law: ThicknessLaw, w: RateWander | undefined, tauS: ArrayLike<number>, out: Float64Array): Float64Array {
+  const c = w && law.wander ? wanderKnotRates(w, law.wander) : null;
+  for (let i = 0; i < tauS.length; i++) {
+    const tau = tauS[i];
+    out[i] = law.rateNmPerS * tau + 0.5 * law.rateDriftNmPerS2 * tau * tau + (c ? integrateKnots(w!.knotsS, c, tau) : 0);
+  }
+  return out;
+}
+
+/** ∫₀^τ of the piecewise-linear rate with values c at knots t (held at c_K beyond). */
+function integrateKnots(t: Float64Array, c: Float64Array, tau: number): number {
+  const K = t.length - 1;
   let d = 0;
   for (let k = 0; k < K && tau > t[k]; k++) {
     const h = t[k + 1] - t[k], x = Math.min(tau - t[k], h);

@@ -1,7 +1,9 @@
 import { type LayerAt } from '../optics';
 import { fitAr1PlusWhite, whitenAr1PlusWhite } from '../stats';
+import { binMeans } from './subsample';
 import { encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayerData, type LayerParams } from './layerModel';
-import { wanderKnots, type RateWander } from './rateWander';
+import { type LayerEstimate } from './fitLayers';
+import { wanderBasis, wanderCount, wanderKnots, type RateWander } from './rateWander';
 
 /** The wander scales tried, as fractions of the rate (0: the plain quadratic law). */
 export const WANDER_FRACTIONS = [0, 0.0025, 0.005, 0.01, 0.02, 0.04];
@@ -10,6 +12,9 @@ export const WANDER_CORRELATIONS_S = [10, 30];
 
 const HUBER_K = 2.5;
 const WANDER_HYPERPARAMETERS = 2;
+const GRAM_STRIDE = 2;
+const REML_POINTS = 800;
+const NOISE_LAGS_S = 4;
 
 export interface WanderChoiceInput {
   below: readonly LayerAt[];
@@ -18,8 +23,8 @@ export interface WanderChoiceInput {
   /** The plain fit's solution. */
   estimate: LayerParams;
   offsetSignal: number;
-  /** The prior weight c of a free per-layer gain (see fitLayers' gainPrior), 0 without. */
-  gainPriorWeight: number;
+  /** σ of the Gaussian prior on a free per-layer gain (see fitLayers' gainPrior), 0 without. */
+  gainPriorSigma: number;
   /** Every sample of the layer (time from its start, reading), for the noise's long-run σ. */
   allTauS: Float64Array;
   allY: Float64Array;
@@ -47,19 +52,25 @@ export interface WanderChoice {
  */
 export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
   const { below, layer, estimate, offsetSignal } = input;
-  const N = input.allTauS.length;
+  const all = input.allTauS.length;
+  // At most REML_POINTS bin means of the samples (bins a fraction of the noise's correlation time
+  // long at 10 Hz sampling, so the noise of the bins is still white plus AR(1) and read as such).
+  const bins = binMeans(input.allTauS, Int32Array.from({ length: all }, (_, i) => i), input.allY, REML_POINTS);
+  const N = bins.tauS.length;
+  const per = all / Math.max(N, 1);
   const scores: WanderChoice['scores'] = [];
-  const plain: FitLayerData = { ...layer, tauS: input.allTauS, y: input.allY, weight: 1, wander: undefined };
+  const plain: FitLayerData = { ...layer, tauS: bins.tauS, y: bins.y, weight: 1, wander: undefined };
   const l0 = paramLayout([plain]);
   const p0: number[] = [];
   encodeLayer(plain, estimate, p0);
-  // The noise (white + AR(1)) from the plain fit's residuals on every sample: its variogram at
-  // lags of a few seconds, which a slow misfit hardly reaches.
+  // The noise (white + AR(1)) from the plain fit's residuals: their variogram at lags up to a
+  // few seconds, which a slow misfit hardly reaches.
   const at = new Float64Array(N);
   evaluateLayers(below, [plain], l0, p0, offsetSignal, at);
-  const noise = fitAr1PlusWhite(Float64Array.from(input.allY, (v, i) => v - at[i]));
-  const none = { wander: null, sampleSigma: noise.longRunSigma, scores };
-  if (N < 200 || !(noise.longRunSigma > 0)) return none;
+  const binS = N > 1 ? (bins.tauS[N - 1] - bins.tauS[0]) / (N - 1) : 1;
+  const noise = fitAr1PlusWhite(Float64Array.from(bins.y, (v, i) => v - at[i]), Math.max(8, Math.round(NOISE_LAGS_S / binS)));
+  const none = { wander: null, sampleSigma: noise.longRunSigma * Math.sqrt(per), scores };
+  if (N < 100 || !(noise.longRunSigma > 0)) return none;
   let best = { score: Infinity, kappa: 0, correlationS: 0, scale2: 1 };
   let plainScore = Infinity, plainScale2 = 1;
   for (const correlationS of WANDER_CORRELATIONS_S) {
@@ -77,7 +88,7 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
     const pFixed = np - k;
     // Generalised least squares: residuals and columns whitened by the noise's own filter.
     const cols = Array.from({ length: np }, (_, j) => jac.subarray(j * N, (j + 1) * N));
-    const r = Float64Array.from(input.allY, (v, i) => v - at[i]);
+    const r = Float64Array.from(bins.y, (v, i) => v - at[i]);
     whitenAr1PlusWhite(noise, [r, ...cols]);
     // Huber's pseudo-residuals ψ(r), |r| capped (P. J. Huber, "Robust Statistics", Wiley (1981),
     // §7.8, from memory): a spike does not pass for a wandering rate.
@@ -88,24 +99,27 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
     for (let j = 0; j < np; j++) {
       if (isW(j)) continue;
       let c = 0;
-      for (let i = 0; i < N; i++) c += cols[j][i] ** 2;
+      for (let i = j * N; i < (j + 1) * N; i++) c += jac[i] * jac[i];
       norm[j] = c > 0 ? 1 / Math.sqrt(c) : 1;
     }
+    // The whitened columns stay smooth (a smooth column through the filter), so their products
+    // are summed on every GRAM_STRIDE-th row (times the stride); the data's, which are not, on all.
     const gram = new Float64Array(np * np), b = new Float64Array(np);
     for (let a = 0; a < np; a++) {
+      const oa = a * N;
       let q = 0;
-      for (let i = 0; i < N; i++) q += cols[a][i] * r[i];
+      for (let i = 0; i < N; i++) q += jac[oa + i] * r[i];
       b[a] = q * norm[a];
       for (let c = a; c < np; c++) {
-        let t = 0;
-        for (let i = 0; i < N; i++) t += cols[a][i] * cols[c][i];
+        const oc = c * N;
+        let t = jac[oa] * jac[oc];
+        for (let i = 1; i < N; i += GRAM_STRIDE) t += jac[oa + i] * jac[oc + i] * Math.min(GRAM_STRIDE, N - i);
         gram[a * np + c] = gram[c * np + a] = t * norm[a] * norm[c];
       }
     }
     const gainParam = plain.heldGain === null ? np - 1 : -1;
-    if (gainParam >= 0 && input.gainPriorWeight > 0) {
-      gram[gainParam * np + gainParam] += (input.gainPriorWeight * norm[gainParam] * Math.sqrt(N / layer.tauS.length) / noise.longRunSigma) ** 2;
-    }
+    // the gain prior's information, for the column scaled by norm
+    if (gainParam >= 0 && input.gainPriorSigma > 0) gram[gainParam * np + gainParam] += (norm[gainParam] / input.gainPriorSigma) ** 2;
     for (const fraction of WANDER_FRACTIONS) {
       if (fraction === 0 && correlationS !== WANDER_CORRELATIONS_S[0]) continue;
       // κ: the wander's σ per unit of the noise's scale, which is profiled:
@@ -134,10 +148,10 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
   // The wander must beat the plain law by AIC's 2 per hyperparameter it estimates (σ_w and the
   // correlation time; H. Akaike, IEEE Trans. Autom. Control 19, 716–723 (1974)).
   if (!(best.kappa > 0) || !(best.score < plainScore - 2 * WANDER_HYPERPARAMETERS)) {
-    return { wander: null, sampleSigma: noise.longRunSigma * Math.sqrt(plainScale2), scores };
+    return { wander: null, sampleSigma: noise.longRunSigma * Math.sqrt(plainScale2 * per), scores };
   }
   // The noise's long-run σ per sample, with the profiled scale of the chosen model.
-  const sampleSigma = noise.longRunSigma * Math.sqrt(best.scale2);
+  const sampleSigma = noise.longRunSigma * Math.sqrt(best.scale2 * per);
   const wander: RateWander = {
     knotsS: wanderKnots(layer.durationS, best.correlationS),
     sigmaNmPerS: best.kappa * Math.abs(estimate.rateNmPerS) * Math.sqrt(best.scale2),
@@ -171,4 +185,26 @@ export function choleskyLogDet(a: Float64Array, p: number, g: Float64Array): { l
     quad += z[i] * z[i];
   }
   return { logDet, quad };
+}
+
+/** Variance of the wander's share Σ v_j·Ψ_j(T) of a one-layer fit's end thickness, nm² (cov: that fit's covariance). */
+export function wanderEndVariance(layer: FitLayerData, cov: Float64Array): number {
+  const k = wanderCount(layer.wander);
+  if (k === 0) return 0;
+  const np = paramLayout([layer]).count;
+  const first = (layer.heldIndex === null ? 1 : 0) + 1 + (layer.fitDrift ? 1 : 0);
+  const g = wanderBasis(layer.wander!, layer.durationS, new Float64Array(k));
+  let v = 0;
+  for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) v += g[a] * g[b] * cov[(first + a) * np + first + b];
+  return Number.isFinite(v) ? Math.max(0, v) : 0;
+}
+
+/** A joint fit's estimate with the held wander's variance added to its thickness σ. */
+export function withWanderVariance(e: LayerEstimate, varianceNm2: number): LayerEstimate {
+  if (!(varianceNm2 > 0)) return e;
+  return {
+    ...e,
+    thicknessSigmaNm: Math.sqrt(e.thicknessSigmaNm ** 2 + varianceNm2),
+    opticalThicknessSigmaNm: Math.sqrt(e.opticalThicknessSigmaNm ** 2 + e.index * e.index * varianceNm2),
+  };
 }

@@ -63,17 +63,20 @@ export interface Ar1PlusWhite {
 export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40): Ar1PlusWhite {
   const n = e.length;
   const L = Math.min(maxLag, Math.floor(n / 4));
+  // Every lag up to 8, then every 4th: the short lags carry the white part and ρ, the rest the level.
+  const lags: number[] = [];
+  for (let k = 1; k <= L; k += k < 8 ? 1 : 4) lags.push(k);
   const gamma: number[] = [];
   const d = new Float64Array(n);
-  for (let k = 1; k <= L; k++) {
+  for (const k of lags) {
     const m = n - k;
     for (let i = 0; i < m; i++) d[i] = e[i + k] - e[i];
     const part = d.subarray(0, m);
-    const med = medianOf(part);
-    const dev = Float64Array.from(part, (v) => Math.abs(v - med));
-    gamma.push((1.4826 * medianOf(dev)) ** 2 / 2);
+    const med = medianInPlace(part.slice());
+    for (let i = 0; i < m; i++) part[i] = Math.abs(part[i] - med);
+    gamma.push((1.4826 * medianInPlace(part)) ** 2 / 2);
   }
-  if (L < 2) {
+  if (lags.length < 2) {
     const v = gamma[0] ?? 0;
     return { whiteVar: v, ar1Var: 0, rho: 0, longRunSigma: Math.sqrt(v) };
   }
@@ -82,8 +85,8 @@ export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40): Ar1PlusWhite
     const rho = g / 200 * 0.995;
     // γ(k) = A − B·ρ^k with A = σ_w² + σ_x², B = σ_x²: linear least squares in (A, B).
     let s1 = 0, sx = 0, sxx = 0, sy = 0, sxy = 0;
-    for (let k = 1; k <= L; k++) {
-      const x = rho ** k, y = gamma[k - 1];
+    for (let q = 0; q < lags.length; q++) {
+      const x = rho ** lags[q], y = gamma[q];
       s1++; sx += x; sxx += x * x; sy += y; sxy += x * y;
     }
     const det = s1 * sxx - sx * sx;
@@ -101,24 +104,50 @@ export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40): Ar1PlusWhite
       A = sy / s1;
     } else if (B > A) {
       let num = 0, den = 0;
-      for (let k = 1; k <= L; k++) {
-        num += gamma[k - 1] * (1 - rho ** k);
-        den += (1 - rho ** k) ** 2;
+      for (let q = 0; q < lags.length; q++) {
+        num += gamma[q] * (1 - rho ** lags[q]);
+        den += (1 - rho ** lags[q]) ** 2;
       }
       A = B = den > 0 ? num / den : 0;
     }
     let ssr = 0;
-    for (let k = 1; k <= L; k++) ssr += (gamma[k - 1] - (A - B * rho ** k)) ** 2;
+    for (let q = 0; q < lags.length; q++) ssr += (gamma[q] - (A - B * rho ** lags[q])) ** 2;
     if (ssr < best.ssr) best = { ssr, whiteVar: Math.max(0, A - B), ar1Var: B, rho };
   }
   const { whiteVar, ar1Var, rho } = best;
   return { whiteVar, ar1Var, rho, longRunSigma: Math.sqrt(whiteVar + (ar1Var * (1 + rho)) / (1 - rho)) };
 }
 
-function medianOf(v: Float64Array): number {
-  const s = Float64Array.from(v).sort();
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : 0.5 * (s[m - 1] + s[m]);
+/** Median by Hoare's selection (C. A. R. Hoare, Commun. ACM 4, 321 (1961)); reorders v. */
+function medianInPlace(v: Float64Array): number {
+  const n = v.length;
+  const kth = (k: number) => {
+    let lo = 0, hi = n - 1;
+    while (lo < hi) {
+      const pivot = v[(lo + hi) >> 1];
+      let i = lo, j = hi;
+      while (i <= j) {
+        while (v[i] < pivot) i++;
+        while (v[j] > pivot) j--;
+        if (i <= j) {
+          const t = v[i];
+          v[i] = v[j];
+          v[j] = t;
+          i++;
+          j--;
+        }
+      }
+      if (k <= j) hi = j;
+      else if (k >= i) lo = i;
+      else return v[k];
+    }
+    return v[k];
+  };
+  if (n % 2) return kth(n >> 1);
+  const a = kth((n >> 1) - 1);
+  let b = Infinity;
+  for (let i = n >> 1; i < n; i++) if (v[i] < b) b = v[i];
+  return 0.5 * (a + b);
 }
 
 /**
@@ -133,20 +162,23 @@ function medianOf(v: Float64Array): number {
 export function whitenAr1PlusWhite(noise: Pick<Ar1PlusWhite, 'whiteVar' | 'ar1Var' | 'rho'>, series: Float64Array[], from = 0, to = series[0]?.length ?? 0): void {
   const { whiteVar: R, ar1Var, rho } = noise;
   const q = ar1Var * (1 - rho * rho);
-  const m = series.length;
-  const xhat = new Float64Array(m);
+  // The gains do not depend on the data: once, then each series alone.
+  const gain = new Float64Array(to - from), scale = new Float64Array(to - from);
   let P = ar1Var; // prior variance of x_0: the stationary one
-  for (let i = from; i < to; i++) {
-    const Pm = i === from ? P : rho * rho * P + q;
+  for (let i = 0; i < to - from; i++) {
+    const Pm = i === 0 ? P : rho * rho * P + q;
     const F = Pm + R;
-    const K = F > 0 ? Pm / F : 0;
-    const s = F > 0 ? 1 / Math.sqrt(F) : 0;
-    for (let j = 0; j < m; j++) {
-      const pred = i === from ? 0 : rho * xhat[j];
-      const innov = series[j][i] - pred;
-      xhat[j] = pred + K * innov;
-      series[j][i] = innov * s;
+    gain[i] = F > 0 ? Pm / F : 0;
+    scale[i] = F > 0 ? 1 / Math.sqrt(F) : 0;
+    P = (1 - gain[i]) * Pm;
+  }
+  for (const y of series) {
+    let xhat = 0;
+    for (let i = from; i < to; i++) {
+      const pred = i === from ? 0 : rho * xhat;
+      const innov = y[i] - pred;
+      xhat = pred + gain[i - from] * innov;
+      y[i] = innov * scale[i - from];
     }
-    P = (1 - K) * Pm;
   }
 }
