@@ -310,9 +310,9 @@ export function refitChip(
   data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean,
   chipGain: { gain: number; driftPerS: number; fitDrift: boolean } | null, robust = true,
 ): JointFitResult['sharedGain'] {
-  // A wandering rate's knots are held in joint fits (at the layer's own fit); their share of the
-  // end thickness's variance is added after.
-  const layers = data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
+  // A wandering rate's knots are free in the final joint fit; the refits during the pass hold them
+  // (at the current estimate) and add what that costs the end thickness's variance.
+  const layers = final ? data : data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
   const joint = fitLayers(
     { fixedBelow: [], layers, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) },
     final ? { robust } : { maxIterations: 4, robust },
@@ -322,7 +322,7 @@ export function refitChip(
     chipGain.driftPerS = joint.sharedGain.driftPerS;
   }
   chipStates.forEach((s, j) => {
-    s.estimate = withWanderVariance(joint.layers[j], s.wanderVarianceNm2 ?? 0);
+    s.estimate = final ? joint.layers[j] : withWanderVariance(joint.layers[j], s.wanderVarianceNm2 ?? 0);
     if (final) {
       s.iterations = joint.solver.iterations;
       s.converged = joint.solver.converged;

@@ -3,15 +3,16 @@ import { fitAr1PlusWhite, whitenAr1PlusWhite } from '../stats';
 import { binMeans } from './subsample';
 import { encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayerData, type LayerParams } from './layerModel';
 import { type LayerEstimate } from './fitLayers';
+import { invertSymmetric } from './invertSymmetric';
 import { wanderBasis, wanderCount, wanderKnots, type RateWander } from './rateWander';
 
 /** The wander scales tried, as fractions of the rate (0: the plain quadratic law). */
 export const WANDER_FRACTIONS = [0, 0.0025, 0.005, 0.01, 0.02, 0.04];
 /** The wander correlation times tried, s (knots one correlation time apart). */
-export const WANDER_CORRELATIONS_S = [10, 30];
+export const WANDER_CORRELATIONS_S = [20];
 
 const HUBER_K = 2.5;
-const WANDER_HYPERPARAMETERS = 2;
+const WANDER_HYPERPARAMETERS = WANDER_CORRELATIONS_S.length > 1 ? 2 : 1;
 const GRAM_STRIDE = 2;
 const REML_POINTS = 800;
 const NOISE_LAGS_S = 4;
@@ -187,15 +188,34 @@ export function choleskyLogDet(a: Float64Array, p: number, g: Float64Array): { l
   return { logDet, quad };
 }
 
-/** Variance of the wander's share Σ v_j·Ψ_j(T) of a one-layer fit's end thickness, nm² (cov: that fit's covariance). */
+/**
+ * What holding the wander costs the end thickness's variance in a one-layer fit (cov: its
+ * covariance), nm²: Var(d) − Var(d | v) = uᵀ·C_vv⁻¹·u with u = Cov(v, d), the Schur complement of
+ * the Gaussian posterior (the trend and the wander trade off, so the wander's own share would
+ * overstate it). Added to a joint fit's σ that holds the knots.
+ */
 export function wanderEndVariance(layer: FitLayerData, cov: Float64Array): number {
   const k = wanderCount(layer.wander);
   if (k === 0) return 0;
   const np = paramLayout([layer]).count;
-  const first = (layer.heldIndex === null ? 1 : 0) + 1 + (layer.fitDrift ? 1 : 0);
-  const g = wanderBasis(layer.wander!, layer.durationS, new Float64Array(k));
+  const iR = layer.heldIndex === null ? 1 : 0, first = iR + 1 + (layer.fitDrift ? 1 : 0);
+  const T = layer.durationS;
+  // d's gradient over θ = [n?, r, a?, v…, g?]
+  const grad = new Float64Array(np);
+  grad[iR] = T;
+  if (layer.fitDrift) grad[iR + 1] = 0.5 * T * T;
+  wanderBasis(layer.wander!, T, new Float64Array(k)).forEach((g, j) => (grad[first + j] = g));
+  const u = new Float64Array(k), cvv = new Float64Array(k * k);
+  for (let a = 0; a < k; a++) {
+    let s = 0;
+    for (let b = 0; b < np; b++) s += cov[(first + a) * np + b] * grad[b];
+    u[a] = s;
+    for (let b = 0; b < k; b++) cvv[a * k + b] = cov[(first + a) * np + first + b];
+  }
+  const inv = invertSymmetric(cvv, k);
+  if (!inv) return 0;
   let v = 0;
-  for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) v += g[a] * g[b] * cov[(first + a) * np + first + b];
+  for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) v += u[a] * inv[a * k + b] * u[b];
   return Number.isFinite(v) ? Math.max(0, v) : 0;
 }
 
