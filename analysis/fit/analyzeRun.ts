@@ -208,8 +208,11 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const e = single.layers[0];
       single = fitSingle(heldIndex, e.rateNmPerS, fit.heldGain ?? e.gain);
     }
-    if (o.rateWander && !separation?.hold && fit.fitDrift) {
+    if (o.rateWander && !separation?.hold && fit.fitDrift && dl.monitor.cut === 'turning-point') {
       // A rate that wanders within the layer: more freedom where the data ask for it (fit/wanderChoice.ts).
+      // Turning-point cuts only: there the end thickness is the rate extrapolated over the flat top,
+      // which a wander moves; a level cut's end sits on a slope that reads it directly, and there
+      // the knots took up calibration misfit instead (chamber BBAR, demo BBAR: cut errors at |z| ≈ 10).
       const e = single.layers[0];
       const choice = chooseRateWander({
         below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: pick(trace.signal, samples.indices),

@@ -46,15 +46,20 @@ function plainFit(data: FitLayerData) {
 describe('chooseRateWander', () => {
   it('keeps the plain law for a steady rate under correlated noise', () => {
     let chosen = 0;
-    for (const seed of [1, 2, 3, 4]) {
+    const ratios: number[] = [];
+    for (const seed of [1, 2, 3, 4, 8, 9, 10, 11]) {
       const l = layer(0, seed);
       const plain = plainFit(l.data);
       const c = chooseRateWander({ below: [], layer: l.data, estimate: plain.layers[0], offsetSignal: 0, gainPriorSigma: 0, allTauS: l.tauS, allY: l.y });
       if (c.wander) chosen++;
       // the noise's long-run σ: √(0.0003² + 0.0006²·(1 + ρ)/(1 − ρ)) = 0.0027 at 10 Hz
-      expect(c.sampleSigma / 0.0027).toBeGreaterThan(0.75);
-      expect(c.sampleSigma / 0.0027).toBeLessThan(1.33);
+      ratios.push(c.sampleSigma / 0.0027);
     }
+    // from 250 s of noise correlated over 1 s, one layer's estimate scatters by some 20 %
+    ratios.sort((a, b) => a - b);
+    expect(ratios[3]).toBeGreaterThan(0.8);
+    expect(ratios[4]).toBeLessThan(1.25);
+    expect(ratios[7]).toBeLessThan(2);
     expect(chosen).toBeLessThanOrEqual(1);
   });
 
