@@ -1,7 +1,7 @@
 import { type Design, type DesignLayer } from '../design';
 import { indexAt } from '../materials';
 import { type Complex } from '../optics';
-import { driftEstimateAt, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
+import { driftEstimateAt, newVariogramPool, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
@@ -129,6 +129,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, { gain: c.calibration.gain, driftPerS: knownDrift, startS: c.startS, fitDrift: o.gainDrift }]));
   const states: LayerState[] = [];
   const stacks = new Map<number, StackCovariance>();
+  const noisePool = newVariogramPool();
   let done = 0;
   for (const dl of order) {
     const samples = samplesByLayer.get(dl.layer)!;
@@ -216,7 +217,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const e = single.layers[0];
       const choice = chooseRateWander({
         below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: pick(trace.signal, samples.indices),
-        gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0,
+        gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0, noisePool,
       });
       if (choice.wander) {
         built.wander = choice.wander;

@@ -1,5 +1,5 @@
 import { type LayerAt } from '../optics';
-import { fitAr1PlusWhite, whitenAr1PlusWhite } from '../stats';
+import { fitAr1PlusWhite, whitenAr1PlusWhite, type VariogramPool } from '../stats';
 import { binMeans } from './subsample';
 import { encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayerData, type LayerParams } from './layerModel';
 import { type LayerEstimate } from './fitLayers';
@@ -14,7 +14,7 @@ export const WANDER_CORRELATIONS_S = [20];
 const HUBER_K = 2.5;
 const WANDER_HYPERPARAMETERS = WANDER_CORRELATIONS_S.length > 1 ? 2 : 1;
 const GRAM_STRIDE = 2;
-const REML_POINTS = 800;
+const SAMPLES_PER_BIN = 3;
 const NOISE_LAGS_S = 4;
 
 export interface WanderChoiceInput {
@@ -29,6 +29,8 @@ export interface WanderChoiceInput {
   /** Every sample of the layer (time from its start, reading), for the noise's long-run σ. */
   allTauS: Float64Array;
   allY: Float64Array;
+  /** The run's pooled variogram (bins of SAMPLES_PER_BIN samples), added to and read. */
+  noisePool?: VariogramPool;
 }
 
 export interface WanderChoice {
@@ -54,9 +56,9 @@ export interface WanderChoice {
 export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
   const { below, layer, estimate, offsetSignal } = input;
   const all = input.allTauS.length;
-  // At most REML_POINTS bin means of the samples (bins a fraction of the noise's correlation time
-  // long at 10 Hz sampling, so the noise of the bins is still white plus AR(1) and read as such).
-  const bins = binMeans(input.allTauS, Int32Array.from({ length: all }, (_, i) => i), input.allY, REML_POINTS);
+  // Bin means of SAMPLES_PER_BIN samples (a fraction of a lock-in's correlation time at 10 Hz, so
+  // the bins' noise is still white plus AR(1) and read as such; the same lags in every layer).
+  const bins = binMeans(input.allTauS, Int32Array.from({ length: all }, (_, i) => i), input.allY, Math.floor(all / SAMPLES_PER_BIN));
   const N = bins.tauS.length;
   const per = all / Math.max(N, 1);
   const scores: WanderChoice['scores'] = [];
@@ -69,7 +71,7 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
   const at = new Float64Array(N);
   evaluateLayers(below, [plain], l0, p0, offsetSignal, at);
   const binS = N > 1 ? (bins.tauS[N - 1] - bins.tauS[0]) / (N - 1) : 1;
-  const noise = fitAr1PlusWhite(Float64Array.from(bins.y, (v, i) => v - at[i]), Math.max(8, Math.round(NOISE_LAGS_S / binS)));
+  const noise = fitAr1PlusWhite(Float64Array.from(bins.y, (v, i) => v - at[i]), Math.max(8, Math.round(NOISE_LAGS_S / binS)), input.noisePool);
   const none = { wander: null, sampleSigma: noise.longRunSigma * Math.sqrt(per), scores };
   if (N < 100 || !(noise.longRunSigma > 0)) return none;
   let best = { score: Infinity, kappa: 0, correlationS: 0, scale2: 1 };

@@ -38,6 +38,14 @@ export function effectiveSampleCount(e: ArrayLike<number>): number {
   return e.length / autocorrelationTime(e);
 }
 
+/** Variogram sums per lag, pooled over several series of one noise (see fitAr1PlusWhite). */
+export interface VariogramPool {
+  sums: Map<number, number>;
+  counts: Map<number, number>;
+}
+
+export const newVariogramPool = (): VariogramPool => ({ sums: new Map(), counts: new Map() });
+
 /** White plus AR(1) noise: e_i = w_i + x_i, x_i = ρ·x_{i−1} + u_i; σ² of each part. */
 export interface Ar1PlusWhite {
   whiteVar: number;
@@ -60,14 +68,15 @@ export interface Ar1PlusWhite {
  * the series' variance; winsorising the differences keeps spikes out. The lag-one-only reading
  * (trace/levelSteps longRunSigma) takes white + AR(1) for a faster AR(1) and underestimates.
  */
-export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40): Ar1PlusWhite {
+export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40, pool?: VariogramPool): Ar1PlusWhite {
   const n = e.length;
   const L = Math.min(maxLag, Math.floor(n / 4));
   // Every lag up to 8, then every 2nd: the short lags carry the white part and ρ, the rest the level.
   const lags: number[] = [];
   for (let k = 1; k <= L; k += k < 8 ? 1 : 2) lags.push(k);
-  const gamma: number[] = [];
+  let gamma: number[] = [];
   const d = new Float64Array(n);
+  const sums: number[] = [], counts: number[] = [];
   for (const k of lags) {
     const m = n - k;
     for (let i = 0; i < m; i++) d[i] = e[i + k] - e[i];
@@ -80,6 +89,16 @@ export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40): Ar1PlusWhite
     let ss = 0;
     for (let i = 0; i < m; i++) ss += Math.min(abs[i], cap) ** 2;
     gamma.push(ss / m / 2);
+    sums.push(ss / 2);
+    counts.push(m);
+  }
+  if (pool) {
+    // The noise is the detector's: pooled over the series read so far (same lags), it scatters less.
+    lags.forEach((k, q) => {
+      pool.sums.set(k, (pool.sums.get(k) ?? 0) + sums[q]);
+      pool.counts.set(k, (pool.counts.get(k) ?? 0) + counts[q]);
+    });
+    gamma = lags.map((k) => pool.sums.get(k)! / pool.counts.get(k)!);
   }
   if (lags.length < 2) {
     const v = gamma[0] ?? 0;

@@ -111,7 +111,7 @@ export function scenarios(): Scenario[] {
       design: mirrorDesign(18, 6), seeds: [15, 16], targets: CHAMBER_TARGETS,
       options: { ...RATES, ...NOISE_AND_SPIKES },
       modes: {
-        sequential: pending('below the information limit: σ_d (≈ the Cramér–Rao bound for this white + AR(1) noise) is 0.20–0.51 % per layer (median 0.27 %), so the largest of 36 errors lands near 2.5σ ≈ 0.7–1.2 % (1.16 % measured, coverage 97 %)'),
+        sequential: pending('below the information limit: σ_d (≈ the Cramér–Rao bound for this white + AR(1) noise) is 0.20–0.51 % per layer (median 0.27 %), so the largest of 36 errors lands near 2.5σ ≈ 0.7–1.2 % (1.13 % measured, coverage 97 %)'),
         refit: pending('below the information limit for the last layer on each chip (nothing above pins its turning-point end): σ_d 0.34–0.37 % there (others 0.06–0.16 %); thickness up to 1.02 %, cut 0.86 % QWOT, coverage 97 %'),
       },
     },
@@ -121,7 +121,7 @@ export function scenarios(): Scenario[] {
       options: { ...RATES, ...NOISE_AND_SPIKES, rateWander: { fraction: 0.015, correlationS: 15 }, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 } },
       modes: {
         sequential: pending('the wander model (fit/rateWander.ts) follows it, but the bound is above the target: σ_d with the wander 0.21–0.85 % per layer (median 0.45 %); thickness up to 1.81 %, coverage 92/100/92 % (d, n, cut)'),
-        refit: pending('bound above the target on the last layer of each chip (σ_d 0.45–0.74 %, others median 0.22–0.27 %); thickness up to 1.17 %, cut 1.12 % QWOT, coverage 97/94/97 %'),
+        refit: pending('bound above the target on the last layer of each chip (σ_d 0.45–0.74 %, others median 0.22–0.27 %); thickness up to 1.10 %, cut 1.05 % QWOT, coverage 97/100/97 %'),
       },
     },
     {
