@@ -1,7 +1,7 @@
 import { type Design, type DesignLayer } from '../design';
 import { indexAt } from '../materials';
 import { type Complex } from '../optics';
-import { driftEstimateAt, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
+import { driftEstimateAt, newVariogramPool, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
@@ -9,7 +9,7 @@ import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers'
 import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { LayerEnds } from './layerEnds';
-import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
+import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
@@ -23,6 +23,8 @@ import { startValues } from './startValues';
 import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
 import { indexSeparation } from './thinLayer';
 import { binMeans } from './subsample';
+import { type RateWander } from './rateWander';
+import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wanderChoice';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -45,6 +47,8 @@ export interface LayerState {
   heldWhy?: string;
   /** σ of the held index (the drift estimate's prediction σ, or the nominal's). */
   heldIndexSigma?: number;
+  /** Variance of the wander's share of the end thickness, nm², from the layer's own fit (joint fits hold the wander). */
+  wanderVarianceNm2?: number;
   calibration: ChipCalibration;
   /** Design optical thickness in quarter-waves at the monitor wavelength. */
   qwotAtMonitor: number;
@@ -73,6 +77,7 @@ export const ANALYZE_DEFAULTS = {
   heldIndexSigma: 0.05,
   heldIndexCorrelation: 0.99,
   robustLoss: false,
+  rateWander: true,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -130,6 +135,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, { gain: c.calibration.gain, driftPerS: knownDrift, startS: c.startS, fitDrift: o.gainDrift }]));
   const states: LayerState[] = [];
   const stacks = new Map<number, StackCovariance>();
+  const noisePool = newVariogramPool();
   let done = 0;
   for (const dl of order) {
     const samples = samplesByLayer.get(dl.layer)!;
@@ -164,7 +170,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
     const durationS = samples.tauS[n - 1];
     // make() is called again after the pass (final refit), when the layer's state exists.
-    const built: { state?: LayerState } = {};
+    const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number } = {};
     const make = (maxPoints: number): FitLayerData => {
       // Bin means, not picked samples: every sample's information at a fraction of the points.
       const binned = binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
@@ -172,6 +178,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
         heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
+        ...(built.wander ? { wander: { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } } : {}),
       };
     };
     const fit = make(o.maxFitPoints);
@@ -192,8 +199,8 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     // Per-layer gains start at (and are held near, by a prior) the chip calibration.
     const anchor = cg.gain * (1 + cg.driftPerS * chipTimeS);
     const withPrior = o.gainPriorFraction > 0 && fit.heldGain === null;
-    const fitSingle = (index: number, rateNmPerS: number, gain: number) => fitLayers({
-      fixedBelow: below, layers: [fit], offsetSignal: calibration.offset, start: [{ index, rateNmPerS, rateDriftNmPerS2: 0, gain }],
+    const fitSingle = (index: number, rateNmPerS: number, gain: number, more: Partial<LayerParams> = {}) => fitLayers({
+      fixedBelow: below, layers: [fit], offsetSignal: calibration.offset, start: [{ index, rateNmPerS, rateDriftNmPerS2: 0, gain, ...more }],
       ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
     }, { robust: o.robustLoss });
     let single = fitSingle(sv.index, sv.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : sv.gain));
@@ -208,6 +215,25 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       fit.fitDrift = refit.fitDrift = false;
       const e = single.layers[0];
       single = fitSingle(heldIndex, e.rateNmPerS, fit.heldGain ?? e.gain);
+    }
+    if (o.rateWander && !separation?.hold && fit.fitDrift && dl.monitor.cut === 'turning-point') {
+      // A rate that wanders within the layer: more freedom where the data ask for it (fit/wanderChoice.ts).
+      // Turning-point cuts only: there the end thickness is the rate extrapolated over the flat top,
+      // which a wander moves; a level cut's end sits on a slope that reads it directly, and there
+      // the knots took up calibration misfit instead (chamber BBAR, demo BBAR: cut errors at |z| ≈ 10).
+      const e = single.layers[0];
+      const choice = chooseRateWander({
+        below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: pick(trace.signal, samples.indices),
+        gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0, noisePool,
+      });
+      if (choice.wander) {
+        built.wander = choice.wander;
+        const pointSigma = (count: number) => choice.wander!.pointSigma * Math.sqrt(count / n);
+        fit.wander = { ...choice.wander, pointSigma: pointSigma(fit.tauS.length) };
+        refit.wander = { ...choice.wander, pointSigma: pointSigma(refit.tauS.length) };
+        single = fitSingle(e.index, e.rateNmPerS, e.gain, { rateDriftNmPerS2: e.rateDriftNmPerS2 });
+        built.wanderVariance = wanderEndVariance(fit, single.solver.covariance);
+      }
     }
     const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
     // The growth after the cut of the layer below, from where this layer starts on its fringe (LayerEnds).
@@ -228,6 +254,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       weight, qwotAtMonitor, design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
       converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum,
       ...(separation?.hold ? { heldWhy: separation.reason, heldIndexSigma: heldSigma } : {}),
+      ...(built.wanderVariance !== undefined ? { wanderVarianceNm2: built.wanderVariance } : {}),
     };
     built.state = state;
     ends?.ended(state, below);
@@ -305,8 +332,11 @@ export function refitChip(
   data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean,
   chipGain: { gain: number; driftPerS: number; fitDrift: boolean } | null, robust = true,
 ): JointFitResult['sharedGain'] {
+  // A wandering rate's knots are free in the final joint fit; the refits during the pass hold them
+  // (at the current estimate) and add what that costs the end thickness's variance.
+  const layers = final ? data : data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
   const joint = fitLayers(
-    { fixedBelow: [], layers: data, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) },
+    { fixedBelow: [], layers, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) },
     final ? { robust } : { maxIterations: 4, robust },
   );
   if (chipGain && joint.sharedGain) {
@@ -314,7 +344,7 @@ export function refitChip(
     chipGain.driftPerS = joint.sharedGain.driftPerS;
   }
   chipStates.forEach((s, j) => {
-    s.estimate = joint.layers[j];
+    s.estimate = final ? joint.layers[j] : withWanderVariance(joint.layers[j], s.wanderVarianceNm2 ?? 0);
     if (final) {
       s.iterations = joint.solver.iterations;
       s.converged = joint.solver.converged;

@@ -2,9 +2,10 @@ import { type LayerAt } from '../optics';
 import { autocorrelationTime } from '../stats';
 import { leastSquares, type LeastSquaresOptions, type LeastSquaresResult } from './leastSquares';
 import {
-  decodeLayer, encodeLayer, evaluateLayers, jacobianLayers, paramLayout, thicknessAt,
+  decodeLayer, encodeLayer, evaluateLayers, jacobianLayers, paramLayout,
   type FitLayerData, type LayerParams,
 } from './layerModel';
+import { lawThickness, wanderBasis, wanderCount } from './rateWander';
 
 /** The fitted index stays within ±15 % of the material's nominal. */
 export const INDEX_BOUND = 0.15;
@@ -63,10 +64,13 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
     encodeLayer(layer, s, p0, shared);
     const T = Math.max(layer.durationS, 1e-9);
     const r = Math.abs(s.rateNmPerS);
-    encodeLayer(layer, { index: 0.01, rateNmPerS: 0.005 * r, rateDriftNmPerS2: (0.01 * r) / T, gain: 0.001 * Math.abs(s.gain) }, scale, shared);
+    // The wander's parameters have a unit-normal prior: typical change 0.3, bounds ±8.
+    const wk = wanderCount(layer.wander);
+    const w = (v: number) => (wk > 0 ? new Float64Array(wk).fill(v) : undefined);
+    encodeLayer(layer, { index: 0.01, rateNmPerS: 0.005 * r, rateDriftNmPerS2: (0.01 * r) / T, gain: 0.001 * Math.abs(s.gain), wander: w(0.3) }, scale, shared);
     const nominal = layer.nominalAt(layer.optics.wavelengthNm).re;
-    encodeLayer(layer, { index: Math.max(1, (1 - INDEX_BOUND) * nominal), rateNmPerS: 0.2 * r, rateDriftNmPerS2: -r / T, gain: 0.5 * s.gain }, min, shared);
-    encodeLayer(layer, { index: (1 + INDEX_BOUND) * nominal, rateNmPerS: 5 * r, rateDriftNmPerS2: r / T, gain: 2 * s.gain }, max, shared);
+    encodeLayer(layer, { index: Math.max(1, (1 - INDEX_BOUND) * nominal), rateNmPerS: 0.2 * r, rateDriftNmPerS2: -r / T, gain: 0.5 * s.gain, wander: w(-8) }, min, shared);
+    encodeLayer(layer, { index: (1 + INDEX_BOUND) * nominal, rateNmPerS: 5 * r, rateDriftNmPerS2: r / T, gain: 2 * s.gain, wander: w(8) }, max, shared);
   });
   if (sharedGain) {
     p0.push(sharedGain.gain);
@@ -91,6 +95,12 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
       priors.push({ param: next - 1, g0: start[j].gain, c: gainPrior.noiseSigma / (gainPrior.fraction * Math.abs(start[j].gain)) });
     });
   }
+  // The wander's unit-normal prior: 0 = σ_point·v_j (scaled by the layer's weight, like its data).
+  layers.forEach((l, j) => {
+    const k = wanderCount(l.wander);
+    const first = layout.offsets[j] + (l.heldIndex === null ? 1 : 0) + 1 + (l.fitDrift ? 1 : 0);
+    for (let i = 0; i < k; i++) priors.push({ param: first + i, g0: 0, c: (l.weight ?? 1) * l.wander!.pointSigma });
+  });
   const y = new Float64Array(total + priors.length);
   let pos = 0;
   for (const l of layers) {
@@ -141,13 +151,21 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
     const iN = layer.heldIndex === null ? i++ : -1;
     const iR = i++;
     const iA = layer.fitDrift ? i++ : -1;
+    const wk = wanderCount(layer.wander);
+    const iW = i;
+    i += wk;
     const iG = !shared && layer.heldGain === null ? i : -1;
     const T = layer.durationS;
-    // d = r·T + a·T²/2 and n·d; first-order propagation through the covariance
-    const gR = T, gA = 0.5 * T * T;
-    const d = thicknessAt(T, v.rateNmPerS, v.rateDriftNmPerS2);
-    const varD = gR * gR * cov(iR, iR) + gA * gA * cov(iA, iA) + 2 * gR * gA * cov(iR, iA);
-    const varND = v.index * v.index * varD + d * d * cov(iN, iN) + 2 * v.index * d * (gR * cov(iN, iR) + gA * cov(iN, iA));
+    // d = r·T + a·T²/2 + Σ v_j·Ψ_j(T) and n·d; first-order propagation through the covariance
+    const grad: [number, number][] = [[iR, T], [iA, 0.5 * T * T]];
+    if (wk > 0) wanderBasis(layer.wander!, T, new Float64Array(wk)).forEach((g, j) => grad.push([iW + j, g]));
+    const d = lawThickness(v, layer.wander, T);
+    let varD = 0, covDN = 0;
+    for (const [a, ga] of grad) {
+      covDN += ga * cov(a, iN);
+      for (const [b, gb] of grad) varD += ga * gb * cov(a, b);
+    }
+    const varND = v.index * v.index * varD + d * d * cov(iN, iN) + 2 * v.index * d * covDN;
     const sd = (k: number) => (k < 0 ? 0 : Math.sqrt(Math.max(0, cov(k, k))));
     let gainSigma = sd(iG);
     if (shared) {

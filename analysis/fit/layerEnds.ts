@@ -1,12 +1,12 @@
 import { type LayerAt } from '../optics';
 import { type TraceData } from '../trace';
-import { timeToThickness } from './cutTiming';
 import { type JointFitResult, type LayerEstimate } from './fitLayers';
 import { growthFromNext } from './growthFromNext';
 import { jointGrowth } from './jointGrowth';
 import { growthLogLikelihood, growthPosterior, type GaussianEvidence, type GrowthEstimate, type GrowthEvidence } from './growthPosterior';
 import { levelEvidence, settledLevelAfter, startCheck, startLevel, type LevelEvidence, type SettledLevel } from './layerEnd';
-import { layerAtWavelength, thicknessAt, type FitLayerData, type MonitorOptics } from './layerModel';
+import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
+import { endEquivalentLaw, lawRate, lawThickness, lawTimeToThickness } from './rateWander';
 import { type LayerSamples } from './layerSamples';
 import { ShutterTime } from './shutterTime';
 import { type StackCovariance } from './stackUncertainty';
@@ -98,7 +98,7 @@ export class LayerEnds {
       while (k > 0 && n - k < 10) k--;
       while (k > 0 && samples.tauS[n - 1] - samples.tauS[k - 1] <= LAST_READINGS_S) k--;
       rec.level = levelEvidence({
-        settled, optics: s.optics, below, index: e.index, extinction: -s.nominal.im, rateNmPerS: e.rateNmPerS, rateDriftNmPerS2: e.rateDriftNmPerS2,
+        settled, optics: s.optics, below, index: e.index, extinction: -s.nominal.im, ...endEquivalentLaw(e, s.fit.wander, loggedS),
         durationS: loggedS, gain: e.gain, offset: s.calibration.offset,
         lastReadings: Array.from({ length: n - k }, (_, i) => signal[samples.indices[k + i]]), lastTauS: samples.tauS.subarray(k),
       });
@@ -137,7 +137,7 @@ export class LayerEnds {
     // A growth well outside [0, the longest shutter] is no growth but a misfit (the model, the
     // stack or the detector offset): the start is then not read.
     const check = rec.nextAsGrowth ?? rec.next;
-    const maxNm = finalRate(rec.loggedS, rec.s.estimate) * MAX_SHUTTER_S;
+    const maxNm = finalRate(rec.loggedS, rec.s) * MAX_SHUTTER_S;
     if (check.meanNm < -3 * check.sigmaNm || check.meanNm > maxNm + 3 * check.sigmaNm) {
       rec.next = rec.nextAsGrowth = null;
       return false;
@@ -165,6 +165,9 @@ export class LayerEnds {
    */
   afterJointFit(data: readonly FitLayerData[], states: readonly EndedLayer[], offsetSignal: number, sharedGain: { gain: number; driftPerS: number; fitDrift: boolean } | null): void {
     if (!this.startsConsistent()) return;
+    // jointGrowth works on the quadratic thickness law: a chip with a wandering rate keeps the
+    // pass's growths (finish drops their stale start readings).
+    if (data.some((l) => l.wander)) return;
     const recs = states.map((s) => this.records.find((r) => r.s === s) ?? null);
     const out = jointGrowth({
       data, estimates: states.map((s) => s.estimate), sharedGain, offsetSignal,
@@ -216,7 +219,7 @@ export class LayerEnds {
   private startsConsistent(): boolean {
     if (this.startsDropped) return false;
     const t = this.records.filter((r) => r.nextAsGrowth).map((r) => {
-      const rate = finalRate(r.loggedS, r.s.estimate);
+      const rate = finalRate(r.loggedS, r.s);
       return { t: r.nextAsGrowth!.meanNm / rate, s: r.nextAsGrowth!.sigmaNm / rate };
     });
     if (t.length < 3) return true;
@@ -275,7 +278,7 @@ export class LayerEnds {
    */
   private evidence(rec: EndRecord, withShutter = true, smeared = true): GrowthEvidence {
     const e = rec.s.estimate;
-    const rate = finalRate(rec.loggedS, e);
+    const rate = finalRate(rec.loggedS, rec.s);
     const maxNm = rate * MAX_SHUTTER_S;
     const t = withShutter ? this.shutter.predict(rec.s.design.layer) : null;
     const pool = t ? { meanNm: rate * t.timeS, sigmaNm: Math.max(rate * t.sigmaS, 1e-6) } : null;
@@ -297,7 +300,7 @@ export class LayerEnds {
    * determines it; a layer with neither leaves it.
    */
   private record(rec: EndRecord): void {
-    const rate = finalRate(rec.loggedS, rec.s.estimate);
+    const rate = finalRate(rec.loggedS, rec.s);
     const layer = rec.s.design.layer;
     let own: GaussianEvidence | null = rec.nextAsGrowth;
     if (!own && rec.level) {
@@ -316,11 +319,11 @@ export class LayerEnds {
     const e = s.estimate;
     const base = this.base(rec);
     if (!keepTime) {
-      const loggedNm = thicknessAt(rec.loggedS, e.rateNmPerS, e.rateDriftNmPerS2);
-      const T = growth.deltaNm !== 0 ? timeToThickness(loggedNm + growth.deltaNm, e.rateNmPerS, e.rateDriftNmPerS2) : rec.loggedS;
-      s.fit.durationS = s.refit.durationS = Number.isFinite(T) ? T : rec.loggedS + growth.deltaNm / finalRate(rec.loggedS, e);
+      const loggedNm = lawThickness(e, s.fit.wander, rec.loggedS);
+      const T = growth.deltaNm !== 0 ? lawTimeToThickness(e, s.fit.wander, loggedNm + growth.deltaNm, rec.loggedS) : rec.loggedS;
+      s.fit.durationS = s.refit.durationS = Number.isFinite(T) ? T : rec.loggedS + growth.deltaNm / finalRate(rec.loggedS, s);
     }
-    const d = thicknessAt(s.fit.durationS, e.rateNmPerS, e.rateDriftNmPerS2);
+    const d = lawThickness(e, s.fit.wander, s.fit.durationS);
     // The growth's σ is that of the final thickness (see growthPosterior's smoothNm): it takes
     // the place of the logged thickness's σ, in n·d too (where the index's correlation with the
     // logged thickness made n·d the better known, no less than n·σ of the final thickness).
@@ -341,7 +344,8 @@ export class LayerEnds {
  */
 const determines = (g: GrowthEstimate, maxNm: number) => g.sigmaNm < DETERMINED * maxNm && g.deltaNm > 2 * g.sigmaNm;
 
-const finalRate = (T: number, e: LayerEstimate) => Math.max(e.rateNmPerS + e.rateDriftNmPerS2 * T, 1e-9);
+/** The rate at τ = T by the layer's whole thickness law (its wander too). */
+const finalRate = (T: number, s: { estimate: LayerEstimate; fit: FitLayerData }) => Math.max(lawRate(s.estimate, s.fit.wander, T), 1e-9);
 
 /** The level lies more than 5σ from the curve for every growth considered. */
 function offCurve(e: GrowthEvidence): boolean {

@@ -1,4 +1,5 @@
 import { fromNK, growingLayerSignal, type Complex, type LayerAt } from '../optics';
+import { lawThickness, lawThicknessSeries, wanderBasis, wanderCount, type RateWander } from './rateWander';
 
 /** What the monitor sees apart from the layers: media, wavelength, R or T. */
 export interface MonitorOptics {
@@ -36,6 +37,8 @@ export interface FitLayerData {
   weight?: number;
   /** A known gain drift (fraction per second), applied when the drift is not fitted. @default 0 */
   gainDriftPerS?: number;
+  /** A rate wandering within the layer, fitted as knots under its prior (fit/rateWander.ts). @default none */
+  wander?: RateWander;
 }
 
 /** The physical parameters of one layer. */
@@ -44,6 +47,8 @@ export interface LayerParams {
   rateNmPerS: number;
   rateDriftNmPerS2: number;
   gain: number;
+  /** The wander's non-centred knot parameters v (fit/rateWander.ts), with FitLayerData.wander. */
+  wander?: Float64Array;
 }
 
 /** d(τ) = r·τ + a·τ²/2. */
@@ -69,7 +74,7 @@ export function paramLayout(layers: readonly FitLayerData[], sharedGain = false,
   let count = 0;
   for (const l of layers) {
     offsets.push(count);
-    count += (l.heldIndex === null ? 1 : 0) + 1 + (l.fitDrift ? 1 : 0) + (!sharedGain && l.heldGain === null ? 1 : 0);
+    count += (l.heldIndex === null ? 1 : 0) + 1 + (l.fitDrift ? 1 : 0) + wanderCount(l.wander) + (!sharedGain && l.heldGain === null ? 1 : 0);
   }
   const drift = sharedGain && sharedDrift;
   return { offsets, count: count + (sharedGain ? 1 : 0) + (drift ? 1 : 0), shared: sharedGain ? count : -1, sharedDrift: drift ? count + 1 : -1 };
@@ -85,14 +90,18 @@ export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: n
   const index = layer.heldIndex === null ? p[i++] : layer.heldIndex;
   const rateNmPerS = p[i++];
   const rateDriftNmPerS2 = layer.fitDrift ? p[i++] : 0;
+  const k = wanderCount(layer.wander);
+  const wander = k > 0 ? Float64Array.from({ length: k }, (_, j) => p[i + j]) : layer.wander?.fixed;
+  i += k;
   const gain = layout && layout.shared >= 0 ? sharedGainAt(p, layout, layer.chipTimeS, layer.gainDriftPerS) : layer.heldGain === null ? p[i] : layer.heldGain;
-  return { index, rateNmPerS, rateDriftNmPerS2, gain };
+  return wander ? { index, rateNmPerS, rateDriftNmPerS2, gain, wander } : { index, rateNmPerS, rateDriftNmPerS2, gain };
 }
 
 export function encodeLayer(layer: FitLayerData, v: LayerParams, out: number[], sharedGain = false): void {
   if (layer.heldIndex === null) out.push(v.index);
   out.push(v.rateNmPerS);
   if (layer.fitDrift) out.push(v.rateDriftNmPerS2);
+  for (let j = 0; j < wanderCount(layer.wander); j++) out.push(v.wander?.[j] ?? 0);
   if (!sharedGain && layer.heldGain === null) out.push(v.gain);
 }
 
@@ -128,7 +137,10 @@ export function evaluateLayers(
     const n = layer.tauS.length;
     const view = out.subarray(pos, pos + n);
     const dd = shift && shift.layer === j ? shift.deltaNm : 0;
-    for (let i = 0; i < n; i++) view[i] = thicknessAt(layer.tauS[i], v.rateNmPerS, v.rateDriftNmPerS2) + dd;
+    if (layer.wander) {
+      lawThicknessSeries(v, layer.wander, layer.tauS, view);
+      if (dd !== 0) for (let i = 0; i < n; i++) view[i] += dd;
+    } else for (let i = 0; i < n; i++) view[i] = thicknessAt(layer.tauS[i], v.rateNmPerS, v.rateDriftNmPerS2) + dd;
     // Normal incidence: s and p coincide, so one polarization suffices.
     growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view);
     const w = layer.weight ?? 1;
@@ -147,7 +159,7 @@ export function evaluateLayers(
  * the deviation fitted at the layer's own monitor wavelength.
  */
 export function layerAtWavelength(layer: FitLayerData, v: LayerParams, wavelengthNm: number): LayerAt {
-  const thicknessNm = thicknessAt(layer.durationS, v.rateNmPerS, v.rateDriftNmPerS2);
+  const thicknessNm = lawThickness(v, layer.wander, layer.durationS);
   if (wavelengthNm === layer.optics.wavelengthNm) return { n: fromNK(v.index, layer.extinction), thicknessNm };
   const own = layer.nominalAt(layer.optics.wavelengthNm).re;
   const there = layer.nominalAt(wavelengthNm);
@@ -185,6 +197,8 @@ export function jacobianLayers(
     const indexParam = layer.heldIndex === null ? first : -1;
     const rateParam = layer.heldIndex === null ? first + 1 : first;
     const driftParam = layer.fitDrift ? rateParam + 1 : -1;
+    const wanderParam = rateParam + (layer.fitDrift ? 2 : 1), wk = wanderCount(layer.wander);
+    const basis = new Float64Array(wk);
     for (let j = first; j < last; j++) {
       const row = j * total;
       if (j === gainParam) {
@@ -209,6 +223,11 @@ export function jacobianLayers(
       const tau = x < pos + n ? layer.tauS[x - pos] : T;
       out[rowR + x] = dSdd * tau;
       if (driftParam >= 0) out[rowA + x] = 0.5 * dSdd * tau * tau;
+      if (wk > 0) {
+        // ∂d/∂v_j = Ψ_j(τ): constant over the later layers (τ = T)
+        if (x < pos + n || x === pos + n) wanderBasis(layer.wander!, tau, basis);
+        for (let j = 0; j < wk; j++) out[(wanderParam + j) * total + x] = dSdd * basis[j];
+      }
     }
     pos += n;
   }

@@ -4,8 +4,20 @@ import { type LayerState } from './analyzeRun';
 import { modelTurningPoints, timeToThickness } from './cutTiming';
 import { INDEX_BOUND } from './fitLayers';
 import { thicknessAt } from './layerModel';
+import { lawThicknessSeries, lawTimeToThickness, wanderKnotRates, type RateWander } from './rateWander';
 import { subsampleUniform } from './subsample';
 import { type LayerResult, type TurningPointAt } from './types';
+
+/** A fitted wander beyond this fraction of the rate draws a warning (a source's own wander is a few %). */
+const RATE_DEPARTURE_WARN = 0.1;
+
+/** The largest |w|/(r + a·τ) at the wander's knots (the wander is linear between them). */
+function maxWanderFraction(w: RateWander, e: { rateNmPerS: number; rateDriftNmPerS2: number; wander?: Float64Array }): number {
+  const c = wanderKnotRates(w, e.wander!);
+  let m = 0;
+  c.forEach((v, k) => (m = Math.max(m, Math.abs(v) / Math.max(Math.abs(e.rateNmPerS + e.rateDriftNmPerS2 * w.knotsS[k]), 1e-12))));
+  return m;
+}
 
 interface ResultOptions {
   residualWarnFactor: number;
@@ -22,7 +34,8 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const wl = optics.wavelengthNm;
   const k = -nominal.im;
   const n = samples.tauS.length;
-  const d = thicknesses(samples.tauS, e.rateNmPerS, e.rateDriftNmPerS2);
+  const wander = e.wander ? s.fit.wander : undefined;
+  const d = wander ? lawThicknessSeries(e, wander, samples.tauS, new Float64Array(n)) : thicknesses(samples.tauS, e.rateNmPerS, e.rateDriftNmPerS2);
   const m = growingLayerSignal({ ...optics, below, growing: fromNK(e.index, k), pol: 's' }, d);
   const residualRms = Math.sqrt(squaredResiduals(trace.signal, samples.indices, calibration.offset, e.gain, m, modelOut) / n);
   const noise = noiseSigma / e.gain;
@@ -34,7 +47,7 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const targetNm = (nominal.re * dl.thicknessNm) / e.index;
   const tps = modelTurningPoints(optics, below, e.index, k, 1.3 * Math.max(e.thicknessNm, targetNm));
   const toTime = (thicknessNm: number) => {
-    const tau = timeToThickness(thicknessNm, e.rateNmPerS, e.rateDriftNmPerS2);
+    const tau = wander ? lawTimeToThickness(e, wander, thicknessNm, s.fit.durationS) : timeToThickness(thicknessNm, e.rateNmPerS, e.rateDriftNmPerS2);
     return Number.isFinite(tau) ? samples.startTimeS + tau : null;
   };
   let idealCutTimeS: number | null = null;
@@ -86,6 +99,11 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   if (!s.wellDetermined) warnings.push('the data do not determine every parameter (singular normal matrix): uncertainties unknown');
   if (residualToNoise > o.residualWarnFactor) {
     warnings.push(`residuals ${residualToNoise.toFixed(1)}× the noise: the signal departs from a smooth rate (a rate spike or jump?) or from the model`);
+  }
+  // A wandering rate follows a spike or jump, so the residuals no longer show it: say so from the wander.
+  const departure = wander && e.wander ? maxWanderFraction(wander, e) : 0;
+  if (departure > RATE_DEPARTURE_WARN) {
+    warnings.push(`the rate departs from its smooth trend by up to ${(departure * 100).toFixed(0)} % within the layer (a rate spike or jump?)`);
   }
   const disturbances = s.spectrum.disturbances.map((x) => ({ frequencyHz: x.frequencyHz, amplitude: x.amplitude / e.gain, note: x.note }));
   for (const x of disturbances) {

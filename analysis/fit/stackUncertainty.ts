@@ -3,6 +3,7 @@ import { type LayerEstimate } from './fitLayers';
 import { invertSymmetric } from './invertSymmetric';
 import { addHeldIndexSigma, type HeldIndexShift } from './thinLayer';
 import { evaluateLayers, jacobianLayers, paramLayout, type FitLayerData } from './layerModel';
+import { wanderBasis, wanderCount } from './rateWander';
 
 /**
  * The covariance of the (index, thickness) pairs of the layers fitted so far on one chip, in
@@ -42,6 +43,9 @@ export function carryStackUncertainty(
   if (iN >= 0) G[iN] = 1;
   G[np + iR] = T;
   if (iA >= 0) G[np + iA] = 0.5 * T * T;
+  // θ also holds the wander's knots (d gains Σ v_j·Ψ_j(T)); their prior is a unit ridge of weight σ_point.
+  const wk = wanderCount(layer.wander), iW = iR + (iA >= 0 ? 2 : 1);
+  if (wk > 0) wanderBasis(layer.wander!, T, new Float64Array(wk)).forEach((g, j) => (G[np + iW + j] = g));
   const own = sandwich(G, paramCov, 2, np);
   let ownCov = own;
   let cross = new Float64Array(0);
@@ -72,6 +76,7 @@ export function carryStackUncertainty(
     const a = new Float64Array(np * np);
     for (let p = 0; p < np; p++) for (let q = p; q < np; q++) a[p * np + q] = a[q * np + p] = dot(jt, p, jt, q, n);
     if (layer.heldGain === null && gainPriorWeight > 0) a[(np - 1) * np + np - 1] += gainPriorWeight ** 2;
+    for (let j = 0; j < wk; j++) a[(iW + j) * np + iW + j] += layer.wander!.pointSigma ** 2;
     const inv = invertSymmetric(a, np);
     if (inv) {
       const m = 2 * k;

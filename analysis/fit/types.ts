@@ -58,6 +58,12 @@ export interface AnalyzeOptions {
    * white-noise mirror 0.04 % in thickness. @default false
    */
   robustLoss?: boolean;
+  /**
+   * Let a layer's rate wander within it (knots under an Ornstein–Uhlenbeck prior, fit/rateWander.ts)
+   * where the restricted likelihood prefers that to the plain d = r·τ + a·τ²/2 (fit/wanderChoice.ts).
+   * @default true
+   */
+  rateWander?: boolean;
   /** …or when its trial fit's index σ exceeds this. @default 0.05 */
   heldIndexSigma?: number;
   /** The index a thin layer is held at: the nominal, or this run's drift estimate. @default 'run-drift' */

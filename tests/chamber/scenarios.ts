@@ -111,15 +111,18 @@ export function scenarios(): Scenario[] {
       design: mirrorDesign(18, 6), seeds: [15, 16], targets: CHAMBER_TARGETS,
       options: { ...RATES, ...NOISE_AND_SPIKES },
       modes: {
-        sequential: pending('3σ coverage met (100 %); thickness up to 0.71 % (target 0.5 %), within its σ: 0.06 % noise correlated over 1 s carries less information than the targets assume'),
-        refit: pending('3σ coverage met (97 %); thickness up to 0.94 %, cut error 0.77 % QWOT (targets 0.5, 0.7), within their σ'),
+        sequential: pending('below the information limit: σ_d (≈ the Cramér–Rao bound for this white + AR(1) noise) is 0.20–0.51 % per layer (median 0.27 %), so the largest of 36 errors lands near 2.5σ ≈ 0.7–1.2 % (1.13 % measured, coverage 97 %)'),
+        refit: pending('below the information limit for the last layer on each chip (nothing above pins its turning-point end): σ_d 0.34–0.37 % there (others 0.06–0.16 %); thickness up to 1.02 %, cut 0.86 % QWOT, coverage 97 %'),
       },
     },
     {
       name: 'correlated noise and rate wander, mirror', about: 'as above, with the rate wandering 1.5 % within each layer (15 s correlation) and turning-point overshoot',
       design: mirrorDesign(18, 6), seeds: [15, 16], targets: CHAMBER_TARGETS,
       options: { ...RATES, ...NOISE_AND_SPIKES, rateWander: { fraction: 0.015, correlationS: 15 }, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 } },
-      modes: both(pending('a rate that wanders within the layer: d = r·τ + a·τ²/2 cannot follow it, and the end thickness is off by up to 1.6 % (|z| up to 6); needs a rate model with more freedom (issue 7, not yet assigned)')),
+      modes: {
+        sequential: pending('the wander model (fit/rateWander.ts) follows it, but the bound is above the target: σ_d with the wander 0.21–0.85 % per layer (median 0.45 %); thickness up to 1.81 %, coverage 92/100/92 % (d, n, cut)'),
+        refit: pending('bound above the target on the last layer of each chip (σ_d 0.45–0.74 %, others median 0.22–0.27 %); thickness up to 1.10 %, cut 1.05 % QWOT, coverage 97/100/97 %'),
+      },
     },
     {
       name: 'real chamber, mirror', about: '18-layer mirror, 3 chips, every chamber effect (correlated noise, chip changes, stray light, shutter delay, …)',

@@ -28,11 +28,11 @@ describe('analyzeRun on faulty runs', () => {
     const design = mirror18();
     const { trace } = await synthTrace(design, { seed: 32, rateSpikes: [{ layer: 4, atFraction: 0.5, durationS: 15, factor: 2 }] });
     const result = await analyzeRun(design, trace, { mode: 'refit' });
-    const flagged = result.layers.filter((l) => l.warnings.some((w) => w.startsWith('residuals'))).map((l) => l.layer);
+    // Flagged by its residuals, or (where the wandering-rate model follows the spike) by the rate's departure.
+    const spike = (w: string) => w.startsWith('residuals') || w.startsWith('the rate departs');
+    const flagged = result.layers.filter((l) => l.warnings.some(spike)).map((l) => l.layer);
     expect(flagged).toEqual([4]);
-    const worst = result.layers.reduce((a, b) => (b.residualToNoise > a.residualToNoise ? b : a));
-    expect(worst.layer).toBe(4);
-    expect(result.warnings.some((w) => w.startsWith('layer 4: residuals'))).toBe(true);
+    expect(result.warnings.some((w) => w.startsWith('layer 4: ') && spike(w.slice('layer 4: '.length)))).toBe(true);
   });
 
   it('takes the offset from dark samples and checks the tooling factor against crystal_nm', async () => {

@@ -1,0 +1,232 @@
+import { type LayerAt } from '../optics';
+import { fitAr1PlusWhite, whitenAr1PlusWhite, type VariogramPool } from '../stats';
+import { binMeans } from './subsample';
+import { encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayerData, type LayerParams } from './layerModel';
+import { type LayerEstimate } from './fitLayers';
+import { invertSymmetric } from './invertSymmetric';
+import { wanderBasis, wanderCount, wanderKnots, type RateWander } from './rateWander';
+
+/** The wander scales tried, as fractions of the rate (0: the plain quadratic law). */
+export const WANDER_FRACTIONS = [0, 0.0025, 0.005, 0.01, 0.02, 0.04];
+/** The wander correlation times tried, s (knots one correlation time apart). */
+export const WANDER_CORRELATIONS_S = [20];
+
+const HUBER_K = 2.5;
+const WANDER_HYPERPARAMETERS = WANDER_CORRELATIONS_S.length > 1 ? 2 : 1;
+const GRAM_STRIDE = 2;
+const SAMPLES_PER_BIN = 3;
+const NOISE_LAGS_S = 4;
+
+export interface WanderChoiceInput {
+  below: readonly LayerAt[];
+  /** The layer's fit data (bin means) without wander. */
+  layer: FitLayerData;
+  /** The plain fit's solution. */
+  estimate: LayerParams;
+  offsetSignal: number;
+  /** σ of the Gaussian prior on a free per-layer gain (see fitLayers' gainPrior), 0 without. */
+  gainPriorSigma: number;
+  /** Every sample of the layer (time from its start, reading), for the noise's long-run σ. */
+  allTauS: Float64Array;
+  allY: Float64Array;
+  /** The run's pooled variogram (bins of SAMPLES_PER_BIN samples), added to and read. */
+  noisePool?: VariogramPool;
+}
+
+export interface WanderChoice {
+  /** The chosen wander with pointSigma per sample (scale it by √(points/samples) per fit), or null for the plain law. */
+  wander: RateWander | null;
+  /** Long-run σ of one sample of the noise (white-equivalent at low frequency). */
+  sampleSigma: number;
+  /** −2·log restricted likelihood per candidate (fraction 0 once). */
+  scores: { fraction: number; correlationS: number; score: number }[];
+}
+
+/**
+ * Whether the layer's rate wandered, and how much: the wander's prior scale σ_w and correlation
+ * time are chosen by maximising the restricted (marginal) likelihood of the fit's linearised
+ * model at the plain solution, y − f(θ̂) ≈ X·δθ + Z·c + e, θ flat, c ~ N(0, G), e white at the
+ * noise's long-run σ: −2·log L = log|A| + log|G| + min(‖r − Xδθ − Zc‖² + cᵀG⁻¹c), A the
+ * Hessian of that minimum (the marginal likelihood of a linear mixed model, e.g.
+ * D. A. Harville, J. Am. Stat. Assoc. 72, 320–338 (1977); from memory). In the non-centred knots
+ * (c = L·v, v unit normal) log|A| + log|G| = log|A′| with A′ the Hessian in (θ, v), which stays
+ * finite as σ_w → 0, so the plain law (σ_w = 0) competes on the same score: the data choose more
+ * freedom only when it pays for its own volume (the Occam factor of the determinant).
+ */
+export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
+  const { below, layer, estimate, offsetSignal } = input;
+  const all = input.allTauS.length;
+  // Bin means of SAMPLES_PER_BIN samples (a fraction of a lock-in's correlation time at 10 Hz, so
+  // the bins' noise is still white plus AR(1) and read as such; the same lags in every layer).
+  const bins = binMeans(input.allTauS, Int32Array.from({ length: all }, (_, i) => i), input.allY, Math.floor(all / SAMPLES_PER_BIN));
+  const N = bins.tauS.length;
+  const per = all / Math.max(N, 1);
+  const scores: WanderChoice['scores'] = [];
+  const plain: FitLayerData = { ...layer, tauS: bins.tauS, y: bins.y, weight: 1, wander: undefined };
+  const l0 = paramLayout([plain]);
+  const p0: number[] = [];
+  encodeLayer(plain, estimate, p0);
+  // The noise (white + AR(1)) from the plain fit's residuals: their variogram at lags up to a
+  // few seconds, which a slow misfit hardly reaches.
+  const at = new Float64Array(N);
+  evaluateLayers(below, [plain], l0, p0, offsetSignal, at);
+  const binS = N > 1 ? (bins.tauS[N - 1] - bins.tauS[0]) / (N - 1) : 1;
+  const noise = fitAr1PlusWhite(Float64Array.from(bins.y, (v, i) => v - at[i]), Math.max(8, Math.round(NOISE_LAGS_S / binS)), input.noisePool);
+  const none = { wander: null, sampleSigma: noise.longRunSigma * Math.sqrt(per), scores };
+  if (N < 100 || !(noise.longRunSigma > 0)) return none;
+  let best = { score: Infinity, kappa: 0, correlationS: 0, scale2: 1 };
+  let plainScore = Infinity, plainScale2 = 1;
+  for (const correlationS of WANDER_CORRELATIONS_S) {
+    const wander: RateWander = { knotsS: wanderKnots(layer.durationS, correlationS), sigmaNmPerS: 1, correlationS, pointSigma: 1 };
+    const withW: FitLayerData = { ...plain, wander };
+    const layout = paramLayout([withW]);
+    const p: number[] = [];
+    encodeLayer(withW, estimate, p);
+    const np = layout.count;
+    const steps = Float64Array.from(p, (v) => 1e-6 * Math.max(Math.abs(v), 1e-3));
+    const jac = new Float64Array(np * N);
+    jacobianLayers(below, [withW], layout, Float64Array.from(p), offsetSignal, at, steps, jac);
+    const wFirst = (withW.heldIndex === null ? 1 : 0) + 1 + (withW.fitDrift ? 1 : 0), k = wander.knotsS.length;
+    const isW = (j: number) => j >= wFirst && j < wFirst + k;
+    const pFixed = np - k;
+    // Generalised least squares: residuals and columns whitened by the noise's own filter.
+    const cols = Array.from({ length: np }, (_, j) => jac.subarray(j * N, (j + 1) * N));
+    const r = Float64Array.from(bins.y, (v, i) => v - at[i]);
+    whitenAr1PlusWhite(noise, [r, ...cols]);
+    // Huber's pseudo-residuals ψ(r), |r| capped (P. J. Huber, "Robust Statistics", Wiley (1981),
+    // §7.8, from memory): a spike does not pass for a wandering rate.
+    for (let i = 0; i < N; i++) r[i] = Math.max(-HUBER_K, Math.min(HUBER_K, r[i]));
+    const rr = r.reduce((q, v) => q + v * v, 0);
+    // Gram matrix; fixed columns scaled to unit norm (log|XᵀX| shifts every score alike).
+    const norm = new Float64Array(np).fill(1);
+    for (let j = 0; j < np; j++) {
+      if (isW(j)) continue;
+      let c = 0;
+      for (let i = j * N; i < (j + 1) * N; i++) c += jac[i] * jac[i];
+      norm[j] = c > 0 ? 1 / Math.sqrt(c) : 1;
+    }
+    // The whitened columns stay smooth (a smooth column through the filter), so their products
+    // are summed on every GRAM_STRIDE-th row (times the stride); the data's, which are not, on all.
+    const gram = new Float64Array(np * np), b = new Float64Array(np);
+    for (let a = 0; a < np; a++) {
+      const oa = a * N;
+      let q = 0;
+      for (let i = 0; i < N; i++) q += jac[oa + i] * r[i];
+      b[a] = q * norm[a];
+      for (let c = a; c < np; c++) {
+        const oc = c * N;
+        let t = jac[oa] * jac[oc];
+        for (let i = 1; i < N; i += GRAM_STRIDE) t += jac[oa + i] * jac[oc + i] * Math.min(GRAM_STRIDE, N - i);
+        gram[a * np + c] = gram[c * np + a] = t * norm[a] * norm[c];
+      }
+    }
+    const gainParam = plain.heldGain === null ? np - 1 : -1;
+    // the gain prior's information, for the column scaled by norm
+    if (gainParam >= 0 && input.gainPriorSigma > 0) gram[gainParam * np + gainParam] += (norm[gainParam] / input.gainPriorSigma) ** 2;
+    for (const fraction of WANDER_FRACTIONS) {
+      if (fraction === 0 && correlationS !== WANDER_CORRELATIONS_S[0]) continue;
+      // κ: the wander's σ per unit of the noise's scale, which is profiled:
+      // −2·log L = (N − p)·log(min/(N − p)) + log|A′|, A′ = [XᵀX, κXᵀZ; κZᵀX, κ²ZᵀZ + I].
+      const kappa = fraction * Math.abs(estimate.rateNmPerS);
+      const a = new Float64Array(np * np), g = new Float64Array(np);
+      for (let i = 0; i < np; i++) {
+        const si = isW(i) ? kappa : 1;
+        g[i] = si * b[i];
+        for (let j = 0; j < np; j++) a[i * np + j] = si * (isW(j) ? kappa : 1) * gram[i * np + j];
+        if (isW(i)) a[i * np + i] += 1;
+      }
+      const f = choleskyLogDet(a, np, g);
+      if (!f) continue;
+      const dof = N - pFixed;
+      const min = Math.max(rr - f.quad, 1e-12);
+      const score = dof * Math.log(min / dof) + f.logDet;
+      scores.push({ fraction, correlationS, score });
+      if (fraction === 0) {
+        plainScore = score;
+        plainScale2 = min / dof;
+      }
+      if (score < best.score) best = { score, kappa: fraction, correlationS, scale2: min / dof };
+    }
+  }
+  // The wander must beat the plain law by AIC's 2 per hyperparameter it estimates (σ_w and the
+  // correlation time; H. Akaike, IEEE Trans. Autom. Control 19, 716–723 (1974)).
+  if (!(best.kappa > 0) || !(best.score < plainScore - 2 * WANDER_HYPERPARAMETERS)) {
+    return { wander: null, sampleSigma: noise.longRunSigma * Math.sqrt(plainScale2 * per), scores };
+  }
+  // The noise's long-run σ per sample, with the profiled scale of the chosen model.
+  const sampleSigma = noise.longRunSigma * Math.sqrt(best.scale2 * per);
+  const wander: RateWander = {
+    knotsS: wanderKnots(layer.durationS, best.correlationS),
+    sigmaNmPerS: best.kappa * Math.abs(estimate.rateNmPerS) * Math.sqrt(best.scale2),
+    correlationS: best.correlationS, pointSigma: sampleSigma,
+  };
+  return { wander, sampleSigma, scores };
+}
+
+/** log|A| and gᵀA⁻¹g for a symmetric positive-definite A (row-major, p×p) by Cholesky; null if not positive definite. */
+export function choleskyLogDet(a: Float64Array, p: number, g: Float64Array): { logDet: number; quad: number } | null {
+  const l = new Float64Array(p * p);
+  let logDet = 0;
+  for (let i = 0; i < p; i++) {
+    for (let j = 0; j <= i; j++) {
+      let s = a[i * p + j];
+      for (let k = 0; k < j; k++) s -= l[i * p + k] * l[j * p + k];
+      if (i === j) {
+        if (!(s > 0)) return null;
+        l[i * p + i] = Math.sqrt(s);
+        logDet += Math.log(s);
+      } else l[i * p + j] = s / l[j * p + j];
+    }
+  }
+  // gᵀA⁻¹g = ‖L⁻¹g‖²
+  const z = new Float64Array(p);
+  let quad = 0;
+  for (let i = 0; i < p; i++) {
+    let s = g[i];
+    for (let k = 0; k < i; k++) s -= l[i * p + k] * z[k];
+    z[i] = s / l[i * p + i];
+    quad += z[i] * z[i];
+  }
+  return { logDet, quad };
+}
+
+/**
+ * What holding the wander costs the end thickness's variance in a one-layer fit (cov: its
+ * covariance), nm²: Var(d) − Var(d | v) = uᵀ·C_vv⁻¹·u with u = Cov(v, d), the Schur complement of
+ * the Gaussian posterior (the trend and the wander trade off, so the wander's own share would
+ * overstate it). Added to a joint fit's σ that holds the knots.
+ */
+export function wanderEndVariance(layer: FitLayerData, cov: Float64Array): number {
+  const k = wanderCount(layer.wander);
+  if (k === 0) return 0;
+  const np = paramLayout([layer]).count;
+  const iR = layer.heldIndex === null ? 1 : 0, first = iR + 1 + (layer.fitDrift ? 1 : 0);
+  const T = layer.durationS;
+  // d's gradient over θ = [n?, r, a?, v…, g?]
+  const grad = new Float64Array(np);
+  grad[iR] = T;
+  if (layer.fitDrift) grad[iR + 1] = 0.5 * T * T;
+  wanderBasis(layer.wander!, T, new Float64Array(k)).forEach((g, j) => (grad[first + j] = g));
+  const u = new Float64Array(k), cvv = new Float64Array(k * k);
+  for (let a = 0; a < k; a++) {
+    let s = 0;
+    for (let b = 0; b < np; b++) s += cov[(first + a) * np + b] * grad[b];
+    u[a] = s;
+    for (let b = 0; b < k; b++) cvv[a * k + b] = cov[(first + a) * np + first + b];
+  }
+  const inv = invertSymmetric(cvv, k);
+  if (!inv) return 0;
+  let v = 0;
+  for (let a = 0; a < k; a++) for (let b = 0; b < k; b++) v += u[a] * inv[a * k + b] * u[b];
+  return Number.isFinite(v) ? Math.max(0, v) : 0;
+}
+
+/** A joint fit's estimate with the held wander's variance added to its thickness σ. */
+export function withWanderVariance(e: LayerEstimate, varianceNm2: number): LayerEstimate {
+  if (!(varianceNm2 > 0)) return e;
+  return {
+    ...e,
+    thicknessSigmaNm: Math.sqrt(e.thicknessSigmaNm ** 2 + varianceNm2),
+    opticalThicknessSigmaNm: Math.sqrt(e.opticalThicknessSigmaNm ** 2 + e.index * e.index * varianceNm2),
+  };
+}
