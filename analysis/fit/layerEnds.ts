@@ -277,7 +277,6 @@ export class LayerEnds {
    * growth parameter (`smeared` false) is the true growth itself.
    */
   private evidence(rec: EndRecord, withShutter = true, smeared = true): GrowthEvidence {
-    const e = rec.s.estimate;
     const rate = finalRate(rec.loggedS, rec.s);
     const maxNm = rate * MAX_SHUTTER_S;
     const t = withShutter ? this.shutter.predict(rec.s.design.layer) : null;
