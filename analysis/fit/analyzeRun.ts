@@ -78,6 +78,7 @@ export const ANALYZE_DEFAULTS = {
   heldIndexCorrelation: 0.99,
   robustLoss: false,
   rateWander: true,
+  growthFromNext: false,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -218,7 +219,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
     const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
     // The growth after the cut of the layer below, from where this layer starts on its fringe (LayerEnds).
-    if (ends?.fromNext(chip, below, fit, single, calibration.offset, c, stacks.get(chip))) {
+    if (o.growthFromNext && ends?.fromNext(chip, below, fit, single, calibration.offset, c, stacks.get(chip))) {
       const e = single.layers[0];
       single = fitSingle(e.index, e.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : e.gain));
     }
