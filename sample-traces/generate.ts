@@ -93,9 +93,10 @@ export const SAMPLES: Sample[] = [
 ];
 
 /**
- * Effects switched off for now, per trace, because today's analysis cannot yet read them and the
- * tests that read these traces check its numbers; each names the issue 7 item that must fix it.
- * Delete an entry once the fix is merged, regenerate, and re-check the tests that read the trace.
+ * Effects switched off for now, per trace, because the analysis cannot yet read them and the
+ * tests that read these traces check its numbers; each reason gives the error measured with the
+ * effect on. Delete an entry once a fix is merged, regenerate, and re-check the tests that read
+ * the trace (sample-traces/README.md).
  */
 export const HELD_BACK: Record<string, { off: ChamberOptions; reason: string }> = {
   'bay1-ar1-run0412.csv': {
@@ -108,7 +109,7 @@ export const HELD_BACK: Record<string, { off: ChamberOptions; reason: string }> 
   },
   'bay2-bb4-run0587.csv': {
     off: { lampDriftPerHour: 0, rampS: 0, correlatedNoise: undefined },
-    reason: 'refit, each alone: lamp drift within one chip gives 1.3 % thickness and 0.014 index (5σ) off; the rate ramp 0.8 % and cut error 1.2 % QWOT; correlated noise 0.6 % and 0.9 % QWOT (sequential 3.8 %); the shutter delay and level-cut reaction time are read (0.3 %, 0.0015, 0.5 % QWOT)',
+    reason: 'refit, each alone: lamp drift within one chip gives 1.3–1.5 % thickness and 0.014 index (5σ) off; the rate ramp 0.7–0.8 % and cut error 1.2 % QWOT; correlated noise 0.5–0.6 % and 0.6–0.9 % QWOT, but 3.6–3.8 % in sequential and a false layer-start step warning; the shutter delay and level-cut reaction time are read (0.34 %, 0.0015, 0.54 % QWOT)',
   },
   'bay2-bb4-run0588-nolayer.csv': {
     off: { correlatedNoise: undefined },
