@@ -47,7 +47,11 @@ describe('analyze CLI (shared/FORMATS.md)', () => {
       expect(typeof l.thicknessNm).toBe('number');
       const t = truth.layers[i];
       expect(Math.abs((l.index as number) * (l.thicknessNm as number) / (t.index * t.thicknessNm) - 1)).toBeLessThan(0.01);
-      expect(Math.abs((l.cutErrorQwotPct as number) - t.cutErrorQwotPct)).toBeLessThan(0.5);
+      // The trace carries the growth after the cut and the level-cut reaction time of a real chamber:
+      // issue 7's target there is 0.7 % QWOT, and the truth within the reported 3σ.
+      const cutMiss = Math.abs((l.cutErrorQwotPct as number) - t.cutErrorQwotPct);
+      expect(cutMiss).toBeLessThan(0.7);
+      expect(cutMiss).toBeLessThan(3 * (l.cutErrorSigmaQwotPct as number));
     });
     expect(out.spectrum.wavelengthNm[0]).toBe(400);
   });
