@@ -8,6 +8,7 @@ import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
 import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers';
 import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
+import { idleNoiseModel } from './idleNoiseModel';
 import { LayerEnds } from './layerEnds';
 import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
@@ -109,7 +110,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const samplesByLayer = gatherLayerSamples(trace, layerSegments);
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
-  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings);
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleNoiseModel(trace, seg.idle));
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }

@@ -155,7 +155,7 @@ const START_SPAN_S = 2;
  * their correlation (ar1Inflation). A line, not a mean, so that a layer that starts
  * on a slope (after a level cut) is read at its start.
  */
-export function startLevel(tauS: ArrayLike<number>, readings: ArrayLike<number>): { level: number; sigma: number } | null {
+export function startLevel(tauS: ArrayLike<number>, readings: ArrayLike<number>): { level: number; sigma: number; samples: number } | null {
   let n = 0;
   while (n < Math.min(START_READINGS, readings.length) && tauS[n] - tauS[0] <= START_SPAN_S) n++;
   if (n < 5) return null;
@@ -176,7 +176,7 @@ export function startLevel(tauS: ArrayLike<number>, readings: ArrayLike<number>)
   const s2 = residuals.reduce((a, r) => a + r * r, 0) / Math.max(n - 2, 1);
   // The intercept's σ for a straight line, √(s²·(1/n + t̄²/Stt)), widened for correlation.
   const sigma = Math.sqrt(s2 * (1 / n + (stt > 0 ? (tm * tm) / stt : 0))) * ar1Inflation(residuals);
-  return { level: ym - slope * tm, sigma };
+  return { level: ym - slope * tm, sigma, samples: n };
 }
 
 /**

@@ -6,6 +6,8 @@ import { jointGrowth } from './jointGrowth';
 import { growthLogLikelihood, growthPosterior, type GaussianEvidence, type GrowthEstimate, type GrowthEvidence } from './growthPosterior';
 import { levelEvidence, settledLevelAfter, startCheck, startLevel, type LevelEvidence, type SettledLevel } from './layerEnd';
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
+import { type Ar1PlusWhite } from '../stats';
+import { meanVariance } from './idleNoiseModel';
 import { endEquivalentLaw, lawRate, lawThickness, lawTimeToThickness } from './rateWander';
 import { type LayerSamples } from './layerSamples';
 import { ShutterTime } from './shutterTime';
@@ -68,7 +70,15 @@ export class LayerEnds {
   /** The thickness and optical-thickness σ of an estimate before the growth's σ was added. */
   private readonly baseSigma = new WeakMap<LayerEstimate, { d: number; nd: number }>();
 
-  constructor(private readonly trace: TraceData, samplesByLayer: ReadonlyMap<number, LayerSamples>, private readonly warnings: string[]) {
+  /**
+   * `noise`: the detector's white + AR(1) noise from the idle stretches (idleNoiseModel); it sets
+   * a floor under the σ of the start check's two levels, which their own few readings, spanning
+   * about one correlation time, underestimate.
+   */
+  constructor(
+    private readonly trace: TraceData, samplesByLayer: ReadonlyMap<number, LayerSamples>, private readonly warnings: string[],
+    private readonly noise: Ar1PlusWhite | null = null,
+  ) {
     this.starts = [...samplesByLayer.values()].map((s) => s.indices[0]).sort((a, b) => a - b);
   }
 
@@ -81,7 +91,7 @@ export class LayerEnds {
     if (previous?.settled) {
       const count = Math.min(n, 40);
       const start = startLevel(samples.tauS.subarray(0, count), Array.from({ length: count }, (_, i) => signal[samples.indices[i]]));
-      const note = start ? startCheck(s.design.layer, previous.s.design.layer, previous.settled, start) : null;
+      const note = start ? startCheck(s.design.layer, previous.s.design.layer, this.withNoiseFloor(previous.settled, 1), this.withNoiseFloor(start, (4 * start.samples - 2) / (start.samples + 1))) : null;
       if (note) this.warnings.push(note);
     }
     const lastIndex = samples.indices[n - 1];
@@ -110,6 +120,17 @@ export class LayerEnds {
     this.records.push(rec);
     this.lastOnChip.set(samples.chip, rec);
     this.update(rec);
+  }
+
+  /**
+   * A level's σ no smaller than the run's noise allows for a mean of its samples (meanVariance);
+   * `factor` > 1 for a straight line's intercept at its first sample ((4m − 2)/(m + 1) for white
+   * noise, from the variance of a least-squares intercept).
+   */
+  private withNoiseFloor<T extends { sigma: number; samples: number }>(level: T, factor: number): T {
+    if (!this.noise) return level;
+    const floor = Math.sqrt(meanVariance(this.noise, level.samples) * factor);
+    return Number.isFinite(floor) && floor > level.sigma ? { ...level, sigma: floor } : level;
   }
 
   /**

@@ -21,6 +21,23 @@ describe('the start of each layer against the end of the one below', () => {
     expect(starts(result.warnings)).toEqual([]);
   });
 
+  it('warns nowhere under correlated noise with short pauses (the σ of both levels floored by the noise of the idle stretches)', async () => {
+    // AR(1) noise 0.06 % of full scale with a 1 s correlation time, pauses of about 3 s: each
+    // level spans a few correlation times, so its own readings underestimate its σ. Of seeds
+    // 101–112 on this 12-layer run, 103 drew a false warning before the floor (idleNoiseModel);
+    // it is kept here with its neighbours.
+    const json12 = mirrorDesign(12, 12);
+    for (const seed of [102, 103, 104]) {
+      const run = simulateChamberRun(json12, {
+        seed, rateNmPerS: { H: 0.25, L: 0.5 }, whiteNoise: 0.0004, correlatedNoise: { fraction: 0.0006, correlationS: 1 },
+        sampleIntervalS: 0.2, settleS: 3, shutterCloseS: [0.1, 0.4],
+      });
+      const trace = await readTraceText(chamberCsv(run), { fileName: `ar1-${seed}.csv`, layerCount: 12 });
+      const result = await analyzeRun(parseDesign(json12), trace, { mode: 'sequential' });
+      expect(starts(result.warnings), `seed ${seed}`).toEqual([]);
+    }
+  });
+
   it('names the layer after a step of the detector in the pause before it (1 % of the reading)', async () => {
     const run = simulate();
     const first = run.layer.indexOf(4);

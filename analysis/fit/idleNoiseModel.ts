@@ -1,0 +1,41 @@
+import { fitAr1PlusWhite, newVariogramPool, type Ar1PlusWhite } from '../stats';
+import { levelSteps, type TraceData } from '../trace';
+
+/** Flat stretches shorter than this add too few lags to the variogram. */
+const MIN_STEP_SAMPLES = 12;
+
+/**
+ * The detector's white + AR(1) noise (stats/fitAr1PlusWhite) from the run's idle stretches: each
+ * split into its level steps (old chip, dark, bare chip, a settled layer) so that no step reads as
+ * noise, every step's variogram pooled. Null when no step is long enough.
+ */
+export function idleNoiseModel(trace: TraceData, idle: readonly { startIndex: number; endIndex: number }[]): Ar1PlusWhite | null {
+  const pool = newVariogramPool();
+  let model: Ar1PlusWhite | null = null;
+  for (const s of idle) {
+    const part = trace.signal.subarray(s.startIndex, s.endIndex);
+    if (part.length < MIN_STEP_SAMPLES) continue;
+    for (const step of levelSteps(part, { minLength: MIN_STEP_SAMPLES })) {
+      if (step.end - step.start < MIN_STEP_SAMPLES) continue;
+      model = fitAr1PlusWhite(part.subarray(step.start, step.end), 40, pool);
+    }
+  }
+  return model;
+}
+
+/**
+ * Variance of the mean of m consecutive samples of white + AR(1) noise:
+ * σ_w²/m + σ_x²·[m + 2·Σ_{k=1}^{m−1} (m − k)·ρ^k]/m² (the variance of a sample mean of a
+ * stationary series, G. E. P. Box, G. M. Jenkins, "Time Series Analysis", Holden-Day (1970), with
+ * the AR(1) autocorrelation ρ^k).
+ */
+export function meanVariance(noise: Ar1PlusWhite, m: number): number {
+  if (!(m >= 1)) return NaN;
+  let s = m;
+  let r = 1;
+  for (let k = 1; k < m; k++) {
+    r *= noise.rho;
+    s += 2 * (m - k) * r;
+  }
+  return noise.whiteVar / m + (noise.ar1Var * s) / (m * m);
+}
