@@ -1,6 +1,7 @@
 import { type LayerAt } from '../optics';
 import { invertSymmetric } from './invertSymmetric';
-import { evaluateLayers, jacobianLayers, paramLayout, type FitLayerData } from './layerModel';
+import { layerJacobian } from './layerJacobian';
+import { evaluateLayers, paramLayout, type FitLayerData } from './layerModel';
 
 export interface GrowthFromNextInput {
   /** The stack under the layer, at its wavelength; the last entry is the layer below, whose end is sought. */
@@ -52,12 +53,7 @@ export function growthFromNext(input: GrowthFromNextInput): GrowthFromNext | nul
   const np = layout.count;
   const n = layer.tauS.length;
   const params = Float64Array.from(input.params);
-  const at = new Float64Array(n);
-  evaluateLayers(below, [layer], layout, params, offsetSignal, at);
-  const steps = new Float64Array(np);
-  for (let j = 0; j < np; j++) steps[j] = 1e-6 * Math.max(Math.abs(params[j]), 1e-6);
-  const jt = new Float64Array(np * n);
-  jacobianLayers(below, [layer], layout, params, offsetSignal, at, steps, jt);
+  const { at, jt } = layerJacobian(below, layer, layout, params, offsetSignal);
   // ∂model/∂δ by a central difference (the model is smooth on the scale of h).
   const h = 0.01;
   const plus = new Float64Array(n), minus = new Float64Array(n);

@@ -2,7 +2,8 @@ import { type LayerAt } from '../optics';
 import { type LayerEstimate } from './fitLayers';
 import { invertSymmetric } from './invertSymmetric';
 import { addHeldIndexSigma, type HeldIndexShift } from './thinLayer';
-import { evaluateLayers, jacobianLayers, paramLayout, type FitLayerData } from './layerModel';
+import { layerJacobian } from './layerJacobian';
+import { evaluateLayers, paramLayout, type FitLayerData } from './layerModel';
 import { wanderBasis, wanderCount } from './rateWander';
 
 /**
@@ -50,12 +51,7 @@ export function carryStackUncertainty(
   let ownCov = own;
   let cross = new Float64Array(0);
   if (k > 0) {
-    const at = new Float64Array(n);
-    evaluateLayers(below, [layer], layout, params, offsetSignal, at);
-    const steps = new Float64Array(np);
-    for (let j = 0; j < np; j++) steps[j] = 1e-6 * Math.max(Math.abs(params[j]), 1e-6);
-    const jt = new Float64Array(np * n);
-    jacobianLayers(below, [layer], layout, params, offsetSignal, at, steps, jt);
+    const { at, jt } = layerJacobian(below, layer, layout, params, offsetSignal);
     // Js: the last k layers of `below` are the chip's fitted ones (earlier entries none here).
     const js = new Float64Array(2 * k * n);
     const shifted = new Float64Array(n);

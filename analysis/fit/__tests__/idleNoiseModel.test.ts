@@ -1,26 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { idleNoiseModel, meanVariance } from '../idleNoiseModel';
 import { type TraceData } from '../../trace';
+import { gaussian } from '../../trace/__tests__/rng';
 
 // The variance of a mean of m samples of white + AR(1) noise (Box & Jenkins, "Time Series
 // Analysis" (1970): Var(x̄) = (σ²/m)·[1 + 2·Σ_{k<m} (1 − k/m)·ρ_k]) and the run's noise read from
 // its idle stretches.
 
-/** Seeded uniform (mulberry32) and Box–Muller normals: the test's own noise, not the simulator's. */
-function normals(seed: number) {
-  let a = seed >>> 0;
-  const u = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(1 - u())) * Math.cos(2 * Math.PI * u());
-}
-
 function ar1PlusWhite(n: number, whiteSigma: number, ar1Sigma: number, rho: number, seed: number): Float64Array {
-  const z = normals(seed);
+  const z = gaussian(seed);
   const out = new Float64Array(n);
   let x = ar1Sigma * z();
   for (let i = 0; i < n; i++) {
