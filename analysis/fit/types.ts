@@ -61,17 +61,20 @@ export interface AnalyzeOptions {
   /**
    * Let a layer's rate wander within it (knots under an Ornstein–Uhlenbeck prior, fit/rateWander.ts)
    * where the restricted likelihood prefers that to the plain d = r·τ + a·τ²/2 (fit/wanderChoice.ts).
-   * @default true
+   * Off by default: with the next layer's start read as growth (growthFromNext) the two trade off
+   * at the layer's start, and on the project's synthetic 18-layer mirror a refit layer then came
+   * out 0.39 % off (target 0.3 %). On the chamber simulator it helps where the rate wanders:
+   * with it (and growthFromNext off) the rate-wander mirror 1.09 % (refit) against 1.65 %, the
+   * real-chamber mirror 1.02 % against 1.71 %. @default false
    */
   rateWander?: boolean;
   /**
    * Read the growth after a turning-point cut from where the next layer on the chip starts on its
-   * fringe (fit/growthFromNext.ts, fit/jointGrowth.ts). Off by default: measured on the chamber
-   * simulator it takes up every misfit of the stack below (correlated noise, a stray offset, the
-   * rate wander) as growth — correlated noise and spikes 1.02 → 1.30 % (refit), R with an offset
-   * 0.58 → 1.02 %, the real-chamber mirror 1.02 → 1.47 % — while without it the 1 s and variable
-   * shutter delays still meet their targets (0.36 % and 0.24 % against 0.21 % and 0.13 % with it).
-   * @default false
+   * fringe (fit/growthFromNext.ts, re-read after each chip's joint fit, fit/jointGrowth.ts). With
+   * it off a turning-point cut's growth is not told by anything in the run, and its possible size
+   * (a shutter of up to 2 s) goes into σ: on a trace without a shutter delay σ_d grows from about
+   * 0.15 % to 0.5 %. It takes up some misfit of the stack below (a stray offset, correlated noise)
+   * as growth. @default true
    */
   growthFromNext?: boolean;
   /** …or when its trial fit's index σ exceeds this. @default 0.05 */
