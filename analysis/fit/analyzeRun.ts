@@ -292,8 +292,9 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
       const data = chipStates.map((p) => p.make(perLayer));
       const shared = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
-      // Each growth after a cut read again against the jointly fitted stack (LayerEnds).
-      ends?.afterJointFit(data, chipStates, chipStates[0].calibration.offset, cg);
+      // Each growth after a cut read again against the jointly fitted stack (LayerEnds), wanders held at the fit's knots.
+      const knotsHeld = data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
+      ends?.afterJointFit(knotsHeld, chipStates, chipStates[0].calibration.offset, cg);
       // A held index's own σ, into every layer of the chip (the joint fit took the index as exact).
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;

@@ -1,7 +1,8 @@
 import { type LayerEstimate } from './fitLayers';
 import { type GaussianEvidence, type GrowthEstimate } from './growthPosterior';
 import { invertSymmetric } from './invertSymmetric';
-import { decodeLayer, encodeLayer, evaluateLayers, jacobianLayers, paramLayout, thicknessAt, type FitLayerData } from './layerModel';
+import { decodeLayer, encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayerData } from './layerModel';
+import { lawRate, lawThickness } from './rateWander';
 
 export interface JointGrowthInput {
   /** The chip's layers as in its joint fit (time bases with the current growth), and the fit's estimates. */
@@ -68,7 +69,7 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
   const plus = new Float64Array(N), minus = new Float64Array(N);
   grown.forEach((j, c) => {
     const e = estimates[j];
-    const dt = h / Math.max(e.rateNmPerS + e.rateDriftNmPerS2 * data[j].durationS, 1e-9);
+    const dt = h / Math.max(lawRate(e, data[j].wander, data[j].durationS), 1e-9);
     const moved = (s: number) => data.map((l, i) => (i === j ? { ...l, durationS: l.durationS + s * dt } : l));
     plus.set(at);
     minus.set(at);
@@ -152,7 +153,7 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
       const c = grown.indexOf(j);
       if (c < 0) return l;
       const v = decodeLayer(l, theta, layout.offsets[j], layout);
-      const rate = Math.max(v.rateNmPerS + v.rateDriftNmPerS2 * input.growth[j]!.loggedS, 1e-9);
+      const rate = Math.max(lawRate(v, l.wander, input.growth[j]!.loggedS), 1e-9);
       return { ...l, durationS: input.growth[j]!.loggedS + final[c].deltaNm / rate };
     });
     const after = new Float64Array(N);
@@ -177,7 +178,7 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
     const loggedS = c >= 0 ? input.growth[j]!.loggedS : layer.durationS;
     const T = loggedS;
     const delta = c >= 0 ? final[c].deltaNm : 0;
-    const d = thicknessAt(T, v.rateNmPerS, v.rateDriftNmPerS2) + delta;
+    const d = lawThickness(v, layer.wander, T) + delta;
     // Gradients of d and n·d in (n, r, a, δ).
     const idx = [iN, iR, iA, iD];
     const gd = [0, T, 0.5 * T * T, 1];
@@ -194,7 +195,7 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
       thicknessNm: d, thicknessSigmaNm: q(gd, gd), opticalThicknessNm: v.index * d, opticalThicknessSigmaNm: q(gnd, gnd),
     };
     const growth = c >= 0 ? final[c] : null;
-    const finalRate = Math.max(v.rateNmPerS + v.rateDriftNmPerS2 * T, 1e-9);
+    const finalRate = Math.max(lawRate(v, layer.wander, T), 1e-9);
     return { estimate, growth, durationS: growth ? T + growth.deltaNm / finalRate : layer.durationS };
   });
 }

@@ -61,11 +61,12 @@ export interface AnalyzeOptions {
   /**
    * Let a layer's rate wander within it (knots under an Ornstein–Uhlenbeck prior, fit/rateWander.ts)
    * where the restricted likelihood prefers that to the plain d = r·τ + a·τ²/2 (fit/wanderChoice.ts).
-   * Off by default: with the next layer's start read as growth (growthFromNext) the two trade off
-   * at the layer's start, and on the project's synthetic 18-layer mirror a refit layer then came
-   * out 0.39 % off (target 0.3 %). On the chamber simulator it helps where the rate wanders:
-   * with it (and growthFromNext off) the rate-wander mirror 1.09 % (refit) against 1.65 %, the
-   * real-chamber mirror 1.02 % against 1.71 %. @default false
+   * Off by default, measured on the chamber simulator with the defaults otherwise: it helps where
+   * the rate wanders (rate-wander mirror, refit 1.65 → 1.12 %; real-chamber mirror 1.71 → 1.17 %;
+   * 40 layers sequential 3.3 → 2.0 %) and hurts elsewhere (correlated noise and spikes, sequential
+   * 0.88 → 1.26 %; 40 layers refit 1.24 → 1.83 %; R with an offset, refit 0.82 → 1.02 %), and on
+   * the project's synthetic 18-layer mirror (a steady rate) refit no longer beats sequential: the
+   * wander is chosen on layers where the rate did not wander. @default false
    */
   rateWander?: boolean;
   /**
