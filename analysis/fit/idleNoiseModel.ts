@@ -3,6 +3,15 @@ import { levelSteps, type TraceData } from '../trace';
 
 /** Flat stretches shorter than this add too few lags to the variogram. */
 const MIN_STEP_SAMPLES = 12;
+/**
+ * The most samples read from one step, and in all: the variogram's lags reach 40 samples, and
+ * 20 000 pooled samples put its scatter near 1 %; beyond that, reading more (a long bare-chip
+ * stretch at 100 samples/s) only costs time.
+ */
+const MAX_STEP_SAMPLES = 1000;
+const MAX_SAMPLES = 20_000;
+/** …and from at most this many steps (each read refits the pooled variogram). */
+const MAX_STEPS = 12;
 
 /**
  * The detector's white + AR(1) noise (stats/fitAr1PlusWhite) from the run's idle stretches: each
@@ -12,12 +21,16 @@ const MIN_STEP_SAMPLES = 12;
 export function idleNoiseModel(trace: TraceData, idle: readonly { startIndex: number; endIndex: number }[]): Ar1PlusWhite | null {
   const pool = newVariogramPool();
   let model: Ar1PlusWhite | null = null;
+  let read = 0, steps = 0;
   for (const s of idle) {
     const part = trace.signal.subarray(s.startIndex, s.endIndex);
     if (part.length < MIN_STEP_SAMPLES) continue;
     for (const step of levelSteps(part, { minLength: MIN_STEP_SAMPLES })) {
       if (step.end - step.start < MIN_STEP_SAMPLES) continue;
-      model = fitAr1PlusWhite(part.subarray(step.start, step.end), 40, pool);
+      const end = Math.min(step.end, step.start + MAX_STEP_SAMPLES);
+      model = fitAr1PlusWhite(part.subarray(step.start, end), 40, pool);
+      read += end - step.start;
+      if (read >= MAX_SAMPLES || ++steps >= MAX_STEPS) return model;
     }
   }
   return model;
