@@ -1,6 +1,21 @@
 import { fixed, signed } from './format';
 
-export type ChipView = { chip: number; gain: number; offset: number; noiseSigma: number; source: string; refinedGain?: number; refinedGainSigma?: number; gainDriftPerHour?: number; gainDriftSigmaPerHour?: number };
+export type ChipView = {
+  chip: number; gain: number; offset: number; noiseSigma: number; source: string; refinedGain?: number; refinedGainSigma?: number; gainDriftPerHour?: number; gainDriftSigmaPerHour?: number;
+  offsetSigma?: number; offsetSource?: string;
+};
+
+/** Where a chip's detector offset came from, in words (the analysis's offsetSource). */
+export function offsetOrigin(source: string | undefined): string | null {
+  switch (source) {
+    case 'dark': return 'dark readings';
+    case 'fitted': return 'fitted to the layers';
+    case 'earlier-chip': return 'an earlier chip';
+    case 'other-chips': return "other chips' dark readings";
+    case 'assumed': return 'assumed zero';
+    default: return null;
+  }
+}
 export type ToolingView = { material: string; label: string; layers: number[]; meanRatio: number; ratioSigma: number };
 
 const th = 'pb-2 pr-3 font-medium';
@@ -27,7 +42,11 @@ export function ChipTable({ chips }: { chips: ChipView[] }) {
               {fixed(c.refinedGain ?? c.gain, 4)}
               {c.gainDriftPerHour !== undefined ? <span className="block text-xs text-ink-faint">{signed(c.gainDriftPerHour * 100, 2)} %/h</span> : null}
             </td>
-            <td className="py-1.5 pr-3 text-right font-mono">{fixed(c.offset, 4)}</td>
+            <td className="py-1.5 pr-3 text-right font-mono">
+              {fixed(c.offset, 4)}
+              {c.offsetSigma ? <span className="text-ink-faint"> ± {fixed(c.offsetSigma, 4)}</span> : null}
+              {offsetOrigin(c.offsetSource) ? <span className="block font-sans text-xs text-ink-faint">{offsetOrigin(c.offsetSource)}</span> : null}
+            </td>
             <td className="py-1.5 pr-3 text-right font-mono">{fixed(c.noiseSigma, 5)}</td>
             <td className="py-1.5 text-xs text-ink-soft">{c.source === 'bare-chip' ? 'bare chip' : 'first layer'}{c.refinedGain !== undefined ? ', refined' : ''}</td>
           </tr>
