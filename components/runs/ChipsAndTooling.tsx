@@ -43,10 +43,8 @@ export function ChipTable({ chips }: { chips: ChipView[] }) {
               {c.gainDriftPerHour !== undefined ? <span className="block text-xs text-ink-faint">{signed(c.gainDriftPerHour * 100, 2)} %/h</span> : null}
             </td>
             <td className="py-1.5 pr-3 text-right font-mono">
-              <span className="whitespace-nowrap">
-                {fixed(c.offset, 4)}
-                {c.offsetSigma ? <span className="text-ink-faint"> ± {fixed(c.offsetSigma, 4)}</span> : null}
-              </span>
+              {fixed(c.offset, 4)}
+              {c.offsetSigma ? <span className="text-ink-faint"> ± {fixed(c.offsetSigma, 4)}</span> : null}
               {offsetOrigin(c.offsetSource) ? <span className="block font-sans text-xs text-ink-faint">{offsetOrigin(c.offsetSource)}</span> : null}
             </td>
             <td className="py-1.5 pr-3 text-right font-mono">{fixed(c.noiseSigma, 5)}</td>
