@@ -1,3 +1,5 @@
+import { medianInPlace } from '../trace/robustStats';
+
 /**
  * How much correlated noise inflates the variance of a least-squares estimate over white noise
  * of the same σ: the integrated autocorrelation time τ = 1 + 2·Σ_{k≥1} (1 − k/n)·ρ_k of the
@@ -143,38 +145,6 @@ export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40, pool?: Variog
   }
   const { whiteVar, ar1Var, rho } = best;
   return { whiteVar, ar1Var, rho, longRunSigma: Math.sqrt(whiteVar + (ar1Var * (1 + rho)) / (1 - rho)) };
-}
-
-/** Median by Hoare's selection (C. A. R. Hoare, Commun. ACM 4, 321 (1961)); reorders v. */
-function medianInPlace(v: Float64Array): number {
-  const n = v.length;
-  const kth = (k: number) => {
-    let lo = 0, hi = n - 1;
-    while (lo < hi) {
-      const pivot = v[(lo + hi) >> 1];
-      let i = lo, j = hi;
-      while (i <= j) {
-        while (v[i] < pivot) i++;
-        while (v[j] > pivot) j--;
-        if (i <= j) {
-          const t = v[i];
-          v[i] = v[j];
-          v[j] = t;
-          i++;
-          j--;
-        }
-      }
-      if (k <= j) hi = j;
-      else if (k >= i) lo = i;
-      else return v[k];
-    }
-    return v[k];
-  };
-  if (n % 2) return kth(n >> 1);
-  const a = kth((n >> 1) - 1);
-  let b = Infinity;
-  for (let i = n >> 1; i < n; i++) if (v[i] < b) b = v[i];
-  return 0.5 * (a + b);
 }
 
 /**

@@ -1,10 +1,9 @@
 import { fixed, signed } from '@/components/runs/format';
 import { RUN_RULES } from '@/analysis/stats';
+import { DataTable } from '@/components/ui/DataTable';
 import type { LayerSummaryRow, MetricStats } from '@/db/queries/compare';
 import type { ControlView, GroupTable } from './loadComparison';
 import { metricInfo, pText } from './metrics';
-
-const th = 'pb-2 pr-4 font-medium';
 
 function pct(out: number, n: number): string {
   return n > 0 ? `${((100 * out) / n).toFixed(0)} %` : '–';
@@ -24,80 +23,67 @@ function StatCell({ s, digits }: { s: MetricStats | undefined; digits: number })
 
 export function LayerSummaryTable({ rows }: { rows: LayerSummaryRow[] }) {
   return (
-    <div className="overflow-x-auto">
-      <table className="w-full text-left text-sm" data-testid="compare-layers">
-        <thead className="text-xs uppercase tracking-wider text-ink-faint">
-          <tr>
-            <th className={th}>Layer</th>
-            <th className={th}>Runs</th>
-            {(['thickness', 'index', 'cut'] as const).map((m) => (
-              <th key={m} className={th}>
-                {metricInfo[m].label}
-                <span className="block normal-case tracking-normal">{metricInfo[m].unit}: mean ± sd</span>
-              </th>
-            ))}
-          </tr>
-        </thead>
-        <tbody className="divide-y divide-paper-line">
-          {rows.map((r) => (
-            <tr key={r.layer} data-layer={r.layer}>
-              <td className="py-2 pr-4 font-mono">
-                {r.layer} <span className="text-xs text-ink-faint">{r.material}</span>
-              </td>
-              <td className="py-2 pr-4 font-mono">{r.runs}</td>
-              <StatCell s={r.thickness} digits={metricInfo.thickness.digits} />
-              <StatCell s={r.index} digits={metricInfo.index.digits} />
-              <StatCell s={r.cut} digits={metricInfo.cut.digits} />
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
+    <DataTable
+      testId="compare-layers"
+      columns={[
+        { key: 'layer', label: 'Layer' },
+        { key: 'runs', label: 'Runs' },
+        ...(['thickness', 'index', 'cut'] as const).map((m) => ({
+          key: m,
+          label: (
+            <>
+              {metricInfo[m].label}
+              <span className="block normal-case tracking-normal">{metricInfo[m].unit}: mean ± sd</span>
+            </>
+          ),
+        })),
+      ]}
+    >
+      {rows.map((r) => (
+        <tr key={r.layer} data-layer={r.layer}>
+          <td className="py-2 pr-4 font-mono">
+            {r.layer} <span className="text-xs text-ink-faint">{r.material}</span>
+          </td>
+          <td className="py-2 pr-4 font-mono">{r.runs}</td>
+          <StatCell s={r.thickness} digits={metricInfo.thickness.digits} />
+          <StatCell s={r.index} digits={metricInfo.index.digits} />
+          <StatCell s={r.cut} digits={metricInfo.cut.digits} />
+        </tr>
+      ))}
+    </DataTable>
   );
 }
 
 export function GroupTableView({ table, digits, testId }: { table: GroupTable; digits: number; testId: string }) {
   if (table.rows.length === 0) return <p className="text-ink-soft">No values in this selection.</p>;
   return (
-    <div className="overflow-x-auto">
-      <table className="w-full text-left text-sm" data-testid={testId}>
-        <thead className="text-xs uppercase tracking-wider text-ink-faint">
-          <tr>
-            <th className={th}>Layer</th>
-            {table.groups.map((g) => (
-              <th key={g} className={th}>
-                {g}
-              </th>
-            ))}
-            <th className={th}>Difference</th>
-          </tr>
-        </thead>
-        <tbody className="divide-y divide-paper-line">
-          {table.rows.map((r) => (
-            <tr key={r.layer} data-layer={r.layer}>
-              <td className="py-2 pr-4 font-mono">{r.layer}</td>
-              {table.groups.map((g) => (
-                <StatCell key={g} s={r.cells[g]} digits={digits} />
-              ))}
-              <td className="py-2 pr-4 text-xs" data-testid="difference">
-                {r.difference.test === null ? (
-                  <span className="text-ink-faint">no test: {r.difference.reason}</span>
-                ) : (
-                  <>
-                    <span className={r.difference.pValue < 0.05 ? 'font-semibold text-alarm' : 'text-ink-soft'}>
-                      {r.difference.pValue < 0.05 ? 'larger than chance' : 'within chance'}
-                    </span>
-                    <span className="block font-mono text-ink-faint">
-                      {r.difference.test === 'welch-t' ? `t = ${fixed(r.difference.statistic, 2)}` : `F = ${fixed(r.difference.statistic, 2)}`}, p {pText(r.difference.pValue)}
-                    </span>
-                  </>
-                )}
-              </td>
-            </tr>
+    <DataTable
+      testId={testId}
+      columns={[{ key: 'layer', label: 'Layer' }, ...table.groups.map((g) => ({ key: `g:${g}`, label: g })), { key: 'difference', label: 'Difference' }]}
+    >
+      {table.rows.map((r) => (
+        <tr key={r.layer} data-layer={r.layer}>
+          <td className="py-2 pr-4 font-mono">{r.layer}</td>
+          {table.groups.map((g) => (
+            <StatCell key={g} s={r.cells[g]} digits={digits} />
           ))}
-        </tbody>
-      </table>
-    </div>
+          <td className="py-2 pr-4 text-xs" data-testid="difference">
+            {r.difference.test === null ? (
+              <span className="text-ink-faint">no test: {r.difference.reason}</span>
+            ) : (
+              <>
+                <span className={r.difference.pValue < 0.05 ? 'font-semibold text-alarm' : 'text-ink-soft'}>
+                  {r.difference.pValue < 0.05 ? 'larger than chance' : 'within chance'}
+                </span>
+                <span className="block font-mono text-ink-faint">
+                  {r.difference.test === 'welch-t' ? `t = ${fixed(r.difference.statistic, 2)}` : `F = ${fixed(r.difference.statistic, 2)}`}, p {pText(r.difference.pValue)}
+                </span>
+              </>
+            )}
+          </td>
+        </tr>
+      ))}
+    </DataTable>
   );
 }
 

@@ -7,15 +7,22 @@ import { listShopMaterials } from '@/db/queries/materials';
 import { requireCapability } from '@/app/_lib/auth';
 import { can } from '@/app/_lib/capabilities';
 import { kindLabels, modelSummary, nAt } from '@/app/_lib/materialView';
+import { DataTable, type Column } from '@/components/ui/DataTable';
 
 export const metadata: Metadata = { title: 'Materials' };
+
+const columns: Column[] = [
+  { key: 'name', label: 'Name' },
+  { key: 'model', label: 'Model' },
+  { key: 'n', label: 'n at 550 nm', right: true },
+  { key: 'changed', label: 'Changed' },
+];
 
 const href = (name: string) => `/materials/${encodeURIComponent(name)}`;
 
 export default async function MaterialsPage() {
   const user = await requireCapability('viewDesigns');
   const shop = await listShopMaterials();
-  const th = 'pb-2 pr-4 font-medium';
   return (
     <>
       <PageHeader title="Materials" lead="The shop's own coating materials, then the built-in library. Designs name them; each saved design revision keeps a copy of the models it used.">
@@ -32,35 +39,23 @@ export default async function MaterialsPage() {
               None yet. {can(user.role, 'editDesigns') ? 'Create one from what your chambers deposit.' : 'An engineer adds them.'}
             </p>
           ) : (
-            <div className="overflow-x-auto">
-              <table className="w-full text-left text-sm" data-testid="shop-materials">
-                <thead className="text-xs uppercase tracking-wider text-ink-faint">
-                  <tr>
-                    <th className={th}>Name</th>
-                    <th className={th}>Model</th>
-                    <th className={`${th} text-right`}>n at 550 nm</th>
-                    <th className={th}>Changed</th>
+            <DataTable columns={columns} testId="shop-materials">
+              {shop.map((m) => {
+                const model = materialModelSchema.safeParse(m.model);
+                return (
+                  <tr key={m.id} data-material={m.name}>
+                    <td className="py-2 pr-4">
+                      <Link className="text-fringe underline-offset-2 hover:underline" href={href(m.name)}>
+                        {m.name}
+                      </Link>
+                    </td>
+                    <td className="py-2 pr-4 text-ink-soft">{model.success ? modelSummary(model.data) : 'stored model no longer valid'}</td>
+                    <td className="py-2 pr-4 text-right font-mono">{fixed(nAt(model.success ? model.data : null, 550), 4)}</td>
+                    <td className="py-2 font-mono text-xs whitespace-nowrap text-ink-soft">{formatTime(m.updatedAt)}</td>
                   </tr>
-                </thead>
-                <tbody className="divide-y divide-paper-line">
-                  {shop.map((m) => {
-                    const model = materialModelSchema.safeParse(m.model);
-                    return (
-                      <tr key={m.id} data-material={m.name}>
-                        <td className="py-2 pr-4">
-                          <Link className="text-fringe underline-offset-2 hover:underline" href={href(m.name)}>
-                            {m.name}
-                          </Link>
-                        </td>
-                        <td className="py-2 pr-4 text-ink-soft">{model.success ? modelSummary(model.data) : 'stored model no longer valid'}</td>
-                        <td className="py-2 pr-4 text-right font-mono">{fixed(nAt(model.success ? model.data : null, 550), 4)}</td>
-                        <td className="py-2 font-mono text-xs whitespace-nowrap text-ink-soft">{formatTime(m.updatedAt)}</td>
-                      </tr>
-                    );
-                  })}
-                </tbody>
-              </table>
-            </div>
+                );
+              })}
+            </DataTable>
           )}
         </Panel>
         <Panel title="Built-in library (read-only)">

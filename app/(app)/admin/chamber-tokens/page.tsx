@@ -6,6 +6,16 @@ import { listChambers } from '@/db/queries/chambers';
 import { env } from '@/db/env';
 import { requireCapability } from '@/app/_lib/auth';
 import { createChamberTokenAction, revokeChamberTokenAction } from './actions';
+import { DataTable, type Column } from '@/components/ui/DataTable';
+
+const columns: Column[] = [
+  { key: 'token', label: 'Token' },
+  { key: 'chamber', label: 'Chamber' },
+  { key: 'usedBy', label: 'Used by' },
+  { key: 'created', label: 'Created' },
+  { key: 'lastUsed', label: 'Last used' },
+  { key: 'actions', label: <span className="sr-only">Actions</span> },
+];
 
 export const metadata: Metadata = { title: 'Chamber tokens' };
 
@@ -25,39 +35,25 @@ export default async function ChamberTokensPage() {
         {tokens.length === 0 ? (
           <p className="text-sm text-ink-soft">No chamber tokens yet.</p>
         ) : (
-          <div className="overflow-x-auto">
-            <table className="w-full text-left text-sm" data-testid="tokens-table">
-              <thead className="text-xs uppercase tracking-wider text-ink-faint">
-                <tr>
-                  <th className="pb-2 pr-4 font-medium">Token</th>
-                  <th className="pb-2 pr-4 font-medium">Chamber</th>
-                  <th className="pb-2 pr-4 font-medium">Used by</th>
-                  <th className="pb-2 pr-4 font-medium">Created</th>
-                  <th className="pb-2 pr-4 font-medium">Last used</th>
-                  <th className="pb-2 font-medium" />
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-paper-line">
-                {tokens.map((t) => (
-                  <tr key={t.id} data-token-hint={t.hint} className={t.revokedAt ? 'text-ink-faint' : undefined}>
-                    <td className="py-2 pr-4 font-mono text-xs whitespace-nowrap">{t.hint}</td>
-                    <td className="py-2 pr-4 whitespace-nowrap">{t.chamberName}</td>
-                    <td className="py-2 pr-4">{t.label}</td>
-                    <td className="py-2 pr-4 text-xs whitespace-nowrap">
-                      {formatTime(t.createdAt)}
-                      {t.createdByName ? <span className="block text-ink-faint">by {t.createdByName}</span> : null}
-                    </td>
-                    <td className="py-2 pr-4 text-xs whitespace-nowrap" data-testid="token-last-used">
-                      {t.lastUsedAt ? formatTime(t.lastUsedAt) : 'never'}
-                    </td>
-                    <td className="py-2 text-right">
-                      {t.revokedAt ? <Badge tone="plain">revoked {formatTime(t.revokedAt).slice(0, 10)}</Badge> : <RevokeChamberToken action={revokeChamberTokenAction} tokenId={t.id} hint={t.hint} label={t.label} />}
-                    </td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
+          <DataTable columns={columns} testId="tokens-table">
+            {tokens.map((t) => (
+              <tr key={t.id} data-token-hint={t.hint} className={t.revokedAt ? 'text-ink-faint' : undefined}>
+                <td className="py-2 pr-4 font-mono text-xs whitespace-nowrap">{t.hint}</td>
+                <td className="py-2 pr-4 whitespace-nowrap">{t.chamberName}</td>
+                <td className="py-2 pr-4">{t.label}</td>
+                <td className="py-2 pr-4 text-xs whitespace-nowrap">
+                  {formatTime(t.createdAt)}
+                  {t.createdByName ? <span className="block text-ink-faint">by {t.createdByName}</span> : null}
+                </td>
+                <td className="py-2 pr-4 text-xs whitespace-nowrap" data-testid="token-last-used">
+                  {t.lastUsedAt ? formatTime(t.lastUsedAt) : 'never'}
+                </td>
+                <td className="py-2 text-right">
+                  {t.revokedAt ? <Badge tone="plain">revoked {formatTime(t.revokedAt).slice(0, 10)}</Badge> : <RevokeChamberToken action={revokeChamberTokenAction} tokenId={t.id} hint={t.hint} label={t.label} />}
+                </td>
+              </tr>
+            ))}
+          </DataTable>
         )}
       </Panel>
     </>
