@@ -6,3 +6,4 @@ export * from './coherent';
 export * from './incoherent';
 export * from './stackResponse';
 export * from './growingLayer';
+export * from './gradedLayer';
