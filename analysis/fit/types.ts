@@ -70,6 +70,15 @@ export interface AnalyzeOptions {
    */
   rateWander?: boolean;
   /**
+   * Fit a linear index gradient through a layer (Δn from its bottom to its top; the index is then
+   * the layer's mean), computed as homogeneous sublayers (optics/gradedLayer.ts): every layer of
+   * at least 0.9 QWOT at its monitor wavelength with a free index gets a trial fit with Δn free,
+   * kept where Δn is beyond 3σ (fit/indexGradient.ts); the others stay uniform. Each trial's Δn
+   * and σ are reported in the layer's result (indexGradient, indexGradientSigma, indexGradientKept).
+   * @default false
+   */
+  indexGradient?: boolean;
+  /**
    * Read the growth after a turning-point cut from where the next layer on the chip starts on its
    * fringe (fit/growthFromNext.ts, re-read after each chip's joint fit, fit/jointGrowth.ts). With
    * it off a turning-point cut's growth is not told by anything in the run, and its possible size
@@ -134,6 +143,14 @@ export interface LayerResult {
   /** index − nominalIndex. */
   indexDeviation: number;
   indexHeld: boolean;
+  /**
+   * With AnalyzeOptions.indexGradient, on layers that had the trial: the index change from the
+   * layer's bottom to its top (index is then the mean) and its 1σ; indexGradientKept tells whether
+   * the layer was fitted as graded (else it was fitted uniform, and these are the trial's figures).
+   */
+  indexGradient?: number;
+  indexGradientSigma?: number;
+  indexGradientKept?: boolean;
   rateNmPerS: number;
   rateSigmaNmPerS: number;
   rateDriftNmPerS2: number;

@@ -7,3 +7,4 @@ export * from './incoherent';
 export * from './stackResponse';
 export * from './growingLayer';
 export * from './gradedLayer';
+export * from './gradedSublayers';

@@ -87,6 +87,15 @@ describe('gradedSublayers and gradedGrowingSignal', () => {
     }
   });
 
+  it('a LayerAt with indexChange (its n the mean) is its sublayers', () => {
+    const graded: LayerAt = { n: fromNK(2.2, 0.001), thicknessNm: 70, indexChange: -0.02 };
+    const a = stackResponse({ ambient: air, substrate: glass, layers: [...below, graded] }, 600, { backside: true });
+    const b = stackResponse({ ambient: air, substrate: glass, layers: [...below, ...gradedSublayers(fromNK(2.21, 0.001), -0.02, 70)] }, 600, { backside: true });
+    expect(a.T).toBeCloseTo(b.T, 12);
+    expect(a.R).toBeCloseTo(b.R, 12);
+    expect(Math.abs(a.T - stackResponse({ ambient: air, substrate: glass, layers: [...below, { n: fromNK(2.2, 0.001), thicknessNm: 70 }] }, 600, { backside: true }).T)).toBeGreaterThan(1e-5);
+  });
+
   it('with no gradient it is the homogeneous growing layer, in any order of the points', () => {
     const thickness = Float64Array.from([40, 0, 12.5, 80.2, 33, 33, 150]);
     const spec = { ambient: air, substrate: glass, below, growing: fromNK(2.1, 0.001), wavelengthNm: 550, mode: 'T' as const, backside: true };
