@@ -1,4 +1,3 @@
-import { type Complex } from './complex';
 import { assemblyMatrix } from './assembly';
 import { coherentResponse } from './coherent';
 import { type GrowingLayer } from './growingLayer';
