@@ -6,9 +6,10 @@ import { type JointFitResult } from './fitLayers';
  * order (WKB: Y = na·nb/Y_below against n̄²/Y_below), at the half-wave point to first (Y =
  * Y_below·nb/na: the turning point no longer returns to the level below). Up to a quarter-wave
  * Δn shows only in the curve's shape, where it trades against the index and the rate drift:
- * measured on the chamber simulator (T at 600 nm, white noise 0.05 %), a 1-QWOT layer's trial
- * σ(Δn) is 0.03–0.04, a 2-QWOT layer's 0.0003–0.004; in the real-chamber mirror (1-QWOT layers,
- * correlated noise) 0.05–2, with the trial running to its bound. Pooling a material's
+ * measured on the chamber simulator (T at 600 nm), a 1-QWOT layer's trial σ(Δn) is 0.03–0.04
+ * under white noise of 0.05 %, a 2-QWOT layer's 0.0002–0.0004, and 0.001–0.009 under the real
+ * chamber's correlated noise; in the real-chamber mirror (1-QWOT layers) 0.05–2, the trial
+ * running to its bound. Pooling a material's
  * quarter-waves would not reach a Δn of a few 0.001 either.
  */
 export const GRADIENT_MIN_QWOT = 1.5;

@@ -12,7 +12,7 @@ import { tilt, type Polarization } from './tilt';
  * perNm per nm above its bottom, n(z) = growing.re + perNm·z (spec.growing is the index at
  * z = 0). The sublayer product is carried from one thickness to the next (the points visited
  * in increasing thickness), one slab of at most GRADED_SLAB_NM at a time, so a point costs one
- * or two slab matrices. A thickness ≤ 0 uses the bottom index as a homogeneous layer.
+ * slab matrix per 2 nm it lies above the last (at least one). A thickness ≤ 0 uses the bottom index as a homogeneous layer.
  */
 export function gradedGrowingSignal(
   spec: GrowingLayer,
