@@ -5,7 +5,7 @@ import { driftEstimateAt, newVariogramPool, NOMINAL_INDEX_SIGMA, type IndexPoint
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
-import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers';
+import { fitLayers, GRADIENT_BOUND, type JointFitResult, type LayerEstimate } from './fitLayers';
 import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { idleNoiseModel } from './idleNoiseModel';
@@ -23,6 +23,7 @@ import { carryStackUncertainty, emptyStack, type StackCovariance } from './stack
 import { startValues } from './startValues';
 import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
 import { indexSeparation } from './thinLayer';
+import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
 import { type RateWander } from './rateWander';
 import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wanderChoice';
@@ -46,6 +47,8 @@ export interface LayerState {
   heldNote: string | null;
   /** Why the index was held (from the trial fit), for the note. */
   heldWhy?: string;
+  /** The layer's trial fit with a free index gradient (option indexGradient), kept or not. */
+  gradientTrial?: GradientTrial;
   /** σ of the held index (the drift estimate's prediction σ, or the nominal's). */
   heldIndexSigma?: number;
   /** Variance of the wander's share of the end thickness, nm², from the layer's own fit (joint fits hold the wander). */
@@ -79,6 +82,7 @@ export const ANALYZE_DEFAULTS = {
   heldIndexCorrelation: 0.99,
   robustLoss: false,
   rateWander: false,
+  indexGradient: false,
   growthFromNext: true,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
@@ -172,7 +176,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
     const durationS = samples.tauS[n - 1];
     // make() is called again after the pass (final refit), when the layer's state exists.
-    const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number } = {};
+    const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean } = {};
     const make = (maxPoints: number): FitLayerData => {
       // Bin means, not picked samples: every sample's information at a fraction of the points.
       const binned = binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
@@ -181,6 +185,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
         heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
         ...(built.wander ? { wander: { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } } : {}),
+        ...(built.gradient ? { indexGradient: 'fit' as const } : {}),
       };
     };
     const fit = make(o.maxFitPoints);
@@ -218,11 +223,36 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const e = single.layers[0];
       single = fitSingle(heldIndex, e.rateNmPerS, fit.heldGain ?? e.gain);
     }
+    // A linear index gradient through the layer, kept where the layer's own data tell it (fit/indexGradient.ts);
+    // before the growth of the layer below is read from this layer's start, which a graded layer misreads when modelled uniform.
+    let gradientTrial: GradientTrial | undefined;
+    if (o.indexGradient && heldIndex === null && qwotAtMonitor >= GRADIENT_MIN_QWOT) {
+      const e = single.layers[0];
+      fit.indexGradient = 'fit';
+      const trial = fitSingle(e.index, e.rateNmPerS, fit.heldGain ?? e.gain, { rateDriftNmPerS2: e.rateDriftNmPerS2, indexGradient: 0 });
+      gradientTrial = judgeGradient(single, trial, GRADIENT_BOUND * nominal.re);
+      if (gradientTrial.kept) {
+        single = trial;
+        built.gradient = true;
+        refit.indexGradient = 'fit';
+      } else delete fit.indexGradient;
+    }
     const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
     // The growth after the cut of the layer below, from where this layer starts on its fringe (LayerEnds).
     if (o.growthFromNext && ends?.fromNext(chip, below, fit, single, calibration.offset, c, stacks.get(chip))) {
       const e = single.layers[0];
-      single = fitSingle(e.index, e.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : e.gain));
+      single = fitSingle(e.index, e.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : e.gain), { indexGradient: e.indexGradient });
+      // the stack below moved: a kept gradient must still stand on it
+      if (gradientTrial?.kept) {
+        gradientTrial = reviewGradient(single, GRADIENT_BOUND * nominal.re);
+        if (!gradientTrial.kept) {
+          delete fit.indexGradient;
+          delete refit.indexGradient;
+          built.gradient = false;
+          const u = single.layers[0];
+          single = fitSingle(u.index, u.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : u.gain), { rateDriftNmPerS2: u.rateDriftNmPerS2 });
+        }
+      }
     }
     // Not inside boundaries placed on the design's curve (no layer column): those were placed with a
     // steady rate, and the knots then take up the placement's error (measured on the no-layer
@@ -242,7 +272,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
         const pointSigma = (count: number) => choice.wander!.pointSigma * Math.sqrt(count / n);
         fit.wander = { ...choice.wander, pointSigma: pointSigma(fit.tauS.length) };
         refit.wander = { ...choice.wander, pointSigma: pointSigma(refit.tauS.length) };
-        single = fitSingle(e.index, e.rateNmPerS, e.gain, { rateDriftNmPerS2: e.rateDriftNmPerS2 });
+        single = fitSingle(e.index, e.rateNmPerS, e.gain, { rateDriftNmPerS2: e.rateDriftNmPerS2, indexGradient: e.indexGradient });
         built.wanderVariance = wanderEndVariance(fit, single.solver.covariance);
       }
     }
@@ -260,6 +290,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum,
       ...(separation?.hold ? { heldWhy: separation.reason, heldIndexSigma: heldSigma } : {}),
       ...(built.wanderVariance !== undefined ? { wanderVarianceNm2: built.wanderVariance } : {}),
+      ...(gradientTrial ? { gradientTrial } : {}),
     };
     built.state = state;
     ends?.ended(state, below);

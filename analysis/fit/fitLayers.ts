@@ -9,6 +9,8 @@ import { lawThickness, wanderBasis, wanderCount } from './rateWander';
 
 /** The fitted index stays within ±15 % of the material's nominal. */
 export const INDEX_BOUND = 0.15;
+/** A fitted index gradient (Δn through the layer) stays within ±10 % of the nominal index. */
+export const GRADIENT_BOUND = 0.1;
 
 export interface JointFitInput {
   /** Layers on the chip below the first fitted one, held, at the fitted layers' wavelength. */
@@ -40,6 +42,8 @@ export interface LayerEstimate extends LayerParams {
   opticalThicknessSigmaNm: number;
   /** Integrated autocorrelation time of the layer's residuals, in fit points (1 for white noise); the σ include √ of it. */
   noiseCorrelation: number;
+  /** σ of a fitted index gradient Δn (0 when held or absent). */
+  indexGradientSigma?: number;
 }
 
 export interface JointFitResult {
@@ -67,10 +71,11 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
     // The wander's parameters have a unit-normal prior: typical change 0.3, bounds ±8.
     const wk = wanderCount(layer.wander);
     const w = (v: number) => (wk > 0 ? new Float64Array(wk).fill(v) : undefined);
-    encodeLayer(layer, { index: 0.01, rateNmPerS: 0.005 * r, rateDriftNmPerS2: (0.01 * r) / T, gain: 0.001 * Math.abs(s.gain), wander: w(0.3) }, scale, shared);
+    encodeLayer(layer, { index: 0.01, rateNmPerS: 0.005 * r, rateDriftNmPerS2: (0.01 * r) / T, gain: 0.001 * Math.abs(s.gain), wander: w(0.3), indexGradient: 0.01 }, scale, shared);
     const nominal = layer.nominalAt(layer.optics.wavelengthNm).re;
-    encodeLayer(layer, { index: Math.max(1, (1 - INDEX_BOUND) * nominal), rateNmPerS: 0.2 * r, rateDriftNmPerS2: -r / T, gain: 0.5 * s.gain, wander: w(-8) }, min, shared);
-    encodeLayer(layer, { index: (1 + INDEX_BOUND) * nominal, rateNmPerS: 5 * r, rateDriftNmPerS2: r / T, gain: 2 * s.gain, wander: w(8) }, max, shared);
+    const dnMax = GRADIENT_BOUND * nominal;
+    encodeLayer(layer, { index: Math.max(1, (1 - INDEX_BOUND) * nominal), rateNmPerS: 0.2 * r, rateDriftNmPerS2: -r / T, gain: 0.5 * s.gain, wander: w(-8), indexGradient: -dnMax }, min, shared);
+    encodeLayer(layer, { index: (1 + INDEX_BOUND) * nominal, rateNmPerS: 5 * r, rateDriftNmPerS2: r / T, gain: 2 * s.gain, wander: w(8), indexGradient: dnMax }, max, shared);
   });
   if (sharedGain) {
     p0.push(sharedGain.gain);
@@ -154,6 +159,7 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
     const wk = wanderCount(layer.wander);
     const iW = i;
     i += wk;
+    const iDn = layer.indexGradient === 'fit' ? i++ : -1;
     const iG = !shared && layer.heldGain === null ? i : -1;
     const T = layer.durationS;
     // d = r·T + a·T²/2 + Σ v_j·Ψ_j(T) and n·d; first-order propagation through the covariance
@@ -185,6 +191,7 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
       opticalThicknessNm: v.index * d,
       opticalThicknessSigmaNm: Math.sqrt(Math.max(0, varND)),
       noiseCorrelation: tau[j],
+      ...(iDn >= 0 ? { indexGradientSigma: sd(iDn) } : {}),
     };
   });
   const k = layout.shared;

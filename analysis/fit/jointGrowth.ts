@@ -191,6 +191,7 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
     const sd = (k: number) => (k < 0 ? 0 : Math.sqrt(Math.max(cov(k, k), 0)));
     const estimate: LayerEstimate = {
       ...e, index: v.index, rateNmPerS: v.rateNmPerS, rateDriftNmPerS2: v.rateDriftNmPerS2,
+      ...(v.indexGradient !== undefined ? { indexGradient: v.indexGradient } : {}),
       indexSigma: iN >= 0 ? sd(iN) : e.indexSigma, rateSigma: sd(iR), rateDriftSigma: sd(iA),
       thicknessNm: d, thicknessSigmaNm: q(gd, gd), opticalThicknessNm: v.index * d, opticalThicknessSigmaNm: q(gnd, gnd),
     };

@@ -1,4 +1,4 @@
-import { fromNK, growingLayerSignal, type Complex, type LayerAt } from '../optics';
+import { fromNK, gradedGrowingSignal, growingLayerSignal, type Complex, type LayerAt } from '../optics';
 import { lawThickness, lawThicknessSeries, wanderBasis, wanderCount, type RateWander } from './rateWander';
 
 /** What the monitor sees apart from the layers: media, wavelength, R or T. */
@@ -39,6 +39,11 @@ export interface FitLayerData {
   gainDriftPerS?: number;
   /** A rate wandering within the layer, fitted as knots under its prior (fit/rateWander.ts). @default none */
   wander?: RateWander;
+  /**
+   * A linear index gradient through the layer, Δn from its bottom to its top (the index is then
+   * the mean; fit/indexGradient.ts): 'fit' frees it, a number holds it. @default 0 (uniform)
+   */
+  indexGradient?: 'fit' | number;
 }
 
 /** The physical parameters of one layer. */
@@ -49,6 +54,8 @@ export interface LayerParams {
   gain: number;
   /** The wander's non-centred knot parameters v (fit/rateWander.ts), with FitLayerData.wander. */
   wander?: Float64Array;
+  /** Δn from the layer's bottom to its top (`index` is the mean), with FitLayerData.indexGradient. */
+  indexGradient?: number;
 }
 
 /** d(τ) = r·τ + a·τ²/2. */
@@ -56,7 +63,7 @@ export const thicknessAt = (tauS: number, rateNmPerS: number, rateDriftNmPerS2: 
   rateNmPerS * tauS + 0.5 * rateDriftNmPerS2 * tauS * tauS;
 
 /**
- * Where each layer's parameters sit in the joint parameter vector: [n?, r, a?, g?] per layer,
+ * Where each layer's parameters sit in the joint parameter vector: [n?, r, a?, v…, Δn?, g?] per layer,
  * then, with a chip-wide gain, [G, γ] last: gain(t) = G·(1 + γ·t), t from the chip's reference.
  */
 export interface ParamLayout {
@@ -74,7 +81,7 @@ export function paramLayout(layers: readonly FitLayerData[], sharedGain = false,
   let count = 0;
   for (const l of layers) {
     offsets.push(count);
-    count += (l.heldIndex === null ? 1 : 0) + 1 + (l.fitDrift ? 1 : 0) + wanderCount(l.wander) + (!sharedGain && l.heldGain === null ? 1 : 0);
+    count += (l.heldIndex === null ? 1 : 0) + 1 + (l.fitDrift ? 1 : 0) + wanderCount(l.wander) + (l.indexGradient === 'fit' ? 1 : 0) + (!sharedGain && l.heldGain === null ? 1 : 0);
   }
   const drift = sharedGain && sharedDrift;
   return { offsets, count: count + (sharedGain ? 1 : 0) + (drift ? 1 : 0), shared: sharedGain ? count : -1, sharedDrift: drift ? count + 1 : -1 };
@@ -93,8 +100,11 @@ export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: n
   const k = wanderCount(layer.wander);
   const wander = k > 0 ? Float64Array.from({ length: k }, (_, j) => p[i + j]) : layer.wander?.fixed;
   i += k;
+  const indexGradient = layer.indexGradient === 'fit' ? p[i++] : layer.indexGradient;
   const gain = layout && layout.shared >= 0 ? sharedGainAt(p, layout, layer.chipTimeS, layer.gainDriftPerS) : layer.heldGain === null ? p[i] : layer.heldGain;
-  return wander ? { index, rateNmPerS, rateDriftNmPerS2, gain, wander } : { index, rateNmPerS, rateDriftNmPerS2, gain };
+  const out: LayerParams = wander ? { index, rateNmPerS, rateDriftNmPerS2, gain, wander } : { index, rateNmPerS, rateDriftNmPerS2, gain };
+  if (indexGradient !== undefined) out.indexGradient = indexGradient;
+  return out;
 }
 
 export function encodeLayer(layer: FitLayerData, v: LayerParams, out: number[], sharedGain = false): void {
@@ -102,6 +112,7 @@ export function encodeLayer(layer: FitLayerData, v: LayerParams, out: number[], 
   out.push(v.rateNmPerS);
   if (layer.fitDrift) out.push(v.rateDriftNmPerS2);
   for (let j = 0; j < wanderCount(layer.wander); j++) out.push(v.wander?.[j] ?? 0);
+  if (layer.indexGradient === 'fit') out.push(v.indexGradient ?? 0);
   if (!sharedGain && layer.heldGain === null) out.push(v.gain);
 }
 
@@ -142,7 +153,12 @@ export function evaluateLayers(
       if (dd !== 0) for (let i = 0; i < n; i++) view[i] += dd;
     } else for (let i = 0; i < n; i++) view[i] = thicknessAt(layer.tauS[i], v.rateNmPerS, v.rateDriftNmPerS2) + dd;
     // Normal incidence: s and p coincide, so one polarization suffices.
-    growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view);
+    const dn = v.indexGradient ?? 0;
+    if (dn !== 0) {
+      // graded: the profile spans the layer's end thickness, its mean the fitted index
+      const end = Math.max(lawThickness(v, layer.wander, layer.durationS), 1e-9);
+      gradedGrowingSignal({ ...layer.optics, below, growing: fromNK(v.index - dn / 2, layer.extinction), pol: 's' }, dn / end, view, view);
+    } else growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view);
     const w = layer.weight ?? 1;
     const known = layer.gainDriftPerS ?? 0;
     if (layout.shared >= 0) {
@@ -160,10 +176,12 @@ export function evaluateLayers(
  */
 export function layerAtWavelength(layer: FitLayerData, v: LayerParams, wavelengthNm: number): LayerAt {
   const thicknessNm = lawThickness(v, layer.wander, layer.durationS);
-  if (wavelengthNm === layer.optics.wavelengthNm) return { n: fromNK(v.index, layer.extinction), thicknessNm };
+  // A graded layer keeps its Δn at every wavelength (the gradient's dispersion is not known).
+  const graded = v.indexGradient ? { indexChange: v.indexGradient } : {};
+  if (wavelengthNm === layer.optics.wavelengthNm) return { n: fromNK(v.index, layer.extinction), thicknessNm, ...graded };
   const own = layer.nominalAt(layer.optics.wavelengthNm).re;
   const there = layer.nominalAt(wavelengthNm);
-  return { n: { re: there.re + (v.index - own), im: there.im }, thicknessNm };
+  return { n: { re: there.re + (v.index - own), im: there.im }, thicknessNm, ...graded };
 }
 
 /**
@@ -198,6 +216,7 @@ export function jacobianLayers(
     const rateParam = layer.heldIndex === null ? first + 1 : first;
     const driftParam = layer.fitDrift ? rateParam + 1 : -1;
     const wanderParam = rateParam + (layer.fitDrift ? 2 : 1), wk = wanderCount(layer.wander);
+    const gradientParam = layer.indexGradient === 'fit' ? wanderParam + wk : -1;
     const basis = new Float64Array(wk);
     for (let j = first; j < last; j++) {
       const row = j * total;
@@ -205,7 +224,7 @@ export function jacobianLayers(
         const g = p[j];
         const wOff = (layer.weight ?? 1) * offsetSignal;
         for (let x = pos; x < pos + n; x++) out[row + x] = (modelAtP[x] - wOff) / g;
-      } else if (j === indexParam) {
+      } else if (j === indexParam || j === gradientParam) {
         const h = steps[j];
         q[j] = p[j] + h;
         evaluateLayers(fixedBelow, layers, layout, q, offsetSignal, scratch, i);

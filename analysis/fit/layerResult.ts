@@ -1,4 +1,4 @@
-import { fromNK, growingLayerSignal, type LayerAt } from '../optics';
+import { fromNK, gradedGrowingSignal, growingLayerSignal, type LayerAt } from '../optics';
 import { findTurningPoints, type TraceData } from '../trace';
 import { type LayerState } from './analyzeRun';
 import { modelTurningPoints, timeToThickness } from './cutTiming';
@@ -36,7 +36,10 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const n = samples.tauS.length;
   const wander = e.wander ? s.fit.wander : undefined;
   const d = wander ? lawThicknessSeries(e, wander, samples.tauS, new Float64Array(n)) : thicknesses(samples.tauS, e.rateNmPerS, e.rateDriftNmPerS2);
-  const m = growingLayerSignal({ ...optics, below, growing: fromNK(e.index, k), pol: 's' }, d);
+  const dn = e.indexGradient ?? 0;
+  const m = dn !== 0
+    ? gradedGrowingSignal({ ...optics, below, growing: fromNK(e.index - dn / 2, k), pol: 's' }, dn / Math.max(e.thicknessNm, 1e-9), d)
+    : growingLayerSignal({ ...optics, below, growing: fromNK(e.index, k), pol: 's' }, d);
   const residualRms = Math.sqrt(squaredResiduals(trace.signal, samples.indices, calibration.offset, e.gain, m, modelOut) / n);
   const noise = noiseSigma / e.gain;
   const residualToNoise = noise > 0 ? residualRms / noise : NaN;
@@ -118,6 +121,7 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
     thicknessNm: e.thicknessNm, thicknessSigmaNm: e.thicknessSigmaNm,
     index: e.index, indexSigma: e.indexSigma, nominalIndex: nominal.re, indexDeviation: e.index - nominal.re,
     indexHeld: s.fit.heldIndex !== null,
+    ...gradientFigures(s),
     rateNmPerS: e.rateNmPerS, rateSigmaNmPerS: e.rateSigma, rateDriftNmPerS2: e.rateDriftNmPerS2, rateDriftSigmaNmPerS2: e.rateDriftSigma,
     gain: e.gain, cutErrorQwotPct, cutErrorSigmaQwotPct, residualRms, residualToNoise,
     startTimeS: samples.startTimeS, cutTimeS: samples.endTimeS, idealCutTimeS, lastTurningPoint,
@@ -125,6 +129,14 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
     fringeFrequencyHz: s.spectrum.fringeFrequencyHz, fringeRateNmPerS: s.spectrum.fringeRateNmPerS, disturbances,
     sampleCount: n, fitPoints: s.fitPoints, iterations: s.iterations, converged: s.converged, warnings,
   };
+}
+
+/** The index gradient's figures: the fitted ones on a graded layer, the trial's on one kept uniform. */
+function gradientFigures(s: LayerState): Pick<LayerResult, 'indexGradient' | 'indexGradientSigma' | 'indexGradientKept'> {
+  const t = s.gradientTrial;
+  if (!t) return {};
+  if (!t.kept) return { indexGradient: t.deltaN, indexGradientSigma: t.sigma, indexGradientKept: false };
+  return { indexGradient: s.estimate.indexGradient ?? t.deltaN, indexGradientSigma: s.estimate.indexGradientSigma ?? t.sigma, indexGradientKept: true };
 }
 
 // The per-sample loops sit in small functions of their own, so the engine optimises them apart

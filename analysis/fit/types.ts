@@ -70,6 +70,29 @@ export interface AnalyzeOptions {
    */
   rateWander?: boolean;
   /**
+   * Fit a linear index gradient through a layer (Δn from its bottom to its top; the index is then
+   * the layer's mean), computed as homogeneous sublayers (optics/gradedLayer.ts): every layer of
+   * at least 1.5 QWOT at its monitor wavelength with a free index gets a trial fit with Δn free
+   * (a quarter-wave hardly tells Δn: fit/indexGradient.ts GRADIENT_MIN_QWOT),
+   * kept where Δn is beyond 3σ (fit/indexGradient.ts); the others stay uniform. Each trial's Δn
+   * and σ are reported in the layer's result (indexGradient, indexGradientSigma, indexGradientKept).
+   * Off by default, measured on the chamber simulator: on two half-wave layers graded +0.02 (H) and
+   * −0.01 (L) under the real chamber's noise (refit, 5 seeds) Δn comes back within 3σ where kept
+   * (the H layer in 4 of 5 seeds); where kept, the H layer's errors fall from 0.0008–0.0011 to
+   * ≤ 0.0003 in index and from 0.08–0.11 % to ≤ 0.04 % in thickness (sequential: index 0.002–0.0037
+   * to ≤ 0.0018); the L layer on top, last on the chip, moves either way (0.21 → 0.08 %, 0.11 →
+   * 0.32 %); a uniform film keeps none in refit, but in sequential mode one seed of five kept
+   * −0.007 ± 0.002 and −0.008 ± 0.0015 (σ too small there), and a kept last layer on the chip
+   * came out up to 0.3 % thicker. In the accuracy scenarios only the real-chamber BBAR changes
+   * (its 1.95-QWOT layer 3 is the only layer of ≥ 1.5 QWOT with a graded index; the mirrors' layers
+   * are quarter-waves and get no trial): refit 2.56 → 1.89 % in thickness but index coverage
+   * 67 → 50 %, sequential 2.96 → 2.85 % with the index 0.036 → 0.045: the gradient kept there
+   * (0.026 ± 0.003 against a true 0.003) takes up the lamp drifting within the chip, which also
+   * moves a half-wave's turning point off the level below (without the lamp drift it is not kept).
+   * @default false
+   */
+  indexGradient?: boolean;
+  /**
    * Read the growth after a turning-point cut from where the next layer on the chip starts on its
    * fringe (fit/growthFromNext.ts, re-read after each chip's joint fit, fit/jointGrowth.ts). With
    * it off a turning-point cut's growth is not told by anything in the run, and its possible size
@@ -134,6 +157,14 @@ export interface LayerResult {
   /** index − nominalIndex. */
   indexDeviation: number;
   indexHeld: boolean;
+  /**
+   * With AnalyzeOptions.indexGradient, on layers that had the trial: the index change from the
+   * layer's bottom to its top (index is then the mean) and its 1σ; indexGradientKept tells whether
+   * the layer was fitted as graded (else it was fitted uniform, and these are the trial's figures).
+   */
+  indexGradient?: number;
+  indexGradientSigma?: number;
+  indexGradientKept?: boolean;
   rateNmPerS: number;
   rateSigmaNmPerS: number;
   rateDriftNmPerS2: number;

@@ -1,11 +1,15 @@
 import { type Complex } from './complex';
+import { gradedSublayers } from './gradedSublayers';
 import { identity, layerMatrix, type Mat2, multiply } from './matrix';
 import { tilt, type Polarization, type Tilted } from './tilt';
 
 /** One layer with its complex index at the wavelength in question. */
 export interface LayerAt {
+  /** The index; with indexChange, its mean through the thickness. */
   n: Complex;
   thicknessNm: number;
+  /** A linear index gradient: the real index rises by this much from the layer's bottom to its top (optics/gradedLayer.ts). @default 0 */
+  indexChange?: number;
 }
 
 /**
@@ -26,6 +30,17 @@ export function assemblyMatrix(
   let lastB: Complex | null = null, tiltB: Tilted | null = null;
   for (let j = layers.length - 1; j >= 0; j--) {
     const layer = layers[j];
+    if (layer.indexChange) {
+      // a graded layer: its homogeneous sublayers, top first
+      const subs = gradedSublayers({ re: layer.n.re - layer.indexChange / 2, im: layer.n.im }, layer.indexChange, layer.thicknessNm);
+      for (let s = subs.length - 1; s >= 0; s--) {
+        const ts = tilt(subs[s].n, n0SinTheta0, pol);
+        layerMatrix(lm, ts.nCos, ts.eta, subs[s].thicknessNm, wavelengthNm);
+        multiply(tmp, m, lm);
+        [m, tmp] = [tmp, m];
+      }
+      continue;
+    }
     let t: Tilted;
     if (layer.n === lastA) t = tiltA!;
     else if (layer.n === lastB) t = tiltB!;

@@ -6,3 +6,5 @@ export * from './coherent';
 export * from './incoherent';
 export * from './stackResponse';
 export * from './growingLayer';
+export * from './gradedLayer';
+export * from './gradedSublayers';

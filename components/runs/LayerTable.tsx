@@ -51,6 +51,17 @@ function Notes({ l }: { l: LayerView }) {
 
 const Sub = ({ children }: { children: React.ReactNode }) => <span className="block text-xs font-normal normal-case tracking-normal text-ink-faint">{children}</span>;
 
+/** "graded Δn +0.0200 ± 0.0014" (bottom to top), or the trial's figures for a layer fitted uniform. */
+export function gradientText(g: NonNullable<LayerView['indexGradient']>): string {
+  const value = `Δn ${signed(g.deltaN, 4)}${g.sigma !== null ? ` ± ${fixed(g.sigma, 4)}` : ''}`;
+  return g.kept ? `graded ${value}` : `uniform (trial ${value})`;
+}
+
+function Gradient({ l }: { l: LayerView }) {
+  if (!l.indexGradient) return null;
+  return <span className="block text-xs text-ink-faint" title="index change from the layer's bottom to its top">{gradientText(l.indexGradient)}</span>;
+}
+
 /**
  * The layers, arranged by the questions asked of them: was each cut on target (the operator),
  * what film went down (the engineer), and can the fit be trusted (everyone who signs off).
@@ -99,6 +110,7 @@ export function LayerTable({ layers, selected = null, onSelect }: { layers: Laye
               <td className="py-2 pr-3 text-right font-mono whitespace-nowrap">
                 {fixed(l.index, 4)} {l.indexHeld ? <span className="text-xs text-ink-faint">held</span> : <span className="text-ink-faint">± {fixed(l.indexSigma, 4)}</span>}
                 <Sub>{signed(l.indexDeviation, 4)}</Sub>
+                <Gradient l={l} />
               </td>
               <td className="py-2 pr-3 text-right font-mono whitespace-nowrap">
                 {fixed(l.rateNmPerS, 3)}
@@ -125,7 +137,7 @@ export function LayerTable({ layers, selected = null, onSelect }: { layers: Laye
               <dt className="text-ink-faint">Thickness</dt>
               <dd className="font-mono">{fixed(l.thicknessNm, 1)} nm <span className="text-ink-faint">({signed(l.thicknessDeltaPct, 1)} %)</span></dd>
               <dt className="text-ink-faint">Index</dt>
-              <dd className="font-mono">{fixed(l.index, 4)} {l.indexHeld ? <span className="text-ink-faint">held</span> : null}</dd>
+              <dd className="font-mono">{fixed(l.index, 4)} {l.indexHeld ? <span className="text-ink-faint">held</span> : null}<Gradient l={l} /></dd>
               <dt className="text-ink-faint">Rate</dt>
               <dd className="font-mono">{fixed(l.rateNmPerS, 3)} nm/s</dd>
               <dt className="text-ink-faint">Residual</dt>

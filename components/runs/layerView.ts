@@ -22,6 +22,11 @@ export type LayerView = {
   /** index − nominal. */
   indexDeviation: number | null;
   indexHeld: boolean;
+  /**
+   * The index change from the layer's bottom to its top with its σ, where the analysis tried a
+   * graded index (option indexGradient); kept: the layer was fitted as graded, else as uniform.
+   */
+  indexGradient?: { deltaN: number; sigma: number | null; kept: boolean } | null;
   rateNmPerS: number;
   rateSigmaNmPerS: number | null;
   rateDriftNmPerS2: number | null;

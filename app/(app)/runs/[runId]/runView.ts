@@ -7,6 +7,11 @@ import { cutGrade } from '@/components/runs/cutGrade';
 import type { TraceLayerSpan } from '@/components/runs/traceMarks';
 
 const num = (v: unknown): number | null => (typeof v === 'number' && Number.isFinite(v) ? v : null);
+/** A layer's index-gradient trial, from the keys the analysis adds when it made one. */
+const gradientOf = (d: Record<string, unknown>): LayerView['indexGradient'] => {
+  const deltaN = num(d.indexGradient);
+  return deltaN === null ? null : { deltaN, sigma: num(d.indexGradientSigma), kept: d.indexGradientKept === true };
+};
 const strings = (v: unknown): string[] => (Array.isArray(v) ? v.filter((w): w is string => typeof w === 'string') : []);
 
 type Chip = { chip: number; gain: number; offset: number; noiseSigma: number; source: string; refinedGain?: number; refinedGainSigma?: number; gainDriftPerHour?: number; gainDriftSigmaPerHour?: number };
@@ -65,6 +70,7 @@ export function layerRows(a: AnalysisWithLayers, design: Design | null = null, o
       indexSigma: l.indexSigma,
       indexDeviation: num(d.indexDeviation),
       indexHeld: d.indexHeld === true,
+      indexGradient: gradientOf(d),
       rateNmPerS: l.rateNmPerS,
       rateSigmaNmPerS: num(d.rateSigmaNmPerS),
       rateDriftNmPerS2: num(d.rateDriftNmPerS2),
