@@ -87,7 +87,7 @@ export interface PooledStartDelay {
  * growth from a delay) adds ((r·t − held − step)/σ)² − (step/σ)² to a layer's χ². The t that
  * minimises the sum is closed-form (weighted least squares in one variable, clipped).
  */
-function withShutterProfiled(layers: readonly StartDelayProfile[]): { curves: Float64Array[]; shutterS: (Float64Array | null) } {
+function withShutterProfiled(layers: readonly StartDelayProfile[]): { curves: Float64Array[]; shutterS: Float64Array | null } {
   const m = START_DELAY_GRID_S.length;
   const curves = layers.map((l) => Float64Array.from(l.chi2));
   const linked = layers.filter((l) => l.growth);

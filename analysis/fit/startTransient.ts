@@ -12,7 +12,8 @@ import { type LayerSamples } from './layerSamples';
  * t = E(τ) = ∫₀^τ s, the time at the full rate that grows the same film:
  *   E(τ) = τ²/(4δ) for τ < 2δ, τ − δ after (textbook calculus).
  * L(E(τ)) differs from ∫₀^τ s·ḋ_L by δ·(ḋ_L(τ) − ḋ_L(0)) at most, the rate's drift over the
- * layer times δ: a few 10⁻⁴ of the thickness for a drift of some % and δ under 2 s.
+ * layer times δ: a few 10⁻⁴ of the thickness for a drift of some % and δ under 2 s. Only the
+ * layer's first start is delayed: a paused layer's resumptions are taken as instant.
  */
 
 /** Exposure time E(τ) (see above) at real time τ ≥ 0 since the layer's start, s. */
