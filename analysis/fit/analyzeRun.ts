@@ -27,6 +27,9 @@ import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } 
 import { binMeans } from './subsample';
 import { type RateWander } from './rateWander';
 import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wanderChoice';
+import { exposureTime, exposureTimes, onExposureClock } from './startTransient';
+import { pooledStartDelay, startDelayProfile, type PooledStartDelay, type StartDelayProfile } from './startDelay';
+import { carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -84,6 +87,7 @@ export const ANALYZE_DEFAULTS = {
   rateWander: false,
   indexGradient: false,
   growthFromNext: true,
+  startTransient: false,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -101,9 +105,46 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  * Fits every layer of a run: per chip gain/offset calibration, then each layer's index, rate and
  * rate drift (and a per-layer gain) against the growing-layer model on the chip's stack as
  * deposited. `refit` re-estimates all layers of the chip jointly after each layer (see refitChip).
- * Pure: no I/O.
+ * With `startTransient` (and a layer column) a layer-by-layer pass first profiles every layer in
+ * the run's start delay (fit/startDelay.ts); where the pooled delay is kept, the run is analysed
+ * with it held, and again with it one σ longer for its share of each layer's σ. Pure: no I/O.
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
+  if (!(options.startTransient ?? ANALYZE_DEFAULTS.startTransient)) return analyzePass(design, trace, options, { delayS: 0 });
+  const pooled = await findStartDelay(design, trace, options);
+  if (!pooled?.kept) {
+    const plain = await analyzePass(design, trace, options, { delayS: 0 });
+    return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled)] : plain.warnings };
+  }
+  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS });
+  const moved = await analyzePass(design, trace, { ...options, modelSeries: false, onProgress: undefined }, { delayS: pooled.delayS + pooled.sigmaS });
+  carryStartDelaySigma(result, moved);
+  result.warnings.push(startDelayNote(pooled));
+  return result;
+}
+
+/**
+ * The run's start delay (fit/startTransient.ts) from a layer-by-layer pass that profiles each
+ * layer of ≥ 0.5 QWOT with a fitted index in it (fit/startDelay.ts), pooled; null without a
+ * layer column (boundaries placed on the design's curve put each start where growth showed).
+ */
+export async function findStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<PooledStartDelay | null> {
+  if (!trace.layer) return null;
+  const profiles: StartDelayProfile[] = [];
+  // Without the next layer's start read as growth below: that reading takes up the start delay
+  // (near an extremum both first add a slope at the start; measured on the chamber simulator the
+  // layers' profiles then came out flat), so here the growth stands on the idle levels.
+  await analyzePass(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false }, { delayS: 0, profiles });
+  return pooledStartDelay(profiles);
+}
+
+/** What a pass takes of the start transient: the delay held, and where to put each layer's profile. */
+interface PassTransient {
+  delayS: number;
+  profiles?: StartDelayProfile[];
+}
+
+async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult> {
   const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
   const warnings: string[] = trace.warnings.map((w) => w.message);
   // Without a layer column the design segments the trace (designSegments), not the signal alone.
@@ -111,7 +152,10 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const seg = byDesign ? { ...byDesign, inferred: true } : segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
   for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
   const layerSegments = byDesign ? placeBoundaries(trace, design, byDesign.layers, byDesign.windows) : seg.layers;
-  const samplesByLayer = gatherLayerSamples(trace, layerSegments);
+  const gathered = gatherLayerSamples(trace, layerSegments);
+  // A start transient puts the fits on the exposure clock (fit/startTransient.ts); not inside
+  // boundaries placed on the design's curve, which placed each start where the growth showed.
+  const samplesByLayer = transient.delayS > 0 && !byDesign ? new Map([...gathered].map(([l, s]) => [l, onExposureClock(s, transient.delayS)])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
   const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleNoiseModel(trace, seg.idle));
@@ -253,6 +297,20 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
           single = fitSingle(u.index, u.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : u.gain), { rateDriftNmPerS2: u.rateDriftNmPerS2 });
         }
       }
+    }
+    if (transient.profiles && !byDesign && !separation?.hold && fit.fitDrift) {
+      // This layer's χ² in the run's start delay, on the stack below as the pass holds it.
+      const e = single.layers[0];
+      const profile = startDelayProfile({
+        below: below.slice(), start: e, offsetSignal: calibration.offset,
+        ...(ends?.growthBelow(chip) && heldIndex === null ? { growthBelow: { heldNm: ends.growthBelow(chip)!.deltaNm, rateNmPerS: ends.growthBelow(chip)!.rateNmPerS } } : {}),
+        ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
+        dataAt: (delayS) => {
+          const binned = binMeans(samples.tauS, samples.indices, trace.signal, 200, exposureTimes(samples.tauS, delayS));
+          return { ...fit, tauS: binned.tauS, y: binned.y, durationS: exposureTime(fit.durationS, delayS) };
+        },
+      });
+      if (profile) transient.profiles.push(profile);
     }
     // Not inside boundaries placed on the design's curve (no layer column): those were placed with a
     // steady rate, and the knots then take up the placement's error (measured on the no-layer

@@ -169,6 +169,16 @@ export class LayerEnds {
     return Math.abs(growth.deltaNm - before) > 0.25 * Math.max(growth.sigmaNm, 1e-6);
   }
 
+  /**
+   * The growth after the cut of the chip's last layer as it stands, and the rate it grew at,
+   * where the next layer's start can tell it (a turning-point cut, its index fitted); else null.
+   */
+  growthBelow(chip: number): { deltaNm: number; rateNmPerS: number } | null {
+    const rec = this.lastOnChip.get(chip);
+    if (!rec || rec.s.design.monitor.cut !== 'turning-point' || rec.s.fit.heldIndex !== null) return null;
+    return { deltaNm: rec.growth.deltaNm, rateNmPerS: finalRate(rec.loggedS, rec.s) };
+  }
+
   /** The chip's stack covariance (sequential fits) with the growth's variance added to the thickness of its top layer. */
   stackWithGrowth(chip: number, stack: StackCovariance): StackCovariance {
     const rec = this.lastOnChip.get(chip);

@@ -5,6 +5,7 @@ import { modelTurningPoints, timeToThickness } from './cutTiming';
 import { INDEX_BOUND } from './fitLayers';
 import { thicknessAt } from './layerModel';
 import { lawThicknessSeries, lawTimeToThickness, wanderKnotRates, type RateWander } from './rateWander';
+import { realTime } from './startTransient';
 import { subsampleUniform } from './subsample';
 import { type LayerResult, type TurningPointAt } from './types';
 
@@ -51,7 +52,8 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const tps = modelTurningPoints(optics, below, e.index, k, 1.3 * Math.max(e.thicknessNm, targetNm));
   const toTime = (thicknessNm: number) => {
     const tau = wander ? lawTimeToThickness(e, wander, thicknessNm, s.fit.durationS) : timeToThickness(thicknessNm, e.rateNmPerS, e.rateDriftNmPerS2);
-    return Number.isFinite(tau) ? samples.startTimeS + tau : null;
+    // the fit's τ is the exposure time under a start transient (fit/startTransient.ts)
+    return Number.isFinite(tau) ? samples.startTimeS + realTime(tau, samples.startDelayS ?? 0) : null;
   };
   let idealCutTimeS: number | null = null;
   const warnings: string[] = [];

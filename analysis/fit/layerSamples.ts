@@ -11,6 +11,8 @@ export interface LayerSamples {
   startTimeS: number;
   endTimeS: number;
   runs: number;
+  /** Set when tauS is the exposure time of a start transient of this delay (fit/startTransient.ts), s. */
+  startDelayS?: number;
 }
 
 /** Gathers the segments of each layer (a paused layer has several) into one sample set. */

@@ -31,18 +31,22 @@ function nearestSamples(timeS: ArrayLike<number>, start: number, end: number, ou
  * bin. Unlike picking samples, averaging keeps the information of every sample (white noise
  * falls by √m in a bin of m), and the model at τ̄ differs from the bin's mean model only by
  * the curvature times the bin width² / 24 (midpoint rule), negligible for bins far shorter than a
- * fringe. All samples, unbinned, when there are no more than maxPoints.
+ * fringe. All samples, unbinned, when there are no more than maxPoints. With valueTauS the bins
+ * are still cut in tauS but each bin's τ̄ is the mean of valueTauS (another clock of the same
+ * samples, e.g. fit/startTransient's exposure time), so fits on either clock see the same ȳ.
  */
-export function binMeans(tauS: ArrayLike<number>, indices: ArrayLike<number>, signal: ArrayLike<number>, maxPoints: number): { tauS: Float64Array; y: Float64Array } {
+export function binMeans(
+  tauS: ArrayLike<number>, indices: ArrayLike<number>, signal: ArrayLike<number>, maxPoints: number, valueTauS: ArrayLike<number> = tauS,
+): { tauS: Float64Array; y: Float64Array } {
   const n = tauS.length;
   if (n <= maxPoints) {
-    return { tauS: Float64Array.from(tauS), y: Float64Array.from({ length: n }, (_, i) => signal[indices[i]]) };
+    return { tauS: Float64Array.from(valueTauS), y: Float64Array.from({ length: n }, (_, i) => signal[indices[i]]) };
   }
   const t0 = tauS[0], span = tauS[n - 1] - t0 || 1;
   const sumT = new Float64Array(maxPoints), sumY = new Float64Array(maxPoints), count = new Int32Array(maxPoints);
   for (let i = 0; i < n; i++) {
     const b = Math.min(maxPoints - 1, Math.floor(((tauS[i] - t0) / span) * maxPoints));
-    sumT[b] += tauS[i];
+    sumT[b] += valueTauS[i];
     sumY[b] += signal[indices[i]];
     count[b]++;
   }

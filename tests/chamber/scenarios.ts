@@ -128,16 +128,16 @@ export function scenarios(): Scenario[] {
       name: 'real chamber, mirror', about: '18-layer mirror, 3 chips, every chamber effect (correlated noise, chip changes, stray light, shutter delay, …)',
       design: mirrorDesign(18, 6), seeds: [21, 22], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER },
       modes: {
-        sequential: pending('thickness up to 2.18 %, index 0.0076, cut 2.0 % QWOT, coverage 97/97/94 %: the rate wander and the ramp as the shutter opens (with the rate wander (option rateWander, off by default) and the next-layer growth off 1.08 %)'),
-        refit: pending('thickness up to 1.71 %, index 0.0078, coverage 69/81/78 %: as sequential (with the rate wander (option rateWander, off by default) and the next-layer growth off 1.02 %, coverage 100/94/100 %); not the graded index: with indexWithinLayer off in the simulator the same traces give 1.72 %, coverage 75/75/81 % (quarter-wave layers: a linear gradient moves their turning points only to second order, and a trial fit with Δn free finds σ(Δn) 0.05–2 per layer)'),
+        sequential: pending('thickness up to 2.18 %, index 0.0076, cut 2.0 % QWOT, coverage 97/97/94 %: the rate wander and the ramp as the shutter opens (with the rate wander (option rateWander, off by default) and the next-layer growth off 1.08 %; with the start transient (option startTransient, off by default; δ̂ 1.36 and 0.85 s for the 1.5 s ramp) 2.03 %, coverage 94/100/94 %)'),
+        refit: pending('thickness up to 1.71 %, index 0.0078, coverage 69/81/78 %: as sequential (with the rate wander (option rateWander, off by default) and the next-layer growth off 1.02 %, coverage 100/94/100 %); not the graded index: with indexWithinLayer off in the simulator the same traces give 1.72 %, coverage 75/75/81 % (quarter-wave layers: a linear gradient moves their turning points only to second order, and a trial fit with Δn free finds σ(Δn) 0.05–2 per layer); with the start transient (option startTransient, off by default) 1.78 % (RMS 0.63 → 0.53 %), index 0.0063, coverage 97/97/100 %'),
       },
     },
     {
       name: 'real chamber, BBAR', about: 'four-layer AR on level cuts with every chamber effect',
       design: bbarDesign(), seeds: [21, 22], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER },
       modes: {
-        sequential: pending('thickness up to 2.96 %, index 0.036, thin layers 4.7 % optical: the lamp drifting within the one chip is the largest source (without it layer 4 index 0.002–0.006 instead of 0.031–0.035); no gain drift is fitted within a single chip'),
-        refit: pending('thickness up to 2.56 %, index 0.035, 3σ coverage 75/67/75 %: as sequential, the lamp drift within the one chip (with option indexGradient, off by default, 1.89 %, coverage 88/50/88 %: layer 3 of seed 22 keeps Δn 0.026 ± 0.003 against a true 0.003, the lamp drift taken for a graded index)'),
+        sequential: pending('thickness up to 2.96 %, index 0.036, thin layers 4.7 % optical: the lamp drifting within the one chip is the largest source (without it layer 4 index 0.002–0.006 instead of 0.031–0.035); no gain drift is fitted within a single chip; with the start transient (option startTransient, off by default, kept on seed 22 from two layers) 2.44 %, index 0.024'),
+        refit: pending('thickness up to 2.56 %, index 0.035, 3σ coverage 75/67/75 %: as sequential, the lamp drift within the one chip (with option indexGradient, off by default, 1.89 %, coverage 88/50/88 %: layer 3 of seed 22 keeps Δn 0.026 ± 0.003 against a true 0.003, the lamp drift taken for a graded index; with the start transient, option startTransient, off by default: 2.71 %, coverage 63/50/75 %)'),
       },
     },
     {
@@ -171,8 +171,8 @@ export function scenarios(): Scenario[] {
       name: '40 layers, 5 chips, no chip column', about: '(HL)^20 on 5 chips, every chamber effect, no chip column',
       design: mirrorDesign(40, 8), seeds: [41], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER, columns: { chip: false } },
       modes: {
-        sequential: pending('calibration within 0.05 % (gain) and 0.4e-3 (offset) of the truth; thickness up to 3.30 %, index 0.0069, cut 3.0 % QWOT: the ramp as the shutter opens and the wander (with the true calibration the errors stand)'),
-        refit: pending('thickness up to 1.24 %, index 0.0061, cut 1.15 % QWOT, coverage 88/90/95 %; calibration as sequential'),
+        sequential: pending('calibration within 0.05 % (gain) and 0.4e-3 (offset) of the truth; thickness up to 3.30 %, index 0.0069, cut 3.0 % QWOT: the ramp as the shutter opens and the wander (with the true calibration the errors stand); with the start transient (option startTransient, off by default; δ̂ 1.86 ± 0.30 s for the 1.5 s ramp) 1.33 %, cut 0.98 % QWOT'),
+        refit: pending('thickness up to 1.24 %, index 0.0061, cut 1.15 % QWOT, coverage 88/90/95 %; calibration as sequential; the ramp as the shutter opens (with the start transient, option startTransient, off by default: 0.97 %, index 0.0090, coverage 100/98/100 %)'),
       },
     },
     {

@@ -1,0 +1,154 @@
+import { type LayerAt } from '../optics';
+import { fitLayers } from './fitLayers';
+import { growthFromNext } from './growthFromNext';
+import { type FitLayerData, type LayerParams } from './layerModel';
+import { MAX_SHUTTER_S } from './layerEnds';
+
+/** The start delays δ (fit/startTransient.ts) at which each layer's fit is profiled, s. */
+export const START_DELAY_GRID_S: readonly number[] = Array.from({ length: 13 }, (_, i) => 0.25 * i);
+
+export interface StartDelayProfileInput {
+  /** The stack under the layer at its wavelength (the layer below with its growth as held so far). */
+  below: readonly LayerAt[];
+  /** The layer's fit data with its samples on the exposure clock of delay δ (bins cut in real time, so ȳ is the same for every δ). */
+  dataAt: (delayS: number) => FitLayerData;
+  /** Where each fit starts (the layer's fit at δ = 0). */
+  start: LayerParams;
+  offsetSignal: number;
+  gainPrior?: { fraction: number; noiseSigma: number };
+  /**
+   * The growth after the cut of the layer below, where this layer's start tells it (a
+   * turning-point cut): the growth held in `below` and the rate it grew at. Near an extremum a
+   * start delay and a growth below both act first as a slope at the start, so each layer's
+   * profile carries its growth's likelihood, for the run's shutter time to be profiled with δ.
+   */
+  growthBelow?: { heldNm: number; rateNmPerS: number };
+}
+
+/**
+ * One layer's χ²(δ) − χ²(0) on START_DELAY_GRID_S (on the stack below as held) and the number
+ * of its fit points; with a growth below, at each δ the growth's Gauss–Newton step from the
+ * held stack and its σ (the χ² is then that minimum plus ((g − step)/σ)² for an added growth g).
+ */
+export interface StartDelayProfile {
+  chi2: Float64Array;
+  points: number;
+  growth?: { heldNm: number; rateNmPerS: number; stepNm: Float64Array; sigmaNm: Float64Array };
+}
+
+/**
+ * One layer's profile of χ² in the start delay: at each δ on the grid the layer's own parameters
+ * refitted, the sum of squares in units of the δ = 0 fit's residual variance times its
+ * residuals' autocorrelation time (white-equivalent χ² under correlated noise), and the growth
+ * below as growthFromNext reads it at that δ. Null when a fit fails.
+ */
+export function startDelayProfile(input: StartDelayProfileInput): StartDelayProfile | null {
+  const { below, offsetSignal } = input;
+  const m = START_DELAY_GRID_S.length;
+  const chi = new Float64Array(m), stepNm = new Float64Array(m), sigmaNm = new Float64Array(m);
+  let unit = NaN, points = 0;
+  for (let k = 0; k < m; k++) {
+    const data = input.dataAt(START_DELAY_GRID_S[k]);
+    const fit = fitLayers({ fixedBelow: below, layers: [data], start: [input.start], offsetSignal, ...(input.gainPrior ? { gainPrior: input.gainPrior } : {}) }, { maxIterations: 30 });
+    if (!Number.isFinite(fit.solver.ssr)) return null;
+    if (k === 0) unit = (fit.solver.ssr / Math.max(fit.solver.dof, 1)) * Math.max(1, fit.layers[0].noiseCorrelation);
+    if (!(unit > 0)) return null;
+    points = data.tauS.length;
+    chi[k] = fit.solver.ssr / unit;
+    if (input.growthBelow && below.length > 0) {
+      const c = input.gainPrior && data.heldGain === null ? input.gainPrior.noiseSigma / (input.gainPrior.fraction * Math.abs(input.start.gain)) : 0;
+      const g = growthFromNext({ below, layer: data, params: fit.solver.params, offsetSignal, gainPriorWeight: c, residualVariance: unit, noiseCorrelation: 1 });
+      if (!g || !(g.sigmaNm > 0) || !Number.isFinite(g.deltaNm)) return null;
+      stepNm[k] = g.deltaNm;
+      sigmaNm[k] = g.sigmaNm;
+    }
+  }
+  for (let k = m - 1; k >= 0; k--) chi[k] -= chi[0];
+  return { chi2: chi, points, ...(input.growthBelow && below.length > 0 ? { growth: { ...input.growthBelow, stepNm, sigmaNm } } : {}) };
+}
+
+export interface PooledStartDelay {
+  delayS: number;
+  sigmaS: number;
+  /** The run's growth after a turning-point cut as a time at the full rate, profiled with δ (at δ̂), s. */
+  shutterS: number | null;
+  /** χ²(0) − χ²(δ̂) of the pooled profile. */
+  gainChi2: number;
+  layers: number;
+  /** The margin the gain in χ² must clear: Schwarz's criterion for one parameter, ln N over the profiles' N fit points. */
+  marginChi2: number;
+  /** Kept over no delay: gainChi2 > marginChi2. */
+  kept: boolean;
+}
+
+/**
+ * Each layer's χ² at every grid δ with the run's shutter time t profiled out: a growth below
+ * of r_below·t (t ∈ [0, MAX_SHUTTER_S], shared by the run: each start alone cannot tell its
+ * growth from a delay) adds ((r·t − held − step)/σ)² − (step/σ)² to a layer's χ². The t that
+ * minimises the sum is closed-form (weighted least squares in one variable, clipped).
+ */
+function withShutterProfiled(layers: readonly StartDelayProfile[]): { curves: Float64Array[]; shutterS: Float64Array | null } {
+  const m = START_DELAY_GRID_S.length;
+  const curves = layers.map((l) => Float64Array.from(l.chi2));
+  const linked = layers.filter((l) => l.growth);
+  if (linked.length === 0) return { curves, shutterS: null };
+  const shutterS = new Float64Array(m);
+  for (let k = 0; k < m; k++) {
+    let num = 0, den = 0;
+    for (const l of linked) {
+      const g = l.growth!, w = 1 / g.sigmaNm[k] ** 2;
+      num += g.rateNmPerS * (g.heldNm + g.stepNm[k]) * w;
+      den += g.rateNmPerS ** 2 * w;
+    }
+    shutterS[k] = Math.min(Math.max(num / den, 0), MAX_SHUTTER_S);
+  }
+  layers.forEach((l, j) => {
+    if (!l.growth) return;
+    const g = l.growth;
+    for (let k = 0; k < m; k++) {
+      const s = g.sigmaNm[k], step = g.stepNm[k], added = g.rateNmPerS * shutterS[k] - g.heldNm;
+      curves[j][k] += ((added - step) / s) ** 2 - (step / s) ** 2;
+    }
+  });
+  const base = curves.map((c) => c[0]);
+  curves.forEach((c, j) => c.forEach((_, k) => (c[k] -= base[j])));
+  return { curves, shutterS };
+}
+
+/**
+ * The run's start delay from the layers' profiles (the shutter time profiled with it): their
+ * sum's minimum (a parabola through the grid's three points about it), σ from its curvature (χ²
+ * rises by 1 at ±σ), widened by the Birge ratio when the layers disagree more than their own
+ * profiles allow (a delay or a shutter time that differs per material or per layer). Null
+ * without profiles.
+ */
+export function pooledStartDelay(layers: readonly StartDelayProfile[]): PooledStartDelay | null {
+  if (layers.length === 0) return null;
+  const { curves: profiles, shutterS } = withShutterProfiled(layers);
+  const grid = START_DELAY_GRID_S, m = grid.length, h = grid[1] - grid[0];
+  const total = new Float64Array(m);
+  for (const p of profiles) for (let k = 0; k < m; k++) total[k] += p[k];
+  let k = 0;
+  for (let i = 1; i < m; i++) if (total[i] < total[k]) k = i;
+  const c = Math.min(Math.max(k, 1), m - 2);
+  const [a, b, d] = [total[c - 1], total[c], total[c + 1]];
+  const curvature = (a - 2 * b + d) / (h * h);
+  let delayS = grid[k], minChi = total[k];
+  if (curvature > 0) {
+    const x = Math.min(Math.max(grid[c] + (h * (a - d)) / (2 * (a - 2 * b + d)), 0), grid[m - 1]);
+    const u = (x - grid[c]) / h;
+    delayS = x;
+    minChi = b + 0.5 * u * (d - a) + 0.5 * u * u * (a - 2 * b + d);
+  }
+  // Consistency: each layer's excess over its own minimum at the pooled grid point.
+  let q = 0;
+  for (const p of profiles) q += p[k] - Math.min(...p);
+  const birge = profiles.length > 1 ? Math.max(1, q / (profiles.length - 1)) : 1;
+  const sigmaS = curvature > 0 ? Math.sqrt((2 / curvature) * birge) : Infinity;
+  const gainChi2 = total[0] - minChi;
+  const marginChi2 = Math.log(layers.reduce((acc, l) => acc + l.points, 0));
+  return {
+    delayS, sigmaS, shutterS: shutterS ? shutterS[k] : null, gainChi2, marginChi2, layers: profiles.length,
+    kept: delayS > 0 && gainChi2 > marginChi2 && Number.isFinite(sigmaS),
+  };
+}
