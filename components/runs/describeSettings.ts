@@ -8,5 +8,9 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.heldIndex === 'nominal') parts.push('thin layers held at the nominal index');
   if (s.heldIndex === 'run-drift') parts.push("thin layers held at the run's drift index");
   if (typeof s.thinLayerQwot === 'number') parts.push(`held below ${s.thinLayerQwot} QWOT`);
+  if (s.rateWander === true) parts.push('rate wander within layers');
+  if (s.startTransient === true) parts.push("rate's start-up at the shutter");
+  if (s.indexGradient === true) parts.push('index gradient in thick layers');
+  if (s.growthFromNext === false) parts.push('growth after turning-point cuts in σ only');
   return parts.join(' · ');
 }

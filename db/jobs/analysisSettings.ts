@@ -13,6 +13,10 @@ export const analysisSettingsSchema = z
     fitOffset: z.boolean().optional(),
     heldIndex: z.enum(['nominal', 'run-drift']).optional(),
     thinLayerQwot: z.number().min(0).max(4).optional(),
+    rateWander: z.boolean().optional(),
+    startTransient: z.boolean().optional(),
+    indexGradient: z.boolean().optional(),
+    growthFromNext: z.boolean().optional(),
   })
   .strict();
 export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;

@@ -1,0 +1,18 @@
+import { describe, expect, it } from 'vitest';
+import { analysisSettingsSchema } from '@/db/jobs/analysisSettings';
+import { describeSettings } from '../describeSettings';
+
+describe('analysis settings', () => {
+  it('takes the chamber-effect options a re-analysis may ask for and names each in the list of analyses', () => {
+    const s = analysisSettingsSchema.parse({ mode: 'refit', rateWander: true, startTransient: true, indexGradient: true, growthFromNext: false });
+    expect(describeSettings(s)).toBe(
+      "refit · rate wander within layers · rate's start-up at the shutter · index gradient in thick layers · growth after turning-point cuts in σ only",
+    );
+    expect(describeSettings({ mode: 'sequential' })).toBe('sequential');
+  });
+
+  it('refuses an option the fit does not know, and a wrong type', () => {
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', rampModel: true }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', startTransient: 'yes' }).success).toBe(false);
+  });
+});
