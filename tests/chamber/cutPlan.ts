@@ -25,7 +25,9 @@ export function turningPointThickness(truth: CurveInput, designNm: number): numb
   const s = growingCurve(truth.below, truth.media, truth.mode, truth.n, truth.k, truth.wavelengthNm, d);
   let best = designNm, bestGap = Infinity;
   for (let i = 1; i < STEPS; i++) {
-    const extremum = (s[i] - s[i - 1]) * (s[i + 1] - s[i]) <= 0 && s[i + 1] !== s[i - 1];
+    // a sign change of the slope; equal neighbours on either side of a differing point are an
+    // extremum that falls exactly on the grid (a symmetric curve), not a flat stretch
+    const extremum = (s[i] - s[i - 1]) * (s[i + 1] - s[i]) <= 0 && !(s[i] === s[i - 1] && s[i] === s[i + 1]);
     if (!extremum) continue;
     // refine by the parabola through three points
     const den = s[i - 1] - 2 * s[i] + s[i + 1];
