@@ -1,7 +1,7 @@
 // The harness side: runs the project's reader and analysis on the simulator's traces.
 // (It imports analysis/; the simulator files one folder up never do.)
 import { parseDesign } from '@/analysis/design';
-import { AnalysisInputError, analyzeRun, type AnalysisResult } from '@/analysis/fit';
+import { AnalysisInputError, analyzeRun, type AnalysisResult, type AnalyzeOptions } from '@/analysis/fit';
 import { readTrace } from '@/analysis/trace';
 import { chamberCsvChunks, simulateChamberRun, type ChamberRun } from '..';
 import { type Mode, type Scenario } from '../scenarios';
@@ -14,6 +14,15 @@ export interface ScenarioRun {
   failures: Partial<Record<Mode, string>>;
 }
 
+/**
+ * Options added to every analysis, from FRINGELOG_ACCURACY_OPTIONS (JSON), for measuring an
+ * option across the scenarios by hand (e.g. '{"startTransient":true}'); CI never sets it.
+ */
+function extraOptions(): AnalyzeOptions {
+  const raw = process.env.FRINGELOG_ACCURACY_OPTIONS;
+  return raw ? (JSON.parse(raw) as AnalyzeOptions) : {};
+}
+
 export async function runScenario(scenario: Scenario, seed: number, modes: Mode[]): Promise<ScenarioRun> {
   const run = simulateChamberRun(scenario.design, { ...scenario.options, seed });
   const design = parseDesign(scenario.design, `${scenario.name}.json`);
@@ -22,7 +31,7 @@ export async function runScenario(scenario: Scenario, seed: number, modes: Mode[
   const failures: ScenarioRun['failures'] = {};
   for (const mode of modes) {
     try {
-      results[mode] = await analyzeRun(design, trace, { mode });
+      results[mode] = await analyzeRun(design, trace, { ...extraOptions(), mode });
     } catch (e) {
       if (!(e instanceof AnalysisInputError)) throw e;
       failures[mode] = e.message;
