@@ -5,7 +5,7 @@ import { driftEstimateAt, newVariogramPool, NOMINAL_INDEX_SIGMA, type IndexPoint
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
-import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers';
+import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
 import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { idleNoiseModel } from './idleNoiseModel';
@@ -14,6 +14,8 @@ import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOpt
 import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
+import { gainDriftPrior } from './gainDriftPrior';
+import { carryGainDriftSigma } from './gainDriftSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
@@ -72,6 +74,7 @@ export const ANALYZE_DEFAULTS = {
   refitFinalPoints: 3200,
   gainDrift: false,
   gainDriftFromChips: true,
+  lampStabilityPerHour: 0,
   fitOffset: true,
   gainPriorFraction: 0.005,
   thinLayerQwot: 0.9,
@@ -134,7 +137,12 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     warnings.push(`detector gain drifting ${(knownDrift * 360000).toFixed(2)} % per hour (from the bare-chip calibrations of ${drift.chips} chips); applied within each chip`);
   }
   /** Chip-wide gain G·(1 + γ·t), t from the chip's first layer start (gain mode 'chip'). */
-  const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, { gain: c.calibration.gain, driftPerS: knownDrift, startS: c.startS, fitDrift: o.gainDrift }]));
+  // With a lamp stability (and no free drift), γ is fitted in refit mode under its prior (fit/gainDriftPrior.ts).
+  const driftPrior = !o.gainDrift && o.lampStabilityPerHour > 0 ? gainDriftPrior(o.lampStabilityPerHour, drift) : null;
+  const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, {
+    gain: c.calibration.gain, driftPerS: driftPrior && o.mode === 'refit' ? driftPrior.meanPerS : knownDrift, startS: c.startS,
+    fitDrift: o.gainDrift || (driftPrior !== null && o.mode === 'refit'), ...(driftPrior && o.mode === 'refit' ? { driftPrior: { ...driftPrior } } : {}),
+  }]));
   const states: LayerState[] = [];
   const stacks = new Map<number, StackCovariance>();
   const noisePool = newVariogramPool();
@@ -179,7 +187,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       return {
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
-        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
+        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : knownDrift,
         ...(built.wander ? { wander: { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } } : {}),
       };
     };
@@ -250,6 +258,10 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       // The stack below's uncertainty, carried into this layer's σ (refit fits them jointly instead).
       const held = heldIndex !== null ? { sigma: heldSigma, shift: shiftWithHeldIndex(fit, heldIndex, heldSigma, single.layers[0], fitSingle) } : null;
       stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held));
+      // The gain drift held within the layer: its prior σ into the layer's σ (fit/gainDriftSigma.ts).
+      if (driftPrior) {
+        carryGainDriftSigma(fit, single.layers[0], knownDrift, driftPrior.sigmaPerS, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
+      }
     }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
     const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;
@@ -302,7 +314,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       if (shared) {
         cal.refinedGain = shared.gain;
         cal.refinedGainSigma = shared.gainSigma;
-        if (o.gainDrift) {
+        if (cg?.fitDrift) {
           cal.gainDriftPerHour = shared.driftPerS * 3600;
           cal.gainDriftSigmaPerHour = shared.driftSigmaPerS * 3600;
         }
@@ -336,7 +348,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
  */
 export function refitChip(
   data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean,
-  chipGain: { gain: number; driftPerS: number; fitDrift: boolean } | null, robust = true,
+  chipGain: SharedGain | null, robust = true,
 ): JointFitResult['sharedGain'] {
   // A wandering rate's knots are free in the final joint fit; the refits during the pass hold them
   // (at the current estimate) and add what that costs the end thickness's variance.
@@ -348,6 +360,7 @@ export function refitChip(
   if (chipGain && joint.sharedGain) {
     chipGain.gain = joint.sharedGain.gain;
     chipGain.driftPerS = joint.sharedGain.driftPerS;
+    if (chipGain.driftPrior && joint.sharedGain.priorWeight !== undefined) chipGain.driftPrior.weight = joint.sharedGain.priorWeight;
   }
   chipStates.forEach((s, j) => {
     s.estimate = final ? joint.layers[j] : withWanderVariance(joint.layers[j], s.wanderVarianceNm2 ?? 0);
