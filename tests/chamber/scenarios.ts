@@ -136,8 +136,8 @@ export function scenarios(): Scenario[] {
       name: 'real chamber, BBAR', about: 'four-layer AR on level cuts with every chamber effect',
       design: bbarDesign(), seeds: [21, 22], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER },
       modes: {
-        sequential: pending('thickness up to 2.96 %, index 0.036, thin layers 4.7 % optical: the lamp drifting within the one chip is the largest source (without it layer 4 index 0.002–0.006 instead of 0.031–0.035); no gain drift is fitted within a single chip'),
-        refit: pending('thickness up to 2.56 %, index 0.035, 3σ coverage 75/67/75 %: as sequential, the lamp drift within the one chip'),
+        sequential: pending('thickness up to 2.96 %, index 0.036, thin layers 4.7 % optical: the lamp drifting within the one chip is the largest source (without it layer 4 index 0.002–0.006 instead of 0.031–0.035); sequential mode holds the gain drift (option lampStabilityPerHour only widens σ)'),
+        refit: pending('thickness up to 2.56 %, index 0.035, 3σ coverage 75/67/75 %: the lamp drift within the one chip (held at the true drift: 0.47 %, 0.0063). With the drift under its prior (option lampStabilityPerHour 0.01, off by default) index 0.025, coverage 88/83/100 %, thickness 2.84 %: the drift comes out −1.8 ± 0.3 %/h for a true −1, as the rate ramp when the shutter opens (not modelled) reads as −0.9 %/h of its own; with the ramp off the drift is recovered (−0.9 ± 0.3 %/h) and index 0.009, thickness 0.97 %, coverage 100 %'),
       },
     },
     {
