@@ -14,8 +14,8 @@ import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOpt
 import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
-import { gainDriftPrior } from './gainDriftPrior';
-import { carryGainDriftSigma } from './gainDriftSigma';
+import { DEFAULT_LAMP_STABILITY_PER_HOUR, gainDriftPrior } from './gainDriftPrior';
+import { carryGainDriftSigma, carryJointGainDriftSigma } from './gainDriftSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
@@ -74,7 +74,8 @@ export const ANALYZE_DEFAULTS = {
   refitFinalPoints: 3200,
   gainDrift: false,
   gainDriftFromChips: true,
-  lampStabilityPerHour: 0,
+  lampStabilityPerHour: DEFAULT_LAMP_STABILITY_PER_HOUR,
+  lampDriftFit: false,
   fitOffset: true,
   gainPriorFraction: 0.005,
   thinLayerQwot: 0.9,
@@ -139,9 +140,13 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   /** Chip-wide gain G·(1 + γ·t), t from the chip's first layer start (gain mode 'chip'). */
   // With a lamp stability (and no free drift), γ is fitted in refit mode under its prior (fit/gainDriftPrior.ts).
   const driftPrior = !o.gainDrift && o.lampStabilityPerHour > 0 ? gainDriftPrior(o.lampStabilityPerHour, drift) : null;
+  const fitLampDrift = driftPrior !== null && o.lampDriftFit && o.mode === 'refit';
+  // Held instead (at the chips' drift when significant, else 0): the RMS error of the held value
+  // under γ's prior goes into the layers' σ (fit/gainDriftSigma.ts).
+  const heldDriftSigma = driftPrior && !fitLampDrift ? Math.hypot(driftPrior.sigmaPerS, driftPrior.meanPerS - knownDrift) : 0;
   const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, {
-    gain: c.calibration.gain, driftPerS: driftPrior && o.mode === 'refit' ? driftPrior.meanPerS : knownDrift, startS: c.startS,
-    fitDrift: o.gainDrift || (driftPrior !== null && o.mode === 'refit'), ...(driftPrior && o.mode === 'refit' ? { driftPrior: { ...driftPrior } } : {}),
+    gain: c.calibration.gain, driftPerS: fitLampDrift ? driftPrior.meanPerS : knownDrift, startS: c.startS,
+    fitDrift: o.gainDrift || fitLampDrift, ...(fitLampDrift ? { driftPrior: { ...driftPrior } } : {}),
   }]));
   const states: LayerState[] = [];
   const stacks = new Map<number, StackCovariance>();
@@ -259,8 +264,8 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const held = heldIndex !== null ? { sigma: heldSigma, shift: shiftWithHeldIndex(fit, heldIndex, heldSigma, single.layers[0], fitSingle) } : null;
       stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held));
       // The gain drift held within the layer: its prior σ into the layer's σ (fit/gainDriftSigma.ts).
-      if (driftPrior) {
-        carryGainDriftSigma(fit, single.layers[0], knownDrift, driftPrior.sigmaPerS, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
+      if (heldDriftSigma > 0) {
+        carryGainDriftSigma(fit, single.layers[0], knownDrift, heldDriftSigma, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
       }
     }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
@@ -311,6 +316,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss);
+      carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss);
       if (shared) {
         cal.refinedGain = shared.gain;
         cal.refinedGainSigma = shared.gainSigma;

@@ -1,4 +1,4 @@
-import { type JointFitResult, type LayerEstimate } from './fitLayers';
+import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
 import { type FitLayerData } from './layerModel';
 import { addHeldIndexSigma, heldIndexShift } from './thinLayer';
 
@@ -31,4 +31,28 @@ export function carryGainDriftSigma(
     fit.gainDriftPerS = saved.drift;
     fit.heldGain = saved.held;
   }
+}
+
+/**
+ * After a chip's final joint fit with the gain drift held (at γ), its σ into every layer of the
+ * chip: the joint fit again with γ one σ higher in every layer's gain (chip-wide G·(1 + γ·t), or
+ * each free per-layer gain's slope within its layer), started from the estimates, and each
+ * figure's change added in quadrature (first-order propagation, as fit/offsetSigma.ts does for
+ * the offset). The chip-wide gain G is refitted with the layers, as in the fit itself.
+ */
+export function carryJointGainDriftSigma(
+  data: readonly FitLayerData[], estimates: LayerEstimate[], offset: number, sigmaPerS: number,
+  sharedGain: SharedGain | null, robust: boolean,
+): void {
+  if (!(sigmaPerS > 0) || estimates.length === 0) return;
+  const moved = data.map((d) => ({ ...d, gainDriftPerS: (d.gainDriftPerS ?? 0) + sigmaPerS }));
+  const shifted = fitLayers(
+    { fixedBelow: [], layers: moved, start: estimates, offsetSignal: offset, ...(sharedGain ? { sharedGain: { ...sharedGain, fitDrift: false } } : {}) },
+    { robust, maxIterations: 30 },
+  );
+  estimates.forEach((e, j) => {
+    const m = shifted.layers[j];
+    addHeldIndexSigma(e, 1, heldIndexShift(e, m, 1));
+    e.rateSigma = Math.hypot(e.rateSigma, m.rateNmPerS - e.rateNmPerS);
+  });
 }

@@ -129,15 +129,15 @@ export function scenarios(): Scenario[] {
       design: mirrorDesign(18, 6), seeds: [21, 22], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER },
       modes: {
         sequential: pending('thickness up to 2.18 %, index 0.0076, cut 2.0 % QWOT, coverage 97/97/94 %: the rate wander and the ramp as the shutter opens (with the rate wander (option rateWander, off by default) and the next-layer growth off 1.08 %)'),
-        refit: pending('thickness up to 1.71 %, index 0.0078, coverage 69/81/78 %: as sequential (with the rate wander (option rateWander, off by default) and the next-layer growth off 1.02 %, coverage 100/94/100 %); the simulated index is graded within each layer, the model holds it uniform'),
+        refit: pending('thickness up to 1.71 %, index 0.0078, coverage 69/81/81 %: as sequential (with the rate wander (option rateWander, off by default) and the next-layer growth off 1.02 %, coverage 100/94/100 %); the simulated index is graded within each layer, the model holds it uniform'),
       },
     },
     {
       name: 'real chamber, BBAR', about: 'four-layer AR on level cuts with every chamber effect',
       design: bbarDesign(), seeds: [21, 22], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER },
       modes: {
-        sequential: pending('thickness up to 2.96 %, index 0.036, thin layers 4.7 % optical: the lamp drifting within the one chip is the largest source (without it layer 4 index 0.002–0.006 instead of 0.031–0.035); sequential mode holds the gain drift (option lampStabilityPerHour only widens σ)'),
-        refit: pending('thickness up to 2.56 %, index 0.035, 3σ coverage 75/67/75 %: the lamp drift within the one chip (held at the true drift: 0.47 %, 0.0063). With the drift under its prior (option lampStabilityPerHour 0.01, off by default) index 0.025, coverage 88/83/100 %, thickness 2.84 %: the drift comes out −1.8 ± 0.3 %/h for a true −1, as the rate ramp when the shutter opens (not modelled) reads as −0.9 %/h of its own; with the ramp off the drift is recovered (−0.9 ± 0.3 %/h) and index 0.009, thickness 0.97 %, coverage 100 %'),
+        sequential: pending('thickness up to 2.96 %, index 0.036, thin layers 4.7 % optical: the lamp drifting within the one chip is the largest source (without it layer 4 index 0.002–0.006 instead of 0.031–0.035); sequential mode holds the gain drift and carries its prior σ into the layers (coverage 100 %)'),
+        refit: pending('thickness up to 2.56 %, index 0.035: the lamp drift within the one chip (held at the true drift: 0.47 %, 0.0063); 3σ coverage 100 % with the drift\'s prior σ (1 %/h) carried into the layers (75/67/75 % without). With the drift fitted under its prior (option lampDriftFit, off by default) index 0.025, coverage 88/83/100 %, thickness 2.84 %: the drift comes out −1.8 ± 0.3 %/h for a true −1, as the rate ramp when the shutter opens (not modelled) reads as −0.9 %/h of its own; with the ramp off the drift is recovered (−0.9 ± 0.3 %/h) and index 0.009, thickness 0.97 %, coverage 100 %'),
       },
     },
     {
@@ -190,7 +190,7 @@ export function scenarios(): Scenario[] {
       options: { ...RATES, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, strayFraction: 0.005, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 } },
       modes: {
         sequential: pending('offset fitted from six layers a chip, pooled over both chips: index 0.0067 (0.028 with the offset taken as 0, 0.0021 with the true one); thickness 0.68 % on the last layer of a chip'),
-        refit: pending('index 0.0065 (the offset within 1e-3 of the truth, 1.7σ of its statistical part), thickness 0.67 % on the last layer of a chip; 3σ coverage 100/96/100 % with the offset\'s σ carried into the layers'),
+        refit: pending('index 0.0065 (the offset within 1e-3 of the truth, 1.7σ of its statistical part), thickness 0.67 % on the last layer of a chip; 3σ coverage 100/100/100 % with the offset\'s and the gain drift\'s σ carried into the layers'),
       },
     },
     {
