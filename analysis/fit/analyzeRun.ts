@@ -138,7 +138,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     warnings.push(`detector gain drifting ${(knownDrift * 360000).toFixed(2)} % per hour (from the bare-chip calibrations of ${drift.chips} chips); applied within each chip`);
   }
   /** Chip-wide gain G·(1 + γ·t), t from the chip's first layer start (gain mode 'chip'). */
-  // With a lamp stability (and no free drift), γ is fitted in refit mode under its prior (fit/gainDriftPrior.ts).
+  // γ's prior from the lamp's stability (fit/gainDriftPrior.ts); fitted under it in refit mode with lampDriftFit.
   const driftPrior = !o.gainDrift && o.lampStabilityPerHour > 0 ? gainDriftPrior(o.lampStabilityPerHour, drift) : null;
   const fitLampDrift = driftPrior !== null && o.lampDriftFit && o.mode === 'refit';
   // Held instead (at the chips' drift when significant, else 0): the RMS error of the held value

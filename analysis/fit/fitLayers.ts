@@ -70,11 +70,11 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
   const prior = input.sharedGain?.fitDrift ? input.sharedGain.driftPrior : undefined;
   if (!prior) return fitOnce(input, options);
   // γ's prior row weighs against the residuals of this very fit (fit/gainDriftPrior.ts): weigh it
-  // from the data's own noise, then once more from the fit's residuals if that moved it.
+  // from the data's own noise, then once more from the fit's residuals if that moved it by over 2 %.
   const guess = prior.weight ?? driftPriorWeight(prior, guessNoise(input.layers), 1);
   const first = fitOnce(withPriorWeight(input, guess), options);
   const weight = weightFromFit(first, input.layers, prior);
-  if (!(Math.abs(weight / guess - 1) > 0.2)) return first;
+  if (!(Math.abs(weight / guess - 1) > 0.02)) return first;
   const g = first.sharedGain!;
   return fitOnce(
     { ...withPriorWeight(input, weight), start: first.layers, sharedGain: { ...input.sharedGain!, gain: g.gain, driftPerS: g.driftPerS, driftPrior: { ...prior, weight } } },
