@@ -4,10 +4,10 @@ import { type FitLayerData } from './layerModel';
 /**
  * The monitor's lamp (and detector) stability assumed when nothing else is told, as a fraction
  * of the gain per hour (1σ of a linear drift within a chip). A tungsten-halogen monitor lamp on a
- * stabilised supply, after its warm-up, holds its output to a few tenths of a percent per hour;
- * 1 %/h is a deliberately loose allowance for an ageing lamp and a detector's temperature
- * (common practice, not a measured figure: set AnalyzeOptions.lampStabilityPerHour from the
- * monitor's own record of bare-chip readings where one exists).
+ * stabilised supply holds its output, after its warm-up, to a few tenths of a percent per hour
+ * (from memory, no source at hand); 1 %/h is a loose allowance chosen here for an ageing lamp and
+ * the detector's temperature, not a published figure. Set AnalyzeOptions.lampStabilityPerHour
+ * from the monitor's own record (the bare-chip readings of successive chips) where one exists.
  */
 export const DEFAULT_LAMP_STABILITY_PER_HOUR = 0.01;
 
