@@ -5,7 +5,7 @@ import { driftEstimateAt, newVariogramPool, NOMINAL_INDEX_SIGMA, type IndexPoint
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
-import { fitLayers, GRADIENT_BOUND, type JointFitResult, type LayerEstimate } from './fitLayers';
+import { fitLayers, GRADIENT_BOUND, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
 import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { idleNoiseModel } from './idleNoiseModel';
@@ -14,6 +14,8 @@ import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOpt
 import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
+import { DEFAULT_LAMP_STABILITY_PER_HOUR, gainDriftPrior } from './gainDriftPrior';
+import { carryGainDriftSigma, carryJointGainDriftSigma } from './gainDriftSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
@@ -78,6 +80,8 @@ export const ANALYZE_DEFAULTS = {
   refitFinalPoints: 3200,
   gainDrift: false,
   gainDriftFromChips: true,
+  lampStabilityPerHour: DEFAULT_LAMP_STABILITY_PER_HOUR,
+  lampDriftFit: false,
   fitOffset: true,
   gainPriorFraction: 0.005,
   thinLayerQwot: 0.9,
@@ -182,7 +186,16 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
     warnings.push(`detector gain drifting ${(knownDrift * 360000).toFixed(2)} % per hour (from the bare-chip calibrations of ${drift.chips} chips); applied within each chip`);
   }
   /** Chip-wide gain G·(1 + γ·t), t from the chip's first layer start (gain mode 'chip'). */
-  const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, { gain: c.calibration.gain, driftPerS: knownDrift, startS: c.startS, fitDrift: o.gainDrift }]));
+  // γ's prior from the lamp's stability (fit/gainDriftPrior.ts); fitted under it in refit mode with lampDriftFit.
+  const driftPrior = !o.gainDrift && o.lampStabilityPerHour > 0 ? gainDriftPrior(o.lampStabilityPerHour, drift) : null;
+  const fitLampDrift = driftPrior !== null && o.lampDriftFit && o.mode === 'refit';
+  // Held instead (at the chips' drift when significant, else 0): the RMS error of the held value
+  // under γ's prior goes into the layers' σ (fit/gainDriftSigma.ts).
+  const heldDriftSigma = driftPrior && !fitLampDrift ? Math.hypot(driftPrior.sigmaPerS, driftPrior.meanPerS - knownDrift) : 0;
+  const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, {
+    gain: c.calibration.gain, driftPerS: fitLampDrift ? driftPrior.meanPerS : knownDrift, startS: c.startS,
+    fitDrift: o.gainDrift || fitLampDrift, ...(fitLampDrift ? { driftPrior: { ...driftPrior } } : {}),
+  }]));
   const states: LayerState[] = [];
   const stacks = new Map<number, StackCovariance>();
   const noisePool = newVariogramPool();
@@ -227,7 +240,7 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       return {
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
-        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: knownDrift,
+        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : knownDrift,
         ...(built.wander ? { wander: { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } } : {}),
         ...(built.gradient ? { indexGradient: 'fit' as const } : {}),
       };
@@ -338,6 +351,10 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       // The stack below's uncertainty, carried into this layer's σ (refit fits them jointly instead).
       const held = heldIndex !== null ? { sigma: heldSigma, shift: shiftWithHeldIndex(fit, heldIndex, heldSigma, single.layers[0], fitSingle) } : null;
       stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held));
+      // The gain drift held within the layer: its prior σ into the layer's σ (fit/gainDriftSigma.ts).
+      if (heldDriftSigma > 0) {
+        carryGainDriftSigma(fit, single.layers[0], knownDrift, heldDriftSigma, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
+      }
     }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
     const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;
@@ -388,10 +405,11 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss);
+      carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss);
       if (shared) {
         cal.refinedGain = shared.gain;
         cal.refinedGainSigma = shared.gainSigma;
-        if (o.gainDrift) {
+        if (cg?.fitDrift) {
           cal.gainDriftPerHour = shared.driftPerS * 3600;
           cal.gainDriftSigmaPerHour = shared.driftSigmaPerS * 3600;
         }
@@ -425,7 +443,7 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
  */
 export function refitChip(
   data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean,
-  chipGain: { gain: number; driftPerS: number; fitDrift: boolean } | null, robust = true,
+  chipGain: SharedGain | null, robust = true,
 ): JointFitResult['sharedGain'] {
   // A wandering rate's knots are free in the final joint fit; the refits during the pass hold them
   // (at the current estimate) and add what that costs the end thickness's variance.
@@ -437,6 +455,7 @@ export function refitChip(
   if (chipGain && joint.sharedGain) {
     chipGain.gain = joint.sharedGain.gain;
     chipGain.driftPerS = joint.sharedGain.driftPerS;
+    if (chipGain.driftPrior && joint.sharedGain.priorWeight !== undefined) chipGain.driftPrior.weight = joint.sharedGain.priorWeight;
   }
   chipStates.forEach((s, j) => {
     s.estimate = final ? joint.layers[j] : withWanderVariance(joint.layers[j], s.wanderVarianceNm2 ?? 0);

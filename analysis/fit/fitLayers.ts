@@ -6,6 +6,7 @@ import {
   type FitLayerData, type LayerParams,
 } from './layerModel';
 import { lawThickness, wanderBasis, wanderCount } from './rateWander';
+import { driftPriorWeight, guessNoise, weightFromFit, type DriftPrior } from './gainDriftPrior';
 
 /** The fitted index stays within ±15 % of the material's nominal. */
 export const INDEX_BOUND = 0.15;
@@ -24,8 +25,19 @@ export interface JointFitInput {
    * the gain, with the data's noise σ to weigh it against the samples (a pseudo-observation).
    */
   gainPrior?: { fraction: number; noiseSigma: number };
-  /** Fit one gain for all the layers, G·(1 + γ·t) with t from the chip's reference (start values). */
-  sharedGain?: { gain: number; driftPerS: number; fitDrift: boolean };
+  /**
+   * Fit one gain for all the layers, G·(1 + γ·t) with t from the chip's reference (start values);
+   * with fitDrift and driftPrior, γ under a Gaussian prior (fit/gainDriftPrior.ts).
+   */
+  sharedGain?: SharedGain;
+}
+
+/** A chip-wide gain G·(1 + γ·t): start values, whether γ is fitted, and γ's prior if any. */
+export interface SharedGain {
+  gain: number;
+  driftPerS: number;
+  fitDrift: boolean;
+  driftPrior?: DriftPrior;
 }
 
 /** One layer's estimates with 1σ (σ of a held parameter is 0). */
@@ -48,8 +60,8 @@ export interface LayerEstimate extends LayerParams {
 
 export interface JointFitResult {
   layers: LayerEstimate[];
-  /** The chip-wide gain G and its drift γ (per second), when fitted. */
-  sharedGain: { gain: number; gainSigma: number; driftPerS: number; driftSigmaPerS: number } | null;
+  /** The chip-wide gain G and its drift γ (per second), when fitted; priorWeight: the weight of γ's prior row, when it had one. */
+  sharedGain: { gain: number; gainSigma: number; driftPerS: number; driftSigmaPerS: number; priorWeight?: number } | null;
   solver: LeastSquaresResult;
 }
 
@@ -59,6 +71,26 @@ export interface JointFitResult {
  * layers of a chip: the joint re-fit.
  */
 export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {}): JointFitResult {
+  const prior = input.sharedGain?.fitDrift ? input.sharedGain.driftPrior : undefined;
+  if (!prior) return fitOnce(input, options);
+  // γ's prior row weighs against the residuals of this very fit (fit/gainDriftPrior.ts): weigh it
+  // from the data's own noise, then once more from the fit's residuals if that moved it by over 2 %.
+  const guess = prior.weight ?? driftPriorWeight(prior, guessNoise(input.layers), 1);
+  const first = fitOnce(withPriorWeight(input, guess), options);
+  const weight = weightFromFit(first, input.layers, prior);
+  if (!(Math.abs(weight / guess - 1) > 0.02)) return first;
+  const g = first.sharedGain!;
+  return fitOnce(
+    { ...withPriorWeight(input, weight), start: first.layers, sharedGain: { ...input.sharedGain!, gain: g.gain, driftPerS: g.driftPerS, driftPrior: { ...prior, weight } } },
+    options,
+  );
+}
+
+function withPriorWeight(input: JointFitInput, weight: number): JointFitInput {
+  return { ...input, sharedGain: { ...input.sharedGain!, driftPrior: { ...input.sharedGain!.driftPrior!, weight } } };
+}
+
+function fitOnce(input: JointFitInput, options: LeastSquaresOptions): JointFitResult {
   const { fixedBelow, layers, start, offsetSignal, sharedGain, gainPrior } = input;
   const shared = sharedGain !== undefined;
   const layout = paramLayout(layers, shared, sharedGain?.fitDrift ?? false);
@@ -100,6 +132,9 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
       priors.push({ param: next - 1, g0: start[j].gain, c: gainPrior.noiseSigma / (gainPrior.fraction * Math.abs(start[j].gain)) });
     });
   }
+  // The gain drift's prior: a pseudo-observation (γ − γ₀)·c (fit/gainDriftPrior.ts).
+  const driftPrior = sharedGain?.fitDrift ? sharedGain.driftPrior : undefined;
+  if (driftPrior?.weight !== undefined && layout.sharedDrift >= 0) priors.push({ param: layout.sharedDrift, g0: driftPrior.meanPerS, c: driftPrior.weight });
   // The wander's unit-normal prior: 0 = σ_point·v_j (scaled by the layer's weight, like its data).
   layers.forEach((l, j) => {
     const k = wanderCount(l.wander);
@@ -200,6 +235,7 @@ export function fitLayers(input: JointFitInput, options: LeastSquaresOptions = {
         gain: solver.params[k], gainSigma: solver.sigma[k],
         driftPerS: layout.sharedDrift < 0 ? 0 : solver.params[layout.sharedDrift],
         driftSigmaPerS: layout.sharedDrift < 0 ? 0 : solver.sigma[layout.sharedDrift],
+        ...(driftPrior?.weight !== undefined && layout.sharedDrift >= 0 ? { priorWeight: driftPrior.weight } : {}),
       }
     : null;
   return { layers: estimates, sharedGain: sharedResult, solver };

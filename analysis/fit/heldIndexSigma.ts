@@ -1,6 +1,6 @@
 import { NOMINAL_INDEX_SIGMA } from '../stats';
 import { type LayerState } from './analyzeRun';
-import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers';
+import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
 import { type FitLayerData } from './layerModel';
 import { addHeldIndexSigma, heldIndexShift, type HeldIndexShift } from './thinLayer';
 
@@ -29,7 +29,7 @@ export function shiftWithHeldIndex(
  */
 export function heldIndexSigmaIntoChip(
   data: readonly FitLayerData[], states: readonly LayerState[],
-  chipGain: { gain: number; driftPerS: number; fitDrift: boolean } | null, robust: boolean,
+  chipGain: SharedGain | null, robust: boolean,
 ): void {
   const base = states.map((s) => ({ ...s.estimate }));
   states.forEach((s, h) => {

@@ -12,5 +12,6 @@ export * from './layerResult';
 export * from './runSummary';
 export * from './analyzeRun';
 export * from './chipCalibrations';
+export * from './gainDriftPrior';
 export * from './AnalysisInputError';
 export * from './everyLayerSampled';

@@ -1,4 +1,4 @@
-import { type LayerEstimate } from './fitLayers';
+import { type LayerEstimate, type SharedGain } from './fitLayers';
 import { type GaussianEvidence, type GrowthEstimate } from './growthPosterior';
 import { invertSymmetric } from './invertSymmetric';
 import { decodeLayer, encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayerData } from './layerModel';
@@ -8,7 +8,7 @@ export interface JointGrowthInput {
   /** The chip's layers as in its joint fit (time bases with the current growth), and the fit's estimates. */
   data: readonly FitLayerData[];
   estimates: readonly LayerEstimate[];
-  sharedGain: { gain: number; driftPerS: number; fitDrift: boolean } | null;
+  sharedGain: SharedGain | null;
   offsetSignal: number;
   /** Per layer: its time base at the last logged sample and its current growth, nm; null for a layer without a growth parameter (the chip's last). */
   growth: readonly ({ loggedS: number; deltaNm: number } | null)[];
@@ -95,6 +95,9 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
       A[a * M + b] = A[b * M + a] = s;
     }
   }
+  // The gain drift's prior row (as in the joint fit): its c² on γ's diagonal.
+  const priorWeight = sharedGain?.fitDrift ? sharedGain.driftPrior?.weight : undefined;
+  if (priorWeight !== undefined && layout.sharedDrift >= 0) A[layout.sharedDrift * M + layout.sharedDrift] += priorWeight ** 2;
   const inv = invertSymmetric(A, M);
   if (!inv) return null;
   const g = new Float64Array(M);

@@ -1,6 +1,6 @@
 import { type LayerAt } from '../optics';
 import { type TraceData } from '../trace';
-import { type JointFitResult, type LayerEstimate } from './fitLayers';
+import { type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
 import { growthFromNext } from './growthFromNext';
 import { jointGrowth } from './jointGrowth';
 import { growthLogLikelihood, growthPosterior, type GaussianEvidence, type GrowthEstimate, type GrowthEvidence } from './growthPosterior';
@@ -194,7 +194,7 @@ export class LayerEnds {
    * After a chip's final joint fit (refit): every growth but the chip's last re-read against
    * the jointly fitted stack (jointGrowth), the layers' estimates and σ with it.
    */
-  afterJointFit(data: readonly FitLayerData[], states: readonly EndedLayer[], offsetSignal: number, sharedGain: { gain: number; driftPerS: number; fitDrift: boolean } | null): void {
+  afterJointFit(data: readonly FitLayerData[], states: readonly EndedLayer[], offsetSignal: number, sharedGain: SharedGain | null): void {
     if (!this.startsConsistent()) return;
     // jointGrowth takes a wander as fixed (its knots held at the joint fit's values): with free
     // knots the chip keeps the pass's growths (finish drops their stale start readings).

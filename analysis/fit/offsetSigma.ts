@@ -1,4 +1,4 @@
-import { fitLayers, type LayerEstimate } from './fitLayers';
+import { fitLayers, type LayerEstimate, type SharedGain } from './fitLayers';
 import { type FitLayerData } from './layerModel';
 
 /**
@@ -15,7 +15,7 @@ import { type FitLayerData } from './layerModel';
  */
 export function carryOffsetSigma(
   data: readonly FitLayerData[], estimates: LayerEstimate[], offset: number, offsetSigma: number,
-  sharedGain: { gain: number; driftPerS: number; fitDrift: boolean } | null, robust: boolean,
+  sharedGain: SharedGain | null, robust: boolean,
 ): void {
   if (!(offsetSigma > 0) || estimates.length === 0) return;
   const moved = fitLayers(

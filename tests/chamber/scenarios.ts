@@ -129,15 +129,15 @@ export function scenarios(): Scenario[] {
       design: mirrorDesign(18, 6), seeds: [21, 22], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER },
       modes: {
         sequential: pending('thickness up to 2.18 %, index 0.0076, cut 2.0 % QWOT, coverage 97/97/94 %: the rate wander and the ramp as the shutter opens (with the rate wander (option rateWander, off by default) and the next-layer growth off 1.08 %; with the start transient (option startTransient, off by default; δ̂ 1.36 and 0.85 s for the 1.5 s ramp) 2.03 %, coverage 94/100/94 %)'),
-        refit: pending('thickness up to 1.71 %, index 0.0078, coverage 69/81/78 %: as sequential (with the rate wander (option rateWander, off by default) and the next-layer growth off 1.02 %, coverage 100/94/100 %); not the graded index: with indexWithinLayer off in the simulator the same traces give 1.72 %, coverage 75/75/81 % (quarter-wave layers: a linear gradient moves their turning points only to second order, and a trial fit with Δn free finds σ(Δn) 0.05–2 per layer); with the start transient (option startTransient, off by default) 1.78 % (RMS 0.63 → 0.53 %), index 0.0063, coverage 97/97/100 %'),
+        refit: pending('thickness up to 1.71 %, index 0.0078, coverage 69/81/81 %: as sequential (with the rate wander (option rateWander, off by default) and the next-layer growth off 1.02 %, coverage 100/94/100 %); not the graded index: with indexWithinLayer off in the simulator the same traces give 1.72 %, coverage 75/75/81 % (quarter-wave layers: a linear gradient moves their turning points only to second order, and a trial fit with Δn free finds σ(Δn) 0.05–2 per layer); with the start transient (option startTransient, off by default) 1.78 % (RMS 0.63 → 0.53 %), index 0.0063, coverage 97/97/100 %'),
       },
     },
     {
       name: 'real chamber, BBAR', about: 'four-layer AR on level cuts with every chamber effect',
       design: bbarDesign(), seeds: [21, 22], targets: CHAMBER_TARGETS, options: { ...RATES, ...REAL_CHAMBER },
       modes: {
-        sequential: pending('thickness up to 2.96 %, index 0.036, thin layers 4.7 % optical: the lamp drifting within the one chip is the largest source (without it layer 4 index 0.002–0.006 instead of 0.031–0.035); no gain drift is fitted within a single chip; with the start transient (option startTransient, off by default, kept on seed 22 from two layers) 2.44 %, index 0.024'),
-        refit: pending('thickness up to 2.56 %, index 0.035, 3σ coverage 75/67/75 %: as sequential, the lamp drift within the one chip (with option indexGradient, off by default, 1.89 %, coverage 88/50/88 %: layer 3 of seed 22 keeps Δn 0.026 ± 0.003 against a true 0.003, the lamp drift taken for a graded index; with the start transient, option startTransient, off by default: 2.71 %, coverage 63/50/75 %)'),
+        sequential: pending('thickness up to 2.96 %, index 0.036, thin layers 4.7 % optical: the lamp drifting within the one chip is the largest source (without it layer 4 index 0.002–0.006 instead of 0.031–0.035); sequential mode holds the gain drift and carries its prior σ into the layers (coverage 100 %; with the start transient (option startTransient, off by default, kept on seed 22 from two layers) 2.44 %, index 0.024'),
+        refit: pending('thickness up to 2.56 %, index 0.035: the lamp drift within the one chip (held at the true drift: 0.47 %, 0.0063); 3σ coverage 100 % with the drift\'s prior σ (1 %/h) carried into the layers (75/67/75 % without). With the drift fitted under its prior (option lampDriftFit, off by default) index 0.025, coverage 88/83/100 %, thickness 2.84 %: the drift comes out −1.8 ± 0.3 %/h for a true −1, as the rate ramp when the shutter opens (not modelled) reads as −0.9 %/h of its own; with the ramp off the drift is recovered (−0.9 ± 0.3 %/h) and index 0.009, thickness 0.97 %, coverage 100 %; with option indexGradient (off by default) 1.89 %: layer 3 of seed 22 keeps Δn 0.026 ± 0.003 against a true 0.003, the lamp drift taken for a graded index; with the start transient (option startTransient, off by default) 2.71 %'),
       },
     },
     {
@@ -190,7 +190,7 @@ export function scenarios(): Scenario[] {
       options: { ...RATES, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, strayFraction: 0.005, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 } },
       modes: {
         sequential: pending('offset fitted from six layers a chip, pooled over both chips: index 0.0067 (0.028 with the offset taken as 0, 0.0021 with the true one); thickness 0.68 % on the last layer of a chip'),
-        refit: pending('index 0.0065 (the offset within 1e-3 of the truth, 1.7σ of its statistical part), thickness 0.67 % on the last layer of a chip; 3σ coverage 100/96/100 % with the offset\'s σ carried into the layers'),
+        refit: pending('index 0.0065 (the offset within 1e-3 of the truth, 1.7σ of its statistical part), thickness 0.67 % on the last layer of a chip; 3σ coverage 100/100/100 % with the offset\'s and the gain drift\'s σ carried into the layers'),
       },
     },
     {
