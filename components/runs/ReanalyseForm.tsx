@@ -38,7 +38,11 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     for (const key of ['gain', 'heldIndex'] as const) if (form.get(key)) settings[key] = form.get(key);
     const thin = String(form.get('thinLayerQwot') ?? '').trim();
     if (thin !== '') settings.thinLayerQwot = Number(thin);
-    if (form.get('gainDrift') === 'on') settings.gainDrift = true;
+    const drift = form.get('chipDrift');
+    if (drift === 'prior') settings.lampDriftFit = true;
+    if (drift === 'free') settings.gainDrift = true;
+    const lamp = String(form.get('lampStability') ?? '').trim();
+    if (lamp !== '') settings.lampStabilityPerHour = Number(lamp) / 100;
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
     for (const key of ['rateWander', 'startTransient', 'indexGradient'] as const) if (form.get(key) === 'on') settings[key] = true;
@@ -81,10 +85,19 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           <label htmlFor="re-thin">Hold the index below (QWOT; 0 leaves every index free)</label>
           <input id="re-thin" name="thinLayerQwot" type="number" min="0" max="4" step="0.05" placeholder="0.5 (default)" className={select} />
         </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-drift">Gain drift within a chip (lamp, detector)</label>
+          <select id="re-drift" name="chipDrift" className={select} defaultValue="">
+            <option value="">Held; the lamp&apos;s stability carried into every σ</option>
+            <option value="prior">Fitted under the lamp&apos;s stability (joint re-fit)</option>
+            <option value="free">Fitted freely (joint re-fit, one gain per chip)</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-lamp">Lamp stability, %/h (0: none assumed)</label>
+          <input id="re-lamp" name="lampStability" type="number" min="0" max="20" step="0.1" placeholder="1 (default)" className={select} />
+        </div>
         <div className="flex flex-col justify-end gap-1 text-sm sm:col-span-2 lg:col-span-4">
-          <label className="flex items-center gap-2">
-            <input type="checkbox" name="gainDrift" /> Fit a gain drift within each chip (re-fit, one gain per chip)
-          </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="gainDriftFromChips" defaultChecked /> Gain drift from chip to chip
           </label>

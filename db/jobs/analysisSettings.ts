@@ -9,6 +9,8 @@ export const analysisSettingsSchema = z
     mode: z.enum(['sequential', 'refit']),
     gain: z.enum(['per-layer', 'chip']).optional(),
     gainDrift: z.boolean().optional(),
+    lampStabilityPerHour: z.number().min(0).max(0.2).optional(),
+    lampDriftFit: z.boolean().optional(),
     gainDriftFromChips: z.boolean().optional(),
     fitOffset: z.boolean().optional(),
     heldIndex: z.enum(['nominal', 'run-drift']).optional(),

@@ -9,10 +9,15 @@ describe('analysis settings', () => {
       "refit · rate wander within layers · rate's start-up at the shutter · index gradient in thick layers · growth after turning-point cuts in σ only",
     );
     expect(describeSettings({ mode: 'sequential' })).toBe('sequential');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', lampDriftFit: true, lampStabilityPerHour: 0.005 }))).toBe(
+      "refit · gain drift fitted under the lamp's stability · lamp stability 0.5 %/h",
+    );
   });
 
   it('refuses an option the fit does not know, and a wrong type', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', rampModel: true }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', startTransient: 'yes' }).success).toBe(false);
+    // a lamp "stability" of 50 %/h is a typing slip (per cent entered as a fraction's worth)
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', lampStabilityPerHour: 0.5 }).success).toBe(false);
   });
 });
