@@ -291,14 +291,15 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       const perLayer = Math.max(100, Math.min(o.maxFitPoints, Math.floor(o.refitFinalPoints / chipStates.length)));
       const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
       const data = chipStates.map((p) => p.make(perLayer));
-      const shared = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
+      const joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
+      const shared = joint.sharedGain;
       // Each growth after a cut read again against the jointly fitted stack (LayerEnds), wanders held at the fit's knots.
       const knotsHeld = data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
       ends?.afterJointFit(knotsHeld, chipStates, chipStates[0].calibration.offset, cg);
       // A held index's own σ, into every layer of the chip (the joint fit took the index as exact).
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
-      carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss);
+      carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
       if (shared) {
         cal.refinedGain = shared.gain;
         cal.refinedGainSigma = shared.gainSigma;
@@ -337,7 +338,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
 export function refitChip(
   data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean,
   chipGain: { gain: number; driftPerS: number; fitDrift: boolean } | null, robust = true,
-): JointFitResult['sharedGain'] {
+): JointFitResult {
   // A wandering rate's knots are free in the final joint fit; the refits during the pass hold them
   // (at the current estimate) and add what that costs the end thickness's variance.
   const layers = final ? data : data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
@@ -358,7 +359,7 @@ export function refitChip(
       s.fitPoints = data[j].tauS.length;
     }
   });
-  return joint.sharedGain;
+  return joint;
 }
 
 export function toIndexPoint(s: LayerState): IndexPoint {

@@ -1,5 +1,5 @@
 import { invertSymmetric } from './invertSymmetric';
-import { huberFit, levenbergMarquardt, type SolverResult, type StopReason } from './solver';
+import { choleskySolve, huberFit, levenbergMarquardt, normalEquations, type SolverResult, type StopReason } from './solver';
 
 /** A nonlinear least-squares problem in physical parameters p. */
 export interface LeastSquaresProblem {
@@ -57,6 +57,12 @@ export interface LeastSquaresResult {
   residuals: Float64Array;
   /** IRLS weights (robust fits), else null. */
   weights: Float64Array | null;
+  /**
+   * The parameters' change for a change Δy of the data, to first order: one Gauss–Newton step
+   * from the solution, Δp = (JᵀWJ)⁻¹JᵀW·Δy with the Jacobian of the covariance (W the IRLS
+   * weights, held). Null where JᵀWJ is singular.
+   */
+  shiftFor?: (deltaY: ArrayLike<number>) => Float64Array | null;
 }
 
 const DEFAULTS: Required<LeastSquaresOptions> = { gradientStep: 0.001, maxIterations: 100, tolerance: 0.001, robust: false };
@@ -125,9 +131,18 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
   const dof = n - np;
   const weights = result.weights ?? null;
   const { covariance, sigma, ok } = covarianceFrom(result.jac, residuals, weights, n, np, unit);
+  const jac = result.jac;
+  const shiftFor = (deltaY: ArrayLike<number>): Float64Array | null => {
+    const a = new Float64Array(np * np), g = new Float64Array(np);
+    normalEquations(jac, Float64Array.from(deltaY), weights ?? undefined, n, np, problem.columnRows, a, g);
+    const du = choleskySolve(a, g, np);
+    if (!du) return null;
+    for (let j = 0; j < np; j++) du[j] *= unit[j];
+    return du;
+  };
   return {
     params, sigma, covariance, ssr, dof, residualRms: Math.sqrt(ssr / n), iterations: result.iterations,
-    converged: result.converged, reason: result.reason, wellDetermined: ok, residuals, weights,
+    converged: result.converged, reason: result.reason, wellDetermined: ok, residuals, weights, shiftFor,
   };
 }
 
