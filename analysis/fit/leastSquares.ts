@@ -130,7 +130,7 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
   }
   const dof = n - np;
   const weights = result.weights ?? null;
-  const { covariance, sigma, ok } = covarianceFrom(result.jac, residuals, weights, n, np, unit);
+  const { covariance, sigma, ok } = covarianceFrom(result.jac, residuals, weights, n, np, unit, problem.columnRows);
   const jac = result.jac;
   const shiftFor = (deltaY: ArrayLike<number>): Float64Array | null => {
     const a = new Float64Array(np * np), g = new Float64Array(np);
@@ -167,13 +167,18 @@ function fillCentralJacobian(problem: LeastSquaresProblem, params: Float64Array,
  * correction factor κ ≈ 1 for N ≫ p dropped; from memory), which is the same without outliers.
  * jac is in solver units; unit maps back to physical parameters.
  */
-function covarianceFrom(jac: Float64Array, e: Float64Array, w: Float64Array | null, n: number, np: number, unit: Float64Array) {
+function covarianceFrom(
+  jac: Float64Array, e: Float64Array, w: Float64Array | null, n: number, np: number, unit: Float64Array,
+  rows?: { start: Int32Array; end: Int32Array },
+) {
   const jtj = new Float64Array(np * np);
   for (let a = 0; a < np; a++) {
     for (let b = a; b < np; b++) {
       let s = 0;
       const oa = a * n, ob = b * n;
-      for (let i = 0; i < n; i++) s += jac[oa + i] * jac[ob + i];
+      // only the rows both columns share (outside them one is exactly 0: the same sum)
+      const from = rows ? Math.max(rows.start[a], rows.start[b]) : 0, to = rows ? Math.min(rows.end[a], rows.end[b]) : n;
+      for (let i = from; i < to; i++) s += jac[oa + i] * jac[ob + i];
       jtj[a * np + b] = s;
       jtj[b * np + a] = s;
     }

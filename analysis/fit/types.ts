@@ -162,7 +162,7 @@ export interface LayerResult {
   crystalNm: number | null;
   /** thicknessNm / crystalNm (tooling-factor check). */
   opticalToCrystalRatio: number | null;
-  /** Dominant fringe frequency of the layer's signal (fft-js spectrum); null under ~1.5 fringes. */
+  /** Dominant fringe frequency of the layer's signal (its amplitude spectrum, trace/fringeSpectrum); null under ~1.5 fringes. */
   fringeFrequencyHz: number | null;
   /** The rate that frequency implies, f·λ/(2n), nm/s: the fit's independent first guess. */
   fringeRateNmPerS: number | null;
