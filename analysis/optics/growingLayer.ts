@@ -48,6 +48,23 @@ export function growingLayerSignal(
   return out;
 }
 
+/**
+ * growingLayerSignal for many thickness series on one spec (a grid search at one index): the
+ * media, the stack below and the growing layer are set up once. Normal incidence or one
+ * polarization (pol other than 'mean'); the same figures as growingLayerSignal.
+ */
+export function growingLayerSignalFor(spec: GrowingLayer): (thicknessNm: ArrayLike<number>, out: Float64Array) => Float64Array {
+  assertTransparentIncidence(spec.ambient, 'ambient');
+  if (spec.backside) assertTransparentIncidence(spec.substrate, 'substrate');
+  const pol = spec.pol ?? 'mean';
+  if (pol === 'mean' && (spec.angleDeg ?? 0) !== 0) throw new RangeError('growingLayerSignalFor: one polarization or normal incidence');
+  const c = setUp(spec, pol === 'mean' ? 's' : pol);
+  return (thicknessNm, out) => {
+    signalLoop(c, thicknessNm, out, 1, true);
+    return out;
+  };
+}
+
 function accumulate(
   spec: GrowingLayer,
   pol: Polarization,
@@ -56,6 +73,13 @@ function accumulate(
   weight: number,
   overwrite: boolean,
 ): void {
+  signalLoop(setUp(spec, pol), thicknessNm, out, weight, overwrite);
+}
+
+type SetUp = ReturnType<typeof setUp>;
+
+/** What every thickness point of one spec shares. */
+function setUp(spec: GrowingLayer, pol: Polarization) {
   const invariant = spec.ambient.re * Math.sin(((spec.angleDeg ?? 0) * Math.PI) / 180);
   const e0 = tilt(spec.ambient, invariant, pol).eta;
   const es = tilt(spec.substrate, invariant, pol).eta;
@@ -85,7 +109,15 @@ function accumulate(
   // T the same both ways; Macleod, Thin-Film Optical Filters, ch. 2, from memory): the reversed
   // product for the light coming back through the substrate is not needed.
   const lossless = transparent && e0i === 0 && esi === 0 && b11i === 0 && b22i === 0 && b12r === 0 && b21r === 0;
+  return {
+    b11r, b11i, b12r, b12i, b21r, b21i, b22r, b22i, vbr, vbi, vcr, vci, ger, gei, etaDen, wantR, backside,
+    e0r, e0i, esr, esi, rBack, tBack, kr, ki, transparent, lossless,
+  };
+}
 
+function signalLoop(c: SetUp, thicknessNm: ArrayLike<number>, out: Float64Array, weight: number, overwrite: boolean): void {
+  const { b11r, b11i, b12r, b12i, b21r, b21i, b22r, b22i, vbr, vbi, vcr, vci, ger, gei, etaDen, wantR, backside } = c;
+  const { e0r, e0i, esr, esi, rBack, tBack, kr, ki, transparent, lossless } = c;
   for (let i = 0; i < thicknessNm.length; i++) {
     const dr = kr * thicknessNm[i];
     const cd = Math.cos(dr), sd = Math.sin(dr);
