@@ -15,6 +15,7 @@ import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
+import { type ObservedTurningPoints } from './observedTurningPoints';
 import { requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
@@ -56,6 +57,8 @@ export interface LayerState {
   /** Weight of the layer in joint fits (see FitLayerData.weight). */
   weight: number;
   spectrum: LayerSpectrum;
+  /** The turning points the layer's readings show, when computed with its spectrum (AnalyzeOptions.spectrumOf). */
+  observed?: ObservedTurningPoints;
 }
 
 function heldNoteFor(held: number, nominal: number, from: number, qwot: number, wl: number, wholeRun: boolean, why: string): string {
@@ -186,7 +189,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     const fit = make(o.maxFitPoints);
     const refit = make(o.refitPointsPerLayer);
     const grid = make(150);
-    const spectrum = spectra ? await spectra.get(dl.layer)! : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
+    const { observed, ...spectrum }: LayerSpectrum & { observed?: ObservedTurningPoints } = spectra ? await spectra.get(dl.layer)! : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     const gridInput = {
       gain: fit.heldGain ?? undefined, optics, below, extinction: -nominal.im, tauS: grid.tauS, y: grid.y, offsetSignal: calibration.offset,
       index: nominal.re, searchIndex: !thin, rateGuessNmPerS: dl.thicknessNm / Math.max(durationS, 1e-9),
@@ -257,7 +260,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     refit.weight = weight;
     const state: LayerState = {
       weight, qwotAtMonitor, design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
-      converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum,
+      converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum, ...(observed ? { observed } : {}),
       ...(separation?.hold ? { heldWhy: separation.reason, heldIndexSigma: heldSigma } : {}),
       ...(built.wanderVariance !== undefined ? { wanderVarianceNm2: built.wanderVariance } : {}),
     };
