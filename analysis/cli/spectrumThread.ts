@@ -1,13 +1,13 @@
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
 import { layerSpectrum, type LayerSpectrum } from '../fit/layerSpectrum';
-import { observedTurningPoints, type ObservedTurningPoints } from '../fit/observedTurningPoints';
+import { layerSampleWork, type SampleWork, type SampleWorkResult } from '../fit/layerSampleWork';
 import { type AnalyzeOptions } from '../fit/types';
 
-// The analyze command computes the layers' spectra (and, given the samples' times, the turning
-// points they show) on a second thread while the main one fits (AnalyzeOptions.spectrumOf): the
-// same functions on the same samples, so the same figures.
+// The analyze command computes the layers' spectra (and the work on their samples that needs no
+// fit, layerSampleWork) on a second thread while the main one fits (AnalyzeOptions.spectrumOf):
+// the same functions on the same samples, so the same figures.
 
-type Answer = LayerSpectrum & { observed?: ObservedTurningPoints };
+type Answer = LayerSpectrum & Partial<SampleWorkResult>;
 
 const ROLE = 'fringelog-layer-spectra';
 
@@ -17,13 +17,13 @@ interface Request {
   y: Float64Array;
   wavelengthNm: number;
   index: number;
-  timeS?: Float64Array;
+  work?: SampleWork;
 }
 
 /** What the thread answers to a request (and this thread, when that one cannot). */
 function answer(r: Request): Answer {
   const spectrum = layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
-  return r.timeS ? { ...spectrum, observed: observedTurningPoints(r.tauS, r.timeS, r.y) } : spectrum;
+  return r.work ? { ...spectrum, ...layerSampleWork(r.tauS, r.y, r.work) } : spectrum;
 }
 
 /** True in the thread startSpectrumThread starts (which runs the command's own module). */
@@ -65,8 +65,8 @@ export function startSpectrumThread(entry: URL): { spectrumOf: NonNullable<Analy
   }
   let next = 0;
   return {
-    spectrumOf: (tauS, y, wavelengthNm, index, timeS) => {
-      const request: Request = { id: next++, tauS, y, wavelengthNm, index, ...(timeS ? { timeS } : {}) };
+    spectrumOf: (tauS, y, wavelengthNm, index, work) => {
+      const request: Request = { id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) };
       if (!worker) return Promise.resolve(local(request));
       const w = worker;
       return new Promise((resolve) => {

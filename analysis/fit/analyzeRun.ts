@@ -15,6 +15,7 @@ import { layerResult } from './layerResult';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
+import { type SampleWorkResult } from './layerSampleWork';
 import { type ObservedTurningPoints } from './observedTurningPoints';
 import { requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
@@ -124,7 +125,13 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   if (mismatch) warnings.push(mismatch);
 
   // Spectra depend on each layer's samples only: with spectrumOf, all are asked for now.
-  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer) : null;
+  // …with the bin means the fits will take: the pass's three sizes and the final joint fit's.
+  const binPoints = (layer: number) => {
+    const chip = samplesByLayer.get(layer)!.chip;
+    const onChip = order.filter((l) => samplesByLayer.get(l.layer)!.chip === chip && samplesByLayer.get(l.layer)!.tauS.length >= 10).length;
+    return [o.maxFitPoints, o.refitPointsPerLayer, 150, finalPointsPerLayer(o, onChip)];
+  };
+  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints) : null;
   const noiseFloor = idleNoise(trace, seg.idle);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
@@ -174,11 +181,12 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       continue;
     }
     const durationS = samples.tauS[n - 1];
+    const { observed, binned: binnedElsewhere, ...spectrum }: LayerSpectrum & Partial<SampleWorkResult> = spectra ? await spectra.get(dl.layer)! : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     // make() is called again after the pass (final refit), when the layer's state exists.
     const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number } = {};
     const make = (maxPoints: number): FitLayerData => {
       // Bin means, not picked samples: every sample's information at a fraction of the points.
-      const binned = binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
+      const binned = binnedElsewhere?.find((b) => b.points === maxPoints) ?? binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
       return {
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
@@ -189,7 +197,6 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     const fit = make(o.maxFitPoints);
     const refit = make(o.refitPointsPerLayer);
     const grid = make(150);
-    const { observed, ...spectrum }: LayerSpectrum & { observed?: ObservedTurningPoints } = spectra ? await spectra.get(dl.layer)! : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     const gridInput = {
       gain: fit.heldGain ?? undefined, optics, below, extinction: -nominal.im, tauS: grid.tauS, y: grid.y, offsetSignal: calibration.offset,
       index: nominal.re, searchIndex: !thin, rateGuessNmPerS: dl.thicknessNm / Math.max(durationS, 1e-9),
@@ -291,7 +298,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
       s.estimate = { ...s.estimate, index: held };
     }
     for (const [chip, chipStates] of chipLayers) {
-      const perLayer = Math.max(100, Math.min(o.maxFitPoints, Math.floor(o.refitFinalPoints / chipStates.length)));
+      const perLayer = finalPointsPerLayer(o, chipStates.length);
       const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
       const data = chipStates.map((p) => p.make(perLayer));
       const joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
@@ -363,6 +370,11 @@ export function refitChip(
     }
   });
   return joint;
+}
+
+/** Points per layer in a chip's final joint fit of `layers` layers. */
+function finalPointsPerLayer(o: { maxFitPoints: number; refitFinalPoints: number }, layers: number): number {
+  return Math.max(100, Math.min(o.maxFitPoints, Math.floor(o.refitFinalPoints / layers)));
 }
 
 export function toIndexPoint(s: LayerState): IndexPoint {

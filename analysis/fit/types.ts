@@ -1,7 +1,7 @@
 import { type MaterialDrift } from '../stats';
 import { type ChipCalibration } from './calibrateChip';
 import { type LayerSpectrum } from './layerSpectrum';
-import { type ObservedTurningPoints } from './observedTurningPoints';
+import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
 
 export type AnalysisMode = 'sequential' | 'refit';
 
@@ -100,12 +100,12 @@ export interface AnalyzeOptions {
   /**
    * Computes a layer's spectrum (fit/layerSpectrum.ts, from its samples only) elsewhere, e.g. on
    * another thread. When given, every layer's is asked for before the first fit, so they are
-   * ready as the fits reach them; it must resolve to what layerSpectrum would return. Given the
-   * samples' times too (timeS), it may add the turning points they show
-   * (fit/observedTurningPoints.ts on tauS, timeS, y), which the results then take.
+   * ready as the fits reach them; it must resolve to what layerSpectrum would return. Given
+   * `work`, it may add what layerSampleWork returns for it (the turning points the samples show,
+   * their bin means), which the fits and results then take.
    * @default layerSpectrum, in turn, on this thread
    */
-  spectrumOf?: (tauS: Float64Array, y: Float64Array, wavelengthNm: number, index: number, timeS?: Float64Array) => Promise<LayerSpectrum & { observed?: ObservedTurningPoints }>;
+  spectrumOf?: (tauS: Float64Array, y: Float64Array, wavelengthNm: number, index: number, work?: SampleWork) => Promise<LayerSpectrum & Partial<SampleWorkResult>>;
 }
 
 export interface TurningPointAt {
