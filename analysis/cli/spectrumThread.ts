@@ -1,27 +1,27 @@
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
-import { idleNoiseModelOf } from '../fit/idleNoiseModel';
 import { layerSpectrum, type LayerSpectrum } from '../fit/layerSpectrum';
 import { layerSampleWork, type SampleWork, type SampleWorkResult } from '../fit/layerSampleWork';
 import { type AnalyzeOptions } from '../fit/types';
-import { type Ar1PlusWhite } from '../stats';
 
 // The analyze command computes the layers' spectra (and the work on their samples that needs no
-// fit, layerSampleWork) and the idle stretches' noise model on a second thread while the main one
-// fits (AnalyzeOptions.spectrumOf, idleNoiseOf): the same functions on the same samples, so the
-// same figures.
+// fit, layerSampleWork) on a second thread while the main one fits (AnalyzeOptions.spectrumOf):
+// the same functions on the same samples, so the same figures.
 
 type Answer = LayerSpectrum & Partial<SampleWorkResult>;
 
 const ROLE = 'fringelog-layer-spectra';
 
-type Request = { id: number } & (
-  | { tauS: Float64Array; y: Float64Array; wavelengthNm: number; index: number; work?: SampleWork }
-  | { idleParts: Float64Array[] }
-);
+interface Request {
+  id: number;
+  tauS: Float64Array;
+  y: Float64Array;
+  wavelengthNm: number;
+  index: number;
+  work?: SampleWork;
+}
 
 /** What the thread answers to a request (and this thread, when that one cannot). */
-function answer(r: Request): Answer | Ar1PlusWhite | null {
-  if ('idleParts' in r) return idleNoiseModelOf(r.idleParts);
+function answer(r: Request): Answer {
   const spectrum = layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
   return r.work ? { ...spectrum, ...layerSampleWork(r.tauS, r.y, r.work) } : spectrum;
 }
@@ -29,7 +29,7 @@ function answer(r: Request): Answer | Ar1PlusWhite | null {
 /** True in the thread startSpectrumThread starts (which runs the command's own module). */
 export const isSpectrumThread = !isMainThread && (workerData as { role?: string } | null)?.role === ROLE;
 
-/** The thread's side: answers each request (answer). */
+/** The thread's side: answers each request with layerSpectrum. */
 export function serveSpectra(): void {
   parentPort!.on('message', (r: Request) => {
     parentPort!.postMessage({ id: r.id, spectrum: answer(r) });
@@ -40,10 +40,8 @@ export function serveSpectra(): void {
  * Starts a thread on `entry` (the command's own module, which calls serveSpectra there). Any
  * request the thread cannot answer (it failed to start or stopped) is computed here instead.
  */
-export function startSpectrumThread(entry: URL): {
-  spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; idleNoiseOf: NonNullable<AnalyzeOptions['idleNoiseOf']>; close: () => void;
-} {
-  const pending = new Map<number, { request: Request; resolve: (s: ReturnType<typeof answer>) => void }>();
+export function startSpectrumThread(entry: URL): { spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; close: () => void } {
+  const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
   const local = answer;
   let worker: Worker | null = null;
   let closed = false;
@@ -56,7 +54,7 @@ export function startSpectrumThread(entry: URL): {
   try {
     worker = new Worker(entry, { workerData: { role: ROLE } });
     worker.unref();
-    worker.on('message', (m: { id: number; spectrum: ReturnType<typeof answer> }) => {
+    worker.on('message', (m: { id: number; spectrum: Answer }) => {
       pending.get(m.id)?.resolve(m.spectrum);
       pending.delete(m.id);
     });
@@ -66,17 +64,16 @@ export function startSpectrumThread(entry: URL): {
     worker = null;
   }
   let next = 0;
-  const ask = (request: Request): Promise<ReturnType<typeof answer>> => {
-    if (!worker) return Promise.resolve(local(request));
-    const w = worker;
-    return new Promise((resolve) => {
-      pending.set(request.id, { request, resolve });
-      w.postMessage(request);
-    });
-  };
   return {
-    spectrumOf: (tauS, y, wavelengthNm, index, work) => ask({ id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) }) as Promise<Answer>,
-    idleNoiseOf: (idleParts) => ask({ id: next++, idleParts }) as Promise<Ar1PlusWhite | null>,
+    spectrumOf: (tauS, y, wavelengthNm, index, work) => {
+      const request: Request = { id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) };
+      if (!worker) return Promise.resolve(local(request));
+      const w = worker;
+      return new Promise((resolve) => {
+        pending.set(request.id, { request, resolve });
+        w.postMessage(request);
+      });
+    },
     close: () => {
       // the analysis is over (done, or failed): nothing pending is wanted any more
       closed = true;

@@ -8,7 +8,7 @@ import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
 import { fitLayers, type JointFitResult, type LayerEstimate } from './fitLayers';
 import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
-import { idleNoiseModelOf } from './idleNoiseModel';
+import { idleNoiseModel } from './idleNoiseModel';
 import { LayerEnds } from './layerEnds';
 import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
@@ -114,8 +114,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   const samplesByLayer = gatherLayerSamples(trace, layerSegments);
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
-  // Made when the first layer ends (the noise model may come from another thread meanwhile).
-  let ends: LayerEnds | null = null;
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleNoiseModel(trace, seg.idle));
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }
@@ -132,11 +131,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     const onChip = order.filter((l) => samplesByLayer.get(l.layer)!.chip === chip && samplesByLayer.get(l.layer)!.tauS.length >= 10).length;
     return [o.maxFitPoints, o.refitPointsPerLayer, 150, finalPointsPerLayer(o, onChip)];
   };
-  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order.slice(0, 1), samplesByLayer, binPoints) : null;
-  // The idle stretches' noise model next (wanted when the first layer ends), then the other spectra.
-  const parts = byDesign ? [] : seg.idle.map((s) => trace.signal.slice(s.startIndex, s.endIndex));
-  const endsNoise = byDesign ? null : o.idleNoiseOf ? o.idleNoiseOf(parts) : Promise.resolve(idleNoiseModelOf(parts));
-  if (o.spectrumOf) for (const [l, p] of requestSpectra(o.spectrumOf, design, trace, order.slice(1), samplesByLayer, binPoints)) spectra!.set(l, p);
+  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints) : null;
   const noiseFloor = idleNoise(trace, seg.idle);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
@@ -235,7 +230,6 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     }
     const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
     // The growth after the cut of the layer below, from where this layer starts on its fringe (LayerEnds).
-    if (endsNoise && !ends) ends = new LayerEnds(trace, samplesByLayer, warnings, await endsNoise);
     if (o.growthFromNext && ends?.fromNext(chip, below, fit, single, calibration.offset, c, stacks.get(chip))) {
       const e = single.layers[0];
       single = fitSingle(e.index, e.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : e.gain));
@@ -290,7 +284,6 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     if (done % 4 === 0) await Promise.resolve();
   }
 
-  if (endsNoise && !ends) ends = new LayerEnds(trace, samplesByLayer, warnings, await endsNoise);
   if (o.mode === 'refit') {
     // Thin layers: hold at the drift estimate from the whole run, then one final joint fit per chip.
     const points = states.map(toIndexPoint);

@@ -19,15 +19,11 @@ const MAX_STEPS = 12;
  * noise, every step's variogram pooled. Null when no step is long enough.
  */
 export function idleNoiseModel(trace: TraceData, idle: readonly { startIndex: number; endIndex: number }[]): Ar1PlusWhite | null {
-  return idleNoiseModelOf(idle.map((s) => trace.signal.subarray(s.startIndex, s.endIndex)));
-}
-
-/** idleNoiseModel from the idle stretches' readings, in their order (so another thread can compute it from copies). */
-export function idleNoiseModelOf(parts: readonly Float64Array[]): Ar1PlusWhite | null {
   const pool = newVariogramPool();
   let model: Ar1PlusWhite | null = null;
   let read = 0, steps = 0;
-  for (const part of parts) {
+  for (const s of idle) {
+    const part = trace.signal.subarray(s.startIndex, s.endIndex);
     if (part.length < MIN_STEP_SAMPLES) continue;
     for (const step of levelSteps(part, { minLength: MIN_STEP_SAMPLES })) {
       if (step.end - step.start < MIN_STEP_SAMPLES) continue;

@@ -1,4 +1,4 @@
-import { type Ar1PlusWhite, type MaterialDrift } from '../stats';
+import { type MaterialDrift } from '../stats';
 import { type ChipCalibration } from './calibrateChip';
 import { type LayerSpectrum } from './layerSpectrum';
 import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
@@ -106,13 +106,6 @@ export interface AnalyzeOptions {
    * @default layerSpectrum, in turn, on this thread
    */
   spectrumOf?: (tauS: Float64Array, y: Float64Array, wavelengthNm: number, index: number, work?: SampleWork) => Promise<LayerSpectrum & Partial<SampleWorkResult>>;
-  /**
-   * Computes the detector's noise model from the idle stretches' readings (fit/idleNoiseModel.ts
-   * idleNoiseModelOf) elsewhere, e.g. on another thread; asked for after the first layer's
-   * spectrum, taken when the first layer ends.
-   * @default idleNoiseModelOf on this thread
-   */
-  idleNoiseOf?: (parts: Float64Array[]) => Promise<Ar1PlusWhite | null>;
 }
 
 export interface TurningPointAt {

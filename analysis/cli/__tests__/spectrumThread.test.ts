@@ -5,8 +5,6 @@ import { pathToFileURL } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { parseDesign } from '../../design';
 import { analyzeRun } from '../../fit/analyzeRun';
-import { idleNoiseModelOf } from '../../fit/idleNoiseModel';
-import { layerSampleWork } from '../../fit/layerSampleWork';
 import { layerSpectrum } from '../../fit/layerSpectrum';
 import { readTrace } from '../../trace';
 import { startSpectrumThread } from '../spectrumThread';
@@ -28,21 +26,6 @@ describe('the analyze command computes spectra on a second thread', () => {
     t.close();
     expect(got).toEqual(layerSpectrum(tauS, y, 550, 2.1));
     expect(got.fringeRateNmPerS).not.toBeNull();
-  });
-
-  it('answers the samples\' other work and the idle noise model from this thread too, as the functions do', async () => {
-    const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
-    const tauS = Float64Array.from({ length: 600 }, (_, i) => i * 0.5);
-    const y = tauS.map((s) => 0.5 + 0.3 * Math.sin(s / 9) + 0.001 * Math.sin(s * 7.3));
-    const work = { timeS: tauS.map((s) => 100 + s), binPoints: [50, 400, 900] };
-    const idleParts = [y.slice(0, 200), y.slice(300)];
-    const [got, noise] = [await t.spectrumOf(tauS, y, 550, 2.1, work), await t.idleNoiseOf(idleParts)];
-    t.close();
-    expect(got).toEqual({ ...layerSpectrum(tauS, y, 550, 2.1), ...layerSampleWork(tauS, y, work) });
-    expect(got.binned!.map((b) => b.tauS.length)).toEqual([50, 400, 600]);
-    expect(got.observed!.points.length).toBeGreaterThan(3);
-    expect(noise).not.toBeNull();
-    expect(noise).toEqual(idleNoiseModelOf(idleParts));
   });
 
   it('the bundled command (thread on) prints what analyzeRun gives in process (no thread)', async () => {
