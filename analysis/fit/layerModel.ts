@@ -120,6 +120,11 @@ export function evaluateLayers(
   fromLayer = 0,
   /** Adds deltaNm to the thickness of layer `layer` throughout (for thickness derivatives). */
   shift?: { layer: number; deltaNm: number },
+  /**
+   * The growing layers' phase terms over the whole output (PhaseCache): `fill` writes them; else
+   * each layer after `after` reads them (its own index and thicknesses as when they were written).
+   */
+  phase?: { cos: Float64Array; sin: Float64Array; fill: boolean; after: number },
 ): void {
   const values = layers.map((l, j) => decodeLayer(l, p, layout.offsets[j], layout));
   let pos = 0;
@@ -144,7 +149,8 @@ export function evaluateLayers(
       if (dd !== 0) for (let i = 0; i < n; i++) view[i] += dd;
     } else thicknessSeries(tauS, v.rateNmPerS, v.rateDriftNmPerS2, dd, view);
     // Normal incidence: s and p coincide, so one polarization suffices.
-    growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view);
+    const cache = phase && (phase.fill || j > phase.after) ? { cos: phase.cos.subarray(pos, pos + n), sin: phase.sin.subarray(pos, pos + n), fill: phase.fill } : undefined;
+    growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view, cache);
     const w = layer.weight ?? 1;
     const known = layer.gainDriftPerS ?? 0;
     if (layout.shared >= 0) {
@@ -218,6 +224,13 @@ export function jacobianLayers(
   out.fill(0);
   const scratch = new Float64Array(total);
   const q = new Float64Array(p);
+  // A difference in layer i leaves every later layer's own phase thickness as it is: with more
+  // than one layer, those are computed once here and read back (the same values).
+  const phase = layers.length > 1 ? { cos: new Float64Array(total), sin: new Float64Array(total), fill: true, after: -1 } : undefined;
+  if (phase) {
+    evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, scratch, 0, undefined, phase);
+    phase.fill = false;
+  }
   let pos = 0;
   for (let i = 0; i < layers.length; i++) {
     const layer = layers[i];
@@ -239,7 +252,7 @@ export function jacobianLayers(
       } else if (j === indexParam) {
         const h = steps[j];
         q[j] = p[j] + h;
-        evaluateLayers(fixedBelow, layers, layout, q, offsetSignal, scratch, i);
+        evaluateLayers(fixedBelow, layers, layout, q, offsetSignal, scratch, i, undefined, phase && { ...phase, after: i });
         q[j] = p[j];
         for (let x = pos; x < total; x++) out[row + x] = (scratch[x] - modelAtP[x]) / h;
       }
@@ -247,7 +260,7 @@ export function jacobianLayers(
     // One thickness difference for rate and drift.
     const T = layer.durationS;
     const h = Math.max(steps[rateParam] * T, 1e-9);
-    evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, scratch, i, { layer: i, deltaNm: h });
+    evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, scratch, i, { layer: i, deltaNm: h }, phase && { ...phase, after: i });
     const rowR = rateParam * total, rowA = driftParam * total;
     if (wk === 0) rateColumns(scratch, modelAtP, h, layer.tauS, T, pos, out, rowR, driftParam >= 0 ? rowA : -1);
     else {
