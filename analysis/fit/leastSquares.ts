@@ -107,11 +107,15 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
     lower[i] = problem.min ? (problem.min[i] - start[i]) / unit[i] : -Infinity;
     upper[i] = problem.max ? (problem.max[i] - start[i]) / unit[i] : Infinity;
   }
+  // The solver starts at u = 0, where the model and the Jacobian are those just computed at the
+  // start (toPhysical(0) is the start exactly): taken from there, not computed again.
+  const atStart = (u: Float64Array) => u.every((v) => v === 0);
   const solverProblem = {
     n, p: np, y: problem.y, lower, upper, columnRows: problem.columnRows,
-    model: (u: Float64Array, out: Float64Array) => problem.model(toPhysical(u), out),
+    model: (u: Float64Array, out: Float64Array) => (atStart(u) ? out.set(at0) : problem.model(toPhysical(u), out)),
     jacobian: (u: Float64Array, at: Float64Array, out: Float64Array) => {
-      physicalJacobian(toPhysical(u), at, out);
+      if (atStart(u)) out.set(j0);
+      else physicalJacobian(toPhysical(u), at, out);
       for (let j = 0; j < np; j++) {
         const c = unit[j];
         for (let i = j * n, end = i + n; i < end; i++) out[i] *= c;
