@@ -17,8 +17,7 @@ async function loadTrace(path: string, layerCount: number): Promise<TraceData> {
     throw new CliInputError(`${path}: cannot read file: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`);
   }
   try {
-    // 1 MiB reads: a sixteenth of the stream's round trips at its 64 KiB default (the reader keeps no chunk)
-    return await readTrace(createReadStream(path, { highWaterMark: 1 << 20 }), { fileName: path, layerCount });
+    return await readTrace(createReadStream(path), { fileName: path, layerCount });
   } catch (e) {
     if (e instanceof TraceFormatError) throw new CliInputError(e.message);
     throw e;

@@ -141,6 +141,16 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
     if (line === 1 && text.charCodeAt(0) === 0xfeff) text = text.slice(1);
     parser.line(text, line);
   };
+  /** Whole lines' bytes as text (the file's first line's byte-order marks dropped as slowLine drops them); null when not valid UTF-8. */
+  const decodeLines = (b: Uint8Array): string | null => {
+    try {
+      // feed drops a second mark at the file's start (first), and none after
+      first = lineNo === 0;
+      return (lineNo === 0 ? firstLineDecoder : lineDecoder).decode(b);
+    } catch {
+      return null;
+    }
+  };
   let pieces: Uint8Array[] = [];
   let pieceBytes = 0;
   const joinPieces = (tail: Uint8Array): Uint8Array => {
@@ -184,13 +194,30 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
       start = nl + 1;
       nl = chunk.indexOf(10, start);
     }
+    let wholeText = true;
     for (;;) {
       const rows = parser.rowCount;
       start = parser.rowsBytes(chunk, start, chunk.length);
       lineNo += parser.rowCount - rows;
       nl = chunk.indexOf(10, start);
       if (nl < 0) break;
-      // a line rowsBytes could not read
+      // A line rowsBytes could not read (metadata, the header, a fault), with the lines after it
+      // that cannot start a data row: read as text in one decode, as feed reads them (a file of
+      // many comment lines then makes no object per line); line by line where the decode fails,
+      // for the first fault's line.
+      let end = nl;
+      for (let next = end + 1; next < chunk.length && !startsNumber(chunk[next]); next = end + 1) {
+        const e = chunk.indexOf(10, next);
+        if (e < 0) break;
+        end = e;
+      }
+      const text = wholeText ? decodeLines(chunk.subarray(start, end + 1)) : null;
+      if (text !== null) {
+        feed(text);
+        start = end + 1;
+        continue;
+      }
+      wholeText = false;
       lineNo++;
       if (!parser.rowBytes(chunk, start, nl)) slowLine(chunk.subarray(start, nl), lineNo);
       start = nl + 1;
@@ -228,6 +255,9 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
 export function readTraceText(text: string, options: ReadTraceOptions = {}): Promise<TraceData> {
   return readTrace([text], options);
 }
+
+/** A byte that can open a plain decimal: a digit, a sign or a point. */
+const startsNumber = (b: number): boolean => (b >= 48 && b <= 57) || b === 45 || b === 43 || b === 46;
 
 function utf8Length(s: string): number {
   let n = 0;
