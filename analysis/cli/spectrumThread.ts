@@ -1,9 +1,13 @@
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
 import { layerSpectrum, type LayerSpectrum } from '../fit/layerSpectrum';
+import { layerSampleWork, type SampleWork, type SampleWorkResult } from '../fit/layerSampleWork';
 import { type AnalyzeOptions } from '../fit/types';
 
-// The analyze command computes the layers' spectra on a second thread while the main one fits
-// (AnalyzeOptions.spectrumOf): the same function on the same samples, so the same figures.
+// The analyze command computes the layers' spectra (and the work on their samples that needs no
+// fit, layerSampleWork) on a second thread while the main one fits (AnalyzeOptions.spectrumOf):
+// the same functions on the same samples, so the same figures.
+
+type Answer = LayerSpectrum & Partial<SampleWorkResult>;
 
 const ROLE = 'fringelog-layer-spectra';
 
@@ -13,6 +17,13 @@ interface Request {
   y: Float64Array;
   wavelengthNm: number;
   index: number;
+  work?: SampleWork;
+}
+
+/** What the thread answers to a request (and this thread, when that one cannot). */
+function answer(r: Request): Answer {
+  const spectrum = layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
+  return r.work ? { ...spectrum, ...layerSampleWork(r.tauS, r.y, r.work) } : spectrum;
 }
 
 /** True in the thread startSpectrumThread starts (which runs the command's own module). */
@@ -21,7 +32,7 @@ export const isSpectrumThread = !isMainThread && (workerData as { role?: string 
 /** The thread's side: answers each request with layerSpectrum. */
 export function serveSpectra(): void {
   parentPort!.on('message', (r: Request) => {
-    parentPort!.postMessage({ id: r.id, spectrum: layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index) });
+    parentPort!.postMessage({ id: r.id, spectrum: answer(r) });
   });
 }
 
@@ -30,8 +41,8 @@ export function serveSpectra(): void {
  * request the thread cannot answer (it failed to start or stopped) is computed here instead.
  */
 export function startSpectrumThread(entry: URL): { spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; close: () => void } {
-  const pending = new Map<number, { request: Request; resolve: (s: LayerSpectrum) => void }>();
-  const local = (r: Request) => layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
+  const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
+  const local = answer;
   let worker: Worker | null = null;
   let closed = false;
   const fail = () => {
@@ -43,7 +54,7 @@ export function startSpectrumThread(entry: URL): { spectrumOf: NonNullable<Analy
   try {
     worker = new Worker(entry, { workerData: { role: ROLE } });
     worker.unref();
-    worker.on('message', (m: { id: number; spectrum: LayerSpectrum }) => {
+    worker.on('message', (m: { id: number; spectrum: Answer }) => {
       pending.get(m.id)?.resolve(m.spectrum);
       pending.delete(m.id);
     });
@@ -54,8 +65,8 @@ export function startSpectrumThread(entry: URL): { spectrumOf: NonNullable<Analy
   }
   let next = 0;
   return {
-    spectrumOf: (tauS, y, wavelengthNm, index) => {
-      const request = { id: next++, tauS, y, wavelengthNm, index };
+    spectrumOf: (tauS, y, wavelengthNm, index, work) => {
+      const request: Request = { id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) };
       if (!worker) return Promise.resolve(local(request));
       const w = worker;
       return new Promise((resolve) => {

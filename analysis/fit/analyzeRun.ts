@@ -17,6 +17,8 @@ import { carryOffsetSigma } from './offsetSigma';
 import { DEFAULT_LAMP_STABILITY_PER_HOUR, gainDriftPrior } from './gainDriftPrior';
 import { carryGainDriftSigma, carryJointGainDriftSigma } from './gainDriftSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
+import { type SampleWorkResult } from './layerSampleWork';
+import { type ObservedTurningPoints } from './observedTurningPoints';
 import { requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
@@ -64,6 +66,8 @@ export interface LayerState {
   /** Weight of the layer in joint fits (see FitLayerData.weight). */
   weight: number;
   spectrum: LayerSpectrum;
+  /** The turning points the layer's readings show, when computed with its spectrum (AnalyzeOptions.spectrumOf). */
+  observed?: ObservedTurningPoints;
 }
 
 function heldNoteFor(held: number, nominal: number, from: number, qwot: number, wl: number, wholeRun: boolean, why: string): string {
@@ -173,7 +177,13 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
   if (mismatch) warnings.push(mismatch);
 
   // Spectra depend on each layer's samples only: with spectrumOf, all are asked for now.
-  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer) : null;
+  // …with the bin means the fits will take: the pass's three sizes and the final joint fit's.
+  const binPoints = (layer: number) => {
+    const chip = samplesByLayer.get(layer)!.chip;
+    const onChip = order.filter((l) => samplesByLayer.get(l.layer)!.chip === chip && samplesByLayer.get(l.layer)!.tauS.length >= 10).length;
+    return [o.maxFitPoints, o.refitPointsPerLayer, 150, finalPointsPerLayer(o, onChip)];
+  };
+  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints) : null;
   const noiseFloor = idleNoise(trace, seg.idle);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
@@ -232,11 +242,12 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       continue;
     }
     const durationS = samples.tauS[n - 1];
+    const { observed, binned: binnedElsewhere, ...spectrum }: LayerSpectrum & Partial<SampleWorkResult> = spectra ? await spectra.get(dl.layer)! : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     // make() is called again after the pass (final refit), when the layer's state exists.
     const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean } = {};
     const make = (maxPoints: number): FitLayerData => {
       // Bin means, not picked samples: every sample's information at a fraction of the points.
-      const binned = binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
+      const binned = binnedElsewhere?.find((b) => b.points === maxPoints) ?? binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
       return {
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
@@ -248,7 +259,6 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
     const fit = make(o.maxFitPoints);
     const refit = make(o.refitPointsPerLayer);
     const grid = make(150);
-    const spectrum = spectra ? await spectra.get(dl.layer)! : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     const gridInput = {
       gain: fit.heldGain ?? undefined, optics, below, extinction: -nominal.im, tauS: grid.tauS, y: grid.y, offsetSignal: calibration.offset,
       index: nominal.re, searchIndex: !thin, rateGuessNmPerS: dl.thicknessNm / Math.max(durationS, 1e-9),
@@ -362,7 +372,7 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
     refit.weight = weight;
     const state: LayerState = {
       weight, qwotAtMonitor, design: dl, samples, optics, nominal, fit, refit, make, estimate: single.layers[0], iterations: single.solver.iterations, fitPoints: fit.tauS.length,
-      converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum,
+      converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum, ...(observed ? { observed } : {}),
       ...(separation?.hold ? { heldWhy: separation.reason, heldIndexSigma: heldSigma } : {}),
       ...(built.wanderVariance !== undefined ? { wanderVarianceNm2: built.wanderVariance } : {}),
       ...(gradientTrial ? { gradientTrial } : {}),
@@ -394,17 +404,18 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       s.estimate = { ...s.estimate, index: held };
     }
     for (const [chip, chipStates] of chipLayers) {
-      const perLayer = Math.max(100, Math.min(o.maxFitPoints, Math.floor(o.refitFinalPoints / chipStates.length)));
+      const perLayer = finalPointsPerLayer(o, chipStates.length);
       const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
       const data = chipStates.map((p) => p.make(perLayer));
-      const shared = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
+      const joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
+      const shared = joint.sharedGain;
       // Each growth after a cut read again against the jointly fitted stack (LayerEnds), wanders held at the fit's knots.
       const knotsHeld = data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
       ends?.afterJointFit(knotsHeld, chipStates, chipStates[0].calibration.offset, cg);
       // A held index's own σ, into every layer of the chip (the joint fit took the index as exact).
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
-      carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss);
+      carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
       carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss);
       if (shared) {
         cal.refinedGain = shared.gain;
@@ -444,7 +455,7 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
 export function refitChip(
   data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean,
   chipGain: SharedGain | null, robust = true,
-): JointFitResult['sharedGain'] {
+): JointFitResult {
   // A wandering rate's knots are free in the final joint fit; the refits during the pass hold them
   // (at the current estimate) and add what that costs the end thickness's variance.
   const layers = final ? data : data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
@@ -466,7 +477,12 @@ export function refitChip(
       s.fitPoints = data[j].tauS.length;
     }
   });
-  return joint.sharedGain;
+  return joint;
+}
+
+/** Points per layer in a chip's final joint fit of `layers` layers. */
+function finalPointsPerLayer(o: { maxFitPoints: number; refitFinalPoints: number }, layers: number): number {
+  return Math.max(100, Math.min(o.maxFitPoints, Math.floor(o.refitFinalPoints / layers)));
 }
 
 export function toIndexPoint(s: LayerState): IndexPoint {

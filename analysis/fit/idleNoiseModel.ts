@@ -1,4 +1,4 @@
-import { fitAr1PlusWhite, newVariogramPool, type Ar1PlusWhite } from '../stats';
+import { addToVariogramPool, fitPooledVariogram, newVariogramPool, type Ar1PlusWhite } from '../stats';
 import { levelSteps, type TraceData } from '../trace';
 
 /** Flat stretches shorter than this add too few lags to the variogram. */
@@ -10,7 +10,7 @@ const MIN_STEP_SAMPLES = 12;
  */
 const MAX_STEP_SAMPLES = 1000;
 const MAX_SAMPLES = 20_000;
-/** …and from at most this many steps (each read refits the pooled variogram). */
+/** …and from at most this many steps. */
 const MAX_STEPS = 12;
 
 /**
@@ -20,20 +20,21 @@ const MAX_STEPS = 12;
  */
 export function idleNoiseModel(trace: TraceData, idle: readonly { startIndex: number; endIndex: number }[]): Ar1PlusWhite | null {
   const pool = newVariogramPool();
-  let model: Ar1PlusWhite | null = null;
+  // Every step's variogram into the pool, one fit at the end (fitAr1PlusWhite's after the last step).
+  let lags: number[] | null = null;
   let read = 0, steps = 0;
-  for (const s of idle) {
+  reading: for (const s of idle) {
     const part = trace.signal.subarray(s.startIndex, s.endIndex);
     if (part.length < MIN_STEP_SAMPLES) continue;
     for (const step of levelSteps(part, { minLength: MIN_STEP_SAMPLES })) {
       if (step.end - step.start < MIN_STEP_SAMPLES) continue;
       const end = Math.min(step.end, step.start + MAX_STEP_SAMPLES);
-      model = fitAr1PlusWhite(part.subarray(step.start, end), 40, pool);
+      lags = addToVariogramPool(part.subarray(step.start, end), 40, pool);
       read += end - step.start;
-      if (read >= MAX_SAMPLES || ++steps >= MAX_STEPS) return model;
+      if (read >= MAX_SAMPLES || ++steps >= MAX_STEPS) break reading;
     }
   }
-  return model;
+  return lags ? fitPooledVariogram(lags, pool) : null;
 }
 
 /**

@@ -87,13 +87,17 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
       ssr += r[pos] * r[pos];
     }
   }
+  // A column is zero before its layer's samples (a growth's: before the next layer's): each
+  // product runs from the later of the two first non-zero rows, the same sum.
+  const first = new Int32Array(M);
+  for (let a = 0; a < M; a++) {
+    let i = 0;
+    while (i < N && J[a * N + i] === 0) i++;
+    first[a] = i;
+  }
   const A = new Float64Array(M * M);
   for (let a = 0; a < M; a++) {
-    for (let b = a; b < M; b++) {
-      let s = 0;
-      for (let i = 0, oa = a * N, ob = b * N; i < N; i++) s += J[oa + i] * J[ob + i];
-      A[a * M + b] = A[b * M + a] = s;
-    }
+    for (let b = a; b < M; b++) A[a * M + b] = A[b * M + a] = columnProduct(J, a * N, b * N, Math.max(first[a], first[b]), N);
   }
   // The gain drift's prior row (as in the joint fit): its c² on γ's diagonal.
   const priorWeight = sharedGain?.fitDrift ? sharedGain.driftPrior?.weight : undefined;
@@ -202,4 +206,11 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
     const finalRate = Math.max(lawRate(v, layer.wander, T), 1e-9);
     return { estimate, growth, durationS: growth ? T + growth.deltaNm / finalRate : layer.durationS };
   });
+}
+
+/** Σ J[oa + i]·J[ob + i] over i in [from, to). */
+function columnProduct(J: Float64Array, oa: number, ob: number, from: number, to: number): number {
+  let s = 0;
+  for (let i = from; i < to; i++) s += J[oa + i] * J[ob + i];
+  return s;
 }

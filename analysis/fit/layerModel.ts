@@ -131,6 +131,11 @@ export function evaluateLayers(
   fromLayer = 0,
   /** Adds deltaNm to the thickness of layer `layer` throughout (for thickness derivatives). */
   shift?: { layer: number; deltaNm: number },
+  /**
+   * The growing layers' phase terms over the whole output (PhaseCache): `fill` writes them; else
+   * each layer after `after` reads them (its own index and thicknesses as when they were written).
+   */
+  phase?: { cos: Float64Array; sin: Float64Array; fill: boolean; after: number },
 ): void {
   const values = layers.map((l, j) => decodeLayer(l, p, layout.offsets[j], layout));
   let pos = 0;
@@ -145,29 +150,64 @@ export function evaluateLayers(
       below.push(b);
     }
     const growing = fromNK(v.index, layer.extinction);
-    const n = layer.tauS.length;
+    // The layer's fields read once, not per sample (the layers' objects differ in shape).
+    const tauS = layer.tauS;
+    const n = tauS.length;
     const view = out.subarray(pos, pos + n);
     const dd = shift && shift.layer === j ? shift.deltaNm : 0;
     if (layer.wander) {
-      lawThicknessSeries(v, layer.wander, layer.tauS, view);
+      lawThicknessSeries(v, layer.wander, tauS, view);
       if (dd !== 0) for (let i = 0; i < n; i++) view[i] += dd;
-    } else for (let i = 0; i < n; i++) view[i] = thicknessAt(layer.tauS[i], v.rateNmPerS, v.rateDriftNmPerS2) + dd;
+    } else thicknessSeries(tauS, v.rateNmPerS, v.rateDriftNmPerS2, dd, view);
     // Normal incidence: s and p coincide, so one polarization suffices.
     const dn = v.indexGradient ?? 0;
     if (dn !== 0) {
       // graded: the profile spans the layer's end thickness, its mean the fitted index
       const end = Math.max(lawThickness(v, layer.wander, layer.durationS), 1e-9);
       gradedGrowingSignal({ ...layer.optics, below, growing: fromNK(v.index - dn / 2, layer.extinction), pol: 's' }, dn / end, view, view);
-    } else growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view);
+    } else {
+      // a later layer's own phase terms do not depend on the parameter being stepped: reuse them
+      const cache = phase && (phase.fill || j > phase.after) ? { cos: phase.cos.subarray(pos, pos + n), sin: phase.sin.subarray(pos, pos + n), fill: phase.fill } : undefined;
+      growingLayerSignal({ ...layer.optics, below, growing, pol: 's' }, view, view, cache);
+    }
     const w = layer.weight ?? 1;
     const known = layer.gainDriftPerS ?? 0;
     if (layout.shared >= 0) {
-      for (let i = 0; i < n; i++) view[i] = w * (sharedGainAt(p, layout, layer.chipTimeS + layer.tauS[i], known) * view[i] + offsetSignal);
+      // sharedGainAt(p, layout, t, known) with its two parameters read once
+      const G = p[layout.shared], gamma = layout.sharedDrift < 0 ? known : p[layout.sharedDrift];
+      scaleSeries(view, tauS, G, gamma, layer.chipTimeS, w, offsetSignal);
     } else if (known !== 0) {
-      for (let i = 0; i < n; i++) view[i] = w * (v.gain * (1 + known * layer.tauS[i]) * view[i] + offsetSignal);
+      for (let i = 0; i < n; i++) view[i] = w * (v.gain * (1 + known * tauS[i]) * view[i] + offsetSignal);
     } else for (let i = 0; i < n; i++) view[i] = w * (v.gain * view[i] + offsetSignal);
     pos += n;
   }
+}
+
+/**
+ * The rate and drift columns from one thickness difference (jacobianLayers, no wander): over the
+ * layer's own samples (from pos) τ, beyond them τ = T. rowA < 0: no drift column.
+ */
+function rateColumns(
+  scratch: Float64Array, modelAtP: Float64Array, h: number, tauS: Float64Array, T: number, pos: number,
+  out: Float64Array, rowR: number, rowA: number,
+): void {
+  const total = modelAtP.length, own = pos + tauS.length;
+  for (let x = pos; x < total; x++) {
+    const dSdd = (scratch[x] - modelAtP[x]) / h;
+    const tau = x < own ? tauS[x - pos] : T;
+    out[rowR + x] = dSdd * tau;
+    if (rowA >= 0) out[rowA + x] = 0.5 * dSdd * tau * tau;
+  }
+}
+
+/** d(τ) + dd at each τ, into out (thicknessAt per sample). */
+function thicknessSeries(tauS: Float64Array, rate: number, drift: number, dd: number, out: Float64Array): void {
+  for (let i = 0; i < tauS.length; i++) out[i] = thicknessAt(tauS[i], rate, drift) + dd;
+}
+
+/** w·(G·(1 + γ·(t₀ + τ))·M + offset) in place of M at each τ (sharedGainAt per sample). */
+function scaleSeries(view: Float64Array, tauS: Float64Array, G: number, gamma: number, t0: number, w: number, offsetSignal: number): void {
+  for (let i = 0; i < view.length; i++) view[i] = w * (G * (1 + gamma * (t0 + tauS[i])) * view[i] + offsetSignal);
 }
 
 /**
@@ -205,6 +245,13 @@ export function jacobianLayers(
   out.fill(0);
   const scratch = new Float64Array(total);
   const q = new Float64Array(p);
+  // A difference in layer i leaves every later layer's own phase thickness as it is: with more
+  // than one layer, those are computed once here and read back (the same values).
+  const phase = layers.length > 1 ? { cos: new Float64Array(total), sin: new Float64Array(total), fill: true, after: -1 } : undefined;
+  if (phase) {
+    evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, scratch, 0, undefined, phase);
+    phase.fill = false;
+  }
   let pos = 0;
   for (let i = 0; i < layers.length; i++) {
     const layer = layers[i];
@@ -227,7 +274,7 @@ export function jacobianLayers(
       } else if (j === indexParam || j === gradientParam) {
         const h = steps[j];
         q[j] = p[j] + h;
-        evaluateLayers(fixedBelow, layers, layout, q, offsetSignal, scratch, i);
+        evaluateLayers(fixedBelow, layers, layout, q, offsetSignal, scratch, i, undefined, phase && { ...phase, after: i });
         q[j] = p[j];
         for (let x = pos; x < total; x++) out[row + x] = (scratch[x] - modelAtP[x]) / h;
       }
@@ -235,14 +282,15 @@ export function jacobianLayers(
     // One thickness difference for rate and drift.
     const T = layer.durationS;
     const h = Math.max(steps[rateParam] * T, 1e-9);
-    evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, scratch, i, { layer: i, deltaNm: h });
+    evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, scratch, i, { layer: i, deltaNm: h }, phase && { ...phase, after: i });
     const rowR = rateParam * total, rowA = driftParam * total;
-    for (let x = pos; x < total; x++) {
-      const dSdd = (scratch[x] - modelAtP[x]) / h;
-      const tau = x < pos + n ? layer.tauS[x - pos] : T;
-      out[rowR + x] = dSdd * tau;
-      if (driftParam >= 0) out[rowA + x] = 0.5 * dSdd * tau * tau;
-      if (wk > 0) {
+    if (wk === 0) rateColumns(scratch, modelAtP, h, layer.tauS, T, pos, out, rowR, driftParam >= 0 ? rowA : -1);
+    else {
+      for (let x = pos; x < total; x++) {
+        const dSdd = (scratch[x] - modelAtP[x]) / h;
+        const tau = x < pos + n ? layer.tauS[x - pos] : T;
+        out[rowR + x] = dSdd * tau;
+        if (driftParam >= 0) out[rowA + x] = 0.5 * dSdd * tau * tau;
         // ∂d/∂v_j = Ψ_j(τ): constant over the later layers (τ = T)
         if (x < pos + n || x === pos + n) wanderBasis(layer.wander!, tau, basis);
         for (let j = 0; j < wk; j++) out[(wanderParam + j) * total + x] = dSdd * basis[j];
@@ -256,11 +304,21 @@ export function jacobianLayers(
   pos = 0;
   for (const layer of layers) {
     const gamma = layout.sharedDrift < 0 ? (layer.gainDriftPerS ?? 0) : p[layout.sharedDrift];
-    for (let i = 0; i < layer.tauS.length; i++, pos++) {
-      const t = layer.chipTimeS + layer.tauS[i];
-      const gm = modelAtP[pos] - (layer.weight ?? 1) * offsetSignal;
-      out[rowG + pos] = gm / G;
-      if (layout.sharedDrift >= 0) out[rowGamma + pos] = (gm * t) / (1 + gamma * t);
-    }
+    gainColumns(modelAtP, (layer.weight ?? 1) * offsetSignal, layer.tauS, layer.chipTimeS, G, gamma, pos, out, rowG, layout.sharedDrift >= 0 ? rowGamma : -1);
+    pos += layer.tauS.length;
+  }
+}
+
+/** The chip-wide gain's columns over one layer's samples (from pos): ∂/∂G and, rowGamma ≥ 0, ∂/∂γ. */
+function gainColumns(
+  modelAtP: Float64Array, wOffset: number, tauS: Float64Array, t0: number, G: number, gamma: number, pos: number,
+  out: Float64Array, rowG: number, rowGamma: number,
+): void {
+  for (let i = 0; i < tauS.length; i++) {
+    const x = pos + i;
+    const t = t0 + tauS[i];
+    const gm = modelAtP[x] - wOffset;
+    out[rowG + x] = gm / G;
+    if (rowGamma >= 0) out[rowGamma + x] = (gm * t) / (1 + gamma * t);
   }
 }

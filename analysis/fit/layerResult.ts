@@ -1,12 +1,12 @@
 import { fromNK, gradedGrowingSignal, growingLayerSignal, type LayerAt } from '../optics';
-import { findTurningPoints, type TraceData } from '../trace';
+import { type TraceData } from '../trace';
 import { type LayerState } from './analyzeRun';
 import { modelTurningPoints, timeToThickness } from './cutTiming';
 import { INDEX_BOUND } from './fitLayers';
 import { thicknessAt } from './layerModel';
 import { lawThicknessSeries, lawTimeToThickness, wanderKnotRates, type RateWander } from './rateWander';
+import { observedTurningPoints } from './observedTurningPoints';
 import { realTime } from './startTransient';
-import { subsampleUniform } from './subsample';
 import { type LayerResult, type TurningPointAt } from './types';
 
 /** A fitted wander beyond this fraction of the rate draws a warning (a source's own wander is a few %). */
@@ -73,17 +73,13 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
     const timeS = toTime(lastTp.thicknessNm);
     if (timeS !== null) lastTurningPoint = { timeS, signal: lastTp.signal, kind: lastTp.kind, thicknessNm: lastTp.thicknessNm };
   }
-  // The turning points the data show (hysteresis search), for comparison with the model's.
-  // At most 5000 samples, uniform in time, keep this cheap on long layers.
-  const sub = subsampleUniform(samples.tauS, 0, n, 5000);
-  const subTime = gather(trace.timeS, samples.indices, sub);
-  const seen = findTurningPoints(subTime, gather(trace.signal, samples.indices, sub), {
-    smoothWindow: sub.length >= 21 ? 21 : 0, includeEnd: true,
-  });
+  // The turning points the data show, for comparison with the model's (from the second thread when it ran there).
+  const observed = s.observed ?? observedTurningPoints(samples.tauS, trace.timeS, trace.signal, samples.indices);
+  const seen = observed.points;
   // An unconfirmed end extremum counts only if reached (not projected past the last sample) and
   // placed near its own sample.
-  const step = subTime.length > 1 ? subTime[1] - subTime[0] : 0;
-  const reached = seen.filter((t) => t.confirmed || (t.timeS <= samples.endTimeS + step && Math.abs(t.timeS - subTime[t.index]) < 0.05 * (samples.endTimeS - samples.startTimeS)));
+  const step = observed.stepS;
+  const reached = seen.filter((t, j) => t.confirmed || (t.timeS <= samples.endTimeS + step && Math.abs(t.timeS - observed.sampleTimeS[j]) < 0.05 * (samples.endTimeS - samples.startTimeS)));
   const lastSeen = reached[reached.length - 1];
   const observedTurningPoint = lastSeen
     ? { timeS: lastSeen.timeS, signal: (lastSeen.value - calibration.offset) / e.gain, kind: lastSeen.kind, confirmed: lastSeen.confirmed }
@@ -161,9 +157,3 @@ function squaredResiduals(signal: Float64Array, indices: Int32Array, offset: num
   return ss;
 }
 
-/** values[indices[sub[i]]] for each i. */
-function gather(values: Float64Array, indices: Int32Array, sub: Int32Array): Float64Array {
-  const out = new Float64Array(sub.length);
-  for (let i = 0; i < sub.length; i++) out[i] = values[indices[sub[i]]];
-  return out;
-}

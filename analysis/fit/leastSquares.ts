@@ -1,5 +1,5 @@
 import { invertSymmetric } from './invertSymmetric';
-import { huberFit, levenbergMarquardt, type SolverResult, type StopReason } from './solver';
+import { choleskySolve, huberFit, levenbergMarquardt, normalEquations, type SolverResult, type StopReason } from './solver';
 
 /** A nonlinear least-squares problem in physical parameters p. */
 export interface LeastSquaresProblem {
@@ -57,6 +57,12 @@ export interface LeastSquaresResult {
   residuals: Float64Array;
   /** IRLS weights (robust fits), else null. */
   weights: Float64Array | null;
+  /**
+   * The parameters' change for a change Δy of the data, to first order: one Gauss–Newton step
+   * from the solution, Δp = (JᵀWJ)⁻¹JᵀW·Δy with the Jacobian of the covariance (W the IRLS
+   * weights, held). Null where JᵀWJ is singular.
+   */
+  shiftFor?: (deltaY: ArrayLike<number>) => Float64Array | null;
 }
 
 const DEFAULTS: Required<LeastSquaresOptions> = { gradientStep: 0.001, maxIterations: 100, tolerance: 0.001, robust: false };
@@ -101,11 +107,15 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
     lower[i] = problem.min ? (problem.min[i] - start[i]) / unit[i] : -Infinity;
     upper[i] = problem.max ? (problem.max[i] - start[i]) / unit[i] : Infinity;
   }
+  // The solver starts at u = 0, where the model and the Jacobian are those just computed at the
+  // start (toPhysical(0) is the start exactly): taken from there, not computed again.
+  const atStart = (u: Float64Array) => u.every((v) => v === 0);
   const solverProblem = {
     n, p: np, y: problem.y, lower, upper, columnRows: problem.columnRows,
-    model: (u: Float64Array, out: Float64Array) => problem.model(toPhysical(u), out),
+    model: (u: Float64Array, out: Float64Array) => (atStart(u) ? out.set(at0) : problem.model(toPhysical(u), out)),
     jacobian: (u: Float64Array, at: Float64Array, out: Float64Array) => {
-      physicalJacobian(toPhysical(u), at, out);
+      if (atStart(u)) out.set(j0);
+      else physicalJacobian(toPhysical(u), at, out);
       for (let j = 0; j < np; j++) {
         const c = unit[j];
         for (let i = j * n, end = i + n; i < end; i++) out[i] *= c;
@@ -124,10 +134,19 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
   }
   const dof = n - np;
   const weights = result.weights ?? null;
-  const { covariance, sigma, ok } = covarianceFrom(result.jac, residuals, weights, n, np, unit);
+  const { covariance, sigma, ok } = covarianceFrom(result.jac, residuals, weights, n, np, unit, problem.columnRows);
+  const jac = result.jac;
+  const shiftFor = (deltaY: ArrayLike<number>): Float64Array | null => {
+    const a = new Float64Array(np * np), g = new Float64Array(np);
+    normalEquations(jac, Float64Array.from(deltaY), weights ?? undefined, n, np, problem.columnRows, a, g);
+    const du = choleskySolve(a, g, np);
+    if (!du) return null;
+    for (let j = 0; j < np; j++) du[j] *= unit[j];
+    return du;
+  };
   return {
     params, sigma, covariance, ssr, dof, residualRms: Math.sqrt(ssr / n), iterations: result.iterations,
-    converged: result.converged, reason: result.reason, wellDetermined: ok, residuals, weights,
+    converged: result.converged, reason: result.reason, wellDetermined: ok, residuals, weights, shiftFor,
   };
 }
 
@@ -152,13 +171,18 @@ function fillCentralJacobian(problem: LeastSquaresProblem, params: Float64Array,
  * correction factor κ ≈ 1 for N ≫ p dropped; from memory), which is the same without outliers.
  * jac is in solver units; unit maps back to physical parameters.
  */
-function covarianceFrom(jac: Float64Array, e: Float64Array, w: Float64Array | null, n: number, np: number, unit: Float64Array) {
+function covarianceFrom(
+  jac: Float64Array, e: Float64Array, w: Float64Array | null, n: number, np: number, unit: Float64Array,
+  rows?: { start: Int32Array; end: Int32Array },
+) {
   const jtj = new Float64Array(np * np);
   for (let a = 0; a < np; a++) {
     for (let b = a; b < np; b++) {
       let s = 0;
       const oa = a * n, ob = b * n;
-      for (let i = 0; i < n; i++) s += jac[oa + i] * jac[ob + i];
+      // only the rows both columns share (outside them one is exactly 0: the same sum)
+      const from = rows ? Math.max(rows.start[a], rows.start[b]) : 0, to = rows ? Math.min(rows.end[a], rows.end[b]) : n;
+      for (let i = from; i < to; i++) s += jac[oa + i] * jac[ob + i];
       jtj[a * np + b] = s;
       jtj[b * np + a] = s;
     }

@@ -1,4 +1,4 @@
-import { fromNK, growingLayerSignal, type LayerAt } from '../optics';
+import { fromNK, growingLayerSignalFor, type LayerAt } from '../optics';
 import { type MonitorOptics } from './layerModel';
 
 export interface StartGridInput {
@@ -36,10 +36,13 @@ export function startValues(input: StartGridInput): StartGridResult {
   const n = tauS.length;
   const d = new Float64Array(n), m = new Float64Array(n);
   let best: StartGridResult = { index: input.index, rateNmPerS: input.rateGuessNmPerS, gain: 1, ssr: Infinity };
+  // the model's set-up once per index (the rate scans keep it)
+  const signalAt = new Map<number, (d: Float64Array, out: Float64Array) => Float64Array>();
   const tryPoint = (index: number, rate: number) => {
-    const spec = { ...optics, below, growing: fromNK(index, extinction), pol: 's' as const };
+    let signal = signalAt.get(index);
+    if (!signal) signalAt.set(index, (signal = growingLayerSignalFor({ ...optics, below, growing: fromNK(index, extinction), pol: 's' })));
     for (let i = 0; i < n; i++) d[i] = rate * tauS[i];
-    growingLayerSignal(spec, d, m);
+    signal(d, m);
     let sym = 0, smm = 0;
     for (let i = 0; i < n; i++) {
       sym += (y[i] - offsetSignal) * m[i];

@@ -1,6 +1,7 @@
 import { type MaterialDrift } from '../stats';
 import { type ChipCalibration } from './calibrateChip';
 import { type LayerSpectrum } from './layerSpectrum';
+import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
 
 export type AnalysisMode = 'sequential' | 'refit';
 
@@ -164,10 +165,12 @@ export interface AnalyzeOptions {
   /**
    * Computes a layer's spectrum (fit/layerSpectrum.ts, from its samples only) elsewhere, e.g. on
    * another thread. When given, every layer's is asked for before the first fit, so they are
-   * ready as the fits reach them; it must resolve to what layerSpectrum would return.
+   * ready as the fits reach them; it must resolve to what layerSpectrum would return. Given
+   * `work`, it may add what layerSampleWork returns for it (the turning points the samples show,
+   * their bin means), which the fits and results then take.
    * @default layerSpectrum, in turn, on this thread
    */
-  spectrumOf?: (tauS: Float64Array, y: Float64Array, wavelengthNm: number, index: number) => Promise<LayerSpectrum>;
+  spectrumOf?: (tauS: Float64Array, y: Float64Array, wavelengthNm: number, index: number, work?: SampleWork) => Promise<LayerSpectrum & Partial<SampleWorkResult>>;
 }
 
 export interface TurningPointAt {
@@ -235,7 +238,7 @@ export interface LayerResult {
   crystalNm: number | null;
   /** thicknessNm / crystalNm (tooling-factor check). */
   opticalToCrystalRatio: number | null;
-  /** Dominant fringe frequency of the layer's signal (fft-js spectrum); null under ~1.5 fringes. */
+  /** Dominant fringe frequency of the layer's signal (its amplitude spectrum, trace/fringeSpectrum); null under ~1.5 fringes. */
   fringeFrequencyHz: number | null;
   /** The rate that frequency implies, f·λ/(2n), nm/s: the fit's independent first guess. */
   fringeRateNmPerS: number | null;

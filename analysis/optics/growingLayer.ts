@@ -22,6 +22,18 @@ export interface GrowingLayer {
 }
 
 /**
+ * cos δ and sin δ of the growing layer's phase thickness δ = k·N·cos θ·d at each point: written
+ * by one call (`fill`), read by later ones on the same growing layer at the same thicknesses,
+ * where only the stack below changed (a Jacobian's differences in the layers below): the same
+ * values, not computed again.
+ */
+export interface PhaseCache {
+  cos: Float64Array;
+  sin: Float64Array;
+  fill: boolean;
+}
+
+/**
  * The monitor signal (R or T as a fraction) against the growing layer's physical thickness.
  * The stack below is folded into one matrix once (and with the substrate into one vector); each
  * thickness point then costs one layer matrix and two matrix–vector products, with no allocation.
@@ -30,22 +42,41 @@ export function growingLayerSignal(
   spec: GrowingLayer,
   thicknessNm: ArrayLike<number>,
   out: Float64Array = new Float64Array(thicknessNm.length),
+  /** One polarization or normal incidence only (ignored otherwise). */
+  phase?: PhaseCache,
 ): Float64Array {
   assertTransparentIncidence(spec.ambient, 'ambient');
   if (spec.backside) assertTransparentIncidence(spec.substrate, 'substrate');
   const pol = spec.pol ?? 'mean';
   if (pol !== 'mean') {
-    accumulate(spec, pol, thicknessNm, out, 1, true);
+    signalLoop(setUp(spec, pol), thicknessNm, out, 1, true, phase);
     return out;
   }
   // At normal incidence s and p coincide (η_p = N²/N = η_s).
   if ((spec.angleDeg ?? 0) === 0) {
-    accumulate(spec, 's', thicknessNm, out, 1, true);
+    signalLoop(setUp(spec, 's'), thicknessNm, out, 1, true, phase);
     return out;
   }
   accumulate(spec, 's', thicknessNm, out, 0.5, true);
   accumulate(spec, 'p', thicknessNm, out, 0.5, false);
   return out;
+}
+
+/**
+ * growingLayerSignal for many thickness series on one spec (a grid search at one index): the
+ * media, the stack below and the growing layer are set up once. Normal incidence or one
+ * polarization (pol other than 'mean'); the same figures as growingLayerSignal.
+ */
+export function growingLayerSignalFor(spec: GrowingLayer): (thicknessNm: ArrayLike<number>, out: Float64Array) => Float64Array {
+  assertTransparentIncidence(spec.ambient, 'ambient');
+  if (spec.backside) assertTransparentIncidence(spec.substrate, 'substrate');
+  const pol = spec.pol ?? 'mean';
+  if (pol === 'mean' && (spec.angleDeg ?? 0) !== 0) throw new RangeError('growingLayerSignalFor: one polarization or normal incidence');
+  const c = setUp(spec, pol === 'mean' ? 's' : pol);
+  return (thicknessNm, out) => {
+    signalLoop(c, thicknessNm, out, 1, true);
+    return out;
+  };
 }
 
 function accumulate(
@@ -56,6 +87,13 @@ function accumulate(
   weight: number,
   overwrite: boolean,
 ): void {
+  signalLoop(setUp(spec, pol), thicknessNm, out, weight, overwrite);
+}
+
+type SetUp = ReturnType<typeof setUp>;
+
+/** What every thickness point of one spec shares. */
+function setUp(spec: GrowingLayer, pol: Polarization) {
   const invariant = spec.ambient.re * Math.sin(((spec.angleDeg ?? 0) * Math.PI) / 180);
   const e0 = tilt(spec.ambient, invariant, pol).eta;
   const es = tilt(spec.substrate, invariant, pol).eta;
@@ -85,10 +123,31 @@ function accumulate(
   // T the same both ways; Macleod, Thin-Film Optical Filters, ch. 2, from memory): the reversed
   // product for the light coming back through the substrate is not needed.
   const lossless = transparent && e0i === 0 && esi === 0 && b11i === 0 && b22i === 0 && b12r === 0 && b21r === 0;
+  return {
+    b11r, b11i, b12r, b12i, b21r, b21i, b22r, b22i, vbr, vbi, vcr, vci, ger, gei, etaDen, wantR, backside,
+    e0r, e0i, esr, esi, rBack, tBack, kr, ki, transparent, lossless,
+  };
+}
 
+function signalLoop(c: SetUp, thicknessNm: ArrayLike<number>, out: Float64Array, weight: number, overwrite: boolean, phase?: PhaseCache): void {
+  const { b11r, b11i, b12r, b12i, b21r, b21i, b22r, b22i, vbr, vbi, vcr, vci, ger, gei, etaDen, wantR, backside } = c;
+  const { e0r, e0i, esr, esi, rBack, tBack, kr, ki, transparent, lossless } = c;
+  const cosIn = phase && !phase.fill ? phase.cos : null, sinIn = phase && !phase.fill ? phase.sin : null;
+  const cosOut = phase && phase.fill ? phase.cos : null, sinOut = phase && phase.fill ? phase.sin : null;
   for (let i = 0; i < thicknessNm.length; i++) {
-    const dr = kr * thicknessNm[i];
-    const cd = Math.cos(dr), sd = Math.sin(dr);
+    let cd: number, sd: number;
+    if (cosIn && sinIn) {
+      cd = cosIn[i];
+      sd = sinIn[i];
+    } else {
+      const dr = kr * thicknessNm[i];
+      cd = Math.cos(dr);
+      sd = Math.sin(dr);
+      if (cosOut && sinOut) {
+        cosOut[i] = cd;
+        sinOut[i] = sd;
+      }
+    }
     let cr: number, ci: number, l12r: number, l12i: number, l21r: number, l21i: number;
     let Br: number, Bi: number, Cr: number, Ci: number;
     if (transparent) {

@@ -71,6 +71,25 @@ export interface Ar1PlusWhite {
  * (trace/levelSteps longRunSigma) takes white + AR(1) for a faster AR(1) and underestimates.
  */
 export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40, pool?: VariogramPool): Ar1PlusWhite {
+  const { lags, gamma } = variogram(e, maxLag, pool);
+  return fitVariogram(lags, gamma);
+}
+
+/**
+ * fitAr1PlusWhite of the pool after the last of several series was added to it (addToVariogramPool):
+ * each added series' fit but the last is not needed when only the last is kept.
+ */
+export function fitPooledVariogram(lags: readonly number[], pool: VariogramPool): Ar1PlusWhite {
+  return fitVariogram(lags, lags.map((k) => pool.sums.get(k)! / pool.counts.get(k)!));
+}
+
+/** A series' variogram sums into the pool (as fitAr1PlusWhite adds them); returns its lags, for fitPooledVariogram. */
+export function addToVariogramPool(e: ArrayLike<number>, maxLag: number, pool: VariogramPool): number[] {
+  return variogram(e, maxLag, pool).lags;
+}
+
+/** The robust variogram γ(k) at fitAr1PlusWhite's lags (the pool's, after adding this series, with a pool). */
+function variogram(e: ArrayLike<number>, maxLag: number, pool?: VariogramPool): { lags: number[]; gamma: number[] } {
   const n = e.length;
   const L = Math.min(maxLag, Math.floor(n / 4));
   // Every lag up to 8, then every 2nd: the short lags carry the white part and ρ, the rest the level.
@@ -102,6 +121,11 @@ export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40, pool?: Variog
     });
     gamma = lags.map((k) => pool.sums.get(k)! / pool.counts.get(k)!);
   }
+  return { lags, gamma };
+}
+
+/** The white + AR(1) least squares of fitAr1PlusWhite on a variogram γ at its lags. */
+function fitVariogram(lags: readonly number[], gamma: readonly number[]): Ar1PlusWhite {
   if (lags.length < 2) {
     const v = gamma[0] ?? 0;
     return { whiteVar: v, ar1Var: 0, rho: 0, longRunSigma: Math.sqrt(v) };

@@ -54,8 +54,8 @@ export interface FringeSpectrum {
 
 /**
  * Amplitude spectrum of a (segment of a) monitor trace: uniform resampling if needed, block
- * averaging to fit maxFftSize, linear detrend, Hann window, zero padding, fft-js (through
- * realFftMagnitude), and peaks
+ * averaging to fit maxFftSize, linear detrend, Hann window, zero padding, a radix-2 FFT
+ * (realFftMagnitude), and peaks
  * refined by a parabola through the log-amplitudes of the three top bins (common practice).
  * The dominant peak is the fringe frequency; narrow peaks well above it are reported as
  * periodic disturbances (substrate rotation, aliased mains).

@@ -67,3 +67,55 @@ export function scanDecimal(text: string, start: number, end: number, sep: numbe
   const v = Number(text.substring(start, i));
   return Number.isFinite(v) ? v : NaN;
 }
+
+const asciiDecoder = new TextDecoder();
+
+/**
+ * scanDecimal on bytes: the field of bytes[start, end) up to the first `sep`, the same value bit
+ * for bit (a plain decimal is ASCII, so its bytes are its characters); the end in scanned.end.
+ */
+export function scanDecimalBytes(bytes: Uint8Array, start: number, end: number, sep: number): number {
+  let i = start;
+  let c = i < end ? bytes[i] : 0;
+  const negative = c === 45; // '-'
+  if (negative || c === 43) c = ++i < end ? bytes[i] : 0; // '+'
+  let mantissa = 0, digits = 0, fraction = 0;
+  while (c >= 48 && c <= 57) {
+    mantissa = mantissa * 10 + (c - 48);
+    digits++;
+    c = ++i < end ? bytes[i] : 0;
+  }
+  if (c === 46) { // '.'
+    c = ++i < end ? bytes[i] : 0;
+    while (c >= 48 && c <= 57) {
+      mantissa = mantissa * 10 + (c - 48);
+      digits++;
+      fraction++;
+      c = ++i < end ? bytes[i] : 0;
+    }
+  }
+  if (digits === 0) return NaN;
+  let exponent = 0;
+  if (c === 101 || c === 69) { // 'e', 'E'
+    c = ++i < end ? bytes[i] : 0;
+    const minus = c === 45;
+    if (minus || c === 43) c = ++i < end ? bytes[i] : 0;
+    let expDigits = 0;
+    while (c >= 48 && c <= 57) {
+      if (exponent < 100_000) exponent = exponent * 10 + (c - 48);
+      expDigits++;
+      c = ++i < end ? bytes[i] : 0;
+    }
+    if (expDigits === 0) return NaN;
+    if (minus) exponent = -exponent;
+  }
+  if (i !== end && c !== sep) return NaN;
+  scanned.end = i;
+  const e = exponent - fraction;
+  if (digits <= 15 && e >= -22 && e <= 22) {
+    const v = e < 0 ? mantissa / POW10[-e] : mantissa * POW10[e];
+    return negative ? -v : v;
+  }
+  const v = Number(asciiDecoder.decode(bytes.subarray(start, i)));
+  return Number.isFinite(v) ? v : NaN;
+}

@@ -76,6 +76,9 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
   let lineNo = 0;
   let carry = '';
   let first = true;
+  // Byte chunks are read as bytes, line by line (readBytes); string chunks as text (feed). The
+  // first chunk decides; a chunk of the other kind is converted.
+  let mode: 'bytes' | 'text' | null = null;
 
   const feed = (text: string): void => {
     if (first && text.length > 0) {
@@ -122,15 +125,127 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
     }
   };
 
+  // Bytes: an ordinary data row is ASCII and read in place (rowBytes), never decoded; any other
+  // line is decoded on its own (a newline byte never occurs inside a UTF-8 sequence, so every line
+  // is whole text), the first with its byte-order marks dropped as the stream decoder and feed drop them.
+  const lineDecoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true });
+  const firstLineDecoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: false });
+  const badEncoding = (line: number): never => parser.fail(line, 'bad_encoding', 'the text is not valid UTF-8');
+  const slowLine = (b: Uint8Array, line: number): void => {
+    let text: string;
+    try {
+      text = (line === 1 ? firstLineDecoder : lineDecoder).decode(b);
+    } catch {
+      return badEncoding(line);
+    }
+    if (line === 1 && text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+    parser.line(text, line);
+  };
+  /** Whole lines' bytes as text (the file's first line's byte-order marks dropped as slowLine drops them); null when not valid UTF-8. */
+  const decodeLines = (b: Uint8Array): string | null => {
+    try {
+      // feed drops a second mark at the file's start (first), and none after
+      first = lineNo === 0;
+      return (lineNo === 0 ? firstLineDecoder : lineDecoder).decode(b);
+    } catch {
+      return null;
+    }
+  };
+  let pieces: Uint8Array[] = [];
+  let pieceBytes = 0;
+  const joinPieces = (tail: Uint8Array): Uint8Array => {
+    const out = new Uint8Array(pieceBytes + tail.length);
+    let at = 0;
+    for (const p of pieces) {
+      out.set(p, at);
+      at += p.length;
+    }
+    out.set(tail, at);
+    pieces = [];
+    pieceBytes = 0;
+    return out;
+  };
+  const holdPiece = (piece: Uint8Array): void => {
+    pieces.push(piece.slice());
+    pieceBytes += piece.length;
+    // the limit is in characters: counted only once the bytes exceed it (not valid UTF-8: that fault first)
+    if (pieceBytes > o.maxLineLength) {
+      const d = new TextDecoder('utf-8', { fatal: true, ignoreBOM: lineNo > 0 });
+      let chars = 0;
+      try {
+        for (const p of pieces) chars += d.decode(p, { stream: true }).length;
+      } catch {
+        badEncoding(lineNo + 1);
+      }
+      if (chars > o.maxLineLength) tooLong(lineNo + 1);
+    }
+  };
+  const readBytes = (chunk: Uint8Array): void => {
+    let start = 0;
+    let nl = chunk.indexOf(10);
+    if (pieceBytes > 0) {
+      if (nl < 0) {
+        holdPiece(chunk);
+        return;
+      }
+      const joined = joinPieces(chunk.subarray(0, nl));
+      lineNo++;
+      if (!parser.rowBytes(joined, 0, joined.length)) slowLine(joined, lineNo);
+      start = nl + 1;
+      nl = chunk.indexOf(10, start);
+    }
+    let wholeText = true;
+    for (;;) {
+      const rows = parser.rowCount;
+      start = parser.rowsBytes(chunk, start, chunk.length);
+      lineNo += parser.rowCount - rows;
+      nl = chunk.indexOf(10, start);
+      if (nl < 0) break;
+      // A line rowsBytes could not read (metadata, the header, a fault), with the lines after it
+      // that cannot start a data row: read as text in one decode, as feed reads them (a file of
+      // many comment lines then makes no object per line); line by line where the decode fails,
+      // for the first fault's line.
+      let end = nl;
+      for (let next = end + 1; next < chunk.length && !startsNumber(chunk[next]); next = end + 1) {
+        const e = chunk.indexOf(10, next);
+        if (e < 0) break;
+        end = e;
+      }
+      const text = wholeText ? decodeLines(chunk.subarray(start, end + 1)) : null;
+      if (text !== null) {
+        feed(text);
+        start = end + 1;
+        continue;
+      }
+      wholeText = false;
+      lineNo++;
+      if (!parser.rowBytes(chunk, start, nl)) slowLine(chunk.subarray(start, nl), lineNo);
+      start = nl + 1;
+    }
+    if (start < chunk.length) holdPiece(chunk.subarray(start));
+    // the caller may reuse the chunk's memory once it hands over the next
+    parser.detachPreviousTime();
+  };
+
   for await (const chunk of chunks) {
     bytes += typeof chunk === 'string' ? utf8Length(chunk) : chunk.byteLength;
     if (bytes > o.maxBytes) {
       parser.fail(lineNo + 1, 'size_limit', `the file is larger than the size limit of ${formatBytes(o.maxBytes)}`);
     }
-    feed(typeof chunk === 'string' ? chunk : decode(chunk));
+    mode ??= typeof chunk === 'string' ? 'text' : 'bytes';
+    if (mode === 'bytes') readBytes(typeof chunk === 'string' ? new TextEncoder().encode(chunk) : chunk);
+    else feed(typeof chunk === 'string' ? chunk : decode(chunk));
   }
-  feed(decode());
-  if (carry.length > 0) parser.line(carry, ++lineNo);
+  if (mode === 'bytes') {
+    if (pieceBytes > 0) {
+      const last = joinPieces(new Uint8Array(0));
+      lineNo++;
+      if (!parser.rowBytes(last, 0, last.length)) slowLine(last, lineNo);
+    }
+  } else {
+    feed(decode());
+    if (carry.length > 0) parser.line(carry, ++lineNo);
+  }
   parser.finish(Math.max(lineNo, 1));
 
   return parser;
@@ -140,6 +255,9 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
 export function readTraceText(text: string, options: ReadTraceOptions = {}): Promise<TraceData> {
   return readTrace([text], options);
 }
+
+/** A byte that can open a plain decimal: a digit, a sign or a point. */
+const startsNumber = (b: number): boolean => (b >= 48 && b <= 57) || b === 45 || b === 43 || b === 46;
 
 function utf8Length(s: string): number {
   let n = 0;

@@ -1,4 +1,4 @@
-import { scanDecimal, scanned } from './plainDecimal';
+import { scanDecimal, scanDecimalBytes, scanned } from './plainDecimal';
 import { SampleColumn } from './sampleColumn';
 import { TraceFormatError } from './TraceFormatError';
 import type { TraceWarning } from './types';
@@ -47,8 +47,8 @@ export class TraceParser {
   private sawContent = false;
   private blankLine = 0;
   private prevTime = -Infinity;
-  /** The previous row's time field as written, prevTimeSource[prevTimeFrom, prevTimeTo), for the message when time goes backwards. */
-  private prevTimeSource = '';
+  /** The previous row's time field as written, prevTimeSource[prevTimeFrom, prevTimeTo), for the message when time goes backwards (bytes: ASCII). */
+  private prevTimeSource: string | Uint8Array = '';
   private prevTimeFrom = 0;
   private prevTimeTo = 0;
   /** The column each field of a row goes to (null: an ignored column). */
@@ -221,6 +221,162 @@ export class TraceParser {
     return true;
   }
 
+  /**
+   * rowAt on bytes[start, end) of an ASCII-compatible encoding (UTF-8): an ordinary data row is all
+   * ASCII (digits, signs, '.', 'e', separators), so it reads the same as its text would; anything
+   * else returns false, for the caller to decode the line and pass it to line().
+   */
+  rowBytes(bytes: Uint8Array, start: number, end: number): boolean {
+    if (this.headerLine === 0 || this.blankLine !== 0 || this.rowCount >= this.limits.maxRows) return false;
+    if (end > start && bytes[end - 1] === 13) end--;
+    const sep = this.separator === ',' ? 44 : 9;
+    const kinds = this.kinds, columns = this.fieldColumns, nFields = kinds.length;
+    const r = this.rowCount;
+    const layerLimit = this.limits.layerCount ?? Infinity;
+    let pos = start, time = 0, timeStart = 0, timeEnd = 0, maxLayer = this.maxLayer;
+    for (let j = 0; j < nFields; j++) {
+      const kind = kinds[j];
+      let stop = pos;
+      if (kind === KIND_IGNORE) {
+        // an ignored field is skipped whatever it holds, but only ASCII keeps bytes and characters alike
+        while (stop < end && bytes[stop] !== sep) {
+          if (bytes[stop] >= 0x80) return false;
+          stop++;
+        }
+      } else {
+        const v = scanDecimalBytes(bytes, pos, end, sep);
+        if (v !== v) return false;
+        stop = scanned.end;
+        if (kind === KIND_TIME) {
+          if (!(v > this.prevTime)) return false;
+          time = v;
+          timeStart = pos;
+          timeEnd = stop;
+        } else if (kind === KIND_LAYER) {
+          if (!Number.isInteger(v) || v < 0 || v > layerLimit) return false;
+          if (v > maxLayer) maxLayer = v;
+        } else if (kind === KIND_CHIP) {
+          if (!Number.isInteger(v) || v < 1) return false;
+        }
+        columns[j]!.set(r, v);
+      }
+      if ((j === nFields - 1) !== (stop === end)) return false;
+      pos = stop + 1;
+    }
+    this.prevTime = time;
+    this.maxLayer = maxLayer;
+    this.prevTimeSource = bytes;
+    this.prevTimeFrom = timeStart;
+    this.prevTimeTo = timeEnd;
+    this.rowCount = r + 1;
+    return true;
+  }
+
+  /**
+   * rowBytes over the lines of bytes[start, end) that end in '\n', one after another, with the
+   * parser's state held in locals: returns where it stopped, the start of the first line that is
+   * not an ordinary data row (for the caller to pass to line()) or of the unended rest. Each row
+   * read adds one to rowCount (and to the caller's line count).
+   */
+  rowsBytes(bytes: Uint8Array, start: number, end: number): number {
+    if (this.headerLine === 0 || this.blankLine !== 0 || !this.time.keep) return start;
+    const sep = this.separator === ',' ? 44 : 9;
+    const kinds = this.kinds, nFields = kinds.length, columns = this.fieldColumns;
+    const maxRows = this.limits.maxRows, layerLimit = this.limits.layerCount ?? Infinity;
+    let r = this.rowCount, prevTime = this.prevTime, maxLayer = this.maxLayer, timeStart = -1, timeEnd = -1;
+    let arrays = columns.map((c) => c?.data ?? null);
+    let capacity = this.time.data.length;
+    let lineStart = start;
+    while (r < maxRows) {
+      const nl = bytes.indexOf(10, lineStart);
+      if (nl < 0 || nl >= end) break;
+      const stopAt = nl > lineStart && bytes[nl - 1] === 13 ? nl - 1 : nl;
+      if (r >= capacity) {
+        for (const c of columns) c?.grow();
+        arrays = columns.map((c) => c?.data ?? null);
+        capacity = this.time.data.length;
+      }
+      let pos = lineStart, ok = true, time = 0, tStart = 0, tEnd = 0, layerMax = maxLayer;
+      for (let j = 0; j < nFields; j++) {
+        const kind = kinds[j];
+        let stop = pos;
+        if (kind === KIND_IGNORE) {
+          while (stop < stopAt && bytes[stop] !== sep) {
+            if (bytes[stop] >= 0x80) break;
+            stop++;
+          }
+          if (stop < stopAt && bytes[stop] !== sep) {
+            ok = false;
+            break;
+          }
+        } else {
+          const v = scanDecimalBytes(bytes, pos, stopAt, sep);
+          if (v !== v) {
+            ok = false;
+            break;
+          }
+          stop = scanned.end;
+          if (kind === KIND_TIME) {
+            if (!(v > prevTime)) {
+              ok = false;
+              break;
+            }
+            time = v;
+            tStart = pos;
+            tEnd = stop;
+          } else if (kind === KIND_LAYER) {
+            if (!Number.isInteger(v) || v < 0 || v > layerLimit) {
+              ok = false;
+              break;
+            }
+            if (v > layerMax) layerMax = v;
+          } else if (kind === KIND_CHIP) {
+            if (!Number.isInteger(v) || v < 1) {
+              ok = false;
+              break;
+            }
+          }
+          arrays[j]![r] = v;
+        }
+        if ((j === nFields - 1) !== (stop === stopAt)) {
+          ok = false;
+          break;
+        }
+        pos = stop + 1;
+      }
+      if (!ok) break;
+      prevTime = time;
+      maxLayer = layerMax;
+      timeStart = tStart;
+      timeEnd = tEnd;
+      r++;
+      lineStart = nl + 1;
+    }
+    if (timeStart >= 0) {
+      this.prevTimeSource = bytes;
+      this.prevTimeFrom = timeStart;
+      this.prevTimeTo = timeEnd;
+    }
+    this.prevTime = prevTime;
+    this.maxLayer = maxLayer;
+    this.rowCount = r;
+    return lineStart;
+  }
+
+  /** Keeps the previous time field as text, not as a view of bytes its caller may reuse. */
+  detachPreviousTime(): void {
+    if (typeof this.prevTimeSource === 'string') return;
+    this.prevTimeSource = this.previousTime();
+    this.prevTimeFrom = 0;
+    this.prevTimeTo = this.prevTimeSource.length;
+  }
+
+  private previousTime(): string {
+    const src = this.prevTimeSource;
+    if (typeof src === 'string') return src.substring(this.prevTimeFrom, this.prevTimeTo);
+    return new TextDecoder().decode(src.subarray(this.prevTimeFrom, this.prevTimeTo));
+  }
+
   private row(s: string, lineNo: number): void {
     const r = this.rowCount;
     if (r >= this.limits.maxRows) {
@@ -262,7 +418,7 @@ export class TraceParser {
           this.fail(
             lineNo,
             'time_not_increasing',
-            `${text.trim()} is not after the previous time ${this.prevTimeSource.substring(this.prevTimeFrom, this.prevTimeTo).trim()} (line ${lineNo - 1}); time must be strictly increasing`,
+            `${text.trim()} is not after the previous time ${this.previousTime().trim()} (line ${lineNo - 1}); time must be strictly increasing`,
             this.columns[j],
           );
         }

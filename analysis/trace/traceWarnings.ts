@@ -16,7 +16,14 @@ export function traceWarnings(
 
   if (layer) {
     const counts = new Map<number, number>();
-    for (let i = 0; i < n; i++) if (layer[i] > 0) counts.set(layer[i], (counts.get(layer[i]) ?? 0) + 1);
+    // by runs of one layer (a trace holds a few long ones), not a map update per sample
+    for (let i = 0; i < n; ) {
+      const l = layer[i];
+      let j = i + 1;
+      while (j < n && layer[j] === l) j++;
+      if (l > 0) counts.set(l, (counts.get(l) ?? 0) + j - i);
+      i = j;
+    }
     const few = [...counts].sort((a, b) => a[0] - b[0]).filter(([, c]) => c < options.minLayerSamples);
     for (const [l, c] of few.slice(0, MAX_FEW_WARNINGS)) {
       out.push({

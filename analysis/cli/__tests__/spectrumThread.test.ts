@@ -5,6 +5,7 @@ import { pathToFileURL } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { parseDesign } from '../../design';
 import { analyzeRun } from '../../fit/analyzeRun';
+import { layerSampleWork } from '../../fit/layerSampleWork';
 import { layerSpectrum } from '../../fit/layerSpectrum';
 import { readTrace } from '../../trace';
 import { startSpectrumThread } from '../spectrumThread';
@@ -26,6 +27,21 @@ describe('the analyze command computes spectra on a second thread', () => {
     t.close();
     expect(got).toEqual(layerSpectrum(tauS, y, 550, 2.1));
     expect(got.fringeRateNmPerS).not.toBeNull();
+  });
+
+  it('answers the samples\' other work from this thread too, as layerSampleWork does', async () => {
+    const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
+    const tauS = Float64Array.from({ length: 600 }, (_, i) => i * 0.5);
+    const y = tauS.map((s) => 0.5 + 0.3 * Math.sin(s / 9));
+    const work = { timeS: tauS.map((s) => 100 + s), binPoints: [50, 400, 900] };
+    const got = await t.spectrumOf(tauS, y, 550, 2.1, work);
+    t.close();
+    expect(got).toEqual({ ...layerSpectrum(tauS, y, 550, 2.1), ...layerSampleWork(tauS, y, work) });
+    // bins of 12, 1.5 and (all 600 samples, unbinned) 1 samples
+    expect(got.binned!.map((b) => b.tauS.length)).toEqual([50, 400, 600]);
+    expect(got.binned![0].y[0]).toBeCloseTo(y.slice(0, 12).reduce((a, b) => a + b) / 12, 12);
+    // sin(τ/9) turns at τ = 9·(π/2 + kπ): k = 0 … 10 within the 300 s, at 100 s + τ on the clock
+    expect(got.observed!.points.map((p) => p.timeS)).toEqual(Array.from({ length: 11 }, (_, k) => expect.closeTo(100 + 9 * (Math.PI / 2 + k * Math.PI), 0)));
   });
 
   it('the bundled command (thread on) prints what analyzeRun gives in process (no thread)', async () => {

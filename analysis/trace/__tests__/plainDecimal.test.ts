@@ -1,6 +1,6 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { plainDecimal, scanDecimal, scanned } from '../plainDecimal';
+import { plainDecimal, scanDecimal, scanDecimalBytes, scanned } from '../plainDecimal';
 
 // The reference is the engine's own Number() (ECMAScript StringToNumber, correctly rounded), an
 // implementation independent of ours; a plain decimal must read bit for bit the same.
@@ -70,5 +70,22 @@ describe('plainDecimal', () => {
     expect(scanDecimal('1.5;2', 0, 5, 44)).toBeNaN();
     expect(scanDecimal('12345678901234567890,1', 0, 22, 44)).toBe(12345678901234567890);
     expect(scanned.end).toBe(20);
+  });
+
+  it('scanDecimalBytes reads ASCII bytes as scanDecimal reads the same text: value and stop', () => {
+    const field = fc.stringMatching(/^[-+]?[0-9]{0,20}(\.[0-9]{0,20})?([eE][-+]?[0-9]{0,4})?[,;x]?[0-9]{0,3}$/);
+    fc.assert(
+      fc.property(field, fc.nat({ max: 3 }), (s, from) => {
+        const start = Math.min(from, s.length);
+        const bytes = new TextEncoder().encode(s);
+        const a = scanDecimal(s, start, s.length, 44);
+        const endA = scanned.end;
+        scanned.end = -1;
+        const b = scanDecimalBytes(bytes, start, bytes.length, 44);
+        expect(Object.is(a, b)).toBe(true);
+        if (a === a) expect(scanned.end).toBe(endA);
+      }),
+      { numRuns: 20000, seed: 9 },
+    );
   });
 });

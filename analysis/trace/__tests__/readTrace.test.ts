@@ -151,6 +151,37 @@ describe('readTrace: faults name the file, line and column', () => {
     const bytes = new Uint8Array([...new TextEncoder().encode('time_s,signal\n0,1\n1,'), 0xff, 0x0a]);
     await expect(readTrace([bytes], opts)).rejects.toThrow('trace.csv line 3: the text is not valid UTF-8');
   });
+
+  it('bytes: the first fault by line, a bad value before bad UTF-8 in the same chunk', async () => {
+    const bytes = new Uint8Array([...new TextEncoder().encode('time_s,signal\n0,1\n1,x\n2,'), 0xff, 0x0a]);
+    await expect(readTrace([bytes], opts)).rejects.toThrow('trace.csv line 3, column "signal": "x" is not a number');
+  });
+
+  it('bytes: time going back names the previous time as written, though its chunk was reused', async () => {
+    // a producer that refills one buffer for every chunk (the reader must not keep views of it)
+    const text = new TextEncoder().encode('time_s,signal\n0.25,1\n0.125,1\n');
+    const cut = text.indexOf(0x0a, 14) + 1;
+    async function* reused() {
+      const buf = new Uint8Array(64);
+      for (const part of [text.subarray(0, cut), text.subarray(cut)]) {
+        buf.fill(0x39);
+        buf.set(part);
+        yield buf.subarray(0, part.length);
+      }
+    }
+    await expect(readTrace(reused(), opts)).rejects.toThrow('trace.csv line 3, column "time_s": 0.125 is not after the previous time 0.25 (line 2); time must be strictly increasing');
+  });
+
+  it('bytes and text read alike: a BOM, metadata beyond ASCII, CRLF, a row split across chunks', async () => {
+    const text = '\uFEFF# chamber: Bay 1 — µ\r\ntime_s\tsignal\tnote\r\n0.5\t0.25\tok\r\n1.5\t1e-3\tµ\r\n2.5\t-0.75\t\r\n';
+    const bytes = new TextEncoder().encode(text);
+    const chunks = [bytes.subarray(0, 2), bytes.subarray(2, 61), bytes.subarray(61, 70), bytes.subarray(70)];
+    const [a, b] = [await readTrace(chunks, opts), await readTraceText(text, opts)];
+    expect(a.meta).toEqual({ chamber: 'Bay 1 — µ' });
+    expect(Array.from(a.timeS)).toEqual([0.5, 1.5, 2.5]);
+    expect(Array.from(a.signal)).toEqual([0.25, 0.001, -0.75]);
+    expect({ ...a, timeS: 0, signal: 0 }).toEqual({ ...b, timeS: 0, signal: 0 });
+  });
 });
 
 describe('readTrace: warnings', () => {

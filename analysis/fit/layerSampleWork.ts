@@ -1,0 +1,28 @@
+import { observedTurningPoints, type ObservedTurningPoints } from './observedTurningPoints';
+import { binMeans } from './subsample';
+
+/** What analyzeRun asks of a layer's samples beside its spectrum, when another thread computes them. */
+export interface SampleWork {
+  /** The samples' times, s (for the turning points they show). */
+  timeS: Float64Array;
+  /** The bin counts the fits will ask binMeans for. */
+  binPoints: number[];
+}
+
+export interface SampleWorkResult {
+  observed: ObservedTurningPoints;
+  /** binMeans of the samples for each of SampleWork.binPoints. */
+  binned: { points: number; tauS: Float64Array; y: Float64Array }[];
+}
+
+/**
+ * The work on a layer's samples that needs no fit (its turning points, its bin means), from its
+ * own series: the same functions on the same values as analyzeRun's loop, so the same figures.
+ */
+export function layerSampleWork(tauS: Float64Array, y: Float64Array, work: SampleWork): SampleWorkResult {
+  const own = Int32Array.from({ length: y.length }, (_, i) => i);
+  return {
+    observed: observedTurningPoints(tauS, work.timeS, y),
+    binned: work.binPoints.map((points) => ({ points, ...binMeans(tauS, own, y, points) })),
+  };
+}
