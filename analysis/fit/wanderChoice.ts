@@ -97,13 +97,17 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
     // the wander is kept only for a bend of the fringes that they do not explain.
     const stackCols = input.stack ? stackBelowColumns(below, withW, layout, p, offsetSignal, at, input.stack) : [];
     const growthCol = input.growthFromHere ? lastBelowThicknessColumn(below, withW, layout, p, offsetSignal, at) : null;
+    // A gain held at the chip's (refit) is known only to its calibration: free in both, as a
+    // per-layer fit has it (∂y/∂g = (y − offset)/g).
+    const gainCol = plain.heldGain !== null && plain.heldGain !== 0 ? Float64Array.from(at, (v) => (v - offsetSignal) / plain.heldGain!) : null;
     const m = stackCols.length;
-    const np = np0 + m + (growthCol ? 1 : 0);
+    const np = np0 + m + (growthCol ? 1 : 0) + (gainCol ? 1 : 0);
     const steps = Float64Array.from(p, (v) => 1e-6 * Math.max(Math.abs(v), 1e-3));
     const jac = new Float64Array(np * N);
     jacobianLayers(below, [withW], layout, Float64Array.from(p), offsetSignal, at, steps, jac.subarray(0, np0 * N));
     stackCols.forEach((c, q) => jac.set(c, (np0 + q) * N));
     if (growthCol) jac.set(growthCol, (np0 + m) * N);
+    if (gainCol) jac.set(gainCol, (np - 1) * N);
     const wFirst = (withW.heldIndex === null ? 1 : 0) + 1 + (withW.fitDrift ? 1 : 0), k = wander.knotsS.length;
     const isW = (j: number) => j >= wFirst && j < wFirst + k;
     const isS = (j: number) => j >= np0 && j < np0 + m;
