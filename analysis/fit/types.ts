@@ -87,9 +87,9 @@ export interface AnalyzeOptions {
   /**
    * Let a layer's rate wander within it (knots under an Ornstein–Uhlenbeck prior, fit/rateWander.ts)
    * where the restricted likelihood prefers that to the plain d = r·τ + a·τ²/2 (fit/wanderChoice.ts),
-   * both carrying the stack below's errors at their σ (sequential), the growth read from the
-   * layer's start and a chip-wide held gain (the columns in fit/wanderStackBelow.ts). Off by default, measured on
-   * the chamber simulator with startTransient on: it helps where the rate wanders (rate-wander
+   * both carrying the stack below's errors at their σ (sequential; fit/wanderStackBelow.ts), the
+   * growth read from the layer's start and a chip-wide held gain. Off by default, measured on the
+   * chamber simulator with startTransient on: it helps where the rate wanders (rate-wander
    * mirror, refit 1.65 → 1.21 %, sequential 1.81 → 1.69 %; real-chamber mirror, sequential
    * 2.03 → 1.21 %, refit 1.78 → 0.82 %), equals elsewhere within 0.03 %, and still hurts 40 layers
    * on 5 chips (sequential 1.33 → 1.84 %, coverage 98 → 90 %; refit 0.97 → 1.28 %). @default false
