@@ -347,6 +347,8 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       const choice = chooseRateWander({
         below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: pick(trace.signal, samples.indices),
         gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0, noisePool,
+        ...(stacks.has(chip) ? { stack: ends ? ends.stackWithGrowth(chip, stacks.get(chip)!) : stacks.get(chip)! } : {}),
+        growthFromHere: o.growthFromNext && !!ends && below.length > 0,
       });
       if (choice.wander) {
         built.wander = choice.wander;

@@ -87,13 +87,13 @@ export interface AnalyzeOptions {
   robustLoss?: boolean;
   /**
    * Let a layer's rate wander within it (knots under an Ornstein–Uhlenbeck prior, fit/rateWander.ts)
-   * where the restricted likelihood prefers that to the plain d = r·τ + a·τ²/2 (fit/wanderChoice.ts).
-   * Off by default, measured on the chamber simulator with the defaults otherwise: it helps where
-   * the rate wanders (rate-wander mirror, refit 1.65 → 1.12 %; real-chamber mirror 1.71 → 1.17 %;
-   * 40 layers sequential 3.3 → 2.0 %) and hurts elsewhere (correlated noise and spikes, sequential
-   * 0.88 → 1.26 %; 40 layers refit 1.24 → 1.83 %; R with an offset, refit 0.82 → 1.02 %), and on
-   * the project's synthetic 18-layer mirror (a steady rate) refit no longer beats sequential: the
-   * wander is chosen on layers where the rate did not wander. @default false
+   * where the restricted likelihood prefers that to the plain d = r·τ + a·τ²/2 (fit/wanderChoice.ts),
+   * both carrying the stack below's errors at their σ (sequential; fit/wanderStackBelow.ts), the
+   * growth read from the layer's start and a chip-wide held gain. Off by default, measured on the
+   * chamber simulator with startTransient on: it helps where the rate wanders (rate-wander
+   * mirror, refit 1.65 → 1.21 %, sequential 1.81 → 1.69 %; real-chamber mirror, sequential
+   * 2.03 → 1.21 %, refit 1.78 → 0.82 %), equals elsewhere within 0.03 %, and still hurts 40 layers
+   * on 5 chips (sequential 1.33 → 1.84 %, coverage 98 → 90 %; refit 0.97 → 1.28 %). @default false
    */
   rateWander?: boolean;
   /**

@@ -5,6 +5,8 @@ import { encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayer
 import { type LayerEstimate } from './fitLayers';
 import { invertSymmetric } from './invertSymmetric';
 import { wanderBasis, wanderCount, wanderKnots, type RateWander } from './rateWander';
+import { lastBelowThicknessColumn, stackBelowColumns } from './wanderStackBelow';
+import { type StackCovariance } from './stackUncertainty';
 
 /** The wander scales tried, as fractions of the rate (0: the plain quadratic law). */
 export const WANDER_FRACTIONS = [0, 0.0025, 0.005, 0.01, 0.02, 0.04];
@@ -29,6 +31,13 @@ export interface WanderChoiceInput {
   /** Every sample of the layer (time from its start, reading), for the noise's long-run σ. */
   allTauS: Float64Array;
   allY: Float64Array;
+  /**
+   * The covariance of the chip's layers fitted so far (the last entries of `below`), when known
+   * (sequential): their errors bend this layer's fringes too, and both candidates carry them.
+   */
+  stack?: StackCovariance;
+  /** The layer just below's thickness was read from this layer's start (growthFromNext): free in both candidates. */
+  growthFromHere?: boolean;
   /** The run's pooled variogram (bins of SAMPLES_PER_BIN samples), added to and read. */
   noisePool?: VariogramPool;
 }
@@ -82,13 +91,27 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
     const layout = paramLayout([withW]);
     const p: number[] = [];
     encodeLayer(withW, estimate, p);
-    const np = layout.count;
+    const np0 = layout.count;
+    // The stack below's errors as random effects of known covariance, in the whitened data's
+    // units (columns Js·Ls, Σs = Ls·Lsᵀ, unit-normal weights): both candidates carry them, so
+    // the wander is kept only for a bend of the fringes that they do not explain.
+    const stackCols = input.stack ? stackBelowColumns(below, withW, layout, p, offsetSignal, at, input.stack) : [];
+    const growthCol = input.growthFromHere ? lastBelowThicknessColumn(below, withW, layout, p, offsetSignal, at) : null;
+    // A gain held at the chip's (refit) is known only to its calibration: free in both, as a
+    // per-layer fit has it (∂y/∂g = (y − offset)/g).
+    const gainCol = plain.heldGain !== null && plain.heldGain !== 0 ? Float64Array.from(at, (v) => (v - offsetSignal) / plain.heldGain!) : null;
+    const m = stackCols.length;
+    const np = np0 + m + (growthCol ? 1 : 0) + (gainCol ? 1 : 0);
     const steps = Float64Array.from(p, (v) => 1e-6 * Math.max(Math.abs(v), 1e-3));
     const jac = new Float64Array(np * N);
-    jacobianLayers(below, [withW], layout, Float64Array.from(p), offsetSignal, at, steps, jac);
+    jacobianLayers(below, [withW], layout, Float64Array.from(p), offsetSignal, at, steps, jac.subarray(0, np0 * N));
+    stackCols.forEach((c, q) => jac.set(c, (np0 + q) * N));
+    if (growthCol) jac.set(growthCol, (np0 + m) * N);
+    if (gainCol) jac.set(gainCol, (np - 1) * N);
     const wFirst = (withW.heldIndex === null ? 1 : 0) + 1 + (withW.fitDrift ? 1 : 0), k = wander.knotsS.length;
     const isW = (j: number) => j >= wFirst && j < wFirst + k;
-    const pFixed = np - k;
+    const isS = (j: number) => j >= np0 && j < np0 + m;
+    const pFixed = np - m - k;
     // Generalised least squares: residuals and columns whitened by the noise's own filter.
     const cols = Array.from({ length: np }, (_, j) => jac.subarray(j * N, (j + 1) * N));
     const r = Float64Array.from(bins.y, (v, i) => v - at[i]);
@@ -100,7 +123,7 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
     // Gram matrix; fixed columns scaled to unit norm (log|XᵀX| shifts every score alike).
     const norm = new Float64Array(np).fill(1);
     for (let j = 0; j < np; j++) {
-      if (isW(j)) continue;
+      if (isW(j) || isS(j)) continue;
       let c = 0;
       for (let i = j * N; i < (j + 1) * N; i++) c += jac[i] * jac[i];
       norm[j] = c > 0 ? 1 / Math.sqrt(c) : 1;
@@ -120,7 +143,7 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
         gram[a * np + c] = gram[c * np + a] = t * norm[a] * norm[c];
       }
     }
-    const gainParam = plain.heldGain === null ? np - 1 : -1;
+    const gainParam = plain.heldGain === null ? np0 - 1 : -1;
     // the gain prior's information, for the column scaled by norm
     if (gainParam >= 0 && input.gainPriorSigma > 0) gram[gainParam * np + gainParam] += (norm[gainParam] / input.gainPriorSigma) ** 2;
     for (const fraction of WANDER_FRACTIONS) {
@@ -133,7 +156,7 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
         const si = isW(i) ? kappa : 1;
         g[i] = si * b[i];
         for (let j = 0; j < np; j++) a[i * np + j] = si * (isW(j) ? kappa : 1) * gram[i * np + j];
-        if (isW(i)) a[i * np + i] += 1;
+        if (isW(i) || isS(i)) a[i * np + i] += 1;
       }
       const f = choleskyLogDet(a, np, g);
       if (!f) continue;
