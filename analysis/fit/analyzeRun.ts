@@ -418,7 +418,7 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
-      carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss);
+      carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss, joint);
       if (shared) {
         cal.refinedGain = shared.gain;
         cal.refinedGainSigma = shared.gainSigma;

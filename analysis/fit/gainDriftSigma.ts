@@ -1,5 +1,6 @@
 import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
-import { type FitLayerData } from './layerModel';
+import { decodeLayer, paramLayout, type FitLayerData } from './layerModel';
+import { lawThickness } from './rateWander';
 import { addHeldIndexSigma, heldIndexShift } from './thinLayer';
 
 /**
@@ -36,15 +37,28 @@ export function carryGainDriftSigma(
 /**
  * After a chip's final joint fit with the gain drift held (at γ), its σ into every layer of the
  * chip: the joint fit again with γ one σ higher in every layer's gain (chip-wide G·(1 + γ·t), or
- * each free per-layer gain's slope within its layer), started from the estimates, and each
- * figure's change added in quadrature (first-order propagation, as fit/offsetSigma.ts does for
- * the offset). The chip-wide gain G is refitted with the layers, as in the fit itself.
+ * each free per-layer gain's slope within its layer), and each figure's change added in
+ * quadrature (first-order propagation, as fit/offsetSigma.ts does for the offset). The chip-wide
+ * gain G is refitted with the layers, as in the fit itself.
+ *
+ * With `joint`, the chip's final joint fit on `data` (not robust), the moved solution is one
+ * Gauss–Newton step from it (driftShift), the refit's solution to first order in σ_γ; without
+ * it, the joint fit is repeated with γ moved, started from the estimates.
  */
 export function carryJointGainDriftSigma(
   data: readonly FitLayerData[], estimates: LayerEstimate[], offset: number, sigmaPerS: number,
-  sharedGain: SharedGain | null, robust: boolean,
+  sharedGain: SharedGain | null, robust: boolean, joint?: JointFitResult,
 ): void {
   if (!(sigmaPerS > 0) || estimates.length === 0) return;
+  const step = !robust && joint ? driftShift(data, joint, offset, sigmaPerS, sharedGain) : null;
+  if (step) {
+    estimates.forEach((e, j) => {
+      const d = step[j];
+      addHeldIndexSigma(e, 1, { index: d.index, thicknessNm: d.thicknessNm, opticalNm: d.opticalThicknessNm });
+      e.rateSigma = Math.hypot(e.rateSigma, d.rateNmPerS);
+    });
+    return;
+  }
   const moved = data.map((d) => ({ ...d, gainDriftPerS: (d.gainDriftPerS ?? 0) + sigmaPerS }));
   const shifted = fitLayers(
     { fixedBelow: [], layers: moved, start: estimates, offsetSignal: offset, ...(sharedGain ? { sharedGain: { ...sharedGain, fitDrift: false } } : {}) },
@@ -54,5 +68,45 @@ export function carryJointGainDriftSigma(
     const m = shifted.layers[j];
     addHeldIndexSigma(e, 1, heldIndexShift(e, m, 1));
     e.rateSigma = Math.hypot(e.rateSigma, m.rateNmPerS - e.rateNmPerS);
+  });
+}
+
+/** The change of a layer's figures. */
+interface Change { index: number; thicknessNm: number; opticalThicknessNm: number; rateNmPerS: number }
+
+/**
+ * The joint fit's solution with the held drift γ raised by Δγ, linearised. Each sample's model is
+ * w·(g·(1 + γ·t)·M + o) (fit/layerModel.ts: t from the chip's reference under a chip-wide gain,
+ * from the layer's start under a per-layer one), so it rises by (model − w·o)·Δγ·t/(1 + γ·t),
+ * and the model is the data less the residual. The solution moves by Δθ = (JᵀJ)⁻¹Jᵀ·(−Δmodel)
+ * (LeastSquaresResult.shiftFor), as in fit/offsetSigma.ts. Null when the step cannot be taken
+ * (a fitted drift, a singular normal matrix, a layout that does not match).
+ */
+function driftShift(
+  data: readonly FitLayerData[], joint: JointFitResult, offset: number, deltaPerS: number,
+  sharedGain: SharedGain | null,
+): Change[] | null {
+  const { solver } = joint;
+  if (!solver.shiftFor || sharedGain?.fitDrift) return null;
+  const layout = paramLayout(data, sharedGain !== null, false);
+  if (layout.count !== solver.params.length) return null;
+  const dy = new Float64Array(solver.residuals.length);
+  let pos = 0;
+  for (const l of data) {
+    const w = l.weight ?? 1, gamma = l.gainDriftPerS ?? 0, t0 = sharedGain ? l.chipTimeS : 0;
+    for (let i = 0; i < l.y.length; i++) {
+      const t = t0 + l.tauS[i];
+      const scaled = w * (l.y[i] - offset) - solver.residuals[pos + i];
+      dy[pos + i] = -scaled * deltaPerS * t / (1 + gamma * t);
+    }
+    pos += l.y.length;
+  }
+  const dp = solver.shiftFor(dy);
+  if (!dp) return null;
+  const moved = Float64Array.from(solver.params, (v, k) => v + dp[k]);
+  return data.map((l, j) => {
+    const a = decodeLayer(l, solver.params, layout.offsets[j], layout), b = decodeLayer(l, moved, layout.offsets[j], layout);
+    const da = lawThickness(a, l.wander, l.durationS), db = lawThickness(b, l.wander, l.durationS);
+    return { index: b.index - a.index, thicknessNm: db - da, opticalThicknessNm: b.index * db - a.index * da, rateNmPerS: b.rateNmPerS - a.rateNmPerS };
   });
 }

@@ -2,7 +2,7 @@ import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } f
 import { decodeLayer, paramLayout, type FitLayerData } from './layerModel';
 import { lawThickness } from './rateWander';
 
-/** The figures of a layer that the offset's σ reaches. */
+/** The figures of a layer that the offset's σ reaches (here: their changes). */
 type Moved = Pick<LayerEstimate, 'index' | 'thicknessNm' | 'opticalThicknessNm' | 'rateNmPerS'>;
 
 /**
@@ -20,25 +20,28 @@ type Moved = Pick<LayerEstimate, 'index' | 'thicknessNm' | 'opticalThicknessNm' 
  * `joint`, the chip's final joint fit on `data` (not robust): the moved solution is one
  * Gauss–Newton step from it (offsetShift), which is the refit's solution to first order in σ_o;
  * without it, the joint fit is repeated with the offset moved, started from `estimates`.
- * Either way the change is counted from `estimates` (which may hold the growth re-read after the
- * joint fit).
+ * The step's change is counted from the joint fit's own solution; the refit's from `estimates`.
  */
 export function carryOffsetSigma(
   data: readonly FitLayerData[], estimates: LayerEstimate[], offset: number, offsetSigma: number,
   sharedGain: SharedGain | null, robust: boolean, joint?: JointFitResult,
 ): void {
   if (!(offsetSigma > 0) || estimates.length === 0) return;
-  const moved: readonly Moved[] = (!robust && joint ? offsetShift(data, joint, offsetSigma, sharedGain) : null) ?? fitLayers(
+  const add = (sigma: number, delta: number) => Math.sqrt(sigma * sigma + delta * delta);
+  const step = !robust && joint ? offsetShift(data, joint, offsetSigma, sharedGain) : null;
+  const changes: readonly Moved[] = step ?? fitLayers(
     { fixedBelow: [], layers: data, start: estimates, offsetSignal: offset + offsetSigma, ...(sharedGain ? { sharedGain: { ...sharedGain } } : {}) },
     { robust, maxIterations: 30 },
-  ).layers;
+  ).layers.map((m, j) => ({
+    index: m.index - estimates[j].index, thicknessNm: m.thicknessNm - estimates[j].thicknessNm,
+    opticalThicknessNm: m.opticalThicknessNm - estimates[j].opticalThicknessNm, rateNmPerS: m.rateNmPerS - estimates[j].rateNmPerS,
+  }));
   estimates.forEach((e, j) => {
-    const m = moved[j];
-    const add = (sigma: number, delta: number) => Math.sqrt(sigma * sigma + delta * delta);
-    e.indexSigma = add(e.indexSigma, m.index - e.index);
-    e.thicknessSigmaNm = add(e.thicknessSigmaNm, m.thicknessNm - e.thicknessNm);
-    e.opticalThicknessSigmaNm = add(e.opticalThicknessSigmaNm, m.opticalThicknessNm - e.opticalThicknessNm);
-    e.rateSigma = add(e.rateSigma, m.rateNmPerS - e.rateNmPerS);
+    const c = changes[j];
+    e.indexSigma = add(e.indexSigma, c.index);
+    e.thicknessSigmaNm = add(e.thicknessSigmaNm, c.thicknessNm);
+    e.opticalThicknessSigmaNm = add(e.opticalThicknessSigmaNm, c.opticalThicknessNm);
+    e.rateSigma = add(e.rateSigma, c.rateNmPerS);
   });
 }
 
@@ -68,9 +71,11 @@ function offsetShift(
   const dp = solver.shiftFor(dy);
   if (!dp) return null;
   const p = Float64Array.from(solver.params, (v, k) => v + dp[k]);
+  // the change from the joint fit's own solution (not from the estimates, which may already hold
+  // the growth re-read after it: that move is not the offset's)
   return data.map((l, j) => {
-    const v = decodeLayer(l, p, layout.offsets[j], layout);
-    const d = lawThickness(v, l.wander, l.durationS);
-    return { index: v.index, rateNmPerS: v.rateNmPerS, thicknessNm: d, opticalThicknessNm: v.index * d };
+    const a = decodeLayer(l, solver.params, layout.offsets[j], layout), b = decodeLayer(l, p, layout.offsets[j], layout);
+    const da = lawThickness(a, l.wander, l.durationS), db = lawThickness(b, l.wander, l.durationS);
+    return { index: b.index - a.index, rateNmPerS: b.rateNmPerS - a.rateNmPerS, thicknessNm: db - da, opticalThicknessNm: b.index * db - a.index * da };
   });
 }
