@@ -27,11 +27,12 @@ import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
 import { indexSeparation } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
+import { binsOnExposureClocks } from './profileBins';
 import { type RateWander } from './rateWander';
 import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wanderChoice';
-import { exposureTime, exposureTimes, onExposureClock } from './startTransient';
-import { pooledStartDelay, startDelayProfile, type PooledStartDelay, type StartDelayProfile } from './startDelay';
-import { carryStartDelaySigma, startDelayNote } from './startDelaySigma';
+import { exposureTime, onExposureClock } from './startTransient';
+import { pooledStartDelay, PROFILE_POINTS, startDelayProfile, type PooledStartDelay, type StartDelayProfile } from './startDelay';
+import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -120,9 +121,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     const plain = await analyzePass(design, trace, options, { delayS: 0 });
     return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled)] : plain.warnings };
   }
-  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS });
-  const moved = await analyzePass(design, trace, { ...options, modelSeries: false, onProgress: undefined }, { delayS: pooled.delayS + pooled.sigmaS });
-  carryStartDelaySigma(result, moved);
+  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS, sigmaS: pooled.sigmaS });
   result.warnings.push(startDelayNote(pooled));
   return result;
 }
@@ -138,17 +137,23 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   // Without the next layer's start read as growth below: that reading takes up the start delay
   // (near an extremum both first add a slope at the start; measured on the chamber simulator the
   // layers' profiles then came out flat), so here the growth stands on the idle levels.
-  await analyzePass(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false }, { delayS: 0, profiles });
+  await analyzeLayers(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false }, { delayS: 0, profiles });
   return pooledStartDelay(profiles);
 }
 
-/** What a pass takes of the start transient: the delay held, and where to put each layer's profile. */
+/** What a pass takes of the start transient: the delay held, its σ (carried into every layer: fit/startDelaySigma.ts), and where to put each layer's profile. */
 interface PassTransient {
   delayS: number;
+  sigmaS?: number;
   profiles?: StartDelayProfile[];
 }
 
 async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult> {
+  return (await analyzeLayers(design, trace, options, transient))!;
+}
+
+/** The pass; a profiling pass (transient.profiles) stops after the layers' fits, with no result (null). */
+async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult | null> {
   const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
   const warnings: string[] = trace.warnings.map((w) => w.message);
   // Without a layer column the design segments the trace (designSegments), not the signal alone.
@@ -314,12 +319,13 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
     if (transient.profiles && !byDesign && !separation?.hold && fit.fitDrift) {
       // This layer's χ² in the run's start delay, on the stack below as the pass holds it.
       const e = single.layers[0];
+      const profileBins = binsOnExposureClocks(samples.tauS, samples.indices, trace.signal, PROFILE_POINTS);
       const profile = startDelayProfile({
         below: below.slice(), start: e, offsetSignal: calibration.offset,
         ...(ends?.growthBelow(chip) && heldIndex === null ? { growthBelow: { heldNm: ends.growthBelow(chip)!.deltaNm, rateNmPerS: ends.growthBelow(chip)!.rateNmPerS } } : {}),
         ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
         dataAt: (delayS) => {
-          const binned = binMeans(samples.tauS, samples.indices, trace.signal, 200, exposureTimes(samples.tauS, delayS));
+          const binned = profileBins(delayS);
           return { ...fit, tauS: binned.tauS, y: binned.y, durationS: exposureTime(fit.durationS, delayS) };
         },
       });
@@ -355,6 +361,13 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       if (heldDriftSigma > 0) {
         carryGainDriftSigma(fit, single.layers[0], knownDrift, heldDriftSigma, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
       }
+      if (transient.sigmaS && !byDesign) {
+        const e = single.layers[0];
+        carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, ([moved]) => fitLayers({
+          fixedBelow: below, layers: [moved], offsetSignal: calibration.offset, start: [{ ...e, gain: fit.heldGain ?? (withPrior ? anchor : e.gain) }],
+          ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
+        }, { robust: o.robustLoss, maxIterations: 30 }));
+      }
     }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
     const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;
@@ -380,6 +393,7 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
     if (done % 4 === 0) await Promise.resolve();
   }
 
+  if (transient.profiles) return null;
   if (o.mode === 'refit') {
     // Thin layers: hold at the drift estimate from the whole run, then one final joint fit per chip.
     const points = states.map(toIndexPoint);
@@ -406,6 +420,11 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss);
       carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss);
+      if (transient.sigmaS && !byDesign) {
+        // to the ends the growths after the cuts put on the layers (LayerEnds), as their estimates now stand
+        const ended = data.map((d, j) => ({ ...d, durationS: chipStates[j].fit.durationS }));
+        carryJointStartDelaySigma(ended, chipStates.map((p) => p.estimate), cal.offset, transient.delayS, transient.sigmaS, cg, o.robustLoss);
+      }
       if (shared) {
         cal.refinedGain = shared.gain;
         cal.refinedGainSigma = shared.gainSigma;
