@@ -92,7 +92,7 @@ export const ANALYZE_DEFAULTS = {
   rateWander: false,
   indexGradient: false,
   growthFromNext: true,
-  startTransient: false,
+  startTransient: true,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -110,9 +110,10 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  * Fits every layer of a run: per chip gain/offset calibration, then each layer's index, rate and
  * rate drift (and a per-layer gain) against the growing-layer model on the chip's stack as
  * deposited. `refit` re-estimates all layers of the chip jointly after each layer (see refitChip).
- * With `startTransient` (and a layer column) a layer-by-layer pass first profiles every layer in
- * the run's start delay (fit/startDelay.ts); where the pooled delay is kept, the run is analysed
- * with it held, and again with it one σ longer for its share of each layer's σ. Pure: no I/O.
+ * With `startTransient` (on by default; and a layer column) a layer-by-layer pass first profiles
+ * every layer in the run's start delay (fit/startDelay.ts); where the pooled delay is kept, the
+ * run is analysed with it held, each fit refitted with it one σ longer for its share of the
+ * layer's σ (fit/startDelaySigma.ts). Pure: no I/O.
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
   if (!(options.startTransient ?? ANALYZE_DEFAULTS.startTransient)) return analyzePass(design, trace, options, { delayS: 0 });
@@ -164,7 +165,13 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
   const gathered = gatherLayerSamples(trace, layerSegments);
   // A start transient puts the fits on the exposure clock (fit/startTransient.ts); not inside
   // boundaries placed on the design's curve, which placed each start where the growth showed.
-  const samplesByLayer = transient.delayS > 0 && !byDesign ? new Map([...gathered].map(([l, s]) => [l, onExposureClock(s, transient.delayS)])) : gathered;
+  // Turning-point cuts only (as the profiles): there the end thickness is the rate extrapolated
+  // from the whole layer, which the start-up moves; a level cut's end sits on a slope that reads
+  // it directly, and there the delay cost more than it gave (the sample four-layer AR, ramp 1.2 s,
+  // refit: δ̂ 1.34 ± 0.46 s from two layers, n·d of layer 2 off by 1.13 % against 0.42 % without).
+  const onClock = (l: number) => design.layers[l - 1]?.monitor.cut === 'turning-point';
+  const samplesByLayer = transient.delayS > 0 && !byDesign
+    ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
   const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleNoiseModel(trace, seg.idle));
@@ -316,7 +323,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
         }
       }
     }
-    if (transient.profiles && !byDesign && !separation?.hold && fit.fitDrift) {
+    if (transient.profiles && !byDesign && !separation?.hold && fit.fitDrift && dl.monitor.cut === 'turning-point') {
       // This layer's χ² in the run's start delay, on the stack below as the pass holds it.
       const e = single.layers[0];
       const profileBins = binsOnExposureClocks(samples.tauS, samples.indices, trace.signal, PROFILE_POINTS);
@@ -363,7 +370,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       }
       if (transient.sigmaS && !byDesign) {
         const e = single.layers[0];
-        carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, ([moved]) => fitLayers({
+        carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, [(samples.startDelayS ?? 0) > 0], ([moved]) => fitLayers({
           fixedBelow: below, layers: [moved], offsetSignal: calibration.offset, start: [{ ...e, gain: fit.heldGain ?? (withPrior ? anchor : e.gain) }],
           ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
         }, { robust: o.robustLoss, maxIterations: 30 }));
@@ -423,7 +430,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       if (transient.sigmaS && !byDesign) {
         // to the ends the growths after the cuts put on the layers (LayerEnds), as their estimates now stand
         const ended = data.map((d, j) => ({ ...d, durationS: chipStates[j].fit.durationS }));
-        carryJointStartDelaySigma(ended, chipStates.map((p) => p.estimate), cal.offset, transient.delayS, transient.sigmaS, cg, o.robustLoss);
+        carryJointStartDelaySigma(ended, chipStates.map((p) => p.estimate), cal.offset, transient.delayS, transient.sigmaS, chipStates.map((p) => (p.samples.startDelayS ?? 0) > 0), cg, o.robustLoss);
       }
       if (shared) {
         cal.refinedGain = shared.gain;

@@ -33,24 +33,25 @@ function addShift(e: LayerEstimate, m: LayerEstimate): void {
  * derivative of the minimum in δ, the same first-order change a whole pass at δ + σ gives for the
  * fit (that pass differs in where each fit starts, not in its minimum; it also moves the stack
  * below in sequential mode and the growths read after the cuts, which here stay as held).
- * `refit` fits the moved data from the estimates (analyzeRun's fit of a layer, or the chip's joint fit).
+ * `refit` fits the moved data from the estimates (analyzeRun's fit of a layer, or the chip's joint
+ * fit); only the layers `onClock` (fitted on the exposure clock) are moved.
  */
 export function carryStartDelaySigma(
-  data: readonly FitLayerData[], estimates: LayerEstimate[], delayS: number, sigmaS: number,
+  data: readonly FitLayerData[], estimates: LayerEstimate[], delayS: number, sigmaS: number, onClock: readonly boolean[],
   refit: (moved: FitLayerData[]) => JointFitResult,
 ): void {
-  if (!(sigmaS > 0) || !Number.isFinite(sigmaS) || estimates.length === 0) return;
-  const moved = refit(data.map((d) => onMovedClock(d, delayS, delayS + sigmaS)));
+  if (!(sigmaS > 0) || !Number.isFinite(sigmaS) || estimates.length === 0 || !onClock.some(Boolean)) return;
+  const moved = refit(data.map((d, j) => (onClock[j] ? onMovedClock(d, delayS, delayS + sigmaS) : d)));
   if (!Number.isFinite(moved.solver.ssr)) return;
   estimates.forEach((e, j) => addShift(e, moved.layers[j]));
 }
 
 /** carryStartDelaySigma after a chip's final joint fit (the chip-wide gain refitted with the layers, as in the fit). */
 export function carryJointStartDelaySigma(
-  data: readonly FitLayerData[], estimates: LayerEstimate[], offset: number, delayS: number, sigmaS: number,
+  data: readonly FitLayerData[], estimates: LayerEstimate[], offset: number, delayS: number, sigmaS: number, onClock: readonly boolean[],
   sharedGain: SharedGain | null, robust: boolean,
 ): void {
-  carryStartDelaySigma(data, estimates, delayS, sigmaS, (moved) => fitLayers(
+  carryStartDelaySigma(data, estimates, delayS, sigmaS, onClock, (moved) => fitLayers(
     { fixedBelow: [], layers: moved, start: estimates, offsetSignal: offset, ...(sharedGain ? { sharedGain: { ...sharedGain } } : {}) },
     { robust, maxIterations: 30 },
   ));
