@@ -33,6 +33,10 @@ function addShift(e: LayerEstimate, m: LayerEstimate): void {
  * derivative of the minimum in δ, the same first-order change a whole pass at δ + σ gives for the
  * fit (that pass differs in where each fit starts, not in its minimum; it also moves the stack
  * below in sequential mode and the growths read after the cuts, which here stay as held).
+ * Measured against that pass on the bench's 40-layer chamber run (δ̂ 1.25 ± 0.37 s): each
+ * layer's whole thickness σ within 0.72–1.08× of it in refit (median 0.98), 0.77–1.14× in
+ * sequential (median 1.02); δ's share alone differs more (refit median 0.7×), where the pass's
+ * growths re-read after the cuts moved with δ; 3σ coverage the same (40/40 refit, 36/40 sequential).
  * `refit` fits the moved data from the estimates (analyzeRun's fit of a layer, or the chip's joint
  * fit); only the layers `onClock` (fitted on the exposure clock) are moved.
  */
