@@ -29,11 +29,12 @@ import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
 import { indexSeparation } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
+import { binsOnExposureClocks } from './profileBins';
 import { type RateWander } from './rateWander';
 import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wanderChoice';
-import { exposureTime, exposureTimes, onExposureClock } from './startTransient';
-import { pooledStartDelay, startDelayProfile, type PooledStartDelay, type StartDelayProfile } from './startDelay';
-import { carryStartDelaySigma, startDelayNote } from './startDelaySigma';
+import { exposureTime, onExposureClock } from './startTransient';
+import { pooledStartDelay, PROFILE_POINTS, startDelayProfile, type PooledStartDelay, type StartDelayProfile } from './startDelay';
+import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -95,7 +96,7 @@ export const ANALYZE_DEFAULTS = {
   rateWander: false,
   indexGradient: false,
   growthFromNext: true,
-  startTransient: false,
+  startTransient: true,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -113,9 +114,10 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  * Fits every layer of a run: per chip gain/offset calibration, then each layer's index, rate and
  * rate drift (and a per-layer gain) against the growing-layer model on the chip's stack as
  * deposited. `refit` re-estimates all layers of the chip jointly after each layer (see refitChip).
- * With `startTransient` (and a layer column) a layer-by-layer pass first profiles every layer in
- * the run's start delay (fit/startDelay.ts); where the pooled delay is kept, the run is analysed
- * with it held, and again with it one σ longer for its share of each layer's σ. Pure: no I/O.
+ * With `startTransient` (on by default; and a layer column) a layer-by-layer pass first profiles
+ * every layer in the run's start delay (fit/startDelay.ts); where the pooled delay is kept, the
+ * run is analysed with it held, each fit refitted with it one σ longer for its share of the
+ * layer's σ (fit/startDelaySigma.ts). Pure: no I/O.
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
   if (!(options.startTransient ?? ANALYZE_DEFAULTS.startTransient)) return analyzePass(design, trace, options, { delayS: 0 });
@@ -124,9 +126,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     const plain = await analyzePass(design, trace, options, { delayS: 0 });
     return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled)] : plain.warnings };
   }
-  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS });
-  const moved = await analyzePass(design, trace, { ...options, modelSeries: false, onProgress: undefined }, { delayS: pooled.delayS + pooled.sigmaS });
-  carryStartDelaySigma(result, moved);
+  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS, sigmaS: pooled.sigmaS });
   result.warnings.push(startDelayNote(pooled));
   return result;
 }
@@ -142,17 +142,29 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   // Without the next layer's start read as growth below: that reading takes up the start delay
   // (near an extremum both first add a slope at the start; measured on the chamber simulator the
   // layers' profiles then came out flat), so here the growth stands on the idle levels.
-  await analyzePass(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false }, { delayS: 0, profiles });
+  // The pass's own fits only build the stack each profile stands on: on half the points (measured
+  // on the bench's 40-layer run, δ̂ 1.253 ± 0.374 s against 1.253 ± 0.375 s on 400, at 2/3 the CPU).
+  const maxFitPoints = Math.min(options.maxFitPoints ?? ANALYZE_DEFAULTS.maxFitPoints, PROFILE_PASS_POINTS);
+  await analyzeLayers(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false, maxFitPoints }, { delayS: 0, profiles });
   return pooledStartDelay(profiles);
 }
 
-/** What a pass takes of the start transient: the delay held, and where to put each layer's profile. */
+/** Fit points per layer in the start delay's profiling pass (fit/startDelay.ts's profiles use PROFILE_POINTS). */
+const PROFILE_PASS_POINTS = 200;
+
+/** What a pass takes of the start transient: the delay held, its σ (carried into every layer: fit/startDelaySigma.ts), and where to put each layer's profile. */
 interface PassTransient {
   delayS: number;
+  sigmaS?: number;
   profiles?: StartDelayProfile[];
 }
 
 async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult> {
+  return (await analyzeLayers(design, trace, options, transient))!;
+}
+
+/** The pass; a profiling pass (transient.profiles) stops after the layers' fits, with no result (null). */
+async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult | null> {
   const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
   const warnings: string[] = trace.warnings.map((w) => w.message);
   // Without a layer column the design segments the trace (designSegments), not the signal alone.
@@ -163,7 +175,13 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
   const gathered = gatherLayerSamples(trace, layerSegments);
   // A start transient puts the fits on the exposure clock (fit/startTransient.ts); not inside
   // boundaries placed on the design's curve, which placed each start where the growth showed.
-  const samplesByLayer = transient.delayS > 0 && !byDesign ? new Map([...gathered].map(([l, s]) => [l, onExposureClock(s, transient.delayS)])) : gathered;
+  // Turning-point cuts only (as the profiles): there the end thickness is the rate extrapolated
+  // from the whole layer, which the start-up moves; a level cut's end sits on a slope that reads
+  // it directly, and there the delay cost more than it gave (the sample four-layer AR, ramp 1.2 s,
+  // refit: δ̂ 1.34 ± 0.46 s from two layers, n·d of layer 2 off by 1.13 % against 0.42 % without).
+  const onClock = (l: number) => design.layers[l - 1]?.monitor.cut === 'turning-point';
+  const samplesByLayer = transient.delayS > 0 && !byDesign
+    ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
   const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleNoiseModel(trace, seg.idle));
@@ -321,15 +339,16 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
         }
       }
     }
-    if (transient.profiles && !byDesign && !separation?.hold && fit.fitDrift) {
+    if (transient.profiles && !byDesign && !separation?.hold && fit.fitDrift && dl.monitor.cut === 'turning-point') {
       // This layer's χ² in the run's start delay, on the stack below as the pass holds it.
       const e = single.layers[0];
+      const profileBins = binsOnExposureClocks(samples.tauS, samples.indices, trace.signal, PROFILE_POINTS);
       const profile = startDelayProfile({
         below: below.slice(), start: e, offsetSignal: calibration.offset,
         ...(ends?.growthBelow(chip) && heldIndex === null ? { growthBelow: { heldNm: ends.growthBelow(chip)!.deltaNm, rateNmPerS: ends.growthBelow(chip)!.rateNmPerS } } : {}),
         ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
         dataAt: (delayS) => {
-          const binned = binMeans(samples.tauS, samples.indices, trace.signal, 200, exposureTimes(samples.tauS, delayS));
+          const binned = profileBins(delayS);
           return { ...fit, tauS: binned.tauS, y: binned.y, durationS: exposureTime(fit.durationS, delayS) };
         },
       });
@@ -367,6 +386,13 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       if (heldDriftSigma > 0) {
         carryGainDriftSigma(fit, single.layers[0], knownDrift, heldDriftSigma, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
       }
+      if (transient.sigmaS && !byDesign) {
+        const e = single.layers[0];
+        carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, [(samples.startDelayS ?? 0) > 0], ([moved]) => fitLayers({
+          fixedBelow: below, layers: [moved], offsetSignal: calibration.offset, start: [{ ...e, gain: fit.heldGain ?? (withPrior ? anchor : e.gain) }],
+          ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
+        }, { robust: o.robustLoss, maxIterations: 30 }));
+      }
     }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
     const ratio = noiseFloor.sigma ? single.solver.residualRms / noiseFloor.sigma : 1;
@@ -392,6 +418,7 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
     if (done % 4 === 0) await Promise.resolve();
   }
 
+  if (transient.profiles) return null;
   if (o.mode === 'refit') {
     // Thin layers: hold at the drift estimate from the whole run, then one final joint fit per chip.
     const points = states.map(toIndexPoint);
@@ -419,6 +446,11 @@ async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOpt
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
       carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss, joint);
+      if (transient.sigmaS && !byDesign) {
+        // to the ends the growths after the cuts put on the layers (LayerEnds), as their estimates now stand
+        const ended = data.map((d, j) => ({ ...d, durationS: chipStates[j].fit.durationS }));
+        carryJointStartDelaySigma(ended, chipStates.map((p) => p.estimate), cal.offset, transient.delayS, transient.sigmaS, chipStates.map((p) => (p.samples.startDelayS ?? 0) > 0), cg, o.robustLoss);
+      }
       if (shared) {
         cal.refinedGain = shared.gain;
         cal.refinedGainSigma = shared.gainSigma;

@@ -16,7 +16,7 @@ export interface ScenarioRun {
 
 /**
  * Options added to every analysis, from FRINGELOG_ACCURACY_OPTIONS (JSON), for measuring an
- * option across the scenarios by hand (e.g. '{"startTransient":true}'); CI never sets it.
+ * option across the scenarios by hand (e.g. '{"rateWander":true}'); CI never sets it.
  */
 function extraOptions(): AnalyzeOptions {
   const raw = process.env.FRINGELOG_ACCURACY_OPTIONS;
