@@ -1,23 +1,56 @@
-import { createReadStream, statSync } from 'node:fs';
+import { closeSync, createReadStream, openSync, readSync, statSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { AnalysisInputError } from '../fit/AnalysisInputError';
 import { analyzeRun } from '../fit/analyzeRun';
-import { readTrace, TraceFormatError, type TraceData } from '../trace';
+import { joinTraceParts, readTrace, readTraceBytes, readTraceHead, splitTrace, TraceFormatError, type TraceData } from '../trace';
 import { isSpectrumThread, serveSpectra, startSpectrumThread } from './spectrumThread';
 import { choiceFlag, CliInputError, loadDesignFile, parseFlags, requireFlag, runCli } from './args';
 
 const USAGE = 'npm run --silent analyze -- --design FILE --trace FILE [--mode sequential|refit]';
 
-async function loadTrace(path: string, layerCount: number): Promise<TraceData> {
+type Spectra = ReturnType<typeof startSpectrumThread>;
+
+/** readTrace's default size limit: a larger file is streamed, for readTrace to name the fault. */
+const SPLIT_MAX_BYTES = 200 * 1024 * 1024;
+
+/**
+ * The file read on two threads: its first half here, its second on the spectrum thread (in
+ * memory shared by both), joined as one read of the whole would give; the whole read here where
+ * the file is small, not split cleanly, or the join could differ (a fault in the second half).
+ */
+async function readSplit(path: string, size: number, options: { fileName: string; layerCount: number }, spectra: Spectra): Promise<TraceData> {
+  const shared = new SharedArrayBuffer(size);
+  const bytes = new Uint8Array(shared);
+  const fd = openSync(path, 'r');
+  let length = 0;
   try {
-    if (!statSync(path).isFile()) throw new CliInputError(`${path}: cannot read file: is a directory`);
+    for (let n = -1; n !== 0 && length < size; length += n) n = readSync(fd, bytes, length, size - length, length);
+  } finally {
+    closeSync(fd);
+  }
+  const whole = bytes.subarray(0, length);
+  const split = splitTrace(whole);
+  if (!split) return readTraceBytes(whole, options);
+  const tail = spectra.traceTail(shared, length, split, options);
+  const head = await readTraceHead(whole, split, options);
+  const rest = await tail;
+  return (head && rest ? joinTraceParts(head, rest, options) : null) ?? readTraceBytes(whole, options);
+}
+
+async function loadTrace(path: string, layerCount: number, spectra: Spectra | null): Promise<TraceData> {
+  let size = 0;
+  try {
+    const stat = statSync(path);
+    if (!stat.isFile()) throw new CliInputError(`${path}: cannot read file: is a directory`);
+    size = stat.size;
   } catch (e) {
     if (e instanceof CliInputError) throw e;
     const code = (e as NodeJS.ErrnoException).code;
     throw new CliInputError(`${path}: cannot read file: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`);
   }
   try {
-    return await readTrace(createReadStream(path), { fileName: path, layerCount });
+    const split = spectra && size <= SPLIT_MAX_BYTES ? await readSplit(path, size, { fileName: path, layerCount }, spectra) : null;
+    return split ?? (await readTrace(createReadStream(path), { fileName: path, layerCount }));
   } catch (e) {
     if (e instanceof TraceFormatError) throw new CliInputError(e.message);
     throw e;
@@ -34,7 +67,7 @@ export async function analyzeCommand(argv: string[]) {
   // started before the trace is read, so the thread is ready when the fits begin; one core: none
   const spectra = availableParallelism() > 1 ? startSpectrumThread(new URL(import.meta.url)) : null;
   try {
-    const trace = await loadTrace(tracePath, design.layers.length);
+    const trace = await loadTrace(tracePath, design.layers.length, spectra);
     const result = await analyzeRun(design, trace, { mode, spectrumOf: spectra?.spectrumOf }).catch((e: unknown) => {
       if (e instanceof AnalysisInputError) throw new CliInputError(`${tracePath}: ${e.message}`);
       throw e;
