@@ -2,7 +2,7 @@ import { closeSync, createReadStream, openSync, readSync, statSync } from 'node:
 import { availableParallelism } from 'node:os';
 import { AnalysisInputError } from '../fit/AnalysisInputError';
 import { analyzeRun } from '../fit/analyzeRun';
-import { joinTraceParts, readTrace, readTraceBytes, readTraceHead, splitTrace, TraceFormatError, type TraceData } from '../trace';
+import { joinTraceParts, readTrace, readTraceBytes, readTraceHead, readTraceTail, splitTrace, TraceFormatError, type TraceData } from '../trace';
 import { isSpectrumThread, serveSpectra, startSpectrumThread } from './spectrumThread';
 import { choiceFlag, CliInputError, loadDesignFile, parseFlags, requireFlag, runCli } from './args';
 
@@ -10,8 +10,11 @@ const USAGE = 'npm run --silent analyze -- --design FILE --trace FILE [--mode se
 
 type Spectra = ReturnType<typeof startSpectrumThread>;
 
-/** readTrace's default size limit: a larger file is streamed, for readTrace to name the fault. */
-const SPLIT_MAX_BYTES = 200 * 1024 * 1024;
+/**
+ * A larger file is streamed on one thread as before: a split read holds the whole file in memory,
+ * and memory should stay bounded by the samples, not by the file (a file of comment lines).
+ */
+const SPLIT_MAX_BYTES = 64 * 1024 * 1024;
 
 /**
  * The share of the file read here: the other thread starts reading only once it has loaded the
@@ -21,9 +24,9 @@ const SPLIT_MAX_BYTES = 200 * 1024 * 1024;
 const HEAD_FRACTION = 0.68;
 
 /**
- * The file read on two threads: its first half here, its second on the spectrum thread (in
- * memory shared by both), joined as one read of the whole would give; the whole read here where
- * the file is small, not split cleanly, or the join could differ (a fault in the second half).
+ * The file read on two threads: its first part here, the rest on the spectrum thread (in memory
+ * shared by both), joined as one read of the whole would give; the whole read here where the
+ * file is small, not split cleanly, or the join could differ (a fault in the second part).
  */
 async function readSplit(path: string, size: number, options: { fileName: string; layerCount: number }, spectra: Spectra): Promise<TraceData> {
   const shared = new SharedArrayBuffer(size);
@@ -40,7 +43,9 @@ async function readSplit(path: string, size: number, options: { fileName: string
   if (!split) return readTraceBytes(whole, options);
   const tail = spectra.traceTail(shared, length, split, options);
   const head = await readTraceHead(whole, split, options);
-  const rest = await tail;
+  // the thread stopped or never started: the tail read here (a fault in it, and the whole is read)
+  const answer = await tail;
+  const rest = answer !== undefined ? answer : head ? await readTraceTail(whole, split, options).catch(() => null) : null;
   return (head && rest ? joinTraceParts(head, rest, options) : null) ?? readTraceBytes(whole, options);
 }
 

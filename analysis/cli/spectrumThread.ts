@@ -65,12 +65,12 @@ export function serveSpectra(): void {
  */
 export function startSpectrumThread(entry: URL): {
   spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>;
-  /** The trace's tail read there; null when it cannot be (no thread, or a fault in it). */
-  traceTail: (bytes: SharedArrayBuffer, length: number, split: TraceSplit, options: ReadTraceOptions) => Promise<TracePart | null>;
+  /** The trace's tail read there; null on a fault in it, undefined when the thread is not there to read it. */
+  traceTail: (bytes: SharedArrayBuffer, length: number, split: TraceSplit, options: ReadTraceOptions) => Promise<TracePart | null | undefined>;
   close: () => void;
 } {
   const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
-  const tails = new Map<number, (part: TracePart | null) => void>();
+  const tails = new Map<number, (part: TracePart | null | undefined) => void>();
   const local = answer;
   let worker: Worker | null = null;
   let closed = false;
@@ -79,7 +79,7 @@ export function startSpectrumThread(entry: URL): {
     if (closed) return;
     for (const p of pending.values()) p.resolve(local(p.request));
     pending.clear();
-    for (const t of tails.values()) t(null);
+    for (const t of tails.values()) t(undefined);
     tails.clear();
   };
   try {
@@ -111,7 +111,7 @@ export function startSpectrumThread(entry: URL): {
       });
     },
     traceTail: (bytes, length, split, options) => {
-      if (!worker) return Promise.resolve(null);
+      if (!worker) return Promise.resolve(undefined);
       const w = worker;
       const id = next++;
       return new Promise((resolve) => {
