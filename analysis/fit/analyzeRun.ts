@@ -150,7 +150,7 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
 }
 
 /** Fit points per layer in the start delay's profiling pass (fit/startDelay.ts's profiles use PROFILE_POINTS). */
-const PROFILE_PASS_POINTS = 200;
+const PROFILE_PASS_POINTS = 100;
 
 /** What a pass takes of the start transient: the delay held, its σ (carried into every layer: fit/startDelaySigma.ts), and where to put each layer's profile. */
 interface PassTransient {

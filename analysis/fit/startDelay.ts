@@ -13,7 +13,7 @@ import { MAX_SHUTTER_S } from './layerEnds';
 export const START_DELAY_GRID_S: readonly number[] = Array.from({ length: 7 }, (_, i) => 0.5 * i);
 
 /** Fit points (bin means) per layer in the profile: χ² differences need the fringe's shape, not every sample. */
-export const PROFILE_POINTS = 100;
+export const PROFILE_POINTS = 50;
 
 export interface StartDelayProfileInput {
   /** The stack under the layer at its wavelength (the layer below with its growth as held so far). */
