@@ -142,8 +142,9 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   // Without the next layer's start read as growth below: that reading takes up the start delay
   // (near an extremum both first add a slope at the start; measured on the chamber simulator the
   // layers' profiles then came out flat), so here the growth stands on the idle levels.
-  // The pass's own fits only build the stack each profile stands on: on half the points (measured
-  // on the bench's 40-layer run, δ̂ 1.253 ± 0.374 s against 1.253 ± 0.375 s on 400, at 2/3 the CPU).
+  // The pass's own fits only build the stack each profile stands on: on a quarter of the points
+  // (measured on the bench's 40-layer run, δ̂ 1.253 ± 0.375 s on 100 against 1.253 ± 0.374 s on 200
+  // and 1.253 ± 0.375 s on 400; 200 took 2/3 the CPU of 400).
   const maxFitPoints = Math.min(options.maxFitPoints ?? ANALYZE_DEFAULTS.maxFitPoints, PROFILE_PASS_POINTS);
   await analyzeLayers(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false, maxFitPoints }, { delayS: 0, profiles });
   return pooledStartDelay(profiles);
