@@ -142,15 +142,16 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   // Without the next layer's start read as growth below: that reading takes up the start delay
   // (near an extremum both first add a slope at the start; measured on the chamber simulator the
   // layers' profiles then came out flat), so here the growth stands on the idle levels.
-  // The pass's own fits only build the stack each profile stands on: on half the points (measured
-  // on the bench's 40-layer run, δ̂ 1.253 ± 0.374 s against 1.253 ± 0.375 s on 400, at 2/3 the CPU).
+  // The pass's own fits only build the stack each profile stands on: on a quarter of the points
+  // (measured on the bench's 40-layer run, δ̂ 1.253 ± 0.375 s on 100 against 1.253 ± 0.374 s on 200
+  // and 1.253 ± 0.375 s on 400; 200 took 2/3 the CPU of 400).
   const maxFitPoints = Math.min(options.maxFitPoints ?? ANALYZE_DEFAULTS.maxFitPoints, PROFILE_PASS_POINTS);
   await analyzeLayers(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false, maxFitPoints }, { delayS: 0, profiles });
   return pooledStartDelay(profiles);
 }
 
 /** Fit points per layer in the start delay's profiling pass (fit/startDelay.ts's profiles use PROFILE_POINTS). */
-const PROFILE_PASS_POINTS = 200;
+const PROFILE_PASS_POINTS = 100;
 
 /** What a pass takes of the start transient: the delay held, its σ (carried into every layer: fit/startDelaySigma.ts), and where to put each layer's profile. */
 interface PassTransient {
@@ -260,7 +261,12 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       continue;
     }
     const durationS = samples.tauS[n - 1];
-    const { observed, binned: binnedElsewhere, ...spectrum }: LayerSpectrum & Partial<SampleWorkResult> = spectra ? await spectra.get(dl.layer)! : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
+    // The profiling pass reads no spectrum of a layer under 3 QWOT (1.5 fringes), whose fringe rate
+    // comes in steps of one fringe per layer; its fits only build the stack each profile stands on
+    // (measured: δ̂ and σ the same on the bench's 40-layer run and 8 chamber runs).
+    const { observed, binned: binnedElsewhere, ...spectrum }: LayerSpectrum & Partial<SampleWorkResult> = spectra ? await spectra.get(dl.layer)!
+      : transient.profiles && qwotAtMonitor < 3 ? { fringeFrequencyHz: null, fringeRateNmPerS: null, disturbances: [] }
+      : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     // make() is called again after the pass (final refit), when the layer's state exists.
     const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean } = {};
     const make = (maxPoints: number): FitLayerData => {
@@ -383,7 +389,8 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       const held = heldIndex !== null ? { sigma: heldSigma, shift: shiftWithHeldIndex(fit, heldIndex, heldSigma, single.layers[0], fitSingle) } : null;
       stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held));
       // The gain drift held within the layer: its prior σ into the layer's σ (fit/gainDriftSigma.ts).
-      if (heldDriftSigma > 0) {
+      // (σ only: not in the profiling pass, whose fits only build the stack each profile stands on)
+      if (heldDriftSigma > 0 && !transient.profiles) {
         carryGainDriftSigma(fit, single.layers[0], knownDrift, heldDriftSigma, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
       }
       if (transient.sigmaS && !byDesign) {

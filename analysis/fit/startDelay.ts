@@ -12,8 +12,13 @@ import { MAX_SHUTTER_S } from './layerEnds';
  */
 export const START_DELAY_GRID_S: readonly number[] = Array.from({ length: 7 }, (_, i) => 0.5 * i);
 
-/** Fit points (bin means) per layer in the profile: χ² differences need the fringe's shape, not every sample. */
-export const PROFILE_POINTS = 100;
+/**
+ * Fit points (bin means) per layer in the profile: χ² differences need the fringe's shape, not
+ * every sample. Measured against 100 on the bench's 40-layer run and 8 chamber runs (REAL_CHAMBER,
+ * 18 and 40 layers, ramp 1.5 s): δ̂ moved by at most 0.26 σ (bench 1.253 ± 0.374 →
+ * 1.307 ± 0.405 s), RMS (δ̂ − 1.5 s)/σ 1.06 → 1.08, largest |z| 2.24 → 2.32.
+ */
+export const PROFILE_POINTS = 50;
 
 export interface StartDelayProfileInput {
   /** The stack under the layer at its wavelength (the layer below with its growth as held so far). */

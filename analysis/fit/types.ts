@@ -134,7 +134,7 @@ export interface AnalyzeOptions {
    * layers cut on a turning point (a level cut's end is read on the slope; on the sample
    * four-layer AR, level cuts with a 1.2 s ramp, the delay moved layer 2's n·d from 0.42 to
    * 1.13 % off in refit). A layer-by-layer pass profiles each such layer (≥ 0.5 QWOT, index
-   * fitted) on 7 delays from 0 to 3 s
+   * fitted) on 7 delays from 0 to 3 s, each on 50 bin means
    * (fit/startDelay.ts); δ is kept where the pooled χ² beats no delay by Schwarz's margin, its σ
    * no smaller than the delete-one-layer jackknife's (on the chamber simulator with a 1.5 s ramp,
    * RMS (δ̂ − 1.5 s)/σ 0.98 over 16 runs, none beyond 3σ), and the run is then analysed with δ
@@ -146,8 +146,12 @@ export interface AnalyzeOptions {
    * 100/100/100 %) with two small losses (real-chamber mirror refit max 1.71 → 1.75 %; 40 layers
    * refit index 0.0061 → 0.0089); traces without a ramp keep no delay, designs cut on level
    * profile none, and their figures stay as they were. Cost: mostly the profiling pass; on the
-   * bench's 40-layer refit run the analysis takes 2.5 s of CPU against 1.5 s without (median of
-   * 3, in one process; was 4.3 s with a second whole pass for δ's σ and 13 delays). @default true
+   * bench's 40-layer refit run the analysis took 2.5 s of CPU against 1.5 s without (median of
+   * 3, in one process; was 4.3 s with a second whole pass for δ's σ and 13 delays); with the pass's
+   * fits on 100 bin means, the profiles on 50 and no spectrum or gain drift σ in the pass, the pass
+   * alone takes 0.38 s of CPU warm against 0.55 s (first call in a process 1.0–1.3 s against
+   * 1.4–1.7 s), the analysis 0.45–0.50 s more than without against 0.6–0.7 s (medians of 5–6
+   * runs in one process on a shared machine, load 3–7 on 2 cores). @default true
    */
   startTransient?: boolean;
   /** …or when its trial fit's index σ exceeds this. @default 0.05 */

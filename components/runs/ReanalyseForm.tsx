@@ -45,8 +45,8 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (lamp !== '') settings.lampStabilityPerHour = Number(lamp) / 100;
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
-    for (const key of ['rateWander', 'startTransient', 'indexGradient'] as const) if (form.get(key) === 'on') settings[key] = true;
-    if (form.get('growthFromNext') !== 'on') settings.growthFromNext = false;
+    for (const key of ['rateWander', 'indexGradient'] as const) if (form.get(key) === 'on') settings[key] = true;
+    for (const key of ['growthFromNext', 'startTransient'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
     if (res.status === 201 && body.analysis) {
@@ -107,7 +107,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
         </div>
         <fieldset className="flex flex-col gap-1 text-sm sm:col-span-2 lg:col-span-4" data-testid="reanalyse-effects">
           <legend className="mb-1 text-xs text-ink-soft">
-            More of the chamber in the model (each off by default: it helps some runs and costs others; the run page&apos;s warnings say what was found)
+            More of the chamber in the model (checked: the defaults; each option helps some runs and costs others; the run page&apos;s warnings say what was found)
           </legend>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="growthFromNext" defaultChecked /> Read the growth after a turning-point cut from the next layer&apos;s start
@@ -116,7 +116,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <input type="checkbox" name="rateWander" /> The rate may wander within a layer (kept only where the data asks for it)
           </label>
           <label className="flex items-center gap-2">
-            <input type="checkbox" name="startTransient" /> The rate starts up as the shutter opens (one start delay for the run)
+            <input type="checkbox" name="startTransient" defaultChecked /> The rate starts up as the shutter opens (one start delay for the run, on layers cut at a turning point)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="indexGradient" /> The index may change through layers of 1.5 QWOT or more

@@ -12,6 +12,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (typeof s.thinLayerQwot === 'number') parts.push(`held below ${s.thinLayerQwot} QWOT`);
   if (s.rateWander === true) parts.push('rate wander within layers');
   if (s.startTransient === true) parts.push("rate's start-up at the shutter");
+  if (s.startTransient === false) parts.push('no start-up at the shutter');
   if (s.indexGradient === true) parts.push('index gradient in thick layers');
   if (s.growthFromNext === false) parts.push('growth after turning-point cuts in σ only');
   return parts.join(' · ');
