@@ -13,4 +13,3 @@ export { median, noiseSigma } from './robustStats';
 export { flatStretches, type FlatStretch, type FlatStretchOptions } from './flatStretches';
 export { levelSteps, longRunSigma, meanSigma, type Level, type LevelStepOptions } from './levelSteps';
 export type { ReadTraceOptions, TraceData, TraceScan, TraceWarning, Segment, Segmentation } from './types';
-export { joinTraceParts, readTraceBytes, readTraceHead, readTraceTail, splitTrace, type TracePart, type TraceSplit } from './readTraceParts';

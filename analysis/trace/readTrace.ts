@@ -5,7 +5,7 @@ import type { ReadTraceOptions, TraceData, TraceScan } from './types';
 
 const MIB = 1024 * 1024;
 
-export function resolve(options: ReadTraceOptions) {
+function resolve(options: ReadTraceOptions) {
   return {
     fileName: options.fileName,
     maxBytes: options.maxBytes ?? 200 * MIB,
@@ -28,7 +28,7 @@ export async function readTrace(
   options: ReadTraceOptions = {},
 ): Promise<TraceData> {
   const o = resolve(options);
-  const { parser } = await parse(chunks, o, true);
+  const parser = await parse(chunks, o, true);
   const n = parser.rowCount;
   const data: TraceData = {
     meta: parser.meta,
@@ -56,7 +56,7 @@ export async function scanTrace(
   chunks: AsyncIterable<string | Uint8Array> | Iterable<string | Uint8Array>,
   options: ReadTraceOptions = {},
 ): Promise<TraceScan> {
-  const { parser } = await parse(chunks, resolve(options), false);
+  const parser = await parse(chunks, resolve(options), false);
   return {
     meta: parser.meta,
     columns: parser.columns,
@@ -69,18 +69,7 @@ export async function scanTrace(
 
 type Chunks = AsyncIterable<string | Uint8Array> | Iterable<string | Uint8Array>;
 
-/**
- * How part of a file is read (readTraceParts.ts): `prefix`, the file's lines up to its header,
- * read first, then the chunks counted from line `firstLine`; `finish` false leaves the file-level
- * checks (no header, no data, warnings past the cap) to the caller, who joins the parts.
- */
-export interface PartOptions {
-  prefix?: Uint8Array;
-  firstLine?: number;
-  finish?: boolean;
-}
-
-export async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples: boolean, part: PartOptions = {}): Promise<{ parser: TraceParser; lineCount: number }> {
+async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples: boolean): Promise<TraceParser> {
   const parser = new TraceParser({ fileName: o.fileName, maxRows: o.maxRows, layerCount: o.layerCount, keepSamples });
   const decoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: false });
   let bytes = 0;
@@ -238,11 +227,6 @@ export async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepS
     parser.detachPreviousTime();
   };
 
-  if (part.prefix) {
-    mode = 'bytes';
-    readBytes(part.prefix);
-    lineNo = (part.firstLine ?? 1) - 1;
-  }
   for await (const chunk of chunks) {
     bytes += typeof chunk === 'string' ? utf8Length(chunk) : chunk.byteLength;
     if (bytes > o.maxBytes) {
@@ -262,8 +246,9 @@ export async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepS
     feed(decode());
     if (carry.length > 0) parser.line(carry, ++lineNo);
   }
-  if (part.finish !== false) parser.finish(Math.max(lineNo, 1));
-  return { parser, lineCount: lineNo };
+  parser.finish(Math.max(lineNo, 1));
+
+  return parser;
 }
 
 /** readTrace on text already in memory (tests, small uploads). */

@@ -73,17 +73,6 @@ describe('analyze CLI (shared/FORMATS.md)', () => {
     expect(r.stderr).toMatch(new RegExp(`^analyze: ${escape(file)} line ${header + 41}, column "signal": `));
   });
 
-  it('a trace large enough to be read on two threads: a fault in its second half names its line and column', () => {
-    // about 6 MB (the split starts at 4 MiB): time goes back on row 190 000, past the middle
-    const rows = Array.from({ length: 200_000 }, (_, i) => `${(i * 0.05).toFixed(2)},0.912345,${1 + Math.floor(i / 50_001)},1,spare`);
-    rows[190_000] = rows[190_000].replace(/^[^,]*/, '1.00');
-    const file = writeTmp('large-bad.csv', `# chamber: Bay 2 IAD\ntime_s,signal,layer,chip,note\n${rows.join('\n')}\n`);
-    const r = analyze('--design', design, '--trace', file);
-    expect(r.code).toBe(1);
-    expect(r.stdout).toBe('');
-    expect(r.stderr).toMatch(new RegExp(`^analyze: ${escape(file)} line ${190_003}, column "time_s": 1.00 is not after the previous time 9499.95 \\(line 190002\\)`));
-  });
-
   it('a layer the design does not have is an error naming its line', () => {
     const file = writeTmp('layer9.csv', '# chamber: Bay 2 IAD\ntime_s,signal,layer\n0,0.9,0\n0.1,0.9,9\n');
     const r = analyze('--design', design, '--trace', file);

@@ -29,16 +29,6 @@ describe('the analyze command computes spectra on a second thread', () => {
     expect(got.fringeRateNmPerS).not.toBeNull();
   });
 
-  it('says when it cannot read a trace\'s tail (the thread did not start), so the caller reads it', async () => {
-    const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
-    const bytes = new TextEncoder().encode('time_s,signal\n0,1\n1,1\n2,1\n');
-    const shared = new SharedArrayBuffer(bytes.length);
-    new Uint8Array(shared).set(bytes);
-    const got = await t.traceTail(shared, bytes.length, { headerEnd: 14, at: 18 }, {});
-    t.close();
-    expect(got).toBeUndefined();
-  });
-
   it('answers the samples\' other work from this thread too, as layerSampleWork does', async () => {
     const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
     const tauS = Float64Array.from({ length: 600 }, (_, i) => i * 0.5);
