@@ -1,6 +1,6 @@
 import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
-import { decodeLayer, paramLayout, type FitLayerData } from './layerModel';
-import { lawThickness } from './rateWander';
+import { paramLayout, type FitLayerData } from './layerModel';
+import { layerChangesFor, type LayerChange } from './solutionShift';
 import { addHeldIndexSigma, heldIndexShift } from './thinLayer';
 
 /**
@@ -71,9 +71,6 @@ export function carryJointGainDriftSigma(
   });
 }
 
-/** The change of a layer's figures. */
-interface Change { index: number; thicknessNm: number; opticalThicknessNm: number; rateNmPerS: number }
-
 /**
  * The joint fit's solution with the held drift γ raised by Δγ, linearised. Each sample's model is
  * w·(g·(1 + γ·t)·M + o) (fit/layerModel.ts: t from the chip's reference under a chip-wide gain,
@@ -85,11 +82,10 @@ interface Change { index: number; thicknessNm: number; opticalThicknessNm: numbe
 function driftShift(
   data: readonly FitLayerData[], joint: JointFitResult, offset: number, deltaPerS: number,
   sharedGain: SharedGain | null,
-): Change[] | null {
+): LayerChange[] | null {
   const { solver } = joint;
-  if (!solver.shiftFor || sharedGain?.fitDrift) return null;
+  if (sharedGain?.fitDrift) return null;
   const layout = paramLayout(data, sharedGain !== null, false);
-  if (layout.count !== solver.params.length) return null;
   const dy = new Float64Array(solver.residuals.length);
   let pos = 0;
   for (const l of data) {
@@ -101,12 +97,5 @@ function driftShift(
     }
     pos += l.y.length;
   }
-  const dp = solver.shiftFor(dy);
-  if (!dp) return null;
-  const moved = Float64Array.from(solver.params, (v, k) => v + dp[k]);
-  return data.map((l, j) => {
-    const a = decodeLayer(l, solver.params, layout.offsets[j], layout), b = decodeLayer(l, moved, layout.offsets[j], layout);
-    const da = lawThickness(a, l.wander, l.durationS), db = lawThickness(b, l.wander, l.durationS);
-    return { index: b.index - a.index, thicknessNm: db - da, opticalThicknessNm: b.index * db - a.index * da, rateNmPerS: b.rateNmPerS - a.rateNmPerS };
-  });
+  return layerChangesFor(data, solver, layout, dy);
 }

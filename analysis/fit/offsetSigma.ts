@@ -1,9 +1,6 @@
 import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
-import { decodeLayer, paramLayout, type FitLayerData } from './layerModel';
-import { lawThickness } from './rateWander';
-
-/** The figures of a layer that the offset's σ reaches (here: their changes). */
-type Moved = Pick<LayerEstimate, 'index' | 'thicknessNm' | 'opticalThicknessNm' | 'rateNmPerS'>;
+import { paramLayout, type FitLayerData } from './layerModel';
+import { layerChangesFor, type LayerChange } from './solutionShift';
 
 /**
  * The offset's own σ, into each layer's figures after a chip's final joint fit (the fit took
@@ -29,7 +26,7 @@ export function carryOffsetSigma(
   if (!(offsetSigma > 0) || estimates.length === 0) return;
   const add = (sigma: number, delta: number) => Math.sqrt(sigma * sigma + delta * delta);
   const step = !robust && joint ? offsetShift(data, joint, offsetSigma, sharedGain) : null;
-  const changes: readonly Moved[] = step ?? fitLayers(
+  const changes: readonly LayerChange[] = step ?? fitLayers(
     { fixedBelow: [], layers: data, start: estimates, offsetSignal: offset + offsetSigma, ...(sharedGain ? { sharedGain: { ...sharedGain } } : {}) },
     { robust, maxIterations: 30 },
   ).layers.map((m, j) => ({
@@ -56,11 +53,9 @@ export function carryOffsetSigma(
 function offsetShift(
   data: readonly FitLayerData[], joint: JointFitResult, offsetSigma: number,
   sharedGain: { fitDrift: boolean } | null,
-): Moved[] | null {
+): LayerChange[] | null {
   const { solver } = joint;
-  if (!solver.shiftFor) return null;
   const layout = paramLayout(data, sharedGain !== null, sharedGain?.fitDrift ?? false);
-  if (layout.count !== solver.params.length) return null;
   // the fit's rows: the samples, then its priors' pseudo-observations (which the offset leaves)
   const dy = new Float64Array(solver.residuals.length);
   let pos = 0;
@@ -68,14 +63,7 @@ function offsetShift(
     dy.fill(-(l.weight ?? 1) * offsetSigma, pos, pos + l.y.length);
     pos += l.y.length;
   }
-  const dp = solver.shiftFor(dy);
-  if (!dp) return null;
-  const p = Float64Array.from(solver.params, (v, k) => v + dp[k]);
-  // the change from the joint fit's own solution (not from the estimates, which may already hold
+  // counted from the joint fit's own solution (not from the estimates, which may already hold
   // the growth re-read after it: that move is not the offset's)
-  return data.map((l, j) => {
-    const a = decodeLayer(l, solver.params, layout.offsets[j], layout), b = decodeLayer(l, p, layout.offsets[j], layout);
-    const da = lawThickness(a, l.wander, l.durationS), db = lawThickness(b, l.wander, l.durationS);
-    return { index: b.index - a.index, rateNmPerS: b.rateNmPerS - a.rateNmPerS, thicknessNm: db - da, opticalThicknessNm: b.index * db - a.index * da };
-  });
+  return layerChangesFor(data, solver, layout, dy);
 }
