@@ -185,7 +185,8 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
-  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleNoiseModel(trace, seg.idle));
+  const idleModel = idleNoiseModel(trace, seg.idle);
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel);
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }
@@ -475,7 +476,9 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     return chipStates.slice(0, chipStates.indexOf(s)).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));
   };
   // Noise reference: the idle stretches when they are long enough, else the run's typical layer residual.
-  let reference = noiseFloor.samples >= 1000 ? noiseFloor.sigma : null;
+  // It is the whole noise, white and correlated: a layer's residuals over many correlation times
+  // carry both, and against the white part alone every layer of a lock-in's trace read 2–3× "noisy".
+  let reference = noiseFloor.samples >= 1000 ? (idleModel ? Math.sqrt(idleModel.whiteVar + idleModel.ar1Var) : noiseFloor.sigma) : null;
   if (reference === null && states.length >= 3) {
     reference = median(states.map((s) => layerResult(s, belowOf(s), trace, 1, o).residualRms * s.estimate.gain));
   }

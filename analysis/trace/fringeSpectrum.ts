@@ -116,6 +116,7 @@ export function fringeSpectrum(timeS: ArrayLike<number>, y: ArrayLike<number>, o
   const rawRateHz = 1 / dtS;
   const disturbances = real
     .filter((p) => p.frequencyHz > ratio * dom.frequencyHz && p.amplitude >= snr * floor && p.widthBins <= narrowBins)
+    .filter((p) => p.amplitude >= snr * localFloor(amp, p.frequencyHz / binHz, kMin, narrowBins))
     .filter((p) => !isHarmonic(p.frequencyHz, dom.frequencyHz, binHz))
     .map((p) => ({ frequencyHz: p.frequencyHz, amplitude: p.amplitude, note: describe(p, dom, rawRateHz, binHz, options.mainsHz ?? [50, 60]) }));
 
@@ -258,6 +259,20 @@ function halfWidth(amp: Float64Array, k: number): number {
  */
 function hannLeakage(amplitude: number, bins: number): number {
   return amplitude * 0.0266 * Math.min(1, (2.5 / bins) ** 3);
+}
+
+/**
+ * The median amplitude of the bins within an octave either side of bin k, the peak's own bins
+ * left out. Correlated noise (a lock-in's, a rotating holder's) has a red spectrum: below its
+ * corner frequency it stands far above the whole band's median, and its random bumps there
+ * passed for periodic lines. A line is judged against the local continuum instead (the
+ * approach of Vaughan 2005, A&A 431, 391, for periodicities in red noise; from memory).
+ */
+function localFloor(amp: Float64Array, k: number, kMin: number, narrowBins: number): number {
+  const lo = Math.max(kMin, Math.floor(k / 2)), hi = Math.min(amp.length - 1, Math.ceil(2 * k));
+  const values: number[] = [];
+  for (let j = lo; j <= hi; j++) if (Math.abs(j - k) > narrowBins) values.push(amp[j]);
+  return values.length === 0 ? 0 : medianInPlace(Float64Array.from(values));
 }
 
 /** Monitor fringes are not pure sinusoids: their low harmonics (up to the 6th) are expected, not disturbances. */

@@ -35,6 +35,37 @@ describe('fringeSpectrum', () => {
     expect(d.note).toMatch(/^periodic disturbance at 0\.5000 Hz \(period 2\.000 s\), 0\.9\d % of the fringe amplitude: e\.g\. substrate rotation/);
   });
 
+  it('does not take the bumps of correlated (red) noise for periodic disturbances', () => {
+    // A quarter of a fringe over 240 s at 50 Hz with AR(1) noise of 0.06 % and 1 s correlation
+    // (exact discretisation of Ornstein–Uhlenbeck: φ = e^(−Δt/τ), innovation σ·√(1 − φ²);
+    // Gillespie 1996, Am. J. Phys. 64, 225, from memory) plus 0.03 % white: such noise has
+    // a Lorentzian spectrum, far above the band's median below 1/(2πτ) ≈ 0.16 Hz, and its
+    // random bumps there are not periodic.
+    for (const [seed, periodS] of [[1, 960], [2, 960], [3, 960], [4, 100], [5, 100], [6, 100]]) {
+      const g = gaussian(seed), rateHz = 50, dt = 1 / rateHz, phi = Math.exp(-dt / 1);
+      let ar = 0;
+      const { t, y } = series(240, rateHz, (v) => {
+        ar = phi * ar + 0.0006 * Math.sqrt(1 - phi * phi) * g();
+        return 0.5 + 0.2 * Math.sin((TAU * v) / periodS) + ar;
+      }, 0.0003, seed + 100);
+      const s = fringeSpectrum(t, y, { maxFftSize: 4096, padFactor: 1 });
+      expect(s.disturbances.map((d) => d.note)).toEqual([]);
+    }
+  });
+
+  it('still finds a rotation ripple standing above correlated noise', () => {
+    // 2.4 fringes in 240 s, a 0.3 Hz ripple of 0.2 % of full scale in the same red noise
+    const g = gaussian(9), rateHz = 50, dt = 1 / rateHz, phi = Math.exp(-dt / 1);
+    let ar = 0;
+    const { t, y } = series(240, rateHz, (v) => {
+      ar = phi * ar + 0.0006 * Math.sqrt(1 - phi * phi) * g();
+      return 0.5 + 0.2 * Math.sin((TAU * v) / 100) + 0.002 * Math.sin(TAU * 0.3 * v) + ar;
+    }, 0.0003, 109);
+    const s = fringeSpectrum(t, y, { maxFftSize: 4096, padFactor: 1 });
+    expect(s.disturbances).toHaveLength(1);
+    expect(Math.abs(s.disturbances[0].frequencyHz - 0.3)).toBeLessThan(0.01);
+  });
+
   it('recognises 50 Hz mains aliased by slow sampling', () => {
     // sampled at 7 Hz, 50 Hz folds to |50 − 7·7| = 1 Hz
     const { t, y } = series(600, 7, (v) => 0.5 + 0.15 * Math.sin(TAU * 0.03 * v) + 0.003 * Math.sin(TAU * 50 * v), 0.0005, 4);
