@@ -25,6 +25,7 @@ import { placeBoundaries } from './placeBoundaries';
 import { segmentByDesign } from './designSegments';
 import { carryStackUncertainty, emptyStack, type StackCovariance } from './stackUncertainty';
 import { startValues } from './startValues';
+import { holdUncarriedDrifts } from './rateDriftChoice';
 import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
 import { indexSeparation } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
@@ -96,6 +97,7 @@ export const ANALYZE_DEFAULTS = {
   rateWander: false,
   indexGradient: false,
   growthFromNext: true,
+  holdUncarriedDrift: true,
   startTransient: true,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
@@ -444,7 +446,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       const perLayer = finalPointsPerLayer(o, chipStates.length);
       const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
       const data = chipStates.map((p) => p.make(perLayer));
-      const joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
+      const joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss, o.holdUncarriedDrift);
       const shared = joint.sharedGain;
       // Each growth after a cut read again against the jointly fitted stack (LayerEnds), wanders held at the fit's knots.
       const knotsHeld = data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
@@ -498,15 +500,19 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
  */
 export function refitChip(
   data: FitLayerData[], chipStates: LayerState[], offsetSignal: number, final: boolean,
-  chipGain: SharedGain | null, robust = true,
+  chipGain: SharedGain | null, robust = true, holdDrifts = false,
 ): JointFitResult {
   // A wandering rate's knots are free in the final joint fit; the refits during the pass hold them
   // (at the current estimate) and add what that costs the end thickness's variance.
   const layers = final ? data : data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
-  const joint = fitLayers(
-    { fixedBelow: [], layers, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) },
-    final ? { robust } : { maxIterations: 4, robust },
-  );
+  const input = { fixedBelow: [], layers, start: chipStates.map((s) => s.estimate), offsetSignal, ...(chipGain ? { sharedGain: chipGain } : {}) };
+  let joint = fitLayers(input, final ? { robust } : { maxIterations: 4, robust });
+  if (final && holdDrifts) {
+    // Each rate drift that the data do not carry held at 0, its σ kept (fit/rateDriftChoice.ts).
+    const choice = holdUncarriedDrifts(input, joint, { robust });
+    choice.held.forEach((j) => (data[j] = choice.layers[j]));
+    joint = choice.result;
+  }
   if (chipGain && joint.sharedGain) {
     chipGain.gain = joint.sharedGain.gain;
     chipGain.driftPerS = joint.sharedGain.driftPerS;

@@ -129,6 +129,19 @@ export interface AnalyzeOptions {
    */
   growthFromNext?: boolean;
   /**
+   * Refit mode: in each chip's final joint fit, hold a layer's rate drift a (d = r·τ + a·τ²/2) at
+   * 0 where its own data do not carry it (Schwarz's criterion), the chip's drifts scatter no more
+   * than their σ say (Cochran's Q) and the chip's residuals are white; the free fit's σ are kept
+   * (fit/rateDriftChoice.ts). Measured on the chamber simulator (refit): white-noise BBAR
+   * 0.37 → 0.15 % (layer 4, cut on level just past its turning point: 0.37 → 0.15 % and
+   * 0.17 → 0.07 %), white-noise mirror 0.235 → 0.222 % (RMS 0.088 → 0.066 %), variable shutter
+   * delay 0.136 → 0.079 %; every scenario with correlated noise unchanged. Without the white-residual
+   * condition it also helped there (single layer 1.59 → 0.90 %, T with stray light 0.67 → 0.49 %,
+   * thin level cuts in R 1.37 → 1.09 %) but on the sample four-layer AR (rate wandering 1 %)
+   * layer 4 went 0.27 → 0.65 % off and its cut error past 0.7 % QWOT. @default true
+   */
+  holdUncarriedDrift?: boolean;
+  /**
    * Model the rate's start-up as the shutter opens (fit/startTransient.ts: a linear onset whose
    * effective start delay δ is shared by the run), where the trace has a layer column, in the
    * layers cut on a turning point (a level cut's end is read on the slope; on the sample

@@ -103,7 +103,7 @@ export function scenarios(): Scenario[] {
       design: bbarDesign(), seeds: [11, 12], targets: WHITE_TARGETS, options: { ...RATES, whiteNoise: 0.001, indexOffset: { H: -0.01 } },
       modes: {
         sequential: pending('3σ coverage met (100 %); layer 1 (0.22 QWOT) held at the nominal with the film 0.01 below it (nothing earlier in the run tells) is 1.5 % off in optical thickness, and the stack below carries up: layer 3 0.90 % (1.9σ), layer 4 index 0.012 (1.8σ), cut 1.25 % QWOT'),
-        refit: pending('3σ coverage met (100 %), thin layers within 0.8 % optical; layer 4 (1.03 QWOT, last on the chip, cut on level just past its turning point) 0.37 % (1.6σ): its end rests on the fitted rate drift (0.15 % without it)'),
+        refit: { status: 'target' },
       },
     },
     {
