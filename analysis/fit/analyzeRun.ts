@@ -445,6 +445,8 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     for (const [chip, chipStates] of chipLayers) {
       const perLayer = finalPointsPerLayer(o, chipStates.length);
       const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
+      // no layer ending before its last logged sample (LayerEnds)
+      ends?.beforeJointFit(chipStates);
       const data = chipStates.map((p) => p.make(perLayer));
       const joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss, o.holdUncarriedDrift);
       const shared = joint.sharedGain;

@@ -3,14 +3,19 @@
  * each layer's growth after its cut. Each layer whose growth the data determine gives
  * t̂ = δ̂ / r ± σ (the growth over the layer's final rate: half the closing time when the rate
  * falls linearly; whatever the law, the time at full rate that grows as much). The true times
- * scatter from cut to cut about a mean t̄ with a spread τ; with the layers' own σ known, the
- * spread is τ² = max(0, s² − mean σ²) (s² the sample variance of the t̂), and a layer's own time
- * is predicted as t̄ with variance τ² + s²/m (s² no less than mean σ²): the normal hierarchical model, its moment
- * estimates (B. Efron, C. Morris, "Data analysis using Stein's estimator and its
- * generalizations", J. Am. Stat. Assoc. 70, 311–319 (1975); A. Gelman et al., Bayesian Data
- * Analysis, 3rd ed., §5.4; from memory). A layer whose growth its own data tell poorly (most
- * turning-point cuts) is pulled towards the run's time; one they do not tell at all (a
- * turning-point cut, last on its chip) takes it, with its spread.
+ * scatter from cut to cut about a mean t̄ with a spread τ, each seen through its own σᵢ: the
+ * normal random-effects model, t̂ᵢ ~ N(t̄, τ² + σᵢ²). τ² by the moment estimator of
+ * R. DerSimonian, N. Laird, "Meta-analysis in clinical trials", Controlled Clinical Trials 7,
+ * 177–188 (1986) (from memory): Q = Σ wᵢ(t̂ᵢ − t̄_w)² with wᵢ = 1/σᵢ², τ² = max(0, (Q − (m − 1)) /
+ * (Σw − Σw²/Σw)); then t̄ = Σ wᵢ*·t̂ᵢ / Σ wᵢ* with wᵢ* = 1/(σᵢ² + τ²), Var t̄ = 1/Σ wᵢ*, and a
+ * layer's own time is predicted as t̄ with variance τ² + Var t̄. With equal σᵢ these are the
+ * moment estimates of B. Efron, C. Morris, J. Am. Stat. Assoc. 70, 311–319 (1975) (τ² = s² − σ²,
+ * Var t̄ = max(s², σ²)/m). The weights matter: a layer's σ in time is its growth's σ over its
+ * rate, and the readings of one run span a factor of ten (0.3–3 s on the chamber simulator's
+ * mirror, slow high-index layers the loosest), so an unweighted mean follows the loosest few. A
+ * layer whose growth its own data tell poorly (most turning-point cuts) is pulled towards the
+ * run's time; one they do not tell at all (a turning-point cut, last on its chip) takes it, with
+ * its spread.
  */
 export class ShutterTime {
   private readonly times = new Map<number, { timeS: number; sigmaS: number }>();
@@ -36,11 +41,23 @@ export class ShutterTime {
     const v = [...this.times].filter(([l]) => l !== exceptLayer).map(([, t]) => t);
     const m = v.length;
     if (m < 3) return null;
-    const mean = v.reduce((a, t) => a + t.timeS, 0) / m;
-    const s2 = v.reduce((a, t) => a + (t.timeS - mean) ** 2, 0) / (m - 1);
-    const own2 = v.reduce((a, t) => a + t.sigmaS ** 2, 0) / m;
-    const spread2 = Math.max(0, s2 - own2);
-    // The mean's variance never below the layers' own σ²/m (identical values do not make it exact).
-    return { timeS: mean, sigmaS: Math.sqrt(spread2 + Math.max(s2, own2) / m), from: m };
+    let sw = 0, sw2 = 0, swt = 0;
+    for (const t of v) {
+      const w = 1 / (t.sigmaS * t.sigmaS);
+      sw += w;
+      sw2 += w * w;
+      swt += w * t.timeS;
+    }
+    const fixed = swt / sw;
+    let q = 0;
+    for (const t of v) q += (t.timeS - fixed) ** 2 / (t.sigmaS * t.sigmaS);
+    const spread2 = Math.max(0, (q - (m - 1)) / (sw - sw2 / sw));
+    let sws = 0, swst = 0;
+    for (const t of v) {
+      const w = 1 / (t.sigmaS * t.sigmaS + spread2);
+      sws += w;
+      swst += w * t.timeS;
+    }
+    return { timeS: swst / sws, sigmaS: Math.sqrt(spread2 + 1 / sws), from: m };
   }
 }

@@ -103,6 +103,34 @@ describe("the run's shutter time", () => {
     expect(t.count).toBe(3);
   });
 
+  it('weighs each layer by its own σ: loose readings (slow layers) do not pull the prediction', () => {
+    // Four layers read the time at ±0.1 s, three (slow, high-index layers) at ±2 s and far off.
+    const t = new ShutterTime();
+    [0.05, -0.05, 0.1, -0.1].forEach((x, i) => t.add(i + 1, x, 0.1));
+    [2.5, 2, -1].forEach((x, i) => t.add(i + 5, x, 2));
+    const p = t.predict()!;
+    // Q = Σ wᵢ(tᵢ − t̄_w)² ≈ 5.3 is below m − 1 = 6 (each reading lies within its own σ), so τ² = 0
+    // and t̄ is the inverse-variance mean, its variance 1/Σw.
+    const w = [100, 100, 100, 100, 0.25, 0.25, 0.25];
+    const x = [0.05, -0.05, 0.1, -0.1, 2.5, 2, -1];
+    const sw = w.reduce((a, b) => a + b, 0);
+    expect(p.timeS).toBeCloseTo(w.reduce((a, wi, i) => a + wi * x[i], 0) / sw, 12);
+    expect(p.sigmaS).toBeCloseTo(1 / Math.sqrt(sw), 12);
+    // the unweighted mean (0.5 s) and its scatter (prediction σ 1.1 s) take the loose ones at face value
+    expect(Math.abs(p.timeS)).toBeLessThan(0.02);
+    expect(p.sigmaS).toBeLessThan(0.06);
+  });
+
+  it('a spread between equally good readings beyond their σ is found (DerSimonian–Laird) and enters the prediction', () => {
+    // Two groups of readings, each at σ 0.05, at 0.2 and 0.8: the times themselves scatter.
+    const t = new ShutterTime();
+    [0.2, 0.8, 0.2, 0.8, 0.2, 0.8].forEach((x, i) => t.add(i + 1, x, 0.05));
+    const p = t.predict()!;
+    // equal σ: τ² = s² − σ² with s² = 0.09·6/5 = 0.108 (Efron–Morris's moment estimate)
+    expect(p.timeS).toBeCloseTo(0.5, 12);
+    expect(p.sigmaS).toBeCloseTo(Math.sqrt(0.108 - 0.0025 + 0.108 / 6), 12);
+  });
+
   it('recovers the spread of the times from noisy estimates (the normal hierarchical model)', () => {
     // True times N(0.4, 0.1²), each seen with σ 0.05: τ² = s² − σ² estimates 0.1² (moment estimate; Efron and Morris 1975).
     const g = gaussian(5), t = new ShutterTime();
