@@ -17,9 +17,11 @@ export interface LevelCutEndOptions {
  * The end of each level-cut layer placed without a layer column, and the start of the layer after
  * it, where the readings reach and leave the cut level. A controller cuts a level-cut layer when
  * the reading crosses the design's trigger level (common practice), so the pause after the cut
- * sits at gain × the design's cut level (fit/expectedLevels; the gain from the bare chip). Around each such boundary the readings are fitted by a line into that level, flat
- * at it, and a line out of it, the two breakpoints searched on every pair of samples (prefix sums:
- * each pair costs O(1)). A short pause on a shallow fringe shows no flat stretch of its own
+ * sits at gain × the design's cut level (fit/expectedLevels; the gain from the bare chip). Around
+ * each such boundary the readings are fitted by the layer's design curve into that level, flat at
+ * it, and the next layer's design curve out of it (each scaled, its sign kept, and stretched in
+ * time by up to ±15 %: the film's index is not the design's), the two breakpoints searched on
+ * every pair of samples. A short pause on a shallow fringe shows no flat stretch of its own
  * (designSegments found it from the level crossing), and the whole-layer fit of placeBoundaries
  * then trades the boundary against the thin layers' thicknesses (measured on the chamber
  * simulator's BBAR: ends up to 6 s late). Layers cut at a turning point are left as placed.
@@ -29,6 +31,9 @@ export function levelCutEnds(trace: TraceData, design: Design, layers: readonly 
   for (let round = 0; round < (options.rounds ?? 3); round++) out = levelCutRound(trace, design, out, gain, options);
   return out;
 }
+
+/** Time stretches of the design curves tried: the film's rate and index are not the design's. */
+const STRETCH = [0.85, 0.925, 1, 1.075, 1.15];
 
 function levelCutRound(trace: TraceData, design: Design, layers: readonly Segment[], gain: number, options: LevelCutEndOptions): Segment[] {
   const out = layers.map((s) => ({ ...s }));
@@ -57,8 +62,8 @@ function levelCutRound(trace: TraceData, design: Design, layers: readonly Segmen
     let to = nxt ? nxt.startIndex : seg.endIndex;
     while (to < last && t[to] <= startS + search + slope) to++;
     const rate = dl.thicknessNm / Math.max(durS, 1e-9);
-    const into = shapeOf(design, seg.layer, 'end', rate);
-    const outOf = nxt ? shapeOf(design, nxt.layer, 'start', design.layers[nxt.layer - 1].thicknessNm / Math.max(nextDurS, 1e-9)) : null;
+    const into = STRETCH.map((k) => shapeOf(design, seg.layer, 'end', k * rate));
+    const outOf = nxt ? STRETCH.map((k) => shapeOf(design, nxt.layer, 'start', (k * design.layers[nxt.layer - 1].thicknessNm) / Math.max(nextDurS, 1e-9))) : null;
     const best = breakpoints(t, y, level, from, to, [endS - search, endS + search], nxt ? [startS - search, startS + search] : null, into, outOf);
     if (!best) continue;
     out[j] = { ...seg, endIndex: best.end, endTimeS: t[best.end - 1], sampleCount: best.end - seg.startIndex };
@@ -83,8 +88,8 @@ function firstStart(trace: TraceData, design: Design, seg: Segment, notBefore: n
   let to = seg.startIndex;
   while (to < seg.endIndex && t[to] <= startS + search + (options.slopeS ?? 20)) to++;
   if (from + 1 >= to) return seg;
-  const outOf = shapeOf(design, seg.layer, 'start', design.layers[seg.layer - 1].thicknessNm / Math.max(durS, 1e-9));
-  const best = breakpoints(t, y, level, from, to, [t[from + 1], t[from + 1]], [startS - search, startS + search], () => 0, outOf);
+  const outOf = STRETCH.map((k) => shapeOf(design, seg.layer, 'start', (k * design.layers[seg.layer - 1].thicknessNm) / Math.max(durS, 1e-9)));
+  const best = breakpoints(t, y, level, from, to, [t[from + 1], t[from + 1]], [startS - search, startS + search], [() => 0], outOf);
   return best ? { ...seg, startIndex: best.start, startTimeS: t[best.start], sampleCount: seg.endIndex - best.start } : seg;
 }
 
@@ -144,7 +149,7 @@ function bareChipGains(
 function breakpoints(
   t: ArrayLike<number>, y: ArrayLike<number>, level: number, from: number, to: number,
   endSpan: [number, number], startSpan: [number, number] | null,
-  into: (dtS: number) => number, outOf: ((dtS: number) => number) | null,
+  into: readonly ((dtS: number) => number)[], outOf: readonly ((dtS: number) => number)[] | null,
 ): { end: number; start: number } | null {
   const n = to - from;
   if (n < 20) return null;
@@ -167,13 +172,13 @@ function breakpoints(
   for (let e = 1; e < n; e++) {
     if (!inside(e, endSpan)) continue;
     const te = t[from + e];
-    before[e] = scaled(0, e, (i) => into(te - t[from + i]));
+    for (const f of into) before[e] = Math.min(before[e], scaled(0, e, (i) => f(te - t[from + i])));
   }
   if (startSpan && outOf) {
     for (let s = 1; s < n - 1; s++) {
       if (!inside(s, startSpan)) continue;
       const ts = t[from + s];
-      after[s] = scaled(s, n, (i) => outOf(t[from + i] - ts));
+      for (const f of outOf) after[s] = Math.min(after[s], scaled(s, n, (i) => f(t[from + i] - ts)));
     }
   }
   let best: { end: number; start: number } | null = null, bestCost = Infinity;

@@ -159,10 +159,7 @@ export function scenarios(): Scenario[] {
       name: 'no layer column, BBAR level cuts', about: 'four-layer AR cut on level, white noise 0.1 %, no layer column',
       design: bbarDesign(), seeds: [33, 34], targets: NO_LAYER_TARGETS,
       options: { ...RATES, whiteNoise: 0.001, indexOffset: { H: -0.01 }, columns: { layer: false } },
-      modes: {
-        sequential: pending('the 3 s pauses show no flat stretch; each end and the next start placed where the readings reach and leave the design\'s cut level on the bare chip\'s gain (fit/levelCutEnds; ends within 0.6 s of the truth but layer 2\'s, +3.1 and +2.3 s): thickness up to 1.64 %, index 0.027 (2.0 %, 0.027 before): layer 2 (0.41 QWOT) is cut just past its fringe\'s minimum, where the level tells the cut only to seconds, and the sequential fit carries its 3 % up (refit: 0.80 %)'),
-        refit: { status: 'target' },
-      },
+      modes: both({ status: 'target' }),
     },
     {
       name: 'no layer or chip column, 12 layers on 2 chips', about: '(HL)^6 on 2 chips, every chamber effect, neither layer nor chip column',

@@ -10,7 +10,7 @@ import { placeBoundaries } from '../placeBoundaries';
 // Traces from the independent chamber simulator (tests/chamber), written without a layer column:
 // a four-layer AR cut on level, 3 s pauses that show no flat stretch above the noise.
 describe('level cuts placed where the readings reach and leave the cut level (no layer column)', () => {
-  it('puts every end within 3.5 s of the truth and the next starts within 2 s, where the whole-layer fit alone is off by up to 40 s', async () => {
+  it('puts every end within 2 s of the truth and the next starts within 2.5 s, where the whole-layer fit alone is off by up to 40 s', async () => {
     const json = bbarDesign();
     const design = parseDesign(json);
     let worstPlaced = 0;
@@ -24,8 +24,8 @@ describe('level cuts placed where the readings reach and leave the cut level (no
       ended.forEach((s, i) => {
         const truth = run.truth.layers[i];
         worstPlaced = Math.max(worstPlaced, Math.abs(placed[i].endTimeS - truth.endTimeS));
-        expect(Math.abs(s.endTimeS - truth.endTimeS)).toBeLessThan(3.5);
-        if (i > 0) expect(Math.abs(s.startTimeS - truth.startTimeS)).toBeLessThan(2);
+        expect(Math.abs(s.endTimeS - truth.endTimeS)).toBeLessThan(2);
+        if (i > 0) expect(Math.abs(s.startTimeS - truth.startTimeS)).toBeLessThan(2.5);
         expect(s.sampleCount).toBe(s.endIndex - s.startIndex);
       });
     }
