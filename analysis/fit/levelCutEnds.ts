@@ -144,7 +144,8 @@ function bareChipGains(
  * fitted: the slope's sign is the design's, so the level is not taken where it is crossed the
  * other way) over [from, e), stay flat at it over [e, s), and leave it on the next layer's curve
  * (`outOf`, scaled likewise) over [s, to); without a next layer flat to the end. e's time within
- * `endSpan`, s's within `startSpan`, e ≤ s. Least squares; null when nothing fits.
+ * `endSpan`, s's within `startSpan`, e ≤ s. Least squares, every pair 0.5 s apart, then every
+ * sample pair within 0.5 s of the best; null when nothing fits.
  */
 function breakpoints(
   t: ArrayLike<number>, y: ArrayLike<number>, level: number, from: number, to: number,
@@ -167,33 +168,47 @@ function breakpoints(
     return !(ff > 0) || rf < 0 ? flat(a, b) + (rf < 0 ? Infinity : 0) : flat(a, b) - (rf * rf) / ff;
   };
   const inside = (i: number, span: [number, number]) => t[from + i] >= span[0] && t[from + i] <= span[1];
-  // the cost of the readings before each trial end, and after each trial start
-  const before = new Float64Array(n + 1).fill(Infinity), after = new Float64Array(n + 1).fill(Infinity);
-  for (let e = 1; e < n; e++) {
-    if (!inside(e, endSpan)) continue;
-    const te = t[from + e];
-    for (const f of into) before[e] = Math.min(before[e], scaled(0, e, (i) => f(te - t[from + i])));
-  }
-  if (startSpan && outOf) {
-    for (let s = 1; s < n - 1; s++) {
-      if (!inside(s, startSpan)) continue;
+  // the cost of the readings before each trial end, and after each trial start (computed as asked for)
+  const before = new Float64Array(n + 1).fill(NaN), after = new Float64Array(n + 1).fill(NaN);
+  const costBefore = (e: number): number => {
+    if (Number.isNaN(before[e])) {
+      const te = t[from + e];
+      before[e] = Infinity;
+      for (const f of into) before[e] = Math.min(before[e], scaled(0, e, (i) => f(te - t[from + i])));
+    }
+    return before[e];
+  };
+  const costAfter = (s: number): number => {
+    if (Number.isNaN(after[s])) {
       const ts = t[from + s];
-      for (const f of outOf) after[s] = Math.min(after[s], scaled(s, n, (i) => f(t[from + i] - ts)));
+      after[s] = Infinity;
+      for (const f of outOf!) after[s] = Math.min(after[s], scaled(s, n, (i) => f(t[from + i] - ts)));
     }
-  }
-  let best: { end: number; start: number } | null = null, bestCost = Infinity;
-  for (let e = 1; e < n; e++) {
-    if (!Number.isFinite(before[e])) continue;
-    if (!startSpan) {
-      const c = before[e] + flat(e, n);
-      if (c < bestCost) [best, bestCost] = [{ end: from + e, start: from + e }, c];
-      continue;
+    return after[s];
+  };
+  // every `step`-th pair over the spans, then every pair within a step of the best
+  const pass = (step: number, e0: number, e1: number, s0: number, s1: number) => {
+    let found: { end: number; start: number } | null = null, foundCost = Infinity;
+    for (let e = Math.max(1, e0); e <= Math.min(n - 1, e1); e += step) {
+      if (!inside(e, endSpan) || !Number.isFinite(costBefore(e))) continue;
+      if (!startSpan || !outOf) {
+        const c = before[e] + flat(e, n);
+        if (c < foundCost) [found, foundCost] = [{ end: e, start: e }, c];
+        continue;
+      }
+      for (let s = Math.max(e, s0); s <= Math.min(n - 2, s1); s += step) {
+        if (!inside(s, startSpan) || !Number.isFinite(costAfter(s))) continue;
+        const c = before[e] + flat(e, s) + after[s];
+        if (c < foundCost) [found, foundCost] = [{ end: e, start: s }, c];
+      }
     }
-    for (let s = e; s < n - 1; s++) {
-      if (!Number.isFinite(after[s])) continue;
-      const c = before[e] + flat(e, s) + after[s];
-      if (c < bestCost) [best, bestCost] = [{ end: from + e, start: from + s }, c];
-    }
-  }
+    return found;
+  };
+  const dt = (t[to - 1] - t[from]) / Math.max(n - 1, 1);
+  const stride = Math.max(1, Math.round(0.5 / Math.max(dt, 1e-9)));
+  const coarse = pass(stride, 1, n - 1, 1, n - 2);
+  if (!coarse) return null;
+  const fine = stride > 1 ? pass(1, coarse.end - stride, coarse.end + stride, coarse.start - stride, coarse.start + stride) ?? coarse : coarse;
+  const best = { end: from + fine.end, start: from + fine.start };
   return best;
 }
