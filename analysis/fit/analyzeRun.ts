@@ -22,6 +22,8 @@ import { type ObservedTurningPoints } from './observedTurningPoints';
 import { requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
+import { levelCutEnds } from './levelCutEnds';
+import { turningPointEndS, turningPointEndsOnChip } from './turningPointEnd';
 import { segmentByDesign } from './designSegments';
 import { carryStackUncertainty, emptyStack, type StackCovariance } from './stackUncertainty';
 import { startValues } from './startValues';
@@ -174,7 +176,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
   const byDesign = trace.layer ? null : segmentByDesign(trace, design);
   const seg = byDesign ? { ...byDesign, inferred: true } : segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
   for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
-  const layerSegments = byDesign ? placeBoundaries(trace, design, byDesign.layers, byDesign.windows) : seg.layers;
+  const layerSegments = byDesign ? levelCutEnds(trace, design, placeBoundaries(trace, design, byDesign.layers, byDesign.windows), byDesign.gain) : seg.layers;
   const gathered = gatherLayerSamples(trace, layerSegments);
   // A start transient puts the fits on the exposure clock (fit/startTransient.ts); not inside
   // boundaries placed on the design's curve, which placed each start where the growth showed.
@@ -331,6 +333,15 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
         refit.indexGradient = 'fit';
       } else delete fit.indexGradient;
     }
+    // Without a layer column a turning-point cut ends where the fitted layer turns (fit/turningPointEnd.ts).
+    if (byDesign && dl.monitor.cut === 'turning-point') {
+      const endS = turningPointEndS(fit, single.layers[0], below);
+      if (endS !== null) {
+        fit.durationS = refit.durationS = endS;
+        const e = single.layers[0];
+        single = fitSingle(e.index, e.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : e.gain), { rateDriftNmPerS2: e.rateDriftNmPerS2, indexGradient: e.indexGradient });
+      }
+    }
     const c = withPrior ? (noiseFloor.sigma ?? calibration.noiseSigma) / (o.gainPriorFraction * Math.abs(anchor)) : 0;
     // The growth after the cut of the layer below, from where this layer starts on its fringe (LayerEnds).
     if (o.growthFromNext && ends?.fromNext(chip, below, fit, single, calibration.offset, c, stacks.get(chip))) {
@@ -448,7 +459,12 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       // no layer ending before its last logged sample (LayerEnds)
       ends?.beforeJointFit(chipStates);
       const data = chipStates.map((p) => p.make(perLayer));
-      const joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss, o.holdUncarriedDrift);
+      let joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss, o.holdUncarriedDrift);
+      // Without a layer column each turning-point cut's end is read again on the joint fit, and the chip fitted again.
+      if (byDesign && turningPointEndsOnChip(data, chipStates.map((p) => p.estimate), chipStates.map((p) => p.design.monitor.cut === 'turning-point'))) {
+        chipStates.forEach((p, j) => (p.fit.durationS = p.refit.durationS = data[j].durationS));
+        joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss, o.holdUncarriedDrift);
+      }
       const shared = joint.sharedGain;
       // Each growth after a cut read again against the jointly fitted stack (LayerEnds), wanders held at the fit's knots.
       const knotsHeld = data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));

@@ -23,6 +23,8 @@ export interface DesignSegmentation {
   missing: number[];
   /** Per layer segment: from the start of the pause before it to the end of the pause after it (fit/placeBoundaries searches there). */
   windows: BoundaryWindow[];
+  /** The detector gain the levels matched at (reading of a fraction 1.0; NaN with no segments). */
+  gain: number;
 }
 
 /** A candidate pause; `unseen` where no flat stretch was found (a level cut's short pause under the noise). */
@@ -56,7 +58,7 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
   const expected = expectedLevels(design);
   const L = expected.length;
   if (n < 20) {
-    return { layers: [], idle: [], warnings: [], missing: expected.map((e) => e.layer), windows: [] };
+    return { layers: [], idle: [], warnings: [], missing: expected.map((e) => e.layer), windows: [], gain: NaN };
   }
   const flats = flatStretches(t, y);
   // virtual zero-length pauses at both ends: a run may start or end while a layer grows
@@ -162,7 +164,7 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
   if (misfits.length) {
     warnings.push(`the inferred segments may be wrong: ${misfits.slice(0, 5).join('; ')}${misfits.length > 5 ? `; and ${misfits.length - 5} more` : ''} (as a fraction of the detector gain found from the levels)`);
   }
-  return { layers, idle, warnings, missing, windows };
+  return { layers, idle, warnings, missing, windows, gain: best.gain };
 
   function solve(gain: number): { gain: number; cost: number; bounds: ([number, number] | undefined)[]; gainFit: number | null } {
     const tol = (options.levelTolerance ?? 0.02) * gain;

@@ -145,7 +145,7 @@ export function scenarios(): Scenario[] {
       design: mirrorDesign(9, 9), seeds: [31], targets: NO_LAYER_TARGETS,
       options: { ...RATES, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 }, settleS: 20, columns: { layer: false } },
       modes: {
-        sequential: pending('every layer segmented from the design; thickness up to 1.10 % (layer 2): a turning-point cut\'s overshoot does not show in the flat pause after it, so its end is placed up to 2 s early (with a layer column ≤ 0.4 %)'),
+        sequential: { status: 'target' },
         refit: { status: 'target' },
       },
     },
@@ -153,19 +153,19 @@ export function scenarios(): Scenario[] {
       name: 'no layer column, single layer', about: 'one quarter-wave MgF2 layer, no layer column',
       design: singleLayerDesign(), seeds: [32], targets: NO_LAYER_TARGETS,
       options: { defaultRateNmPerS: 0.8, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, turningPointOvershoot: { meanPct: 0.4, sigmaPct: 0.3 }, columns: { layer: false, chip: false } },
-      modes: both(pending('segmented from the design (start and end within 1 s), 1.59 % thin, as with a layer column (1.90 %): a layer that swings the signal by 3 % under 0.067 % correlated noise has σ ≈ 2 %; the trace does not carry 1 %')),
+      modes: both(pending('segmented from the design (start and end within 1 s), 0.41 % thin with the end on the fitted layer\'s turning point (fit/turningPointEnd; 1.59 % before, 1.90 % with a layer column); not a target: a layer that swings the signal by 3 % under 0.067 % correlated noise has σ ≈ 2 %, the trace does not carry 1 %')),
     },
     {
       name: 'no layer column, BBAR level cuts', about: 'four-layer AR cut on level, white noise 0.1 %, no layer column',
       design: bbarDesign(), seeds: [33, 34], targets: NO_LAYER_TARGETS,
       options: { ...RATES, whiteNoise: 0.001, indexOffset: { H: -0.01 }, columns: { layer: false } },
-      modes: both(pending('the 3 s pauses after level cuts on fringes of under 3 % swing show no flat stretch above the noise; found from the design\'s cut-level crossings instead, thickness up to 2.0 % (sequential) / 1.7 % (refit), index up to 0.027: those boundaries are placed only by the model fit')),
+      modes: both({ status: 'target' }),
     },
     {
       name: 'no layer or chip column, 12 layers on 2 chips', about: '(HL)^6 on 2 chips, every chamber effect, neither layer nor chip column',
       design: mirrorDesign(12, 6), seeds: [35, 36], targets: NO_LAYER_TARGETS,
       options: { ...RATES, ...REAL_CHAMBER, columns: { layer: false, chip: false } },
-      modes: both(pending('every layer segmented and the chip change read from the design; thickness up to 1.6 %, index up to 0.02: the chamber effects of items 2–4 (the same traces with a layer column: 2.9 % sequential, 1.2 % refit)')),
+      modes: both(pending('every layer segmented and the chip change read from the design; each turning-point cut ended on the fitted layer\'s turning point (fit/turningPointEnd; 1.64 % sequential, 1.56 % refit with the end where the design\'s curve at one steady rate turns, up to 2.8 s off the data\'s turning point under the rate wander): thickness up to 1.19 % on layers cut 0.9–1.0 % past their turning point, with growth after the cut: without a layer column neither the pause\'s level (second order) nor the next layer\'s start (its placed start takes it up to first order) tells that overshoot (the same traces with a layer column: 2.9 % sequential, 1.2 % refit)')),
     },
     {
       name: '40 layers, 5 chips, no chip column', about: '(HL)^20 on 5 chips, every chamber effect, no chip column',

@@ -1,0 +1,214 @@
+import { monitorCurve, type Design } from '../design';
+import { type Segment, type TraceData } from '../trace';
+import { expectedLevels } from './expectedLevels';
+
+export interface LevelCutEndOptions {
+  /** How far either way of the placed boundary the cut and the next start are searched, s. @default 40 */
+  searchS?: number;
+  /** Readings beyond the search span on either side that set the slopes, s. @default 20 */
+  slopeS?: number;
+  /** The fraction of the layer (and of the next) the search reaches at most. @default 0.4 */
+  searchFraction?: number;
+  /** Rounds (each layer's rate from the last round's boundaries). @default 3 */
+  rounds?: number;
+}
+
+/**
+ * The end of each level-cut layer placed without a layer column, and the start of the layer after
+ * it, where the readings reach and leave the cut level. A controller cuts a level-cut layer when
+ * the reading crosses the design's trigger level (common practice), so the pause after the cut
+ * sits at gain × the design's cut level (fit/expectedLevels; the gain from the bare chip). Around
+ * each such boundary the readings are fitted by the layer's design curve into that level, flat at
+ * it, and the next layer's design curve out of it (each scaled, its sign kept, and stretched in
+ * time by up to ±15 %: the film's index is not the design's), the two breakpoints searched on
+ * every pair of samples. A short pause on a shallow fringe shows no flat stretch of its own
+ * (designSegments found it from the level crossing), and the whole-layer fit of placeBoundaries
+ * then trades the boundary against the thin layers' thicknesses (measured on the chamber
+ * simulator's BBAR: ends up to 6 s late). Layers cut at a turning point are left as placed.
+ */
+export function levelCutEnds(trace: TraceData, design: Design, layers: readonly Segment[], gain: number, options: LevelCutEndOptions = {}): Segment[] {
+  let out = layers.map((s) => ({ ...s }));
+  for (let round = 0; round < (options.rounds ?? 3); round++) out = levelCutRound(trace, design, out, gain, options);
+  return out;
+}
+
+/** Time stretches of the design curves tried: the film's rate and index are not the design's. */
+const STRETCH = [0.85, 0.925, 1, 1.075, 1.15];
+
+function levelCutRound(trace: TraceData, design: Design, layers: readonly Segment[], gain: number, options: LevelCutEndOptions): Segment[] {
+  const out = layers.map((s) => ({ ...s }));
+  const t = trace.timeS, y = trace.signal;
+  const expected = expectedLevels(design);
+  const chipGain = bareChipGains(t, y, out, expected, gain);
+  for (let j = 0; j < out.length; j++) {
+    const seg = out[j];
+    const dl = design.layers[seg.layer - 1];
+    if (!dl || dl.monitor.cut !== 'level') continue;
+    if (j === 0 || out[j - 1].chip !== seg.chip) out[j] = firstStart(trace, design, seg, j > 0 ? out[j - 1].endIndex : 0, (chipGain.get(seg.chip) ?? gain) * expected[seg.layer - 1].startLevel, options);
+    const nxt = j + 1 < out.length && out[j + 1].layer === seg.layer + 1 && out[j + 1].chip === seg.chip ? out[j + 1] : null;
+    const g = chipGain.get(seg.chip) ?? gain;
+    if (!(g > 0)) continue;
+    const level = g * expected[seg.layer - 1].endLevel;
+    const durS = t[seg.endIndex - 1] - t[seg.startIndex];
+    const nextDurS = nxt ? t[nxt.endIndex - 1] - t[nxt.startIndex] : Infinity;
+    const fraction = options.searchFraction ?? 0.4;
+    const search = Math.min(options.searchS ?? 40, fraction * durS, fraction * nextDurS);
+    const slope = options.slopeS ?? 20;
+    const endS = t[seg.endIndex - 1], startS = nxt ? t[nxt.startIndex] : endS;
+    // the readings: from the layer's middle at the earliest to the next layer's middle (or the trace's end)
+    let from = seg.endIndex - 1;
+    while (from > seg.startIndex + ((seg.endIndex - seg.startIndex) >> 1) && t[from - 1] >= endS - search - slope) from--;
+    const last = nxt ? nxt.startIndex + ((nxt.endIndex - nxt.startIndex) >> 1) : Math.min(trace.rowCount, j + 1 < out.length ? out[j + 1].startIndex : trace.rowCount);
+    let to = nxt ? nxt.startIndex : seg.endIndex;
+    while (to < last && t[to] <= startS + search + slope) to++;
+    const rate = dl.thicknessNm / Math.max(durS, 1e-9);
+    const into = STRETCH.map((k) => shapeOf(design, seg.layer, 'end', k * rate));
+    const outOf = nxt ? STRETCH.map((k) => shapeOf(design, nxt.layer, 'start', (k * design.layers[nxt.layer - 1].thicknessNm) / Math.max(nextDurS, 1e-9))) : null;
+    const best = breakpoints(t, y, level, from, to, [endS - search, endS + search], nxt ? [startS - search, startS + search] : null, into, outOf);
+    if (!best) continue;
+    out[j] = { ...seg, endIndex: best.end, endTimeS: t[best.end - 1], sampleCount: best.end - seg.startIndex };
+    if (nxt) out[j + 1] = { ...nxt, startIndex: best.start, startTimeS: t[best.start], sampleCount: nxt.endIndex - best.start };
+  }
+  return out;
+}
+
+/**
+ * The start of a chip's first layer: flat at the bare chip's level, then the layer's design curve
+ * out of it. Searched at most 8 s either way (before it lie the chip change's steps), on the
+ * 10 s before it.
+ */
+function firstStart(trace: TraceData, design: Design, seg: Segment, notBefore: number, level: number, options: LevelCutEndOptions): Segment {
+  const t = trace.timeS, y = trace.signal;
+  if (!(level > 0)) return seg;
+  const durS = t[seg.endIndex - 1] - t[seg.startIndex];
+  const search = Math.min(8, options.searchS ?? 40, (options.searchFraction ?? 0.4) * durS);
+  const startS = t[seg.startIndex];
+  let from = seg.startIndex;
+  while (from > notBefore && t[from - 1] >= startS - search - 10) from--;
+  let to = seg.startIndex;
+  while (to < seg.endIndex && t[to] <= startS + search + (options.slopeS ?? 20)) to++;
+  if (from + 1 >= to) return seg;
+  const outOf = STRETCH.map((k) => shapeOf(design, seg.layer, 'start', (k * design.layers[seg.layer - 1].thicknessNm) / Math.max(durS, 1e-9)));
+  const best = breakpoints(t, y, level, from, to, [t[from + 1], t[from + 1]], [startS - search, startS + search], [() => 0], outOf);
+  return best ? { ...seg, startIndex: best.start, startTimeS: t[best.start], sampleCount: seg.endIndex - best.start } : seg;
+}
+
+/**
+ * The design's monitor curve near a layer's end (as a function of the time before it) or start
+ * (of the time after it), less its level there, at `rate`: the shape the readings leave or reach
+ * the cut level by. Tabulated every 0.1 s over 60 s.
+ */
+function shapeOf(design: Design, layerNo: number, at: 'start' | 'end', rate: number): (dtS: number) => number {
+  const d = design.layers[layerNo - 1].thicknessNm;
+  const stepS = 0.1, count = 601;
+  const grid = new Float64Array(count);
+  for (let i = 0; i < count; i++) grid[i] = at === 'end' ? Math.max(d - rate * i * stepS, 0) : rate * i * stepS;
+  const m = monitorCurve(design, layerNo, grid, { pol: 's' });
+  return (dtS) => {
+    const x = Math.min(Math.max(dtS / stepS, 0), count - 1.001);
+    const k = Math.floor(x);
+    return m[k] + (x - k) * (m[k + 1] - m[k]) - m[0];
+  };
+}
+
+/**
+ * Each chip's gain from the bare chip: the mean reading over the 10 s before its first layer starts
+ * (1 s clear of the start), against the design's level there; a 0.1 % gain error moves a cut level
+ * by 1e-3, seconds on a shallow fringe, and the levels' own match (designSegments) is no closer.
+ * Where that stretch is missing (a run that starts growing), the matched gain.
+ */
+function bareChipGains(
+  t: ArrayLike<number>, y: ArrayLike<number>, layers: readonly Segment[], expected: readonly { startLevel: number }[], fallback: number,
+): Map<number, number> {
+  const out = new Map<number, number>();
+  let previousEnd = 0;
+  for (const seg of layers) {
+    if (!out.has(seg.chip)) {
+      const startS = t[seg.startIndex];
+      let sum = 0, count = 0;
+      for (let i = seg.startIndex - 1; i >= previousEnd && t[i] >= startS - 11; i--) {
+        if (t[i] > startS - 1) continue;
+        sum += y[i];
+        count++;
+      }
+      const level = expected[seg.layer - 1]?.startLevel ?? NaN;
+      out.set(seg.chip, count >= 20 && level > 0 ? sum / count / level : fallback);
+    }
+    previousEnd = seg.endIndex;
+  }
+  return out;
+}
+
+/**
+ * Samples [from, to): the readings reach `level` on the layer's design curve (`into`, a scale ≥ 0
+ * fitted: the slope's sign is the design's, so the level is not taken where it is crossed the
+ * other way) over [from, e), stay flat at it over [e, s), and leave it on the next layer's curve
+ * (`outOf`, scaled likewise) over [s, to); without a next layer flat to the end. e's time within
+ * `endSpan`, s's within `startSpan`, e ≤ s. Least squares, every pair 0.5 s apart, then every
+ * sample pair within 0.5 s of the best; null when nothing fits.
+ */
+function breakpoints(
+  t: ArrayLike<number>, y: ArrayLike<number>, level: number, from: number, to: number,
+  endSpan: [number, number], startSpan: [number, number] | null,
+  into: readonly ((dtS: number) => number)[], outOf: readonly ((dtS: number) => number)[] | null,
+): { end: number; start: number } | null {
+  const n = to - from;
+  if (n < 20) return null;
+  const RR = new Float64Array(n + 1);
+  for (let i = 0; i < n; i++) RR[i + 1] = RR[i] + (y[from + i] - level) ** 2;
+  const flat = (a: number, b: number) => RR[b] - RR[a];
+  // r ≈ a·f over [a, b), a ≥ 0: the residual
+  const scaled = (a: number, b: number, f: (i: number) => number): number => {
+    let rf = 0, ff = 0;
+    for (let i = a; i < b; i++) {
+      const v = f(i);
+      rf += (y[from + i] - level) * v;
+      ff += v * v;
+    }
+    return !(ff > 0) || rf < 0 ? flat(a, b) + (rf < 0 ? Infinity : 0) : flat(a, b) - (rf * rf) / ff;
+  };
+  const inside = (i: number, span: [number, number]) => t[from + i] >= span[0] && t[from + i] <= span[1];
+  // the cost of the readings before each trial end, and after each trial start (computed as asked for)
+  const before = new Float64Array(n + 1).fill(NaN), after = new Float64Array(n + 1).fill(NaN);
+  const costBefore = (e: number): number => {
+    if (Number.isNaN(before[e])) {
+      const te = t[from + e];
+      before[e] = Infinity;
+      for (const f of into) before[e] = Math.min(before[e], scaled(0, e, (i) => f(te - t[from + i])));
+    }
+    return before[e];
+  };
+  const costAfter = (s: number): number => {
+    if (Number.isNaN(after[s])) {
+      const ts = t[from + s];
+      after[s] = Infinity;
+      for (const f of outOf!) after[s] = Math.min(after[s], scaled(s, n, (i) => f(t[from + i] - ts)));
+    }
+    return after[s];
+  };
+  // every `step`-th pair over the spans, then every pair within a step of the best
+  const pass = (step: number, e0: number, e1: number, s0: number, s1: number) => {
+    let found: { end: number; start: number } | null = null, foundCost = Infinity;
+    for (let e = Math.max(1, e0); e <= Math.min(n - 1, e1); e += step) {
+      if (!inside(e, endSpan) || !Number.isFinite(costBefore(e))) continue;
+      if (!startSpan || !outOf) {
+        const c = before[e] + flat(e, n);
+        if (c < foundCost) [found, foundCost] = [{ end: e, start: e }, c];
+        continue;
+      }
+      for (let s = Math.max(e, s0); s <= Math.min(n - 2, s1); s += step) {
+        if (!inside(s, startSpan) || !Number.isFinite(costAfter(s))) continue;
+        const c = before[e] + flat(e, s) + after[s];
+        if (c < foundCost) [found, foundCost] = [{ end: e, start: s }, c];
+      }
+    }
+    return found;
+  };
+  const dt = (t[to - 1] - t[from]) / Math.max(n - 1, 1);
+  const stride = Math.max(1, Math.round(0.5 / Math.max(dt, 1e-9)));
+  const coarse = pass(stride, 1, n - 1, 1, n - 2);
+  if (!coarse) return null;
+  const fine = stride > 1 ? pass(1, coarse.end - stride, coarse.end + stride, coarse.start - stride, coarse.start + stride) ?? coarse : coarse;
+  const best = { end: from + fine.end, start: from + fine.start };
+  return best;
+}
