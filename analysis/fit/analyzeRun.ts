@@ -456,7 +456,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       if (transient.sigmaS && !byDesign) {
         // to the ends the growths after the cuts put on the layers (LayerEnds), as their estimates now stand
         const ended = data.map((d, j) => ({ ...d, durationS: chipStates[j].fit.durationS }));
-        carryJointStartDelaySigma(ended, chipStates.map((p) => p.estimate), cal.offset, transient.delayS, transient.sigmaS, chipStates.map((p) => (p.samples.startDelayS ?? 0) > 0), cg, o.robustLoss);
+        carryJointStartDelaySigma(ended, chipStates.map((p) => p.estimate), cal.offset, transient.delayS, transient.sigmaS, chipStates.map((p) => (p.samples.startDelayS ?? 0) > 0), cg, o.robustLoss, joint);
       }
       if (shared) {
         cal.refinedGain = shared.gain;
