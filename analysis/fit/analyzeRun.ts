@@ -19,7 +19,7 @@ import { carryGainDriftSigma, carryJointGainDriftSigma } from './gainDriftSigma'
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { type SampleWorkResult } from './layerSampleWork';
 import { type ObservedTurningPoints } from './observedTurningPoints';
-import { requestSpectra } from './requestSpectra';
+import { PROFILE_PASS_SPECTRUM_QWOT, requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
 import { segmentByDesign } from './designSegments';
@@ -29,11 +29,11 @@ import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
 import { indexSeparation } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
-import { binsOnExposureClocks } from './profileBins';
 import { type RateWander } from './rateWander';
 import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wanderChoice';
-import { exposureTime, onExposureClock } from './startTransient';
-import { pooledStartDelay, PROFILE_POINTS, startDelayProfile, type PooledStartDelay, type StartDelayProfile } from './startDelay';
+import { onExposureClock } from './startTransient';
+import { pooledStartDelay, type PooledStartDelay, type StartDelayProfile } from './startDelay';
+import { profileFromRequest, startDelayRequest } from './startDelayRequest';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
@@ -138,7 +138,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
  */
 export async function findStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<PooledStartDelay | null> {
   if (!trace.layer) return null;
-  const profiles: StartDelayProfile[] = [];
+  const profiles: Promise<StartDelayProfile | null>[] = [];
   // Without the next layer's start read as growth below: that reading takes up the start delay
   // (near an extremum both first add a slope at the start; measured on the chamber simulator the
   // layers' profiles then came out flat), so here the growth stands on the idle levels.
@@ -147,7 +147,7 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   // and 1.253 ± 0.375 s on 400; 200 took 2/3 the CPU of 400).
   const maxFitPoints = Math.min(options.maxFitPoints ?? ANALYZE_DEFAULTS.maxFitPoints, PROFILE_PASS_POINTS);
   await analyzeLayers(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false, maxFitPoints }, { delayS: 0, profiles });
-  return pooledStartDelay(profiles);
+  return pooledStartDelay((await Promise.all(profiles)).filter((p): p is StartDelayProfile => p !== null));
 }
 
 /** Fit points per layer in the start delay's profiling pass (fit/startDelay.ts's profiles use PROFILE_POINTS). */
@@ -157,7 +157,7 @@ const PROFILE_PASS_POINTS = 100;
 interface PassTransient {
   delayS: number;
   sigmaS?: number;
-  profiles?: StartDelayProfile[];
+  profiles?: Promise<StartDelayProfile | null>[];
 }
 
 async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult> {
@@ -202,7 +202,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     const onChip = order.filter((l) => samplesByLayer.get(l.layer)!.chip === chip && samplesByLayer.get(l.layer)!.tauS.length >= 10).length;
     return [o.maxFitPoints, o.refitPointsPerLayer, 150, finalPointsPerLayer(o, onChip)];
   };
-  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints) : null;
+  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
   const noiseFloor = idleNoise(trace, seg.idle);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
@@ -261,11 +261,9 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       continue;
     }
     const durationS = samples.tauS[n - 1];
-    // The profiling pass reads no spectrum of a layer under 3 QWOT (1.5 fringes), whose fringe rate
-    // comes in steps of one fringe per layer; its fits only build the stack each profile stands on
-    // (measured: δ̂ and σ the same on the bench's 40-layer run and 8 chamber runs).
+    // (fit/requestSpectra.ts: which spectra the profiling pass reads)
     const { observed, binned: binnedElsewhere, ...spectrum }: LayerSpectrum & Partial<SampleWorkResult> = spectra ? await spectra.get(dl.layer)!
-      : transient.profiles && qwotAtMonitor < 3 ? { fringeFrequencyHz: null, fringeRateNmPerS: null, disturbances: [] }
+      : transient.profiles && qwotAtMonitor < PROFILE_PASS_SPECTRUM_QWOT ? { fringeFrequencyHz: null, fringeRateNmPerS: null, disturbances: [] }
       : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     // make() is called again after the pass (final refit), when the layer's state exists.
     const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean } = {};
@@ -347,18 +345,14 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     }
     if (transient.profiles && !byDesign && !separation?.hold && fit.fitDrift && dl.monitor.cut === 'turning-point') {
       // This layer's χ² in the run's start delay, on the stack below as the pass holds it.
+      // (computed where startDelayProfileOf puts it, e.g. the second thread, while this one fits on)
       const e = single.layers[0];
-      const profileBins = binsOnExposureClocks(samples.tauS, samples.indices, trace.signal, PROFILE_POINTS);
-      const profile = startDelayProfile({
+      const request = startDelayRequest({
         below: below.slice(), start: e, offsetSignal: calibration.offset,
         ...(ends?.growthBelow(chip) && heldIndex === null ? { growthBelow: { heldNm: ends.growthBelow(chip)!.deltaNm, rateNmPerS: ends.growthBelow(chip)!.rateNmPerS } } : {}),
         ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
-        dataAt: (delayS) => {
-          const binned = profileBins(delayS);
-          return { ...fit, tauS: binned.tauS, y: binned.y, durationS: exposureTime(fit.durationS, delayS) };
-        },
-      });
-      if (profile) transient.profiles.push(profile);
+      }, fit, model, samples.tauS, pick(trace.signal, samples.indices));
+      transient.profiles.push(o.startDelayProfileOf ? o.startDelayProfileOf(request) : Promise.resolve(profileFromRequest(request)));
     }
     // Not inside boundaries placed on the design's curve (no layer column): those were placed with a
     // steady rate, and the knots then take up the placement's error (measured on the no-layer

@@ -44,9 +44,10 @@ describe('the analyze command computes spectra on a second thread', () => {
     expect(got.observed!.points.map((p) => p.timeS)).toEqual(Array.from({ length: 11 }, (_, k) => expect.closeTo(100 + 9 * (Math.PI / 2 + k * Math.PI), 0)));
   });
 
-  it('the bundled command (thread on) prints what analyzeRun gives in process (no thread)', async () => {
-    const designFile = path.join(samples, 'bbar4-visible.json');
-    const traceFile = path.join(samples, 'bay2-bb4-run0587.csv');
+  // the four-layer AR (level cuts); the 17-layer mirror (turning-point cuts: the start delay's profiles on the thread too)
+  it.each([['bbar4-visible.json', 'bay2-bb4-run0587.csv'], ['hr17-mirror-600.json', 'bay3-hr17-run1120.csv']])('the bundled command (thread on) prints what analyzeRun gives in process (no thread): %s', async (designName, traceName) => {
+    const designFile = path.join(samples, designName);
+    const traceFile = path.join(samples, traceName);
     const r = spawnSync(process.execPath, [path.join(root, 'db/local/cli.mjs'), 'analyze', '--design', designFile, '--trace', traceFile, '--mode', 'refit'], {
       cwd: root, encoding: 'utf8', env: { ...process.env, FRINGELOG_CLI_CACHE: cache }, maxBuffer: 64 * 2 ** 20,
     });
