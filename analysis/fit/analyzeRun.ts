@@ -121,12 +121,13 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
   if (!(options.startTransient ?? ANALYZE_DEFAULTS.startTransient)) return analyzePass(design, trace, options, { delayS: 0 });
-  const pooled = await findStartDelay(design, trace, options);
+  const basis = runBasis(design, trace);
+  const pooled = await findStartDelay(design, trace, options, basis);
   if (!pooled?.kept) {
-    const plain = await analyzePass(design, trace, options, { delayS: 0 });
+    const plain = await analyzePass(design, trace, options, { delayS: 0 }, basis);
     return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled)] : plain.warnings };
   }
-  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS, sigmaS: pooled.sigmaS });
+  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS, sigmaS: pooled.sigmaS }, basis);
   result.warnings.push(startDelayNote(pooled));
   return result;
 }
@@ -136,7 +137,7 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
  * layer of ≥ 0.5 QWOT with a fitted index in it (fit/startDelay.ts), pooled; null without a
  * layer column (boundaries placed on the design's curve put each start where growth showed).
  */
-export async function findStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<PooledStartDelay | null> {
+export async function findStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}, basis?: RunBasis): Promise<PooledStartDelay | null> {
   if (!trace.layer) return null;
   const profiles: Promise<StartDelayProfile | null>[] = [];
   // Without the next layer's start read as growth below: that reading takes up the start delay
@@ -146,7 +147,7 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   // (measured on the bench's 40-layer run, δ̂ 1.253 ± 0.375 s on 100 against 1.253 ± 0.374 s on 200
   // and 1.253 ± 0.375 s on 400; 200 took 2/3 the CPU of 400).
   const maxFitPoints = Math.min(options.maxFitPoints ?? ANALYZE_DEFAULTS.maxFitPoints, PROFILE_PASS_POINTS);
-  await analyzeLayers(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false, maxFitPoints }, { delayS: 0, profiles });
+  await analyzeLayers(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false, maxFitPoints }, { delayS: 0, profiles }, basis);
   return pooledStartDelay((await Promise.all(profiles)).filter((p): p is StartDelayProfile => p !== null));
 }
 
@@ -160,20 +161,38 @@ interface PassTransient {
   profiles?: Promise<StartDelayProfile | null>[];
 }
 
-async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult> {
-  return (await analyzeLayers(design, trace, options, transient))!;
+async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient, basis?: RunBasis): Promise<AnalysisResult> {
+  return (await analyzeLayers(design, trace, options, transient, basis))!;
+}
+
+/** What every pass reads alike from the trace (computed once for the profiling pass and the analysis): its segmentation, each layer's samples, the idle stretches' noise. */
+interface RunBasis {
+  byDesign: ReturnType<typeof segmentByDesign> | null;
+  seg: ReturnType<typeof segmentTrace> | (ReturnType<typeof segmentByDesign> & { inferred: true });
+  gathered: Map<number, LayerSamples>;
+  idleModel: ReturnType<typeof idleNoiseModel>;
+  noiseFloor: ReturnType<typeof idleNoise>;
+}
+
+function runBasis(design: Design, trace: TraceData): RunBasis {
+  // Without a layer column the design segments the trace (designSegments), not the signal alone.
+  const byDesign = trace.layer ? null : segmentByDesign(trace, design);
+  const seg = byDesign ? { ...byDesign, inferred: true as const } : segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
+  const layerSegments = byDesign ? placeBoundaries(trace, design, byDesign.layers, byDesign.windows) : seg.layers;
+  return {
+    byDesign, seg, gathered: gatherLayerSamples(trace, layerSegments),
+    idleModel: byDesign ? null : idleNoiseModel(trace, seg.idle), noiseFloor: idleNoise(trace, seg.idle),
+  };
 }
 
 /** The pass; a profiling pass (transient.profiles) stops after the layers' fits, with no result (null). */
-async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult | null> {
+async function analyzeLayers(
+  design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient, basis = runBasis(design, trace),
+): Promise<AnalysisResult | null> {
   const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
   const warnings: string[] = trace.warnings.map((w) => w.message);
-  // Without a layer column the design segments the trace (designSegments), not the signal alone.
-  const byDesign = trace.layer ? null : segmentByDesign(trace, design);
-  const seg = byDesign ? { ...byDesign, inferred: true } : segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
+  const { byDesign, seg, gathered } = basis;
   for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
-  const layerSegments = byDesign ? placeBoundaries(trace, design, byDesign.layers, byDesign.windows) : seg.layers;
-  const gathered = gatherLayerSamples(trace, layerSegments);
   // A start transient puts the fits on the exposure clock (fit/startTransient.ts); not inside
   // boundaries placed on the design's curve, which placed each start where the growth showed.
   // Turning-point cuts only (as the profiles): there the end thickness is the rate extrapolated
@@ -185,7 +204,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
-  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleNoiseModel(trace, seg.idle));
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, basis.idleModel);
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }
@@ -203,7 +222,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     return [o.maxFitPoints, o.refitPointsPerLayer, 150, finalPointsPerLayer(o, onChip)];
   };
   const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
-  const noiseFloor = idleNoise(trace, seg.idle);
+  const { noiseFloor } = basis;
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
