@@ -246,6 +246,11 @@ async function analyzeLayers(
   }]));
   const states: LayerState[] = [];
   const stacks = new Map<number, StackCovariance>();
+  // The profiling pass reads the stack's σ only through a growth read from a layer's start, a
+  // wander's choice or a thin layer's index prior (weighed by the σ of the layers before): without
+  // those it carries no stack (its fits only build the stack each profile stands on).
+  const stackRead = !transient.profiles || o.growthFromNext || o.rateWander
+    || order.some((l) => (4 * indexAt(design.materials[l.material], l.monitor.wavelengthNm).re * l.thicknessNm) / l.monitor.wavelengthNm < o.thinLayerQwot);
   const noisePool = newVariogramPool();
   let done = 0;
   for (const dl of order) {
@@ -397,7 +402,7 @@ async function analyzeLayers(
         built.wanderVariance = wanderEndVariance(fit, single.solver.covariance);
       }
     }
-    if (o.mode === 'sequential') {
+    if (o.mode === 'sequential' && stackRead) {
       // The stack below's uncertainty, carried into this layer's σ (refit fits them jointly instead).
       const held = heldIndex !== null ? { sigma: heldSigma, shift: shiftWithHeldIndex(fit, heldIndex, heldSigma, single.layers[0], fitSingle) } : null;
       stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held));
