@@ -32,10 +32,21 @@ function answer(r: Request): Answer {
 /** True in the thread startSpectrumThread starts (which runs the command's own module). */
 export const isSpectrumThread = !isMainThread && (workerData as { role?: string } | null)?.role === ROLE;
 
-/** The thread's side: answers each request with layerSpectrum. */
+/**
+ * Who computes each request (by id, while ids fit): 0 nobody yet, 1 the asking thread, 2 this
+ * one. A request is computed where it is claimed first (Atomics.compareExchange), so neither
+ * thread waits for work the other has not begun: the asking thread claims what it awaits before
+ * the thread has reached it (see startSpectrumThread). Either place gives the same figures.
+ */
+const CLAIMS = 1 << 14;
+const HERE = 1, THERE = 2;
+
+/** The thread's side: answers each request it claims with layerSpectrum (or the profile asked for); one claimed by the asking thread with null. */
 export function serveSpectra(): void {
+  const claims = (workerData as { claims?: Int32Array } | null)?.claims;
   parentPort!.on('message', (r: Request) => {
-    parentPort!.postMessage({ id: r.id, spectrum: answer(r) });
+    const mine = !claims || r.id >= claims.length || Atomics.compareExchange(claims, r.id, 0, THERE) === 0;
+    parentPort!.postMessage({ id: r.id, spectrum: mine ? answer(r) : null, skipped: !mine });
   });
 }
 
@@ -48,6 +59,7 @@ export function startSpectrumThread(entry: URL): {
 } {
   const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
   const local = answer;
+  const claims = new Int32Array(new SharedArrayBuffer(4 * CLAIMS));
   let worker: Worker | null = null;
   let closed = false;
   const fail = () => {
@@ -57,10 +69,11 @@ export function startSpectrumThread(entry: URL): {
     pending.clear();
   };
   try {
-    worker = new Worker(entry, { workerData: { role: ROLE } });
+    worker = new Worker(entry, { workerData: { role: ROLE, claims } });
     worker.unref();
-    worker.on('message', (m: { id: number; spectrum: Answer }) => {
-      pending.get(m.id)?.resolve(m.spectrum);
+    worker.on('message', (m: { id: number; spectrum: Answer; skipped?: boolean }) => {
+      // a request this thread claimed was answered here already
+      if (!m.skipped) pending.get(m.id)?.resolve(m.spectrum);
       pending.delete(m.id);
     });
     worker.on('error', fail);
@@ -69,13 +82,31 @@ export function startSpectrumThread(entry: URL): {
     worker = null;
   }
   let next = 0;
+  // What ask returns: a promise that, once awaited (its then called) before the thread has begun
+  // the request, claims it and computes it here, so this thread does not wait idle for work
+  // queued behind the thread's (the thread then skips it).
   const ask = (request: Request): Promise<Answer> => {
     if (!worker) return Promise.resolve(local(request));
     const w = worker;
-    return new Promise((resolve) => {
-      pending.set(request.id, { request, resolve });
-      w.postMessage(request);
-    });
+    let settle!: (s: Answer) => void;
+    const answered = new Promise<Answer>((resolve) => (settle = resolve));
+    pending.set(request.id, { request, resolve: settle });
+    w.postMessage(request);
+    const claim = () => {
+      if (request.id < claims.length && pending.has(request.id) && Atomics.compareExchange(claims, request.id, 0, HERE) === 0) {
+        pending.delete(request.id);
+        settle(local(request));
+      }
+    };
+    return {
+      then: (onFulfilled, onRejected) => {
+        claim();
+        return answered.then(onFulfilled, onRejected);
+      },
+      catch: (onRejected) => answered.catch(onRejected),
+      finally: (onFinally) => answered.finally(onFinally),
+      [Symbol.toStringTag]: 'Promise',
+    } as Promise<Answer>;
   };
   return {
     spectrumOf: (tauS, y, wavelengthNm, index, work) =>

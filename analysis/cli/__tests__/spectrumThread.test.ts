@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process';
-import { createReadStream, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { createReadStream, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -28,6 +28,17 @@ describe('the analyze command computes spectra on a second thread', () => {
     expect(got).toEqual(layerSpectrum(tauS, y, 550, 2.1));
     expect(got.fringeRateNmPerS).not.toBeNull();
   });
+
+  it('computes here what it awaits before the thread has begun it (a thread that takes requests and never answers)', async () => {
+    const stuck = path.join(cache, 'stuck.mjs');
+    writeFileSync(stuck, "import { parentPort } from 'node:worker_threads';\nparentPort.on('message', () => {});\nsetInterval(() => {}, 1000);\n");
+    const t = startSpectrumThread(pathToFileURL(stuck));
+    const tauS = Float64Array.from({ length: 400 }, (_, i) => i * 0.5);
+    const y = tauS.map((s) => 0.5 + 0.3 * Math.sin(s / 9));
+    const got = await t.spectrumOf(tauS, y, 550, 2.1);
+    t.close();
+    expect(got).toEqual(layerSpectrum(tauS, y, 550, 2.1));
+  }, 10_000);
 
   it('answers the samples\' other work from this thread too, as layerSampleWork does', async () => {
     const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
