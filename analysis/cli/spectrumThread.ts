@@ -1,38 +1,52 @@
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
-import { layerSpectrum, type LayerSpectrum } from '../fit/layerSpectrum';
+import { layerSpectrum, NO_SPECTRUM, type LayerSpectrum } from '../fit/layerSpectrum';
 import { layerSampleWork, type SampleWork, type SampleWorkResult } from '../fit/layerSampleWork';
+import { type StartDelayProfile } from '../fit/startDelay';
+import { profileFromRequest, type StartDelayProfileRequest } from '../fit/startDelayRequest';
 import { type AnalyzeOptions } from '../fit/types';
 
 // The analyze command computes the layers' spectra (and the work on their samples that needs no
-// fit, layerSampleWork) on a second thread while the main one fits (AnalyzeOptions.spectrumOf):
-// the same functions on the same samples, so the same figures.
+// fit, layerSampleWork) on a second thread while the main one fits (AnalyzeOptions.spectrumOf),
+// and the start delay's profiles while the profiling pass fits on (AnalyzeOptions.startDelayProfileOf):
+// the same functions on the same values, so the same figures.
 
-type Answer = LayerSpectrum & Partial<SampleWorkResult>;
+type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | StartDelayProfile | null;
 
 const ROLE = 'fringelog-layer-spectra';
 
-interface Request {
-  id: number;
+type Request = { id: number } & ({
   tauS: Float64Array;
   y: Float64Array;
   wavelengthNm: number;
   index: number;
   work?: SampleWork;
-}
+} | { profile: StartDelayProfileRequest });
 
 /** What the thread answers to a request (and this thread, when that one cannot). */
 function answer(r: Request): Answer {
-  const spectrum = layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
+  if ('profile' in r) return profileFromRequest(r.profile);
+  const spectrum = r.work?.spectrum === false ? NO_SPECTRUM : layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
   return r.work ? { ...spectrum, ...layerSampleWork(r.tauS, r.y, r.work) } : spectrum;
 }
 
 /** True in the thread startSpectrumThread starts (which runs the command's own module). */
 export const isSpectrumThread = !isMainThread && (workerData as { role?: string } | null)?.role === ROLE;
 
-/** The thread's side: answers each request with layerSpectrum. */
+/**
+ * Who computes each request (by id, while ids fit): 0 nobody yet, 1 the asking thread, 2 this
+ * one. A request is computed where it is claimed first (Atomics.compareExchange), so neither
+ * thread waits for work the other has not begun: the asking thread claims what it awaits before
+ * the thread has reached it (see startSpectrumThread). Either place gives the same figures.
+ */
+const CLAIMS = 1 << 14;
+const HERE = 1, THERE = 2;
+
+/** The thread's side: answers each request it claims with layerSpectrum (or the profile asked for); one claimed by the asking thread with null. */
 export function serveSpectra(): void {
+  const claims = (workerData as { claims?: Int32Array } | null)?.claims;
   parentPort!.on('message', (r: Request) => {
-    parentPort!.postMessage({ id: r.id, spectrum: answer(r) });
+    const mine = !claims || r.id >= claims.length || Atomics.compareExchange(claims, r.id, 0, THERE) === 0;
+    parentPort!.postMessage({ id: r.id, spectrum: mine ? answer(r) : null, skipped: !mine });
   });
 }
 
@@ -40,9 +54,12 @@ export function serveSpectra(): void {
  * Starts a thread on `entry` (the command's own module, which calls serveSpectra there). Any
  * request the thread cannot answer (it failed to start or stopped) is computed here instead.
  */
-export function startSpectrumThread(entry: URL): { spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; close: () => void } {
+export function startSpectrumThread(entry: URL): {
+  spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; startDelayProfileOf: NonNullable<AnalyzeOptions['startDelayProfileOf']>; close: () => void;
+} {
   const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
   const local = answer;
+  const claims = new Int32Array(new SharedArrayBuffer(4 * CLAIMS));
   let worker: Worker | null = null;
   let closed = false;
   const fail = () => {
@@ -52,10 +69,11 @@ export function startSpectrumThread(entry: URL): { spectrumOf: NonNullable<Analy
     pending.clear();
   };
   try {
-    worker = new Worker(entry, { workerData: { role: ROLE } });
+    worker = new Worker(entry, { workerData: { role: ROLE, claims } });
     worker.unref();
-    worker.on('message', (m: { id: number; spectrum: Answer }) => {
-      pending.get(m.id)?.resolve(m.spectrum);
+    worker.on('message', (m: { id: number; spectrum: Answer; skipped?: boolean }) => {
+      // a request this thread claimed was answered here already
+      if (!m.skipped) pending.get(m.id)?.resolve(m.spectrum);
       pending.delete(m.id);
     });
     worker.on('error', fail);
@@ -64,16 +82,36 @@ export function startSpectrumThread(entry: URL): { spectrumOf: NonNullable<Analy
     worker = null;
   }
   let next = 0;
+  // What ask returns: a promise that, once awaited (its then called) before the thread has begun
+  // the request, claims it and computes it here, so this thread does not wait idle for work
+  // queued behind the thread's (the thread then skips it).
+  const ask = (request: Request): Promise<Answer> => {
+    if (!worker) return Promise.resolve(local(request));
+    const w = worker;
+    let settle!: (s: Answer) => void;
+    const answered = new Promise<Answer>((resolve) => (settle = resolve));
+    pending.set(request.id, { request, resolve: settle });
+    w.postMessage(request);
+    const claim = () => {
+      if (request.id < claims.length && pending.has(request.id) && Atomics.compareExchange(claims, request.id, 0, HERE) === 0) {
+        pending.delete(request.id);
+        settle(local(request));
+      }
+    };
+    return {
+      then: (onFulfilled, onRejected) => {
+        claim();
+        return answered.then(onFulfilled, onRejected);
+      },
+      catch: (onRejected) => answered.catch(onRejected),
+      finally: (onFinally) => answered.finally(onFinally),
+      [Symbol.toStringTag]: 'Promise',
+    } as Promise<Answer>;
+  };
   return {
-    spectrumOf: (tauS, y, wavelengthNm, index, work) => {
-      const request: Request = { id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) };
-      if (!worker) return Promise.resolve(local(request));
-      const w = worker;
-      return new Promise((resolve) => {
-        pending.set(request.id, { request, resolve });
-        w.postMessage(request);
-      });
-    },
+    spectrumOf: (tauS, y, wavelengthNm, index, work) =>
+      ask({ id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) }) as Promise<LayerSpectrum & Partial<SampleWorkResult>>,
+    startDelayProfileOf: (profile) => ask({ id: next++, profile }) as Promise<StartDelayProfile | null>,
     close: () => {
       // the analysis is over (done, or failed): nothing pending is wanted any more
       closed = true;

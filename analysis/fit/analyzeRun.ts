@@ -19,7 +19,7 @@ import { carryGainDriftSigma, carryJointGainDriftSigma } from './gainDriftSigma'
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { type SampleWorkResult } from './layerSampleWork';
 import { type ObservedTurningPoints } from './observedTurningPoints';
-import { requestSpectra } from './requestSpectra';
+import { PROFILE_PASS_SPECTRUM_QWOT, requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
 import { levelCutEnds } from './levelCutEnds';
@@ -32,11 +32,11 @@ import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
 import { indexSeparation } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
-import { binsOnExposureClocks } from './profileBins';
 import { type RateWander } from './rateWander';
 import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wanderChoice';
-import { exposureTime, onExposureClock } from './startTransient';
-import { pooledStartDelay, PROFILE_POINTS, startDelayProfile, type PooledStartDelay, type StartDelayProfile } from './startDelay';
+import { onExposureClock } from './startTransient';
+import { pooledStartDelay, type PooledStartDelay, type StartDelayProfile } from './startDelay';
+import { profileFromRequest, startDelayRequest } from './startDelayRequest';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
@@ -125,12 +125,13 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
   if (!(options.startTransient ?? ANALYZE_DEFAULTS.startTransient)) return analyzePass(design, trace, options, { delayS: 0 });
-  const pooled = await findStartDelay(design, trace, options);
+  const basis = runBasis(design, trace);
+  const pooled = await findStartDelay(design, trace, options, basis);
   if (!pooled?.kept) {
-    const plain = await analyzePass(design, trace, options, { delayS: 0 });
+    const plain = await analyzePass(design, trace, options, { delayS: 0 }, basis);
     return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled)] : plain.warnings };
   }
-  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS, sigmaS: pooled.sigmaS });
+  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS, sigmaS: pooled.sigmaS }, basis);
   result.warnings.push(startDelayNote(pooled));
   return result;
 }
@@ -140,9 +141,9 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
  * layer of ≥ 0.5 QWOT with a fitted index in it (fit/startDelay.ts), pooled; null without a
  * layer column (boundaries placed on the design's curve put each start where growth showed).
  */
-export async function findStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<PooledStartDelay | null> {
+export async function findStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}, basis?: RunBasis): Promise<PooledStartDelay | null> {
   if (!trace.layer) return null;
-  const profiles: StartDelayProfile[] = [];
+  const profiles: Promise<StartDelayProfile | null>[] = [];
   // Without the next layer's start read as growth below: that reading takes up the start delay
   // (near an extremum both first add a slope at the start; measured on the chamber simulator the
   // layers' profiles then came out flat), so here the growth stands on the idle levels.
@@ -150,8 +151,8 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   // (measured on the bench's 40-layer run, δ̂ 1.253 ± 0.375 s on 100 against 1.253 ± 0.374 s on 200
   // and 1.253 ± 0.375 s on 400; 200 took 2/3 the CPU of 400).
   const maxFitPoints = Math.min(options.maxFitPoints ?? ANALYZE_DEFAULTS.maxFitPoints, PROFILE_PASS_POINTS);
-  await analyzeLayers(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false, maxFitPoints }, { delayS: 0, profiles });
-  return pooledStartDelay(profiles);
+  await analyzeLayers(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false, maxFitPoints }, { delayS: 0, profiles }, basis);
+  return pooledStartDelay((await Promise.all(profiles)).filter((p): p is StartDelayProfile => p !== null));
 }
 
 /** Fit points per layer in the start delay's profiling pass (fit/startDelay.ts's profiles use PROFILE_POINTS). */
@@ -161,23 +162,41 @@ const PROFILE_PASS_POINTS = 100;
 interface PassTransient {
   delayS: number;
   sigmaS?: number;
-  profiles?: StartDelayProfile[];
+  profiles?: Promise<StartDelayProfile | null>[];
 }
 
-async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult> {
-  return (await analyzeLayers(design, trace, options, transient))!;
+async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient, basis?: RunBasis): Promise<AnalysisResult> {
+  return (await analyzeLayers(design, trace, options, transient, basis))!;
+}
+
+/** What every pass reads alike from the trace (computed once for the profiling pass and the analysis): its segmentation, each layer's samples, the idle stretches' noise. */
+interface RunBasis {
+  byDesign: ReturnType<typeof segmentByDesign> | null;
+  seg: ReturnType<typeof segmentTrace> | (ReturnType<typeof segmentByDesign> & { inferred: true });
+  gathered: Map<number, LayerSamples>;
+  idleModel: ReturnType<typeof idleNoiseModel>;
+  noiseFloor: ReturnType<typeof idleNoise>;
+}
+
+function runBasis(design: Design, trace: TraceData): RunBasis {
+  // Without a layer column the design segments the trace (designSegments), not the signal alone.
+  const byDesign = trace.layer ? null : segmentByDesign(trace, design);
+  const seg = byDesign ? { ...byDesign, inferred: true as const } : segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
+  const layerSegments = byDesign ? levelCutEnds(trace, design, placeBoundaries(trace, design, byDesign.layers, byDesign.windows), byDesign.gain) : seg.layers;
+  return {
+    byDesign, seg, gathered: gatherLayerSamples(trace, layerSegments),
+    idleModel: idleNoiseModel(trace, seg.idle), noiseFloor: idleNoise(trace, seg.idle),
+  };
 }
 
 /** The pass; a profiling pass (transient.profiles) stops after the layers' fits, with no result (null). */
-async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult | null> {
+async function analyzeLayers(
+  design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient, basis = runBasis(design, trace),
+): Promise<AnalysisResult | null> {
   const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
   const warnings: string[] = trace.warnings.map((w) => w.message);
-  // Without a layer column the design segments the trace (designSegments), not the signal alone.
-  const byDesign = trace.layer ? null : segmentByDesign(trace, design);
-  const seg = byDesign ? { ...byDesign, inferred: true } : segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
+  const { byDesign, seg, gathered } = basis;
   for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
-  const layerSegments = byDesign ? levelCutEnds(trace, design, placeBoundaries(trace, design, byDesign.layers, byDesign.windows), byDesign.gain) : seg.layers;
-  const gathered = gatherLayerSamples(trace, layerSegments);
   // A start transient puts the fits on the exposure clock (fit/startTransient.ts); not inside
   // boundaries placed on the design's curve, which placed each start where the growth showed.
   // Turning-point cuts only (as the profiles): there the end thickness is the rate extrapolated
@@ -189,7 +208,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
-  const idleModel = idleNoiseModel(trace, seg.idle);
+  const idleModel = basis.idleModel;
   const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel);
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
@@ -207,8 +226,8 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     const onChip = order.filter((l) => samplesByLayer.get(l.layer)!.chip === chip && samplesByLayer.get(l.layer)!.tauS.length >= 10).length;
     return [o.maxFitPoints, o.refitPointsPerLayer, 150, finalPointsPerLayer(o, onChip)];
   };
-  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints) : null;
-  const noiseFloor = idleNoise(trace, seg.idle);
+  const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
+  const { noiseFloor } = basis;
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
@@ -232,6 +251,11 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
   }]));
   const states: LayerState[] = [];
   const stacks = new Map<number, StackCovariance>();
+  // The profiling pass reads the stack's σ only through a growth read from a layer's start, a
+  // wander's choice or a thin layer's index prior (weighed by the σ of the layers before): without
+  // those it carries no stack (its fits only build the stack each profile stands on).
+  const stackRead = !transient.profiles || o.growthFromNext || o.rateWander
+    || order.some((l) => (4 * indexAt(design.materials[l.material], l.monitor.wavelengthNm).re * l.thicknessNm) / l.monitor.wavelengthNm < o.thinLayerQwot);
   const noisePool = newVariogramPool();
   let done = 0;
   for (const dl of order) {
@@ -266,11 +290,9 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       continue;
     }
     const durationS = samples.tauS[n - 1];
-    // The profiling pass reads no spectrum of a layer under 3 QWOT (1.5 fringes), whose fringe rate
-    // comes in steps of one fringe per layer; its fits only build the stack each profile stands on
-    // (measured: δ̂ and σ the same on the bench's 40-layer run and 8 chamber runs).
+    // (fit/requestSpectra.ts: which spectra the profiling pass reads)
     const { observed, binned: binnedElsewhere, ...spectrum }: LayerSpectrum & Partial<SampleWorkResult> = spectra ? await spectra.get(dl.layer)!
-      : transient.profiles && qwotAtMonitor < 3 ? { fringeFrequencyHz: null, fringeRateNmPerS: null, disturbances: [] }
+      : transient.profiles && qwotAtMonitor < PROFILE_PASS_SPECTRUM_QWOT ? { fringeFrequencyHz: null, fringeRateNmPerS: null, disturbances: [] }
       : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
     // make() is called again after the pass (final refit), when the layer's state exists.
     const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean } = {};
@@ -361,18 +383,14 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     }
     if (transient.profiles && !byDesign && !separation?.hold && fit.fitDrift && dl.monitor.cut === 'turning-point') {
       // This layer's χ² in the run's start delay, on the stack below as the pass holds it.
+      // (computed where startDelayProfileOf puts it, e.g. the second thread, while this one fits on)
       const e = single.layers[0];
-      const profileBins = binsOnExposureClocks(samples.tauS, samples.indices, trace.signal, PROFILE_POINTS);
-      const profile = startDelayProfile({
+      const request = startDelayRequest({
         below: below.slice(), start: e, offsetSignal: calibration.offset,
         ...(ends?.growthBelow(chip) && heldIndex === null ? { growthBelow: { heldNm: ends.growthBelow(chip)!.deltaNm, rateNmPerS: ends.growthBelow(chip)!.rateNmPerS } } : {}),
         ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
-        dataAt: (delayS) => {
-          const binned = profileBins(delayS);
-          return { ...fit, tauS: binned.tauS, y: binned.y, durationS: exposureTime(fit.durationS, delayS) };
-        },
-      });
-      if (profile) transient.profiles.push(profile);
+      }, fit, model, samples.tauS, pick(trace.signal, samples.indices));
+      transient.profiles.push(o.startDelayProfileOf ? o.startDelayProfileOf(request) : Promise.resolve(profileFromRequest(request)));
     }
     // Not inside boundaries placed on the design's curve (no layer column): those were placed with a
     // steady rate, and the knots then take up the placement's error (measured on the no-layer
@@ -398,7 +416,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
         built.wanderVariance = wanderEndVariance(fit, single.solver.covariance);
       }
     }
-    if (o.mode === 'sequential') {
+    if (o.mode === 'sequential' && stackRead) {
       // The stack below's uncertainty, carried into this layer's σ (refit fits them jointly instead).
       const held = heldIndex !== null ? { sigma: heldSigma, shift: shiftWithHeldIndex(fit, heldIndex, heldSigma, single.layers[0], fitSingle) } : null;
       stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held));
@@ -477,7 +495,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       if (transient.sigmaS && !byDesign) {
         // to the ends the growths after the cuts put on the layers (LayerEnds), as their estimates now stand
         const ended = data.map((d, j) => ({ ...d, durationS: chipStates[j].fit.durationS }));
-        carryJointStartDelaySigma(ended, chipStates.map((p) => p.estimate), cal.offset, transient.delayS, transient.sigmaS, chipStates.map((p) => (p.samples.startDelayS ?? 0) > 0), cg, o.robustLoss);
+        carryJointStartDelaySigma(ended, chipStates.map((p) => p.estimate), cal.offset, transient.delayS, transient.sigmaS, chipStates.map((p) => (p.samples.startDelayS ?? 0) > 0), cg, o.robustLoss, joint);
       }
       if (shared) {
         cal.refinedGain = shared.gain;

@@ -3,14 +3,16 @@ import { binMeans } from './subsample';
 
 /** What analyzeRun asks of a layer's samples beside its spectrum, when another thread computes them. */
 export interface SampleWork {
-  /** The samples' times, s (for the turning points they show). */
-  timeS: Float64Array;
+  /** The samples' times, s (for the turning points they show); none asked for without them. */
+  timeS?: Float64Array;
   /** The bin counts the fits will ask binMeans for. */
   binPoints: number[];
+  /** false: no spectrum (the layer's is not read: the profiling pass, under 3 QWOT). @default true */
+  spectrum?: boolean;
 }
 
 export interface SampleWorkResult {
-  observed: ObservedTurningPoints;
+  observed?: ObservedTurningPoints;
   /** binMeans of the samples for each of SampleWork.binPoints. */
   binned: { points: number; tauS: Float64Array; y: Float64Array }[];
 }
@@ -20,9 +22,8 @@ export interface SampleWorkResult {
  * own series: the same functions on the same values as analyzeRun's loop, so the same figures.
  */
 export function layerSampleWork(tauS: Float64Array, y: Float64Array, work: SampleWork): SampleWorkResult {
-  const own = Int32Array.from({ length: y.length }, (_, i) => i);
-  return {
-    observed: observedTurningPoints(tauS, work.timeS, y),
-    binned: work.binPoints.map((points) => ({ points, ...binMeans(tauS, own, y, points) })),
-  };
+  const own = new Int32Array(y.length);
+  for (let i = 0; i < own.length; i++) own[i] = i;
+  const binned = work.binPoints.map((points) => ({ points, ...binMeans(tauS, own, y, points) }));
+  return work.timeS ? { observed: observedTurningPoints(tauS, work.timeS, y), binned } : { binned };
 }

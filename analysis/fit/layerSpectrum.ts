@@ -9,7 +9,8 @@ export interface LayerSpectrum {
   disturbances: Disturbance[];
 }
 
-const NONE: LayerSpectrum = { fringeFrequencyHz: null, fringeRateNmPerS: null, disturbances: [] };
+/** No fringe, no disturbance: a layer too short to tell, or one whose spectrum is not read. */
+export const NO_SPECTRUM: LayerSpectrum = { fringeFrequencyHz: null, fringeRateNmPerS: null, disturbances: [] };
 
 /**
  * The spectrum of one layer's samples. The monitor signal of a growing transparent layer repeats
@@ -19,7 +20,7 @@ const NONE: LayerSpectrum = { fringeFrequencyHz: null, fringeRateNmPerS: null, d
  * the figure is a first guess, refined by the fit.
  */
 export function layerSpectrum(tauS: ArrayLike<number>, y: ArrayLike<number>, wavelengthNm: number, index: number): LayerSpectrum {
-  if (tauS.length < 32) return NONE;
+  if (tauS.length < 32) return NO_SPECTRUM;
   // No zero padding at half the default length: the same band and resolution, half the cost.
   const s = fringeSpectrum(tauS, y, { maxFftSize: 4096, padFactor: 1 });
   // A true fringe carries most of the layer's swing; a small peak is noise or a harmonic of a

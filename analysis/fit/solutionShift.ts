@@ -20,6 +20,8 @@ export interface LayerChange {
  */
 export function layerChangesFor(
   data: readonly FitLayerData[], solver: LeastSquaresResult, layout: ParamLayout, dy: Float64Array,
+  /** The layers' data after the move, when it changed their durations (the end thickness is read at those). */
+  after: readonly FitLayerData[] = data,
 ): LayerChange[] | null {
   if (!solver.shiftFor || layout.count !== solver.params.length) return null;
   const dp = solver.shiftFor(dy);
@@ -27,7 +29,7 @@ export function layerChangesFor(
   const moved = Float64Array.from(solver.params, (v, k) => v + dp[k]);
   return data.map((l, j) => {
     const a = decodeLayer(l, solver.params, layout.offsets[j], layout), b = decodeLayer(l, moved, layout.offsets[j], layout);
-    const da = lawThickness(a, l.wander, l.durationS), db = lawThickness(b, l.wander, l.durationS);
+    const da = lawThickness(a, l.wander, l.durationS), db = lawThickness(b, l.wander, after[j].durationS);
     return { index: b.index - a.index, thicknessNm: db - da, opticalThicknessNm: b.index * db - a.index * da, rateNmPerS: b.rateNmPerS - a.rateNmPerS };
   });
 }

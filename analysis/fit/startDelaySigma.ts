@@ -1,5 +1,6 @@
 import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
-import { type FitLayerData } from './layerModel';
+import { evaluateLayers, paramLayout, type FitLayerData } from './layerModel';
+import { layerChangesFor, type LayerChange } from './solutionShift';
 import { type PooledStartDelay } from './startDelay';
 import { exposureTime, realTime } from './startTransient';
 
@@ -50,15 +51,62 @@ export function carryStartDelaySigma(
   estimates.forEach((e, j) => addShift(e, moved.layers[j]));
 }
 
-/** carryStartDelaySigma after a chip's final joint fit (the chip-wide gain refitted with the layers, as in the fit). */
+/**
+ * carryStartDelaySigma after a chip's final joint fit (the chip-wide gain refitted with the layers, as in the fit).
+ * With `joint`, the chip's final joint fit (not robust), the moved solution is one Gauss–Newton step
+ * from it (delayShift), which the refit's is to first order in σ_δ, as in fit/offsetSigma.ts;
+ * without it, the joint fit is repeated on the moved data, started from `estimates`.
+ */
 export function carryJointStartDelaySigma(
   data: readonly FitLayerData[], estimates: LayerEstimate[], offset: number, delayS: number, sigmaS: number, onClock: readonly boolean[],
-  sharedGain: SharedGain | null, robust: boolean,
+  sharedGain: SharedGain | null, robust: boolean, joint?: JointFitResult,
 ): void {
+  if (!(sigmaS > 0) || !Number.isFinite(sigmaS) || estimates.length === 0 || !onClock.some(Boolean)) return;
+  const step = !robust && joint ? delayShift(data, joint, offset, delayS, sigmaS, onClock, sharedGain) : null;
+  if (step) {
+    estimates.forEach((e, j) => addChange(e, step[j]));
+    return;
+  }
   carryStartDelaySigma(data, estimates, delayS, sigmaS, onClock, (moved) => fitLayers(
     { fixedBelow: [], layers: moved, start: estimates, offsetSignal: offset, ...(sharedGain ? { sharedGain: { ...sharedGain } } : {}) },
     { robust, maxIterations: 30 },
   ));
+}
+
+/** σ² += Δ² for each figure of an estimate, Δ its linearised change. */
+function addChange(e: LayerEstimate, c: LayerChange): void {
+  const add = (sigma: number, delta: number) => (Number.isFinite(delta) ? Math.hypot(sigma, delta) : sigma);
+  e.thicknessSigmaNm = add(e.thicknessSigmaNm, c.thicknessNm);
+  e.opticalThicknessSigmaNm = add(e.opticalThicknessSigmaNm, c.opticalThicknessNm);
+  e.indexSigma = add(e.indexSigma, c.index);
+  e.rateSigma = add(e.rateSigma, c.rateNmPerS);
+}
+
+/**
+ * The joint fit's solution with every point of the layers on the clock of δ + σ_δ, linearised:
+ * the model at the fit's solution moves by Δmodel from the moved clocks (the layers' own points,
+ * and their end thicknesses under the layers above), as if the data fell by as much, so the
+ * solution moves by Δθ = (JᵀJ)⁻¹Jᵀ·(−Δmodel) (LeastSquaresResult.shiftFor; the gradient is zero at
+ * the solution). Each end thickness is read at the moved duration. Null when the step cannot be
+ * taken (a singular normal matrix, a layout that is not the fit's).
+ */
+function delayShift(
+  data: readonly FitLayerData[], joint: JointFitResult, offset: number, delayS: number, sigmaS: number, onClock: readonly boolean[],
+  sharedGain: SharedGain | null,
+): LayerChange[] | null {
+  const { solver } = joint;
+  const layout = paramLayout(data, sharedGain !== null, sharedGain?.fitDrift ?? false);
+  if (layout.count !== solver.params.length) return null;
+  let n = 0;
+  for (const l of data) n += l.tauS.length;
+  const moved = data.map((d, j) => (onClock[j] ? onMovedClock(d, delayS, delayS + sigmaS) : d));
+  const at = new Float64Array(n), there = new Float64Array(n);
+  evaluateLayers([], data, layout, solver.params, offset, at);
+  evaluateLayers([], moved, layout, solver.params, offset, there);
+  // the fit's rows: the samples, then its priors' pseudo-observations (which the clock leaves)
+  const dy = new Float64Array(solver.residuals.length);
+  for (let i = 0; i < n; i++) dy[i] = at[i] - there[i];
+  return layerChangesFor(data, solver, layout, dy, moved);
 }
 
 /** The run's note on the start transient (a warning line: shared/FORMATS.md fixes no other field). */

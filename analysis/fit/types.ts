@@ -2,6 +2,8 @@ import { type MaterialDrift } from '../stats';
 import { type ChipCalibration } from './calibrateChip';
 import { type LayerSpectrum } from './layerSpectrum';
 import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
+import { type StartDelayProfile } from './startDelay';
+import { type StartDelayProfileRequest } from './startDelayRequest';
 
 export type AnalysisMode = 'sequential' | 'refit';
 
@@ -194,6 +196,12 @@ export interface AnalyzeOptions {
    * @default layerSpectrum, in turn, on this thread
    */
   spectrumOf?: (tauS: Float64Array, y: Float64Array, wavelengthNm: number, index: number, work?: SampleWork) => Promise<LayerSpectrum & Partial<SampleWorkResult>>;
+  /**
+   * Computes a layer's start-delay profile elsewhere, e.g. on another thread (the profiling pass
+   * reads the profiles only once it is over); it must resolve to what profileFromRequest returns.
+   * @default profileFromRequest, on this thread
+   */
+  startDelayProfileOf?: (request: StartDelayProfileRequest) => Promise<StartDelayProfile | null>;
 }
 
 export interface TurningPointAt {

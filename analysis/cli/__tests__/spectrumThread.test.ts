@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process';
-import { createReadStream, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { createReadStream, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -29,6 +29,17 @@ describe('the analyze command computes spectra on a second thread', () => {
     expect(got.fringeRateNmPerS).not.toBeNull();
   });
 
+  it('computes here what it awaits before the thread has begun it (a thread that takes requests and never answers)', async () => {
+    const stuck = path.join(cache, 'stuck.mjs');
+    writeFileSync(stuck, "import { parentPort } from 'node:worker_threads';\nparentPort.on('message', () => {});\nsetInterval(() => {}, 1000);\n");
+    const t = startSpectrumThread(pathToFileURL(stuck));
+    const tauS = Float64Array.from({ length: 400 }, (_, i) => i * 0.5);
+    const y = tauS.map((s) => 0.5 + 0.3 * Math.sin(s / 9));
+    const got = await t.spectrumOf(tauS, y, 550, 2.1);
+    t.close();
+    expect(got).toEqual(layerSpectrum(tauS, y, 550, 2.1));
+  }, 10_000);
+
   it('answers the samples\' other work from this thread too, as layerSampleWork does', async () => {
     const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
     const tauS = Float64Array.from({ length: 600 }, (_, i) => i * 0.5);
@@ -44,9 +55,10 @@ describe('the analyze command computes spectra on a second thread', () => {
     expect(got.observed!.points.map((p) => p.timeS)).toEqual(Array.from({ length: 11 }, (_, k) => expect.closeTo(100 + 9 * (Math.PI / 2 + k * Math.PI), 0)));
   });
 
-  it('the bundled command (thread on) prints what analyzeRun gives in process (no thread)', async () => {
-    const designFile = path.join(samples, 'bbar4-visible.json');
-    const traceFile = path.join(samples, 'bay2-bb4-run0587.csv');
+  // the four-layer AR (level cuts); the 17-layer mirror (turning-point cuts: the start delay's profiles on the thread too)
+  it.each([['bbar4-visible.json', 'bay2-bb4-run0587.csv'], ['hr17-mirror-600.json', 'bay3-hr17-run1120.csv']])('the bundled command (thread on) prints what analyzeRun gives in process (no thread): %s', async (designName, traceName) => {
+    const designFile = path.join(samples, designName);
+    const traceFile = path.join(samples, traceName);
     const r = spawnSync(process.execPath, [path.join(root, 'db/local/cli.mjs'), 'analyze', '--design', designFile, '--trace', traceFile, '--mode', 'refit'], {
       cwd: root, encoding: 'utf8', env: { ...process.env, FRINGELOG_CLI_CACHE: cache }, maxBuffer: 64 * 2 ** 20,
     });

@@ -34,6 +34,14 @@ describe('db/local/cli.mjs', () => {
     expect(key.inputs).toContain('tsconfig.json');
   });
 
+  it('holds its packages (zod) in the one file, not imported from node_modules at start-up', () => {
+    const text = readFileSync(bundle, 'utf8');
+    expect(text).not.toMatch(/^import .* from "zod";$/m);
+    expect(text.match(/^import .* from "([^"]+)";$/gm)!.every((line) => line.includes('"node:'))).toBe(true);
+    const key = JSON.parse(text.split('\n', 1)[0].replace('// fringelog-cli ', '')) as { inputs: string[] };
+    expect(key.inputs.some((f) => f.startsWith('node_modules/zod/'))).toBe(true);
+  });
+
   it('reuses the bundle while its sources are unchanged', () => {
     const before = statSync(bundle).mtimeMs;
     expect(launch(['plan', '--design', design]).stdout).toBe(viaTsx.stdout);
