@@ -35,6 +35,7 @@ import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wande
 import { exposureTime, onExposureClock } from './startTransient';
 import { pooledStartDelay, PROFILE_POINTS, startDelayProfile, type PooledStartDelay, type StartDelayProfile } from './startDelay';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
+import { jointStartDelayProfile } from './jointStartDelay';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -97,6 +98,7 @@ export const ANALYZE_DEFAULTS = {
   indexGradient: false,
   growthFromNext: true,
   startTransient: true,
+  levelStartTransient: false,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -121,13 +123,17 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
   if (!(options.startTransient ?? ANALYZE_DEFAULTS.startTransient)) return analyzePass(design, trace, options, { delayS: 0 });
-  const pooled = await findStartDelay(design, trace, options);
+  // Every layer cut on level (option levelStartTransient): δ from each chip's joint fit with the
+  // lamp drift fitted under its prior (fit/jointStartDelay.ts), the layers on its clock, and the drift fitted so in refit.
+  const level = levelCutsOnly(design, trace, options);
+  const pooled = level ? await findLevelStartDelay(design, trace, options) : await findStartDelay(design, trace, options);
   if (!pooled?.kept) {
     const plain = await analyzePass(design, trace, options, { delayS: 0 });
-    return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled)] : plain.warnings };
+    return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled, level ? 'chip' : 'layer')] : plain.warnings };
   }
-  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS, sigmaS: pooled.sigmaS });
-  result.warnings.push(startDelayNote(pooled));
+  // (where kept, the drift is fitted as the profile fitted it: held at δ̂, its estimate takes up the start-up again)
+  const result = await analyzePass(design, trace, level ? { ...options, lampDriftFit: true } : options, { delayS: pooled.delayS, sigmaS: pooled.sigmaS, levelOnClock: level });
+  result.warnings.push(startDelayNote(pooled, level ? 'chip' : 'layer'));
   return result;
 }
 
@@ -150,6 +156,27 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   return pooledStartDelay(profiles);
 }
 
+/** Option levelStartTransient on a run with a layer column whose every layer is cut on level. */
+function levelCutsOnly(design: Design, trace: TraceData, options: AnalyzeOptions): boolean {
+  return (options.levelStartTransient ?? ANALYZE_DEFAULTS.levelStartTransient) && !!trace.layer && design.layers.every((l) => l.monitor.cut === 'level');
+}
+
+/**
+ * The start delay of a run cut on level (option levelStartTransient): a pass in refit mode with
+ * the lamp drift fitted under its prior, each chip's final joint fit profiled in δ with the drift
+ * refitted (fit/jointStartDelay.ts), the chips' profiles pooled as startDelay.ts pools layers'.
+ */
+export async function findLevelStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<PooledStartDelay | null> {
+  if (!trace.layer) return null;
+  const profiles: StartDelayProfile[] = [];
+  await analyzeLayers(design, trace, { ...options, mode: 'refit', gain: 'chip', lampDriftFit: true, modelSeries: false, onProgress: undefined }, { delayS: 0, jointProfiles: profiles });
+  // Kept wherever the minimum lies past 0 (no margin): with one chip or few, the χ² gain stays small
+  // whatever δ, and Schwarz's ln N kept 6 of 12 ramped chamber BBAR runs (gains 10–23; the others
+  // 1.0–7.2 against 7.4); held at δ̂ with its σ carried, a δ̂ of little weight moves little.
+  const p = pooledStartDelay(profiles);
+  return p ? { ...p, marginChi2: 0, kept: p.delayS > 0 && Number.isFinite(p.sigmaS) } : null;
+}
+
 /** Fit points per layer in the start delay's profiling pass (fit/startDelay.ts's profiles use PROFILE_POINTS). */
 const PROFILE_PASS_POINTS = 100;
 
@@ -158,6 +185,10 @@ interface PassTransient {
   delayS: number;
   sigmaS?: number;
   profiles?: StartDelayProfile[];
+  /** Level-cut layers on the exposure clock too (option levelStartTransient). */
+  levelOnClock?: boolean;
+  /** Where to put each chip's profile from its final joint fit (a pass in refit mode; fit/jointStartDelay.ts). */
+  jointProfiles?: StartDelayProfile[];
 }
 
 async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult> {
@@ -180,7 +211,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
   // from the whole layer, which the start-up moves; a level cut's end sits on a slope that reads
   // it directly, and there the delay cost more than it gave (the sample four-layer AR, ramp 1.2 s,
   // refit: δ̂ 1.34 ± 0.46 s from two layers, n·d of layer 2 off by 1.13 % against 0.42 % without).
-  const onClock = (l: number) => design.layers[l - 1]?.monitor.cut === 'turning-point';
+  const onClock = (l: number) => design.layers[l - 1]?.monitor.cut === 'turning-point' || (!!transient.levelOnClock && design.layers[l - 1]?.monitor.cut === 'level');
   const samplesByLayer = transient.delayS > 0 && !byDesign
     ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
@@ -445,6 +476,16 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       const data = chipStates.map((p) => p.make(perLayer));
       const joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss);
       const shared = joint.sharedGain;
+      if (transient.jointProfiles) {
+        // δ profiled in this joint fit, the gain drift refitted at every δ (fit/jointStartDelay.ts)
+        const profile = cg?.fitDrift ? jointStartDelayProfile({
+          layers: data, binsAt: chipStates.map((p) => binsOnExposureClocks(p.samples.tauS, p.samples.indices, trace.signal, perLayer)),
+          onClock: chipStates.map((p) => p.design.monitor.cut === 'level'), start: chipStates.map((p) => p.estimate),
+          offsetSignal: chipStates[0].calibration.offset, sharedGain: cg, robust: o.robustLoss,
+        }) : null;
+        if (profile) transient.jointProfiles.push(profile);
+        continue;
+      }
       // Each growth after a cut read again against the jointly fitted stack (LayerEnds), wanders held at the fit's knots.
       const knotsHeld = data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
       ends?.afterJointFit(knotsHeld, chipStates, chipStates[0].calibration.offset, cg);
@@ -469,6 +510,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
     }
   }
 
+  if (transient.jointProfiles) return null;
   ends?.finish(o.mode === 'refit');
   const belowOf = (s: LayerState) => {
     const chipStates = chipLayers.get(s.samples.chip)!;
