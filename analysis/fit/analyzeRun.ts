@@ -35,7 +35,7 @@ import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wande
 import { exposureTime, onExposureClock } from './startTransient';
 import { pooledStartDelay, PROFILE_POINTS, startDelayProfile, type PooledStartDelay, type StartDelayProfile } from './startDelay';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
-import { jointStartDelayProfile } from './jointStartDelay';
+import { driftAtDelay, jointStartDelayProfile, type JointStartDelayProfile } from './jointStartDelay';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -126,13 +126,17 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
   // Every layer cut on level (option levelStartTransient): δ from each chip's joint fit with the
   // lamp drift fitted under its prior (fit/jointStartDelay.ts), the layers on its clock, and the drift fitted so in refit.
   const level = levelCutsOnly(design, trace, options);
-  const pooled = level ? await findLevelStartDelay(design, trace, options) : await findStartDelay(design, trace, options);
+  const levelFound = level ? await findLevelStartDelay(design, trace, options) : null;
+  const pooled = level ? levelFound : await findStartDelay(design, trace, options);
   if (!pooled?.kept) {
     const plain = await analyzePass(design, trace, options, { delayS: 0 });
     return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled, level ? 'chip' : 'layer')] : plain.warnings };
   }
   // (where kept, the drift is fitted as the profile fitted it: held at δ̂, its estimate takes up the start-up again)
-  const result = await analyzePass(design, trace, level ? { ...options, lampDriftFit: true } : options, { delayS: pooled.delayS, sigmaS: pooled.sigmaS, levelOnClock: level });
+  // (sequential mode holds each chip's drift at the profile's, fit/jointStartDelay.ts driftAtDelay)
+  const result = await analyzePass(design, trace, level ? { ...options, lampDriftFit: true } : options, {
+    delayS: pooled.delayS, sigmaS: pooled.sigmaS, levelOnClock: level, ...(levelFound ? { heldDrifts: levelFound.chipDrifts } : {}),
+  });
   result.warnings.push(startDelayNote(pooled, level ? 'chip' : 'layer'));
   return result;
 }
@@ -166,16 +170,23 @@ function levelCutsOnly(design: Design, trace: TraceData, options: AnalyzeOptions
  * the lamp drift fitted under its prior, each chip's final joint fit profiled in δ with the drift
  * refitted (fit/jointStartDelay.ts), the chips' profiles pooled as startDelay.ts pools layers'.
  */
-export async function findLevelStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<PooledStartDelay | null> {
+export async function findLevelStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<(PooledStartDelay & { chipDrifts: Map<number, HeldDrift> }) | null> {
   if (!trace.layer) return null;
-  const profiles: StartDelayProfile[] = [];
+  const profiles: { chip: number; profile: JointStartDelayProfile }[] = [];
   await analyzeLayers(design, trace, { ...options, mode: 'refit', gain: 'chip', lampDriftFit: true, modelSeries: false, onProgress: undefined }, { delayS: 0, jointProfiles: profiles });
-  // Kept wherever the minimum lies past 0 (no margin): with one chip or few, the χ² gain stays small
-  // whatever δ, and Schwarz's ln N kept 6 of 12 ramped chamber BBAR runs (gains 10–23; the others
-  // 1.0–7.2 against 7.4); held at δ̂ with its σ carried, a δ̂ of little weight moves little.
-  const p = pooledStartDelay(profiles);
-  return p ? { ...p, marginChi2: 0, kept: p.delayS > 0 && Number.isFinite(p.sigmaS) } : null;
+  const p = pooledStartDelay(profiles.map((c) => c.profile));
+  if (!p) return null;
+  const chipDrifts = new Map(profiles.map((c) => [c.chip, driftAtDelay(c.profile, p.delayS, p.sigmaS)]));
+  return { ...p, marginChi2: LEVEL_MARGIN_CHI2, kept: p.delayS > 0 && p.gainChi2 > LEVEL_MARGIN_CHI2 && Number.isFinite(p.sigmaS), chipDrifts };
 }
+
+/**
+ * The χ² gain a level-cut run's delay must clear: 1, δ̂ about 1σ past 0. With one chip or few
+ * the gain stays small whatever δ: Schwarz's ln N (about 7.4) kept 6 of 12 ramped chamber BBAR runs
+ * (gains 10–23; the others 1.0–7.2, their δ̂ 0.6–1.7 s for the 1.5 s ramp); 1 kept all 12, and of
+ * 12 runs without a ramp one (0.71 ± 0.47 s); held at δ̂ with its σ carried.
+ */
+const LEVEL_MARGIN_CHI2 = 1;
 
 /** Fit points per layer in the start delay's profiling pass (fit/startDelay.ts's profiles use PROFILE_POINTS). */
 const PROFILE_PASS_POINTS = 100;
@@ -188,7 +199,15 @@ interface PassTransient {
   /** Level-cut layers on the exposure clock too (option levelStartTransient). */
   levelOnClock?: boolean;
   /** Where to put each chip's profile from its final joint fit (a pass in refit mode; fit/jointStartDelay.ts). */
-  jointProfiles?: StartDelayProfile[];
+  jointProfiles?: { chip: number; profile: JointStartDelayProfile }[];
+  /** Each chip's gain drift to hold (where not fitted) and its σ, in place of the run's (from jointProfiles). */
+  heldDrifts?: Map<number, HeldDrift>;
+}
+
+/** A gain drift held in the fits, per second, and its σ (carried into the layers' σ: fit/gainDriftSigma.ts). */
+interface HeldDrift {
+  perS: number;
+  sigmaPerS: number;
 }
 
 async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient): Promise<AnalysisResult> {
@@ -252,8 +271,9 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
   // Held instead (at the chips' drift when significant, else 0): the RMS error of the held value
   // under γ's prior goes into the layers' σ (fit/gainDriftSigma.ts).
   const heldDriftSigma = driftPrior && !fitLampDrift ? Math.hypot(driftPrior.sigmaPerS, driftPrior.meanPerS - knownDrift) : 0;
+  const heldDrift = (chip: number): HeldDrift => transient.heldDrifts?.get(chip) ?? { perS: knownDrift, sigmaPerS: heldDriftSigma };
   const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, {
-    gain: c.calibration.gain, driftPerS: fitLampDrift ? driftPrior.meanPerS : knownDrift, startS: c.startS,
+    gain: c.calibration.gain, driftPerS: fitLampDrift ? driftPrior.meanPerS : heldDrift(chip).perS, startS: c.startS,
     fitDrift: o.gainDrift || fitLampDrift, ...(fitLampDrift ? { driftPrior: { ...driftPrior } } : {}),
   }]));
   const states: LayerState[] = [];
@@ -306,7 +326,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       return {
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
-        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : knownDrift,
+        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : heldDrift(chip).perS,
         ...(built.wander ? { wander: { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } } : {}),
         ...(built.gradient ? { indexGradient: 'fit' as const } : {}),
       };
@@ -421,8 +441,8 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
       stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held));
       // The gain drift held within the layer: its prior σ into the layer's σ (fit/gainDriftSigma.ts).
       // (σ only: not in the profiling pass, whose fits only build the stack each profile stands on)
-      if (heldDriftSigma > 0 && !transient.profiles) {
-        carryGainDriftSigma(fit, single.layers[0], knownDrift, heldDriftSigma, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
+      if (heldDrift(chip).sigmaPerS > 0 && !transient.profiles) {
+        carryGainDriftSigma(fit, single.layers[0], heldDrift(chip).perS, heldDrift(chip).sigmaPerS, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
       }
       if (transient.sigmaS && !byDesign) {
         const e = single.layers[0];
@@ -483,7 +503,7 @@ async function analyzeLayers(design: Design, trace: TraceData, options: AnalyzeO
           onClock: chipStates.map((p) => p.design.monitor.cut === 'level'), start: chipStates.map((p) => p.estimate),
           offsetSignal: chipStates[0].calibration.offset, sharedGain: cg, robust: o.robustLoss,
         }) : null;
-        if (profile) transient.jointProfiles.push(profile);
+        if (profile) transient.jointProfiles.push({ chip, profile });
         continue;
       }
       // Each growth after a cut read again against the jointly fitted stack (LayerEnds), wanders held at the fit's knots.

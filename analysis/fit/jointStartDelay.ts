@@ -30,14 +30,20 @@ export interface JointStartDelayInput {
   robust?: boolean;
 }
 
+/** A chip's profile, with the gain drift γ fitted at each δ of the grid (per second) and its σ. */
+export interface JointStartDelayProfile extends StartDelayProfile {
+  driftPerS: Float64Array;
+  driftSigmaPerS: Float64Array;
+}
+
 /**
  * The chip's χ²(δ) − χ²(0) on START_DELAY_GRID_S (the objective with the drift's prior row, in
  * units of the δ = 0 fit's residual variance times its residuals' autocorrelation time, as
  * fit/startDelay.ts's layer profiles), ready for pooledStartDelay; null when a fit fails.
  */
-export function jointStartDelayProfile(input: JointStartDelayInput): StartDelayProfile | null {
+export function jointStartDelayProfile(input: JointStartDelayInput): JointStartDelayProfile | null {
   const m = START_DELAY_GRID_S.length;
-  const chi = new Float64Array(m);
+  const chi = new Float64Array(m), driftPerS = new Float64Array(m), driftSigmaPerS = new Float64Array(m);
   let unit = NaN, points = 0;
   let from: LayerEstimate[] = input.start.slice();
   let gain: SharedGain = { ...input.sharedGain, ...(input.sharedGain.driftPrior ? { driftPrior: { ...input.sharedGain.driftPrior } } : {}) };
@@ -62,9 +68,31 @@ export function jointStartDelayProfile(input: JointStartDelayInput): StartDelayP
       if (!(unit > 0)) return null;
     }
     chi[k] = fit.solver.ssr / unit;
+    driftPerS[k] = fit.sharedGain.driftPerS;
+    driftSigmaPerS[k] = fit.sharedGain.driftSigmaPerS;
     from = fit.layers;
     gain = { ...gain, gain: fit.sharedGain.gain, driftPerS: fit.sharedGain.driftPerS };
   }
   for (let k = m - 1; k >= 0; k--) chi[k] -= chi[0];
-  return { chi2: chi, points };
+  return { chi2: chi, points, driftPerS, driftSigmaPerS };
+}
+
+/**
+ * The chip's gain drift at the run's delay δ̂ ± σ_δ, for a fit that holds it (sequential mode):
+ * γ and its σ read linearly between the grid's points about δ̂, the σ widened by γ's change over
+ * ±σ_δ (γ and δ trade off: on the chamber simulator's four-layer AR γ moved about 0.6 %/h per
+ * second of δ), since the fits then hold γ while δ's σ is carried with γ as held.
+ */
+export function driftAtDelay(profile: JointStartDelayProfile, delayS: number, sigmaS: number): { perS: number; sigmaPerS: number } {
+  const grid = START_DELAY_GRID_S;
+  const at = (v: Float64Array, x: number) => {
+    const c = Math.min(Math.max(x, grid[0]), grid[grid.length - 1]);
+    let k = 0;
+    while (k < grid.length - 2 && grid[k + 1] < c) k++;
+    const u = (c - grid[k]) / (grid[k + 1] - grid[k]);
+    return v[k] + u * (v[k + 1] - v[k]);
+  };
+  const perS = at(profile.driftPerS, delayS);
+  const spread = Number.isFinite(sigmaS) ? Math.abs(at(profile.driftPerS, delayS + sigmaS) - at(profile.driftPerS, delayS - sigmaS)) / 2 : Infinity;
+  return { perS, sigmaPerS: Math.hypot(at(profile.driftSigmaPerS, delayS), spread) };
 }

@@ -2,10 +2,10 @@ import { describe, expect, it } from 'vitest';
 import { stackRT, type FilmLayer } from '@/tests/chamber/thinFilm';
 import { gaussian } from '../../trace/__tests__/rng';
 import { fitLayers, type SharedGain } from '../fitLayers';
-import { jointStartDelayProfile } from '../jointStartDelay';
+import { driftAtDelay, jointStartDelayProfile, type JointStartDelayProfile } from '../jointStartDelay';
 import { type FitLayerData } from '../layerModel';
 import { binsOnExposureClocks } from '../profileBins';
-import { pooledStartDelay } from '../startDelay';
+import { pooledStartDelay, START_DELAY_GRID_S } from '../startDelay';
 
 // Two layers cut on level on one chip in transmittance at 520 nm (H 119 nm at 0.25 nm/s, L 91.5 nm
 // at 0.5 nm/s, 10 s apart, on crown glass with its back face), each starting as a raised cosine over
@@ -77,5 +77,22 @@ describe("a chip's start delay profiled in its joint fit, the lamp drift refitte
       expect(none.kept).toBe(false);
       expect(none.delayS).toBeLessThan(3 * none.sigmaS);
     }
+  });
+});
+
+describe('the gain drift a chip holds at the run\'s delay', () => {
+  // γ linear in δ on the grid, 1 − 0.5·δ (×10⁻⁶/s), σ 0.2·10⁻⁶ at every δ.
+  const profile: JointStartDelayProfile = {
+    chi2: new Float64Array(START_DELAY_GRID_S.length), points: 100,
+    driftPerS: Float64Array.from(START_DELAY_GRID_S, (d) => (1 - 0.5 * d) * 1e-6),
+    driftSigmaPerS: Float64Array.from(START_DELAY_GRID_S, () => 0.2e-6),
+  };
+
+  it('reads γ between the grid points at δ̂ and widens its σ by γ\'s change over ±σ_δ', () => {
+    const d = driftAtDelay(profile, 1.2, 0.4);
+    expect(d.perS).toBeCloseTo(0.4e-6, 15);
+    // ½|γ(1.6) − γ(0.8)| = 0.5·0.4 = 0.2 (×10⁻⁶), in quadrature with 0.2.
+    expect(d.sigmaPerS).toBeCloseTo(Math.hypot(0.2e-6, 0.2e-6), 15);
+    expect(driftAtDelay(profile, 1.2, 0).sigmaPerS).toBeCloseTo(0.2e-6, 15);
   });
 });
