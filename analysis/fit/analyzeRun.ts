@@ -35,7 +35,7 @@ import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wande
 import { exposureTime, onExposureClock } from './startTransient';
 import { pooledStartDelay, PROFILE_POINTS, startDelayProfile, type PooledStartDelay, type StartDelayProfile } from './startDelay';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
-import { driftAtDelay, jointStartDelayProfile, type JointStartDelayProfile } from './jointStartDelay';
+import { driftAtDelay, jointStartDelayProfile, pooledLevelDelay, type JointStartDelayProfile } from './jointStartDelay';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -174,19 +174,10 @@ export async function findLevelStartDelay(design: Design, trace: TraceData, opti
   if (!trace.layer) return null;
   const profiles: { chip: number; profile: JointStartDelayProfile }[] = [];
   await analyzeLayers(design, trace, { ...options, mode: 'refit', gain: 'chip', lampDriftFit: true, modelSeries: false, onProgress: undefined }, { delayS: 0, jointProfiles: profiles });
-  const p = pooledStartDelay(profiles.map((c) => c.profile));
+  const p = pooledLevelDelay(profiles.map((c) => c.profile));
   if (!p) return null;
-  const chipDrifts = new Map(profiles.map((c) => [c.chip, driftAtDelay(c.profile, p.delayS, p.sigmaS)]));
-  return { ...p, marginChi2: LEVEL_MARGIN_CHI2, kept: p.delayS > 0 && p.gainChi2 > LEVEL_MARGIN_CHI2 && Number.isFinite(p.sigmaS), chipDrifts };
+  return { ...p, chipDrifts: new Map(profiles.map((c) => [c.chip, driftAtDelay(c.profile, p.delayS, p.sigmaS)])) };
 }
-
-/**
- * The χ² gain a level-cut run's delay must clear: 1, δ̂ about 1σ past 0. With one chip or few
- * the gain stays small whatever δ: Schwarz's ln N (about 7.4) kept 6 of 12 ramped chamber BBAR runs
- * (gains 10–23; the others 1.0–7.2, their δ̂ 0.6–1.7 s for the 1.5 s ramp); 1 kept all 12, and of
- * 12 runs without a ramp one (0.71 ± 0.47 s); held at δ̂ with its σ carried.
- */
-const LEVEL_MARGIN_CHI2 = 1;
 
 /** Fit points per layer in the start delay's profiling pass (fit/startDelay.ts's profiles use PROFILE_POINTS). */
 const PROFILE_PASS_POINTS = 100;

@@ -1,6 +1,6 @@
 import { fitLayers, type LayerEstimate, type SharedGain } from './fitLayers';
 import { type FitLayerData } from './layerModel';
-import { START_DELAY_GRID_S, type StartDelayProfile } from './startDelay';
+import { pooledStartDelay, START_DELAY_GRID_S, type PooledStartDelay, type StartDelayProfile } from './startDelay';
 import { exposureTime } from './startTransient';
 
 /**
@@ -95,4 +95,26 @@ export function driftAtDelay(profile: JointStartDelayProfile, delayS: number, si
   const perS = at(profile.driftPerS, delayS);
   const spread = Number.isFinite(sigmaS) ? Math.abs(at(profile.driftPerS, delayS + sigmaS) - at(profile.driftPerS, delayS - sigmaS)) / 2 : Infinity;
   return { perS, sigmaPerS: Math.hypot(at(profile.driftSigmaPerS, delayS), spread) };
+}
+
+/**
+ * The χ² gain a level-cut run's delay must clear: 1, δ̂ about 1σ past 0. With one chip or few
+ * the gain stays small whatever δ: Schwarz's ln N (about 7.4) kept 6 of 12 ramped chamber BBAR runs
+ * (gains 10–23; the others 1.0–7.2, their δ̂ 0.6–1.7 s for the 1.5 s ramp); 1 kept all 12, and of
+ * 12 runs without a ramp one (0.71 ± 0.47 s). The delay is then held with its σ carried.
+ */
+export const LEVEL_MARGIN_CHI2 = 1;
+
+/**
+ * The chips' profiles pooled as fit/startDelay.ts pools layers', kept past LEVEL_MARGIN_CHI2 and
+ * only where a grid point past 0 lies lower than δ = 0: a profile rising from 0 gets its
+ * parabola's vertex past 0 too when it is not quadratic (the sample four-layer AR without a ramp:
+ * χ² 0, 7.3, 47 at 0, 0.5, 1 s put δ̂ at 0.14 ± 0.12 s, 1.25 lower).
+ */
+export function pooledLevelDelay(profiles: readonly StartDelayProfile[]): PooledStartDelay | null {
+  const p = pooledStartDelay(profiles);
+  if (!p) return null;
+  const total = START_DELAY_GRID_S.map((_, k) => profiles.reduce((a, c) => a + c.chi2[k], 0));
+  const past0 = total.some((v, k) => k > 0 && v < total[0]);
+  return { ...p, marginChi2: LEVEL_MARGIN_CHI2, kept: past0 && p.delayS > 0 && p.gainChi2 > LEVEL_MARGIN_CHI2 && Number.isFinite(p.sigmaS) };
 }

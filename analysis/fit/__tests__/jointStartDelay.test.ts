@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { stackRT, type FilmLayer } from '@/tests/chamber/thinFilm';
 import { gaussian } from '../../trace/__tests__/rng';
 import { fitLayers, type SharedGain } from '../fitLayers';
-import { driftAtDelay, jointStartDelayProfile, type JointStartDelayProfile } from '../jointStartDelay';
+import { driftAtDelay, jointStartDelayProfile, pooledLevelDelay, type JointStartDelayProfile } from '../jointStartDelay';
 import { type FitLayerData } from '../layerModel';
 import { binsOnExposureClocks } from '../profileBins';
 import { pooledStartDelay, START_DELAY_GRID_S } from '../startDelay';
@@ -94,5 +94,28 @@ describe('the gain drift a chip holds at the run\'s delay', () => {
     // ½|γ(1.6) − γ(0.8)| = 0.5·0.4 = 0.2 (×10⁻⁶), in quadrature with 0.2.
     expect(d.sigmaPerS).toBeCloseTo(Math.hypot(0.2e-6, 0.2e-6), 15);
     expect(driftAtDelay(profile, 1.2, 0).sigmaPerS).toBeCloseTo(0.2e-6, 15);
+  });
+});
+
+describe('the delay of a run cut on level, pooled from its chips', () => {
+  const grid = START_DELAY_GRID_S;
+  const parabola = (centre: number, sigma: number) => ({ chi2: Float64Array.from(grid, (d) => ((d - centre) ** 2 - centre ** 2) / sigma ** 2), points: 1600 });
+
+  it('keeps a delay past 1σ of 0 (χ² lower by more than 1), where Schwarz would not', () => {
+    const p = pooledLevelDelay([parabola(1, 0.5)])!;
+    expect(p.delayS).toBeCloseTo(1, 6);
+    expect(p.gainChi2).toBeCloseTo(4, 6);
+    expect(p.kept).toBe(true);
+    expect(pooledStartDelay([parabola(1, 0.5)])!.kept).toBe(false);
+    expect(pooledLevelDelay([parabola(0.4, 0.5)])!.kept).toBe(false);
+  });
+
+  it('keeps none where χ² rises from 0 though the parabola through its first points has its vertex past 0', () => {
+    // The sample four-layer AR without a ramp, as its joint fit profiled it.
+    const rising = { chi2: Float64Array.of(0, 7.3, 47.3, 118.3, 220.3, 355, 524.6), points: 1600 };
+    const plain = pooledStartDelay([rising])!;
+    expect(plain.delayS).toBeGreaterThan(0.1);
+    expect(plain.gainChi2).toBeGreaterThan(1);
+    expect(pooledLevelDelay([rising])!.kept).toBe(false);
   });
 });
