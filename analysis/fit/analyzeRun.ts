@@ -37,7 +37,9 @@ import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wande
 import { onExposureClock } from './startTransient';
 import { pooledStartDelay, type PooledStartDelay, type StartDelayProfile } from './startDelay';
 import { profileFromRequest, startDelayRequest } from './startDelayRequest';
+import { binsOnExposureClocks } from './profileBins';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
+import { driftAtDelay, jointStartDelayProfile, pooledLevelDelay, type JointStartDelayProfile } from './jointStartDelay';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -101,6 +103,7 @@ export const ANALYZE_DEFAULTS = {
   growthFromNext: true,
   holdUncarriedDrift: true,
   startTransient: true,
+  levelStartTransient: false,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -126,13 +129,21 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
   if (!(options.startTransient ?? ANALYZE_DEFAULTS.startTransient)) return analyzePass(design, trace, options, { delayS: 0 });
   const basis = runBasis(design, trace);
-  const pooled = await findStartDelay(design, trace, options, basis);
+  // Every layer cut on level (option levelStartTransient): δ from each chip's joint fit with the
+  // lamp drift fitted under its prior (fit/jointStartDelay.ts), the layers on its clock, and the drift fitted so in refit.
+  const level = levelCutsOnly(design, trace, options);
+  const levelFound = level ? await findLevelStartDelay(design, trace, options, basis) : null;
+  const pooled = level ? levelFound : await findStartDelay(design, trace, options, basis);
   if (!pooled?.kept) {
     const plain = await analyzePass(design, trace, options, { delayS: 0 }, basis);
-    return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled)] : plain.warnings };
+    return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled, level ? 'chip' : 'layer')] : plain.warnings };
   }
-  const result = await analyzePass(design, trace, options, { delayS: pooled.delayS, sigmaS: pooled.sigmaS }, basis);
-  result.warnings.push(startDelayNote(pooled));
+  // (where kept, the drift is fitted as the profile fitted it: held at δ̂, its estimate takes up the start-up again)
+  // (sequential mode holds each chip's drift at the profile's, fit/jointStartDelay.ts driftAtDelay)
+  const result = await analyzePass(design, trace, level ? { ...options, lampDriftFit: true } : options, {
+    delayS: pooled.delayS, sigmaS: pooled.sigmaS, levelOnClock: level, ...(levelFound ? { heldDrifts: levelFound.chipDrifts } : {}),
+  }, basis);
+  result.warnings.push(startDelayNote(pooled, level ? 'chip' : 'layer'));
   return result;
 }
 
@@ -155,6 +166,25 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   return pooledStartDelay((await Promise.all(profiles)).filter((p): p is StartDelayProfile => p !== null));
 }
 
+/** Option levelStartTransient on a run with a layer column whose every layer is cut on level. */
+function levelCutsOnly(design: Design, trace: TraceData, options: AnalyzeOptions): boolean {
+  return (options.levelStartTransient ?? ANALYZE_DEFAULTS.levelStartTransient) && !!trace.layer && design.layers.every((l) => l.monitor.cut === 'level');
+}
+
+/**
+ * The start delay of a run cut on level (option levelStartTransient): a pass in refit mode with
+ * the lamp drift fitted under its prior, each chip's final joint fit profiled in δ with the drift
+ * refitted (fit/jointStartDelay.ts), the chips' profiles pooled as startDelay.ts pools layers'.
+ */
+export async function findLevelStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}, basis = runBasis(design, trace)): Promise<(PooledStartDelay & { chipDrifts: Map<number, HeldDrift> }) | null> {
+  if (!trace.layer) return null;
+  const profiles: { chip: number; profile: JointStartDelayProfile }[] = [];
+  await analyzeLayers(design, trace, { ...options, mode: 'refit', gain: 'chip', lampDriftFit: true, modelSeries: false, onProgress: undefined }, { delayS: 0, jointProfiles: profiles }, basis);
+  const p = pooledLevelDelay(profiles.map((c) => c.profile));
+  if (!p) return null;
+  return { ...p, chipDrifts: new Map(profiles.map((c) => [c.chip, driftAtDelay(c.profile, p.delayS, p.sigmaS)])) };
+}
+
 /** Fit points per layer in the start delay's profiling pass (fit/startDelay.ts's profiles use PROFILE_POINTS). */
 const PROFILE_PASS_POINTS = 100;
 
@@ -163,6 +193,18 @@ interface PassTransient {
   delayS: number;
   sigmaS?: number;
   profiles?: Promise<StartDelayProfile | null>[];
+  /** Level-cut layers on the exposure clock too (option levelStartTransient). */
+  levelOnClock?: boolean;
+  /** Where to put each chip's profile from its final joint fit (a pass in refit mode; fit/jointStartDelay.ts). */
+  jointProfiles?: { chip: number; profile: JointStartDelayProfile }[];
+  /** Each chip's gain drift to hold (where not fitted) and its σ, in place of the run's (from jointProfiles). */
+  heldDrifts?: Map<number, HeldDrift>;
+}
+
+/** A gain drift held in the fits, per second, and its σ (carried into the layers' σ: fit/gainDriftSigma.ts). */
+interface HeldDrift {
+  perS: number;
+  sigmaPerS: number;
 }
 
 async function analyzePass(design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient, basis?: RunBasis): Promise<AnalysisResult> {
@@ -203,7 +245,7 @@ async function analyzeLayers(
   // from the whole layer, which the start-up moves; a level cut's end sits on a slope that reads
   // it directly, and there the delay cost more than it gave (the sample four-layer AR, ramp 1.2 s,
   // refit: δ̂ 1.34 ± 0.46 s from two layers, n·d of layer 2 off by 1.13 % against 0.42 % without).
-  const onClock = (l: number) => design.layers[l - 1]?.monitor.cut === 'turning-point';
+  const onClock = (l: number) => design.layers[l - 1]?.monitor.cut === 'turning-point' || (!!transient.levelOnClock && design.layers[l - 1]?.monitor.cut === 'level');
   const samplesByLayer = transient.delayS > 0 && !byDesign
     ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
@@ -245,8 +287,9 @@ async function analyzeLayers(
   // Held instead (at the chips' drift when significant, else 0): the RMS error of the held value
   // under γ's prior goes into the layers' σ (fit/gainDriftSigma.ts).
   const heldDriftSigma = driftPrior && !fitLampDrift ? Math.hypot(driftPrior.sigmaPerS, driftPrior.meanPerS - knownDrift) : 0;
+  const heldDrift = (chip: number): HeldDrift => transient.heldDrifts?.get(chip) ?? { perS: knownDrift, sigmaPerS: heldDriftSigma };
   const chipGain = new Map([...chipStarts].map(([chip, c]) => [chip, {
-    gain: c.calibration.gain, driftPerS: fitLampDrift ? driftPrior.meanPerS : knownDrift, startS: c.startS,
+    gain: c.calibration.gain, driftPerS: fitLampDrift ? driftPrior.meanPerS : heldDrift(chip).perS, startS: c.startS,
     fitDrift: o.gainDrift || fitLampDrift, ...(fitLampDrift ? { driftPrior: { ...driftPrior } } : {}),
   }]));
   const states: LayerState[] = [];
@@ -302,7 +345,7 @@ async function analyzeLayers(
       return {
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
-        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : knownDrift,
+        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : heldDrift(chip).perS,
         ...(built.wander ? { wander: { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } } : {}),
         ...(built.gradient ? { indexGradient: 'fit' as const } : {}),
       };
@@ -422,8 +465,8 @@ async function analyzeLayers(
       stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held));
       // The gain drift held within the layer: its prior σ into the layer's σ (fit/gainDriftSigma.ts).
       // (σ only: not in the profiling pass, whose fits only build the stack each profile stands on)
-      if (heldDriftSigma > 0 && !transient.profiles) {
-        carryGainDriftSigma(fit, single.layers[0], knownDrift, heldDriftSigma, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
+      if (heldDrift(chip).sigmaPerS > 0 && !transient.profiles) {
+        carryGainDriftSigma(fit, single.layers[0], heldDrift(chip).perS, heldDrift(chip).sigmaPerS, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
       }
       if (transient.sigmaS && !byDesign) {
         const e = single.layers[0];
@@ -484,6 +527,16 @@ async function analyzeLayers(
         joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss, o.holdUncarriedDrift);
       }
       const shared = joint.sharedGain;
+      if (transient.jointProfiles) {
+        // δ profiled in this joint fit, the gain drift refitted at every δ (fit/jointStartDelay.ts)
+        const profile = cg?.fitDrift ? jointStartDelayProfile({
+          layers: data, binsAt: chipStates.map((p) => binsOnExposureClocks(p.samples.tauS, p.samples.indices, trace.signal, perLayer)),
+          onClock: chipStates.map((p) => p.design.monitor.cut === 'level'), start: chipStates.map((p) => p.estimate),
+          offsetSignal: chipStates[0].calibration.offset, sharedGain: cg, robust: o.robustLoss,
+        }) : null;
+        if (profile) transient.jointProfiles.push({ chip, profile });
+        continue;
+      }
       // Each growth after a cut read again against the jointly fitted stack (LayerEnds), wanders held at the fit's knots.
       const knotsHeld = data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
       ends?.afterJointFit(knotsHeld, chipStates, chipStates[0].calibration.offset, cg);
@@ -508,6 +561,7 @@ async function analyzeLayers(
     }
   }
 
+  if (transient.jointProfiles) return null;
   ends?.finish(o.mode === 'refit');
   const belowOf = (s: LayerState) => {
     const chipStates = chipLayers.get(s.samples.chip)!;

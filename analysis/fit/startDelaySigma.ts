@@ -109,9 +109,9 @@ function delayShift(
   return layerChangesFor(data, solver, layout, dy, moved);
 }
 
-/** The run's note on the start transient (a warning line: shared/FORMATS.md fixes no other field). */
-export function startDelayNote(p: PooledStartDelay): string {
+/** The run's note on the start transient (a warning line: shared/FORMATS.md fixes no other field); `over`: what was pooled (layers, or chips' joint fits). */
+export function startDelayNote(p: PooledStartDelay, over: 'layer' | 'chip' = 'layer'): string {
   const found = `start transient: the rate reaches its full value as if the shutter opened ${p.delayS.toFixed(2)} ± ${p.sigmaS.toFixed(2)} s late ` +
-    `(pooled over ${p.layers} layers${p.shutterS !== null ? `, with growth after turning-point cuts of ${p.shutterS.toFixed(2)} s at the full rate` : ''}, χ² lower by ${p.gainChi2.toFixed(1)})`;
+    `(pooled over ${p.layers} ${over === 'chip' ? (p.layers === 1 ? 'chip\'s joint fit' : 'chips\' joint fits') : 'layers'}${p.shutterS !== null ? `, with growth after turning-point cuts of ${p.shutterS.toFixed(2)} s at the full rate` : ''}, χ² lower by ${p.gainChi2.toFixed(1)})`;
   return p.kept ? `${found}; every layer fitted with it` : `${found}: not kept (not above the margin of ${p.marginChi2.toFixed(1)}); layers fitted without it`;
 }
