@@ -45,8 +45,8 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (lamp !== '') settings.lampStabilityPerHour = Number(lamp) / 100;
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
-    for (const key of ['rateWander', 'indexGradient'] as const) if (form.get(key) === 'on') settings[key] = true;
-    for (const key of ['growthFromNext', 'startTransient'] as const) if (form.get(key) !== 'on') settings[key] = false;
+    for (const key of ['rateWander', 'indexGradient', 'levelStartTransient'] as const) if (form.get(key) === 'on') settings[key] = true;
+    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
     if (res.status === 201 && body.analysis) {
@@ -117,6 +117,12 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="startTransient" defaultChecked /> The rate starts up as the shutter opens (one start delay for the run, on layers cut at a turning point)
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="levelStartTransient" /> On a run cut only on level: the start-up too, found with the lamp drift in each chip&apos;s joint fit
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="holdUncarriedDrift" defaultChecked /> In refit, hold a layer&apos;s rate drift at zero where its data do not carry it (white residuals only)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="indexGradient" /> The index may change through layers of 1.5 QWOT or more

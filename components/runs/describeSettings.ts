@@ -13,6 +13,8 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.rateWander === true) parts.push('rate wander within layers');
   if (s.startTransient === true) parts.push("rate's start-up at the shutter");
   if (s.startTransient === false) parts.push('no start-up at the shutter');
+  if (s.levelStartTransient === true) parts.push('start-up on level cuts');
+  if (s.holdUncarriedDrift === false) parts.push('every rate drift free');
   if (s.indexGradient === true) parts.push('index gradient in thick layers');
   if (s.growthFromNext === false) parts.push('growth after turning-point cuts in σ only');
   return parts.join(' · ');

@@ -17,6 +17,8 @@ export const analysisSettingsSchema = z
     thinLayerQwot: z.number().min(0).max(4).optional(),
     rateWander: z.boolean().optional(),
     startTransient: z.boolean().optional(),
+    levelStartTransient: z.boolean().optional(),
+    holdUncarriedDrift: z.boolean().optional(),
     indexGradient: z.boolean().optional(),
     growthFromNext: z.boolean().optional(),
   })

@@ -9,6 +9,9 @@ describe('analysis settings', () => {
       "refit · rate wander within layers · rate's start-up at the shutter · index gradient in thick layers · growth after turning-point cuts in σ only",
     );
     expect(describeSettings({ mode: 'sequential' })).toBe('sequential');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', levelStartTransient: true, holdUncarriedDrift: false }))).toBe(
+      'refit · start-up on level cuts · every rate drift free',
+    );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', startTransient: false }))).toBe('sequential · no start-up at the shutter');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', lampDriftFit: true, lampStabilityPerHour: 0.005 }))).toBe(
       "refit · gain drift fitted under the lamp's stability · lamp stability 0.5 %/h",
