@@ -23,7 +23,7 @@ function chip(onsetS: number, driftPerS: number, seed: number) {
   const g = gaussian(seed);
   const below: FilmLayer[] = [];
   let t0 = 0;
-  return LAYERS.map((L, j) => {
+  return LAYERS.map((L) => {
     const n = Math.round(L.d / L.rate / dt + (onsetS / 2) / dt);
     const tau = Float64Array.from({ length: n }, (_, i) => i * dt);
     const d = (t: number) => (onsetS <= 0 || t >= onsetS ? L.rate * (t - onsetS / 2) : L.rate * (t / 2 - (onsetS / (2 * Math.PI)) * Math.sin((Math.PI * t) / onsetS)));
