@@ -237,7 +237,7 @@ async function analyzeLayers(
 ): Promise<AnalysisResult | null> {
   const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
   const warnings: string[] = trace.warnings.map((w) => w.message);
-  const { byDesign, seg, gathered } = basis;
+  const { byDesign, seg, gathered, idleModel, noiseFloor } = basis;
   for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
   // A start transient puts the fits on the exposure clock (fit/startTransient.ts); not inside
   // boundaries placed on the design's curve, which placed each start where the growth showed.
@@ -250,7 +250,6 @@ async function analyzeLayers(
     ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
-  const idleModel = basis.idleModel;
   const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel);
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
@@ -269,7 +268,6 @@ async function analyzeLayers(
     return [o.maxFitPoints, o.refitPointsPerLayer, 150, finalPointsPerLayer(o, onChip)];
   };
   const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
-  const { noiseFloor } = basis;
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
