@@ -18,11 +18,7 @@ export function onMovedClock(data: FitLayerData, delayS: number, movedS: number)
 
 /** σ² += Δ² for each figure of an estimate, Δ its change with the delay one σ longer. */
 function addShift(e: LayerEstimate, m: LayerEstimate): void {
-  const add = (sigma: number, delta: number) => (Number.isFinite(delta) ? Math.hypot(sigma, delta) : sigma);
-  e.thicknessSigmaNm = add(e.thicknessSigmaNm, m.thicknessNm - e.thicknessNm);
-  e.opticalThicknessSigmaNm = add(e.opticalThicknessSigmaNm, m.opticalThicknessNm - e.opticalThicknessNm);
-  e.indexSigma = add(e.indexSigma, m.index - e.index);
-  e.rateSigma = add(e.rateSigma, m.rateNmPerS - e.rateNmPerS);
+  addChange(e, { thicknessNm: m.thicknessNm - e.thicknessNm, opticalThicknessNm: m.opticalThicknessNm - e.opticalThicknessNm, index: m.index - e.index, rateNmPerS: m.rateNmPerS - e.rateNmPerS });
 }
 
 /**
