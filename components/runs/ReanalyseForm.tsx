@@ -122,7 +122,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <input type="checkbox" name="levelStartTransient" /> On a run cut only on level: the start-up too, found with the lamp drift in each chip&apos;s joint fit
           </label>
           <label className="flex items-center gap-2">
-            <input type="checkbox" name="holdUncarriedDrift" defaultChecked /> In refit, hold a layer&apos;s rate drift at zero where its data do not carry it (white residuals only)
+            <input type="checkbox" name="holdUncarriedDrift" defaultChecked /> In the joint re-fit, hold a layer&apos;s rate drift at zero where its data do not carry it (white residuals only)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="indexGradient" /> The index may change through layers of 1.5 QWOT or more
