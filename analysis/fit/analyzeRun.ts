@@ -12,6 +12,7 @@ import { idleNoiseModel } from './idleNoiseModel';
 import { LayerEnds } from './layerEnds';
 import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
+import { holdsLevelCutGain } from './levelCutGain';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
 import { DEFAULT_LAMP_STABILITY_PER_HOUR, gainDriftPrior } from './gainDriftPrior';
@@ -94,6 +95,7 @@ export const ANALYZE_DEFAULTS = {
   lampDriftFit: false,
   fitOffset: true,
   gainPriorFraction: 0.005,
+  levelCutGain: 'calibration',
   thinLayerQwot: 0.9,
   heldIndexSigma: 0.05,
   heldIndexCorrelation: 0.99,
@@ -335,6 +337,10 @@ async function analyzeLayers(
     const { observed, binned: binnedElsewhere, ...spectrum }: LayerSpectrum & Partial<SampleWorkResult> = spectra ? await spectra.get(dl.layer)!
       : transient.profiles && qwotAtMonitor < PROFILE_PASS_SPECTRUM_QWOT ? { fringeFrequencyHz: null, fringeRateNmPerS: null, disturbances: [] }
       : layerSpectrum(samples.tauS, pick(trace.signal, samples.indices), wl, heldIndex ?? nominal.re);
+    // A level cut's gain from the bare chip where that tells it well (fit/levelCutGain.ts); not
+    // inside boundaries placed on the design's curve (no layer column), whose misplacement a
+    // layer's own gain takes up (the AR without a layer column, 6 seeds: 1.32 % held, 0.61 % free).
+    const levelGain = o.gain === 'per-layer' && o.levelCutGain === 'calibration' && !byDesign && holdsLevelCutGain(dl.monitor.cut, calibration, o.gainPriorFraction);
     // make() is called again after the pass (final refit), when the layer's state exists.
     const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean } = {};
     const make = (maxPoints: number): FitLayerData => {
@@ -343,7 +349,7 @@ async function analyzeLayers(
       return {
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
-        heldGain: o.gain === 'chip' ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : heldDrift(chip).perS,
+        heldGain: o.gain === 'chip' || levelGain ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : heldDrift(chip).perS,
         ...(built.wander ? { wander: { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } } : {}),
         ...(built.gradient ? { indexGradient: 'fit' as const } : {}),
       };

@@ -73,6 +73,13 @@ export interface AnalyzeOptions {
    */
   gainPriorFraction?: number;
   /**
+   * Gain mode 'per-layer': a layer cut on level takes the chip's calibrated gain (held, with the
+   * held drift, its σ carried as in gain mode 'chip') where the bare chip tells the gain five
+   * times better than gainPriorFraction (fit/levelCutGain.ts); 'free' gives it a gain of its own
+   * as any other layer. @default 'calibration'
+   */
+  levelCutGain?: 'calibration' | 'free';
+  /**
    * Layers below this many quarter-waves at the monitor wavelength get a free trial fit, and
    * their index is held when that fit cannot separate it from the thickness (heldIndexCorrelation,
    * heldIndexSigma). @default 0.9
