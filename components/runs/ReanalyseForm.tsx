@@ -45,6 +45,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (lamp !== '') settings.lampStabilityPerHour = Number(lamp) / 100;
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
+    if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     for (const key of ['rateWander', 'indexGradient', 'levelStartTransient'] as const) if (form.get(key) === 'on') settings[key] = true;
     for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
@@ -82,8 +83,8 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft">
-          <label htmlFor="re-thin">Hold the index below (QWOT; 0 leaves every index free)</label>
-          <input id="re-thin" name="thinLayerQwot" type="number" min="0" max="4" step="0.05" placeholder="0.5 (default)" className={select} />
+          <label htmlFor="re-thin">Below this many QWOT a trial fit decides whether to hold the index (0: every index free)</label>
+          <input id="re-thin" name="thinLayerQwot" type="number" min="0" max="4" step="0.05" placeholder="0.9 (default)" className={select} />
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
           <label htmlFor="re-drift">Gain drift within a chip (lamp, detector)</label>
@@ -103,6 +104,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="fitOffset" defaultChecked /> Fit the detector offset (stray light) where a chip has no dark reading
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="levelCutGain" defaultChecked /> Layer by layer, a layer cut on level keeps its chip&apos;s calibrated gain where the bare chip read it well (unchecked: a gain of its own)
           </label>
         </div>
         <fieldset className="flex flex-col gap-1 text-sm sm:col-span-2 lg:col-span-4" data-testid="reanalyse-effects">

@@ -3,6 +3,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   const parts = [String(s.mode ?? '')];
   if (s.gain === 'chip') parts.push('one gain per chip');
   if (s.gain === 'per-layer') parts.push('gain per layer');
+  if (s.levelCutGain === 'free') parts.push('own gain on level-cut layers');
   if (s.gainDrift === true) parts.push('gain drift fitted');
   if (s.lampDriftFit === true) parts.push("gain drift fitted under the lamp's stability");
   if (typeof s.lampStabilityPerHour === 'number') parts.push(`lamp stability ${+(s.lampStabilityPerHour * 100).toFixed(3)} %/h`);

@@ -8,6 +8,7 @@ export const analysisSettingsSchema = z
   .object({
     mode: z.enum(['sequential', 'refit']),
     gain: z.enum(['per-layer', 'chip']).optional(),
+    levelCutGain: z.enum(['calibration', 'free']).optional(),
     gainDrift: z.boolean().optional(),
     lampStabilityPerHour: z.number().min(0).max(0.2).optional(),
     lampDriftFit: z.boolean().optional(),

@@ -13,6 +13,7 @@ describe('analysis settings', () => {
       'refit · start-up on level cuts · every rate drift free',
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', startTransient: false }))).toBe('sequential · no start-up at the shutter');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', levelCutGain: 'free' }))).toBe('sequential · own gain on level-cut layers');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', lampDriftFit: true, lampStabilityPerHour: 0.005 }))).toBe(
       "refit · gain drift fitted under the lamp's stability · lamp stability 0.5 %/h",
     );
@@ -21,6 +22,7 @@ describe('analysis settings', () => {
   it('refuses an option the fit does not know, and a wrong type', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', rampModel: true }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', startTransient: 'yes' }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'sequential', levelCutGain: 'fitted' }).success).toBe(false);
     // a lamp "stability" of 50 %/h is a typing slip (per cent entered as a fraction's worth)
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', lampStabilityPerHour: 0.5 }).success).toBe(false);
   });

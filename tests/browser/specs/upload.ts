@@ -126,12 +126,13 @@ test('an admin (as an engineer may) queues a re-analysis with other settings; it
   await form.getByLabel('The rate starts up as the shutter opens', { exact: false }).uncheck();
   // a run cut only on level: its own start-up search (with the lamp drift) runs end to end
   await form.getByLabel('On a run cut only on level', { exact: false }).check();
+  await form.getByLabel('a layer cut on level keeps its chip', { exact: false }).uncheck();
   await form.getByRole('button', { name: 'Queue the analysis' }).click();
   await page.waitForFunction((n) => document.querySelectorAll('[data-testid="analysis-history"] li').length === n + 1, before, { timeout: 15000 });
   await page.getByRole('status').filter({ hasText: /finished/ }).waitFor({ timeout: 90000 });
   const newest = history.first();
   const listed = (await newest.textContent()) ?? '';
-  assert(listed.includes('thin layers held at the nominal index') && listed.includes('no start-up at the shutter') && listed.includes('start-up on level cuts'), `the new analysis lists its settings: ${listed}`);
+  assert(listed.includes('thin layers held at the nominal index') && listed.includes('no start-up at the shutter') && listed.includes('start-up on level cuts') && listed.includes('own gain on level-cut layers'), `the new analysis lists its settings: ${listed}`);
   await shot(page, 'run-reanalysed');
   await page.setViewportSize({ width: 390, height: 844 });
   await page.goto(`${baseUrl}/runs?chamber=Bay%202%20IAD`);
