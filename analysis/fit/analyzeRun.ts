@@ -609,7 +609,10 @@ export function refitChip(
   }
   if (chipGain && joint.sharedGain) {
     chipGain.gain = joint.sharedGain.gain;
-    chipGain.driftPerS = joint.sharedGain.driftPerS;
+    // A drift the fit held (not fitted: the known drift, applied through each layer's gainDriftPerS)
+    // stays as it was: the joint result reports 0 for it, and the pass's next layers take their
+    // held gain G·(1 + γ·t) from here.
+    if (chipGain.fitDrift) chipGain.driftPerS = joint.sharedGain.driftPerS;
     if (chipGain.driftPrior && joint.sharedGain.priorWeight !== undefined) chipGain.driftPrior.weight = joint.sharedGain.priorWeight;
   }
   chipStates.forEach((s, j) => {

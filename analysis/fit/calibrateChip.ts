@@ -152,5 +152,22 @@ function darkLevels(idle: Float64Array, levels: readonly Level[], sigma: number,
   const fine = levelSteps(idle.subarray(from, to), { sigma, minLength: 3 });
   let bottom: Level | null = null;
   for (const l of fine) if (l.end - l.start >= 3 && (!bottom || l.mean < bottom.mean)) bottom = l;
-  return bottom ? [{ start: from + bottom.start, end: from + bottom.end, mean: bottom.mean }] : [];
+  return bottom ? [flatBottom(idle, from + bottom.start, from + bottom.end, sigma)] : [];
+}
+
+/**
+ * The flat part of a dip's bottom level [a, b): binary segmentation splits greedily and keeps
+ * every level ≥ 3 samples, so a sample of a sloping side can stay in the bottom when the flat
+ * bottom is short (the holder's dark moment, 4–6 samples at 10 Hz: chamber mirror, seed 28,
+ * bottom [0.104, 0.003, 0.003, 0.003] read as a dark level 0.028 for a true 0.003). Samples at
+ * its ends more than 5σ from its median are left out, keeping at least two.
+ */
+export function flatBottom(y: ArrayLike<number>, a: number, b: number, sigma: number): Level {
+  const mid = median(Float64Array.from({ length: b - a }, (_, i) => y[a + i]));
+  const off = (i: number) => Math.abs(y[i] - mid) > 5 * sigma;
+  while (b - a > 2 && off(a)) a++;
+  while (b - a > 2 && off(b - 1)) b--;
+  let sum = 0;
+  for (let i = a; i < b; i++) sum += y[i];
+  return { start: a, end: b, mean: sum / (b - a) };
 }

@@ -27,6 +27,18 @@ describe('calibrateChip reads the idle stretch as levels', () => {
     expect(c.offsetSigma).toBeGreaterThan(0);
   });
 
+  it('a dark moment of 5 samples with sloping sides (the holder turning, 10 Hz): the offset from its flat bottom, not a side\'s sample', () => {
+    // In transmittance: the old mirror chip at 0.306, down over 3 samples, 5 at the stray light
+    // only, up over 3 to the bare chip at 0.932 (the chamber simulator's chip change, seed 28, chip 2).
+    const T_OLD = 0.306, T_BARE = 0.932, STRAY = 0.003;
+    const y = idle([[T_OLD, 52], [0.205, 1], [0.104, 1], [STRAY, 5], [0.313, 1], [0.623, 1], [T_BARE, 200]], 0.0003, 15);
+    const c = calibrateChip({ chip: 2, idleSignal: y, firstLayerSignal: [], modelledBare: 0.932, knownOffset: STRAY, previousChipLevel: T_OLD });
+    expect(c.offsetSource).toBe('dark');
+    expect(Math.abs(c.offset - STRAY)).toBeLessThan(0.001);
+    expect(c.darkSamples).toBeGreaterThanOrEqual(2);
+    expect(c.darkSamples).toBeLessThanOrEqual(5);
+  });
+
   it('without a dark transient, does not take the old chip\'s low level for dark (it is next to the expected previous-chip reading)', () => {
     const old = GAIN * 0.006 + OFFSET;
     const y = idle([[old, 80], [bare, 120]], 0.0003, 12);
