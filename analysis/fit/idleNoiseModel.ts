@@ -1,4 +1,4 @@
-import { addToLongVariogram, fitLongVariogram, newLongVariogram, type Ar1PlusWhite } from '../stats';
+import { addToLongVariogram, fitLongVariogram, newLongVariogram, whitenAr1PlusWhite, type Ar1PlusWhite } from '../stats';
 import { levelSteps, type TraceData } from '../trace';
 import { hampelFilter } from '../trace/hampelFilter';
 import { medianInPlace } from '../trace/robustStats';
@@ -43,21 +43,23 @@ export function idleNoiseModel(trace: TraceData, idle: readonly { startIndex: nu
   // a chip's or the lamp's, is far beyond it).
   // Spikes out once, before the steps are sought (a spike is no level either).
   const stretches = idle.filter((s) => s.endIndex - s.startIndex >= MIN_STEP_SAMPLES).map((s) => hampelFilter(trace.signal.subarray(s.startIndex, s.endIndex)));
-  let model = pooledModel(stretches, undefined);
-  for (let pass = 0; pass < PASSES && model; pass++) {
-    const next = pooledModel(stretches, model.longRunSigma);
-    if (!next) break;
-    const settled = Math.abs(next.longRunSigma / model.longRunSigma - 1) < 0.05;
-    model = next;
+  let pooled = pooledModel(stretches, undefined);
+  for (let pass = 0; pass < PASSES && pooled.fit; pass++) {
+    const next = pooledModel(stretches, pooled.fit.longRunSigma);
+    if (!next.fit) break;
+    const settled = Math.abs(next.fit.longRunSigma / pooled.fit.longRunSigma - 1) < 0.05;
+    pooled = next;
     if (settled) break;
   }
-  return model;
+  const { fit, steps } = pooled;
+  return fit && fit.ar1Var > 0 ? keptIfTold(fit, steps) : fit;
 }
 
 /** More passes of the step search with the pooled long-run σ (see idleNoiseModel). */
 const PASSES = 3;
 
-function pooledModel(stretches: readonly Float64Array[], sigma: number | undefined): Ar1PlusWhite | null {
+/** The steps' pooled variogram fit, and the steps it read. */
+function pooledModel(stretches: readonly Float64Array[], sigma: number | undefined): { fit: Ar1PlusWhite | null; steps: Float64Array[] } {
   const steps: Float64Array[] = [];
   let read = 0;
   reading: for (const part of stretches) {
@@ -71,16 +73,61 @@ function pooledModel(stretches: readonly Float64Array[], sigma: number | undefin
       if (read >= MAX_SAMPLES || steps.length >= MAX_STEPS) break reading;
     }
   }
-  if (steps.length === 0) return null;
+  if (steps.length === 0) return { fit: null, steps };
   const rough = steps.map(meanSquaredDifference);
   const typical = medianInPlace(Float64Array.from(rough));
-  return fitPool(steps.filter((_, j) => !(rough[j] > ROUGH_FACTOR * typical)));
+  const kept = steps.filter((_, j) => !(rough[j] > ROUGH_FACTOR * typical));
+  return { fit: fitPool(kept), steps: kept };
 }
 
 function fitPool(steps: readonly Float64Array[]): Ar1PlusWhite | null {
   const pool = newLongVariogram(MAX_LAG);
   for (const y of steps) addToLongVariogram(y, pool);
   return fitLongVariogram(pool);
+}
+
+/**
+ * The AR(1) part only where the steps tell it: the Gaussian log-likelihood of every step about its
+ * mean under the fitted white + AR(1) noise (the Kalman innovations, stats/whitenAr1PlusWhite)
+ * against white noise of the same variance must gain more than χ²₂'s 0.1 % point, 13.8/2
+ * (Wilks' likelihood-ratio test; from memory; both models at the variogram's values, not at their
+ * own maxima, so the test is approximate). The variogram's long lags rest on the few long steps;
+ * their scatter alone reads as a slow part in white noise (σ_x 3–4e-4, τ 2–8 s from 0.1 % white
+ * noise on the synthetic mirror), which the layer-start check's level floors (meanVariance) and
+ * anything reading the model's correlation would take for a real one.
+ */
+function keptIfTold(fit: Ar1PlusWhite, steps: readonly Float64Array[]): Ar1PlusWhite {
+  const total = fit.whiteVar + fit.ar1Var;
+  let gain = 0;
+  for (const y of steps) {
+    let mean = 0;
+    for (let i = 0; i < y.length; i++) mean += y[i];
+    mean /= y.length;
+    const e = Float64Array.from(y, (v) => v - mean);
+    let white = 0;
+    for (let i = 0; i < e.length; i++) white += (e[i] * e[i]) / total;
+    const w = Float64Array.from(e);
+    whitenAr1PlusWhite(fit, [w]);
+    // −2·log L = Σ v_i²/F_i + Σ log F_i: the standardised innovations' squares, and the log-variances
+    let ar = 0;
+    for (let i = 0; i < w.length; i++) ar += w[i] * w[i];
+    gain += (white - ar) / 2 + logDetGain(fit, e.length);
+  }
+  return gain > 13.8 / 2 ? fit : { whiteVar: total, ar1Var: 0, rho: 0, longRunSigma: Math.sqrt(total) };
+}
+
+/** ½·[n·log(σ_w² + σ_x²) − Σ log F_i]: the log-determinant part of the likelihood gain, F_i the Kalman innovations' variances (as in whitenAr1PlusWhite). */
+function logDetGain(noise: Ar1PlusWhite, n: number): number {
+  const { whiteVar: R, ar1Var, rho } = noise;
+  const q = ar1Var * (1 - rho * rho);
+  let P = ar1Var, s = 0;
+  for (let i = 0; i < n; i++) {
+    const Pm = i === 0 ? P : rho * rho * P + q;
+    const F = Pm + R;
+    s += Math.log(F);
+    P = F > 0 ? (R * Pm) / F : 0;
+  }
+  return (n * Math.log(R + ar1Var) - s) / 2;
 }
 
 function meanSquaredDifference(y: Float64Array): number {
