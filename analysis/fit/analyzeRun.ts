@@ -8,7 +8,7 @@ import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
 import { fitLayers, GRADIENT_BOUND, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
 import { assertEveryLayerSampled } from './everyLayerSampled';
 import { gatherLayerSamples, type LayerSamples } from './layerSamples';
-import { idleNoiseModel } from './idleNoiseModel';
+import { gapsBetween, idleNoiseModel } from './idleNoiseModel';
 import { LayerEnds } from './layerEnds';
 import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOptics } from './layerModel';
 import { layerResult } from './layerResult';
@@ -229,7 +229,9 @@ function runBasis(design: Design, trace: TraceData): RunBasis {
   const layerSegments = byDesign ? levelCutEnds(trace, design, placeBoundaries(trace, design, byDesign.layers, byDesign.windows), byDesign.gain) : seg.layers;
   return {
     byDesign, seg, gathered: gatherLayerSamples(trace, layerSegments),
-    idleModel: idleNoiseModel(trace, seg.idle), noiseFloor: idleNoise(trace, seg.idle),
+    // The design's windows around each pause hold the slow ends of the layers beside it, which the
+    // noise model's long lags would read as noise: there, the gaps between the placed layers.
+    idleModel: idleNoiseModel(trace, byDesign ? gapsBetween(layerSegments) : seg.idle), noiseFloor: idleNoise(trace, seg.idle),
   };
 }
 

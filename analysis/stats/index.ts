@@ -7,3 +7,4 @@ export * from './individualsChart';
 export * from './runRules';
 export * from './newestPointRules';
 export * from './correlatedNoise';
+export * from './longVariogram';

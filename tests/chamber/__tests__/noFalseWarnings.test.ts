@@ -22,9 +22,13 @@ describe('warnings on a clean trace with correlated noise', () => {
       expect(layers).toHaveLength(6);
       const noisy = layers.flatMap((l) => l.warnings.filter((w) => /residuals|periodic disturbance/.test(w)).map((w) => `layer ${l.layer}: ${w}`));
       expect(noisy).toEqual([]);
-      // the residuals are the noise itself, near 1× the reference (the variogram's short lags read
-      // the 1 s correlation a little short, so up to about 1.4×)
-      for (const l of layers) expect(l.residualToNoise).toBeLessThan(1.45);
+      // the residuals are the noise itself, near 1× the reference: 0.82–1.16 on seeds 31–34 with the
+      // idle noise read at every lag (1.03–1.37 while its variogram reached 40 lags, 0.8 s here,
+      // and read the 1 s correlation short)
+      for (const l of layers) {
+        expect(l.residualToNoise).toBeLessThan(1.25);
+        expect(l.residualToNoise).toBeGreaterThan(0.75);
+      }
     });
   }
 });
