@@ -101,7 +101,7 @@ export const SAMPLES: Sample[] = [
 export const HELD_BACK: Record<string, { off: ChamberOptions; reason: string }> = {
   'bay1-ar1-run0412.csv': {
     off: { correlatedNoise: undefined },
-    reason: 'issue 7 item 4: with correlated noise the analysis underestimates the noise (residuals 1.8× it) and the 1.5 %-swing MgF2 layer comes out 1.1 % thick, cut error 1.2 % QWOT off (within its σ of 2.7 %, but beyond 0.5 % / 0.7 % QWOT)',
+    reason: 'issue 7 item 4: with correlated noise the 1.5 %-swing MgF2 layer comes out 1.1 % thick, cut error 1.2 % QWOT off (0.4σ: within its σ, beyond 0.5 % / 0.7 % QWOT), and its residuals read 1.8× the noise (the rate wanders within the one long layer), so the clean demo run would carry a warning',
   },
   'bay1-ar1-run0413-overshoot.csv': {
     off: { correlatedNoise: undefined },
@@ -109,11 +109,7 @@ export const HELD_BACK: Record<string, { off: ChamberOptions; reason: string }> 
   },
   'bay2-bb4-run0587.csv': {
     off: { lampDriftPerHour: 0, rampS: 0, correlatedNoise: undefined },
-    reason: 'refit, each alone: lamp drift within one chip gives 1.3–1.5 % thickness and 0.014 index (5σ) off; the rate ramp 0.7–0.8 % and cut error 1.2 % QWOT; correlated noise 0.5–0.6 % and 0.6–0.9 % QWOT, but 3.6–3.8 % in sequential and a false layer-start step warning; the shutter delay and level-cut reaction time are read (0.34 %, 0.0015, 0.54 % QWOT)',
-  },
-  'bay2-bb4-run0588-nolayer.csv': {
-    off: { correlatedNoise: undefined },
-    reason: 'issue 7 items 4–5: with correlated noise the inferred layer ends move: 5.3 % thickness, 0.025 index off in refit (15 % sequential), residuals up to 8× the noise',
+    reason: 'refit, each alone: lamp drift within one chip gives 1.45 % thickness, 0.014 index and 1.2 % QWOT cut error off; the rate ramp 0.73 % and 1.2 % QWOT; correlated noise 0.45 % and 0.62 % QWOT, but in sequential a "residuals 1.9×" warning on layer 3, which would flag the clean demo run; all three: 1.3 %, 0.016 and 2.0 % QWOT in refit; the shutter delay and level-cut reaction time are read (0.34 %, 0.0015, 0.54 % QWOT)',
   },
 };
 
