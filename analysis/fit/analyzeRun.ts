@@ -35,6 +35,7 @@ import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } 
 import { binMeans } from './subsample';
 import { type RateWander } from './rateWander';
 import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wanderChoice';
+import { addWanderVariance, wanderErrorVariances, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
 import { pooledStartDelay, type PooledStartDelay, type StartDelayProfile } from './startDelay';
 import { profileFromRequest, startDelayRequest } from './startDelayRequest';
@@ -67,6 +68,10 @@ export interface LayerState {
   heldIndexSigma?: number;
   /** Variance of the wander's share of the end thickness, nm², from the layer's own fit (joint fits hold the wander). */
   wanderVarianceNm2?: number;
+  /** The wander the plain law does not follow, carried into σ only (option wanderSigma). */
+  unmodelledWander?: RateWander;
+  /** Its cost to the sequential fit's figures, added to σ after the pass. */
+  unmodelledVariance?: WanderErrorVariance;
   calibration: ChipCalibration;
   /** Design optical thickness in quarter-waves at the monitor wavelength. */
   qwotAtMonitor: number;
@@ -101,6 +106,7 @@ export const ANALYZE_DEFAULTS = {
   heldIndexCorrelation: 0.99,
   robustLoss: false,
   rateWander: false,
+  wanderSigma: true,
   indexGradient: false,
   growthFromNext: true,
   holdUncarriedDrift: true,
@@ -344,7 +350,7 @@ async function analyzeLayers(
     // layer's own gain takes up (the AR without a layer column, 6 seeds: 1.32 % held, 0.61 % free).
     const levelGain = o.gain === 'per-layer' && o.levelCutGain === 'calibration' && !byDesign && holdsLevelCutGain(dl.monitor.cut, calibration, o.gainPriorFraction);
     // make() is called again after the pass (final refit), when the layer's state exists.
-    const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean } = {};
+    const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean; unmodelled?: RateWander; unmodelledVariance?: WanderErrorVariance } = {};
     const make = (maxPoints: number): FitLayerData => {
       // Bin means, not picked samples: every sample's information at a fraction of the points.
       const binned = binnedElsewhere?.find((b) => b.points === maxPoints) ?? binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
@@ -444,7 +450,8 @@ async function analyzeLayers(
     // Not inside boundaries placed on the design's curve (no layer column): those were placed with a
     // steady rate, and the knots then take up the placement's error (measured on the no-layer
     // scenarios: 1.1 → 1.9 % sequential).
-    if (o.rateWander && !byDesign && !separation?.hold && fit.fitDrift && dl.monitor.cut === 'turning-point') {
+    const wanderAsked = o.rateWander || (o.wanderSigma && !transient.profiles);
+    if (wanderAsked && !byDesign && !separation?.hold && fit.fitDrift && dl.monitor.cut === 'turning-point') {
       // A rate that wanders within the layer: more freedom where the data ask for it (fit/wanderChoice.ts).
       // Turning-point cuts only: there the end thickness is the rate extrapolated over the flat top,
       // which a wander moves; a level cut's end sits on a slope that reads it directly, and there
@@ -456,7 +463,8 @@ async function analyzeLayers(
         ...(stacks.has(chip) ? { stack: ends ? ends.stackWithGrowth(chip, stacks.get(chip)!) : stacks.get(chip)! } : {}),
         growthFromHere: o.growthFromNext && !!ends && below.length > 0,
       });
-      if (choice.wander) {
+      if (choice.wander && !o.rateWander) built.unmodelled = choice.wander;
+      else if (choice.wander) {
         built.wander = choice.wander;
         const pointSigma = (count: number) => choice.wander!.pointSigma * Math.sqrt(count / n);
         fit.wander = { ...choice.wander, pointSigma: pointSigma(fit.tauS.length) };
@@ -474,6 +482,9 @@ async function analyzeLayers(
       if (heldDrift(chip).sigmaPerS > 0 && !transient.profiles) {
         carryGainDriftSigma(fit, single.layers[0], heldDrift(chip).perS, heldDrift(chip).sigmaPerS, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
       }
+      // A wander the plain law does not follow: its cost, added to σ once the pass is done
+      // (fit/wanderSigma.ts; the pass weighs later readings by the layers' σ as they stand).
+      if (built.unmodelled) built.unmodelledVariance = wanderErrorVariances(below, [fit], single, calibration.offset, [built.unmodelled], null)?.[0];
       if (transient.sigmaS && !byDesign) {
         const e = single.layers[0];
         carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, [(samples.startDelayS ?? 0) > 0], ([moved]) => fitLayers({
@@ -491,6 +502,8 @@ async function analyzeLayers(
       converged: single.solver.converged, wellDetermined: single.solver.wellDetermined, heldNote, calibration, spectrum, ...(observed ? { observed } : {}),
       ...(separation?.hold ? { heldWhy: separation.reason, heldIndexSigma: heldSigma } : {}),
       ...(built.wanderVariance !== undefined ? { wanderVarianceNm2: built.wanderVariance } : {}),
+      ...(built.unmodelled ? { unmodelledWander: built.unmodelled } : {}),
+      ...(built.unmodelledVariance ? { unmodelledVariance: built.unmodelledVariance } : {}),
       ...(gradientTrial ? { gradientTrial } : {}),
     };
     built.state = state;
@@ -551,6 +564,11 @@ async function analyzeLayers(
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
       carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss, joint);
+      if (chipStates.some((p) => p.unmodelledWander)) {
+        // each layer's unmodelled wander, through the chip's final joint fit (fit/wanderSigma.ts)
+        const v = wanderErrorVariances([], data, joint, cal.offset, chipStates.map((p) => p.unmodelledWander ?? null), cg);
+        v?.forEach((x, j) => addWanderVariance(chipStates[j].estimate, x));
+      }
       if (transient.sigmaS && !byDesign) {
         // to the ends the growths after the cuts put on the layers (LayerEnds), as their estimates now stand
         const ended = data.map((d, j) => ({ ...d, durationS: chipStates[j].fit.durationS }));
@@ -569,6 +587,7 @@ async function analyzeLayers(
 
   if (transient.jointProfiles) return null;
   ends?.finish(o.mode === 'refit');
+  if (o.mode === 'sequential') for (const s of states) if (s.unmodelledVariance) addWanderVariance(s.estimate, s.unmodelledVariance);
   const belowOf = (s: LayerState) => {
     const chipStates = chipLayers.get(s.samples.chip)!;
     return chipStates.slice(0, chipStates.indexOf(s)).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));

@@ -1,5 +1,5 @@
 import { invertSymmetric } from './invertSymmetric';
-import { choleskySolve, huberFit, levenbergMarquardt, normalEquations, type SolverResult, type StopReason } from './solver';
+import { choleskyScaled, huberFit, levenbergMarquardt, normalEquations, solveScaled, type SolverResult, type StopReason } from './solver';
 
 /** A nonlinear least-squares problem in physical parameters p. */
 export interface LeastSquaresProblem {
@@ -136,11 +136,26 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
   const weights = result.weights ?? null;
   const { covariance, sigma, ok } = covarianceFrom(result.jac, residuals, weights, n, np, unit, problem.columnRows);
   const jac = result.jac;
+  // The normal matrix and its factor once, on the first call; each call then forms Jᵀ·W·dy only
+  // (fit/wanderSigma.ts takes one step per wander knot).
+  let factor: ReturnType<typeof choleskyScaled> | undefined;
   const shiftFor = (deltaY: ArrayLike<number>): Float64Array | null => {
-    const a = new Float64Array(np * np), g = new Float64Array(np);
-    normalEquations(jac, Float64Array.from(deltaY), weights ?? undefined, n, np, problem.columnRows, a, g);
-    const du = choleskySolve(a, g, np);
-    if (!du) return null;
+    const dy = Float64Array.from(deltaY), g = new Float64Array(np);
+    if (factor === undefined) {
+      const a = new Float64Array(np * np);
+      normalEquations(jac, dy, weights ?? undefined, n, np, problem.columnRows, a, g);
+      factor = choleskyScaled(a, np);
+    } else {
+      for (let j = 0; j < np; j++) {
+        const o = j * n, lo = problem.columnRows ? problem.columnRows.start[j] : 0, hi = problem.columnRows ? problem.columnRows.end[j] : n;
+        let s = 0;
+        if (weights) for (let k = lo; k < hi; k++) s += jac[o + k] * weights[k] * dy[k];
+        else for (let k = lo; k < hi; k++) s += jac[o + k] * dy[k];
+        g[j] = s;
+      }
+    }
+    if (!factor) return null;
+    const du = solveScaled(factor, g, np);
     for (let j = 0; j < np; j++) du[j] *= unit[j];
     return du;
   };

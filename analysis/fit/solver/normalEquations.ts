@@ -57,7 +57,11 @@ export function choleskyScaled(a: ArrayLike<number>, p: number): { l: Float64Arr
 /** Solves A·x = b for a symmetric positive-definite A (see choleskyScaled); null when it is not. */
 export function choleskySolve(a: Float64Array, b: Float64Array, p: number): Float64Array | null {
   const f = choleskyScaled(a, p);
-  if (!f) return null;
+  return f ? solveScaled(f, b, p) : null;
+}
+
+/** Solves A·x = b with A's factor from choleskyScaled (one factor, many right-hand sides). */
+export function solveScaled(f: { l: Float64Array; d: Float64Array }, b: ArrayLike<number>, p: number): Float64Array {
   const { l, d } = f;
   const x = new Float64Array(p);
   for (let i = 0; i < p; i++) {
