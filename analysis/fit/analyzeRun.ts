@@ -484,7 +484,8 @@ async function analyzeLayers(
       }
       // A wander the plain law does not follow: its cost, added to σ once the pass is done
       // (fit/wanderSigma.ts; the pass weighs later readings by the layers' σ as they stand).
-      if (built.unmodelled) built.unmodelledVariance = wanderErrorVariances(below, [fit], single, calibration.offset, [built.unmodelled], null)?.[0];
+      // sequential only: in refit the chip's final joint fit carries it
+      if (built.unmodelled && o.mode === 'sequential') built.unmodelledVariance = wanderErrorVariances(below, [fit], single, calibration.offset, [built.unmodelled], null)?.[0];
       if (transient.sigmaS && !byDesign) {
         const e = single.layers[0];
         carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, [(samples.startDelayS ?? 0) > 0], ([moved]) => fitLayers({

@@ -67,7 +67,7 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
   const all = input.allTauS.length;
   // Bin means of SAMPLES_PER_BIN samples (a fraction of a lock-in's correlation time at 10 Hz, so
   // the bins' noise is still white plus AR(1) and read as such; the same lags in every layer).
-  const bins = binMeans(input.allTauS, Int32Array.from({ length: all }, (_, i) => i), input.allY, Math.floor(all / SAMPLES_PER_BIN));
+  const bins = binMeans(input.allTauS, indexRange(all), input.allY, Math.floor(all / SAMPLES_PER_BIN));
   const N = bins.tauS.length;
   const per = all / Math.max(N, 1);
   const scores: WanderChoice['scores'] = [];
@@ -80,7 +80,7 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
   const at = new Float64Array(N);
   evaluateLayers(below, [plain], l0, p0, offsetSignal, at);
   const binS = N > 1 ? (bins.tauS[N - 1] - bins.tauS[0]) / (N - 1) : 1;
-  const noise = fitAr1PlusWhite(Float64Array.from(bins.y, (v, i) => v - at[i]), Math.max(8, Math.round(NOISE_LAGS_S / binS)), input.noisePool);
+  const noise = fitAr1PlusWhite(difference(bins.y, at), Math.max(8, Math.round(NOISE_LAGS_S / binS)), input.noisePool);
   const none = { wander: null, sampleSigma: noise.longRunSigma * Math.sqrt(per), scores };
   if (N < 100 || !(noise.longRunSigma > 0)) return none;
   let best = { score: Infinity, kappa: 0, correlationS: 0, scale2: 1 };
@@ -99,7 +99,7 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
     const growthCol = input.growthFromHere ? lastBelowThicknessColumn(below, withW, layout, p, offsetSignal, at) : null;
     // A gain held at the chip's (refit) is known only to its calibration: free in both, as a
     // per-layer fit has it (∂y/∂g = (y − offset)/g).
-    const gainCol = plain.heldGain !== null && plain.heldGain !== 0 ? Float64Array.from(at, (v) => (v - offsetSignal) / plain.heldGain!) : null;
+    const gainCol = plain.heldGain !== null && plain.heldGain !== 0 ? overGain(at, offsetSignal, plain.heldGain) : null;
     const m = stackCols.length;
     const np = np0 + m + (growthCol ? 1 : 0) + (gainCol ? 1 : 0);
     const steps = Float64Array.from(p, (v) => 1e-6 * Math.max(Math.abs(v), 1e-3));
@@ -114,12 +114,13 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
     const pFixed = np - m - k;
     // Generalised least squares: residuals and columns whitened by the noise's own filter.
     const cols = Array.from({ length: np }, (_, j) => jac.subarray(j * N, (j + 1) * N));
-    const r = Float64Array.from(bins.y, (v, i) => v - at[i]);
+    const r = difference(bins.y, at);
     whitenAr1PlusWhite(noise, [r, ...cols]);
     // Huber's pseudo-residuals ψ(r), |r| capped (P. J. Huber, "Robust Statistics", Wiley (1981),
     // §7.8, from memory): a spike does not pass for a wandering rate.
     for (let i = 0; i < N; i++) r[i] = Math.max(-HUBER_K, Math.min(HUBER_K, r[i]));
-    const rr = r.reduce((q, v) => q + v * v, 0);
+    let rr = 0;
+    for (let i = 0; i < N; i++) rr += r[i] * r[i];
     // Gram matrix; fixed columns scaled to unit norm (log|XᵀX| shifts every score alike).
     const norm = new Float64Array(np).fill(1);
     for (let j = 0; j < np; j++) {
@@ -252,4 +253,25 @@ export function withWanderVariance(e: LayerEstimate, varianceNm2: number): Layer
     thicknessSigmaNm: Math.sqrt(e.thicknessSigmaNm ** 2 + varianceNm2),
     opticalThicknessSigmaNm: Math.sqrt(e.opticalThicknessSigmaNm ** 2 + e.index * e.index * varianceNm2),
   };
+}
+
+// Plain loops for the per-sample arrays: a typed array's from() with a map function calls it per
+// element and cost more than the variance algebra on 100 Hz traces (the bench's 40-layer run).
+function indexRange(n: number): Int32Array {
+  const out = new Int32Array(n);
+  for (let i = 0; i < n; i++) out[i] = i;
+  return out;
+}
+
+function difference(y: ArrayLike<number>, at: ArrayLike<number>): Float64Array {
+  const out = new Float64Array(y.length);
+  for (let i = 0; i < out.length; i++) out[i] = y[i] - at[i];
+  return out;
+}
+
+/** (v − offset)/gain for each value. */
+function overGain(v: ArrayLike<number>, offset: number, gain: number): Float64Array {
+  const out = new Float64Array(v.length);
+  for (let i = 0; i < out.length; i++) out[i] = (v[i] - offset) / gain;
+  return out;
 }

@@ -105,7 +105,9 @@ function variogram(e: ArrayLike<number>, maxLag: number, pool?: VariogramPool): 
     // Squared differences, winsorised at 4 MAD-σ: nearly the efficiency of the plain mean (the
     // MAD alone has 37 %), without the spikes.
     const med = medianInPlace(part.slice());
-    const abs = Float64Array.from(part, (v) => Math.abs(v - med));
+    // (a plain loop: Float64Array.from with a map function was most of the fit's time on 100 Hz traces)
+    const abs = new Float64Array(m);
+    for (let i = 0; i < m; i++) abs[i] = Math.abs(part[i] - med);
     const cap = 4 * 1.4826 * medianInPlace(abs.slice());
     let ss = 0;
     for (let i = 0; i < m; i++) ss += Math.min(abs[i], cap) ** 2;
