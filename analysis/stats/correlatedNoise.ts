@@ -1,4 +1,5 @@
 import { medianInPlace } from '../trace/robustStats';
+import { fitVariogramLine } from './variogramLine';
 
 /**
  * How much correlated noise inflates the variance of a least-squares estimate over white noise
@@ -136,37 +137,10 @@ function fitVariogram(lags: readonly number[], gamma: readonly number[]): Ar1Plu
   // ρ no larger than the lags can resolve (ρ^L ≤ 0.3 at the longest lag): a slower part is not
   // told from a trend and would have its long-run variance extrapolated from a short rise.
   const rhoMax = Math.min(0.995, 0.3 ** (1 / lags[lags.length - 1]));
+  const unit = lags.map(() => 1);
   for (let g = 0; g <= 200; g++) {
     const rho = (g / 200) * rhoMax;
-    // γ(k) = A − B·ρ^k with A = σ_w² + σ_x², B = σ_x²: linear least squares in (A, B).
-    let s1 = 0, sx = 0, sxx = 0, sy = 0, sxy = 0;
-    for (let q = 0; q < lags.length; q++) {
-      const x = rho ** lags[q], y = gamma[q];
-      s1++; sx += x; sxx += x * x; sy += y; sxy += x * y;
-    }
-    const det = s1 * sxx - sx * sx;
-    let A: number, B: number;
-    if (det > 1e-300) {
-      A = (sy * sxx - sx * sxy) / det;
-      B = -(s1 * sxy - sx * sy) / det;
-    } else {
-      A = sy / s1;
-      B = 0;
-    }
-    // Keep both variances ≥ 0: no AR(1) part (γ flat), or no white part (γ = B·(1 − ρ^k)).
-    if (B < 0) {
-      B = 0;
-      A = sy / s1;
-    } else if (B > A) {
-      let num = 0, den = 0;
-      for (let q = 0; q < lags.length; q++) {
-        num += gamma[q] * (1 - rho ** lags[q]);
-        den += (1 - rho ** lags[q]) ** 2;
-      }
-      A = B = den > 0 ? num / den : 0;
-    }
-    let ssr = 0;
-    for (let q = 0; q < lags.length; q++) ssr += (gamma[q] - (A - B * rho ** lags[q])) ** 2;
+    const { ssr, A, B } = fitVariogramLine(lags, gamma, unit, rho);
     if (ssr < best.ssr) best = { ssr, whiteVar: Math.max(0, A - B), ar1Var: B, rho };
   }
   const { whiteVar, ar1Var, rho } = best;

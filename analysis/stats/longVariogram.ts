@@ -1,4 +1,5 @@
 import { type Ar1PlusWhite } from './correlatedNoise';
+import { fitVariogramLine } from './variogramLine';
 
 /**
  * The semivariogram γ(k) = ½·E(e_{i+k} − e_i)² of a noise, pooled over stretches of different
@@ -80,7 +81,7 @@ export function fitLongVariogram(v: LongVariogram): Ar1PlusWhite | null {
     const w = model.map((m, q) => (m > 0 ? count[q] / (m * m) : 0));
     best = { ssr: Infinity, A: gamma[0], B: 0, rho: 0 };
     for (const rho of grid) {
-      const fit = linearPart(lags, gamma, w, rho);
+      const fit = fitVariogramLine(lags, gamma, w, rho);
       if (fit.ssr < best.ssr) best = { ...fit, rho };
     }
     const { A, B, rho } = best;
@@ -91,39 +92,4 @@ export function fitLongVariogram(v: LongVariogram): Ar1PlusWhite | null {
   const { A, B, rho } = best;
   const whiteVar = Math.max(0, A - B), ar1Var = B;
   return { whiteVar, ar1Var, rho, longRunSigma: Math.sqrt(whiteVar + (rho < 1 ? (ar1Var * (1 + rho)) / (1 - rho) : 0)) };
-}
-
-/** Weighted least squares of γ(k) = A − B·ρ^k in (A, B) at one ρ, with 0 ≤ B ≤ A. */
-function linearPart(lags: readonly number[], gamma: readonly number[], w: readonly number[], rho: number): { ssr: number; A: number; B: number } {
-  const logRho = rho > 0 ? Math.log(rho) : -Infinity;
-  let s1 = 0, sx = 0, sxx = 0, sy = 0, sxy = 0;
-  const x = lags.map((k) => Math.exp(k * logRho));
-  for (let q = 0; q < lags.length; q++) {
-    s1 += w[q]; sx += w[q] * x[q]; sxx += w[q] * x[q] * x[q]; sy += w[q] * gamma[q]; sxy += w[q] * x[q] * gamma[q];
-  }
-  const det = s1 * sxx - sx * sx;
-  let A: number, B: number;
-  if (rho > 0 && det > 1e-12 * s1 * sxx) {
-    A = (sy * sxx - sx * sxy) / det;
-    B = -(s1 * sxy - sx * sy) / det;
-  } else {
-    A = sy / s1;
-    B = 0;
-  }
-  if (B < 0) {
-    // no AR(1) part: γ flat
-    B = 0;
-    A = sy / s1;
-  } else if (B > A) {
-    // no white part: γ = B·(1 − ρ^k)
-    let num = 0, den = 0;
-    for (let q = 0; q < lags.length; q++) {
-      num += w[q] * gamma[q] * (1 - x[q]);
-      den += w[q] * (1 - x[q]) ** 2;
-    }
-    A = B = den > 0 ? num / den : 0;
-  }
-  let ssr = 0;
-  for (let q = 0; q < lags.length; q++) ssr += w[q] * (gamma[q] - (A - B * x[q])) ** 2;
-  return { ssr, A, B };
 }
