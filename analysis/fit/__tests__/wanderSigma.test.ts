@@ -14,6 +14,9 @@ describe('a wander the plain law does not follow, as variance of the figures (fi
   // Monte Carlo against the linear propagation: layers grown with wanders drawn from the prior
   // (v unit normal), each fitted with d = r·τ + a·τ²/2; the scatter of the end thickness's error
   // must match the fit's own σ² plus the propagated wander variance, and not the fit's σ² alone.
+  // The prediction is the variance of a linear function of a random vector, J·G·Jᵀ (C. R. Rao, "Linear
+  // Statistical Inference and its Applications", Wiley (1973), §1b.2, from memory), with the knots'
+  // Ornstein–Uhlenbeck prior (G. E. Uhlenbeck, L. S. Ornstein, Phys. Rev. 36, 823 (1930)).
   it('the end thickness\'s error variance over 60 draws matches σ² + Σ_k e_k²', () => {
     const rng = createRng(7);
     const tauS = Float64Array.from({ length: 521 }, (_, i) => i * 0.5);
