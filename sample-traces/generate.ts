@@ -99,14 +99,6 @@ export const SAMPLES: Sample[] = [
  * the trace (sample-traces/README.md).
  */
 export const HELD_BACK: Record<string, { off: ChamberOptions; reason: string }> = {
-  'bay1-ar1-run0412.csv': {
-    off: { correlatedNoise: undefined },
-    reason: 'issue 7 item 4: with correlated noise the 1.5 %-swing MgF2 layer comes out 1.1 % thick, cut error 1.2 % QWOT off (0.4σ: within its σ, beyond 0.5 % / 0.7 % QWOT), and its residuals read 1.8× the noise (the rate wanders within the one long layer), so the clean demo run would carry a warning',
-  },
-  'bay1-ar1-run0413-overshoot.csv': {
-    off: { correlatedNoise: undefined },
-    reason: 'issue 7 item 4: as run 0412: 2.9 % thin, cut error 3.2 % QWOT off (+3.0 % read for +6.3 %; 1.3σ)',
-  },
   'bay2-bb4-run0587.csv': {
     off: { lampDriftPerHour: 0, rampS: 0, correlatedNoise: undefined },
     reason: 'refit, each alone: lamp drift within one chip gives 1.45 % thickness, 0.014 index and 1.2 % QWOT cut error off; the rate ramp 0.73 % and 1.2 % QWOT; correlated noise 0.45 % and 0.62 % QWOT, but in sequential a "residuals 1.9×" warning on layer 3, which would flag the clean demo run; all three: 1.3 %, 0.016 and 2.0 % QWOT in refit; the shutter delay and level-cut reaction time are read (0.34 %, 0.0015, 0.54 % QWOT)',

@@ -600,6 +600,10 @@ async function analyzeLayers(
   if (reference === null && states.length >= 3) {
     reference = median(states.map((s) => layerResult(s, belowOf(s), trace, 1, o).residualRms * s.estimate.gain));
   }
+  // With one or two layers and a short idle stretch, the idle model (white + AR(1)) from 100 lit
+  // samples on, not the white part alone: a 20 s bare-chip stretch at 10 Hz read only that, and the
+  // demo's clean single-layer run then read "residuals 1.8×".
+  if (reference === null && idleModel && noiseFloor.samples >= 100) reference = Math.sqrt(idleModel.whiteVar + idleModel.ar1Var);
   const model = o.modelSeries ? new Float64Array(trace.rowCount).fill(NaN) : undefined;
   const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model));
   const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum);

@@ -212,8 +212,9 @@ export interface AnalyzeOptions {
   heldIndex?: 'nominal' | 'run-drift';
   /**
    * Residual RMS above this multiple of the noise reference draws a warning. The reference is
-   * the idle-stretch noise when there are ≥ 1000 idle samples, else the run's median layer
-   * residual. @default 1.5
+   * the idle stretches' noise (white + AR(1), fit/idleNoiseModel.ts) when they hold ≥ 1000 lit
+   * samples, else the run's median layer residual (≥ 3 layers), else the idle noise from 100 lit
+   * samples on. @default 1.5
    */
   residualWarnFactor?: number;
   /** |cut error| above this (% QWOT) draws a warning. @default 2 */

@@ -1,7 +1,7 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useEffect, useState } from 'react';
+import { useEffect, useState, useTransition } from 'react';
 
 type Answer = { analysis?: { id: string; state: string }; error?: { message: string } };
 const select = 'rounded-md border border-paper-line bg-paper-raised px-2 py-1.5 text-sm text-ink';
@@ -14,6 +14,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
   const router = useRouter();
   const [waiting, setWaiting] = useState<string | null>(null);
   const [message, setMessage] = useState<string | null>(null);
+  // The status line and the refreshed list of analyses change in one transition, so the line
+  // never says "finished" beside a list that still says "waiting".
+  const [, startTransition] = useTransition();
 
   useEffect(() => {
     if (!waiting) return;
@@ -23,8 +26,10 @@ export function ReanalyseForm({ runId }: { runId: number }) {
         .then((a) => {
           if (a.state === 'done' || a.state === 'failed') {
             setWaiting(null);
-            setMessage(`Analysis #${waiting} ${a.state === 'done' ? 'finished' : 'failed'}.`);
-            router.refresh();
+            startTransition(() => {
+              setMessage(`Analysis #${waiting} ${a.state === 'done' ? 'finished' : 'failed'}.`);
+              router.refresh();
+            });
           }
         })
         .catch(() => undefined);
