@@ -101,7 +101,7 @@ export const SAMPLES: Sample[] = [
 export const HELD_BACK: Record<string, { off: ChamberOptions; reason: string }> = {
   'bay2-bb4-run0587.csv': {
     off: { lampDriftPerHour: 0, rampS: 0, correlatedNoise: undefined },
-    reason: 'refit, each alone: lamp drift within one chip gives 1.45 % thickness, 0.014 index and 1.2 % QWOT cut error off; the rate ramp 0.73 % and 1.2 % QWOT; correlated noise 0.45 % and 0.62 % QWOT, but in sequential a "residuals 1.9×" warning on layer 3, which would flag the clean demo run; all three: 1.3 %, 0.016 and 2.0 % QWOT in refit; the shutter delay and level-cut reaction time are read (0.34 %, 0.0015, 0.54 % QWOT)',
+    reason: 'refit, each alone: lamp drift within one chip gives 1.45 % thickness, 0.014 index and 1.2 % QWOT cut error off; the rate ramp 0.56 % and 1.2 % QWOT; correlated noise 0.29 %, 0.0017 and 0.62 % QWOT, but in sequential layer 1 (0.22 QWOT, index held at the nominal, 0.015 above this run) and layer 2 come out 3–4 % thin, layer 4 1.8 % thick, and layer 3 reads "residuals 1.9×" over that stack; all three: 1.2 %, 0.016 and 2.0 % QWOT in refit; the shutter delay and level-cut reaction time are read (0.27 %, 0.0015, 0.54 % QWOT)',
   },
 };
 
