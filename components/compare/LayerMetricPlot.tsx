@@ -1,7 +1,7 @@
 'use client';
 
 import { useMemo } from 'react';
-import { Plot, axis, plotPalette } from '@/components/plot';
+import { Plot, axis, plotPalette, wholeTicks } from '@/components/plot';
 
 export interface LayerMetricPlotProps {
   title: string;
@@ -25,7 +25,7 @@ export function LayerMetricPlot({ title, layers, mean, sd, limit }: LayerMetricP
     () => ({
       scales: { x: { time: false } },
       legend: { show: false },
-      axes: [axis('layer', { values: (_u: unknown, ticks: number[]) => ticks.map((t) => (Number.isInteger(t) ? String(t) : '')) }), axis(title, { size: 56 })],
+      axes: [axis('layer', { values: wholeTicks }), axis(title, { size: 56 })],
       series: [
         {},
         { label: 'mean', stroke: plotPalette.model, width: 2, points: { show: true, size: 7, fill: plotPalette.model } },

@@ -1,2 +1,2 @@
 export { Plot, type PlotProps } from './Plot';
-export { plotPalette, axis } from './palette';
+export { plotPalette, axis, stepTicks, wholeTicks } from './palette';

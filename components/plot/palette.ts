@@ -32,3 +32,17 @@ export function axis(label: string, extra: Record<string, unknown> = {}) {
     ...extra,
   };
 }
+
+/**
+ * Tick labels with as many decimals as the tick step needs (uPlot's default rounds to three, so
+ * steps of 0.0005 read "0.001, 0.001"). For numeric axes only.
+ */
+export function stepTicks(_u: unknown, ticks: number[], _axis: number, _space: number, step: number): string[] {
+  const decimals = Math.max(0, Math.min(8, -Math.floor(Math.log10(step) + 1e-9)));
+  return ticks.map((t) => (t === 0 ? '0' : t.toFixed(decimals)));
+}
+
+/** Tick labels on whole numbers only (layer counts and orders). */
+export function wholeTicks(_u: unknown, ticks: number[]): string[] {
+  return ticks.map((t) => (Number.isInteger(t) ? String(t) : ''));
+}

@@ -2,13 +2,15 @@
 
 import { useMemo, useState } from 'react';
 import type uPlot from 'uplot';
-import { Plot, axis, plotPalette } from '@/components/plot';
+import { Plot, axis, plotPalette, stepTicks, wholeTicks } from '@/components/plot';
 
 export type IndexSeries = {
   material: string;
   label: string;
   timeS: number[];
   deviation: number[];
+  /** Each point's σ, drawn as a bar of ±1σ (NaN: none). */
+  sigma?: number[];
   interceptPerHour: number | null;
   slopePerHour: number | null;
   interceptPerLayer: number | null;
@@ -28,8 +30,14 @@ export function IndexPlot({ series, wavelengthNm }: { series: IndexSeries[]; wav
     const x = [...xs].sort((a, b) => a - b);
     const cols: (number | null)[][] = [];
     const uSeries: uPlot.Series[] = [{ label: by === 'order' ? 'layer of the material' : 'minutes' }];
+    // ±1σ bars: x, centre, σ and colour of every point with a finite σ
+    const bars: { x: number; y: number; s: number; colour: string }[] = [];
     series.forEach((s, k) => {
       const colour = materialColours[k % materialColours.length];
+      s.deviation.forEach((d, i) => {
+        const sd = s.sigma?.[i];
+        if (sd !== undefined && Number.isFinite(sd) && sd > 0) bars.push({ x: xOf(s, i), y: d, s: sd, colour });
+      });
       const at = new Map(s.deviation.map((d, i) => [xOf(s, i), d]));
       cols.push(x.map((v) => at.get(v) ?? null));
       uSeries.push({ label: s.label, stroke: colour, paths: () => null, points: { show: true, size: 7, fill: colour } });
@@ -44,9 +52,49 @@ export function IndexPlot({ series, wavelengthNm }: { series: IndexSeries[]; wav
       data: [x, ...cols] as uPlot.AlignedData,
       options: {
         legend: { show: false },
-        scales: { x: { time: false } },
+        scales: {
+          x: { time: false, ...(by === 'order' ? { range: (_u: uPlot, lo: number, hi: number): uPlot.Range.MinMax => [Math.floor(lo) - 0.5, Math.ceil(hi) + 0.5] } : {}) },
+          // the bars inside the plot, and zero (the nominal) always in view
+          y: {
+            range: (_u: uPlot, lo: number, hi: number): uPlot.Range.MinMax => {
+              let a = Math.min(lo, 0), b = Math.max(hi, 0);
+              for (const e of bars) {
+                a = Math.min(a, e.y - e.s);
+                b = Math.max(b, e.y + e.s);
+              }
+              const pad = (b - a || 0.001) * 0.08;
+              return [a - pad, b + pad];
+            },
+          },
+        },
         series: uSeries,
-        axes: [axis(by === 'order' ? 'layer of that material, in deposition order' : 'minutes into the run'), axis(`index − nominal${wavelengthNm ? ` at ${wavelengthNm} nm` : ''}`, { size: 64 })],
+        axes: [
+          axis(by === 'order' ? 'layer of that material, in deposition order' : 'minutes into the run', by === 'order' ? { values: wholeTicks } : { values: stepTicks }),
+          axis(`index − nominal${wavelengthNm ? ` at ${wavelengthNm} nm` : ''}`, { size: 64, values: stepTicks }),
+        ],
+        hooks: {
+          draw: [
+            (u: uPlot) => {
+              const ctx = u.ctx;
+              ctx.save();
+              ctx.lineWidth = Math.max(1, devicePixelRatio);
+              for (const e of bars) {
+                const x = u.valToPos(e.x, 'x', true), y0 = u.valToPos(e.y - e.s, 'y', true), y1 = u.valToPos(e.y + e.s, 'y', true);
+                const w = 4 * devicePixelRatio;
+                ctx.strokeStyle = e.colour;
+                ctx.beginPath();
+                ctx.moveTo(x, y0);
+                ctx.lineTo(x, y1);
+                for (const y of [y0, y1]) {
+                  ctx.moveTo(x - w, y);
+                  ctx.lineTo(x + w, y);
+                }
+                ctx.stroke();
+              }
+              ctx.restore();
+            },
+          ],
+        },
       } satisfies Omit<uPlot.Options, 'width' | 'height'>,
     };
   }, [series, by, wavelengthNm]);
@@ -64,7 +112,7 @@ export function IndexPlot({ series, wavelengthNm }: { series: IndexSeries[]; wav
           </span>
         ))}
       </div>
-      <Plot options={options} data={data} heightPx={220} label="Fitted index minus nominal, per material, with trend lines" />
+      <Plot options={options} data={data} heightPx={220} label="Fitted index minus nominal, per material, each with its ±1σ bar, and trend lines" />
     </div>
   );
 }

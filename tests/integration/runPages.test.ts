@@ -5,7 +5,7 @@ import { latestAnalyses } from '@/db/queries/analyses';
 import { createElement } from 'react';
 import { renderToStaticMarkup } from 'react-dom/server';
 import { LayerTable } from '@/components/runs/LayerTable';
-import { layerRows } from '@/app/(app)/runs/[runId]/runView';
+import { driftRows, layerRows } from '@/app/(app)/runs/[runId]/runView';
 import { roles } from '@/db/schema';
 import { capabilities } from '@/app/_lib/capabilities';
 import RunsPage from '@/app/(app)/runs/(list)/page';
@@ -91,6 +91,22 @@ describe('the runs pages', () => {
     // one Δt in seconds, not two absolute times
     const html = renderToStaticMarkup(createElement(LayerTable, { layers: rows }));
     expect(html).toContain(`${(cut - ideal).toFixed(1)} s late`);
+  });
+
+  it("give the index plot each fitted layer's own σ beside its deviation from the nominal", async () => {
+    await signInDemo('engineer');
+    const refit = (await latestAnalyses(Number(await demoRunId('B3-1120')))).refit;
+    if (!refit) throw new Error('no refit analysis of B3-1120');
+    const drift = driftRows(refit);
+    expect(drift.map((d) => d.material).sort()).toEqual(['H', 'L']);
+    for (const d of drift) {
+      expect(d.sigma).toHaveLength(d.deviation.length);
+      d.layers.forEach((layer, i) => {
+        const row = refit.layers.find((l) => l.layer === layer)!;
+        expect(d.sigma[i]).toBe(row.indexSigma);
+        expect(d.deviation[i]).toBeCloseTo(row.index - Number(row.detail.nominalIndex), 12);
+      });
+    }
   });
 
   it('answer 404 for a run that does not exist or a malformed number', async () => {

@@ -113,12 +113,16 @@ export function traceSpans(rows: readonly LayerView[]): TraceLayerSpan[] {
     .sort((a, b) => a.startTimeS - b.startTimeS);
 }
 
-export type DriftSeries = DriftView & { timeS: number[]; deviation: number[]; slopePerLayer: number | null; slopePerLayerSigma: number | null; interceptPerLayer: number | null; interceptPerHour: number | null };
+export type DriftSeries = DriftView & {
+  timeS: number[]; deviation: number[]; /** Each point's fitted index σ (NaN where unknown). */ sigma: number[];
+  slopePerLayer: number | null; slopePerLayerSigma: number | null; interceptPerLayer: number | null; interceptPerHour: number | null;
+};
 
 /** The per-material index drift of the run-level summary. */
 export function driftRows(a: AnalysisWithLayers): DriftSeries[] {
   const list = a.analysis.summary?.indexDrift;
   if (!Array.isArray(list)) return [];
+  const sigmaOf = new Map(a.layers.map((l) => [l.layer, l.indexSigma]));
   return list.map((d: Record<string, unknown>) => {
     const byTime = (d.byTime ?? {}) as Record<string, unknown>;
     const byOrder = (d.byOrder ?? {}) as Record<string, unknown>;
@@ -128,6 +132,7 @@ export function driftRows(a: AnalysisWithLayers): DriftSeries[] {
       layers: arr(d.layers),
       timeS: arr(d.timeS),
       deviation: arr(d.deviation),
+      sigma: arr(d.layers).map((l) => sigmaOf.get(l) ?? NaN),
       meanDeviation: num(d.meanDeviation),
       slopePerHour: num(byTime.slope),
       slopeSigmaPerHour: num(byTime.slopeSigma),
