@@ -268,6 +268,8 @@ export const analyses = pgTable(
     summary: jsonb('summary').$type<AnalysisSummary>(),
     /** Bumped each time a worker takes the analysis; only the holder of the current attempt may store its result. */
     attempt: integer('attempt').notNull().default(0),
+    /** Renewed every few seconds by the worker running it: a running analysis whose beat stops has lost its worker (db/jobs/workerLease.ts). */
+    heartbeatAt: timestamp('heartbeat_at', { withTimezone: true }),
     /** Layers whose |cut error| grades outside their tolerance (analysis/design/tolerance.ts); set when done. */
     cutsOutsideTolerance: integer('cuts_outside_tolerance'),
   },

@@ -7,8 +7,9 @@ export const ANALYSIS_QUEUE = 'analysis';
 
 /**
  * Queue policy, set once when the queue is created (pg-boss keeps the first call's options).
- * Retries with backoff ride out a database that is gone for a moment; a job not finished within
- * expireInSeconds (a worker killed mid-job) is retried by whichever worker is up. The longest
+ * Retries with backoff ride out a database that is gone for a moment. A worker killed mid-job is
+ * found by the workers' lease within about a minute (db/jobs/workerLease.ts); a job not finished
+ * within expireInSeconds is retried by whichever worker is up, as the backstop. The longest
  * analysis seen (40 layers, 10⁶ samples, `npm run bench`) takes well under a minute here.
  */
 export const ANALYSIS_QUEUE_POLICY = { retryLimit: 5, retryDelay: 5, retryBackoff: true, expireInSeconds: 15 * 60 } as const;

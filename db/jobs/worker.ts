@@ -3,6 +3,7 @@ import type PgBoss from 'pg-boss';
 import { failAnalysis } from '../queries/analyses';
 import { ANALYSIS_QUEUE, ANALYSIS_QUEUE_POLICY, startBoss, type AnalysisJob, type BossOptions } from './queue';
 import { runAnalysisJob, type JobHooks, type JobOutcome } from './runAnalysisJob';
+import { LEASE_DEFAULTS, startWorkerLease, type LeaseEvent, type LeaseOptions } from './workerLease';
 
 export type WorkerOptions = {
   queue?: string;
@@ -12,6 +13,9 @@ export type WorkerOptions = {
   pollingIntervalSeconds?: number;
   hooks?: JobHooks;
   onOutcome?: (outcome: JobOutcome) => void;
+  /** The beat on running analyses and the sweep for ones whose worker died (db/jobs/workerLease.ts). */
+  lease?: Partial<LeaseOptions>;
+  onLeaseEvent?: (event: LeaseEvent) => void;
 };
 
 /**
@@ -22,8 +26,11 @@ export type WorkerOptions = {
 export async function startAnalysisWorker(options: WorkerOptions = {}): Promise<PgBoss> {
   const queue = options.queue ?? ANALYSIS_QUEUE;
   const boss = await startBoss(options.boss, queue, options.policy ?? ANALYSIS_QUEUE_POLICY);
+  const lease = startWorkerLease(boss, queue, { ...LEASE_DEFAULTS, ...options.lease }, options.onLeaseEvent);
+  boss.on('stopped', () => lease.stop());
   await boss.work<AnalysisJob>(queue, { batchSize: 1, includeMetadata: true, pollingIntervalSeconds: options.pollingIntervalSeconds ?? 1 }, async ([job]) => {
     const { analysisId } = job.data;
+    const release = lease.hold(analysisId);
     try {
       const outcome = await runAnalysisJob(analysisId, options.hooks);
       options.onOutcome?.(outcome);
@@ -34,6 +41,8 @@ export async function startAnalysisWorker(options: WorkerOptions = {}): Promise<
         await failAnalysis(analysisId, `the analysis could not be completed after ${job.retryLimit + 1} tries: ${message}`).catch(() => undefined);
       }
       throw err;
+    } finally {
+      release();
     }
   });
   return boss;

@@ -68,8 +68,14 @@ children.push(sink);
 const worker = spawn(bin('tsx'), ['--conditions=react-server', 'db/local/worker.ts'], { cwd: root, env, stdio: 'inherit' });
 children.push(worker);
 
-// `npm test -- lint types vitest browser` runs only the named parts (all when none is named).
-const only = process.argv.slice(2);
+// `npm test -- lint types vitest browser` runs only the named parts (all when none is named);
+// any other word is a vitest file filter, and alone runs only vitest on those files
+// (`npm test -- tests/integration/worker.test.ts`).
+const PARTS = ['lint', 'types', 'vitest', 'browser'];
+const args = process.argv.slice(2);
+const only = args.filter((a) => PARTS.includes(a));
+const filters = args.filter((a) => !PARTS.includes(a));
+if (filters.length && only.length === 0) only.push('vitest');
 const wanted = (part) => only.length === 0 || only.includes(part);
 const failures = [];
 async function step(name, cmd, args, opts = {}) {
@@ -85,7 +91,7 @@ if (wanted('lint')) await step('eslint', bin('eslint'), ['.']);
 if (wanted('types')) await step('tsc --noEmit', bin('tsc'), ['--noEmit', '-p', '.']);
 const vitestJson = path.join(dataDir, 'vitest-results.json');
 fs.rmSync(vitestJson, { force: true });
-if (wanted('vitest')) await step('vitest (unit + integration)', bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${vitestJson}`]);
+if (wanted('vitest')) await step('vitest (unit + integration)', bin('vitest'), ['run', '--reporter=default', '--reporter=json', `--outputFile.json=${vitestJson}`, ...filters]);
 
 // Browser tests: a production build of its own, served on the test port against the test DB.
 let browser = { passed: 0, failed: 0 };

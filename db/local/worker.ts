@@ -13,6 +13,10 @@ const boss = await startAnalysisWorker({
     if (o.state === 'done') console.log(`[fringelog] worker: analysis ${o.analysisId} done (${o.layers} layers, ${o.warnings} warnings, try ${o.attempt})`);
     if (o.state === 'failed') console.log(`[fringelog] worker: analysis ${o.analysisId} failed: ${o.error}`);
   },
+  onLeaseEvent: (e) => {
+    if (e.kind === 'retried') console.log(`[fringelog] worker: analysis ${e.analysisId} lost its worker; queued again`);
+    else console.log(`[fringelog] worker: analysis ${e.analysisId} lost its worker: ${e.message}`);
+  },
 });
 // The shift digests ride on the same pg-boss: each worker registers the schedules (an upsert).
 await registerShiftDigests(boss, async (window) => {

@@ -27,17 +27,37 @@ export async function createAnalysis(
 export async function claimAnalysis(id: number, ex: Executor = db()): Promise<{ attempt: number; analysis: Analysis } | null> {
   const [row] = await ex
     .update(analyses)
-    .set({ state: 'running', startedAt: new Date(), attempt: sql`${analyses.attempt} + 1` })
+    .set({ state: 'running', startedAt: new Date(), heartbeatAt: sql`now()`, attempt: sql`${analyses.attempt} + 1` })
     .where(and(eq(analyses.id, id), inArray(analyses.state, ['queued', 'running'])))
     .returning();
   return row ? { attempt: row.attempt, analysis: row } : null;
+}
+
+/** The running worker's beat on the analyses it holds (db/jobs/workerLease.ts). */
+export async function beatAnalyses(ids: readonly number[], ex: Executor = db()): Promise<void> {
+  if (ids.length === 0) return;
+  await ex.update(analyses).set({ heartbeatAt: sql`now()` }).where(and(inArray(analyses.id, [...ids]), eq(analyses.state, 'running')));
+}
+
+/**
+ * Running analyses whose worker has not beaten for `staleSeconds` (a worker killed, or its machine
+ * gone). Each is returned to one caller only: its beat is renewed in the same statement, so other
+ * workers' sweeps pass it by for another `staleSeconds`. Rows from before the beat existed count
+ * from their start.
+ */
+export async function takeStaleAnalyses(staleSeconds: number, ex: Executor = db()): Promise<{ id: number; attempt: number }[]> {
+  return ex
+    .update(analyses)
+    .set({ heartbeatAt: sql`now()` })
+    .where(and(eq(analyses.state, 'running'), sql`coalesce(${analyses.heartbeatAt}, ${analyses.startedAt}, ${analyses.createdAt}) < now() - make_interval(secs => ${staleSeconds})`))
+    .returning({ id: analyses.id, attempt: analyses.attempt });
 }
 
 /** queued → running only (attempt + 1); false when it was not queued (taken by someone else, or finished). */
 export async function markAnalysisRunning(id: number, ex: Executor = db()): Promise<boolean> {
   const rows = await ex
     .update(analyses)
-    .set({ state: 'running', startedAt: new Date(), attempt: sql`${analyses.attempt} + 1` })
+    .set({ state: 'running', startedAt: new Date(), heartbeatAt: sql`now()`, attempt: sql`${analyses.attempt} + 1` })
     .where(and(eq(analyses.id, id), eq(analyses.state, 'queued')))
     .returning({ id: analyses.id });
   return rows.length === 1;

@@ -1,10 +1,12 @@
+import { spawn } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
+import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { eq, sql } from 'drizzle-orm';
 import type PgBoss from 'pg-boss';
 import { readTrace } from '@/analysis/trace';
 import { closeDb, db } from '@/db/client';
-import { analysisJobId, sendAnalysisJob, stopSenderBoss } from '@/db/jobs/queue';
+import { analysisJobId, sendAnalysisJob, startBoss, stopSenderBoss } from '@/db/jobs/queue';
 import { startAnalysisWorker } from '@/db/jobs/worker';
 import { runAnalysisJob, type JobOutcome } from '@/db/jobs/runAnalysisJob';
 import { createAnalysis, findAnalysis } from '@/db/queries/analyses';
@@ -29,6 +31,20 @@ async function until<T>(what: string, probe: () => Promise<T | undefined>, timeo
     if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
     await new Promise((r) => setTimeout(r, 100));
   }
+}
+
+/** A run of the test's own, on the four-layer AR's sample trace (a new analysis of a demo run would change which is its newest). */
+async function ownRun(prefix: string) {
+  const file = 'bay2-bb4-run0587.csv';
+  const bytes = sample(file);
+  const trace = await readTrace([bytes], { fileName: file });
+  const revision = await latestDesignRevision('Larkspur LK-BB4 four-layer broadband visible antireflection');
+  const chamber = await findChamberByName('Bay 2 IAD');
+  const { run } = await createRunWithTrace({
+    designRevisionId: revision!.id, chamberId: chamber!.id, runCode: uniqueCode(prefix), uploadedBy: null,
+    trace: { fileName: file, bytes, rowCount: trace.rowCount, columns: trace.columns, meta: trace.meta },
+  });
+  return run;
 }
 
 describe('analysis workers', () => {
@@ -96,6 +112,71 @@ describe('analysis workers', () => {
     expect(rows[0].n).toBe(4);
     const job = await db().execute<{ state: string }>(sql`select state from pgboss.job where id = ${analysisJobId(analysis.id)}`);
     expect(job.rows[0]?.state).toBe('completed');
+  });
+
+  it("a worker killed mid-job (SIGKILL) loses its lease: another worker's sweep puts the job back in seconds, long before the queue's expiry", { timeout: 120_000 }, async () => {
+    const analysis = await createAnalysis({ runId: (await ownRun('K')).id, mode: 'sequential', requestedBy: null });
+    const queue = `analysis-test-${randomBytes(4).toString('hex')}`;
+    // The analysis queue's own expiry (15 minutes): only the lease can bring the job back within the test.
+    const policy = { retryLimit: 3, retryDelay: 1, retryBackoff: false, expireInSeconds: 15 * 60 };
+
+    const root = path.resolve(import.meta.dirname, '../..');
+    // node itself with tsx as its loader: the tsx command would run the worker in a child process of its own, which a SIGKILL of tsx leaves running
+    const child = spawn(process.execPath, ['--import', 'tsx', '--conditions=react-server', 'tests/integration/fixtures/stallingWorker.ts'], {
+      cwd: root, env: { ...process.env, FRINGELOG_TEST_QUEUE: queue, FRINGELOG_TEST_POLICY: JSON.stringify(policy) }, stdio: ['ignore', 'pipe', 'inherit'],
+    });
+    let out = '';
+    child.stdout.on('data', (b: Buffer) => (out += b.toString()));
+    const exited = new Promise<NodeJS.Signals | null>((r) => child.on('exit', (_code, signal) => r(signal)));
+    try {
+      await until('the stalling worker to start', async () => (out.includes('waiting') ? true : undefined));
+      await sendAnalysisJob(analysis.id, undefined, queue);
+      await until('the stalling worker to reach the store', async () => (out.includes('at-store') ? true : undefined));
+    } finally {
+      child.kill('SIGKILL');
+    }
+    expect(await exited).toBe('SIGKILL');
+    const killedAt = Date.now();
+    expect((await findAnalysis(analysis.id))?.analysis).toMatchObject({ state: 'running', attempt: 1 });
+    const active = await db().execute<{ state: string }>(sql`select state from pgboss.job where id = ${analysisJobId(analysis.id)}`);
+    expect(active.rows[0]?.state).toBe('active');
+
+    const events: unknown[] = [];
+    const second = await startAnalysisWorker({
+      queue, policy, pollingIntervalSeconds: 0.5, lease: { heartbeatSeconds: 0.5, staleAfterSeconds: 3, sweepSeconds: 0.5 }, onLeaseEvent: (e) => events.push(e),
+    });
+    bosses.push(second);
+    const done = await until('the second worker to finish', async () => {
+      const a = await findAnalysis(analysis.id);
+      return a?.analysis.state === 'done' ? a : undefined;
+    });
+    // back within the lease (3 s stale + sweeps + the retry delay + the fit), not 15 minutes
+    expect(Date.now() - killedAt).toBeLessThan(60_000);
+    expect(events).toEqual([{ analysisId: analysis.id, kind: 'retried' }]);
+    expect(done.analysis.attempt).toBe(2);
+    expect(done.layers.map((l) => l.layer)).toEqual([1, 2, 3, 4]);
+  });
+
+  it('an analysis whose worker died on its last try is failed with a message, not left running', { timeout: 60_000 }, async () => {
+    const analysis = await createAnalysis({ runId: (await ownRun('L')).id, mode: 'sequential', requestedBy: null });
+    const queue = `analysis-test-${randomBytes(4).toString('hex')}`;
+    const boss = await startBoss({ supervise: false, schedule: false }, queue, { retryLimit: 0, expireInSeconds: 15 * 60 });
+    bosses.push(boss);
+    await sendAnalysisJob(analysis.id, undefined, queue);
+    // a worker takes the job and the analysis, then dies: the job stays active, the analysis running, no beat
+    const [job] = await boss.fetch(queue);
+    expect(job.id).toBe(analysisJobId(analysis.id));
+    await db().execute(sql`update analyses set state = 'running', attempt = 1, heartbeat_at = now() - interval '1 hour' where id = ${analysis.id}`);
+    const events: { kind: string }[] = [];
+    const sweeper = await startAnalysisWorker({ queue, pollingIntervalSeconds: 0.5, lease: { heartbeatSeconds: 0.5, staleAfterSeconds: 1, sweepSeconds: 0.3 }, onLeaseEvent: (e) => events.push(e) });
+    bosses.push(sweeper);
+    const failed = await until('the analysis to fail', async () => {
+      const a = await findAnalysis(analysis.id);
+      return a?.analysis.state === 'failed' ? a : undefined;
+    });
+    expect(failed.analysis.error).toMatch(/stopped answering and the queue has no try left \(job failed after 1 try\)/);
+    expect(events.map((e) => e.kind)).toEqual(['failed']);
+    expect((await runAnalysisJob(analysis.id)).state).toBe('skipped');
   });
 
   it('a job queued twice for one analysis is one job; a finished analysis run again is skipped', async () => {
