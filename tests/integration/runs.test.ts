@@ -67,10 +67,12 @@ describe('the demo runs of the seed', () => {
     expect(overshoot.operatorName).toBe('Ines Varga');
     expect(overshoot.shift).toBe('early');
     expect(overshoot.startedAt?.toISOString()).toBe('2026-11-03T00:00:00.000Z');
-    // The overshoot run was cut 6 % late (sample-traces/README.md): its worst cut error stands out against the clean run.
+    // The overshoot run was cut 6.3 % QWOT late; under the correlated noise every Larkspur run carries
+    // the single MgF2 layer reads it as +3.0 ± 2.5 % (sample-traces/README.md): past the 2 % that
+    // draws a warning, and above the clean run's +1.4 ± 2.6 %.
     const clean = demo.find((r) => r.runCode === 'B1-0412')!;
-    expect(overshoot.worstCutErrorQwotPct!).toBeGreaterThan(4);
-    expect(overshoot.worstCutErrorQwotPct!).toBeGreaterThan(clean.worstCutErrorQwotPct! + 3);
+    expect(overshoot.worstCutErrorQwotPct!).toBeGreaterThan(2);
+    expect(overshoot.worstCutErrorQwotPct!).toBeGreaterThan(clean.worstCutErrorQwotPct! + 1);
   });
 
   it('keeps both modes of a demo run, with one layer result per design layer', async () => {
