@@ -34,7 +34,8 @@ import { indexSeparation } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
 import { type RateWander } from './rateWander';
-import { chooseRateWander, wanderEndVariance, withWanderVariance } from './wanderChoice';
+import { chooseRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
+import { sharedWanderCosts, type WanderEvidence } from './pooledWander';
 import { addWanderVariance, wanderErrorVariances, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
 import { pooledStartDelay, type PooledStartDelay, type StartDelayProfile } from './startDelay';
@@ -72,6 +73,8 @@ export interface LayerState {
   unmodelledWander?: RateWander;
   /** Its cost to the sequential fit's figures, added to σ after the pass. */
   unmodelledVariance?: WanderErrorVariance;
+  /** The layer's wander choice, for its material's shared wander (sequential, option wanderSigma). */
+  wanderEvidence?: WanderEvidence<WanderErrorVariance>;
   calibration: ChipCalibration;
   /** Design optical thickness in quarter-waves at the monitor wavelength. */
   qwotAtMonitor: number;
@@ -350,7 +353,10 @@ async function analyzeLayers(
     // layer's own gain takes up (the AR without a layer column, 6 seeds: 1.32 % held, 0.61 % free).
     const levelGain = o.gain === 'per-layer' && o.levelCutGain === 'calibration' && !byDesign && holdsLevelCutGain(dl.monitor.cut, calibration, o.gainPriorFraction);
     // make() is called again after the pass (final refit), when the layer's state exists.
-    const built: { state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean; unmodelled?: RateWander; unmodelledVariance?: WanderErrorVariance } = {};
+    const built: {
+      state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean; unmodelled?: RateWander; unmodelledVariance?: WanderErrorVariance;
+      scores?: { scores: WanderChoice['scores']; rateNmPerS: number; pointSigma: number }; wanderEvidence?: WanderEvidence<WanderErrorVariance>;
+    } = {};
     const make = (maxPoints: number): FitLayerData => {
       // Bin means, not picked samples: every sample's information at a fraction of the points.
       const binned = binnedElsewhere?.find((b) => b.points === maxPoints) ?? binMeans(samples.tauS, samples.indices, trace.signal, maxPoints);
@@ -463,6 +469,7 @@ async function analyzeLayers(
         ...(stacks.has(chip) ? { stack: ends ? ends.stackWithGrowth(chip, stacks.get(chip)!) : stacks.get(chip)! } : {}),
         growthFromHere: o.growthFromNext && !!ends && below.length > 0,
       });
+      if (!o.rateWander && o.mode === 'sequential') built.scores = { scores: choice.scores, rateNmPerS: e.rateNmPerS, pointSigma: choice.sampleSigma };
       if (choice.wander && !o.rateWander) built.unmodelled = choice.wander;
       else if (choice.wander) {
         built.wander = choice.wander;
@@ -486,6 +493,15 @@ async function analyzeLayers(
       // (fit/wanderSigma.ts; the pass weighs later readings by the layers' σ as they stand).
       // sequential only: in refit the chip's final joint fit carries it
       if (built.unmodelled && o.mode === 'sequential') built.unmodelledVariance = wanderErrorVariances(below, [fit], single, calibration.offset, [built.unmodelled], null)?.[0];
+      if (built.scores && !transient.profiles) {
+        // Every layer's choice joins its material's shared wander (fit/pooledWander.ts), known after
+        // the pass; a layer whose own choice kept none takes that wander's cost on its fit as it stands now.
+        const [fitNow, belowNow, fitted] = [{ ...fit }, below.slice(), single];
+        built.wanderEvidence = {
+          material: dl.material, ...built.scores, durationS: fitNow.durationS, own: !!built.unmodelled,
+          cost: (w) => wanderErrorVariances(belowNow, [fitNow], fitted, calibration.offset, [w], null)?.[0] ?? null,
+        };
+      }
       if (transient.sigmaS && !byDesign) {
         const e = single.layers[0];
         carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, [(samples.startDelayS ?? 0) > 0], ([moved]) => fitLayers({
@@ -505,6 +521,7 @@ async function analyzeLayers(
       ...(built.wanderVariance !== undefined ? { wanderVarianceNm2: built.wanderVariance } : {}),
       ...(built.unmodelled ? { unmodelledWander: built.unmodelled } : {}),
       ...(built.unmodelledVariance ? { unmodelledVariance: built.unmodelledVariance } : {}),
+      ...(built.wanderEvidence ? { wanderEvidence: built.wanderEvidence } : {}),
       ...(gradientTrial ? { gradientTrial } : {}),
     };
     built.state = state;
@@ -588,7 +605,14 @@ async function analyzeLayers(
 
   if (transient.jointProfiles) return null;
   ends?.finish(o.mode === 'refit');
-  if (o.mode === 'sequential') for (const s of states) if (s.unmodelledVariance) addWanderVariance(s.estimate, s.unmodelledVariance);
+  if (o.mode === 'sequential') {
+    // A layer whose own choice kept no wander takes its material's shared one (fit/pooledWander.ts).
+    const chose = states.filter((s) => s.wanderEvidence);
+    sharedWanderCosts(chose.map((s) => s.wanderEvidence!)).forEach((v, j) => {
+      if (v) chose[j].unmodelledVariance = v;
+    });
+    for (const s of states) if (s.unmodelledVariance) addWanderVariance(s.estimate, s.unmodelledVariance);
+  }
   const belowOf = (s: LayerState) => {
     const chipStates = chipLayers.get(s.samples.chip)!;
     return chipStates.slice(0, chipStates.indexOf(s)).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));

@@ -14,7 +14,8 @@ export const WANDER_FRACTIONS = [0, 0.0025, 0.005, 0.01, 0.02, 0.04];
 export const WANDER_CORRELATIONS_S = [20];
 
 const HUBER_K = 2.5;
-const WANDER_HYPERPARAMETERS = WANDER_CORRELATIONS_S.length > 1 ? 2 : 1;
+/** Hyperparameters a wander's choice estimates (σ_w, and the correlation time when more than one is tried). */
+export const WANDER_HYPERPARAMETERS = WANDER_CORRELATIONS_S.length > 1 ? 2 : 1;
 const GRAM_STRIDE = 2;
 const SAMPLES_PER_BIN = 3;
 const NOISE_LAGS_S = 4;
@@ -47,8 +48,8 @@ export interface WanderChoice {
   wander: RateWander | null;
   /** Long-run σ of one sample of the noise (white-equivalent at low frequency). */
   sampleSigma: number;
-  /** −2·log restricted likelihood per candidate (fraction 0 once). */
-  scores: { fraction: number; correlationS: number; score: number }[];
+  /** −2·log restricted likelihood per candidate (fraction 0 once), and the noise's profiled scale² there. */
+  scores: { fraction: number; correlationS: number; score: number; scale2: number }[];
 }
 
 /**
@@ -164,7 +165,7 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
       const dof = N - pFixed;
       const min = Math.max(rr - f.quad, 1e-12);
       const score = dof * Math.log(min / dof) + f.logDet;
-      scores.push({ fraction, correlationS, score });
+      scores.push({ fraction, correlationS, score, scale2: min / dof });
       if (fraction === 0) {
         plainScore = score;
         plainScale2 = min / dof;
