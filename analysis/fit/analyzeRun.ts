@@ -25,7 +25,7 @@ import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
 import { levelCutEnds } from './levelCutEnds';
 import { turningPointEndS, turningPointEndsOnChip } from './turningPointEnd';
-import { excessErrorMeanSquare, turningPointCompensation, turningPointExcess, type TurningPointExcess } from './turningPointExcess';
+import { excessErrorMeanSquare, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess, type TurningPointExcess } from './turningPointExcess';
 import { segmentByDesign } from './designSegments';
 import { carryStackUncertainty, emptyStack, type StackCovariance } from './stackUncertainty';
 import { startValues } from './startValues';
@@ -110,6 +110,7 @@ export const ANALYZE_DEFAULTS = {
   wanderSigma: true,
   indexGradient: false,
   growthFromNext: true,
+  turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
   holdUncarriedDrift: true,
   startTransient: true,
   levelStartTransient: false,
@@ -594,7 +595,7 @@ async function analyzeLayers(
   // point, into σ (fit/turningPointExcess.ts); the estimates stay on the turning points.
   if (byDesign) {
     const excess = new Map<LayerState, TurningPointExcess>();
-    for (const s of states) if (s.design.monitor.cut === 'turning-point') excess.set(s, turningPointExcess(s.fit, s.estimate));
+    for (const s of states) if (s.design.monitor.cut === 'turning-point') excess.set(s, turningPointExcess(s.fit, s.estimate, o.turningPointOvershootPct));
     const meanSquares = states.map((s) => {
       const own = excess.get(s);
       if (!own) return 0;

@@ -6,10 +6,11 @@ import { lawRate, lawThickness } from './rateWander';
 
 /**
  * The most a turning-point cut is taken to run past the turning point before the controller
- * closes the shutter, as a fraction of the layer's thickness (common practice: a controller that
- * cuts on the turning point it sees stops within about 1 % of the layer past it).
+ * closes the shutter, % of the layer's thickness, by default (option turningPointOvershootPct;
+ * common practice: a controller that cuts on the turning point it sees stops within about 1 % of
+ * the layer past it).
  */
-export const TURNING_POINT_OVERSHOOT_FRACTION = 0.01;
+export const TURNING_POINT_OVERSHOOT_PCT = 1;
 
 /**
  * The longest time the shutter takes to close, s (the issue's chambers take 0.1–1 s). The rate
@@ -20,7 +21,7 @@ export const SHUTTER_CLOSE_S = 1;
 
 /** The film a turning-point cut may have grown past its turning point, nm: its prior's first two moments. */
 export interface TurningPointExcess {
-  /** Largest overshoot considered (TURNING_POINT_OVERSHOOT_FRACTION of the layer). */
+  /** Largest overshoot considered (overshootPct of the layer). */
   overshootMaxNm: number;
   /** Largest growth while the shutter closes (the final rate for half of SHUTTER_CLOSE_S). */
   growthMaxNm: number;
@@ -33,7 +34,8 @@ export interface TurningPointExcess {
 /**
  * What the data leave open of a turning-point cut whose end was placed on its fitted turning
  * point (no layer column, fit/turningPointEnd): the film grown past the turning point before the
- * growth stopped, the controller's overshoot and the growth while the shutter closes. Neither is
+ * growth stopped, the controller's overshoot (up to overshootPct of the layer) and the growth
+ * while the shutter closes (the final rate for half of SHUTTER_CLOSE_S). Neither is
  * in such a trace: the readings past the turning point and the pause's level move only to second
  * order in the excess (on the chamber simulator's 9-layer run the pause level leaves the excess's
  * posterior flat up to 5 % of each layer; allowed up to 30 %, its root-mean-square is 6–11 %), and the next layer's
@@ -41,10 +43,10 @@ export interface TurningPointExcess {
  * overshoot on [0, a] and the growth on [0, b], so E[x] = (a + b)/2 and
  * E[x²] = a²/3 + ab/2 + b²/3 (a uniform on [0, a] has mean a/2 and mean square a²/3).
  */
-export function turningPointExcess(layer: FitLayerData, estimate: LayerEstimate): TurningPointExcess {
+export function turningPointExcess(layer: FitLayerData, estimate: LayerEstimate, overshootPct = TURNING_POINT_OVERSHOOT_PCT): TurningPointExcess {
   const endNm = Math.max(lawThickness(estimate, layer.wander, layer.durationS), 0);
   const rate = Math.max(lawRate(estimate, layer.wander, layer.durationS), 0);
-  const a = TURNING_POINT_OVERSHOOT_FRACTION * endNm, b = (rate * SHUTTER_CLOSE_S) / 2;
+  const a = (Math.max(overshootPct, 0) / 100) * endNm, b = (rate * SHUTTER_CLOSE_S) / 2;
   return { overshootMaxNm: a, growthMaxNm: b, meanNm: (a + b) / 2, meanSquareNm2: (a * a) / 3 + (a * b) / 2 + (b * b) / 3 };
 }
 

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { type LayerEstimate } from '../fitLayers';
 import { type FitLayerData } from '../layerModel';
-import { excessErrorMeanSquare, SHUTTER_CLOSE_S, TURNING_POINT_OVERSHOOT_FRACTION, turningPointCompensation, turningPointExcess } from '../turningPointExcess';
+import { excessErrorMeanSquare, SHUTTER_CLOSE_S, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess } from '../turningPointExcess';
 
 const optics = { ambient: { re: 1, im: 0 }, substrate: { re: 1.52, im: 0 }, backside: false, wavelengthNm: 600, mode: 'T' as const };
 const qw = (n: number) => 600 / (4 * n);
@@ -55,7 +55,7 @@ describe("the excess past a turning point that a trace without a layer column do
   it("takes the overshoot on 1 % of the layer and the growth on half the shutter's closing at the final rate, as two uniforms", () => {
     // 0.25 nm/s for 260 s: 65 nm
     const x = turningPointExcess(layer(2.3, 260), estimate(2.3, 0.25));
-    expect(x.overshootMaxNm).toBeCloseTo(TURNING_POINT_OVERSHOOT_FRACTION * 65, 10);
+    expect(x.overshootMaxNm).toBeCloseTo((TURNING_POINT_OVERSHOOT_PCT / 100) * 65, 10);
     expect(x.growthMaxNm).toBeCloseTo((0.25 * SHUTTER_CLOSE_S) / 2, 10);
     // moments against a sum of two seeded uniform draws
     const u = uniforms(7);
