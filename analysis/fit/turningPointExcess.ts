@@ -57,7 +57,8 @@ const STEP_NM = 0.5;
  * How far a layer's turning point nearest `endNm` moves back per nm more of the layer directly
  * below (−∂d_TP/∂d_below, central difference on the model): the self-compensation of
  * turning-point monitoring, where a layer cut past its turning point leaves the next one's
- * turning point earlier (about n_below/n in a quarter-wave stack). Null where either side has no
+ * turning point earlier (deep in a quarter-wave stack of H and L about 1 for L on H and
+ * (n_L/n_H)² for H on L; analysis/fit/__tests__/turningPointExcess.test.ts derives it). Null where either side has no
  * turning point within 10 % of endNm.
  */
 export function turningPointCompensation(layer: FitLayerData, index: number, below: readonly LayerAt[], endNm: number): number | null {

@@ -42,9 +42,12 @@ describe("the excess past a turning point that a trace without a layer column do
     const y0 = (1.46 ** 4 * 1.52) / 2.3 ** 4;
     const deep = turningPointCompensation(layer(1.46, 200), 1.46, [at(2.3), at(1.46), at(2.3), at(1.46), at(2.3)], qw(1.46));
     expect(deep).toBeCloseTo(compensation(2.3, 1.46, y0), 2);
-    // H on L on glass
+    // H on L on glass: 0.05; H on L on (HL)²H, Y₀ under that L n_H⁶/(n_L⁴·1.52): near (n_L/n_H)² = 0.40
     const hOnL = turningPointCompensation(layer(2.3, 200), 2.3, [at(1.46)], qw(2.3));
     expect(hOnL).toBeCloseTo(compensation(1.46, 2.3, 1.52), 2);
+    const y0L = 2.3 ** 6 / (1.46 ** 4 * 1.52);
+    const hDeep = turningPointCompensation(layer(2.3, 200), 2.3, [at(2.3), at(1.46), at(2.3), at(1.46), at(2.3), at(1.46)], qw(2.3));
+    expect(hDeep).toBeCloseTo(compensation(1.46, 2.3, y0L), 2);
   });
 
   it('has no compensation on a bare chip, nor where the layer does not turn near its end', () => {
