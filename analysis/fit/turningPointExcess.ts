@@ -35,12 +35,12 @@ export interface TurningPointExcess {
  * What the data leave open of a turning-point cut whose end was placed on its fitted turning
  * point (no layer column, fit/turningPointEnd): the film grown past the turning point before the
  * growth stopped, the controller's overshoot (up to overshootPct of the layer) and the growth
- * while the shutter closes (the final rate for half of SHUTTER_CLOSE_S). Neither is
- * in such a trace: the readings past the turning point and the pause's level move only to second
- * order in the excess (on the chamber simulator's 9-layer run the pause level leaves the excess's
- * posterior flat up to 5 % of each layer; allowed up to 30 %, its root-mean-square is 6–11 %), and the next layer's
- * placed start takes up its first-order effect. Its prior: two independent uniforms, the
- * overshoot on [0, a] and the growth on [0, b], so E[x] = (a + b)/2 and
+ * while the shutter closes (the final rate for half of SHUTTER_CLOSE_S). Neither is in such a
+ * trace: the readings past the turning point and the pause's level move only to second order in
+ * the excess (on the chamber simulator's 9-layer run the pause level leaves the excess's
+ * posterior flat up to 5 % of each layer; allowed up to 30 %, its root-mean-square is 6–11 %),
+ * and the next layer's placed start takes up its first-order effect. Its prior: two independent
+ * uniforms, the overshoot on [0, a] and the growth on [0, b], so E[x] = (a + b)/2 and
  * E[x²] = a²/3 + ab/2 + b²/3 (a uniform on [0, a] has mean a/2 and mean square a²/3).
  */
 export function turningPointExcess(layer: FitLayerData, estimate: LayerEstimate, overshootPct = TURNING_POINT_OVERSHOOT_PCT): TurningPointExcess {
