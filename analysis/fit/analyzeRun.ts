@@ -25,6 +25,7 @@ import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
 import { levelCutEnds } from './levelCutEnds';
 import { turningPointEndS, turningPointEndsOnChip } from './turningPointEnd';
+import { excessErrorMeanSquare, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess, type TurningPointExcess } from './turningPointExcess';
 import { segmentByDesign } from './designSegments';
 import { carryStackUncertainty, emptyStack, type StackCovariance } from './stackUncertainty';
 import { startValues } from './startValues';
@@ -112,6 +113,7 @@ export const ANALYZE_DEFAULTS = {
   wanderSigma: true,
   indexGradient: false,
   growthFromNext: true,
+  turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
   holdUncarriedDrift: true,
   startTransient: true,
   levelStartTransient: false,
@@ -605,6 +607,23 @@ async function analyzeLayers(
 
   if (transient.jointProfiles) return null;
   ends?.finish(o.mode === 'refit');
+  // A turning-point cut ended on its fitted turning point (no layer column): the excess past it,
+  // which the trace does not show, and the excess of the layer below, which moved its turning
+  // point, into σ (fit/turningPointExcess.ts); the estimates stay on the turning points.
+  if (byDesign) {
+    const excess = new Map<LayerState, TurningPointExcess>();
+    for (const s of states) if (s.design.monitor.cut === 'turning-point') excess.set(s, turningPointExcess(s.fit, s.estimate, o.turningPointOvershootPct));
+    const meanSquares = states.map((s) => {
+      const own = excess.get(s);
+      if (!own) return 0;
+      const chipStates = chipLayers.get(s.samples.chip)!;
+      const j = chipStates.indexOf(s);
+      const under = j > 0 ? excess.get(chipStates[j - 1]) ?? null : null;
+      const below = chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));
+      return excessErrorMeanSquare(own, under, under ? turningPointCompensation(s.fit, s.estimate.index, below, s.estimate.thicknessNm) : null);
+    });
+    states.forEach((s, i) => (s.estimate = withWanderVariance(s.estimate, meanSquares[i])));
+  }
   if (o.mode === 'sequential') {
     // A layer whose own choice kept no wander takes its material's shared one (fit/pooledWander.ts).
     const chose = states.filter((s) => s.wanderEvidence);

@@ -150,6 +150,18 @@ export interface AnalyzeOptions {
    */
   growthFromNext?: boolean;
   /**
+   * Without a layer column: the most a turning-point cut may have run past the turning point
+   * before the shutter closed, % of the layer (the controller's overshoot). The trace does not
+   * show it, so each turning-point cut's σ carries it as a uniform prior on [0, this], with the
+   * growth while the shutter closes and the layer below's excess, which moves the layer's turning
+   * point back (fit/turningPointExcess.ts); the estimates stay on the turning points. Measured on
+   * the chamber simulator (overshoot 0.4 ± 0.3 %): 3σ coverage of thickness and cut 67–92 % → 100 %
+   * in the no-layer-column scenarios, RMS |z| 0.6–0.9; where the controller does not overshoot, σ
+   * is that much wider than the errors (RMS |z_cut| 0.06–0.4). A shop that knows its controller
+   * sets it here. @default 1 (common practice)
+   */
+  turningPointOvershootPct?: number;
+  /**
    * Refit mode: in each chip's final joint fit, hold a layer's rate drift a (d = r·τ + a·τ²/2) at
    * 0 where its own data do not carry it (Schwarz's criterion), the chip's drifts scatter no more
    * than their σ say (Cochran's Q) and the chip's residuals are white; the free fit's σ are kept

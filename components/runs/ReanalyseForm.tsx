@@ -48,6 +48,8 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (drift === 'free') settings.gainDrift = true;
     const lamp = String(form.get('lampStability') ?? '').trim();
     if (lamp !== '') settings.lampStabilityPerHour = Number(lamp) / 100;
+    const overshoot = String(form.get('turningPointOvershoot') ?? '').trim();
+    if (overshoot !== '') settings.turningPointOvershootPct = Number(overshoot);
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
@@ -102,6 +104,10 @@ export function ReanalyseForm({ runId }: { runId: number }) {
         <div className="flex flex-col gap-1 text-xs text-ink-soft">
           <label htmlFor="re-lamp">Lamp stability, %/h (0: none assumed)</label>
           <input id="re-lamp" name="lampStability" type="number" min="0" max="20" step="0.1" placeholder="1 (default)" className={select} />
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-overshoot">Without a layer column: how far past a turning point the controller may cut, % of the layer (carried into σ)</label>
+          <input id="re-overshoot" name="turningPointOvershoot" type="number" min="0" max="10" step="0.1" placeholder="1 (default)" className={select} />
         </div>
         <div className="flex flex-col justify-end gap-1 text-sm sm:col-span-2 lg:col-span-4">
           <label className="flex items-center gap-2">

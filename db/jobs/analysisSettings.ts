@@ -22,6 +22,7 @@ export const analysisSettingsSchema = z
     holdUncarriedDrift: z.boolean().optional(),
     indexGradient: z.boolean().optional(),
     growthFromNext: z.boolean().optional(),
+    turningPointOvershootPct: z.number().min(0).max(10).optional(),
   })
   .strict();
 export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;

@@ -17,6 +17,7 @@ describe('analysis settings', () => {
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', lampDriftFit: true, lampStabilityPerHour: 0.005 }))).toBe(
       "refit · gain drift fitted under the lamp's stability · lamp stability 0.5 %/h",
     );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', turningPointOvershootPct: 0.3 }))).toBe('refit · turning-point overshoot up to 0.3 %');
   });
 
   it('refuses an option the fit does not know, and a wrong type', () => {
@@ -25,5 +26,8 @@ describe('analysis settings', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'sequential', levelCutGain: 'fitted' }).success).toBe(false);
     // a lamp "stability" of 50 %/h is a typing slip (per cent entered as a fraction's worth)
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', lampStabilityPerHour: 0.5 }).success).toBe(false);
+    // an overshoot past a turning point of more than 10 % of the layer is no turning-point cut
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', turningPointOvershootPct: 25 }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', turningPointOvershootPct: -1 }).success).toBe(false);
   });
 });
