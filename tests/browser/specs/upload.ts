@@ -127,12 +127,15 @@ test('an admin (as an engineer may) queues a re-analysis with other settings; it
   // a run cut only on level: its own start-up search (with the lamp drift) runs end to end
   await form.getByLabel('On a run cut only on level', { exact: false }).check();
   await form.getByLabel('a layer cut on level keeps its chip', { exact: false }).uncheck();
+  await form.getByLabel('how far past a turning point the controller may cut', { exact: false }).fill('0.5');
   await form.getByRole('button', { name: 'Queue the analysis' }).click();
   await page.waitForFunction((n) => document.querySelectorAll('[data-testid="analysis-history"] li').length === n + 1, before, { timeout: 15000 });
   await page.getByRole('status').filter({ hasText: /finished/ }).waitFor({ timeout: 90000 });
   const newest = history.first();
   const listed = (await newest.textContent()) ?? '';
-  assert(listed.includes('thin layers held at the nominal index') && listed.includes('no start-up at the shutter') && listed.includes('start-up on level cuts') && listed.includes('own gain on level-cut layers'), `the new analysis lists its settings: ${listed}`);
+  assert(listed.includes('thin layers held at the nominal index') && listed.includes('no start-up at the shutter') && listed.includes('start-up on level cuts') && listed.includes('own gain on level-cut layers') && listed.includes('turning-point overshoot up to 0.5 %'), `the new analysis lists its settings: ${listed}`);
+  // the status line and the list change together: the newest entry is no longer waiting
+  assert(/\banalysed\b/.test(listed) && !/\bwaiting\b|\banalysing\b/.test(listed), `the list caught up with the status line: ${listed}`);
   await shot(page, 'run-reanalysed');
   await page.setViewportSize({ width: 390, height: 844 });
   await page.goto(`${baseUrl}/runs?chamber=Bay%202%20IAD`);
