@@ -33,13 +33,15 @@ async function until<T>(what: string, probe: () => Promise<T | undefined>, timeo
   }
 }
 
-/** A run of the test's own, on the four-layer AR's sample trace (a new analysis of a demo run would change which is its newest). */
-async function ownRun(prefix: string) {
-  const file = 'bay2-bb4-run0587.csv';
+const AR4 = { file: 'bay2-bb4-run0587.csv', design: 'Larkspur LK-BB4 four-layer broadband visible antireflection', chamber: 'Bay 2 IAD' };
+const AR1 = { file: 'bay1-ar1-run0412.csv', design: 'Larkspur LK-AR1 single-layer MgF2 antireflection on crown glass', chamber: 'Bay 1 e-beam' };
+
+/** A run of the test's own on a sample trace (a new analysis of a demo run would change which is its newest). */
+async function ownRun(prefix: string, { file, design, chamber: chamberName } = AR4) {
   const bytes = sample(file);
   const trace = await readTrace([bytes], { fileName: file });
-  const revision = await latestDesignRevision('Larkspur LK-BB4 four-layer broadband visible antireflection');
-  const chamber = await findChamberByName('Bay 2 IAD');
+  const revision = await latestDesignRevision(design);
+  const chamber = await findChamberByName(chamberName);
   const { run } = await createRunWithTrace({
     designRevisionId: revision!.id, chamberId: chamber!.id, runCode: uniqueCode(prefix), uploadedBy: null,
     trace: { fileName: file, bytes, rowCount: trace.rowCount, columns: trace.columns, meta: trace.meta },
@@ -49,19 +51,7 @@ async function ownRun(prefix: string) {
 
 describe('analysis workers', () => {
   it('a worker stopped mid-job leaves the analysis to the next worker, which finishes it once; the stopped one cannot write late', async () => {
-    const file = 'bay2-bb4-run0587.csv';
-    const bytes = sample(file);
-    const trace = await readTrace([bytes], { fileName: file });
-    const revision = await latestDesignRevision('Larkspur LK-BB4 four-layer broadband visible antireflection');
-    const chamber = await findChamberByName('Bay 2 IAD');
-    const { run } = await createRunWithTrace({
-      designRevisionId: revision!.id,
-      chamberId: chamber!.id,
-      runCode: uniqueCode('W'),
-      uploadedBy: null,
-      trace: { fileName: file, bytes, rowCount: trace.rowCount, columns: trace.columns, meta: trace.meta },
-    });
-    const analysis = await createAnalysis({ runId: run.id, mode: 'sequential', requestedBy: null });
+    const analysis = await createAnalysis({ runId: (await ownRun('W')).id, mode: 'sequential', requestedBy: null });
 
     // A queue of this test's own with a short expiry, so the stopped worker's job comes back in seconds, not minutes.
     const queue = `analysis-test-${randomBytes(4).toString('hex')}`;
@@ -214,20 +204,7 @@ describe('analysis workers', () => {
       onOutcome: (o) => outcomes.push(o),
     });
     bosses.push(w);
-    // A run of this test's own: a new analysis of a demo run would change which is its newest.
-    const file = 'bay1-ar1-run0412.csv';
-    const bytes = sample(file);
-    const trace = await readTrace([bytes], { fileName: file });
-    const revision = await latestDesignRevision('Larkspur LK-AR1 single-layer MgF2 antireflection on crown glass');
-    const chamber = await findChamberByName('Bay 1 e-beam');
-    const { run } = await createRunWithTrace({
-      designRevisionId: revision!.id,
-      chamberId: chamber!.id,
-      runCode: uniqueCode('R'),
-      uploadedBy: null,
-      trace: { fileName: file, bytes, rowCount: trace.rowCount, columns: trace.columns, meta: trace.meta },
-    });
-    const analysis = await createAnalysis({ runId: run.id, mode: 'sequential', requestedBy: null });
+    const analysis = await createAnalysis({ runId: (await ownRun('R', AR1)).id, mode: 'sequential', requestedBy: null });
     await sendAnalysisJob(analysis.id, undefined, queue);
     const done = await until('the retried analysis to finish', async () => {
       const a = await findAnalysis(analysis.id);
