@@ -169,7 +169,7 @@ export interface AnalyzeOptions {
    * of the 9-layer): mean error −0.24/−0.26 % → +0.08/+0.06 % (sequential/refit), RMS 0.48/0.53 %
    * → 0.41/0.45 %, max 1.41/1.27 % → 1.17/1.06 %; 9-layer RMS 0.40/0.39 → 0.37/0.35 %; 3σ coverage
    * unchanged (96/96, 95/96 cut refit). Where the controller does not overshoot its cost: RMS
-   * 0.19/0.28 → 0.37/0.41 % (12 layers), 0.13 → 0.34 % (9), no miss of 3σ; with
+   * 0.19/0.28 → 0.37/0.41 % (12 layers), 0.13 → 0.34 % (9), 0.21 → 0.77 % (one layer, max 1.13 %), no miss of 3σ; with
    * turningPointOvershootPct 0 there, 0.19/0.28 %. @default true
    */
   turningPointExcessMean?: boolean;
