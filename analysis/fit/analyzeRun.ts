@@ -25,7 +25,7 @@ import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
 import { levelCutEnds } from './levelCutEnds';
 import { turningPointEndS, turningPointEndsOnChip } from './turningPointEnd';
-import { excessErrorMeanSquare, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess, type TurningPointExcess } from './turningPointExcess';
+import { excessErrorMeanSquare, excessErrorVariance, excessMeanShiftNm, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess, type TurningPointExcess } from './turningPointExcess';
 import { segmentByDesign } from './designSegments';
 import { carryStackUncertainty, emptyStack, type StackCovariance } from './stackUncertainty';
 import { startValues } from './startValues';
@@ -114,6 +114,7 @@ export const ANALYZE_DEFAULTS = {
   indexGradient: false,
   growthFromNext: true,
   turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
+  turningPointExcessMean: true,
   holdUncarriedDrift: true,
   startTransient: true,
   levelStartTransient: false,
@@ -609,20 +610,28 @@ async function analyzeLayers(
   ends?.finish(o.mode === 'refit');
   // A turning-point cut ended on its fitted turning point (no layer column): the excess past it,
   // which the trace does not show, and the excess of the layer below, which moved its turning
-  // point, into σ (fit/turningPointExcess.ts); the estimates stay on the turning points.
+  // point, moved by their mean into the estimate and their variance into σ, or (option
+  // turningPointExcessMean off) their mean square about the turning point into σ alone
+  // (fit/turningPointExcess.ts).
   if (byDesign) {
     const excess = new Map<LayerState, TurningPointExcess>();
     for (const s of states) if (s.design.monitor.cut === 'turning-point') excess.set(s, turningPointExcess(s.fit, s.estimate, o.turningPointOvershootPct));
-    const meanSquares = states.map((s) => {
+    for (const s of states) {
       const own = excess.get(s);
-      if (!own) return 0;
+      if (!own) continue;
       const chipStates = chipLayers.get(s.samples.chip)!;
       const j = chipStates.indexOf(s);
       const under = j > 0 ? excess.get(chipStates[j - 1]) ?? null : null;
       const below = chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));
-      return excessErrorMeanSquare(own, under, under ? turningPointCompensation(s.fit, s.estimate.index, below, s.estimate.thicknessNm) : null);
-    });
-    states.forEach((s, i) => (s.estimate = withWanderVariance(s.estimate, meanSquares[i])));
+      const c = under ? turningPointCompensation(s.fit, s.estimate.index, below, s.estimate.thicknessNm) : null;
+      if (!o.turningPointExcessMean) {
+        s.estimate = withWanderVariance(s.estimate, excessErrorMeanSquare(own, under, c));
+        continue;
+      }
+      const shiftNm = excessMeanShiftNm(own, under, c);
+      const e = { ...s.estimate, thicknessNm: s.estimate.thicknessNm + shiftNm, opticalThicknessNm: s.estimate.opticalThicknessNm + s.estimate.index * shiftNm };
+      s.estimate = withWanderVariance(e, excessErrorVariance(own, under, c));
+    }
   }
   if (o.mode === 'sequential') {
     // A layer whose own choice kept no wander takes its material's shared one (fit/pooledWander.ts).

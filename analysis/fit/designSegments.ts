@@ -146,6 +146,23 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
     const near = (i: number, j: number) => t[Math.min(cands[j].startIndex, n - 1)] - t[Math.max(cands[i].endIndex - 1, 0)] <= spanGap;
     while (a > 0 && near(a - 1, a) && Math.abs(cands[a - 1].endLevel - cands[a].startLevel) < stepTol) a--;
     while (b < m - 1 && near(b, b + 1) && Math.abs(cands[b + 1].startLevel - cands[b].endLevel) < stepTol) b++;
+    // Across a chip change a pause holds the old chip's level, the dark moment and the bare new
+    // chip, and a layer's slow start or end there (the turning point at a quarter-wave stack's
+    // start, a rate wandering low near a turning-point cut) may break the flat into fragments that
+    // step by more than stepTol: the search reaches over the fragments on the layer's own side of
+    // the chip change (no dark dip between, nearer the layer's level than the other chip's).
+    const ownSide = (c: Cand, own: number, other: number | null) => {
+      const level = 0.5 * (c.startLevel + c.endLevel);
+      return !c.unseen && (other === null || Math.abs(level - own) < Math.abs(level - other));
+    };
+    if (!sameChipBefore) {
+      const own = best.gain * expected[k - 1].startLevel, other = k > 1 ? best.gain * expected[k - 2].endLevel : null;
+      while (a > pauses[p].first && ownSide(cands[a - 1], own, other) && !dipBetween(y, cands[a - 1], cands[a])) a--;
+    }
+    if (!sameChipAfter) {
+      const own = best.gain * expected[k - 1].endLevel, other = k < L ? best.gain * expected[k].startLevel : null;
+      while (b < pauses[q].last && ownSide(cands[b + 1], own, other) && !dipBetween(y, cands[b], cands[b + 1])) b++;
+    }
     // around a pause not seen (a level crossing) the boundary may lie a quarter of the layer either way
     const reach = () => Math.max(30, 0.25 * (t[endIndex - 1] - t[startIndex])) / Math.max((t[n - 1] - t[0]) / Math.max(n - 1, 1), 1e-9);
     windows.push({
@@ -284,6 +301,13 @@ function median(y: ArrayLike<number>, from: number, to: number): number {
 function quantile(y: ArrayLike<number>, q: number): number {
   const a = Float64Array.from(y).sort();
   return a[Math.floor(q * (a.length - 1))];
+}
+
+/** Whether the reading between two flat stretches falls below half the lower of their levels (a chip change's dark moment). */
+function dipBetween(y: ArrayLike<number>, a: FlatStretch, b: FlatStretch): boolean {
+  const floor = 0.5 * Math.min(a.endLevel, b.startLevel);
+  for (let i = a.endIndex; i < b.startIndex; i++) if (y[i] < floor) return true;
+  return false;
 }
 
 /** Sample indices where 1 s means of the reading cross one of the levels (at most one per level every 10 s), as zero-length unseen pauses. */

@@ -86,3 +86,22 @@ export function excessErrorMeanSquare(own: TurningPointExcess, below: TurningPoi
   const c = compensation;
   return Math.max(c * c * below.meanSquareNm2 - 2 * c * below.meanNm * own.meanNm + own.meanSquareNm2, 0);
 }
+
+/**
+ * What a turning-point layer placed on its turning point lacks on average, nm: the truth lies
+ * v − c·u past it (excessErrorMeanSquare), so E[v] − c·E[u]; added, the estimate stands at the
+ * posterior mean under the excesses' priors (the trace tells nothing of them).
+ */
+export function excessMeanShiftNm(own: TurningPointExcess, below: TurningPointExcess | null, compensation: number | null): number {
+  return own.meanNm - (below && compensation !== null ? compensation * below.meanNm : 0);
+}
+
+/**
+ * The variance the excesses leave about that mean: c²·Var(u) + Var(v) for independent u and v
+ * (Var = E[x²] − E[x]²), the σ of an estimate moved by excessMeanShiftNm.
+ */
+export function excessErrorVariance(own: TurningPointExcess, below: TurningPointExcess | null, compensation: number | null): number {
+  const variance = (x: TurningPointExcess) => Math.max(x.meanSquareNm2 - x.meanNm * x.meanNm, 0);
+  const c = below && compensation !== null ? compensation : 0;
+  return c * c * (below ? variance(below) : 0) + variance(own);
+}

@@ -54,7 +54,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     for (const key of ['rateWander', 'indexGradient', 'levelStartTransient'] as const) if (form.get(key) === 'on') settings[key] = true;
-    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift'] as const) if (form.get(key) !== 'on') settings[key] = false;
+    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
     if (res.status === 201 && body.analysis) {
@@ -106,7 +106,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           <input id="re-lamp" name="lampStability" type="number" min="0" max="20" step="0.1" placeholder="1 (default)" className={select} />
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-overshoot">Without a layer column: how far past a turning point the controller may cut, % of the layer (carried into σ)</label>
+          <label htmlFor="re-overshoot">Without a layer column: how far past a turning point the controller may cut, % of the layer (its mean into the thickness, its spread into σ)</label>
           <input id="re-overshoot" name="turningPointOvershoot" type="number" min="0" max="10" step="0.1" placeholder="1 (default)" className={select} />
         </div>
         <div className="flex flex-col justify-end gap-1 text-sm sm:col-span-2 lg:col-span-4">
@@ -126,6 +126,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </legend>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="growthFromNext" defaultChecked /> Read the growth after a turning-point cut from the next layer&apos;s start
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="turningPointExcessMean" defaultChecked /> Without a layer column: a turning-point cut&apos;s thickness at the mean overshoot past its turning point (unchecked: on the turning point)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="rateWander" /> The rate may wander within a layer (kept only where the data asks for it)

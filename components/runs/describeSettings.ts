@@ -18,6 +18,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.holdUncarriedDrift === false) parts.push('every rate drift free');
   if (s.indexGradient === true) parts.push('index gradient in thick layers');
   if (s.growthFromNext === false) parts.push('growth after turning-point cuts in σ only');
+  if (s.turningPointExcessMean === false) parts.push('turning-point cuts placed on the turning point');
   if (typeof s.turningPointOvershootPct === 'number') parts.push(`turning-point overshoot up to ${+s.turningPointOvershootPct.toFixed(3)} %`);
   return parts.join(' · ');
 }

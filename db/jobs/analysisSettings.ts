@@ -23,6 +23,7 @@ export const analysisSettingsSchema = z
     indexGradient: z.boolean().optional(),
     growthFromNext: z.boolean().optional(),
     turningPointOvershootPct: z.number().min(0).max(10).optional(),
+    turningPointExcessMean: z.boolean().optional(),
   })
   .strict();
 export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { type LayerEstimate } from '../fitLayers';
 import { type FitLayerData } from '../layerModel';
-import { excessErrorMeanSquare, SHUTTER_CLOSE_S, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess } from '../turningPointExcess';
+import { excessErrorMeanSquare, excessErrorVariance, excessMeanShiftNm, SHUTTER_CLOSE_S, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess } from '../turningPointExcess';
 
 const optics = { ambient: { re: 1, im: 0 }, substrate: { re: 1.52, im: 0 }, backside: false, wavelengthNm: 600, mode: 'T' as const };
 const qw = (n: number) => 600 / (4 * n);
@@ -87,5 +87,25 @@ describe("the excess past a turning point that a trace without a layer column do
     expect(excessErrorMeanSquare(own, below, c) / m2).toBeCloseTo(1, 2);
     // on a bare chip, or below a layer whose end the data read: its own excess alone
     expect(excessErrorMeanSquare(own, null, null)).toBe(own.meanSquareNm2);
+  });
+
+  it('moves the estimate by E[v] − c·E[u] and leaves the variance of c·u − v about it', () => {
+    const own = turningPointExcess(layer(1.46, 206), estimate(1.46, 0.5));
+    const below = turningPointExcess(layer(2.3, 260), estimate(2.3, 0.25));
+    const u = uniforms(13);
+    const c = 0.9;
+    let m1 = 0, m2 = 0;
+    const n = 200_000;
+    for (let i = 0; i < n; i++) {
+      // the truth past the turning point the fit finds: v − c·u
+      const e = own.overshootMaxNm * u() + own.growthMaxNm * u() - c * (below.overshootMaxNm * u() + below.growthMaxNm * u());
+      m1 += e / n;
+      m2 += (e * e) / n;
+    }
+    expect(excessMeanShiftNm(own, below, c)).toBeCloseTo(m1, 2);
+    expect(excessErrorVariance(own, below, c) / (m2 - m1 * m1)).toBeCloseTo(1, 2);
+    // a uniform on [0, a] has variance a²/12: on a bare chip, the two uniforms' variances summed
+    expect(excessMeanShiftNm(own, null, null)).toBe(own.meanNm);
+    expect(excessErrorVariance(own, null, null)).toBeCloseTo((own.overshootMaxNm ** 2 + own.growthMaxNm ** 2) / 12, 12);
   });
 });

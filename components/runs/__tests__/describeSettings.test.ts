@@ -18,6 +18,9 @@ describe('analysis settings', () => {
       "refit · gain drift fitted under the lamp's stability · lamp stability 0.5 %/h",
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', turningPointOvershootPct: 0.3 }))).toBe('refit · turning-point overshoot up to 0.3 %');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', turningPointExcessMean: false }))).toBe(
+      'sequential · turning-point cuts placed on the turning point',
+    );
   });
 
   it('refuses an option the fit does not know, and a wrong type', () => {
