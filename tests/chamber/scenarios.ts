@@ -111,7 +111,7 @@ export function scenarios(): Scenario[] {
       design: mirrorDesign(18, 6), seeds: [15, 16], targets: CHAMBER_TARGETS,
       options: { ...RATES, ...NOISE_AND_SPIKES },
       modes: {
-        sequential: pending('thickness up to 0.86 %, cut 0.73 % QWOT, 3σ coverage 100 %: σ_d (≈ the Cramér–Rao bound for this white + AR(1) noise) is 0.20–0.51 % per layer, so the largest of 36 errors lands near 2.5σ'),
+        sequential: pending('thickness up to 0.86 %, cut 0.73 % QWOT, 3σ coverage 100 %: σ_d is at the Cramér–Rao bound of each layer\'s own samples (0.19–0.33 %; σ_d/bound median 1.14, RMS error/bound 1.06 over seeds 15–30, fitEfficiency.test.ts), at which the largest of 36 errors averages 0.65 % and stays within 0.5 % with probability 12 %; the whole chip\'s record allows 0.07–0.30 % (probability 57 %), which refit nears (RMS error 1.25× that bound)'),
         refit: pending('thickness up to 1.10 %, cut 0.93 % QWOT, coverage 97 %: the last layer on each chip (nothing above pins its turning-point end; σ_d 0.27–0.42 %, others 0.06–0.2 %): layer 12 of seed 15 is 1.10 % (4σ) with the chip-wide gain, 0.87 % with per-layer gains as sequential (its own data ask for a gain 0.3 % low); over seeds 15–24 refit is the better (RMS 0.38 % last layers, 0.14 % others; sequential 0.39 %, 0.26 %), the last layers +0.13 % from the run\'s shutter time under its bound at 0'),
       },
     },
