@@ -154,6 +154,21 @@ describe('the bound code', () => {
     });
   });
 
+  it('the whole chip\'s wander bound: a vanishing wander gives B, the block length hardly matters, the wander widens it', { timeout: 60_000 }, () => {
+    const s = scenarios().find((x) => x.name === 'correlated noise and rate wander, mirror')!;
+    const run = simulateChamberRun(s.design, { ...s.options, seed: s.seeds[0] });
+    const plain = chipBound(s.design, s.options, run, 2);
+    const none = chipBound(s.design, { ...s.options, rateWander: { fraction: 1e-7, correlationS: 15 } }, run, 2, { wanderBlockS: 5 });
+    const coarse = chipBound(s.design, s.options, run, 2, { wanderBlockS: 5 }), fine = chipBound(s.design, s.options, run, 2, { wanderBlockS: 2.5 });
+    plain.forEach((b, j) => {
+      expect(none[j].thicknessSigmaNm / b.thicknessSigmaNm).toBeCloseTo(1, 3);
+      expect(coarse[j].thicknessSigmaNm / fine[j].thicknessSigmaNm).toBeCloseTo(1, 1);
+      expect(coarse[j].thicknessSigmaNm).toBeGreaterThan(b.thicknessSigmaNm);
+      // and under the layer's own wander bound: the next layer pins the end
+      expect(coarse[j].thicknessSigmaNm).toBeLessThan(wanderBoundNm(s.design, s.options, run, run.truth.layers[b.layer - 1], 0.005, 5) * 1.0001);
+    });
+  });
+
   it('the wander bound: a vanishing wander gives the plain bound; the scenario\'s wander widens it', { timeout: 60_000 }, () => {
     const s = scenarios().find((x) => x.name === 'correlated noise and rate wander, mirror')!;
     const run = simulateChamberRun(s.design, { ...s.options, seed: s.seeds[0] });

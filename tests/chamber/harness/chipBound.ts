@@ -4,7 +4,7 @@
 import { type ChamberDesign, dispersion } from '../design';
 import { type ChamberOptions, type ChamberRun, type LayerTruth } from '../options';
 import { layerMatrix, mul, response, stackMatrices, type Mat } from '../thinFilm';
-import { fisherInformation, invert, quadratic } from './cramerRao';
+import { invert, quadratic, whiten } from './cramerRao';
 import { detectorNoise } from './layerBound';
 
 export interface ChipBoundOptions {
@@ -14,6 +14,12 @@ export interface ChipBoundOptions {
    * nothing after it tells it to first order at a turning point). @default 'known'
    */
   growth?: 'known' | 'free';
+  /**
+   * With the scenario's rateWander: each layer's wander as a random nuisance under its prior,
+   * constant over blocks of this many seconds (the hybrid bound of wanderBound.ts, over the chip;
+   * the simulator draws each layer's wander afresh). @default none (no wander)
+   */
+  wanderBlockS?: number;
 }
 
 export interface ChipLayerBound {
@@ -86,21 +92,79 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
 
   const growth = o.growth ?? 'known';
   const free = [...layers.flatMap((_, j) => [per * j, per * j + 1, per * j + 2, ...(growth === 'free' && j < layers.length - 1 ? [per * j + 3] : [])]), gIndex];
-  const columns = free.map((p) => {
+  const derivative = (p: number) => {
     const up = [...theta], down = [...theta];
     up[p] += steps[p];
     down[p] -= steps[p];
     const a = signal(up), b = signal(down);
     return a.map((v, i) => (v - b[i]) / (2 * steps[p]));
-  });
-  const crb = invert(fisherInformation(columns, detectorNoise(options)));
+  };
+  const columns = free.map(derivative);
+  // The wander's columns from ∂s/∂r and ∂s/∂(end thickness) (= ∂s/∂g): in layer j at step m,
+  // ∂s/∂u_k = (∂s/∂r)/τ_m · r·Δt·#{steps < m in block k}; after it, ∂s/∂g · r·Δt·#{steps in block k}.
+  function wanderColumns(blockS: number) {
+    const w = options.rateWander!;
+    const B = Math.max(1, Math.round(blockS / dt)), rho = Math.exp(-(B * dt) / w.correlationS), e2 = w.fraction ** 2 * (1 - rho * rho);
+    const out: Float64Array[] = [], firstNonZero: number[] = [], prior: [number, number, number][] = [], offsets: number[] = [];
+    const count = (m: number, kb: number) => Math.min(Math.max(m - kb * B, 0), B);
+    layers.forEach((l, j) => {
+      const jr = columns[free.indexOf(per * j + 1)], jg = derivative(per * j + 3);
+      const nj = Math.round(tauEnd[j] / dt) + 1, blocks = Math.ceil(nj / B), r = theta[per * j + 1];
+      const f0 = first.get(l.layer)!, last = f0 + nj - 1;
+      offsets.push(out.length);
+      for (let kb = 0; kb < blocks; kb++) {
+        const col = new Float64Array(idx.length);
+        let nz = -1;
+        idx.forEach((i, q) => {
+          if (i >= f0 && i <= last) {
+            const m = i - f0;
+            if (m > 0 && count(m, kb) > 0) col[q] = (jr[q] / (m * dt)) * r * dt * count(m, kb);
+          } else if (i > last) col[q] = jg[q] * r * dt * count(nj - 1, kb);
+          if (nz < 0 && col[q] !== 0) nz = q;
+        });
+        const a = out.length;
+        out.push(col);
+        firstNonZero.push(nz < 0 ? idx.length : nz);
+        prior.push([a, a, (kb === 0 || kb === blocks - 1 ? 1 : 1 + rho * rho) / e2]);
+        if (kb > 0) prior.push([a, a - 1, -rho / e2], [a - 1, a, -rho / e2]);
+      }
+    });
+    const endGradient = (j: number) => out.map((_, a) => {
+      const start = offsets[j], end = j + 1 < offsets.length ? offsets[j + 1] : out.length;
+      if (a < start || a >= end) return 0;
+      return theta[per * j + 1] * dt * count(Math.round(tauEnd[j] / dt), a - start);
+    });
+    return { columns: out, firstNonZero: [...columns.map(() => 0), ...firstNonZero], prior, endGradient };
+  }
+
+  const wander = o.wanderBlockS !== undefined && options.rateWander ? wanderColumns(o.wanderBlockS) : null;
+  const all = [...columns, ...(wander?.columns ?? [])];
+  const info = gram(whiten(all, detectorNoise(options)), wander?.firstNonZero);
+  if (wander) for (const [a, b, v] of wander.prior) info[columns.length + a][columns.length + b] += v;
+  const crb = invert(info);
   return layers.map((l, j) => {
-    const gradD = free.map((p) => (p === per * j + 1 ? tauEnd[j] : p === per * j + 2 ? 0.5 * tauEnd[j] ** 2 : p === per * j + 3 ? 1 : 0));
-    const gradND = free.map((p) => (p === per * j ? l.thicknessNm : l.index * gradD[free.indexOf(p)]));
+    const gradTheta = free.map((p) => (p === per * j + 1 ? tauEnd[j] : p === per * j + 2 ? 0.5 * tauEnd[j] ** 2 : p === per * j + 3 ? 1 : 0));
+    const gradD = [...gradTheta, ...(wander ? wander.endGradient(j) : [])];
+    const gradND = gradD.map((v, q) => (q === free.indexOf(per * j) ? l.thicknessNm : l.index * v));
     const opticalSigmaNm = Math.sqrt(quadratic(crb, gradND));
     return {
       layer: l.layer, thicknessSigmaNm: Math.sqrt(quadratic(crb, gradD)), indexSigma: Math.sqrt(crb[free.indexOf(per * j)][free.indexOf(per * j)]),
       opticalSigmaNm, cutSigmaQwotPct: (opticalSigmaNm / (wl / 4)) * 100,
     };
   });
+}
+
+/** Wᵀ·W of whitened columns; a column zero before `firstNonZero[c]` stays so after whitening. */
+function gram(w: readonly Float64Array[], firstNonZero?: readonly number[]): number[][] {
+  const m = w.length, n = m ? w[0].length : 0;
+  const info = Array.from({ length: m }, () => new Array<number>(m).fill(0));
+  for (let a = 0; a < m; a++) {
+    for (let b = a; b < m; b++) {
+      const x = w[a], y = w[b];
+      let s = 0;
+      for (let i = Math.max(firstNonZero?.[a] ?? 0, firstNonZero?.[b] ?? 0); i < n; i++) s += x[i] * y[i];
+      info[a][b] = info[b][a] = s;
+    }
+  }
+  return info;
 }

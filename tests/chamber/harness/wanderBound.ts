@@ -12,12 +12,12 @@ import { detectorNoise, jacobianColumns, layerSignalModel } from './layerBound';
 const BLOCK_S = 1;
 
 /** σ of the end thickness (nm) from the layer's own samples, (n, r, a, G) free, the wander as the simulator draws it. */
-export function wanderBoundNm(design: ChamberDesign, options: ChamberOptions, run: ChamberRun, truth: LayerTruth, gainPriorFraction = 0.005): number {
+export function wanderBoundNm(design: ChamberDesign, options: ChamberOptions, run: ChamberRun, truth: LayerTruth, gainPriorFraction = 0.005, blockS = BLOCK_S): number {
   const wander = options.rateWander;
   if (!wander) throw new RangeError('wanderBoundNm: the scenario has no rate wander');
   const model = layerSignalModel(design, options, run, truth);
   const dt = run.sampleIntervalS, n = model.samples, rate = model.theta[1];
-  const per = Math.max(1, Math.round(BLOCK_S / dt)), blocks = Math.ceil(n / per);
+  const per = Math.max(1, Math.round(blockS / dt)), blocks = Math.ceil(n / per);
   const jTheta = jacobianColumns(model, [0, 1, 2, 3]);
   // d_i = Σ_{j<i} r(1 + w_j)Δt (the simulator's growth), so ∂s_i/∂u_k = s'(d_i)·r·Δt·#{j < i in block k}
   // and s'(d_i) = (∂s_i/∂r)/τ_i
