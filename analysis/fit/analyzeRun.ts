@@ -1,7 +1,7 @@
 import { type Design, type DesignLayer } from '../design';
 import { indexAt } from '../materials';
 import { type Complex } from '../optics';
-import { driftEstimateAt, newVariogramPool, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
+import { driftEstimateAt, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
@@ -35,7 +35,8 @@ import { indexSeparation } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
 import { type RateWander } from './rateWander';
-import { chooseRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
+import { wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
+import { wanderChooser, wanderChoiceRequest } from './wanderChoiceRequest';
 import { sharedWanderCosts, type WanderEvidence } from './pooledWander';
 import { addWanderVariance, wanderErrorVariances, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
@@ -313,7 +314,12 @@ async function analyzeLayers(
   // those it carries no stack (its fits only build the stack each profile stands on).
   const stackRead = !transient.profiles || o.growthFromNext || o.rateWander
     || order.some((l) => (4 * indexAt(design.materials[l.material], l.monitor.wavelengthNm).re * l.thicknessNm) / l.monitor.wavelengthNm < o.thinLayerQwot);
-  const noisePool = newVariogramPool();
+  // The choices take the layers in order, with one variogram pool a pass. Where nothing reads a
+  // choice before the pass's end (refit, the wander not fitted), wanderChoices may make them
+  // elsewhere while the fits go on.
+  const chooseHere = wanderChooser();
+  const chooseElsewhere = o.mode === 'refit' && !o.rateWander && o.wanderChoices ? o.wanderChoices() : null;
+  const laterChoices: { choice: Promise<WanderChoice>; built: { state?: LayerState } }[] = [];
   let done = 0;
   for (const dl of order) {
     const samples = samplesByLayer.get(dl.layer)!;
@@ -466,21 +472,25 @@ async function analyzeLayers(
       // which a wander moves; a level cut's end sits on a slope that reads it directly, and there
       // the knots took up calibration misfit instead (chamber BBAR, demo BBAR: cut errors at |z| ≈ 10).
       const e = single.layers[0];
-      const choice = chooseRateWander({
+      const request = wanderChoiceRequest({
         below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: pick(trace.signal, samples.indices),
-        gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0, noisePool,
+        gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0,
         ...(stacks.has(chip) ? { stack: ends ? ends.stackWithGrowth(chip, stacks.get(chip)!) : stacks.get(chip)! } : {}),
         growthFromHere: o.growthFromNext && !!ends && below.length > 0,
-      });
-      if (!o.rateWander && o.mode === 'sequential') built.scores = { scores: choice.scores, rateNmPerS: e.rateNmPerS, pointSigma: choice.sampleSigma };
-      if (choice.wander && !o.rateWander) built.unmodelled = choice.wander;
-      else if (choice.wander) {
-        built.wander = choice.wander;
-        const pointSigma = (count: number) => choice.wander!.pointSigma * Math.sqrt(count / n);
-        fit.wander = { ...choice.wander, pointSigma: pointSigma(fit.tauS.length) };
-        refit.wander = { ...choice.wander, pointSigma: pointSigma(refit.tauS.length) };
-        single = fitSingle(e.index, e.rateNmPerS, e.gain, { rateDriftNmPerS2: e.rateDriftNmPerS2, indexGradient: e.indexGradient });
-        built.wanderVariance = wanderEndVariance(fit, single.solver.covariance);
+      }, model);
+      if (chooseElsewhere) laterChoices.push({ choice: chooseElsewhere(request), built });
+      else {
+        const choice = chooseHere(request);
+        if (!o.rateWander && o.mode === 'sequential') built.scores = { scores: choice.scores, rateNmPerS: e.rateNmPerS, pointSigma: choice.sampleSigma };
+        if (choice.wander && !o.rateWander) built.unmodelled = choice.wander;
+        else if (choice.wander) {
+          built.wander = choice.wander;
+          const pointSigma = (count: number) => choice.wander!.pointSigma * Math.sqrt(count / n);
+          fit.wander = { ...choice.wander, pointSigma: pointSigma(fit.tauS.length) };
+          refit.wander = { ...choice.wander, pointSigma: pointSigma(refit.tauS.length) };
+          single = fitSingle(e.index, e.rateNmPerS, e.gain, { rateDriftNmPerS2: e.rateDriftNmPerS2, indexGradient: e.indexGradient });
+          built.wanderVariance = wanderEndVariance(fit, single.solver.covariance);
+        }
       }
     }
     if (o.mode === 'sequential' && stackRead) {
@@ -541,6 +551,11 @@ async function analyzeLayers(
   }
 
   if (transient.profiles) return null;
+  // the choices made elsewhere, as the layers' states would have taken them
+  for (const { choice, built } of laterChoices) {
+    const wander = (await choice).wander;
+    if (wander) built.state!.unmodelledWander = wander;
+  }
   if (o.mode === 'refit') {
     // Thin layers: hold at the drift estimate from the whole run, then one final joint fit per chip.
     const points = states.map(toIndexPoint);

@@ -4,6 +4,8 @@ import { type LayerSpectrum } from './layerSpectrum';
 import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
 import { type StartDelayProfile } from './startDelay';
 import { type StartDelayProfileRequest } from './startDelayRequest';
+import { type WanderChoice } from './wanderChoice';
+import { type WanderChoiceRequest } from './wanderChoiceRequest';
 
 export type AnalysisMode = 'sequential' | 'refit';
 
@@ -267,6 +269,13 @@ export interface AnalyzeOptions {
    * @default profileFromRequest, on this thread
    */
   startDelayProfileOf?: (request: StartDelayProfileRequest) => Promise<StartDelayProfile | null>;
+  /**
+   * Makes a pass's wander choices elsewhere, e.g. on another thread, where they are read only once
+   * the pass's fits are done (refit with rateWander off). Called once a pass, it returns what is
+   * asked each layer's choice in turn, which must resolve to what wanderChooser's function returns.
+   * @default wanderChooser, on this thread, as each layer is fitted
+   */
+  wanderChoices?: () => (request: WanderChoiceRequest) => Promise<WanderChoice>;
 }
 
 export interface TurningPointAt {

@@ -97,21 +97,22 @@ function variogram(e: ArrayLike<number>, maxLag: number, pool?: VariogramPool): 
   const lags: number[] = [];
   for (let k = 1; k <= L; k += k < 8 ? 1 : 2) lags.push(k);
   let gamma: number[] = [];
-  const d = new Float64Array(n);
+  // Scratch arrays shared by every lag: the differences, their absolute deviations, and a copy of
+  // either for the selection to reorder (the sum runs over the unreordered ones, in order).
+  const d = new Float64Array(n), abs = new Float64Array(n), work = new Float64Array(n);
   const sums: number[] = [], counts: number[] = [];
   for (const k of lags) {
     const m = n - k;
-    for (let i = 0; i < m; i++) d[i] = e[i + k] - e[i];
-    const part = d.subarray(0, m);
+    differencesAt(e, k, d);
     // Squared differences, winsorised at 4 MAD-σ: nearly the efficiency of the plain mean (the
     // MAD alone has 37 %), without the spikes.
-    const med = medianInPlace(part.slice());
-    // (a plain loop: Float64Array.from with a map function was most of the fit's time on 100 Hz traces)
-    const abs = new Float64Array(m);
-    for (let i = 0; i < m; i++) abs[i] = Math.abs(part[i] - med);
-    const cap = 4 * 1.4826 * medianInPlace(abs.slice());
-    let ss = 0;
-    for (let i = 0; i < m; i++) ss += Math.min(abs[i], cap) ** 2;
+    const scratch = work.subarray(0, m);
+    scratch.set(d.subarray(0, m));
+    const med = medianInPlace(scratch);
+    absoluteDeviations(d, med, m, abs);
+    scratch.set(abs.subarray(0, m));
+    const cap = 4 * 1.4826 * medianInPlace(scratch);
+    const ss = cappedSquares(abs, m, cap);
     gamma.push(ss / m / 2);
     sums.push(ss / 2);
     counts.push(m);
@@ -125,6 +126,27 @@ function variogram(e: ArrayLike<number>, maxLag: number, pool?: VariogramPool): 
     gamma = lags.map((k) => pool.sums.get(k)! / pool.counts.get(k)!);
   }
   return { lags, gamma };
+}
+
+// The loops over the samples sit in small functions of their own (see trace/robustStats.ts), and
+// the arrays are allocated once a series, not once a lag.
+
+/** d[i] ← e[i + k] − e[i] for i < n − k. */
+function differencesAt(e: ArrayLike<number>, k: number, d: Float64Array): void {
+  const m = e.length - k;
+  for (let i = 0; i < m; i++) d[i] = e[i + k] - e[i];
+}
+
+/** out[i] ← |d[i] − med| for i < m. */
+function absoluteDeviations(d: Float64Array, med: number, m: number, out: Float64Array): void {
+  for (let i = 0; i < m; i++) out[i] = Math.abs(d[i] - med);
+}
+
+/** Σ min(a[i], cap)² over i < m, in order. */
+function cappedSquares(a: Float64Array, m: number, cap: number): number {
+  let ss = 0;
+  for (let i = 0; i < m; i++) ss += Math.min(a[i], cap) ** 2;
+  return ss;
 }
 
 /** The white + AR(1) least squares of fitAr1PlusWhite on a variogram γ at its lags. */

@@ -7,6 +7,8 @@ import { parseDesign } from '../../design';
 import { analyzeRun } from '../../fit/analyzeRun';
 import { layerSampleWork } from '../../fit/layerSampleWork';
 import { layerSpectrum } from '../../fit/layerSpectrum';
+import { wanderChooser } from '../../fit/wanderChoiceRequest';
+import { wanderRequests } from '../../fit/__tests__/wanderLayers';
 import { readTrace } from '../../trace';
 import { startSpectrumThread } from '../spectrumThread';
 
@@ -54,6 +56,31 @@ describe('the analyze command computes spectra on a second thread', () => {
     // sin(τ/9) turns at τ = 9·(π/2 + kπ): k = 0 … 10 within the 300 s, at 100 s + τ on the clock
     expect(got.observed!.points.map((p) => p.timeS)).toEqual(Array.from({ length: 11 }, (_, k) => expect.closeTo(100 + 9 * (Math.PI / 2 + k * Math.PI), 0)));
   });
+
+  it('makes a pass\'s wander choices here, in order on one pool, when the thread cannot start', async () => {
+    const requests = wanderRequests([0, 0.03, 0], 2);
+    const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
+    const ask = t.wanderChoices();
+    const got = await Promise.all(requests.map((r) => ask(r)));
+    t.close();
+    const choose = wanderChooser();
+    expect(got).toEqual(requests.map((r) => choose(r)));
+  });
+
+  it('makes the wander choices a thread left (it stopped) here, on a pool that took the pass\'s earlier layers', async () => {
+    // a thread that answers the first request with a marker, then stops at the second
+    const quitting = path.join(cache, 'quitting.mjs');
+    writeFileSync(quitting, "import { parentPort } from 'node:worker_threads';\nlet seen = 0;\nparentPort.on('message', (r) => { if (seen++ === 0) parentPort.postMessage({ id: r.id, spectrum: 'first' }); else process.exit(0); });\n");
+    const requests = wanderRequests([0.03, 0, 0.03], 3);
+    const t = startSpectrumThread(pathToFileURL(quitting));
+    const ask = t.wanderChoices();
+    const got = await Promise.all(requests.map((r) => ask(r)));
+    t.close();
+    const choose = wanderChooser();
+    const want = requests.map((r) => choose(r));
+    expect(got[0]).toBe('first');
+    expect(got.slice(1)).toEqual(want.slice(1));
+  }, 10_000);
 
   // the four-layer AR (level cuts); the 17-layer mirror (turning-point cuts: the start delay's profiles on the thread too)
   it.each([['bbar4-visible.json', 'bay2-bb4-run0587.csv'], ['hr17-mirror-600.json', 'bay3-hr17-run1120.csv']])('the bundled command (thread on) prints what analyzeRun gives in process (no thread): %s', async (designName, traceName) => {
