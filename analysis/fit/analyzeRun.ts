@@ -319,7 +319,16 @@ async function analyzeLayers(
   // elsewhere while the fits go on.
   const chooseHere = wanderChooser();
   const chooseElsewhere = o.mode === 'refit' && !o.rateWander && o.wanderChoices ? o.wanderChoices() : null;
-  const laterChoices: { choice: Promise<WanderChoice>; built: { state?: LayerState } }[] = [];
+  const laterChoices = new Map<{ state?: LayerState }, Promise<WanderChoice>>();
+  /** The choices made elsewhere for these layers, as their states would have taken them (awaited chip by chip: the first chips' joint fits go on while the last layers' choices are made). */
+  const tookChoices = async (layers: readonly LayerState[]) => {
+    for (const [built, choice] of laterChoices) {
+      if (!layers.includes(built.state!)) continue;
+      const wander = (await choice).wander;
+      if (wander) built.state!.unmodelledWander = wander;
+      laterChoices.delete(built);
+    }
+  };
   let done = 0;
   for (const dl of order) {
     const samples = samplesByLayer.get(dl.layer)!;
@@ -478,7 +487,7 @@ async function analyzeLayers(
         ...(stacks.has(chip) ? { stack: ends ? ends.stackWithGrowth(chip, stacks.get(chip)!) : stacks.get(chip)! } : {}),
         growthFromHere: o.growthFromNext && !!ends && below.length > 0,
       }, model);
-      if (chooseElsewhere) laterChoices.push({ choice: chooseElsewhere(request), built });
+      if (chooseElsewhere) laterChoices.set(built, chooseElsewhere(request));
       else {
         const choice = chooseHere(request);
         if (!o.rateWander && o.mode === 'sequential') built.scores = { scores: choice.scores, rateNmPerS: e.rateNmPerS, pointSigma: choice.sampleSigma };
@@ -551,11 +560,6 @@ async function analyzeLayers(
   }
 
   if (transient.profiles) return null;
-  // the choices made elsewhere, as the layers' states would have taken them
-  for (const { choice, built } of laterChoices) {
-    const wander = (await choice).wander;
-    if (wander) built.state!.unmodelledWander = wander;
-  }
   if (o.mode === 'refit') {
     // Thin layers: hold at the drift estimate from the whole run, then one final joint fit per chip.
     const points = states.map(toIndexPoint);
@@ -600,6 +604,7 @@ async function analyzeLayers(
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
       carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss, joint);
+      await tookChoices(chipStates);
       if (chipStates.some((p) => p.unmodelledWander)) {
         // each layer's unmodelled wander, through the chip's final joint fit (fit/wanderSigma.ts)
         const v = wanderErrorVariances([], data, joint, cal.offset, chipStates.map((p) => p.unmodelledWander ?? null), cg);
