@@ -64,22 +64,9 @@ const HERE = 1, THERE = 2;
 export function serveSpectra(): void {
   const claims = (workerData as { claims?: Int32Array } | null)?.claims;
   const choosers = new Map<number, Chooser>();
-  const serve = (r: Request) => {
+  parentPort!.on('message', (r: Request) => {
     const mine = !claims || r.id >= claims.length || Atomics.compareExchange(claims, r.id, 0, THERE) === 0;
     parentPort!.postMessage({ id: r.id, spectrum: mine ? answer(r, choosers) : null, skipped: !mine });
-  };
-  // A wander choice as soon as it comes, the rest one at a time in between (each after the
-  // messages that came meanwhile): the choices are what the pass's end waits for, while a
-  // spectrum the asking thread reaches first it makes itself (claims), so neither thread idles.
-  const queue: Request[] = [];
-  const next = () => {
-    serve(queue.shift()!);
-    if (queue.length > 0) setImmediate(next);
-  };
-  parentPort!.on('message', (r: Request) => {
-    if ('wander' in r) return serve(r);
-    queue.push(r);
-    if (queue.length === 1) setImmediate(next);
   });
 }
 

@@ -8,8 +8,8 @@ export function medianInPlace(a: Float64Array): number {
   const n = a.length;
   if (n === 0) return NaN;
   const mid = n >> 1;
-  if (n >= WINDOW_MIN) {
-    const v = medianInWindow(a, mid, n % 2 === 0);
+  if (n >= MEDIAN_WINDOW_MIN) {
+    const v = medianInWindow(a);
     if (v !== null) return v;
   }
   const upper = quickselect(a, mid);
@@ -21,32 +21,45 @@ export function medianInPlace(a: Float64Array): number {
 // times, was optimised mid-loop and thrown back at the next loop over and over).
 
 /** Long arrays first look for the median between two values a sample of them places around it. */
-const WINDOW_MIN = 2048;
-const SAMPLE = 256;
-/** Ranks either side of the sample's median: 2.5 binomial σ (√(SAMPLE/4) = 8), so the window holds the median in ~99 % of draws. */
+export const MEDIAN_WINDOW_MIN = 2048;
+/** Size of the strided sample that places the window (medianWindow). */
+export const MEDIAN_WINDOW_SAMPLE = 256;
+/** Ranks either side of the sample's median: 2.5 binomial σ (√(256/4) = 8), so the window holds the median in ~99 % of draws. */
 const SAMPLE_SPREAD = 20;
 
 /**
  * The median of a when it lies between two order statistics [lo, hi] of a strided sample of a:
  * one pass counts the values below lo and copies those within to a scratch array, without
  * branching on the data, and the selection runs on those alone (the idea of Floyd and Rivest's
- * SELECT, see quickselect). The values below lo, those within and those above hi keep that
- * order, so the k-th of a is the (k − below)-th of the window, ties included; null (a untouched)
- * when the median is not there.
+ * SELECT, see quickselect). null (a untouched) when the median is not there.
  */
-function medianInWindow(a: Float64Array, mid: number, even: boolean): number | null {
+function medianInWindow(a: Float64Array): number | null {
   const n = a.length;
-  const sample = new Float64Array(SAMPLE);
-  const stride = n / SAMPLE;
-  for (let q = 0; q < SAMPLE; q++) sample[q] = a[Math.floor(q * stride)];
-  const lo = quickselect(sample, SAMPLE / 2 - SAMPLE_SPREAD);
-  const hi = quickselect(sample, SAMPLE / 2 + SAMPLE_SPREAD);
+  const sample = new Float64Array(MEDIAN_WINDOW_SAMPLE);
+  const stride = n / MEDIAN_WINDOW_SAMPLE;
+  for (let q = 0; q < MEDIAN_WINDOW_SAMPLE; q++) sample[q] = a[Math.floor(q * stride)];
+  const { lo, hi } = medianWindow(sample);
   if (windowScratch.length < n + 1 && n < KEPT_SCRATCH) windowScratch = new Float64Array(Math.min(2 * n, KEPT_SCRATCH));
   const out = windowScratch.length > n ? windowScratch : new Float64Array(n + 1);
   const below = gatherWindow(a, lo, hi, out);
-  const inside = gathered;
+  return medianFromWindow(out, gathered, below, n);
+}
+
+/** The bounds of a window that holds the median of an array in ~99 % of draws, from a strided sample of it (MEDIAN_WINDOW_SAMPLE values; reordered). */
+export function medianWindow(sample: Float64Array): { lo: number; hi: number } {
+  return { lo: quickselect(sample, MEDIAN_WINDOW_SAMPLE / 2 - SAMPLE_SPREAD), hi: quickselect(sample, MEDIAN_WINDOW_SAMPLE / 2 + SAMPLE_SPREAD) };
+}
+
+/**
+ * The median of n values of which `below` lie below a window [lo, hi] and window[0, inside)
+ * within it (reordered here), or null when the median is not within. The values below lo, those
+ * within and those above hi keep that order, so the k-th of all is the (k − below)-th of the
+ * window, ties included.
+ */
+export function medianFromWindow(window: Float64Array, inside: number, below: number, n: number): number | null {
+  const mid = n >> 1, even = n % 2 === 0;
   if (below > (even ? mid - 1 : mid) || mid >= below + inside) return null;
-  const w = out.subarray(0, inside);
+  const w = window.subarray(0, inside);
   const upper = quickselect(w, mid - below);
   return even ? 0.5 * (largest(w, mid - below) + upper) : upper;
 }

@@ -102,15 +102,25 @@ function directHalfSum(e: Float64Array, k: number): number {
 }
 
 describe('the robust variogram (its pooled sums)', () => {
-  it('equals the direct sum with sorted medians at every lag, spikes included', () => {
-    const e = ar1PlusWhite(6001, 1, 0.8, 0.95, 21);
-    for (let i = 0; i < e.length; i += 131) e[i] += 40;
-    const pool = newVariogramPool();
-    const lags = addToVariogramPool(e, 60, pool);
-    expect(lags.slice(0, 9)).toEqual([1, 2, 3, 4, 5, 6, 7, 8, 10]);
-    for (const k of lags) {
-      expect(pool.counts.get(k)).toBe(e.length - k);
-      expect(pool.sums.get(k)! / directHalfSum(e, k) - 1).toBeCloseTo(0, 12);
+  it('equals the direct sum with sorted medians at every lag: spikes, a trend, steps, ties, short and long series', () => {
+    const spiky = ar1PlusWhite(6001, 1, 0.8, 0.95, 21);
+    for (let i = 0; i < spiky.length; i += 131) spiky[i] += 40;
+    // a steep trend moves the differences' median with the lag; a strong AR(1) alone moves the MAD
+    const trended = ar1PlusWhite(5000, 0.2, 0, 0, 22).map((v, i) => v + 0.01 * i);
+    const steep = ar1PlusWhite(4000, 0.05, 1, 0.5, 23);
+    // readings in steps of a quantiser (many ties, medians of exactly 0), and a few steps in level
+    const ties = ar1PlusWhite(3000, 1, 0.5, 0.9, 24).map((v, i) => Math.round(v * 2) + (i > 1500 ? 3 : 0));
+    const short = ar1PlusWhite(900, 1, 0.8, 0.9, 25);
+    // a sawtooth of period 37 with a little noise: the differences' median jumps from +18 to −18 between lags
+    const saw = ar1PlusWhite(4000, 0.01, 0, 0, 26).map((v, i) => v + (i % 37));
+    for (const e of [spiky, trended, steep, ties, short, saw]) {
+      const pool = newVariogramPool();
+      const lags = addToVariogramPool(e, 60, pool);
+      expect(lags.slice(0, 9)).toEqual([1, 2, 3, 4, 5, 6, 7, 8, 10]);
+      for (const k of lags) {
+        expect(pool.counts.get(k)).toBe(e.length - k);
+        expect(pool.sums.get(k)! / directHalfSum(e, k) - 1).toBeCloseTo(0, 12);
+      }
     }
   });
 
