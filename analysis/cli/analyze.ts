@@ -38,7 +38,7 @@ export async function analyzeCommand(argv: string[]) {
   try {
     const trace = await loadTrace(tracePath, design.layers.length);
     const result = await analyzeRun(design, trace, {
-      mode, spectrumOf: spectra?.spectrumOf, startDelayProfileOf: spectra?.startDelayProfileOf, wanderChoices: spectra?.wanderChoices,
+      mode, spectrumOf: spectra?.spectrumOf, startDelayProfileOf: spectra?.startDelayProfileOf, wanderPrepOf: spectra?.wanderPrepOf,
     }).catch((e: unknown) => {
       if (e instanceof AnalysisInputError) throw new CliInputError(`${tracePath}: ${e.message}`);
       throw e;

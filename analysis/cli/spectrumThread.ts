@@ -4,16 +4,16 @@ import { layerSampleWork, type SampleWork, type SampleWorkResult } from '../fit/
 import { type StartDelayProfile } from '../fit/startDelay';
 import { profileFromRequest, type StartDelayProfileRequest } from '../fit/startDelayRequest';
 import { type AnalyzeOptions } from '../fit/types';
-import { type WanderChoice } from '../fit/wanderChoice';
-import { wanderChooser, type WanderChoiceRequest } from '../fit/wanderChoiceRequest';
+import { wanderPrepBuffers, wanderPrepFromRequest, type WanderChoiceRequest } from '../fit/wanderChoiceRequest';
+import { type WanderPrep } from '../fit/wanderPrep';
 
 // The analyze command computes the layers' spectra (and the work on their samples that needs no
 // fit, layerSampleWork) on a second thread while the main one fits (AnalyzeOptions.spectrumOf),
 // the start delay's profiles while the profiling pass fits on (AnalyzeOptions.startDelayProfileOf),
-// and a refit pass's wander choices (AnalyzeOptions.wanderChoices): the same functions on the same
-// values, so the same figures.
+// and the pool-free part of a refit pass's wander choices (AnalyzeOptions.wanderPrepOf): the same
+// functions on the same values, so the same figures.
 
-type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | StartDelayProfile | WanderChoice | null;
+type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | StartDelayProfile | WanderPrep | null;
 
 const ROLE = 'fringelog-layer-spectra';
 
@@ -23,23 +23,12 @@ type Request = { id: number } & ({
   wavelengthNm: number;
   index: number;
   work?: SampleWork;
-} | { profile: StartDelayProfileRequest } | WanderRequest);
+} | { profile: StartDelayProfileRequest } | { wander: WanderChoiceRequest });
 
-/** A pass's layer's wander choice: `at` its place among the pass's requests. */
-type WanderRequest = { wander: WanderChoiceRequest; pass: number; at: number };
-type Chooser = ReturnType<typeof wanderChooser>;
-
-/**
- * What the thread answers to a request (and this thread, when that one cannot); `choosers` holds
- * each pass's wander chooser, whose variogram pool takes that pass's layers in the order asked.
- */
-function answer(r: Request, choosers: Map<number, Chooser>): Answer {
+/** What the thread answers to a request (and this thread, when that one cannot). */
+function answer(r: Request): Answer {
   if ('profile' in r) return profileFromRequest(r.profile);
-  if ('wander' in r) {
-    let choose = choosers.get(r.pass);
-    if (!choose) choosers.set(r.pass, (choose = wanderChooser()));
-    return choose(r.wander);
-  }
+  if ('wander' in r) return wanderPrepFromRequest(r.wander);
   const spectrum = r.work?.spectrum === false ? NO_SPECTRUM : layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
   return r.work ? { ...spectrum, ...layerSampleWork(r.tauS, r.y, r.work) } : spectrum;
 }
@@ -58,15 +47,14 @@ const HERE = 1, THERE = 2;
 
 /**
  * The thread's side: answers each request it claims with layerSpectrum (or the profile or wander
- * choice asked for); one claimed by the asking thread with null. Wander choices are never claimed
- * there: each pass's are made here, in the order asked (messages arrive in order), on one pool.
+ * prep asked for; a prep's arrays handed over, not copied); one claimed by the asking thread with null.
  */
 export function serveSpectra(): void {
   const claims = (workerData as { claims?: Int32Array } | null)?.claims;
-  const choosers = new Map<number, Chooser>();
   parentPort!.on('message', (r: Request) => {
     const mine = !claims || r.id >= claims.length || Atomics.compareExchange(claims, r.id, 0, THERE) === 0;
-    parentPort!.postMessage({ id: r.id, spectrum: mine ? answer(r, choosers) : null, skipped: !mine });
+    const a = mine ? answer(r) : null;
+    parentPort!.postMessage({ id: r.id, spectrum: a, skipped: !mine }, a && 'wander' in r ? wanderPrepBuffers(a as WanderPrep) : []);
   });
 }
 
@@ -76,19 +64,10 @@ export function serveSpectra(): void {
  */
 export function startSpectrumThread(entry: URL): {
   spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; startDelayProfileOf: NonNullable<AnalyzeOptions['startDelayProfileOf']>;
-  wanderChoices: NonNullable<AnalyzeOptions['wanderChoices']>; close: () => void;
+  wanderPrepOf: NonNullable<AnalyzeOptions['wanderPrepOf']>; close: () => void;
 } {
   const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
-  // Each pass's wander requests, kept so that a choice the thread did not make is made here on a
-  // pool that took every earlier layer of the pass (those choices made again here, in order).
-  const passes: { requests: WanderChoiceRequest[]; made: WanderChoice[]; choose?: Chooser }[] = [];
-  const local = (r: Request): Answer => {
-    if (!('wander' in r)) return answer(r, new Map());
-    const p = passes[r.pass];
-    p.choose ??= wanderChooser();
-    while (p.made.length <= r.at) p.made.push(p.choose(p.requests[p.made.length]));
-    return p.made[r.at];
-  };
+  const local = answer;
   const claims = new Int32Array(new SharedArrayBuffer(4 * CLAIMS));
   let worker: Worker | null = null;
   let closed = false;
@@ -114,8 +93,7 @@ export function startSpectrumThread(entry: URL): {
   let next = 0;
   // What ask returns: a promise that, once awaited (its then called) before the thread has begun
   // the request, claims it and computes it here, so this thread does not wait idle for work
-  // queued behind the thread's (the thread then skips it). Not a wander choice: the thread's pool
-  // must take every layer of the pass.
+  // queued behind the thread's (the thread then skips it).
   const ask = (request: Request): Promise<Answer> => {
     if (!worker) return Promise.resolve(local(request));
     const w = worker;
@@ -124,7 +102,7 @@ export function startSpectrumThread(entry: URL): {
     pending.set(request.id, { request, resolve: settle });
     w.postMessage(request);
     const claim = () => {
-      if (!('wander' in request) && request.id < claims.length && pending.has(request.id) && Atomics.compareExchange(claims, request.id, 0, HERE) === 0) {
+      if (request.id < claims.length && pending.has(request.id) && Atomics.compareExchange(claims, request.id, 0, HERE) === 0) {
         pending.delete(request.id);
         settle(local(request));
       }
@@ -143,15 +121,7 @@ export function startSpectrumThread(entry: URL): {
     spectrumOf: (tauS, y, wavelengthNm, index, work) =>
       ask({ id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) }) as Promise<LayerSpectrum & Partial<SampleWorkResult>>,
     startDelayProfileOf: (profile) => ask({ id: next++, profile }) as Promise<StartDelayProfile | null>,
-    wanderChoices: () => {
-      const pass = passes.length;
-      const requests: WanderChoiceRequest[] = [];
-      passes.push({ requests, made: [] });
-      return (wander) => {
-        requests.push(wander);
-        return ask({ id: next++, wander, pass, at: requests.length - 1 }) as Promise<WanderChoice>;
-      };
-    },
+    wanderPrepOf: (wander) => ask({ id: next++, wander }) as Promise<WanderPrep>,
     close: () => {
       // the analysis is over (done, or failed): nothing pending is wanted any more
       closed = true;

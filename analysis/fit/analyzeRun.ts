@@ -1,7 +1,7 @@
 import { type Design, type DesignLayer } from '../design';
 import { indexAt } from '../materials';
 import { type Complex } from '../optics';
-import { driftEstimateAt, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
+import { driftEstimateAt, newVariogramPool, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { calibrateChips, gainDriftFromChips } from './chipCalibrations';
@@ -35,8 +35,9 @@ import { indexSeparation } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
 import { type RateWander } from './rateWander';
-import { wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
-import { wanderChooser, wanderChoiceRequest } from './wanderChoiceRequest';
+import { chooseRateWander, finishRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
+import { wanderChoiceRequest } from './wanderChoiceRequest';
+import { type WanderPrep } from './wanderPrep';
 import { sharedWanderCosts, type WanderEvidence } from './pooledWander';
 import { addWanderVariance, wanderErrorVariances, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
@@ -314,18 +315,21 @@ async function analyzeLayers(
   // those it carries no stack (its fits only build the stack each profile stands on).
   const stackRead = !transient.profiles || o.growthFromNext || o.rateWander
     || order.some((l) => (4 * indexAt(design.materials[l.material], l.monitor.wavelengthNm).re * l.thicknessNm) / l.monitor.wavelengthNm < o.thinLayerQwot);
-  // The choices take the layers in order, with one variogram pool a pass. Where nothing reads a
-  // choice before the pass's end (refit, the wander not fitted), wanderChoices may make them
-  // elsewhere while the fits go on.
-  const chooseHere = wanderChooser();
-  const chooseElsewhere = o.mode === 'refit' && !o.rateWander && o.wanderChoices ? o.wanderChoices() : null;
-  const laterChoices = new Map<{ state?: LayerState }, Promise<WanderChoice>>();
-  /** The choices made elsewhere for these layers, as their states would have taken them (awaited chip by chip: the first chips' joint fits go on while the last layers' choices are made). */
+  // The wander choices take the layers in order onto one variogram pool a pass. Where nothing
+  // reads a choice before the pass's end (refit, the wander not fitted), wanderPrepOf may make
+  // their pool-free part elsewhere while the fits go on; the pool's part is done here, in order.
+  const noisePool = newVariogramPool();
+  const prepElsewhere = o.mode === 'refit' && !o.rateWander ? o.wanderPrepOf : undefined;
+  const laterChoices = new Map<{ state?: LayerState }, Promise<WanderPrep>>();
+  /** The choices made elsewhere, finished in layer order up to the last of these layers (chip by chip: the first chips' joint fits go on meanwhile). */
   const tookChoices = async (layers: readonly LayerState[]) => {
-    for (const [built, choice] of laterChoices) {
-      if (!layers.includes(built.state!)) continue;
-      const wander = (await choice).wander;
+    const wanted = new Set(layers);
+    let left = [...laterChoices.keys()].filter((b) => wanted.has(b.state!)).length;
+    for (const [built, prep] of laterChoices) {
+      if (left === 0) break;
+      const wander = finishRateWander(await prep, noisePool).wander;
       if (wander) built.state!.unmodelledWander = wander;
+      if (wanted.has(built.state!)) left--;
       laterChoices.delete(built);
     }
   };
@@ -481,15 +485,15 @@ async function analyzeLayers(
       // which a wander moves; a level cut's end sits on a slope that reads it directly, and there
       // the knots took up calibration misfit instead (chamber BBAR, demo BBAR: cut errors at |z| ≈ 10).
       const e = single.layers[0];
-      const request = wanderChoiceRequest({
+      const input = {
         below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: pick(trace.signal, samples.indices),
         gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0,
         ...(stacks.has(chip) ? { stack: ends ? ends.stackWithGrowth(chip, stacks.get(chip)!) : stacks.get(chip)! } : {}),
         growthFromHere: o.growthFromNext && !!ends && below.length > 0,
-      }, model);
-      if (chooseElsewhere) laterChoices.set(built, chooseElsewhere(request));
+      };
+      if (prepElsewhere) laterChoices.set(built, prepElsewhere(wanderChoiceRequest(input, model)));
       else {
-        const choice = chooseHere(request);
+        const choice = chooseRateWander({ ...input, noisePool });
         if (!o.rateWander && o.mode === 'sequential') built.scores = { scores: choice.scores, rateNmPerS: e.rateNmPerS, pointSigma: choice.sampleSigma };
         if (choice.wander && !o.rateWander) built.unmodelled = choice.wander;
         else if (choice.wander) {

@@ -4,8 +4,8 @@ import { type LayerSpectrum } from './layerSpectrum';
 import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
 import { type StartDelayProfile } from './startDelay';
 import { type StartDelayProfileRequest } from './startDelayRequest';
-import { type WanderChoice } from './wanderChoice';
 import { type WanderChoiceRequest } from './wanderChoiceRequest';
+import { type WanderPrep } from './wanderPrep';
 
 export type AnalysisMode = 'sequential' | 'refit';
 
@@ -270,12 +270,13 @@ export interface AnalyzeOptions {
    */
   startDelayProfileOf?: (request: StartDelayProfileRequest) => Promise<StartDelayProfile | null>;
   /**
-   * Makes a pass's wander choices elsewhere, e.g. on another thread, where they are read only once
-   * the pass's fits are done (refit with rateWander off). Called once a pass, it returns what is
-   * asked each layer's choice in turn, which must resolve to what wanderChooser's function returns.
-   * @default wanderChooser, on this thread, as each layer is fitted
+   * Makes the pool-free part of a layer's wander choice (prepareRateWander) elsewhere, e.g. on
+   * another thread, where the choice is read only once the pass's fits are done (refit with
+   * rateWander off); the pass then finishes the choices in layer order on its variogram pool. It
+   * must resolve to what wanderPrepFromRequest returns.
+   * @default chooseRateWander, on this thread, as each layer is fitted
    */
-  wanderChoices?: () => (request: WanderChoiceRequest) => Promise<WanderChoice>;
+  wanderPrepOf?: (request: WanderChoiceRequest) => Promise<WanderPrep>;
 }
 
 export interface TurningPointAt {

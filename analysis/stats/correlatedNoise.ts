@@ -1,4 +1,4 @@
-import { robustVariogram } from './robustVariogram';
+import { pooledGamma, robustVariogram, variogramSums, type VariogramSums } from './robustVariogram';
 import { fitVariogramLine } from './variogramLine';
 
 /**
@@ -72,8 +72,12 @@ export interface Ar1PlusWhite {
  * (trace/levelSteps longRunSigma) takes white + AR(1) for a faster AR(1) and underestimates.
  */
 export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40, pool?: VariogramPool): Ar1PlusWhite {
-  const { lags, gamma } = robustVariogram(e, maxLag, pool);
-  return fitVariogram(lags, gamma);
+  return fitAr1PlusWhiteSums(variogramSums(e, maxLag), pool);
+}
+
+/** fitAr1PlusWhite of a series' variogram computed before (variogramSums, e.g. on another thread), pooled here. */
+export function fitAr1PlusWhiteSums(v: VariogramSums, pool?: VariogramPool): Ar1PlusWhite {
+  return fitVariogram(v.lags, pooledGamma(v, pool));
 }
 
 /**

@@ -1,14 +1,42 @@
 import { MEDIAN_WINDOW_MIN, MEDIAN_WINDOW_SAMPLE, medianFromWindow, medianInPlace, medianWindow } from '../trace/robustStats';
 import { type VariogramPool } from './correlatedNoise';
 
+/** A series' robust variogram at fitAr1PlusWhite's lags: γ(k), and the sums and counts a pool adds. */
+export interface VariogramSums {
+  lags: number[];
+  gamma: number[];
+  sums: number[];
+  counts: number[];
+}
+
 /** The robust variogram γ(k) at fitAr1PlusWhite's lags (the pool's, after adding this series, with a pool). */
 export function robustVariogram(e: ArrayLike<number>, maxLag: number, pool?: VariogramPool): { lags: number[]; gamma: number[] } {
+  const v = variogramSums(e, maxLag);
+  return { lags: v.lags, gamma: pooledGamma(v, pool) };
+}
+
+/**
+ * γ(k) of a series' variogram, or with a pool, the pool's after adding it (its sums to the pool's
+ * in the order the series come): the part of fitAr1PlusWhite that reads the pool.
+ */
+export function pooledGamma(v: VariogramSums, pool?: VariogramPool): number[] {
+  if (!pool) return v.gamma;
+  // The noise is the detector's: pooled over the series read so far (same lags), it scatters less.
+  v.lags.forEach((k, q) => {
+    pool.sums.set(k, (pool.sums.get(k) ?? 0) + v.sums[q]);
+    pool.counts.set(k, (pool.counts.get(k) ?? 0) + v.counts[q]);
+  });
+  return v.lags.map((k) => pool.sums.get(k)! / pool.counts.get(k)!);
+}
+
+/** The robust variogram of a series alone (see robustVariogram), with its sums for a pool. */
+export function variogramSums(e: ArrayLike<number>, maxLag: number): VariogramSums {
   const n = e.length;
   const L = Math.min(maxLag, Math.floor(n / 4));
   // Every lag up to 8, then every 2nd: the short lags carry the white part and ρ, the rest the level.
   const lags: number[] = [];
   for (let k = 1; k <= L; k += k < 8 ? 1 : 2) lags.push(k);
-  let gamma: number[] = [];
+  const gamma: number[] = [];
   // Arrays shared by every lag: the differences, the values near a median (in a window: see
   // trace/robustStats.ts medianFromWindow), and a copy to reorder when the median is not there.
   const d = new Float64Array(n), near = new Float64Array(n + 1), work = new Float64Array(n);
@@ -51,15 +79,7 @@ export function robustVariogram(e: ArrayLike<number>, maxLag: number, pool?: Var
     sums.push(ss / 2);
     counts.push(m);
   }
-  if (pool) {
-    // The noise is the detector's: pooled over the series read so far (same lags), it scatters less.
-    lags.forEach((k, q) => {
-      pool.sums.set(k, (pool.sums.get(k) ?? 0) + sums[q]);
-      pool.counts.set(k, (pool.counts.get(k) ?? 0) + counts[q]);
-    });
-    gamma = lags.map((k) => pool.sums.get(k)! / pool.counts.get(k)!);
-  }
-  return { lags, gamma };
+  return { lags, gamma, sums, counts };
 }
 
 /** Half-width of the window about the last lag's median of the differences, in its MAD (±0.1 σ for Gaussian differences: ~8 % of them, where the median moves by ~0.02 σ between lags of 6000 values). */

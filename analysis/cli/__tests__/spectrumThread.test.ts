@@ -7,7 +7,7 @@ import { parseDesign } from '../../design';
 import { analyzeRun } from '../../fit/analyzeRun';
 import { layerSampleWork } from '../../fit/layerSampleWork';
 import { layerSpectrum } from '../../fit/layerSpectrum';
-import { wanderChooser } from '../../fit/wanderChoiceRequest';
+import { wanderPrepFromRequest } from '../../fit/wanderChoiceRequest';
 import { wanderRequests } from '../../fit/__tests__/wanderLayers';
 import { readTrace } from '../../trace';
 import { startSpectrumThread } from '../spectrumThread';
@@ -57,29 +57,22 @@ describe('the analyze command computes spectra on a second thread', () => {
     expect(got.observed!.points.map((p) => p.timeS)).toEqual(Array.from({ length: 11 }, (_, k) => expect.closeTo(100 + 9 * (Math.PI / 2 + k * Math.PI), 0)));
   });
 
-  it('makes a pass\'s wander choices here, in order on one pool, when the thread cannot start', async () => {
-    const requests = wanderRequests([0, 0.03, 0], 2);
+  it('prepares the wander choices here, as wanderPrepFromRequest does, when the thread cannot start', async () => {
+    const requests = wanderRequests([0, 0.03], 2);
     const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
-    const ask = t.wanderChoices();
-    const got = await Promise.all(requests.map((r) => ask(r)));
+    const got = await Promise.all(requests.map((r) => t.wanderPrepOf(r)));
     t.close();
-    const choose = wanderChooser();
-    expect(got).toEqual(requests.map((r) => choose(r)));
+    expect(got).toEqual(requests.map((r) => wanderPrepFromRequest(r)));
   });
 
-  it('makes the wander choices a thread left (it stopped) here, on a pool that took the pass\'s earlier layers', async () => {
-    // a thread that answers the first request with a marker, then stops at the second
-    const quitting = path.join(cache, 'quitting.mjs');
-    writeFileSync(quitting, "import { parentPort } from 'node:worker_threads';\nlet seen = 0;\nparentPort.on('message', (r) => { if (seen++ === 0) parentPort.postMessage({ id: r.id, spectrum: 'first' }); else process.exit(0); });\n");
-    const requests = wanderRequests([0.03, 0, 0.03], 3);
-    const t = startSpectrumThread(pathToFileURL(quitting));
-    const ask = t.wanderChoices();
-    const got = await Promise.all(requests.map((r) => ask(r)));
+  it('prepares here a wander choice it awaits before the thread has begun it (a thread that never answers)', async () => {
+    const stuck = path.join(cache, 'stuck-wander.mjs');
+    writeFileSync(stuck, "import { parentPort } from 'node:worker_threads';\nparentPort.on('message', () => {});\nsetInterval(() => {}, 1000);\n");
+    const [r] = wanderRequests([0.03], 5);
+    const t = startSpectrumThread(pathToFileURL(stuck));
+    const got = await t.wanderPrepOf(r);
     t.close();
-    const choose = wanderChooser();
-    const want = requests.map((r) => choose(r));
-    expect(got[0]).toBe('first');
-    expect(got.slice(1)).toEqual(want.slice(1));
+    expect(got).toEqual(wanderPrepFromRequest(r));
   }, 10_000);
 
   // the four-layer AR (level cuts); the 17-layer mirror (turning-point cuts: the start delay's profiles on the thread too)
