@@ -37,7 +37,9 @@ export async function analyzeCommand(argv: string[]) {
   const spectra = availableParallelism() > 1 ? startSpectrumThread(new URL(import.meta.url)) : null;
   try {
     const trace = await loadTrace(tracePath, design.layers.length);
-    const result = await analyzeRun(design, trace, { mode, spectrumOf: spectra?.spectrumOf, startDelayProfileOf: spectra?.startDelayProfileOf }).catch((e: unknown) => {
+    const result = await analyzeRun(design, trace, {
+      mode, spectrumOf: spectra?.spectrumOf, startDelayProfileOf: spectra?.startDelayProfileOf, wanderPrepOf: spectra?.wanderPrepOf,
+    }).catch((e: unknown) => {
       if (e instanceof AnalysisInputError) throw new CliInputError(`${tracePath}: ${e.message}`);
       throw e;
     });

@@ -4,13 +4,16 @@ import { layerSampleWork, type SampleWork, type SampleWorkResult } from '../fit/
 import { type StartDelayProfile } from '../fit/startDelay';
 import { profileFromRequest, type StartDelayProfileRequest } from '../fit/startDelayRequest';
 import { type AnalyzeOptions } from '../fit/types';
+import { wanderPrepBuffers, wanderPrepFromRequest, type WanderChoiceRequest } from '../fit/wanderChoiceRequest';
+import { type WanderPrep } from '../fit/wanderPrep';
 
 // The analyze command computes the layers' spectra (and the work on their samples that needs no
 // fit, layerSampleWork) on a second thread while the main one fits (AnalyzeOptions.spectrumOf),
-// and the start delay's profiles while the profiling pass fits on (AnalyzeOptions.startDelayProfileOf):
-// the same functions on the same values, so the same figures.
+// the start delay's profiles while the profiling pass fits on (AnalyzeOptions.startDelayProfileOf),
+// and the pool-free part of a refit pass's wander choices (AnalyzeOptions.wanderPrepOf): the same
+// functions on the same values, so the same figures.
 
-type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | StartDelayProfile | null;
+type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | StartDelayProfile | WanderPrep | null;
 
 const ROLE = 'fringelog-layer-spectra';
 
@@ -20,11 +23,12 @@ type Request = { id: number } & ({
   wavelengthNm: number;
   index: number;
   work?: SampleWork;
-} | { profile: StartDelayProfileRequest });
+} | { profile: StartDelayProfileRequest } | { wander: WanderChoiceRequest });
 
 /** What the thread answers to a request (and this thread, when that one cannot). */
 function answer(r: Request): Answer {
   if ('profile' in r) return profileFromRequest(r.profile);
+  if ('wander' in r) return wanderPrepFromRequest(r.wander);
   const spectrum = r.work?.spectrum === false ? NO_SPECTRUM : layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
   return r.work ? { ...spectrum, ...layerSampleWork(r.tauS, r.y, r.work) } : spectrum;
 }
@@ -41,12 +45,16 @@ export const isSpectrumThread = !isMainThread && (workerData as { role?: string 
 const CLAIMS = 1 << 14;
 const HERE = 1, THERE = 2;
 
-/** The thread's side: answers each request it claims with layerSpectrum (or the profile asked for); one claimed by the asking thread with null. */
+/**
+ * The thread's side: answers each request it claims with layerSpectrum (or the profile or wander
+ * prep asked for; a prep's arrays handed over, not copied); one claimed by the asking thread with null.
+ */
 export function serveSpectra(): void {
   const claims = (workerData as { claims?: Int32Array } | null)?.claims;
   parentPort!.on('message', (r: Request) => {
     const mine = !claims || r.id >= claims.length || Atomics.compareExchange(claims, r.id, 0, THERE) === 0;
-    parentPort!.postMessage({ id: r.id, spectrum: mine ? answer(r) : null, skipped: !mine });
+    const a = mine ? answer(r) : null;
+    parentPort!.postMessage({ id: r.id, spectrum: a, skipped: !mine }, a && 'wander' in r ? wanderPrepBuffers(a as WanderPrep) : []);
   });
 }
 
@@ -55,7 +63,8 @@ export function serveSpectra(): void {
  * request the thread cannot answer (it failed to start or stopped) is computed here instead.
  */
 export function startSpectrumThread(entry: URL): {
-  spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; startDelayProfileOf: NonNullable<AnalyzeOptions['startDelayProfileOf']>; close: () => void;
+  spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; startDelayProfileOf: NonNullable<AnalyzeOptions['startDelayProfileOf']>;
+  wanderPrepOf: NonNullable<AnalyzeOptions['wanderPrepOf']>; close: () => void;
 } {
   const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
   const local = answer;
@@ -112,6 +121,7 @@ export function startSpectrumThread(entry: URL): {
     spectrumOf: (tauS, y, wavelengthNm, index, work) =>
       ask({ id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) }) as Promise<LayerSpectrum & Partial<SampleWorkResult>>,
     startDelayProfileOf: (profile) => ask({ id: next++, profile }) as Promise<StartDelayProfile | null>,
+    wanderPrepOf: (wander) => ask({ id: next++, wander }) as Promise<WanderPrep>,
     close: () => {
       // the analysis is over (done, or failed): nothing pending is wanted any more
       closed = true;

@@ -35,7 +35,9 @@ import { indexSeparation } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
 import { type RateWander } from './rateWander';
-import { chooseRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
+import { chooseRateWander, finishRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
+import { wanderChoiceRequest } from './wanderChoiceRequest';
+import { type WanderPrep } from './wanderPrep';
 import { sharedWanderCosts, type WanderEvidence } from './pooledWander';
 import { addWanderVariance, wanderErrorVariances, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
@@ -313,7 +315,24 @@ async function analyzeLayers(
   // those it carries no stack (its fits only build the stack each profile stands on).
   const stackRead = !transient.profiles || o.growthFromNext || o.rateWander
     || order.some((l) => (4 * indexAt(design.materials[l.material], l.monitor.wavelengthNm).re * l.thicknessNm) / l.monitor.wavelengthNm < o.thinLayerQwot);
+  // The wander choices take the layers in order onto one variogram pool a pass. Where nothing
+  // reads a choice before the pass's end (refit, the wander not fitted), wanderPrepOf may make
+  // their pool-free part elsewhere while the fits go on; the pool's part is done here, in order.
   const noisePool = newVariogramPool();
+  const prepElsewhere = o.mode === 'refit' && !o.rateWander ? o.wanderPrepOf : undefined;
+  const laterChoices = new Map<{ state?: LayerState }, Promise<WanderPrep>>();
+  /** The choices made elsewhere, finished in layer order up to the last of these layers (chip by chip: the first chips' joint fits go on meanwhile). */
+  const tookChoices = async (layers: readonly LayerState[]) => {
+    const wanted = new Set(layers);
+    let left = [...laterChoices.keys()].filter((b) => wanted.has(b.state!)).length;
+    for (const [built, prep] of laterChoices) {
+      if (left === 0) break;
+      const wander = finishRateWander(await prep, noisePool).wander;
+      if (wander) built.state!.unmodelledWander = wander;
+      if (wanted.has(built.state!)) left--;
+      laterChoices.delete(built);
+    }
+  };
   let done = 0;
   for (const dl of order) {
     const samples = samplesByLayer.get(dl.layer)!;
@@ -466,21 +485,25 @@ async function analyzeLayers(
       // which a wander moves; a level cut's end sits on a slope that reads it directly, and there
       // the knots took up calibration misfit instead (chamber BBAR, demo BBAR: cut errors at |z| ≈ 10).
       const e = single.layers[0];
-      const choice = chooseRateWander({
+      const input = {
         below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: pick(trace.signal, samples.indices),
-        gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0, noisePool,
+        gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0,
         ...(stacks.has(chip) ? { stack: ends ? ends.stackWithGrowth(chip, stacks.get(chip)!) : stacks.get(chip)! } : {}),
         growthFromHere: o.growthFromNext && !!ends && below.length > 0,
-      });
-      if (!o.rateWander && o.mode === 'sequential') built.scores = { scores: choice.scores, rateNmPerS: e.rateNmPerS, pointSigma: choice.sampleSigma };
-      if (choice.wander && !o.rateWander) built.unmodelled = choice.wander;
-      else if (choice.wander) {
-        built.wander = choice.wander;
-        const pointSigma = (count: number) => choice.wander!.pointSigma * Math.sqrt(count / n);
-        fit.wander = { ...choice.wander, pointSigma: pointSigma(fit.tauS.length) };
-        refit.wander = { ...choice.wander, pointSigma: pointSigma(refit.tauS.length) };
-        single = fitSingle(e.index, e.rateNmPerS, e.gain, { rateDriftNmPerS2: e.rateDriftNmPerS2, indexGradient: e.indexGradient });
-        built.wanderVariance = wanderEndVariance(fit, single.solver.covariance);
+      };
+      if (prepElsewhere) laterChoices.set(built, prepElsewhere(wanderChoiceRequest(input, model)));
+      else {
+        const choice = chooseRateWander({ ...input, noisePool });
+        if (!o.rateWander && o.mode === 'sequential') built.scores = { scores: choice.scores, rateNmPerS: e.rateNmPerS, pointSigma: choice.sampleSigma };
+        if (choice.wander && !o.rateWander) built.unmodelled = choice.wander;
+        else if (choice.wander) {
+          built.wander = choice.wander;
+          const pointSigma = (count: number) => choice.wander!.pointSigma * Math.sqrt(count / n);
+          fit.wander = { ...choice.wander, pointSigma: pointSigma(fit.tauS.length) };
+          refit.wander = { ...choice.wander, pointSigma: pointSigma(refit.tauS.length) };
+          single = fitSingle(e.index, e.rateNmPerS, e.gain, { rateDriftNmPerS2: e.rateDriftNmPerS2, indexGradient: e.indexGradient });
+          built.wanderVariance = wanderEndVariance(fit, single.solver.covariance);
+        }
       }
     }
     if (o.mode === 'sequential' && stackRead) {
@@ -585,6 +608,7 @@ async function analyzeLayers(
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
       carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss, joint);
+      await tookChoices(chipStates);
       if (chipStates.some((p) => p.unmodelledWander)) {
         // each layer's unmodelled wander, through the chip's final joint fit (fit/wanderSigma.ts)
         const v = wanderErrorVariances([], data, joint, cal.offset, chipStates.map((p) => p.unmodelledWander ?? null), cg);

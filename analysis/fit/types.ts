@@ -4,6 +4,8 @@ import { type LayerSpectrum } from './layerSpectrum';
 import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
 import { type StartDelayProfile } from './startDelay';
 import { type StartDelayProfileRequest } from './startDelayRequest';
+import { type WanderChoiceRequest } from './wanderChoiceRequest';
+import { type WanderPrep } from './wanderPrep';
 
 export type AnalysisMode = 'sequential' | 'refit';
 
@@ -267,6 +269,14 @@ export interface AnalyzeOptions {
    * @default profileFromRequest, on this thread
    */
   startDelayProfileOf?: (request: StartDelayProfileRequest) => Promise<StartDelayProfile | null>;
+  /**
+   * Makes the pool-free part of a layer's wander choice (prepareRateWander) elsewhere, e.g. on
+   * another thread, where the choice is read only once the pass's fits are done (refit with
+   * rateWander off); the pass then finishes the choices in layer order on its variogram pool. It
+   * must resolve to what wanderPrepFromRequest returns.
+   * @default chooseRateWander, on this thread, as each layer is fitted
+   */
+  wanderPrepOf?: (request: WanderChoiceRequest) => Promise<WanderPrep>;
 }
 
 export interface TurningPointAt {

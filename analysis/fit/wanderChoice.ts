@@ -1,24 +1,21 @@
 import { type LayerAt } from '../optics';
-import { fitAr1PlusWhite, whitenAr1PlusWhite, type VariogramPool } from '../stats';
-import { binMeans } from './subsample';
-import { encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayerData, type LayerParams } from './layerModel';
+import { fitAr1PlusWhiteSums, whitenAr1PlusWhite, type VariogramPool } from '../stats';
+import { paramLayout, type FitLayerData, type LayerParams } from './layerModel';
 import { type LayerEstimate } from './fitLayers';
 import { invertSymmetric } from './invertSymmetric';
 import { wanderBasis, wanderCount, wanderKnots, type RateWander } from './rateWander';
-import { lastBelowThicknessColumn, stackBelowColumns } from './wanderStackBelow';
+import { prepareRateWander, WANDER_CORRELATIONS_S, type WanderPrep } from './wanderPrep';
 import { type StackCovariance } from './stackUncertainty';
+
+export { WANDER_CORRELATIONS_S };
 
 /** The wander scales tried, as fractions of the rate (0: the plain quadratic law). */
 export const WANDER_FRACTIONS = [0, 0.0025, 0.005, 0.01, 0.02, 0.04];
-/** The wander correlation times tried, s (knots one correlation time apart). */
-export const WANDER_CORRELATIONS_S = [20];
 
 const HUBER_K = 2.5;
 /** Hyperparameters a wander's choice estimates (σ_w, and the correlation time when more than one is tried). */
 export const WANDER_HYPERPARAMETERS = WANDER_CORRELATIONS_S.length > 1 ? 2 : 1;
 const GRAM_STRIDE = 2;
-const SAMPLES_PER_BIN = 3;
-const NOISE_LAGS_S = 4;
 
 export interface WanderChoiceInput {
   below: readonly LayerAt[];
@@ -64,58 +61,25 @@ export interface WanderChoice {
  * freedom only when it pays for its own volume (the Occam factor of the determinant).
  */
 export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
-  const { below, layer, estimate, offsetSignal } = input;
-  const all = input.allTauS.length;
-  // Bin means of SAMPLES_PER_BIN samples (a fraction of a lock-in's correlation time at 10 Hz, so
-  // the bins' noise is still white plus AR(1) and read as such; the same lags in every layer).
-  const bins = binMeans(input.allTauS, indexRange(all), input.allY, Math.floor(all / SAMPLES_PER_BIN));
-  const N = bins.tauS.length;
-  const per = all / Math.max(N, 1);
+  return finishRateWander(prepareRateWander(input), input.noisePool);
+}
+
+/** chooseRateWander from its pool-free part (prepareRateWander, made anywhere), the layers taken in order onto the pool. */
+export function finishRateWander(prep: WanderPrep, noisePool?: VariogramPool): WanderChoice {
+  const { N, per } = prep;
   const scores: WanderChoice['scores'] = [];
-  const plain: FitLayerData = { ...layer, tauS: bins.tauS, y: bins.y, weight: 1, wander: undefined };
-  const l0 = paramLayout([plain]);
-  const p0: number[] = [];
-  encodeLayer(plain, estimate, p0);
-  // The noise (white + AR(1)) from the plain fit's residuals: their variogram at lags up to a
-  // few seconds, which a slow misfit hardly reaches.
-  const at = new Float64Array(N);
-  evaluateLayers(below, [plain], l0, p0, offsetSignal, at);
-  const binS = N > 1 ? (bins.tauS[N - 1] - bins.tauS[0]) / (N - 1) : 1;
-  const noise = fitAr1PlusWhite(difference(bins.y, at), Math.max(8, Math.round(NOISE_LAGS_S / binS)), input.noisePool);
+  const noise = fitAr1PlusWhiteSums(prep.variogram, noisePool);
   const none = { wander: null, sampleSigma: noise.longRunSigma * Math.sqrt(per), scores };
   if (N < 100 || !(noise.longRunSigma > 0)) return none;
   let best = { score: Infinity, kappa: 0, correlationS: 0, scale2: 1 };
   let plainScore = Infinity, plainScale2 = 1;
-  for (const correlationS of WANDER_CORRELATIONS_S) {
-    const wander: RateWander = { knotsS: wanderKnots(layer.durationS, correlationS), sigmaNmPerS: 1, correlationS, pointSigma: 1 };
-    const withW: FitLayerData = { ...plain, wander };
-    const layout = paramLayout([withW]);
-    const p: number[] = [];
-    encodeLayer(withW, estimate, p);
-    const np0 = layout.count;
-    // The stack below's errors as random effects of known covariance, in the whitened data's
-    // units (columns Js·Ls, Σs = Ls·Lsᵀ, unit-normal weights): both candidates carry them, so
-    // the wander is kept only for a bend of the fringes that they do not explain.
-    const stackCols = input.stack ? stackBelowColumns(below, withW, layout, p, offsetSignal, at, input.stack) : [];
-    const growthCol = input.growthFromHere ? lastBelowThicknessColumn(below, withW, layout, p, offsetSignal, at) : null;
-    // A gain held at the chip's (refit) is known only to its calibration: free in both, as a
-    // per-layer fit has it (∂y/∂g = (y − offset)/g).
-    const gainCol = plain.heldGain !== null && plain.heldGain !== 0 ? overGain(at, offsetSignal, plain.heldGain) : null;
-    const m = stackCols.length;
-    const np = np0 + m + (growthCol ? 1 : 0) + (gainCol ? 1 : 0);
-    const steps = Float64Array.from(p, (v) => 1e-6 * Math.max(Math.abs(v), 1e-3));
-    const jac = new Float64Array(np * N);
-    jacobianLayers(below, [withW], layout, Float64Array.from(p), offsetSignal, at, steps, jac.subarray(0, np0 * N));
-    stackCols.forEach((c, q) => jac.set(c, (np0 + q) * N));
-    if (growthCol) jac.set(growthCol, (np0 + m) * N);
-    if (gainCol) jac.set(gainCol, (np - 1) * N);
-    const wFirst = (withW.heldIndex === null ? 1 : 0) + 1 + (withW.fitDrift ? 1 : 0), k = wander.knotsS.length;
+  for (const { correlationS, jac, np, np0, m, wFirst, k } of prep.candidates) {
     const isW = (j: number) => j >= wFirst && j < wFirst + k;
     const isS = (j: number) => j >= np0 && j < np0 + m;
     const pFixed = np - m - k;
     // Generalised least squares: residuals and columns whitened by the noise's own filter.
     const cols = Array.from({ length: np }, (_, j) => jac.subarray(j * N, (j + 1) * N));
-    const r = difference(bins.y, at);
+    const r = prep.residuals.slice();
     whitenAr1PlusWhite(noise, [r, ...cols]);
     // Huber's pseudo-residuals ψ(r), |r| capped (P. J. Huber, "Robust Statistics", Wiley (1981),
     // §7.8, from memory): a spike does not pass for a wandering rate.
@@ -126,33 +90,24 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
     const norm = new Float64Array(np).fill(1);
     for (let j = 0; j < np; j++) {
       if (isW(j) || isS(j)) continue;
-      let c = 0;
-      for (let i = j * N; i < (j + 1) * N; i++) c += jac[i] * jac[i];
+      const c = sumOfSquares(jac, j * N, (j + 1) * N);
       norm[j] = c > 0 ? 1 / Math.sqrt(c) : 1;
     }
     // The whitened columns stay smooth (a smooth column through the filter), so their products
     // are summed on every GRAM_STRIDE-th row (times the stride); the data's, which are not, on all.
     const gram = new Float64Array(np * np), b = new Float64Array(np);
     for (let a = 0; a < np; a++) {
-      const oa = a * N;
-      let q = 0;
-      for (let i = 0; i < N; i++) q += jac[oa + i] * r[i];
-      b[a] = q * norm[a];
-      for (let c = a; c < np; c++) {
-        const oc = c * N;
-        let t = jac[oa] * jac[oc];
-        for (let i = 1; i < N; i += GRAM_STRIDE) t += jac[oa + i] * jac[oc + i] * Math.min(GRAM_STRIDE, N - i);
-        gram[a * np + c] = gram[c * np + a] = t * norm[a] * norm[c];
-      }
+      b[a] = dotWithColumn(jac, a * N, r, N) * norm[a];
+      for (let c = a; c < np; c++) gram[a * np + c] = gram[c * np + a] = stridedProduct(jac, a * N, c * N, N) * norm[a] * norm[c];
     }
-    const gainParam = plain.heldGain === null ? np0 - 1 : -1;
+    const gainParam = prep.freeGain ? np0 - 1 : -1;
     // the gain prior's information, for the column scaled by norm
-    if (gainParam >= 0 && input.gainPriorSigma > 0) gram[gainParam * np + gainParam] += (norm[gainParam] / input.gainPriorSigma) ** 2;
+    if (gainParam >= 0 && prep.gainPriorSigma > 0) gram[gainParam * np + gainParam] += (norm[gainParam] / prep.gainPriorSigma) ** 2;
     for (const fraction of WANDER_FRACTIONS) {
       if (fraction === 0 && correlationS !== WANDER_CORRELATIONS_S[0]) continue;
       // κ: the wander's σ per unit of the noise's scale, which is profiled:
       // −2·log L = (N − p)·log(min/(N − p)) + log|A′|, A′ = [XᵀX, κXᵀZ; κZᵀX, κ²ZᵀZ + I].
-      const kappa = fraction * Math.abs(estimate.rateNmPerS);
+      const kappa = fraction * Math.abs(prep.rateNmPerS);
       const a = new Float64Array(np * np), g = new Float64Array(np);
       for (let i = 0; i < np; i++) {
         const si = isW(i) ? kappa : 1;
@@ -181,8 +136,8 @@ export function chooseRateWander(input: WanderChoiceInput): WanderChoice {
   // The noise's long-run σ per sample, with the profiled scale of the chosen model.
   const sampleSigma = noise.longRunSigma * Math.sqrt(best.scale2 * per);
   const wander: RateWander = {
-    knotsS: wanderKnots(layer.durationS, best.correlationS),
-    sigmaNmPerS: best.kappa * Math.abs(estimate.rateNmPerS) * Math.sqrt(best.scale2),
+    knotsS: wanderKnots(prep.durationS, best.correlationS),
+    sigmaNmPerS: best.kappa * Math.abs(prep.rateNmPerS) * Math.sqrt(best.scale2),
     correlationS: best.correlationS, pointSigma: sampleSigma,
   };
   return { wander, sampleSigma, scores };
@@ -256,23 +211,27 @@ export function withWanderVariance(e: LayerEstimate, varianceNm2: number): Layer
   };
 }
 
-// Plain loops for the per-sample arrays: a typed array's from() with a map function calls it per
-// element and cost more than the variance algebra on 100 Hz traces (the bench's 40-layer run).
-function indexRange(n: number): Int32Array {
-  const out = new Int32Array(n);
-  for (let i = 0; i < n; i++) out[i] = i;
-  return out;
+// The loops over the rows sit in small functions of their own, so the engine optimises each
+// with the feedback of its own loop (see trace/robustStats.ts): inline in chooseRateWander, the
+// Gram matrix's products took about 0.2 s of the bench's 40-layer run.
+
+/** Σ a[i]² over [from, to). */
+function sumOfSquares(a: Float64Array, from: number, to: number): number {
+  let c = 0;
+  for (let i = from; i < to; i++) c += a[i] * a[i];
+  return c;
 }
 
-function difference(y: ArrayLike<number>, at: ArrayLike<number>): Float64Array {
-  const out = new Float64Array(y.length);
-  for (let i = 0; i < out.length; i++) out[i] = y[i] - at[i];
-  return out;
+/** Σ jac[oa + i]·r[i] over i < N. */
+function dotWithColumn(jac: Float64Array, oa: number, r: Float64Array, N: number): number {
+  let q = 0;
+  for (let i = 0; i < N; i++) q += jac[oa + i] * r[i];
+  return q;
 }
 
-/** (v − offset)/gain for each value. */
-function overGain(v: ArrayLike<number>, offset: number, gain: number): Float64Array {
-  const out = new Float64Array(v.length);
-  for (let i = 0; i < out.length; i++) out[i] = (v[i] - offset) / gain;
-  return out;
+/** The product of two columns of N rows summed on the first and every GRAM_STRIDE-th row after it, times the stride. */
+function stridedProduct(jac: Float64Array, oa: number, oc: number, N: number): number {
+  let t = jac[oa] * jac[oc];
+  for (let i = 1; i < N; i += GRAM_STRIDE) t += jac[oa + i] * jac[oc + i] * Math.min(GRAM_STRIDE, N - i);
+  return t;
 }

@@ -1,4 +1,4 @@
-import { medianInPlace } from '../trace/robustStats';
+import { pooledGamma, robustVariogram, variogramSums, type VariogramSums } from './robustVariogram';
 import { fitVariogramLine } from './variogramLine';
 
 /**
@@ -72,8 +72,12 @@ export interface Ar1PlusWhite {
  * (trace/levelSteps longRunSigma) takes white + AR(1) for a faster AR(1) and underestimates.
  */
 export function fitAr1PlusWhite(e: ArrayLike<number>, maxLag = 40, pool?: VariogramPool): Ar1PlusWhite {
-  const { lags, gamma } = variogram(e, maxLag, pool);
-  return fitVariogram(lags, gamma);
+  return fitAr1PlusWhiteSums(variogramSums(e, maxLag), pool);
+}
+
+/** fitAr1PlusWhite of a series' variogram computed before (variogramSums, e.g. on another thread), pooled here. */
+export function fitAr1PlusWhiteSums(v: VariogramSums, pool?: VariogramPool): Ar1PlusWhite {
+  return fitVariogram(v.lags, pooledGamma(v, pool));
 }
 
 /**
@@ -86,45 +90,7 @@ export function fitPooledVariogram(lags: readonly number[], pool: VariogramPool)
 
 /** A series' variogram sums into the pool (as fitAr1PlusWhite adds them); returns its lags, for fitPooledVariogram. */
 export function addToVariogramPool(e: ArrayLike<number>, maxLag: number, pool: VariogramPool): number[] {
-  return variogram(e, maxLag, pool).lags;
-}
-
-/** The robust variogram γ(k) at fitAr1PlusWhite's lags (the pool's, after adding this series, with a pool). */
-function variogram(e: ArrayLike<number>, maxLag: number, pool?: VariogramPool): { lags: number[]; gamma: number[] } {
-  const n = e.length;
-  const L = Math.min(maxLag, Math.floor(n / 4));
-  // Every lag up to 8, then every 2nd: the short lags carry the white part and ρ, the rest the level.
-  const lags: number[] = [];
-  for (let k = 1; k <= L; k += k < 8 ? 1 : 2) lags.push(k);
-  let gamma: number[] = [];
-  const d = new Float64Array(n);
-  const sums: number[] = [], counts: number[] = [];
-  for (const k of lags) {
-    const m = n - k;
-    for (let i = 0; i < m; i++) d[i] = e[i + k] - e[i];
-    const part = d.subarray(0, m);
-    // Squared differences, winsorised at 4 MAD-σ: nearly the efficiency of the plain mean (the
-    // MAD alone has 37 %), without the spikes.
-    const med = medianInPlace(part.slice());
-    // (a plain loop: Float64Array.from with a map function was most of the fit's time on 100 Hz traces)
-    const abs = new Float64Array(m);
-    for (let i = 0; i < m; i++) abs[i] = Math.abs(part[i] - med);
-    const cap = 4 * 1.4826 * medianInPlace(abs.slice());
-    let ss = 0;
-    for (let i = 0; i < m; i++) ss += Math.min(abs[i], cap) ** 2;
-    gamma.push(ss / m / 2);
-    sums.push(ss / 2);
-    counts.push(m);
-  }
-  if (pool) {
-    // The noise is the detector's: pooled over the series read so far (same lags), it scatters less.
-    lags.forEach((k, q) => {
-      pool.sums.set(k, (pool.sums.get(k) ?? 0) + sums[q]);
-      pool.counts.set(k, (pool.counts.get(k) ?? 0) + counts[q]);
-    });
-    gamma = lags.map((k) => pool.sums.get(k)! / pool.counts.get(k)!);
-  }
-  return { lags, gamma };
+  return robustVariogram(e, maxLag, pool).lags;
 }
 
 /** The white + AR(1) least squares of fitAr1PlusWhite on a variogram γ at its lags. */

@@ -8,3 +8,4 @@ export * from './runRules';
 export * from './newestPointRules';
 export * from './correlatedNoise';
 export * from './longVariogram';
+export { variogramSums, type VariogramSums } from './robustVariogram';

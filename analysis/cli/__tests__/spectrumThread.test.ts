@@ -7,6 +7,8 @@ import { parseDesign } from '../../design';
 import { analyzeRun } from '../../fit/analyzeRun';
 import { layerSampleWork } from '../../fit/layerSampleWork';
 import { layerSpectrum } from '../../fit/layerSpectrum';
+import { wanderPrepFromRequest } from '../../fit/wanderChoiceRequest';
+import { wanderRequests } from '../../fit/__tests__/wanderLayers';
 import { readTrace } from '../../trace';
 import { startSpectrumThread } from '../spectrumThread';
 
@@ -54,6 +56,24 @@ describe('the analyze command computes spectra on a second thread', () => {
     // sin(τ/9) turns at τ = 9·(π/2 + kπ): k = 0 … 10 within the 300 s, at 100 s + τ on the clock
     expect(got.observed!.points.map((p) => p.timeS)).toEqual(Array.from({ length: 11 }, (_, k) => expect.closeTo(100 + 9 * (Math.PI / 2 + k * Math.PI), 0)));
   });
+
+  it('prepares the wander choices here, as wanderPrepFromRequest does, when the thread cannot start', async () => {
+    const requests = wanderRequests([0, 0.03], 2);
+    const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
+    const got = await Promise.all(requests.map((r) => t.wanderPrepOf(r)));
+    t.close();
+    expect(got).toEqual(requests.map((r) => wanderPrepFromRequest(r)));
+  });
+
+  it('prepares here a wander choice it awaits before the thread has begun it (a thread that never answers)', async () => {
+    const stuck = path.join(cache, 'stuck-wander.mjs');
+    writeFileSync(stuck, "import { parentPort } from 'node:worker_threads';\nparentPort.on('message', () => {});\nsetInterval(() => {}, 1000);\n");
+    const [r] = wanderRequests([0.03], 5);
+    const t = startSpectrumThread(pathToFileURL(stuck));
+    const got = await t.wanderPrepOf(r);
+    t.close();
+    expect(got).toEqual(wanderPrepFromRequest(r));
+  }, 10_000);
 
   // the four-layer AR (level cuts); the 17-layer mirror (turning-point cuts: the start delay's profiles on the thread too)
   it.each([['bbar4-visible.json', 'bay2-bb4-run0587.csv'], ['hr17-mirror-600.json', 'bay3-hr17-run1120.csv']])('the bundled command (thread on) prints what analyzeRun gives in process (no thread): %s', async (designName, traceName) => {
