@@ -1,13 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { fitLayers, type FitLayerData, type MonitorOptics } from '..';
-import { fromNK, growingLayerSignal } from '../../optics';
 import { createRng } from '../../synth';
-import { binMeans } from '../subsample';
 import { sharedWander, sharedWanderCosts, wanderAtShared } from '../pooledWander';
 import { chooseRateWander, type WanderChoice } from '../wanderChoice';
+import { plainFit, wanderingLayer } from './wanderLayers';
 
-const optics: MonitorOptics = { ambient: fromNK(1), substrate: fromNK(1.52), backside: false, wavelengthNm: 600, mode: 'T' };
-const DT = 0.1;
 
 /** −2·log L per candidate: the plain law at `plain`, the wander of 1 % at `wandered`. */
 const scores = (plain: number, wandered: number, scale2 = 1): WanderChoice['scores'] => [
@@ -15,35 +11,10 @@ const scores = (plain: number, wandered: number, scale2 = 1): WanderChoice['scor
   { fraction: 0.01, correlationS: 20, score: wandered, scale2 },
 ];
 
-/**
- * A layer (n = 2.3, 0.25 nm/s, 250 s) whose rate wanders by `fraction` as an OU process with a
- * 15 s correlation time (rectangle rule at 10 Hz, not fit/rateWander's knots), white + AR(1) noise
- * of a lock-in (1 s); its plain fit and its wander choice.
- */
+/** A wandering layer (wanderLayers.ts: OU wander of `fraction`, 15 s, lock-in noise): its plain fit and its wander choice. */
 function choiceOn(fraction: number, seed: number): WanderChoice {
-  const rng = createRng(seed);
-  const n = 2500, rate = 0.25;
-  const tauS = Float64Array.from({ length: n }, (_, i) => i * DT);
-  const d = new Float64Array(n);
-  const rhoW = Math.exp(-DT / 15);
-  let w = fraction * rng.normal();
-  for (let i = 1; i < n; i++) {
-    d[i] = d[i - 1] + rate * (1 + w) * DT;
-    w = rhoW * w + fraction * Math.sqrt(1 - rhoW * rhoW) * rng.normal();
-  }
-  const m = growingLayerSignal({ ...optics, below: [], growing: fromNK(2.3), pol: 's' }, d);
-  const rhoN = Math.exp(-DT / 1);
-  let x = 0.0006 * rng.normal();
-  const y = m.map((v) => {
-    x = rhoN * x + 0.0006 * Math.sqrt(1 - rhoN * rhoN) * rng.normal();
-    return v + x + 0.0003 * rng.normal();
-  });
-  const bins = binMeans(tauS, Int32Array.from({ length: n }, (_, i) => i), y, 400);
-  const data: FitLayerData = {
-    optics, nominalAt: () => fromNK(2.3), tauS: bins.tauS, y: bins.y, durationS: tauS[n - 1], extinction: 0,
-    heldIndex: null, fitDrift: true, heldGain: null, chipTimeS: 0,
-  };
-  const plain = fitLayers({ fixedBelow: [], layers: [data], offsetSignal: 0, start: [{ index: 2.29, rateNmPerS: 0.251, rateDriftNmPerS2: 0, gain: 1 }] });
+  const { tauS, y, data } = wanderingLayer(fraction, createRng(seed));
+  const plain = plainFit(data);
   return chooseRateWander({ below: [], layer: data, estimate: plain.layers[0], offsetSignal: 0, gainPriorSigma: 0, allTauS: tauS, allY: y });
 }
 

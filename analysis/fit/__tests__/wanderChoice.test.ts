@@ -1,46 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { fitLayers, type FitLayerData, type MonitorOptics } from '..';
-import { fromNK, growingLayerSignal } from '../../optics';
+import { fitLayers } from '..';
 import { createRng } from '../../synth';
-import { binMeans } from '../subsample';
 import { chooseRateWander, wanderEndVariance } from '../wanderChoice';
+import { plainFit, wanderingLayer } from './wanderLayers';
 
-const optics: MonitorOptics = { ambient: fromNK(1), substrate: fromNK(1.52), backside: false, wavelengthNm: 600, mode: 'T' };
-const DT = 0.1;
-
-/**
- * One quarter-wave-ish layer (n = 2.3, 0.25 nm/s, 250 s) whose rate wanders as an OU process
- * (integrated here by the rectangle rule at 10 Hz, not by fit/rateWander), with white + AR(1)
- * noise of a lock-in (1 s): what the chooser must tell apart.
- */
+/** A wandering layer (wanderLayers.ts) on its own random stream: what the chooser must tell apart. */
 function layer(wanderFraction: number, seed: number) {
-  const rng = createRng(seed);
-  const n = 2500, rate = 0.25;
-  const tauS = Float64Array.from({ length: n }, (_, i) => i * DT);
-  const d = new Float64Array(n);
-  const rhoW = Math.exp(-DT / 15);
-  let w = wanderFraction * rng.normal();
-  for (let i = 1; i < n; i++) {
-    d[i] = d[i - 1] + rate * (1 + w) * DT;
-    w = rhoW * w + wanderFraction * Math.sqrt(1 - rhoW * rhoW) * rng.normal();
-  }
-  const m = growingLayerSignal({ ...optics, below: [], growing: fromNK(2.3), pol: 's' }, d);
-  const rhoN = Math.exp(-DT / 1);
-  let x = 0.0006 * rng.normal();
-  const y = m.map((v) => {
-    x = rhoN * x + 0.0006 * Math.sqrt(1 - rhoN * rhoN) * rng.normal();
-    return v + x + 0.0003 * rng.normal();
-  });
-  const bins = binMeans(tauS, Int32Array.from({ length: n }, (_, i) => i), y, 400);
-  const data: FitLayerData = {
-    optics, nominalAt: () => fromNK(2.3), tauS: bins.tauS, y: bins.y, durationS: tauS[n - 1], extinction: 0,
-    heldIndex: null, fitDrift: true, heldGain: null, chipTimeS: 0,
-  };
-  return { tauS, y, data, endNm: d[n - 1] };
-}
-
-function plainFit(data: FitLayerData) {
-  return fitLayers({ fixedBelow: [], layers: [data], offsetSignal: 0, start: [{ index: 2.29, rateNmPerS: 0.251, rateDriftNmPerS2: 0, gain: 1 }] });
+  return wanderingLayer(wanderFraction, createRng(seed));
 }
 
 describe('chooseRateWander', () => {
