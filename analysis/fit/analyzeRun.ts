@@ -583,11 +583,15 @@ async function analyzeLayers(
       // no layer ending before its last logged sample (LayerEnds)
       ends?.beforeJointFit(chipStates);
       const data = chipStates.map((p) => p.make(perLayer));
-      let joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss, o.holdUncarriedDrift);
-      // Without a layer column each turning-point cut's end is read again on the joint fit, and the chip fitted again.
-      if (byDesign && turningPointEndsOnChip(data, chipStates.map((p) => p.estimate), chipStates.map((p) => p.design.monitor.cut === 'turning-point'))) {
-        chipStates.forEach((p, j) => (p.fit.durationS = p.refit.durationS = data[j].durationS));
-        joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss, o.holdUncarriedDrift);
+      const joint = refitChip(data, chipStates, chipStates[0].calibration.offset, true, cg, o.robustLoss, o.holdUncarriedDrift);
+      // Without a layer column each turning-point cut's end is read again on the joint fit, its
+      // thickness there; not fitted again (fit/turningPointEnd.ts: a refit bends the ends off the turning points).
+      const estimates = chipStates.map((p) => p.estimate);
+      if (byDesign && turningPointEndsOnChip(data, estimates, chipStates.map((p) => p.design.monitor.cut === 'turning-point'))) {
+        chipStates.forEach((p, j) => {
+          p.fit.durationS = p.refit.durationS = data[j].durationS;
+          p.estimate = estimates[j];
+        });
       }
       const shared = joint.sharedGain;
       if (transient.jointProfiles) {
