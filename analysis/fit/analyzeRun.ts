@@ -604,9 +604,9 @@ async function analyzeLayers(
         if (profile) transient.jointProfiles.push({ chip, profile });
         continue;
       }
-      // Each growth after a cut read again against the jointly fitted stack (LayerEnds), wanders held at the fit's knots.
-      const knotsHeld = data.map((d, j) => (d.wander && chipStates[j].estimate.wander ? { ...d, wander: { ...d.wander, fixed: chipStates[j].estimate.wander } } : d));
-      ends?.afterJointFit(knotsHeld, chipStates, chipStates[0].calibration.offset, cg);
+      // Each growth after a cut read again against the jointly fitted stack (LayerEnds), a wander's
+      // knots free under their prior (fit/jointGrowth.ts).
+      ends?.afterJointFit(data, chipStates, chipStates[0].calibration.offset, cg);
       // A held index's own σ, into every layer of the chip (the joint fit took the index as exact).
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;

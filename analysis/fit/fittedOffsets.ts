@@ -34,7 +34,9 @@ const MODEL_SIGMA = { R: 0.001, T: 0.0015 } as const;
  * another chip): fitted from each chip's first layers (fitChipOffset), with σ. The offset is
  * the detector's, so fits of chips at one monitor wavelength and mode that agree (each within
  * 3σ of their weighted mean) are pooled. The σ reported adds a systematic part (MODEL_SIGMA) to
- * the profile's. The offset assumed before (0, or an earlier chip's) is kept unless the fit is
+ * the profile's, and where the chips disagree their spread beyond their σ (betweenChipSigma): on
+ * the rate-wander mirror (seeds 15–30) 6 of 48 chips had taken an offset 0.7–0.9 % of full scale
+ * off at 3.4–4σ, their H layers then up to 2.4 % thick (refit RMS 0.58 → 0.45 %). The offset assumed before (0, or an earlier chip's) is kept unless the fit is
  * more than 3σ away from it. A chip whose layers do not determine it gets a warning in
  * reflectance (there a bare chip reads a few % of full scale, and an offset of 0.5 % of full
  * scale taken as 0 puts thicknesses 10–30 % off).
@@ -52,7 +54,10 @@ export function fitOffsets(
     const group = fits.filter((g) => good(g) && g.start.wavelengthNm === f.start.wavelengthNm && g.start.mode === f.start.mode);
     const pooled = pool(group.map((g) => g.fit!));
     const own = pooled ?? (good(f) ? { offset: f.fit!.offset, sigma: f.fit!.sigma } : null);
-    const est = own && { offset: own.offset, sigma: Math.hypot(own.sigma, MODEL_SIGMA[f.start.mode] * scale) };
+    // Chips that disagree (the detector has one offset) show a bias their profiles do not carry,
+    // e.g. a rate that wanders: their spread beyond their σ joins each chip's σ.
+    const spread = pooled ? 0 : betweenChipSigma(group.map((g) => g.fit!));
+    const est = own && { offset: own.offset, sigma: Math.hypot(own.sigma, MODEL_SIGMA[f.start.mode] * scale, spread) };
     const firstLayer = order.find((l) => samplesByLayer.get(l.layer)!.chip === cal.chip)?.layer;
     if (!est) {
       if (f.fit === null) continue;
@@ -75,6 +80,19 @@ export function fitOffsets(
 
 function set(chips: Map<number, ChipStart>, start: ChipStart, calibration: ChipCalibration, offsetSigmaRandom: number): void {
   chips.set(calibration.chip, { ...start, calibration, offsetSigmaRandom });
+}
+
+/**
+ * The spread of the fits beyond their own σ: DerSimonian–Laird's between-study τ
+ * (R. DerSimonian, N. Laird, Controlled Clinical Trials 7, 177–188 (1986)), 0 for fewer than two.
+ */
+export function betweenChipSigma(fits: readonly Pick<OffsetFit, 'offset' | 'sigma'>[]): number {
+  if (fits.length < 2) return 0;
+  const w = fits.map((f) => 1 / (f.sigma * f.sigma));
+  const sw = w.reduce((a, b) => a + b, 0), sw2 = w.reduce((a, b) => a + b * b, 0);
+  const mean = fits.reduce((a, f, i) => a + w[i] * f.offset, 0) / sw;
+  const q = fits.reduce((a, f, i) => a + w[i] * (f.offset - mean) ** 2, 0);
+  return Math.sqrt(Math.max(0, (q - (fits.length - 1)) / (sw - sw2 / sw)));
 }
 
 /** Inverse-variance weighted mean of agreeing fits (each within 3σ of it); null when none or they disagree. */

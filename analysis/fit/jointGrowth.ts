@@ -2,7 +2,7 @@ import { type LayerEstimate, type SharedGain } from './fitLayers';
 import { type GaussianEvidence, type GrowthEstimate } from './growthPosterior';
 import { invertSymmetric } from './invertSymmetric';
 import { decodeLayer, encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayerData } from './layerModel';
-import { lawRate, lawThickness } from './rateWander';
+import { lawRate, lawThickness, wanderBasis, wanderCount } from './rateWander';
 
 export interface JointGrowthInput {
   /** The chip's layers as in its joint fit (time bases with the current growth), and the fit's estimates. */
@@ -35,7 +35,10 @@ export interface JointGrowthLayer {
  * through `finalize` (the bound δ ≥ 0, the idle level), and θ follows it by Gaussian
  * conditioning: θ = θ̂ + K·(δ − δ̂), Cov θ = C_θθ − K·C_δθ + K·P·Kᵀ with K = C_θδ·C_δδ⁻¹ and P the
  * final δ covariance (C. M. Bishop, Pattern Recognition and Machine Learning (2006), §2.3.1;
- * from memory). Null when the normal matrix is singular.
+ * from memory). A wander's knots (option rateWander) are free here under their prior, as in the
+ * joint fit, and their share of the end thickness stays in its σ: held at the fit's values they
+ * dropped out of it (rate-wander mirror, refit, seeds 15–30: RMS z 1.86 → 1.49).
+ * Null when the normal matrix is singular.
  */
 export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null {
   const { data, estimates, sharedGain, offsetSignal } = input;
@@ -102,6 +105,13 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
   // The gain drift's prior row (as in the joint fit): its c² on γ's diagonal.
   const priorWeight = sharedGain?.fitDrift ? sharedGain.driftPrior?.weight : undefined;
   if (priorWeight !== undefined && layout.sharedDrift >= 0) A[layout.sharedDrift * M + layout.sharedDrift] += priorWeight ** 2;
+  // A wander's free knots: their unit-normal prior rows (as in the joint fit), so the growth and
+  // the wander at the layer's end trade off here as they do in the data.
+  data.forEach((l, j) => {
+    const k = wanderCount(l.wander);
+    const first = layout.offsets[j] + (l.heldIndex === null ? 1 : 0) + 1 + (l.fitDrift ? 1 : 0);
+    for (let i = 0; i < k; i++) A[(first + i) * M + first + i] += ((l.weight ?? 1) * l.wander!.pointSigma) ** 2;
+  });
   const inv = invertSymmetric(A, M);
   if (!inv) return null;
   const g = new Float64Array(M);
@@ -186,18 +196,20 @@ export function jointGrowth(input: JointGrowthInput): JointGrowthLayer[] | null 
     const T = loggedS;
     const delta = c >= 0 ? final[c].deltaNm : 0;
     const d = lawThickness(v, layer.wander, T) + delta;
-    // Gradients of d and n·d in (n, r, a, δ).
-    const idx = [iN, iR, iA, iD];
-    const gd = [0, T, 0.5 * T * T, 1];
-    const gnd = [d, v.index * T, 0.5 * v.index * T * T, v.index];
+    // Gradients of d and n·d in (n, r, a, δ, and the wander's free knots: Ψ_k(T)).
+    const wk = wanderCount(layer.wander);
+    const psi = wk > 0 ? Array.from(wanderBasis(layer.wander!, T, new Float64Array(wk))) : [];
+    const idx = [iN, iR, iA, iD, ...psi.map((_, x) => i + x)];
+    const gd = [0, T, 0.5 * T * T, 1, ...psi];
+    const gnd = [d, v.index * T, 0.5 * v.index * T * T, v.index, ...psi.map((x) => v.index * x)];
     const q = (u: number[], w: number[]) => {
       let s = 0;
-      for (let x = 0; x < 4; x++) for (let y = 0; y < 4; y++) if (idx[x] >= 0 && idx[y] >= 0) s += u[x] * w[y] * cov(idx[x], idx[y]);
+      for (let x = 0; x < idx.length; x++) for (let y = 0; y < idx.length; y++) if (idx[x] >= 0 && idx[y] >= 0) s += u[x] * w[y] * cov(idx[x], idx[y]);
       return Math.sqrt(Math.max(s, 0));
     };
     const sd = (k: number) => (k < 0 ? 0 : Math.sqrt(Math.max(cov(k, k), 0)));
     const estimate: LayerEstimate = {
-      ...e, index: v.index, rateNmPerS: v.rateNmPerS, rateDriftNmPerS2: v.rateDriftNmPerS2,
+      ...e, index: v.index, rateNmPerS: v.rateNmPerS, rateDriftNmPerS2: v.rateDriftNmPerS2, ...(wk > 0 && v.wander ? { wander: v.wander } : {}),
       ...(v.indexGradient !== undefined ? { indexGradient: v.indexGradient } : {}),
       indexSigma: iN >= 0 ? sd(iN) : e.indexSigma, rateSigma: sd(iR), rateDriftSigma: sd(iA),
       thicknessNm: d, thicknessSigmaNm: q(gd, gd), opticalThicknessNm: v.index * d, opticalThicknessSigmaNm: q(gnd, gnd),

@@ -8,7 +8,7 @@ import { levelEvidence, settledLevelAfter, startCheck, startLevel, type LevelEvi
 import { layerAtWavelength, type FitLayerData, type MonitorOptics } from './layerModel';
 import { type Ar1PlusWhite } from '../stats';
 import { meanVariance } from './idleNoiseModel';
-import { endEquivalentLaw, lawRate, lawThickness, lawTimeToThickness, wanderCount } from './rateWander';
+import { endEquivalentLaw, lawRate, lawThickness, lawTimeToThickness } from './rateWander';
 import { type LayerSamples } from './layerSamples';
 import { ShutterTime } from './shutterTime';
 import { type StackCovariance } from './stackUncertainty';
@@ -216,9 +216,6 @@ export class LayerEnds {
    */
   afterJointFit(data: readonly FitLayerData[], states: readonly EndedLayer[], offsetSignal: number, sharedGain: SharedGain | null): void {
     if (!this.startsConsistent()) return;
-    // jointGrowth takes a wander as fixed (its knots held at the joint fit's values): with free
-    // knots the chip keeps the pass's growths (finish drops their stale start readings).
-    if (data.some((l) => wanderCount(l.wander) > 0)) return;
     const recs = states.map((s) => this.records.find((r) => r.s === s) ?? null);
     const out = jointGrowth({
       data, estimates: states.map((s) => s.estimate), sharedGain, offsetSignal,

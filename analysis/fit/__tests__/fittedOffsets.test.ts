@@ -2,7 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { analyzeRun } from '..';
 import { type ChipCalibration } from '../calibrateChip';
 import { shareDarkReadings, type ChipStart } from '../chipCalibrations';
-import { pool } from '../fittedOffsets';
+import { betweenChipSigma, pool } from '../fittedOffsets';
+import { createRng } from '../../synth';
 import { mirror18, synthTrace } from './scenarios';
 
 describe('pool (offsets of several chips)', () => {
@@ -16,6 +17,23 @@ describe('pool (offsets of several chips)', () => {
     expect(q!.offset).toBeCloseTo((4 * 1 + 1 * 2) / 5, 12);
     expect(pool([{ offset: 0, sigma: 0.1 }, { offset: 1, sigma: 0.1 }])).toBeNull();
     expect(pool([])).toBeNull();
+  });
+});
+
+describe('betweenChipSigma (the chips\' offsets scattered beyond their σ)', () => {
+  // DerSimonian–Laird's moment estimator (R. DerSimonian, N. Laird, Controlled Clinical Trials 7,
+  // 177–188 (1986), eq. for τ², from memory): τ² = max(0, (Q − (k − 1))/(Σw − Σw²/Σw)),
+  // Q = Σwᵢ(xᵢ − x̄)². By hand: xᵢ = ±3, σᵢ = 1: Q = 18, τ² = 17/(2 − 1) = 17.
+  it('is √17 for two chips at ±3 with σ 1, and 0 where they agree or there is one', () => {
+    expect(betweenChipSigma([{ offset: -3, sigma: 1 }, { offset: 3, sigma: 1 }])).toBeCloseTo(Math.sqrt(17), 12);
+    expect(betweenChipSigma([{ offset: 0.5, sigma: 1 }, { offset: -0.5, sigma: 1 }])).toBe(0);
+    expect(betweenChipSigma([{ offset: 7, sigma: 1 }])).toBe(0);
+  });
+  it('recovers a between-chip spread of 2 from 400 chips drawn with σ 1 (within 10 %)', () => {
+    const rng = createRng(3);
+    const fits = Array.from({ length: 400 }, () => ({ offset: 2 * rng.normal() + rng.normal(), sigma: 1 }));
+    expect(betweenChipSigma(fits)).toBeGreaterThan(1.8);
+    expect(betweenChipSigma(fits)).toBeLessThan(2.2);
   });
 });
 
