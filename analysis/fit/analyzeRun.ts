@@ -636,6 +636,11 @@ async function analyzeLayers(
 
   if (transient.jointProfiles) return null;
   ends?.finish(o.mode === 'refit');
+  /** The layers below s on its chip, as they stand now, at s's monitor wavelength. */
+  const belowOf = (s: LayerState) => {
+    const chipStates = chipLayers.get(s.samples.chip)!;
+    return chipStates.slice(0, chipStates.indexOf(s)).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));
+  };
   // A turning-point cut ended on its fitted turning point (no layer column): the excess past it,
   // which the trace does not show, and the excess of the layer below, which moved its turning
   // point, moved by their mean into the estimate and their variance into σ, or (option
@@ -650,8 +655,7 @@ async function analyzeLayers(
       const chipStates = chipLayers.get(s.samples.chip)!;
       const j = chipStates.indexOf(s);
       const under = j > 0 ? excess.get(chipStates[j - 1]) ?? null : null;
-      const below = chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));
-      const c = under ? turningPointCompensation(s.fit, s.estimate.index, below, s.estimate.thicknessNm) : null;
+      const c = under ? turningPointCompensation(s.fit, s.estimate.index, belowOf(s), s.estimate.thicknessNm) : null;
       if (!o.turningPointExcessMean) {
         s.estimate = withWanderVariance(s.estimate, excessErrorMeanSquare(own, under, c));
         continue;
@@ -669,10 +673,6 @@ async function analyzeLayers(
     });
     for (const s of states) if (s.unmodelledVariance) addWanderVariance(s.estimate, s.unmodelledVariance);
   }
-  const belowOf = (s: LayerState) => {
-    const chipStates = chipLayers.get(s.samples.chip)!;
-    return chipStates.slice(0, chipStates.indexOf(s)).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));
-  };
   // Noise reference: the idle stretches when they are long enough, else the run's typical layer residual.
   // It is the whole noise, white and correlated: a layer's residuals over many correlation times
   // carry both, and against the white part alone every layer of a lock-in's trace read 2–3× "noisy".
