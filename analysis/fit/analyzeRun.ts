@@ -232,8 +232,8 @@ interface RunBasis {
   byDesign: ReturnType<typeof segmentByDesign> | null;
   seg: ReturnType<typeof segmentTrace> | (ReturnType<typeof segmentByDesign> & { inferred: true });
   gathered: Map<number, LayerSamples>;
-  idleModel: ReturnType<typeof idleNoiseModel>;
-  noiseFloor: ReturnType<typeof idleNoise>;
+  /** The idle stretches' noise (made on first call, after the passes have asked for their spectra: the second thread works meanwhile). */
+  noise: () => { idleModel: ReturnType<typeof idleNoiseModel>; noiseFloor: ReturnType<typeof idleNoise> };
 }
 
 function runBasis(design: Design, trace: TraceData): RunBasis {
@@ -241,11 +241,12 @@ function runBasis(design: Design, trace: TraceData): RunBasis {
   const byDesign = trace.layer ? null : segmentByDesign(trace, design);
   const seg = byDesign ? { ...byDesign, inferred: true as const } : segmentTrace(trace, { chipOfLayer: (l) => design.layers[l - 1]?.monitor.chip ?? 1 });
   const layerSegments = byDesign ? levelCutEnds(trace, design, placeBoundaries(trace, design, byDesign.layers, byDesign.windows), byDesign.gain) : seg.layers;
+  let noise: ReturnType<RunBasis['noise']> | null = null;
   return {
     byDesign, seg, gathered: gatherLayerSamples(trace, layerSegments),
     // The design's windows around each pause hold the slow ends of the layers beside it, which the
     // noise model's long lags would read as noise: there, the gaps between the placed layers.
-    idleModel: idleNoiseModel(trace, byDesign ? gapsBetween(layerSegments) : seg.idle), noiseFloor: idleNoise(trace, seg.idle),
+    noise: () => (noise ??= { idleModel: idleNoiseModel(trace, byDesign ? gapsBetween(layerSegments) : seg.idle), noiseFloor: idleNoise(trace, seg.idle) }),
   };
 }
 
@@ -255,7 +256,7 @@ async function analyzeLayers(
 ): Promise<AnalysisResult | null> {
   const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
   const warnings: string[] = trace.warnings.map((w) => w.message);
-  const { byDesign, seg, gathered, idleModel, noiseFloor } = basis;
+  const { byDesign, seg, gathered } = basis;
   for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
   // A start transient puts the fits on the exposure clock (fit/startTransient.ts); not inside
   // boundaries placed on the design's curve, which placed each start where the growth showed.
@@ -268,7 +269,6 @@ async function analyzeLayers(
     ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
-  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel);
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }
@@ -286,6 +286,8 @@ async function analyzeLayers(
     return [o.maxFitPoints, o.refitPointsPerLayer, 150, finalPointsPerLayer(o, onChip)];
   };
   const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
+  const { idleModel, noiseFloor } = basis.noise();
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
