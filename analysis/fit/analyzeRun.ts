@@ -155,11 +155,15 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
     return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled, level ? 'chip' : 'layer')] : plain.warnings };
   }
   // (where kept, the drift is fitted as the profile fitted it: held at δ̂, its estimate takes up the start-up again)
-  // (sequential mode holds each chip's drift at the profile's, fit/jointStartDelay.ts driftAtDelay)
+  // (sequential mode holds each chip's drift at the profile's, fit/jointStartDelay.ts driftAtDelay, its
+  // level cuts on real time: each layer's own fit on δ̂'s clock took δ's error into its thickness,
+  // layer 4 of the chamber BBAR about 1.7 % per second of δ, where the unmodelled ramp cost it less)
+  const levelOnRealTime = level && (options.mode ?? ANALYZE_DEFAULTS.mode) === 'sequential';
   const result = await analyzePass(design, trace, level ? { ...options, lampDriftFit: true } : options, {
-    delayS: pooled.delayS, sigmaS: pooled.sigmaS, levelOnClock: level, ...(levelFound ? { heldDrifts: levelFound.chipDrifts } : {}),
+    ...(levelOnRealTime ? { delayS: 0 } : { delayS: pooled.delayS, sigmaS: pooled.sigmaS, levelOnClock: level }),
+    ...(levelFound ? { heldDrifts: levelFound.chipDrifts } : {}),
   }, basis);
-  result.warnings.push(startDelayNote(pooled, level ? 'chip' : 'layer'));
+  result.warnings.push(startDelayNote(pooled, level ? 'chip' : 'layer', levelOnRealTime));
   return result;
 }
 

@@ -220,17 +220,24 @@ export interface AnalyzeOptions {
    * at every δ (fit/jointStartDelay.ts; the layer-by-layer profiles hold the drift, which on a
    * level cut bends the curve as a slow start does), in a first pass in refit mode, kept where the
    * χ² falls by more than 1 (δ̂ about 1σ past 0) and a grid point past 0 lies below δ = 0. Where kept, every layer is fitted on δ's clock
-   * with its σ carried; refit fits the drift under its prior (lampDriftFit) as the profile did,
-   * sequential holds each chip's drift at the profile's γ(δ̂), its σ widened by γ's change over
-   * ±σ_δ. Where not kept nothing changes but the note on the delay, added to every such run's
-   * warnings. Off by default, measured on the chamber simulator: real-chamber BBAR (ramp 1.5 s,
-   * lamp −1 %/h) refit 2.56 → 1.47 %, index 0.035 → 0.015, sequential 2.96 → 2.12 %, index
-   * 0.036 → 0.022, coverage 100 %; on 12 seeds (21–32) refit max 3.79 → 3.67 %, RMS 2.24 → 1.19 %,
-   * index RMS 0.024 → 0.010, coverage 100/92/100 → 98/92/100 %; sequential max 4.58 → 4.24 %,
-   * RMS 2.56 → 1.73 %, index max 0.052 → 0.056 (RMS 0.026 → 0.019), coverage 100 %; with the
-   * ramp off (12 seeds) one run keeps 0.71 ± 0.47 s: refit coverage 100/100/100 → 98/97/100 %,
-   * sequential max 4.48 → 4.34 %; white-noise BBAR, thin level cuts in R and the demo's
-   * bay2-bb4-run0587 (ramp and lamp drift held back) keep none. Cost: a
+   * with its σ carried in refit, which fits the drift under its prior (lampDriftFit) as the profile
+   * did; sequential holds each chip's drift at the profile's γ(δ̂), its σ widened by γ's change
+   * over ±σ_δ, and fits its level cuts on real time (on δ̂'s clock each layer's own fit took δ's
+   * error into its thickness: seeds 21–30 max 3.64 → 2.22 %). Where not kept nothing changes but
+   * the note on the delay, added to every such run's warnings. Off by default, measured on the
+   * chamber simulator: real-chamber BBAR (ramp 1.5 s, lamp −1 %/h) refit 2.56 → 1.47 %, index
+   * 0.035 → 0.015, sequential 1.03 → 1.49 %, index 0.030 → 0.0060, cut 1.34 → 1.20 % QWOT,
+   * coverage 100 %; on 20 seeds (21–40) refit max 3.79 → 3.67 %, RMS 2.24 → 1.12 %, index max
+   * 0.040 → 0.036, RMS 0.024 → 0.0105, coverage 80/55/80 → 79/56/80 of 80/60/80; sequential max
+   * 2.61 → 2.56 %, RMS 1.12 → 0.93 %, index max 0.031 → 0.030, RMS 0.020 → 0.011, thin layers
+   * RMS 1.85 → 2.03 %, coverage 100 %. Not by default: the chip's drift is read to 0.3–0.45 %/h
+   * (layer 4's index moves 0.03 per %/h), so with the lamp held still in the simulator (12 seeds)
+   * the index RMS goes 0.0035 → 0.011 (sequential), 0.0045 → 0.009 (refit); white-noise BBAR keeps
+   * 0.26 and 0.38 s on seeds 17 and 20 of 11–20 (γ +0.24, +0.27 %/h: a false δ moves γ about
+   * 0.45 %/h a second through the last layer's shape), refit max 0.27 → 0.78 %, index 0.0029 →
+   * 0.0099; with the ramp off (12 seeds) one run keeps 0.71 ± 0.47 s; thin level cuts in R keep
+   * 0.41 ± 0.25 s on seed 78 of 71–80 (layer 5 −0.30 → −1.86 %); the demo's bay2-bb4-run0587 (ramp and lamp
+   * drift held back) keeps none. Cost: a
    * pass in refit mode and seven joint fits per chip, in place of the layer-by-layer pass (which
    * profiles nothing on level cuts). @default false
    */
