@@ -11,7 +11,7 @@ import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { gapsBetween, idleNoiseModel } from './idleNoiseModel';
 import { LayerEnds } from './layerEnds';
 import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOptics } from './layerModel';
-import { layerResult } from './layerResult';
+import { layerResidualRms, layerResult } from './layerResult';
 import { holdsLevelCutGain } from './levelCutGain';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
@@ -39,6 +39,7 @@ import { chooseRateWander, finishRateWander, wanderEndVariance, withWanderVarian
 import { wanderChoiceRequest } from './wanderChoiceRequest';
 import { type WanderPrep } from './wanderPrep';
 import { sharedWanderCosts, type WanderEvidence } from './pooledWander';
+import { poolIndices } from './pooledIndex';
 import { addWanderVariance, wanderErrorVariances, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
 import { pooledStartDelay, type PooledStartDelay, type StartDelayProfile } from './startDelay';
@@ -78,6 +79,8 @@ export interface LayerState {
   unmodelledVariance?: WanderErrorVariance;
   /** The layer's wander choice, for its material's shared wander (sequential, option wanderSigma). */
   wanderEvidence?: WanderEvidence<WanderErrorVariance>;
+  /** The least-squares fit's residual RMS (model units), kept when the index pooling moved the estimates since (fit/pooledIndex.ts). */
+  fitResidualRms?: number;
   calibration: ChipCalibration;
   /** Design optical thickness in quarter-waves at the monitor wavelength. */
   qwotAtMonitor: number;
@@ -117,6 +120,7 @@ export const ANALYZE_DEFAULTS = {
   growthFromNext: true,
   turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
   turningPointExcessMean: true,
+  pooledIndex: true,
   holdUncarriedDrift: true,
   startTransient: true,
   levelStartTransient: false,
@@ -690,6 +694,17 @@ async function analyzeLayers(
   // samples on, not the white part alone: a 20 s bare-chip stretch at 10 Hz read only that, and the
   // demo's clean single-layer run then read "residuals 1.8×".
   if (reference === null && idleModel && noiseFloor.samples >= 100) reference = Math.sqrt(idleModel.whiteVar + idleModel.ar1Var);
+  if (o.pooledIndex) {
+    // Each material's indices read with its other layers' (fit/pooledIndex.ts). The residuals
+    // reported stay the least-squares fit's: they judge whether the law follows the layer's data
+    // (a layer resting on a pooled one would otherwise read the pooled index's misfit as its own).
+    const belows = states.map(belowOf);
+    states.forEach((s, j) => (s.fitResidualRms = layerResidualRms(s, belows[j], trace)));
+    poolIndices(states.map((s) => ({
+      material: s.design.material, timeS: s.samples.startTimeS, nominalIndex: s.nominal.re, estimate: s.estimate,
+      eligible: s.design.monitor.cut === 'turning-point' && s.qwotAtMonitor >= 0.5 && s.fit.heldIndex === null && !s.estimate.indexGradient,
+    }))).forEach((e, j) => (states[j].estimate = e));
+  }
   const model = o.modelSeries ? new Float64Array(trace.rowCount).fill(NaN) : undefined;
   const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model));
   const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum);

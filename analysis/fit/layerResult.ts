@@ -36,12 +36,10 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const k = -nominal.im;
   const n = samples.tauS.length;
   const wander = e.wander ? s.fit.wander : undefined;
-  const d = wander ? lawThicknessSeries(e, wander, samples.tauS, new Float64Array(n)) : thicknesses(samples.tauS, e.rateNmPerS, e.rateDriftNmPerS2);
-  const dn = e.indexGradient ?? 0;
-  const m = dn !== 0
-    ? gradedGrowingSignal({ ...optics, below, growing: fromNK(e.index - dn / 2, k), pol: 's' }, dn / Math.max(e.thicknessNm, 1e-9), d)
-    : growingLayerSignal({ ...optics, below, growing: fromNK(e.index, k), pol: 's' }, d);
-  const residualRms = Math.sqrt(squaredResiduals(trace.signal, samples.indices, calibration.offset, e.gain, m, modelOut) / n);
+  const m = modelSignal(s, below);
+  const modelRms = Math.sqrt(squaredResiduals(trace.signal, samples.indices, calibration.offset, e.gain, m, modelOut) / n);
+  // the least-squares fit's own residuals where the index pooling moved the estimates since
+  const residualRms = s.fitResidualRms ?? modelRms;
   const noise = noiseSigma / e.gain;
   const residualToNoise = noise > 0 ? residualRms / noise : NaN;
 
@@ -127,6 +125,23 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
     fringeFrequencyHz: s.spectrum.fringeFrequencyHz, fringeRateNmPerS: s.spectrum.fringeRateNmPerS, disturbances,
     sampleCount: n, fitPoints: s.fitPoints, iterations: s.iterations, converged: s.converged, warnings,
   };
+}
+
+/** The layer's modelled response M(d(τ)) at each of its samples, on `below`. */
+function modelSignal(s: LayerState, below: readonly LayerAt[]): Float64Array {
+  const { samples, optics, nominal, estimate: e } = s;
+  const n = samples.tauS.length;
+  const wander = e.wander ? s.fit.wander : undefined;
+  const d = wander ? lawThicknessSeries(e, wander, samples.tauS, new Float64Array(n)) : thicknesses(samples.tauS, e.rateNmPerS, e.rateDriftNmPerS2);
+  const dn = e.indexGradient ?? 0;
+  return dn !== 0
+    ? gradedGrowingSignal({ ...optics, below, growing: fromNK(e.index - dn / 2, -nominal.im), pol: 's' }, dn / Math.max(e.thicknessNm, 1e-9), d)
+    : growingLayerSignal({ ...optics, below, growing: fromNK(e.index, -nominal.im), pol: 's' }, d);
+}
+
+/** RMS of the layer's residuals (reading − offset)/gain − M on all its samples, in model units. */
+export function layerResidualRms(s: LayerState, below: readonly LayerAt[], trace: TraceData): number {
+  return Math.sqrt(squaredResiduals(trace.signal, s.samples.indices, s.calibration.offset, s.estimate.gain, modelSignal(s, below)) / s.samples.tauS.length);
 }
 
 /** The index gradient's figures: the fitted ones on a graded layer, the trial's on one kept uniform. */

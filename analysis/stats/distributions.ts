@@ -73,3 +73,53 @@ export function fUpperP(f: number, d1: number, d2: number): number {
   if (!Number.isFinite(f)) return 0;
   return regularizedBeta(d2 / (d2 + d1 * f), d2 / 2, d1 / 2);
 }
+
+/**
+ * The regularized lower incomplete gamma function P(a, x), a > 0, x ≥ 0: its series for
+ * x < a + 1 (A&S 6.5.29), else 1 − Q(a, x) by Legendre's continued fraction (A&S 6.5.31),
+ * modified Lentz, as in Numerical Recipes, 3rd ed., §6.2.
+ */
+export function regularizedGammaP(a: number, x: number): number {
+  if (!(a > 0)) throw new RangeError(`regularizedGammaP: a must be > 0 (got ${a})`);
+  if (!(x >= 0)) throw new RangeError(`regularizedGammaP: x must be ≥ 0 (got ${x})`);
+  if (x === 0) return 0;
+  const front = Math.exp(-x + a * Math.log(x) - logGamma(a));
+  if (x < a + 1) {
+    let term = 1 / a, total = term;
+    for (let n = 1; n <= 1000; n++) {
+      term *= x / (a + n);
+      total += term;
+      if (Math.abs(term) < Math.abs(total) * 1e-16) return front * total;
+    }
+    throw new RangeError(`regularizedGammaP: no convergence for a = ${a}, x = ${x}`);
+  }
+  const tiny = 1e-300;
+  let b = x + 1 - a, c = 1 / tiny, d = 1 / b, h = d;
+  for (let i = 1; i <= 1000; i++) {
+    const an = -i * (i - a);
+    b += 2;
+    d = an * d + b;
+    if (Math.abs(d) < tiny) d = tiny;
+    c = b + an / c;
+    if (Math.abs(c) < tiny) c = tiny;
+    d = 1 / d;
+    const step = d * c;
+    h *= step;
+    if (Math.abs(step - 1) < 1e-15) return 1 - front * h;
+  }
+  throw new RangeError(`regularizedGammaP: no convergence for a = ${a}, x = ${x}`);
+}
+
+/** The χ²(ν) quantile at lower-tail probability p: P(ν/2, x/2) = p solved by bisection. */
+export function chiSquareQuantile(p: number, dof: number): number {
+  if (!(p > 0 && p < 1)) throw new RangeError(`chiSquareQuantile: p must be in (0, 1) (got ${p})`);
+  if (!(dof > 0)) throw new RangeError(`chiSquareQuantile: dof must be > 0 (got ${dof})`);
+  let lo = 0, hi = Math.max(1, dof);
+  while (regularizedGammaP(dof / 2, hi / 2) < p) hi *= 2;
+  for (let i = 0; i < 100 && hi - lo > 1e-12 * hi; i++) {
+    const mid = 0.5 * (lo + hi);
+    if (regularizedGammaP(dof / 2, mid / 2) < p) lo = mid;
+    else hi = mid;
+  }
+  return 0.5 * (lo + hi);
+}

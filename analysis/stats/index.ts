@@ -1,5 +1,6 @@
 export * from './linearTrend';
 export * from './indexDrift';
+export * from './randomEffectsTrend';
 export * from './groupSummary';
 export * from './distributions';
 export * from './groupDifference';

@@ -54,7 +54,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     for (const key of ['rateWander', 'indexGradient', 'levelStartTransient'] as const) if (form.get(key) === 'on') settings[key] = true;
-    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean'] as const) if (form.get(key) !== 'on') settings[key] = false;
+    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
     if (res.status === 201 && body.analysis) {
@@ -129,6 +129,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="turningPointExcessMean" defaultChecked /> Without a layer column: a turning-point cut&apos;s thickness at the mean overshoot past its turning point (unchecked: on the turning point)
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="pooledIndex" defaultChecked /> Read each material&apos;s indices together (a layer&apos;s index from its material&apos;s trend across the run and its own reading; n·d kept)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="rateWander" /> The rate may wander within a layer (kept only where the data asks for it)

@@ -24,6 +24,7 @@ export const analysisSettingsSchema = z
     growthFromNext: z.boolean().optional(),
     turningPointOvershootPct: z.number().min(0).max(10).optional(),
     turningPointExcessMean: z.boolean().optional(),
+    pooledIndex: z.boolean().optional(),
   })
   .strict();
 export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;

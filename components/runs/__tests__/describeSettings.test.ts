@@ -21,6 +21,7 @@ describe('analysis settings', () => {
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', turningPointExcessMean: false }))).toBe(
       'sequential · turning-point cuts placed on the turning point',
     );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', pooledIndex: false }))).toBe('refit · each index read alone');
   });
 
   it('refuses an option the fit does not know, and a wrong type', () => {

@@ -23,7 +23,8 @@ function extraOptions(): AnalyzeOptions {
   return raw ? (JSON.parse(raw) as AnalyzeOptions) : {};
 }
 
-export async function runScenario(scenario: Scenario, seed: number, modes: Mode[]): Promise<ScenarioRun> {
+/** `options` go to every analysis after FRINGELOG_ACCURACY_OPTIONS (a test isolating one option). */
+export async function runScenario(scenario: Scenario, seed: number, modes: Mode[], options: AnalyzeOptions = {}): Promise<ScenarioRun> {
   const run = simulateChamberRun(scenario.design, { ...scenario.options, seed });
   const design = parseDesign(scenario.design, `${scenario.name}.json`);
   const trace = await readTrace(chamberCsvChunks(run), { fileName: `${scenario.name} seed ${seed}.csv`, layerCount: design.layers.length });
@@ -31,7 +32,7 @@ export async function runScenario(scenario: Scenario, seed: number, modes: Mode[
   const failures: ScenarioRun['failures'] = {};
   for (const mode of modes) {
     try {
-      results[mode] = await analyzeRun(design, trace, { ...extraOptions(), mode });
+      results[mode] = await analyzeRun(design, trace, { ...extraOptions(), ...options, mode });
     } catch (e) {
       if (!(e instanceof AnalysisInputError)) throw e;
       failures[mode] = e.message;

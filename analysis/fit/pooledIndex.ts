@@ -1,0 +1,48 @@
+import { randomEffectsTrend } from '../stats';
+import { type LayerEstimate } from './fitLayers';
+
+/** One layer as the pooling sees it. */
+export interface PooledIndexLayer {
+  material: string;
+  /** Layer start time, s. */
+  timeS: number;
+  nominalIndex: number;
+  estimate: LayerEstimate;
+  /** Only layers whose index the fit was free to read, cut on a turning point, of ≥ 0.5 QWOT. */
+  eligible: boolean;
+}
+
+/**
+ * Each material's indices read together: the run's layers of a film scatter about a slow trend
+ * (the index drift across the run) by a spread τ, and each layer's own reading adds its σ. A
+ * layer deep in a high reflector reads its index from a turning-point level of a few % of full
+ * scale (σ 0.003–0.006 on the chamber simulator's 40-layer run, against 0.001 on a chip's first
+ * layers), so its material's other layers tell it as much as its own data: the index is predicted
+ * from the trend and its reading together (stats/randomEffectsTrend.ts, the random-effects
+ * model's BLUP, σ at the spread's upper bound). A turning-point cut's end pins its optical
+ * thickness n·d (a non-absorbing layer's extrema fall at whole quarter-waves of its own optical
+ * thickness whatever lies below: H. A. Macleod, "Thin-Film Optical Filters", ch. on monitoring,
+ * from memory), so n·d stays, d and the rates move by n̂/n*, and σ_d keeps its relative size.
+ * Returns the new estimates, one per layer (the same object where it did not move).
+ */
+export function poolIndices(layers: readonly PooledIndexLayer[]): LayerEstimate[] {
+  const out = layers.map((l) => l.estimate);
+  const materials = new Set(layers.filter((l) => l.eligible).map((l) => l.material));
+  for (const material of materials) {
+    const idx = layers.flatMap((l, j) => (l.eligible && l.material === material && l.estimate.indexSigma > 0 ? [j] : []));
+    const trend = randomEffectsTrend(idx.map((j) => ({ timeS: layers[j].timeS, value: layers[j].estimate.index - layers[j].nominalIndex, sigma: layers[j].estimate.indexSigma })));
+    if (!trend) continue;
+    idx.forEach((j, i) => {
+      const e = layers[j].estimate;
+      const index = layers[j].nominalIndex + trend.predicted[i].value;
+      const k = e.index / index;
+      out[j] = {
+        ...e, index, indexSigma: trend.predicted[i].sigma,
+        thicknessNm: e.thicknessNm * k, thicknessSigmaNm: e.thicknessSigmaNm * k,
+        rateNmPerS: e.rateNmPerS * k, rateSigma: e.rateSigma * k, rateDriftNmPerS2: e.rateDriftNmPerS2 * k, rateDriftSigma: e.rateDriftSigma * k,
+        ...(e.wander ? { wander: e.wander.map((v) => v * k) } : {}),
+      };
+    });
+  }
+  return out;
+}

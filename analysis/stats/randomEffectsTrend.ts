@@ -1,0 +1,122 @@
+import { chiSquareQuantile } from './distributions';
+
+export interface TrendPoint {
+  timeS: number;
+  value: number;
+  /** The value's own 1σ (its measurement error). */
+  sigma: number;
+}
+
+export interface RandomEffectsTrend {
+  /** The line's value at the points' mean time, and its slope per hour. */
+  atMean: number;
+  slopePerHour: number;
+  meanTimeS: number;
+  /** Spread of the true values about the line: the moment estimate and its one-sided upper bound (> 0). */
+  tau2: number;
+  tau2Upper: number;
+  /** Each point's value predicted from the line and its own reading (the BLUP), with its σ. */
+  predicted: { value: number; sigma: number }[];
+}
+
+/** Fewer points than this leave too few degrees of freedom (k − 2) to tell the spread about a line. */
+export const RANDOM_EFFECTS_MIN_POINTS = 5;
+
+/**
+ * A linear trend in time under a random-effects (mixed-effects meta-regression) model: each
+ * point's true value is a + b·t + uᵢ with uᵢ ~ N(0, τ²), read as yᵢ = that + eᵢ, eᵢ ~ N(0, σᵢ²).
+ * τ² by the moment estimator for meta-regression, τ² = max(0, (Q − (k − 2)) / (Σw − tr[(X'WX)⁻¹X'W²X]))
+ * with w = 1/σ² (S. W. Raudenbush, in "The Handbook of Research Synthesis and Meta-Analysis",
+ * 2nd ed. (2009), ch. 16, from memory; DerSimonian–Laird's estimator without the slope);
+ * its upper bound at `upperLevel` by the Q-profile, Q(τ²) = Σ (yᵢ − ŷᵢ(τ²))²/(σᵢ² + τ²) set to
+ * the χ²(k − 2) quantile 1 − level (W. Viechtbauer, Stat. Med. 26, 37–52 (2007), from memory),
+ * and no less than τ̂² plus `upperLevel`'s normal quantile times the estimate's σ without a
+ * spread, √(2(k − 2))/c (Var Q = 2(k − 2) under homogeneity: M. J. Biggerstaff, R. L. Tweedie,
+ * Stat. Med. 16, 753–768 (1997), from memory).
+ * Each point is then
+ * predicted as ŷᵢ + Bᵢ(yᵢ − ŷᵢ), Bᵢ = τ̂²/(τ̂² + σᵢ²) (the best linear unbiased predictor,
+ * G. K. Robinson, Statist. Sci. 6, 15–32 (1991)); its error variance Bᵢ²σᵢ² + (1 − Bᵢ)²(v̂ᵢ + τᵤ²)
+ * is taken at the upper bound τᵤ² (the estimate's weights kept: a spread the data cannot rule
+ * out), v̂ᵢ the line's variance there by the sandwich with weights at τ̂² and variances at τᵤ².
+ * null with fewer than RANDOM_EFFECTS_MIN_POINTS points, a σ not > 0, or all at one time.
+ */
+export function randomEffectsTrend(points: readonly TrendPoint[], upperLevel = 0.95): RandomEffectsTrend | null {
+  const k = points.length;
+  if (k < RANDOM_EFFECTS_MIN_POINTS || points.some((p) => !(p.sigma > 0) || !Number.isFinite(p.value) || !Number.isFinite(p.timeS))) return null;
+  const meanTimeS = points.reduce((a, p) => a + p.timeS, 0) / k;
+  const x = points.map((p) => (p.timeS - meanTimeS) / 3600);
+  const y = points.map((p) => p.value);
+  const s2 = points.map((p) => p.sigma ** 2);
+  const at = (tau2: number) => weightedLine(x, y, s2.map((v) => 1 / (v + tau2)));
+
+  const fixed = at(0);
+  if (!fixed) return null;
+  const w = s2.map((v) => 1 / v);
+  // tr[(X'WX)⁻¹ X'W²X] for X = [1, x]
+  const [a00, a01, a11] = [sum(w), sum(w.map((wi, i) => wi * x[i])), sum(w.map((wi, i) => wi * x[i] * x[i]))];
+  const [b00, b01, b11] = [sum(w.map((wi) => wi * wi)), sum(w.map((wi, i) => wi * wi * x[i])), sum(w.map((wi, i) => wi * wi * x[i] * x[i]))];
+  const det = a00 * a11 - a01 * a01;
+  const trace = (a11 * b00 - 2 * a01 * b01 + a00 * b11) / det;
+  const dof = k - 2;
+  const tau2 = Math.max(0, (fixed.q - dof) / (a00 - trace));
+
+  const qTarget = chiSquareQuantile(1 - upperLevel, dof);
+  let tau2Upper = 0;
+  if (fixed.q > qTarget) {
+    let hi = Math.max(tau2, Math.min(...s2)) || 1e-12;
+    while (at(hi)!.q > qTarget && hi < 1e12) hi *= 2;
+    let lo = 0;
+    for (let i = 0; i < 60; i++) {
+      const mid = 0.5 * (lo + hi);
+      if (at(mid)!.q > qTarget) lo = mid;
+      else hi = mid;
+    }
+    tau2Upper = hi;
+  }
+  // Readings that scatter less than their σ say (Q below the quantile) leave the profile no bound
+  // above 0; the moment estimate's own noise with no spread, √(2(k − 2))/c (Q ~ χ²(k − 2)), is a
+  // spread it cannot tell from none at the same level.
+  const z = Math.sqrt(chiSquareQuantile(2 * upperLevel - 1, 1));
+  tau2Upper = Math.max(tau2Upper, tau2 + (z * Math.sqrt(2 * dof)) / (a00 - trace));
+  const tauU = tau2Upper;
+
+  const line = at(tau2)!;
+  // the line's covariance with weights at τ̂² when the values vary by σᵢ² + τᵤ² (sandwich)
+  const wt = s2.map((v) => 1 / (v + tau2));
+  const m00 = sum(wt.map((wi, i) => wi * wi * (s2[i] + tauU)));
+  const m01 = sum(wt.map((wi, i) => wi * wi * (s2[i] + tauU) * x[i]));
+  const m11 = sum(wt.map((wi, i) => wi * wi * (s2[i] + tauU) * x[i] * x[i]));
+  const [i00, i01, i11] = [line.inv00, line.inv01, line.inv11];
+  // C = A⁻¹ M A⁻¹ (symmetric 2×2)
+  const c00 = i00 * (i00 * m00 + i01 * m01) + i01 * (i00 * m01 + i01 * m11);
+  const c01 = i00 * (i01 * m00 + i11 * m01) + i01 * (i01 * m01 + i11 * m11);
+  const c11 = i01 * (i01 * m00 + i11 * m01) + i11 * (i01 * m01 + i11 * m11);
+  const predicted = points.map((_, i) => {
+    const fit = line.a + line.b * x[i];
+    const v = c00 + 2 * c01 * x[i] + c11 * x[i] * x[i];
+    const b = tau2 / (tau2 + s2[i]);
+    return { value: fit + b * (y[i] - fit), sigma: Math.sqrt(b * b * s2[i] + (1 - b) ** 2 * (v + tauU)) };
+  });
+  return { atMean: line.a, slopePerHour: line.b, meanTimeS, tau2, tau2Upper, predicted };
+}
+
+/** Weighted least squares of y on [1, x]: a, b, (X'WX)⁻¹ and Q = Σ wᵢ(yᵢ − a − b·xᵢ)²; null if singular. */
+function weightedLine(x: readonly number[], y: readonly number[], w: readonly number[]) {
+  let s0 = 0, s1 = 0, s2 = 0, t0 = 0, t1 = 0;
+  for (let i = 0; i < x.length; i++) {
+    s0 += w[i];
+    s1 += w[i] * x[i];
+    s2 += w[i] * x[i] * x[i];
+    t0 += w[i] * y[i];
+    t1 += w[i] * x[i] * y[i];
+  }
+  const det = s0 * s2 - s1 * s1;
+  if (!(det > 1e-12 * s0 * s2)) return null;
+  const a = (s2 * t0 - s1 * t1) / det;
+  const b = (s0 * t1 - s1 * t0) / det;
+  let q = 0;
+  for (let i = 0; i < x.length; i++) q += w[i] * (y[i] - a - b * x[i]) ** 2;
+  return { a, b, q, inv00: s2 / det, inv01: -s1 / det, inv11: s0 / det };
+}
+
+const sum = (v: readonly number[]) => v.reduce((a, b) => a + b, 0);
