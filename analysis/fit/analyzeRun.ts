@@ -703,7 +703,7 @@ async function analyzeLayers(
     poolIndices(states.map((s) => ({
       material: s.design.material, timeS: s.samples.startTimeS, nominalIndex: s.nominal.re, estimate: s.estimate,
       eligible: s.design.monitor.cut === 'turning-point' && s.qwotAtMonitor >= 0.5 && s.fit.heldIndex === null && !s.estimate.indexGradient,
-    }))).forEach((e, j) => (states[j].estimate = e));
+    })), warnings).forEach((e, j) => (states[j].estimate = e));
   }
   const model = o.modelSeries ? new Float64Array(trace.rowCount).fill(NaN) : undefined;
   const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model));

@@ -25,13 +25,15 @@ export interface PooledIndexLayer {
  * from memory), so n·d stays, d and the rates move by n̂/n*, and σ_d keeps its relative size.
  * Returns the new estimates, one per layer (the same object where it did not move).
  */
-export function poolIndices(layers: readonly PooledIndexLayer[]): LayerEstimate[] {
+export function poolIndices(layers: readonly PooledIndexLayer[], notes?: string[]): LayerEstimate[] {
   const out = layers.map((l) => l.estimate);
   const materials = new Set(layers.filter((l) => l.eligible).map((l) => l.material));
   for (const material of materials) {
     const idx = layers.flatMap((l, j) => (l.eligible && l.material === material && l.estimate.indexSigma > 0 ? [j] : []));
     const trend = randomEffectsTrend(idx.map((j) => ({ timeS: layers[j].timeS, value: layers[j].estimate.index - layers[j].nominalIndex, sigma: layers[j].estimate.indexSigma })));
     if (!trend) continue;
+    // The run says so: the per-layer indices it reports are no longer each layer's own reading alone.
+    notes?.push(pooledIndexNote(material, idx.length, trend.atMean, trend.slopePerHour, Math.sqrt(trend.tau2Upper)));
     idx.forEach((j, i) => {
       const e = layers[j].estimate;
       const index = layers[j].nominalIndex + trend.predicted[i].value;
@@ -45,4 +47,12 @@ export function poolIndices(layers: readonly PooledIndexLayer[]): LayerEstimate[
     });
   }
   return out;
+}
+
+/** The run's note for one material's pooled indices. */
+export function pooledIndexNote(material: string, count: number, atMean: number, slopePerHour: number, spreadUpper: number): string {
+  const signed = (v: number) => `${v >= 0 ? '+' : '−'}${Math.abs(v).toFixed(4)}`;
+  return `${material}: the indices of its ${count} turning-point layers read together (option pooledIndex): ${signed(atMean)} from nominal at mid-run, `
+    + `drifting ${signed(slopePerHour)} per hour, layer-to-layer spread at most ${spreadUpper.toFixed(4)} (95 %); each layer's index is its own reading `
+    + `drawn toward that trend as far as its own σ allows (n·d as fitted)`;
 }

@@ -40,4 +40,15 @@ describe('poolIndices', () => {
       expect(Math.abs(e.index - (2.3 - 0.002 * j))).toBeLessThan(0.004);
     });
   });
+
+  it('says in the run\'s notes which material was pooled, its trend and spread bound; nothing for a material left alone', () => {
+    const layers = [
+      ...[0, 1, 2].map((k) => layer('L', k * 500, 1.46, 0.002)),
+      ...[0, 1, 2, 3, 4, 5].map((k) => layer('H', k * 600, 2.3 + 0.002 * (k % 2 ? 1 : -1), 0.003)),
+    ];
+    const notes: string[] = [];
+    poolIndices(layers, notes);
+    expect(notes).toHaveLength(1);
+    expect(notes[0]).toMatch(/^H: the indices of its 6 turning-point layers read together \(option pooledIndex\): [+−]0\.00\d\d from nominal at mid-run, drifting [+−]\d\.\d{4} per hour, layer-to-layer spread at most \d\.\d{4} \(95 %\)/);
+  });
 });
