@@ -75,6 +75,13 @@ export interface AnalyzeOptions {
    */
   gainPriorFraction?: number;
   /**
+   * Reflectance monitoring without a dark reading: where a chip's fitted offset's profile told its
+   * gain from all its layers better than gainPriorFraction, every layer of the chip holds that
+   * gain (sequential and refit), its σ carried into the layers (fit/levelCutGain.ts holdsChipGain,
+   * fit/heldGainSigma.ts). @default true
+   */
+  reflectanceChipGain?: boolean;
+  /**
    * Gain mode 'per-layer': a layer cut on level takes the chip's calibrated gain (held, with the
    * held drift, its σ carried as in gain mode 'chip') where the bare chip tells the gain five
    * times better than gainPriorFraction (fit/levelCutGain.ts); 'free' gives it a gain of its own
