@@ -106,6 +106,7 @@ export const ANALYZE_DEFAULTS = {
   lampStabilityPerHour: DEFAULT_LAMP_STABILITY_PER_HOUR,
   lampDriftFit: false,
   fitOffset: true,
+  offsetAdoptionSigma: 3,
   gainPriorFraction: 0.005,
   levelCutGain: 'calibration',
   reflectanceChipGain: true,
@@ -289,7 +290,7 @@ async function analyzeLayers(
   };
   const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
   const chipLayers = new Map<number, LayerState[]>();
-  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
+  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
   // A gain drift seen across the chips' bare-chip calibrations (at 3σ: with three chips the
   // slope's scatter has one degree of freedom) is applied within every chip.

@@ -40,13 +40,13 @@ const MODEL_SIGMA = { R: 0.001, T: 0.0015 } as const;
  * the profile's, and where the chips disagree their spread beyond their σ (betweenChipSigma): on
  * the rate-wander mirror (seeds 15–30) 6 of 48 chips had taken an offset 0.7–0.9 % of full scale
  * off at 3.4–4σ, their H layers then up to 2.4 % thick (refit RMS 0.58 → 0.45 %). The offset assumed before (0, or an earlier chip's) is kept unless the fit is
- * more than 3σ away from it. A chip whose layers do not determine it gets a warning in
+ * more than 3σ (option offsetAdoptionSigma) away from it. A chip whose layers do not determine it gets a warning in
  * reflectance (there a bare chip reads a few % of full scale, and an offset of 0.5 % of full
  * scale taken as 0 puts thicknesses 10–30 % off).
  */
 export function fitOffsets(
   design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>,
-  chips: Map<number, ChipStart>, warnings: string[],
+  chips: Map<number, ChipStart>, warnings: string[], adoptionSigma = 3,
 ): void {
   const todo = [...chips.values()].filter((c) => c.calibration.bareLevel !== null && (c.calibration.offsetSource === 'assumed' || c.calibration.offsetSource === 'earlier-chip'));
   const fits = todo.map((start) => ({ start, fit: fitOne(design, trace, order, samplesByLayer, start) }));
@@ -78,7 +78,7 @@ export function fitOffsets(
     const fit = f.fit && Number.isFinite(f.fit.gainSigma) && f.start.mode === 'R' ? f.fit : null;
     const fromLayers = (offset: number) => (fit ? { gain: fit.gain + fit.gainSlope * (offset - fit.offset), layerGainSigma: fit.gainSigma } : {});
     const shift = Math.abs(est.offset - cal.offset);
-    if (shift <= 3 * est.sigma) {
+    if (shift <= adoptionSigma * est.sigma) {
       set(chips, f.start, { ...cal, offsetSigma: est.sigma, ...fromLayers(cal.offset) }, own!.sigma);
       continue;
     }
