@@ -12,7 +12,8 @@ import { gapsBetween, idleNoiseModel } from './idleNoiseModel';
 import { LayerEnds } from './layerEnds';
 import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOptics } from './layerModel';
 import { layerResidualRms, layerResult } from './layerResult';
-import { holdsLevelCutGain } from './levelCutGain';
+import { holdsChipGain, holdsLevelCutGain } from './levelCutGain';
+import { carryHeldGainSigma } from './heldGainSigma';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
 import { DEFAULT_LAMP_STABILITY_PER_HOUR, gainDriftPrior } from './gainDriftPrior';
@@ -108,8 +109,10 @@ export const ANALYZE_DEFAULTS = {
   lampStabilityPerHour: DEFAULT_LAMP_STABILITY_PER_HOUR,
   lampDriftFit: false,
   fitOffset: true,
+  offsetAdoptionSigma: 3,
   gainPriorFraction: 0.005,
   levelCutGain: 'calibration',
+  reflectanceChipGain: true,
   thinLayerQwot: 0.9,
   heldIndexSigma: 0.05,
   heldIndexCorrelation: 0.99,
@@ -297,7 +300,7 @@ async function analyzeLayers(
   const { idleModel, noiseFloor } = basis.noise();
   const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel);
   const chipLayers = new Map<number, LayerState[]>();
-  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset);
+  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
   // A gain drift seen across the chips' bare-chip calibrations (at 3σ: with three chips the
   // slope's scatter has one degree of freedom) is applied within every chip.
@@ -318,6 +321,13 @@ async function analyzeLayers(
     gain: c.calibration.gain, driftPerS: fitLampDrift ? driftPrior.meanPerS : heldDrift(chip).perS, startS: c.startS,
     fitDrift: o.gainDrift || fitLampDrift, ...(fitLampDrift ? { driftPrior: { ...driftPrior } } : {}),
   }]));
+  // A reflectance chip whose layers told its gain (fitted offset) holds it on every layer, σ carried
+  // (fit/levelCutGain.ts holdsChipGain); not inside boundaries placed on the design's curve.
+  const holdsGain = new Set([...chipStarts].filter(([, c]) => o.reflectanceChipGain && !byDesign && holdsChipGain(c.mode, c.calibration, o.gainPriorFraction)).map(([chip]) => chip));
+  const heldGainFraction = (chip: number) => {
+    const c = calibrations.get(chip)!;
+    return holdsGain.has(chip) ? c.layerGainSigma! / Math.abs(c.gain) : 0;
+  };
   const states: LayerState[] = [];
   const stacks = new Map<number, StackCovariance>();
   // The profiling pass reads the stack's σ only through a growth read from a layer's start, a
@@ -395,7 +405,7 @@ async function analyzeLayers(
       return {
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
-        heldGain: o.gain === 'chip' || levelGain ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : heldDrift(chip).perS,
+        heldGain: o.gain === 'chip' || levelGain || holdsGain.has(chip) ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : heldDrift(chip).perS,
         ...(built.wander ? { wander: { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } } : {}),
         ...(built.gradient ? { indexGradient: 'fit' as const } : {}),
       };
@@ -525,6 +535,13 @@ async function analyzeLayers(
       if (heldDrift(chip).sigmaPerS > 0 && !transient.profiles) {
         carryGainDriftSigma(fit, single.layers[0], heldDrift(chip).perS, heldDrift(chip).sigmaPerS, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
       }
+      // A chip gain held from the offset's profile: its σ into the layer's σ (fit/heldGainSigma.ts).
+      if (!transient.profiles) {
+        const e = single.layers[0];
+        carryHeldGainSigma([fit], [e], heldGainFraction(chip), ([moved]) => fitLayers({
+          fixedBelow: below, layers: [moved], offsetSignal: calibration.offset, start: [{ ...e, gain: moved.heldGain ?? e.gain }],
+        }, { robust: o.robustLoss, maxIterations: 30 }));
+      }
       // A wander the plain law does not follow: its cost, added to σ once the pass is done
       // (fit/wanderSigma.ts; the pass weighs later readings by the layers' σ as they stand).
       // sequential only: in refit the chip's final joint fit carries it
@@ -566,7 +583,7 @@ async function analyzeLayers(
     chipLayers.set(chip, prior);
     states.push(state);
     if (o.mode === 'refit' && o.refitPointsPerLayer > 0 && (prior.length > 1 || o.gain === 'chip')) {
-      refitChip(prior.map((p) => p.refit), prior, calibration.offset, false, o.gain === 'chip' ? cg : null, o.robustLoss);
+      refitChip(prior.map((p) => p.refit), prior, calibration.offset, false, o.gain === 'chip' && !holdsGain.has(chip) ? cg : null, o.robustLoss);
     }
     done++;
     o.onProgress?.(done, order.length);
@@ -589,7 +606,7 @@ async function analyzeLayers(
     }
     for (const [chip, chipStates] of chipLayers) {
       const perLayer = finalPointsPerLayer(o, chipStates.length);
-      const cg = o.gain === 'chip' ? chipGain.get(chip)! : null;
+      const cg = o.gain === 'chip' && !holdsGain.has(chip) ? chipGain.get(chip)! : null;
       // no layer ending before its last logged sample (LayerEnds)
       ends?.beforeJointFit(chipStates);
       const data = chipStates.map((p) => p.make(perLayer));
@@ -622,6 +639,9 @@ async function analyzeLayers(
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
       carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss, joint);
+      carryHeldGainSigma(data, chipStates.map((p) => p.estimate), heldGainFraction(chip), (moved) => fitLayers(
+        { fixedBelow: [], layers: moved, start: chipStates.map((p) => p.estimate), offsetSignal: cal.offset }, { robust: o.robustLoss, maxIterations: 30 },
+      ));
       await tookChoices(chipStates);
       if (chipStates.some((p) => p.unmodelledWander)) {
         // each layer's unmodelled wander, through the chip's final joint fit (fit/wanderSigma.ts)

@@ -29,6 +29,11 @@ export interface ChipCalibration {
   noiseSigma: number;
   /** Bare-chip reading (median of the bare stretch), detector units; null from a first layer. */
   bareLevel: number | null;
+  /**
+   * With a fitted offset: σ of the gain as the chip's layers and its bare reading tell it
+   * together (fit/chipOffset.ts, the gain free under the bare reading's prior), the offset's σ in it.
+   */
+  layerGainSigma?: number;
   /** Refit mode with a chip-wide gain: the gain at the chip's first layer start, refined by the joint fit. */
   refinedGain?: number;
   refinedGainSigma?: number;

@@ -18,6 +18,11 @@ export interface OffsetFitInput {
    * autocorrelation time of the residuals). @default from the fit's own residuals
    */
   correlationFactor?: number;
+  /**
+   * σ of the bare reading B: with it the gain is fitted (one for the chip) under B's prior
+   * (B − o)/M₀ ± σ_B/M₀ at each trial offset, instead of tied to it.
+   */
+  bareSigma?: number;
 }
 
 export interface OffsetFit {
@@ -29,6 +34,11 @@ export interface OffsetFit {
   /** Residual RMS there, detector units. */
   residualRms: number;
   evaluations: number;
+  /** The chip's gain at the offset found, and its σ with the offset's (B's prior and the layers'). */
+  gain: number;
+  gainSigma: number;
+  /** dG/do along the profile (−1/M₀ with the gain tied to B). */
+  gainSlope: number;
 }
 
 /** Largest offset searched, as a fraction of the full-scale reading B/M₀ either side of the start. */
@@ -44,6 +54,14 @@ const SCAN_STEP = 0.004;
  * vertex is the offset and whose curvature gives σ: σ² = 2s²/SSR''. The layers' growth shape
  * (turning-point levels against the bare level, and each layer starting where the one below
  * ended) is what separates offset from gain and index.
+ *
+ * With bareSigma the gain is not tied but fitted, one for the chip, under the bare reading's
+ * Gaussian prior (B − o)/M₀ ± σ_B/M₀ as one more observation (C. M. Bishop, Pattern Recognition
+ * and Machine Learning (2006), §3.3, from memory), weighed against the fit points by their σ
+ * with its correlation time (fit/gainDriftPrior.ts driftPriorWeight): where the layers pin the
+ * gain down (reflectance: a bare chip reading a few % of full scale), the offset takes up the
+ * bare reading's error and the gain does not; the gain's σ is its own at the offset found with
+ * the offset's through the profile's slope dG/do, Var G = Var(G | o) + (dG/do)²·σ_o².
  *
  * The profile is first scanned outward from the start in steps of 0.4 % of full scale, each
  * trial fit started from its neighbour's solution (a far trial from a fixed start does not
@@ -66,18 +84,33 @@ export function fitChipOffset(input: OffsetFitInput): OffsetFit {
     below.push(layerEnd(l, p));
   });
   let evaluations = 0;
-  interface Point { o: number; ssr: number; dof: number; rms: number; params: LayerParams[]; correlation: number }
+  interface Point { o: number; ssr: number; dof: number; rms: number; params: LayerParams[]; correlation: number; gain: number; gainSigma: number }
+  /** σ of a fit point as the covariance counts it (√τ·s), once known; 0 while the gain is tied. */
+  let pointNoise = 0;
+  const evaluated: Point[] = [];
   const profile = (o: number, from: LayerParams[]): Point => {
     evaluations++;
     const g = gainAt(o);
+    const free = pointNoise > 0 && (input.bareSigma ?? 0) > 0;
     const data = layers.map((l) => ({ ...l, heldGain: g }));
-    const fit = fitLayers({ fixedBelow: [], layers: data, start: from.map((s) => ({ ...s, gain: g })), offsetSignal: o }, { maxIterations: 20 });
+    // (a free gain starts from the neighbour's, the tied one at B's)
+    const sharedGain = free ? { sharedGain: { gain: from[0].gain, driftPerS: 0, fitDrift: false, gainPrior: { mean: g, sigma: input.bareSigma! / Math.abs(M0), noiseSigma: pointNoise } } } : {};
+    const fit = fitLayers({ fixedBelow: [], layers: data, start: from.map((s) => ({ ...s, gain: free ? s.gain : g })), offsetSignal: o, ...sharedGain }, { maxIterations: 20 });
     const correlation = fit.layers.reduce((a, l) => a + l.noiseCorrelation, 0) / Math.max(fit.layers.length, 1);
-    return { o, ssr: fit.solver.ssr, dof: fit.solver.dof, rms: fit.solver.residualRms, params: fit.layers, correlation };
+    const gain = fit.sharedGain?.gain ?? g;
+    const point = { o, ssr: fit.solver.ssr, dof: fit.solver.dof, rms: fit.solver.residualRms, params: fit.layers.map((l) => ({ ...l, gain })), correlation, gain, gainSigma: fit.sharedGain?.gainSigma ?? 0 };
+    evaluated.push(point);
+    return point;
   };
   // Scan outward both ways, chaining starts, until the profile has risen twice in a row.
   const step = SCAN_STEP * fullScale, reach = SEARCH_FRACTION * fullScale;
-  const centre = profile(o0, starts);
+  let centre = profile(o0, starts);
+  if ((input.bareSigma ?? 0) > 0) {
+    // the tied fit's points' σ (with their correlation time) weighs B's prior against them
+    pointNoise = Math.sqrt((centre.ssr / Math.max(centre.dof, 1)) * Math.max(centre.correlation, 1));
+    evaluated.length = 0;
+    centre = profile(o0, centre.params);
+  }
   const points: Point[] = [centre];
   for (const dir of [-1, 1]) {
     let prev = centre, rises = 0;
@@ -111,7 +144,11 @@ export function fitChipOffset(input: OffsetFitInput): OffsetFit {
   const sigma = curvature > 0 ? factor * Math.sqrt((2 * s2) / curvature) : Infinity;
   // A minimum at the edge of the search is no minimum.
   const edge = Math.abs(best.o - o0) >= reach - 1e-12;
-  return { offset: best.o, sigma: edge ? Infinity : sigma, ssr: best.ssr, residualRms: best.rms, evaluations };
+  // the gain's σ: its own at the offset found, and the offset's through dG/do (the profile's slope)
+  const near = evaluated.filter((p) => p !== best && Math.abs(p.o - best.o) > 0).sort((a, b) => Math.abs(a.o - best.o) - Math.abs(b.o - best.o))[0];
+  const slope = near ? (near.gain - best.gain) / (near.o - best.o) : -1 / M0;
+  const gainSigma = Math.hypot(best.gainSigma, slope * sigma);
+  return { offset: best.o, sigma: edge ? Infinity : sigma, ssr: best.ssr, residualRms: best.rms, evaluations, gain: best.gain, gainSigma: edge ? Infinity : gainSigma, gainSlope: slope };
 }
 
 function layerEnd(l: FitLayerData, p: LayerParams) {

@@ -38,6 +38,12 @@ export interface SharedGain {
   driftPerS: number;
   fitDrift: boolean;
   driftPrior?: DriftPrior;
+  /**
+   * A Gaussian prior on G from an independent reading (the bare chip's): a pseudo-observation
+   * (G − mean)·c, c = noiseSigma/sigma, noiseSigma the fit points' σ as the covariance counts it
+   * (with the correlation time: √τ·s, fit/gainDriftPrior.ts driftPriorWeight).
+   */
+  gainPrior?: { mean: number; sigma: number; noiseSigma: number };
 }
 
 /** One layer's estimates with 1σ (σ of a held parameter is 0). */
@@ -135,6 +141,8 @@ function fitOnce(input: JointFitInput, options: LeastSquaresOptions): JointFitRe
   // The gain drift's prior: a pseudo-observation (γ − γ₀)·c (fit/gainDriftPrior.ts).
   const driftPrior = sharedGain?.fitDrift ? sharedGain.driftPrior : undefined;
   if (driftPrior?.weight !== undefined && layout.sharedDrift >= 0) priors.push({ param: layout.sharedDrift, g0: driftPrior.meanPerS, c: driftPrior.weight });
+  const gp = sharedGain?.gainPrior;
+  if (gp && gp.sigma > 0 && gp.noiseSigma > 0) priors.push({ param: layout.shared, g0: gp.mean, c: gp.noiseSigma / gp.sigma });
   // The wander's unit-normal prior: 0 = σ_point·v_j (scaled by the layer's weight, like its data).
   layers.forEach((l, j) => {
     const k = wanderCount(l.wander);

@@ -12,10 +12,13 @@ import { subsampleUniform } from './subsample';
  * Layers the offset fit uses: the chip's first ones, per monitor mode. In transmittance the first
  * layers read high and cannot tell an offset from the gain (σ of 0.2–0.3 % of full scale from
  * three layers of a quarter-wave mirror); six, reaching down to a third of the bare reading,
- * bring σ to about 0.05 % of full scale on the chamber harness. In reflectance three suffice
- * (σ about 0.02 % of full scale); more bring in the level-cut and later layers' rate errors.
+ * bring σ to about 0.05 % of full scale on the chamber harness. In reflectance the bare chip
+ * reads a few % of full scale and its reading tells the gain only to ±0.2–0.8 %; the layers'
+ * extremes at several levels tell it better: with the gain free under the bare reading's prior,
+ * eight layers (the 8-layer R run, seeds 51–60) put it within 0.15 % of the truth (σ 0.09–0.10 %)
+ * where three left it 0.2–0.66 % off, the offset taking up the bare reading's own error.
  */
-const OFFSET_FIT_LAYERS = { R: 3, T: 6 } as const;
+const OFFSET_FIT_LAYERS = { R: 8, T: 6 } as const;
 /** Samples per layer in the offset fit. */
 const OFFSET_FIT_POINTS = 100;
 /** A fit counts only with σ under this fraction of full scale (bare reading / modelled bare signal). */
@@ -37,13 +40,13 @@ const MODEL_SIGMA = { R: 0.001, T: 0.0015 } as const;
  * the profile's, and where the chips disagree their spread beyond their σ (betweenChipSigma): on
  * the rate-wander mirror (seeds 15–30) 6 of 48 chips had taken an offset 0.7–0.9 % of full scale
  * off at 3.4–4σ, their H layers then up to 2.4 % thick (refit RMS 0.58 → 0.45 %). The offset assumed before (0, or an earlier chip's) is kept unless the fit is
- * more than 3σ away from it. A chip whose layers do not determine it gets a warning in
+ * more than 3σ (option offsetAdoptionSigma) away from it. A chip whose layers do not determine it gets a warning in
  * reflectance (there a bare chip reads a few % of full scale, and an offset of 0.5 % of full
  * scale taken as 0 puts thicknesses 10–30 % off).
  */
 export function fitOffsets(
   design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>,
-  chips: Map<number, ChipStart>, warnings: string[],
+  chips: Map<number, ChipStart>, warnings: string[], adoptionSigma = 3,
 ): void {
   const todo = [...chips.values()].filter((c) => c.calibration.bareLevel !== null && (c.calibration.offsetSource === 'assumed' || c.calibration.offsetSource === 'earlier-chip'));
   const fits = todo.map((start) => ({ start, fit: fitOne(design, trace, order, samplesByLayer, start) }));
@@ -69,12 +72,17 @@ export function fitOffsets(
       set(chips, f.start, { ...cal, offsetSigma: Number.isFinite(sigma) ? sigma : 0 }, 0);
       continue;
     }
+    // In reflectance the chip's gain as its layers and bare reading tell it together (the profile's,
+    // at the offset taken, kept or fitted: ChipCalibration.layerGainSigma); in transmittance the
+    // bare reading tells it alone as well (the 12-layer T run: no figure moved by over 0.0001).
+    const fit = f.fit && Number.isFinite(f.fit.gainSigma) && f.start.mode === 'R' ? f.fit : null;
+    const fromLayers = (offset: number) => (fit ? { gain: fit.gain + fit.gainSlope * (offset - fit.offset), layerGainSigma: fit.gainSigma } : {});
     const shift = Math.abs(est.offset - cal.offset);
-    if (shift <= 3 * est.sigma) {
-      set(chips, f.start, { ...cal, offsetSigma: est.sigma }, own!.sigma);
+    if (shift <= adoptionSigma * est.sigma) {
+      set(chips, f.start, { ...cal, offsetSigma: est.sigma, ...fromLayers(cal.offset) }, own!.sigma);
       continue;
     }
-    set(chips, f.start, { ...cal, offset: est.offset, offsetSigma: est.sigma, offsetSource: 'fitted', gain: (cal.bareLevel! - est.offset) / f.start.modelledBare }, own!.sigma);
+    set(chips, f.start, { ...cal, offset: est.offset, offsetSigma: est.sigma, offsetSource: 'fitted', gain: (cal.bareLevel! - est.offset) / f.start.modelledBare, ...fromLayers(est.offset) }, own!.sigma);
   }
 }
 
@@ -110,14 +118,12 @@ function fitOne(design: Design, trace: TraceData, order: readonly DesignLayer[],
   const own = order.filter((l) => samplesByLayer.get(l.layer)!.chip === cal.chip && samplesByLayer.get(l.layer)!.tauS.length >= 20).slice(0, OFFSET_FIT_LAYERS[start.mode]);
   if (own.length === 0 || cal.bareLevel === null) return null;
   const layers = own.map((dl) => offsetFitData(design, trace, dl, samplesByLayer.get(dl.layer)!));
-  const fit = fitChipOffset({
+  // The gain free under the bare reading's prior (σ_B = gainSigma·M₀): where the layers pin the
+  // gain down, the offset takes up the bare reading's own error, and the profile's σ carries it.
+  return fitChipOffset({
     layers, bareLevel: cal.bareLevel, modelledBare: start.modelledBare, startOffset: cal.offset,
-    rateGuess: own.map((dl, j) => dl.thicknessNm / Math.max(layers[j].durationS, 1e-9)),
+    rateGuess: own.map((dl, j) => dl.thicknessNm / Math.max(layers[j].durationS, 1e-9)), bareSigma: cal.gainSigma * start.modelledBare,
   });
-  // The gain is tied to the bare reading: where the layers pin the gain down, the offset takes up
-  // the bare reading's own error (σ_B = gainSigma·M₀), which the profile does not see.
-  const bareSigma = cal.gainSigma * start.modelledBare;
-  return { ...fit, sigma: Math.hypot(fit.sigma, bareSigma) };
 }
 
 const fmt = (x: number) => (100 * x).toFixed(2);

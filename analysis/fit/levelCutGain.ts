@@ -20,3 +20,17 @@ export function holdsLevelCutGain(cut: 'level' | 'turning-point', calibration: P
 
 /** How much better than the prior's σ the calibration must tell the gain. */
 export const CALIBRATION_MARGIN = 5;
+
+/**
+ * Option reflectanceChipGain: whether every layer of a reflectance chip holds the chip's gain
+ * (sequential and refit) instead of a gain of its own (sequential, under the prior) or a chip-wide
+ * gain freed in the joint fit (refit): where its fitted offset's profile told the gain from all
+ * its layers (ChipCalibration.layerGainSigma) better than the per-layer gain's prior. A layer's own
+ * gain in reflectance trades against its index: on the 8-layer R run (seeds 51–60) per-layer gains
+ * anchored on the true gain left thickness 9.4 % and index 0.14 off (seeds 51–56), the true gain held
+ * 0.96 % and 0.0066; the refit's freed gain wandered up to 0.75 % from the profile's, index 0.025 against 0.0075.
+ */
+export function holdsChipGain(mode: 'R' | 'T', calibration: Pick<ChipCalibration, 'gain' | 'layerGainSigma'>, priorFraction: number): boolean {
+  const s = calibration.layerGainSigma;
+  return mode === 'R' && s !== undefined && priorFraction > 0 && s / Math.abs(calibration.gain) < priorFraction;
+}

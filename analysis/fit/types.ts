@@ -70,10 +70,26 @@ export interface AnalyzeOptions {
    */
   fitOffset?: boolean;
   /**
+   * A fitted offset replaces the one assumed (zero, or an earlier chip's) only when it lies more
+   * than this many of its σ (statistical and systematic, fit/fittedOffsets.ts) away. At 2 the
+   * 12-layer T run with 0.5 % stray light (seeds 55–66) came to 0.72/0.78 % and index 0.0066/0.0067
+   * (sequential/refit) from 1.68/1.48 % and 0.030/0.028, two seeds' 0.47 % fits no longer held at
+   * zero; but the rate-wander mirror without stray light (seeds 15–24) took spurious offsets, 13/14 →
+   * 31/40 of 540 figures beyond 3σ. @default 3
+   */
+  offsetAdoptionSigma?: number;
+  /**
    * Gain mode 'per-layer': a Gaussian prior holding each layer's gain near the chip calibration
    * (with any known drift), σ as a fraction of the gain; 0 leaves the gains free. @default 0.005
    */
   gainPriorFraction?: number;
+  /**
+   * Reflectance monitoring without a dark reading: where a chip's fitted offset's profile told its
+   * gain from all its layers better than gainPriorFraction, every layer of the chip holds that
+   * gain (sequential and refit), its σ carried into the layers (fit/levelCutGain.ts holdsChipGain,
+   * fit/heldGainSigma.ts). @default true
+   */
+  reflectanceChipGain?: boolean;
   /**
    * Gain mode 'per-layer': a layer cut on level takes the chip's calibrated gain (held, with the
    * held drift, its σ carried as in gain mode 'chip') where the bare chip tells the gain five
