@@ -48,11 +48,14 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (drift === 'free') settings.gainDrift = true;
     const lamp = String(form.get('lampStability') ?? '').trim();
     if (lamp !== '') settings.lampStabilityPerHour = Number(lamp) / 100;
+    const adoption = String(form.get('offsetAdoption') ?? '').trim();
+    if (adoption !== '') settings.offsetAdoptionSigma = Number(adoption);
     const overshoot = String(form.get('turningPointOvershoot') ?? '').trim();
     if (overshoot !== '') settings.turningPointOvershootPct = Number(overshoot);
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
+    if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
     for (const key of ['rateWander', 'indexGradient', 'levelStartTransient'] as const) if (form.get(key) === 'on') settings[key] = true;
     for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
@@ -105,6 +108,10 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           <label htmlFor="re-lamp">Lamp stability, %/h (0: none assumed)</label>
           <input id="re-lamp" name="lampStability" type="number" min="0" max="20" step="0.1" placeholder="1 (default)" className={select} />
         </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-adoption">A fitted offset replaces the assumed one beyond this many σ from it</label>
+          <input id="re-adoption" name="offsetAdoption" type="number" min="0" max="10" step="0.5" placeholder="3 (default)" className={select} />
+        </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
           <label htmlFor="re-overshoot">Without a layer column: how far past a turning point the controller may cut, % of the layer (its mean into the thickness, its spread into σ)</label>
           <input id="re-overshoot" name="turningPointOvershoot" type="number" min="0" max="10" step="0.1" placeholder="1 (default)" className={select} />
@@ -118,6 +125,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="levelCutGain" defaultChecked /> Layer by layer, a layer cut on level keeps its chip&apos;s calibrated gain where the bare chip read it well (unchecked: a gain of its own)
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="reflectanceChipGain" defaultChecked /> In reflectance, every layer keeps the chip&apos;s gain where its first layers pinned it better than a layer&apos;s own gain would be
           </label>
         </div>
         <fieldset className="flex flex-col gap-1 text-sm sm:col-span-2 lg:col-span-4" data-testid="reanalyse-effects">

@@ -14,6 +14,8 @@ export const analysisSettingsSchema = z
     lampDriftFit: z.boolean().optional(),
     gainDriftFromChips: z.boolean().optional(),
     fitOffset: z.boolean().optional(),
+    offsetAdoptionSigma: z.number().min(0).max(10).optional(),
+    reflectanceChipGain: z.boolean().optional(),
     heldIndex: z.enum(['nominal', 'run-drift']).optional(),
     thinLayerQwot: z.number().min(0).max(4).optional(),
     rateWander: z.boolean().optional(),

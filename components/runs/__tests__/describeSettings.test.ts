@@ -22,6 +22,9 @@ describe('analysis settings', () => {
       'sequential · turning-point cuts placed on the turning point',
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', pooledIndex: false }))).toBe('refit · each index read alone');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', reflectanceChipGain: false, offsetAdoptionSigma: 2 }))).toBe(
+      'sequential · own gain per layer in reflectance · fitted offset taken beyond 2 σ',
+    );
   });
 
   it('refuses an option the fit does not know, and a wrong type', () => {
@@ -33,5 +36,6 @@ describe('analysis settings', () => {
     // an overshoot past a turning point of more than 10 % of the layer is no turning-point cut
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', turningPointOvershootPct: 25 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', turningPointOvershootPct: -1 }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', offsetAdoptionSigma: -1 }).success).toBe(false);
   });
 });
