@@ -253,7 +253,11 @@ function runBasis(design: Design, trace: TraceData): RunBasis {
 async function analyzeLayers(
   design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient, basis = runBasis(design, trace),
 ): Promise<AnalysisResult | null> {
-  const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
+  const refitMode = (options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit';
+  const o = {
+    ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? (refitMode ? 'chip' : 'per-layer'),
+    shutterTimeGrowth: options.shutterTimeGrowth ?? (refitMode ? 'run-mean' : 'bounded'),
+  };
   const warnings: string[] = trace.warnings.map((w) => w.message);
   const { byDesign, seg, gathered, idleModel, noiseFloor } = basis;
   for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
@@ -268,7 +272,7 @@ async function analyzeLayers(
     ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
   // the cut ended (placeBoundaries fits flat–growth–flat): no growth is added to them.
-  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel);
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth);
   for (const l of samplesByLayer.keys()) {
     if (l > design.layers.length) warnings.push(`the trace has layer ${l}, the design only ${design.layers.length}; ignored`);
   }
