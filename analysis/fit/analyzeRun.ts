@@ -265,7 +265,11 @@ function runBasis(design: Design, trace: TraceData): RunBasis {
 async function analyzeLayers(
   design: Design, trace: TraceData, options: AnalyzeOptions, transient: PassTransient, basis = runBasis(design, trace),
 ): Promise<AnalysisResult | null> {
-  const o = { ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? ((options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit' ? 'chip' : 'per-layer') };
+  const refitMode = (options.mode ?? ANALYZE_DEFAULTS.mode) === 'refit';
+  const o = {
+    ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? (refitMode ? 'chip' : 'per-layer'),
+    shutterTimeGrowth: options.shutterTimeGrowth ?? (refitMode ? 'run-mean' : 'bounded'),
+  };
   const warnings: string[] = trace.warnings.map((w) => w.message);
   const { byDesign, seg, gathered } = basis;
   for (const w of seg.warnings) warnings.push(typeof w === 'string' ? w : w.message);
@@ -298,7 +302,7 @@ async function analyzeLayers(
   };
   const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
   const { idleModel, noiseFloor } = basis.noise();
-  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel);
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
