@@ -719,9 +719,10 @@ async function analyzeLayers(
   // demo's clean single-layer run then read "residuals 1.8×".
   if (reference === null && idleModel && noiseFloor.samples >= 100) reference = Math.sqrt(idleModel.whiteVar + idleModel.ar1Var);
   if (o.pooledIndex) {
-    // Each material's indices read with its other layers' (fit/pooledIndex.ts). The residuals
-    // reported stay the least-squares fit's: they judge whether the law follows the layer's data
-    // (a layer resting on a pooled one would otherwise read the pooled index's misfit as its own).
+    // Each material's indices read with its other layers' (fit/pooledIndex.ts). The least-squares
+    // fit's residuals are kept to judge whether the law follows the layer's data (a layer resting on
+    // a pooled one would otherwise read the pooled index's misfit as its own); those reported are
+    // the reported model's, the one drawn over the data.
     const belows = states.map(belowOf);
     states.forEach((s, j) => (s.fitResidualRms = layerResidualRms(s, belows[j], trace)));
     poolIndices(states.map((s) => ({

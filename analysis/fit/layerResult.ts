@@ -37,11 +37,14 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const n = samples.tauS.length;
   const wander = e.wander ? s.fit.wander : undefined;
   const m = modelSignal(s, below);
-  const modelRms = Math.sqrt(squaredResiduals(trace.signal, samples.indices, calibration.offset, e.gain, m, modelOut) / n);
-  // the least-squares fit's own residuals where the index pooling moved the estimates since
-  const residualRms = s.fitResidualRms ?? modelRms;
+  // The residuals reported are those of the model reported (the one drawn over the data); whether
+  // the law follows the layer's data is judged on the least-squares fit's own, where the index
+  // pooling moved the estimates since (fit/pooledIndex.ts: a pooled index, or one below, fits a
+  // little worse by design, and that is no departure from a smooth rate).
+  const residualRms = Math.sqrt(squaredResiduals(trace.signal, samples.indices, calibration.offset, e.gain, m, modelOut) / n);
   const noise = noiseSigma / e.gain;
   const residualToNoise = noise > 0 ? residualRms / noise : NaN;
+  const lawMisfit = noise > 0 ? (s.fitResidualRms ?? residualRms) / noise : NaN;
 
   const quarter = wl / 4;
   const cutErrorQwotPct = ((e.opticalThicknessNm - nominal.re * dl.thicknessNm) / quarter) * 100;
@@ -96,8 +99,8 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   if (samples.runs > 1) warnings.push(`the layer was deposited in ${samples.runs} runs; the pauses are left out of its time base`);
   if (!s.converged) warnings.push('the fit did not converge within its iteration limit');
   if (!s.wellDetermined) warnings.push('the data do not determine every parameter (singular normal matrix): uncertainties unknown');
-  if (residualToNoise > o.residualWarnFactor) {
-    warnings.push(`residuals ${residualToNoise.toFixed(1)}× the noise: the signal departs from a smooth rate (a rate spike or jump?) or from the model`);
+  if (lawMisfit > o.residualWarnFactor) {
+    warnings.push(`residuals ${lawMisfit.toFixed(1)}× the noise: the signal departs from a smooth rate (a rate spike or jump?) or from the model`);
   }
   // A wandering rate follows a spike or jump, so the residuals no longer show it: say so from the wander.
   const departure = wander && e.wander ? maxWanderFraction(wander, e) : 0;
