@@ -40,7 +40,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
   async function submit(form: FormData) {
     setMessage(null);
     const settings: Record<string, unknown> = { mode: form.get('mode') };
-    for (const key of ['gain', 'heldIndex'] as const) if (form.get(key)) settings[key] = form.get(key);
+    for (const key of ['gain', 'heldIndex', 'shutterTimeGrowth'] as const) if (form.get(key)) settings[key] = form.get(key);
     const thin = String(form.get('thinLayerQwot') ?? '').trim();
     if (thin !== '') settings.thinLayerQwot = Number(thin);
     const drift = form.get('chipDrift');
@@ -102,6 +102,14 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <option value="">Held; the lamp&apos;s stability carried into every σ</option>
             <option value="prior">Fitted under the lamp&apos;s stability (joint re-fit)</option>
             <option value="free">Fitted freely (joint re-fit, one gain per chip)</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-shutter">Growth after the cut of a chip&apos;s last layer (nothing above it tells)</label>
+          <select id="re-shutter" name="shutterTimeGrowth" className={select} defaultValue="">
+            <option value="">Mode default</option>
+            <option value="run-mean">The run&apos;s shutter time as read (joint re-fit&apos;s default)</option>
+            <option value="bounded">That time kept within 0–2 s (layer by layer&apos;s default)</option>
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft">

@@ -19,6 +19,8 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.levelStartTransient === true) parts.push('start-up on level cuts');
   if (s.holdUncarriedDrift === false) parts.push('every rate drift free');
   if (s.indexGradient === true) parts.push('index gradient in thick layers');
+  if (s.shutterTimeGrowth === 'bounded') parts.push("last layers' growth within 0–2 s of shutter time");
+  if (s.shutterTimeGrowth === 'run-mean') parts.push("last layers' growth at the run's shutter time");
   if (s.growthFromNext === false) parts.push('growth after turning-point cuts in σ only');
   if (s.turningPointExcessMean === false) parts.push('turning-point cuts placed on the turning point');
   if (s.pooledIndex === false) parts.push('each index read alone');

@@ -25,6 +25,9 @@ describe('analysis settings', () => {
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', reflectanceChipGain: false, offsetAdoptionSigma: 2 }))).toBe(
       'sequential · own gain per layer in reflectance · fitted offset taken beyond 2 σ',
     );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', shutterTimeGrowth: 'run-mean' }))).toBe(
+      "sequential · last layers' growth at the run's shutter time",
+    );
   });
 
   it('refuses an option the fit does not know, and a wrong type', () => {
@@ -37,5 +40,6 @@ describe('analysis settings', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', turningPointOvershootPct: 25 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', turningPointOvershootPct: -1 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', offsetAdoptionSigma: -1 }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', shutterTimeGrowth: 'free' }).success).toBe(false);
   });
 });
