@@ -108,7 +108,7 @@ export interface AnalyzeOptions {
    * layer whose own choice keeps no wander takes its material's shared one (fit/pooledWander.ts),
    * its knots free in the final joint fit: over 20 seeds, rate-wander mirror max 1.36 → 1.40 %,
    * RMS 0.39 → 0.36 %, 3σ coverage 97.2 → 99.2 %, RMS z 1.25 → 1.03; real-chamber mirror 1.85 → 1.34 %,
-   * 0.445 → 0.382 %, 96.1 → 98.3 %, 1.41 → 1.17 (default: 1.75 %, 0.455 %, 99.4 %, 0.95). Not the
+   * 0.445 → 0.383 %, 96.1 → 98.3 %, 1.41 → 1.18 (default: 1.75 %, 0.455 %, 99.4 %, 0.95). Not the
    * default: the bench's 40-layer refit takes 2.6 s of CPU without it, 4.5 s with it. @default false
    */
   rateWander?: boolean;
