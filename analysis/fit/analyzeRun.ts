@@ -39,7 +39,7 @@ import { type RateWander } from './rateWander';
 import { chooseRateWander, finishRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
 import { wanderChoiceRequest } from './wanderChoiceRequest';
 import { type WanderPrep } from './wanderPrep';
-import { sharedWanderCosts, type WanderEvidence } from './pooledWander';
+import { sharedWanderCosts, sharedWanders, type WanderEvidence } from './pooledWander';
 import { poolIndices } from './pooledIndex';
 import { addWanderVariance, wanderErrorVariances, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
@@ -78,10 +78,12 @@ export interface LayerState {
   unmodelledWander?: RateWander;
   /** Its cost to the sequential fit's figures, added to σ after the pass. */
   unmodelledVariance?: WanderErrorVariance;
-  /** The layer's wander choice, for its material's shared wander (sequential, option wanderSigma). */
+  /** The layer's wander choice, for its material's shared wander (sequential with option wanderSigma; refit with option rateWander). */
   wanderEvidence?: WanderEvidence<WanderErrorVariance>;
   /** The least-squares fit's residual RMS (model units), kept when the index pooling moved the estimates since (fit/pooledIndex.ts). */
   fitResidualRms?: number;
+  /** Gives the layer a wander to fit (refit, option rateWander: its material's shared one, where its own choice kept none). */
+  takeWander?: (w: RateWander) => void;
   calibration: ChipCalibration;
   /** Design optical thickness in quarter-waves at the monitor wavelength. */
   qwotAtMonitor: number;
@@ -518,6 +520,9 @@ async function analyzeLayers(
       if (prepElsewhere) laterChoices.set(built, prepElsewhere(wanderChoiceRequest(input, model)));
       else {
         const choice = chooseRateWander({ ...input, noisePool });
+        if (o.rateWander && o.mode === 'refit' && !transient.profiles) {
+          built.wanderEvidence = { material: dl.material, scores: choice.scores, rateNmPerS: e.rateNmPerS, durationS: fit.durationS, pointSigma: choice.sampleSigma, own: !!choice.wander };
+        }
         if (!o.rateWander && o.mode === 'sequential') built.scores = { scores: choice.scores, rateNmPerS: e.rateNmPerS, pointSigma: choice.sampleSigma };
         if (choice.wander && !o.rateWander) built.unmodelled = choice.wander;
         else if (choice.wander) {
@@ -582,6 +587,13 @@ async function analyzeLayers(
       ...(gradientTrial ? { gradientTrial } : {}),
     };
     built.state = state;
+    if (built.wanderEvidence && !built.wander) {
+      state.takeWander = (w) => {
+        built.wander = w;
+        state.fit.wander = { ...w, pointSigma: w.pointSigma * Math.sqrt(state.fit.tauS.length / n) };
+        state.refit.wander = { ...w, pointSigma: w.pointSigma * Math.sqrt(state.refit.tauS.length / n) };
+      };
+    }
     ends?.ended(state, below);
     prior.push(state);
     chipLayers.set(chip, prior);
@@ -607,6 +619,14 @@ async function analyzeLayers(
       s.fit.heldIndex = held;
       s.heldIndexSigma = drift.sigma;
       s.estimate = { ...s.estimate, index: held };
+    }
+    if (o.rateWander) {
+      // A layer whose own choice kept no wander takes its material's shared one (fit/pooledWander.ts):
+      // the wander is in every layer, and a choice that keeps the plain law only lacks the evidence.
+      const chose = states.filter((s) => s.wanderEvidence);
+      sharedWanders(chose.map((s) => s.wanderEvidence!)).forEach((w, j) => {
+        if (w) chose[j].takeWander!(w);
+      });
     }
     for (const [chip, chipStates] of chipLayers) {
       const perLayer = finalPointsPerLayer(o, chipStates.length);

@@ -1,9 +1,10 @@
 import { type LayerAt } from '../optics';
 import { autocorrelationTime } from '../stats';
 import { leastSquares, type LeastSquaresOptions, type LeastSquaresResult } from './leastSquares';
+import { type ColumnTails } from './solver';
 import {
   decodeLayer, encodeLayer, evaluateLayers, jacobianLayers, paramLayout,
-  type FitLayerData, type LayerParams,
+  type FitLayerData, type LayerParams, type ParamLayout,
 } from './layerModel';
 import { lawThickness, wanderBasis, wanderCount } from './rateWander';
 import { driftPriorWeight, guessNoise, weightFromFit, type DriftPrior } from './gainDriftPrior';
@@ -167,6 +168,9 @@ function fitOnce(input: JointFitInput, options: LeastSquaresOptions): JointFitRe
     if (!shared && l.heldGain === null && !priors.some((q) => q.param === next - 1)) rowEnd[next - 1] = pos + l.y.length;
     pos += l.y.length;
   });
+  // With free wander knots (many growth-law columns), their products over the later layers' rows
+  // from each layer's rate column (solver/normalEquations.ts ColumnTails).
+  const tails = layers.some((l) => wanderCount(l.wander) > 0) ? growthLawTails(layers, layout, total) : null;
   const solver = leastSquares(
     {
       y,
@@ -187,6 +191,7 @@ function fitOnce(input: JointFitInput, options: LeastSquaresOptions): JointFitRe
       min,
       max,
       columnRows: { start: rowStart, end: rowEnd },
+      ...(tails ? { columnTails: tails } : {}),
     },
     options,
   );
@@ -275,4 +280,19 @@ function inflateForCorrelatedNoise(solver: LeastSquaresResult, layers: readonly 
     solver.sigma[a] *= f[a];
   }
   return tau;
+}
+
+/** Each layer's growth-law columns (rate, drift, wander knots) as multiples of its rate column on the later layers' rows. */
+function growthLawTails(layers: readonly FitLayerData[], layout: ParamLayout, total: number): ColumnTails {
+  const from = new Int32Array(layout.count), base = new Int32Array(layout.count).fill(-1);
+  let pos = 0;
+  layers.forEach((l, j) => {
+    pos += l.tauS.length;
+    const rate = layout.offsets[j] + (l.heldIndex === null ? 1 : 0);
+    for (let k = rate; k < rate + 1 + (l.fitDrift ? 1 : 0) + wanderCount(l.wander); k++) {
+      from[k] = pos;
+      base[k] = rate;
+    }
+  });
+  return { from, to: total, base };
 }

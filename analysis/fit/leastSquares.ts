@@ -1,5 +1,5 @@
 import { invertSymmetric } from './invertSymmetric';
-import { choleskyScaled, huberFit, levenbergMarquardt, normalEquations, solveScaled, type SolverResult, type StopReason } from './solver';
+import { choleskyScaled, huberFit, levenbergMarquardt, normalEquations, solveScaled, type ColumnTails, type SolverResult, type StopReason } from './solver';
 
 /** A nonlinear least-squares problem in physical parameters p. */
 export interface LeastSquaresProblem {
@@ -22,6 +22,8 @@ export interface LeastSquaresProblem {
   jacobian?: (p: Float64Array, modelAtP: Float64Array, stepNm: Float64Array, out: Float64Array) => void;
   /** Rows outside which each Jacobian column is zero (see SolverProblem.columnRows). */
   columnRows?: { start: Int32Array; end: Int32Array };
+  /** Rows over which a column is a multiple of another (see SolverProblem.columnTails). */
+  columnTails?: ColumnTails;
 }
 
 export interface LeastSquaresOptions {
@@ -111,7 +113,7 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
   // start (toPhysical(0) is the start exactly): taken from there, not computed again.
   const atStart = (u: Float64Array) => u.every((v) => v === 0);
   const solverProblem = {
-    n, p: np, y: problem.y, lower, upper, columnRows: problem.columnRows,
+    n, p: np, y: problem.y, lower, upper, columnRows: problem.columnRows, columnTails: problem.columnTails,
     model: (u: Float64Array, out: Float64Array) => (atStart(u) ? out.set(at0) : problem.model(toPhysical(u), out)),
     jacobian: (u: Float64Array, at: Float64Array, out: Float64Array) => {
       if (atStart(u)) out.set(j0);
@@ -143,7 +145,7 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
     const dy = Float64Array.from(deltaY), g = new Float64Array(np);
     if (factor === undefined) {
       const a = new Float64Array(np * np);
-      normalEquations(jac, dy, weights ?? undefined, n, np, problem.columnRows, a, g);
+      normalEquations(jac, dy, weights ?? undefined, n, np, problem.columnRows, a, g, problem.columnTails);
       factor = choleskyScaled(a, np);
     } else {
       for (let j = 0; j < np; j++) {

@@ -1,4 +1,4 @@
-import { choleskySolve, normalEquations } from './normalEquations';
+import { choleskySolve, normalEquations, type ColumnTails } from './normalEquations';
 
 /**
  * A nonlinear least-squares problem for the solver, in solver units u (the caller scales its
@@ -20,6 +20,8 @@ export interface SolverProblem {
    * The normal matrix then sums only over the rows two columns share.
    */
   columnRows?: { start: Int32Array; end: Int32Array };
+  /** Rows over which a column is a multiple of another (see ColumnTails). */
+  columnTails?: ColumnTails;
   lower?: ArrayLike<number>;
   upper?: ArrayLike<number>;
 }
@@ -103,7 +105,7 @@ export function levenbergMarquardt(problem: SolverProblem, u0: ArrayLike<number>
   const linearize = () => {
     problem.jacobian(u, f, jac);
     jacobians++;
-    normalEquations(jac, e, w, n, p, problem.columnRows, a, g);
+    normalEquations(jac, e, w, n, p, problem.columnRows, a, g, problem.columnTails);
   };
   linearize();
   let maxDiag = 0;

@@ -1,14 +1,37 @@
 /**
+ * Rows over which a column is a multiple of another (its base): a layer's growth-law columns
+ * (rate, drift, wander knots) on the later layers' samples, which see the layer only through its
+ * end thickness (fit/layerModel.ts jacobianLayers: ∂d(T)/∂θ times one ∂y/∂d). Column j is
+ * f_j·column base[j] on rows [from[j], to) (base −1: none); f_j is read from the Jacobian itself
+ * and a column that is not such a multiple to rounding is summed row by row.
+ */
+export interface ColumnTails {
+  from: Int32Array;
+  to: number;
+  base: Int32Array;
+}
+
+/**
  * A = JᵀWJ and g = JᵀWe for a column-major Jacobian (column j at j·n). With `rows`, column j is
  * taken as zero outside [start[j], end[j]), so each product runs only over the rows both columns
- * share and the zero blocks of a joint fit cost nothing.
+ * share and the zero blocks of a joint fit cost nothing. With `tails`, two columns' products over
+ * their tails are f_i·f_j times their bases' product, summed once per pair of bases.
  */
 export function normalEquations(
   jac: Float64Array, e: Float64Array, w: Float64Array | undefined, n: number, p: number,
-  rows: { start: Int32Array; end: Int32Array } | undefined, a: Float64Array, g: Float64Array,
+  rows: { start: Int32Array; end: Int32Array } | undefined, a: Float64Array, g: Float64Array, tails?: ColumnTails,
 ): void {
   const s0 = (j: number) => (rows ? rows.start[j] : 0);
   const s1 = (j: number) => (rows ? rows.end[j] : n);
+  const f = tails ? tailFactors(jac, n, p, tails) : null;
+  const baseProducts = new Map<number, number>();
+  const product = (i: number, j: number, from: number, to: number) => {
+    const oi = i * n, oj = j * n;
+    let t = 0;
+    if (w) for (let k = from; k < to; k++) t += jac[oi + k] * w[k] * jac[oj + k];
+    else for (let k = from; k < to; k++) t += jac[oi + k] * jac[oj + k];
+    return t;
+  };
   for (let i = 0; i < p; i++) {
     const oi = i * n;
     const lo = s0(i), hi = s1(i);
@@ -17,15 +40,44 @@ export function normalEquations(
     else for (let k = lo; k < hi; k++) s += jac[oi + k] * e[k];
     g[i] = s;
     for (let j = i; j < p; j++) {
-      const oj = j * n;
       const from = Math.max(lo, s0(j)), to = Math.min(hi, s1(j));
-      let t = 0;
-      if (w) for (let k = from; k < to; k++) t += jac[oi + k] * w[k] * jac[oj + k];
-      else for (let k = from; k < to; k++) t += jac[oi + k] * jac[oj + k];
+      let t: number;
+      if (f && tails && Number.isFinite(f[i]) && Number.isFinite(f[j])) {
+        const t0 = Math.max(from, tails.from[i], tails.from[j]), t1 = Math.min(to, tails.to);
+        if (t1 > t0) {
+          const bi = Math.min(tails.base[i], tails.base[j]), bj = Math.max(tails.base[i], tails.base[j]);
+          const key = ((bi * p + bj) * (n + 1) + t0) * (n + 1) + t1;
+          let b = baseProducts.get(key);
+          if (b === undefined) baseProducts.set(key, (b = product(bi, bj, t0, t1)));
+          t = product(i, j, from, t0) + f[i] * f[j] * b + product(i, j, t1, to);
+        } else t = product(i, j, from, to);
+      } else t = product(i, j, from, to);
       a[i * p + j] = t;
       a[j * p + i] = t;
     }
   }
+}
+
+/** f_j of each column with a tail (NaN for the others, and for a column its base does not span to rounding). */
+function tailFactors(jac: Float64Array, n: number, p: number, tails: ColumnTails): Float64Array {
+  const f = new Float64Array(p).fill(NaN);
+  for (let j = 0; j < p; j++) {
+    const b = tails.base[j];
+    if (b < 0) continue;
+    const oj = j * n, ob = b * n, from = tails.from[j], to = tails.to;
+    let jb = 0, bb = 0, jj = 0;
+    for (let k = from; k < to; k++) {
+      jb += jac[oj + k] * jac[ob + k];
+      bb += jac[ob + k] * jac[ob + k];
+      jj += jac[oj + k] * jac[oj + k];
+    }
+    const r = bb > 0 ? jb / bb : jj === 0 ? 0 : NaN;
+    if (!Number.isFinite(r)) continue;
+    let miss = 0;
+    for (let k = from; k < to; k++) miss += (jac[oj + k] - r * jac[ob + k]) ** 2;
+    if (miss <= 1e-20 * jj) f[j] = r;
+  }
+  return f;
 }
 
 /**

@@ -1,0 +1,39 @@
+// A diagnosis, not a test (run by hand:
+//   npx tsx tests/chamber/harness/seedSweep.ts 'scenario name' [seeds, e.g. 15-30] [mode]):
+// one scenario's errors and 3σ coverage over more seeds than the accuracy harness runs, in one
+// mode, with the analysis options of FRINGELOG_ACCURACY_OPTIONS; and the layers beyond 3σ.
+import { scenarios, type Mode } from '../scenarios';
+import { layerErrors, summarize, type LayerError } from './accuracyTable';
+import { runScenario } from './runScenario';
+
+const rms = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + b * b, 0) / Math.max(1, v.length));
+
+function seedList(arg: string | undefined, fallback: number[]): number[] {
+  if (!arg) return fallback;
+  const range = /^(\d+)-(\d+)$/.exec(arg);
+  if (range) return Array.from({ length: Number(range[2]) - Number(range[1]) + 1 }, (_, i) => Number(range[1]) + i);
+  return arg.split(',').map(Number);
+}
+
+async function main(): Promise<void> {
+  const name = process.argv[2] ?? 'correlated noise and rate wander, mirror';
+  const scenario = scenarios().find((s) => s.name === name);
+  if (!scenario) throw new Error(`no scenario named '${name}'`);
+  const seeds = seedList(process.argv[3], scenario.seeds);
+  const mode = (process.argv[4] ?? 'refit') as Mode;
+  const errors: LayerError[] = [];
+  for (const seed of seeds) {
+    const { run, results } = await runScenario(scenario, seed, [mode]);
+    errors.push(...layerErrors(seed, results[mode], run.truth.layers));
+  }
+  const s = summarize(errors);
+  const pct = (v: number | null) => (v === null ? '—' : `${(v * 100).toFixed(1)}`);
+  const zs = errors.flatMap((e) => (e.zThickness === null ? [] : [e.zThickness]));
+  console.log(`${name} — ${mode} — seeds ${seeds[0]}…${seeds[seeds.length - 1]} (${seeds.length}): max|d| ${s.maxThicknessPct.toFixed(3)} % RMS ${s.rmsThicknessPct.toFixed(3)} `
+    + `max|n| ${s.maxIndex.toFixed(4)} RMS ${s.rmsIndex.toFixed(4)} max|cut| ${s.maxCutQwotPct.toFixed(3)} RMS ${s.rmsCutQwotPct.toFixed(3)} `
+    + `coverage d/n/cut ${pct(s.coverage.thickness)}/${pct(s.coverage.index)}/${pct(s.coverage.cut)} % RMS z_d ${rms(zs).toFixed(2)} missing ${s.missing}`);
+  const out = errors.filter((e) => (e.zThickness ?? 0) > 3 || (e.zCut ?? 0) > 3 || (e.zIndex ?? 0) > 3);
+  console.log(`  beyond 3σ: ${out.map((e) => `s${e.seed} L${e.layer} d${e.thicknessPct!.toFixed(2)}% z${e.zThickness!.toFixed(1)}/${(e.zIndex ?? 0).toFixed(1)}/${(e.zCut ?? 0).toFixed(1)}`).join('  ') || 'none'}`);
+}
+
+void main();
