@@ -738,6 +738,9 @@ async function analyzeLayers(
   // samples on, not the white part alone: a 20 s bare-chip stretch at 10 Hz read only that, and the
   // demo's clean single-layer run then read "residuals 1.8×".
   if (reference === null && idleModel && noiseFloor.samples >= 100) reference = Math.sqrt(idleModel.whiteVar + idleModel.ar1Var);
+  // The run's index drift per material is read from each layer's own reading: pooled indices lie
+  // on their trend by construction, and the drift's scatter-based σ read 0 from them.
+  const ownIndex = new Map(states.map((s) => [s.design.layer, { index: s.estimate.index, indexSigma: s.estimate.indexSigma }]));
   if (o.pooledIndex) {
     // Each material's indices read with its other layers' (fit/pooledIndex.ts). The least-squares
     // fit's residuals are kept to judge whether the law follows the layer's data (a layer resting on
@@ -752,7 +755,7 @@ async function analyzeLayers(
   }
   const model = o.modelSeries ? new Float64Array(trace.rowCount).fill(NaN) : undefined;
   const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model));
-  const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum);
+  const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum, ownIndex);
   return model ? { ...result, model } : result;
 }
 

@@ -3,14 +3,23 @@ import { indexDrift } from '../stats';
 import { type ChipCalibration } from './calibrateChip';
 import { type AnalysisMode, type AnalysisResult, type LayerResult, type ToolingCheck } from './types';
 
-/** Run-level figures: index drift per material, tooling check, as-built against design spectrum. */
+/**
+ * Run-level figures: index drift per material, tooling check, as-built against design spectrum.
+ * The drift is read from `ownIndex` (each layer's own reading) where given, not from indices read
+ * together with their material's (fit/pooledIndex.ts), which lie on a trend by construction.
+ */
 export function runSummary(
   design: Design, mode: AnalysisMode, segmentsInferred: boolean, layers: LayerResult[], chips: ChipCalibration[],
   warnings: string[], range: { fromNm: number; toNm: number; stepNm: number },
+  ownIndex?: ReadonlyMap<number, { index: number; indexSigma: number }>,
 ): AnalysisResult {
-  const drift = indexDrift(layers.map((l) => ({
-    layer: l.layer, material: l.material, timeS: l.startTimeS, indexDeviation: l.indexDeviation, indexSigma: l.indexSigma, indexHeld: l.indexHeld,
-  })));
+  const drift = indexDrift(layers.map((l) => {
+    const own = ownIndex?.get(l.layer);
+    return {
+      layer: l.layer, material: l.material, timeS: l.startTimeS, indexHeld: l.indexHeld,
+      indexDeviation: own ? own.index - l.nominalIndex : l.indexDeviation, indexSigma: own ? own.indexSigma : l.indexSigma,
+    };
+  }));
   const tooling: ToolingCheck[] = [];
   const byMaterial = new Map<string, LayerResult[]>();
   for (const l of layers) {
