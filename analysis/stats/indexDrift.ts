@@ -17,6 +17,8 @@ export interface MaterialDrift {
   layers: number[];
   timeS: number[];
   deviation: number[];
+  /** Each deviation's σ (the layer's own index σ). */
+  sigma: number[];
   meanDeviation: number;
   /** Deviation against the order of the material's fitted layers (1, 2, 3, …): slope per layer. */
   byOrder: LinearTrend;
@@ -41,6 +43,7 @@ export function indexDrift(points: readonly IndexPoint[]): MaterialDrift[] {
       layers: list.map((p) => p.layer),
       timeS,
       deviation,
+      sigma: list.map((p) => p.indexSigma),
       meanDeviation: deviation.reduce((a, b) => a + b, 0) / deviation.length,
       byOrder: linearTrend(list.map((_, i) => i + 1), deviation),
       byTime: linearTrend(timeS.map((t) => t / 3600), deviation),

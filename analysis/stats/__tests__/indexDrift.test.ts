@@ -14,6 +14,7 @@ describe('indexDrift', () => {
     const [h, l] = indexDrift(pts);
     expect(h.material).toBe('H');
     expect(h.layers).toEqual([1, 3, 5]);
+    expect(h.sigma).toEqual([0.001, 0.001, 0.001]);
     expect(h.byOrder.slope).toBeCloseTo(-0.01, 12);
     expect(h.byTime.slope).toBeCloseTo(-0.03, 10); // per hour
     expect(h.meanDeviation).toBeCloseTo(0, 12);

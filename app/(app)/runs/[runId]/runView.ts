@@ -114,7 +114,7 @@ export function traceSpans(rows: readonly LayerView[]): TraceLayerSpan[] {
 }
 
 export type DriftSeries = DriftView & {
-  timeS: number[]; deviation: number[]; /** Each point's fitted index σ (NaN where unknown). */ sigma: number[];
+  timeS: number[]; deviation: number[]; /** Each point's own index σ (the stored drift's; else the layer's; NaN where unknown). */ sigma: number[];
   slopePerLayer: number | null; slopePerLayerSigma: number | null; interceptPerLayer: number | null; interceptPerHour: number | null;
 };
 
@@ -132,7 +132,8 @@ export function driftRows(a: AnalysisWithLayers): DriftSeries[] {
       layers: arr(d.layers),
       timeS: arr(d.timeS),
       deviation: arr(d.deviation),
-      sigma: arr(d.layers).map((l) => sigmaOf.get(l) ?? NaN),
+      // the drift's own σ (each layer's own reading, fit/runSummary.ts); older analyses stored none
+      sigma: Array.isArray(d.sigma) ? arr(d.sigma) : arr(d.layers).map((l) => sigmaOf.get(l) ?? NaN),
       meanDeviation: num(d.meanDeviation),
       slopePerHour: num(byTime.slope),
       slopeSigmaPerHour: num(byTime.slopeSigma),
