@@ -17,7 +17,7 @@ import { carryHeldGainSigma } from './heldGainSigma';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
 import { DEFAULT_LAMP_STABILITY_PER_HOUR, gainDriftPrior } from './gainDriftPrior';
-import { carryGainDriftSigma, carryJointGainDriftSigma } from './gainDriftSigma';
+import { carryGainDriftSigma, carryJointGainDriftSigma, driftShareThroughStack, gainDriftShift, swapGainDriftShare } from './gainDriftSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { type SampleWorkResult } from './layerSampleWork';
 import { type ObservedTurningPoints } from './observedTurningPoints';
@@ -28,11 +28,11 @@ import { levelCutEnds } from './levelCutEnds';
 import { turningPointEndS, turningPointEndsOnChip } from './turningPointEnd';
 import { excessErrorMeanSquare, excessErrorVariance, excessMeanShiftNm, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess, type TurningPointExcess } from './turningPointExcess';
 import { segmentByDesign } from './designSegments';
-import { carryStackUncertainty, emptyStack, type StackCovariance } from './stackUncertainty';
+import { carryStackUncertainty, emptyStack, shiftThroughStack, type StackCovariance } from './stackUncertainty';
 import { startValues } from './startValues';
 import { holdUncarriedDrifts } from './rateDriftChoice';
 import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
-import { indexSeparation } from './thinLayer';
+import { indexSeparation, type HeldIndexShift } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
 import { type RateWander } from './rateWander';
@@ -80,6 +80,12 @@ export interface LayerState {
   unmodelledVariance?: WanderErrorVariance;
   /** The layer's wander choice, for its material's shared wander (sequential with option wanderSigma; refit with option rateWander). */
   wanderEvidence?: WanderEvidence<WanderErrorVariance>;
+  /**
+   * Sequential: the gain drift's shift per σ as the pass carried it (`held`, the layer refitted on
+   * its stack held) and as reported (`chained`: the offset profile's response and the stack's), and
+   * the layer's σ when its fit was done (`atFit`, the held share in it).
+   */
+  gainDriftShares?: { held: HeldIndexShift; chained: HeldIndexShift; atFit: HeldIndexShift };
   /** The least-squares fit's residual RMS (model units), kept when the index pooling moved the estimates since (fit/pooledIndex.ts). */
   fitResidualRms?: number;
   /** Gives the layer a wander to fit (refit, option rateWander: its material's shared one, where its own choice kept none). */
@@ -336,6 +342,9 @@ async function analyzeLayers(
   };
   const states: LayerState[] = [];
   const stacks = new Map<number, StackCovariance>();
+  // Sequential: each chip's layers' shifts (n, d, stack order) under the held gain drift one σ higher,
+  // each through the stack of the ones below (fit/stackUncertainty.ts shiftThroughStack).
+  const driftShifts = new Map<number, Float64Array>();
   // The profiling pass reads the stack's σ only through a growth read from a layer's start, a
   // wander's choice or a thin layer's index prior (weighed by the σ of the layers before): without
   // those it carries no stack (its fits only build the stack each profile stands on).
@@ -404,6 +413,7 @@ async function analyzeLayers(
     const built: {
       state?: LayerState; wander?: RateWander; wanderVariance?: number; gradient?: boolean; unmodelled?: RateWander; unmodelledVariance?: WanderErrorVariance;
       scores?: { scores: WanderChoice['scores']; rateNmPerS: number; pointSigma: number }; wanderEvidence?: WanderEvidence<WanderErrorVariance>;
+      driftShares?: { held: HeldIndexShift; chained: HeldIndexShift };
     } = {};
     const make = (maxPoints: number): FitLayerData => {
       // Bin means, not picked samples: every sample's information at a fraction of the points.
@@ -538,11 +548,31 @@ async function analyzeLayers(
     if (o.mode === 'sequential' && stackRead) {
       // The stack below's uncertainty, carried into this layer's σ (refit fits them jointly instead).
       const held = heldIndex !== null ? { sigma: heldSigma, shift: shiftWithHeldIndex(fit, heldIndex, heldSigma, single.layers[0], fitSingle) } : null;
-      stacks.set(chip, carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held));
+      const stack = carryStackUncertainty(below, fit, single.layers[0], single.solver.params, single.solver.covariance, calibration.offset, (ends ? ends.stackWithGrowth(chip, stacks.get(chip) ?? emptyStack()) : stacks.get(chip) ?? emptyStack()), c, held);
+      stacks.set(chip, stack);
+      // The layer below's σ as the stack took it (stackWithGrowth) holds its gain drift share: what that brought this layer.
+      const top = ends ? prior[prior.length - 1] : undefined;
+      const topDrift = top?.gainDriftShares && stack.sensitivity ? driftShareThroughStack(stack, top.gainDriftShares, top.estimate.thicknessSigmaNm, single.layers[0]) : null;
       // The gain drift held within the layer: its prior σ into the layer's σ (fit/gainDriftSigma.ts).
       // (σ only: not in the profiling pass, whose fits only build the stack each profile stands on)
       if (heldDrift(chip).sigmaPerS > 0 && !transient.profiles) {
-        carryGainDriftSigma(fit, single.layers[0], heldDrift(chip).perS, heldDrift(chip).sigmaPerS, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
+        const { perS, sigmaPerS } = heldDrift(chip);
+        const e = single.layers[0];
+        const own = carryGainDriftSigma(fit, e, perS, sigmaPerS, (g) => cg.gain * (1 + g * chipTimeS), (index, rate, gain) => fitSingle(index, rate, gain));
+        const carried = own && topDrift ? { index: Math.hypot(own.index, topDrift.index), thicknessNm: Math.hypot(own.thicknessNm, topDrift.thicknessNm), opticalNm: Math.hypot(own.opticalNm, topDrift.opticalNm) } : own;
+        // What is reported in its place after the pass (the pass goes on with the σ above, fit/gainDriftSigma.ts
+        // swapGainDriftShare): a chip gain held from the offset's profile moves with the drift as that
+        // fit does, and the offset with it (fit/fittedOffsets.ts); and the drift is the chip's, so the
+        // layers below moved with it, and this one with them through the stack.
+        const response = holdsGain.has(chip) ? chipStarts.get(chip)!.gainDrift?.() ?? undefined : undefined;
+        const direct = response ? gainDriftShift(fit, e, perS, sigmaPerS, (g) => (cg.gain + response.gainPerDrift * (g - perS)) * (1 + g * chipTimeS), (index, rate, gain) => fitLayers({
+          fixedBelow: below, layers: [fit], offsetSignal: calibration.offset + response.offsetPerDrift * sigmaPerS, start: [{ ...e, index, rateNmPerS: rate, gain }],
+        }, { robust: o.robustLoss, maxIterations: 30 }))?.shift ?? null : own;
+        const shifts = driftShifts.get(chip) ?? new Float64Array(0);
+        const through = direct ? shiftThroughStack(stack, shifts, e.index, e.thicknessNm) : null;
+        const chained = direct && through ? { index: direct.index + through.index, thicknessNm: direct.thicknessNm + through.thicknessNm, opticalNm: direct.opticalNm + through.opticalNm } : direct;
+        driftShifts.set(chip, Float64Array.from([...shifts, chained?.index ?? 0, chained?.thicknessNm ?? 0]));
+        if (carried && chained) built.driftShares = { held: carried, chained };
       }
       // A chip gain held from the offset's profile: its σ into the layer's σ (fit/heldGainSigma.ts).
       if (!transient.profiles) {
@@ -584,6 +614,7 @@ async function analyzeLayers(
       ...(built.unmodelled ? { unmodelledWander: built.unmodelled } : {}),
       ...(built.unmodelledVariance ? { unmodelledVariance: built.unmodelledVariance } : {}),
       ...(built.wanderEvidence ? { wanderEvidence: built.wanderEvidence } : {}),
+      ...(built.driftShares ? { gainDriftShares: { ...built.driftShares, atFit: { index: single.layers[0].indexSigma, thicknessNm: single.layers[0].thicknessSigmaNm, opticalNm: single.layers[0].opticalThicknessSigmaNm } } } : {}),
       ...(gradientTrial ? { gradientTrial } : {}),
     };
     built.state = state;
@@ -741,6 +772,7 @@ async function analyzeLayers(
   // The run's index drift per material is read from each layer's own reading: pooled indices lie
   // on their trend by construction, and the drift's scatter-based σ read 0 from them.
   const ownIndex = new Map(states.map((s) => [s.design.layer, { index: s.estimate.index, indexSigma: s.estimate.indexSigma }]));
+  const pooled = new Set<LayerState>();
   if (o.pooledIndex) {
     // Each material's indices read with its other layers' (fit/pooledIndex.ts). The least-squares
     // fit's residuals are kept to judge whether the law follows the layer's data (a layer resting on
@@ -751,8 +783,13 @@ async function analyzeLayers(
     poolIndices(states.map((s) => ({
       material: s.design.material, timeS: s.samples.startTimeS, nominalIndex: s.nominal.re, estimate: s.estimate,
       eligible: s.design.monitor.cut === 'turning-point' && s.qwotAtMonitor >= 0.5 && s.fit.heldIndex === null && !s.estimate.indexGradient,
-    })), warnings).forEach((e, j) => (states[j].estimate = e));
+    })), warnings).forEach((e, j) => {
+      if (e !== states[j].estimate) pooled.add(states[j]);
+      states[j].estimate = e;
+    });
   }
+  // The gain drift's share of σ as reported (the pass weighed with the held one; see gainDriftShares).
+  for (const s of states) if (s.gainDriftShares) swapGainDriftShare(s.estimate, s.gainDriftShares, !pooled.has(s));
   const model = o.modelSeries ? new Float64Array(trace.rowCount).fill(NaN) : undefined;
   const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model));
   const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum, ownIndex);

@@ -21,6 +21,12 @@ export interface ChipStart {
    * one (a fitted offset): what the layers' σ take up (see carryOffsetSigma).
    */
   offsetSigmaRandom?: number;
+  /**
+   * Where the chip's layers set its gain (reflectance, a fitted offset's profile): how that gain (at
+   * the chip's first layer start) and the offset taken move per unit of a lamp drift (per second),
+   * from the same fit under a small drift (fit/fittedOffsets.ts), made when first called; null where that fit fails.
+   */
+  gainDrift?: () => { offsetPerDrift: number; gainPerDrift: number } | null;
 }
 
 /**

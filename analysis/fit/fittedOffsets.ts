@@ -76,18 +76,34 @@ export function fitOffsets(
     // at the offset taken, kept or fitted: ChipCalibration.layerGainSigma); in transmittance the
     // bare reading tells it alone as well (the 12-layer T run: no figure moved by over 0.0001).
     const fit = f.fit && Number.isFinite(f.fit.gainSigma) && f.start.mode === 'R' ? f.fit : null;
-    const fromLayers = (offset: number) => (fit ? { gain: fit.gain + fit.gainSlope * (offset - fit.offset), layerGainSigma: fit.gainSigma } : {});
+    const gainOf = (g: OffsetFit, offset: number) => g.gain + g.gainSlope * (offset - g.offset);
+    const fromLayers = (offset: number) => (fit ? { gain: gainOf(fit, offset), layerGainSigma: fit.gainSigma } : {});
+    // The same fit under a small lamp drift: how the offset and gain it gives move with the drift
+    // (made when first asked for: only a sequential analysis's held drift reads it).
+    const response = (offset: number, adopted: boolean): ChipStart['gainDrift'] => {
+      if (!fit) return undefined;
+      let memo: ReturnType<NonNullable<ChipStart['gainDrift']>> | undefined;
+      return () => {
+        if (memo !== undefined) return memo;
+        const drifted = fitOne(design, trace, order, samplesByLayer, f.start, PROBE_DRIFT_PER_S);
+        const moved = drifted && adopted ? offset + drifted.offset - fit.offset : offset;
+        memo = drifted && Number.isFinite(drifted.gain)
+          ? { offsetPerDrift: (moved - offset) / PROBE_DRIFT_PER_S, gainPerDrift: (gainOf(drifted, moved) - gainOf(fit, offset)) / PROBE_DRIFT_PER_S }
+          : null;
+        return memo;
+      };
+    };
     const shift = Math.abs(est.offset - cal.offset);
     if (shift <= adoptionSigma * est.sigma) {
-      set(chips, f.start, { ...cal, offsetSigma: est.sigma, ...fromLayers(cal.offset) }, own!.sigma);
+      set(chips, f.start, { ...cal, offsetSigma: est.sigma, ...fromLayers(cal.offset) }, own!.sigma, response(cal.offset, false));
       continue;
     }
-    set(chips, f.start, { ...cal, offset: est.offset, offsetSigma: est.sigma, offsetSource: 'fitted', gain: (cal.bareLevel! - est.offset) / f.start.modelledBare, ...fromLayers(est.offset) }, own!.sigma);
+    set(chips, f.start, { ...cal, offset: est.offset, offsetSigma: est.sigma, offsetSource: 'fitted', gain: (cal.bareLevel! - est.offset) / f.start.modelledBare, ...fromLayers(est.offset) }, own!.sigma, response(est.offset, true));
   }
 }
 
-function set(chips: Map<number, ChipStart>, start: ChipStart, calibration: ChipCalibration, offsetSigmaRandom: number): void {
-  chips.set(calibration.chip, { ...start, calibration, offsetSigmaRandom });
+function set(chips: Map<number, ChipStart>, start: ChipStart, calibration: ChipCalibration, offsetSigmaRandom: number, gainDrift?: ChipStart['gainDrift']): void {
+  chips.set(calibration.chip, { ...start, calibration, offsetSigmaRandom, ...(gainDrift ? { gainDrift } : {}) });
 }
 
 /**
@@ -113,11 +129,22 @@ export function pool(fits: readonly Pick<OffsetFit, 'offset' | 'sigma'>[]): { of
   return { offset, sigma: 1 / Math.sqrt(sw) };
 }
 
-function fitOne(design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>, start: ChipStart): OffsetFit | null {
+/**
+ * The lamp drift, per second, of the second offset fit of a reflectance chip (0.36 %/h: small
+ * against the fit's nonlinearity, large against its convergence).
+ */
+const PROBE_DRIFT_PER_S = 1e-6;
+
+/** `driftPerS`: the layers' gain drifting so from the chip's first layer start (the bare reading's time). */
+function fitOne(design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>, start: ChipStart, driftPerS = 0): OffsetFit | null {
   const cal = start.calibration;
   const own = order.filter((l) => samplesByLayer.get(l.layer)!.chip === cal.chip && samplesByLayer.get(l.layer)!.tauS.length >= 20).slice(0, OFFSET_FIT_LAYERS[start.mode]);
   if (own.length === 0 || cal.bareLevel === null) return null;
-  const layers = own.map((dl) => offsetFitData(design, trace, dl, samplesByLayer.get(dl.layer)!));
+  const layers = own.map((dl) => {
+    const s = samplesByLayer.get(dl.layer)!;
+    const data = offsetFitData(design, trace, dl, s);
+    return driftPerS !== 0 ? { ...data, chipTimeS: s.startTimeS - start.startS, gainDriftPerS: driftPerS } : data;
+  });
   // The gain free under the bare reading's prior (σ_B = gainSigma·M₀): where the layers pin the
   // gain down, the offset takes up the bare reading's own error, and the profile's σ carries it.
   return fitChipOffset({

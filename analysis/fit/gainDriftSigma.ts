@@ -1,7 +1,8 @@
 import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
 import { paramLayout, type FitLayerData } from './layerModel';
 import { layerChangesFor, type LayerChange } from './solutionShift';
-import { addHeldIndexSigma, heldIndexShift } from './thinLayer';
+import { type StackCovariance } from './stackUncertainty';
+import { addHeldIndexSigma, heldIndexShift, type HeldIndexShift } from './thinLayer';
 
 /**
  * A sequentially fitted layer's σ with the chip's gain drift γ uncertain (σ_γ, the prior of
@@ -12,26 +13,74 @@ import { addHeldIndexSigma, heldIndexShift } from './thinLayer';
  * stands (analyzeRun's fitSingle, whose gain prior is centred on the start gain); `anchorAt(γ)`
  * is the chip's gain at the layer's start under a drift γ: the held gain, or where a free gain's
  * prior sits.
- * Updates the estimate's σ in place.
+ * Updates the estimate's σ in place and returns the shift per σ_γ (null without a σ).
  */
 export function carryGainDriftSigma(
   fit: FitLayerData, estimate: LayerEstimate, driftPerS: number, sigmaPerS: number,
   anchorAt: (driftPerS: number) => number,
   refit: (index: number, rateNmPerS: number, gain: number) => JointFitResult,
-): void {
-  if (!(sigmaPerS > 0)) return;
+): HeldIndexShift | null {
+  const moved = gainDriftShift(fit, estimate, driftPerS, sigmaPerS, anchorAt, refit);
+  if (!moved) return null;
+  addHeldIndexSigma(estimate, 1, moved.shift);
+  estimate.rateSigma = Math.hypot(estimate.rateSigma, moved.rateNmPerS);
+  return moved.shift;
+}
+
+/** The layer's figures' change (and its rate's) with γ one σ higher, as carryGainDriftSigma takes it; the estimate is left as it is. */
+export function gainDriftShift(
+  fit: FitLayerData, estimate: LayerEstimate, driftPerS: number, sigmaPerS: number,
+  anchorAt: (driftPerS: number) => number,
+  refit: (index: number, rateNmPerS: number, gain: number) => JointFitResult,
+): { shift: HeldIndexShift; rateNmPerS: number } | null {
+  if (!(sigmaPerS > 0)) return null;
   const saved = { drift: fit.gainDriftPerS, held: fit.heldGain };
   const moved = driftPerS + sigmaPerS;
   fit.gainDriftPerS = moved;
   if (fit.heldGain !== null) fit.heldGain = anchorAt(moved);
   try {
     const m = refit(estimate.index, estimate.rateNmPerS, fit.heldGain ?? estimate.gain + anchorAt(moved) - anchorAt(driftPerS)).layers[0];
-    addHeldIndexSigma(estimate, 1, heldIndexShift(estimate, m, 1));
-    estimate.rateSigma = Math.hypot(estimate.rateSigma, m.rateNmPerS - estimate.rateNmPerS);
+    return { shift: heldIndexShift(estimate, m, 1), rateNmPerS: m.rateNmPerS - estimate.rateNmPerS };
   } finally {
     fit.gainDriftPerS = saved.drift;
     fit.heldGain = saved.held;
   }
+}
+
+/**
+ * A layer's share of σ² from the gain drift, carried at one shift (`held`: the layer's own refit on
+ * the stack held) while the layer's σ was `atFit`, put at another (`chained`), in thickness and
+ * optical thickness, and in the index where `withIndex` (an index pooled since has the pool's σ).
+ * Where later evidence narrowed a figure's σ (the growth after the cut read from the next layer,
+ * fit/layerEnds.ts, combines precisions), the share left in it is taken in the same proportion,
+ * (σ/σ_atFit)², as for the precision-weighted mean of two readings.
+ */
+export function swapGainDriftShare(e: LayerEstimate, shares: { held: HeldIndexShift; chained: HeldIndexShift; atFit: HeldIndexShift }, withIndex: boolean): void {
+  const { held, chained, atFit } = shares;
+  const swap = (sigma: number, at: number, from: number, to: number) => {
+    const kept = at > 0 ? Math.min(1, (sigma * sigma) / (at * at)) : 1;
+    return Math.sqrt(Math.max(0, sigma * sigma - kept * from * from) + kept * to * to);
+  };
+  e.thicknessSigmaNm = swap(e.thicknessSigmaNm, atFit.thicknessNm, held.thicknessNm, chained.thicknessNm);
+  e.opticalThicknessSigmaNm = swap(e.opticalThicknessSigmaNm, atFit.opticalNm, held.opticalNm, chained.opticalNm);
+  if (withIndex) e.indexSigma = swap(e.indexSigma, atFit.index, held.index, chained.index);
+}
+
+/**
+ * What a layer's σ took, through the stack, from the gain drift's share of the σ of the layer below
+ * it (LayerEnds.stackWithGrowth puts that layer's whole thickness σ in the stack, the share of the
+ * drift in it as swapGainDriftShare reckons it): |∂θ/∂d_below|·√share for (n, d, n·d), from the
+ * stack's sensitivity (fit/stackUncertainty.ts).
+ */
+export function driftShareThroughStack(
+  stack: StackCovariance, below: { held: HeldIndexShift; atFit: HeldIndexShift }, belowSigmaNm: number, e: Pick<LayerEstimate, 'index' | 'thicknessNm'>,
+): HeldIndexShift | null {
+  const m = stack.size - 2;
+  if (!stack.sensitivity || m < 2) return null;
+  const kept = below.atFit.thicknessNm > 0 ? Math.min(1, (belowSigmaNm / below.atFit.thicknessNm) ** 2) : 1;
+  const share = Math.abs(below.held.thicknessNm) * Math.sqrt(kept);
+  const gn = stack.sensitivity[m - 1], gd = stack.sensitivity[2 * m - 1];
+  return { index: Math.abs(gn) * share, thicknessNm: Math.abs(gd) * share, opticalNm: Math.abs(e.index * gd + e.thicknessNm * gn) * share };
 }
 
 /**

@@ -13,6 +13,12 @@ import { wanderBasis, wanderCount } from './rateWander';
 export interface StackCovariance {
   size: number;
   cov: Float64Array;
+  /**
+   * How the top layer's (n, d) move per unit of each entry below it (2 × (size − 2), row-major):
+   * the sensitivity G·S of the carry that appended it, for an error the whole chip shares (the
+   * gain drift, fit/gainDriftSigma.ts) to follow through the stack coherently.
+   */
+  sensitivity?: Float64Array;
 }
 
 export const emptyStack = (): StackCovariance => ({ size: 0, cov: new Float64Array(0) });
@@ -50,6 +56,7 @@ export function carryStackUncertainty(
   const own = sandwich(G, paramCov, 2, np);
   let ownCov = own;
   let cross = new Float64Array(0);
+  let sensitivity: Float64Array | undefined;
   if (k > 0) {
     const { at, jt } = layerJacobian(below, layer, layout, params, offsetSignal);
     // Js: the last k layers of `below` are the chip's fitted ones (earlier entries none here).
@@ -91,6 +98,7 @@ export function carryStackUncertainty(
           gs[r * m + c] = v;
         }
       }
+      sensitivity = gs;
       const carried = sandwich(gs, stack.cov, 2, m);
       ownCov = own.map((v, i) => v + carried[i]);
       cross = new Float64Array(2 * m);
@@ -118,7 +126,23 @@ export function carryStackUncertainty(
     for (let c = 0; c < m; c++) cov[(m + r) * size + c] = cov[c * size + m + r] = cross.length ? cross[r * m + c] : 0;
     for (let c = 0; c < 2; c++) cov[(m + r) * size + m + c] = ownCov[r * 2 + c];
   }
-  return { size, cov };
+  return sensitivity ? { size, cov, sensitivity } : { size, cov };
+}
+
+/**
+ * The shift of the top layer's (n, d, n·d) that shifts of the layers below it (`below`: n, d per
+ * layer, stack order) bring through the stack's sensitivity, to first order; null where they do
+ * not match.
+ */
+export function shiftThroughStack(stack: StackCovariance, below: Float64Array, index: number, thicknessNm: number): HeldIndexShift | null {
+  const m = stack.size - 2;
+  if (!stack.sensitivity || below.length !== m || m <= 0) return null;
+  let dn = 0, dd = 0;
+  for (let c = 0; c < m; c++) {
+    dn += stack.sensitivity[c] * below[c];
+    dd += stack.sensitivity[m + c] * below[c];
+  }
+  return { index: dn, thicknessNm: dd, opticalNm: index * dd + thicknessNm * dn };
 }
 
 function dot(a: Float64Array, i: number, b: Float64Array, j: number, n: number): number {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { fitLayers, type FitLayerData, type LayerEstimate, type MonitorOptics } from '..';
-import { carryJointGainDriftSigma } from '../gainDriftSigma';
+import { carryJointGainDriftSigma, swapGainDriftShare } from '../gainDriftSigma';
 import { carryOffsetSigma } from '../offsetSigma';
 import { createRng } from '../../synth';
 import { fromNK, growingLayerSignal } from '../../optics';
@@ -59,5 +59,27 @@ describe('σ carried from a held gain drift and a held offset after a joint fit'
     carryOffsetSigma(data, step, 0.004, 0.004, { ...sharedGain }, false, joint);
     carryOffsetSigma(data, refit, 0.004, 0.004, { ...sharedGain }, false);
     expectSameAddedSigma(joint.layers, step, refit);
+  });
+});
+
+describe('the gain drift\'s share of a layer\'s σ, swapped after the pass', () => {
+  const base = (): LayerEstimate => ({ index: 2, rateNmPerS: 0.3, rateDriftNmPerS2: 0, gain: 1, thicknessNm: 100, opticalThicknessNm: 200, indexSigma: 0.005, thicknessSigmaNm: 1, opticalThicknessSigmaNm: 2, rateSigma: 0, rateDriftSigma: 0, noiseCorrelation: 1 } as LayerEstimate);
+  const held = { index: 0.003, thicknessNm: 0.8, opticalNm: 1.2 };
+  const chained = { index: 0.001, thicknessNm: 0.2, opticalNm: 0.3 };
+
+  it('σ² − held² + chained² where the σ is still the one the share went into', () => {
+    const e = base();
+    swapGainDriftShare(e, { held, chained, atFit: { index: 0.005, thicknessNm: 1, opticalNm: 2 } }, true);
+    expect(e.thicknessSigmaNm).toBeCloseTo(Math.sqrt(1 - 0.64 + 0.04), 12);
+    expect(e.opticalThicknessSigmaNm).toBeCloseTo(Math.sqrt(4 - 1.44 + 0.09), 12);
+    expect(e.indexSigma).toBeCloseTo(Math.sqrt(0.005 ** 2 - 0.003 ** 2 + 0.001 ** 2), 12);
+  });
+
+  it('in proportion where later evidence narrowed the σ, and the index left alone where pooled', () => {
+    const e = base();
+    // the thickness σ halved since the fit (a growth read from the next layer): a quarter of each share left in it
+    swapGainDriftShare(e, { held, chained, atFit: { index: 0.005, thicknessNm: 2, opticalNm: 2 } }, false);
+    expect(e.thicknessSigmaNm).toBeCloseTo(Math.sqrt(1 - 0.25 * 0.64 + 0.25 * 0.04), 12);
+    expect(e.indexSigma).toBe(0.005);
   });
 });
