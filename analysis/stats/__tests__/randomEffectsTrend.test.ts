@@ -1,18 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { randomEffectsTrend, RANDOM_EFFECTS_MIN_POINTS } from '..';
+import { gaussian as normals } from '../../trace/__tests__/rng';
 
-/** A seeded uniform source (mulberry32) and Box–Muller normals, for drawing known-parameter data. */
-function normals(seed: number): () => number {
-  let a = seed >>> 0;
-  const uniform = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return () => Math.sqrt(-2 * Math.log(1 - uniform())) * Math.cos(2 * Math.PI * uniform());
-}
 
 describe('randomEffectsTrend', () => {
   it('needs five points with σ > 0 spread in time', () => {

@@ -7,17 +7,11 @@
 import { scenarios, type Mode } from '../scenarios';
 import { boundRows } from './boundRows';
 import { maxAbsNormal } from './cramerRao';
+import { seedList } from './seedList';
 
 const rms = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + b * b, 0) / Math.max(1, v.length));
 const mean = (v: number[]) => v.reduce((a, b) => a + b, 0) / Math.max(1, v.length);
 const col = (v: number, d: number, w: number) => v.toFixed(d).padStart(w);
-
-function seedList(arg: string | undefined, fallback: number[]): number[] {
-  if (!arg) return fallback;
-  const range = /^(\d+)-(\d+)$/.exec(arg);
-  if (range) return Array.from({ length: Number(range[2]) - Number(range[1]) + 1 }, (_, i) => Number(range[1]) + i);
-  return arg.split(',').map(Number);
-}
 
 async function main(): Promise<void> {
   const name = process.argv[2] ?? 'correlated noise and spikes, mirror';

@@ -5,15 +5,9 @@
 import { scenarios, type Mode } from '../scenarios';
 import { layerErrors, summarize, type LayerError } from './accuracyTable';
 import { runScenario } from './runScenario';
+import { seedList } from './seedList';
 
 const rms = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + b * b, 0) / Math.max(1, v.length));
-
-function seedList(arg: string | undefined, fallback: number[]): number[] {
-  if (!arg) return fallback;
-  const range = /^(\d+)-(\d+)$/.exec(arg);
-  if (range) return Array.from({ length: Number(range[2]) - Number(range[1]) + 1 }, (_, i) => Number(range[1]) + i);
-  return arg.split(',').map(Number);
-}
 
 async function main(): Promise<void> {
   const name = process.argv[2] ?? 'correlated noise and rate wander, mirror';
