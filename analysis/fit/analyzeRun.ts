@@ -86,8 +86,8 @@ export interface LayerState {
    * the layer's σ when its fit was done (`atFit`, the held share in it).
    */
   gainDriftShares?: { held: HeldIndexShift; chained: HeldIndexShift; atFit: HeldIndexShift };
-  /** The least-squares fit's residual RMS (model units), kept when the index pooling moved the estimates since (fit/pooledIndex.ts). */
-  fitResidualRms?: number;
+  /** The least-squares fit's residual RMS (model units) on demand, where the index pooling moved the estimates since (fit/pooledIndex.ts). */
+  lawResidualRms?: () => number;
   /** Gives the layer a wander to fit (refit, option rateWander: its material's shared one, where its own choice kept none). */
   takeWander?: (w: RateWander) => void;
   calibration: ChipCalibration;
@@ -779,7 +779,11 @@ async function analyzeLayers(
     // a pooled one would otherwise read the pooled index's misfit as its own); those reported are
     // the reported model's, the one drawn over the data.
     const belows = states.map(belowOf);
-    states.forEach((s, j) => (s.fitResidualRms = layerResidualRms(s, belows[j], trace)));
+    // (made only where the reported model's residuals exceed the warning's factor: one model curve a layer less)
+    states.forEach((s, j) => {
+      const fitted = { ...s };
+      s.lawResidualRms = () => layerResidualRms(fitted, belows[j], trace);
+    });
     poolIndices(states.map((s) => ({
       material: s.design.material, timeS: s.samples.startTimeS, nominalIndex: s.nominal.re, estimate: s.estimate,
       eligible: s.design.monitor.cut === 'turning-point' && s.qwotAtMonitor >= 0.5 && s.fit.heldIndex === null && !s.estimate.indexGradient,

@@ -37,14 +37,14 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
   const n = samples.tauS.length;
   const wander = e.wander ? s.fit.wander : undefined;
   const m = modelSignal(s, below);
-  // The residuals reported are those of the model reported (the one drawn over the data); whether
-  // the law follows the layer's data is judged on the least-squares fit's own, where the index
-  // pooling moved the estimates since (fit/pooledIndex.ts: a pooled index, or one below, fits a
-  // little worse by design, and that is no departure from a smooth rate).
+  // The residuals reported are those of the model reported (the one drawn over the data); where
+  // they exceed the warning's factor after the index pooling moved the estimates
+  // (fit/pooledIndex.ts: a pooled index, or one below, fits a little worse by design, and that is
+  // no departure from a smooth rate), the least-squares fit's own must too.
   const residualRms = Math.sqrt(squaredResiduals(trace.signal, samples.indices, calibration.offset, e.gain, m, modelOut) / n);
   const noise = noiseSigma / e.gain;
   const residualToNoise = noise > 0 ? residualRms / noise : NaN;
-  const lawMisfit = noise > 0 ? (s.fitResidualRms ?? residualRms) / noise : NaN;
+  const lawMisfit = residualToNoise > o.residualWarnFactor && s.lawResidualRms ? s.lawResidualRms() / noise : residualToNoise;
 
   const quarter = wl / 4;
   const cutErrorQwotPct = ((e.opticalThicknessNm - nominal.re * dl.thicknessNm) / quarter) * 100;
