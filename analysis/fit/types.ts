@@ -197,8 +197,9 @@ export interface AnalyzeOptions {
    * seeds 15–30, +0.02 → −0.24 %, 0.61 → 0.68 %, where the run's time reads −1 to +1.2 s with σ
    * 0.3–2.3 s and the bound hid that. In sequential mode those layers read low with run-mean
    * (mean −0.06 % white-noise mirror, −0.11 % spikes, −0.35 % rate wander, −0.09 % real chamber;
-   * with option fitOnFinalStack white −0.03 %, spikes −0.05 %: the run's time reads about −0.1 s
-   * where the shutter closes at once), which the bounded mean offsets: RMS
+   * with option fitOnFinalStack white −0.03 %, spikes −0.05 %, rate wander −0.40 %, real chamber
+   * +0.02 % against bounded +0.03, +0.09, −0.07, +0.14 %, seeds 11–26, 15–30, 15–30, 21–36; RMS
+   * of all layers 0.089/0.086, 0.232/0.234, 0.671/0.641, 0.634/0.631 %), which the bounded mean offsets: RMS
    * 0.137 → 0.157 %, 0.431 → 0.445 %, 0.89 → 0.95 %, 0.68 → 0.74 % (seeds 11–26, 15–30, 15–22,
    * 21–28).
    * @default 'run-mean' in refit mode, 'bounded' in sequential mode
