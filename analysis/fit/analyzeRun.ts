@@ -1,6 +1,6 @@
 import { type Design, type DesignLayer } from '../design';
 import { indexAt } from '../materials';
-import { type Complex } from '../optics';
+import { type Complex, type LayerAt } from '../optics';
 import { driftEstimateAt, newVariogramPool, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
@@ -98,6 +98,8 @@ export interface LayerState {
   spectrum: LayerSpectrum;
   /** The turning points the layer's readings show, when computed with its spectrum (AnalyzeOptions.spectrumOf). */
   observed?: ObservedTurningPoints;
+  /** Sequential: the stack below as the layer's fit last stood on it, and that fit again on another stack. */
+  fittedOn?: { below: LayerAt[]; again: (below: LayerAt[], start: LayerEstimate) => JointFitResult };
 }
 
 function heldNoteFor(held: number, nominal: number, from: number, qwot: number, wl: number, wholeRun: boolean, why: string): string {
@@ -129,6 +131,7 @@ export const ANALYZE_DEFAULTS = {
   wanderSigma: true,
   indexGradient: false,
   growthFromNext: true,
+  fitOnFinalStack: true,
   turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
   turningPointExcessMean: true,
   pooledIndex: true,
@@ -618,6 +621,15 @@ async function analyzeLayers(
       ...(gradientTrial ? { gradientTrial } : {}),
     };
     built.state = state;
+    if (o.mode === 'sequential' && ends && o.fitOnFinalStack) {
+      state.fittedOn = {
+        below: below.slice(),
+        again: (b, e) => fitLayers({
+          fixedBelow: b, layers: [fit], offsetSignal: calibration.offset, start: [{ ...e, gain: fit.heldGain ?? (withPrior ? anchor : e.gain) }],
+          ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
+        }, { robust: o.robustLoss }),
+      };
+    }
     if (built.wanderEvidence && !built.wander) {
       state.takeWander = (w) => {
         built.wander = w;
@@ -721,6 +733,8 @@ async function analyzeLayers(
 
   if (transient.jointProfiles) return null;
   ends?.finish(o.mode === 'refit');
+  // Sequential: the layers whose stack below the growths' final reading moved, fitted again on it.
+  if (o.mode === 'sequential' && ends && o.fitOnFinalStack) fitOnFinalStacks(chipLayers);
   /** The layers below s on its chip, as they stand now, at s's monitor wavelength. */
   const belowOf = (s: LayerState) => {
     const chipStates = chipLayers.get(s.samples.chip)!;
@@ -841,6 +855,27 @@ export function refitChip(
     }
   });
   return joint;
+}
+
+/**
+ * Sequential: each layer fitted again, in order, where the stack below it moved after its fit
+ * (the growths after the cuts below, revised once the run's shutter time was known).
+ */
+function fitOnFinalStacks(chipLayers: ReadonlyMap<number, LayerState[]>): void {
+  for (const chipStates of chipLayers.values()) {
+    chipStates.forEach((s, j) => {
+      if (!s.fittedOn || j === 0) return;
+      const wl = s.optics.wavelengthNm;
+      const below = chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, wl));
+      const was = s.fittedOn.below;
+      if (below.length === was.length && below.every((b, k) => b.n.re === was[k].n.re && Math.abs(b.thicknessNm - was[k].thicknessNm) <= 1e-9 * b.thicknessNm)) return;
+      const e = s.estimate;
+      const { index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient, thicknessNm, opticalThicknessNm } = s.fittedOn.again(below, e).layers[0];
+      // The σ stay those of the pass (the stack's, the growth's and the gain's carried into them).
+      s.estimate = { ...e, index, rateNmPerS, rateDriftNmPerS2, gain, thicknessNm, opticalThicknessNm, ...(wander ? { wander } : {}), ...(indexGradient !== undefined ? { indexGradient } : {}) };
+      s.fittedOn.below = below;
+    });
+  }
 }
 
 /** Points per layer in a chip's final joint fit of `layers` layers. */
