@@ -57,7 +57,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
     for (const key of ['rateWander', 'indexGradient', 'levelStartTransient'] as const) if (form.get(key) === 'on') settings[key] = true;
-    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex'] as const) if (form.get(key) !== 'on') settings[key] = false;
+    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
     if (res.status === 201 && body.analysis) {
@@ -150,6 +150,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="pooledIndex" defaultChecked /> Read each material&apos;s indices together (a layer&apos;s index from its material&apos;s trend across the run and its own reading; n·d kept)
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="fitOnFinalStack" defaultChecked /> Layer by layer: fit a layer again where the stack below it changed after its fit (the growths after the cuts read again once the run&apos;s shutter time is known)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="rateWander" /> The rate may wander within a layer (kept only where the data asks for it)

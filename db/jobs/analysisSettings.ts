@@ -28,6 +28,7 @@ export const analysisSettingsSchema = z
     turningPointOvershootPct: z.number().min(0).max(10).optional(),
     turningPointExcessMean: z.boolean().optional(),
     pooledIndex: z.boolean().optional(),
+    fitOnFinalStack: z.boolean().optional(),
   })
   .strict();
 export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;

@@ -22,6 +22,7 @@ describe('analysis settings', () => {
       'sequential · turning-point cuts placed on the turning point',
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', pooledIndex: false }))).toBe('refit · each index read alone');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitOnFinalStack: false }))).toBe('sequential · each layer fitted once');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', reflectanceChipGain: false, offsetAdoptionSigma: 2 }))).toBe(
       'sequential · own gain per layer in reflectance · fitted offset taken beyond 2 σ',
     );
