@@ -93,18 +93,23 @@ describe('the runs pages', () => {
     expect(html).toContain(`${(cut - ideal).toFixed(1)} s late`);
   });
 
-  it("give the index plot each fitted layer's own σ beside its deviation from the nominal", async () => {
+  it("give the index plot each fitted layer's own reading and σ (the drift's, not the pooled index's)", async () => {
     await signInDemo('engineer');
     const refit = (await latestAnalyses(Number(await demoRunId('B3-1120')))).refit;
     if (!refit) throw new Error('no refit analysis of B3-1120');
     const drift = driftRows(refit);
+    const stored = (refit.analysis.summary as { indexDrift: { material: string; deviation: number[]; sigma: number[] }[] }).indexDrift;
     expect(drift.map((d) => d.material).sort()).toEqual(['H', 'L']);
     for (const d of drift) {
-      expect(d.sigma).toHaveLength(d.deviation.length);
+      const own = stored.find((s) => s.material === d.material)!;
+      expect(d.sigma).toEqual(own.sigma);
+      expect(d.deviation).toEqual(own.deviation);
       d.layers.forEach((layer, i) => {
+        // the layer table's index is read with its material's trend (fit/pooledIndex.ts): the
+        // same layer's own reading, drawn toward the trend by less than its own σ's few times
         const row = refit.layers.find((l) => l.layer === layer)!;
-        expect(d.sigma[i]).toBe(row.indexSigma);
-        expect(d.deviation[i]).toBeCloseTo(row.index - Number(row.detail.nominalIndex), 12);
+        expect(d.sigma[i]).toBeGreaterThan(0);
+        expect(Math.abs(d.deviation[i] - (row.index - Number(row.detail.nominalIndex)))).toBeLessThan(3 * d.sigma[i]);
       });
     }
   });
