@@ -446,10 +446,14 @@ async function analyzeLayers(
     // Per-layer gains start at (and are held near, by a prior) the chip calibration.
     const anchor = cg.gain * (1 + cg.driftPerS * chipTimeS);
     const withPrior = o.gainPriorFraction > 0 && fit.heldGain === null;
+    const gainPrior = withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {};
     const fitSingle = (index: number, rateNmPerS: number, gain: number, more: Partial<LayerParams> = {}) => fitLayers({
-      fixedBelow: below, layers: [fit], offsetSignal: calibration.offset, start: [{ index, rateNmPerS, rateDriftNmPerS2: 0, gain, ...more }],
-      ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
+      fixedBelow: below, layers: [fit], offsetSignal: calibration.offset, start: [{ index, rateNmPerS, rateDriftNmPerS2: 0, gain, ...more }], ...gainPrior,
     }, { robust: o.robustLoss });
+    /** The layer's own fit again from an estimate (its data as given, on a stack below), with the pass's gain start and prior. */
+    const fitAgain = (layer: FitLayerData, e: LayerEstimate, on: readonly LayerAt[], maxIterations?: number) => fitLayers({
+      fixedBelow: on, layers: [layer], offsetSignal: calibration.offset, start: [{ ...e, gain: fit.heldGain ?? (withPrior ? anchor : e.gain) }], ...gainPrior,
+    }, { robust: o.robustLoss, ...(maxIterations ? { maxIterations } : {}) });
     let single = fitSingle(sv.index, sv.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : sv.gain));
     // Held also when the data tell the index less well than the run's other layers of the material do.
     const indexPrior = thin && o.heldIndex === 'run-drift' ? driftEstimateAt(states.map(toIndexPoint), dl.material, samples.startTimeS) : null;
@@ -510,7 +514,7 @@ async function analyzeLayers(
       const request = startDelayRequest({
         below: below.slice(), start: e, offsetSignal: calibration.offset,
         ...(ends?.growthBelow(chip) && heldIndex === null ? { growthBelow: { heldNm: ends.growthBelow(chip)!.deltaNm, rateNmPerS: ends.growthBelow(chip)!.rateNmPerS } } : {}),
-        ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
+        ...gainPrior,
       }, fit, model, samples.tauS, pick(trace.signal, samples.indices));
       transient.profiles.push(o.startDelayProfileOf ? o.startDelayProfileOf(request) : Promise.resolve(profileFromRequest(request)));
     }
@@ -599,10 +603,7 @@ async function analyzeLayers(
       }
       if (transient.sigmaS && !byDesign) {
         const e = single.layers[0];
-        carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, [(samples.startDelayS ?? 0) > 0], ([moved]) => fitLayers({
-          fixedBelow: below, layers: [moved], offsetSignal: calibration.offset, start: [{ ...e, gain: fit.heldGain ?? (withPrior ? anchor : e.gain) }],
-          ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
-        }, { robust: o.robustLoss, maxIterations: 30 }));
+        carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, [(samples.startDelayS ?? 0) > 0], ([moved]) => fitAgain(moved, e, below, 30));
       }
     }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
@@ -624,10 +625,7 @@ async function analyzeLayers(
     if (o.mode === 'sequential' && ends && o.fitOnFinalStack) {
       state.fittedOn = {
         below: below.slice(),
-        again: (b, e) => fitLayers({
-          fixedBelow: b, layers: [fit], offsetSignal: calibration.offset, start: [{ ...e, gain: fit.heldGain ?? (withPrior ? anchor : e.gain) }],
-          ...(withPrior ? { gainPrior: { fraction: o.gainPriorFraction, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
-        }, { robust: o.robustLoss }),
+        again: (b, e) => fitAgain(fit, e, b),
       };
     }
     if (built.wanderEvidence && !built.wander) {
