@@ -25,7 +25,7 @@ import { PROFILE_PASS_SPECTRUM_QWOT, requestSpectra } from './requestSpectra';
 import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
 import { levelCutEnds } from './levelCutEnds';
-import { turningPointEndS, turningPointEndsOnChip } from './turningPointEnd';
+import { turningPointEndS, turningPointEndSigma, turningPointEndsOnChip } from './turningPointEnd';
 import { excessErrorMeanSquare, excessErrorVariance, excessMeanShiftNm, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess, type TurningPointExcess } from './turningPointExcess';
 import { segmentByDesign } from './designSegments';
 import { carryStackUncertainty, emptyStack, shiftThroughStack, type StackCovariance } from './stackUncertainty';
@@ -744,6 +744,17 @@ async function analyzeLayers(
   // turningPointExcessMean off) their mean square about the turning point into σ alone
   // (fit/turningPointExcess.ts).
   if (byDesign) {
+    // Its σ first, bottom up on each chip: the turning point's, not the rate law's at a fixed end (turningPointEndSigma).
+    for (const chipStates of chipLayers.values()) {
+      chipStates.forEach((s, j) => {
+        if (s.design.monitor.cut !== 'turning-point') return;
+        const below = belowOf(s);
+        if (turningPointEndS(s.fit, s.estimate, below) === null) return;
+        const sigmaBelow = chipStates.slice(0, j).map((p) => ({ thicknessNm: p.estimate.thicknessSigmaNm, index: p.estimate.indexSigma }));
+        const sigma = turningPointEndSigma(s.fit, s.estimate.index, s.estimate.indexSigma, below, sigmaBelow, s.estimate.thicknessNm);
+        if (sigma) s.estimate = { ...s.estimate, thicknessSigmaNm: sigma.thicknessNm, opticalThicknessSigmaNm: sigma.opticalThicknessNm };
+      });
+    }
     const excess = new Map<LayerState, TurningPointExcess>();
     for (const s of states) if (s.design.monitor.cut === 'turning-point') excess.set(s, turningPointExcess(s.fit, s.estimate, o.turningPointOvershootPct));
     for (const s of states) {
