@@ -23,9 +23,10 @@ async function main(): Promise<void> {
   const s = summarize(errors);
   const pct = (v: number | null) => (v === null ? '—' : `${(v * 100).toFixed(1)}`);
   const zs = errors.flatMap((e) => (e.zThickness === null ? [] : [e.zThickness]));
+  const zn = errors.flatMap((e) => (e.zIndex === null || e.zIndex === undefined ? [] : [e.zIndex]));
   console.log(`${name} — ${mode} — seeds ${seeds[0]}…${seeds[seeds.length - 1]} (${seeds.length}): max|d| ${s.maxThicknessPct.toFixed(3)} % RMS ${s.rmsThicknessPct.toFixed(3)} `
     + `max|n| ${s.maxIndex.toFixed(4)} RMS ${s.rmsIndex.toFixed(4)} max|cut| ${s.maxCutQwotPct.toFixed(3)} RMS ${s.rmsCutQwotPct.toFixed(3)} `
-    + `coverage d/n/cut ${pct(s.coverage.thickness)}/${pct(s.coverage.index)}/${pct(s.coverage.cut)} % RMS z_d ${rms(zs).toFixed(2)} missing ${s.missing}`);
+    + `coverage d/n/cut ${pct(s.coverage.thickness)}/${pct(s.coverage.index)}/${pct(s.coverage.cut)} % RMS z_d ${rms(zs).toFixed(2)} z_n ${rms(zn).toFixed(2)} missing ${s.missing}`);
   const out = errors.filter((e) => (e.zThickness ?? 0) > 3 || (e.zCut ?? 0) > 3 || (e.zIndex ?? 0) > 3);
   console.log(`  beyond 3σ: ${out.map((e) => `s${e.seed} L${e.layer} d${e.thicknessPct!.toFixed(2)}% z${e.zThickness!.toFixed(1)}/${(e.zIndex ?? 0).toFixed(1)}/${(e.zCut ?? 0).toFixed(1)}`).join('  ') || 'none'}`);
 }
