@@ -17,7 +17,7 @@ import { carryHeldGainSigma } from './heldGainSigma';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
 import { DEFAULT_LAMP_STABILITY_PER_HOUR, gainDriftPrior } from './gainDriftPrior';
-import { carryGainDriftSigma, carryJointGainDriftSigma, driftShareThroughStack, gainDriftShift, swapGainDriftShare } from './gainDriftSigma';
+import { carryGainDriftSigma, carryJointGainDriftSigma, driftShareThroughStack, gainDriftShift, swapGainDriftShare, swapIndexGainDriftShare } from './gainDriftSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { type SampleWorkResult } from './layerSampleWork';
 import { type ObservedTurningPoints } from './observedTurningPoints';
@@ -792,10 +792,14 @@ async function analyzeLayers(
   // samples on, not the white part alone: a 20 s bare-chip stretch at 10 Hz read only that, and the
   // demo's clean single-layer run then read "residuals 1.8×".
   if (reference === null && idleModel && noiseFloor.samples >= 100) reference = Math.sqrt(idleModel.whiteVar + idleModel.ar1Var);
+  // The gain drift's share of the index's σ as reported (the pass weighed with the held one; see
+  // gainDriftShares), before the pooling: the pool and the run's index drift weigh each layer's
+  // own reading by its final σ, so the drift's line is the pooled-index note's and its bars the
+  // layers' σ as reported (thickness and n·d swapped below).
+  for (const s of states) if (s.gainDriftShares) swapIndexGainDriftShare(s.estimate, s.gainDriftShares);
   // The run's index drift per material is read from each layer's own reading: pooled indices lie
   // on their trend by construction, and the drift's scatter-based σ read 0 from them.
   const ownIndex = new Map(states.map((s) => [s.design.layer, { index: s.estimate.index, indexSigma: s.estimate.indexSigma }]));
-  const pooled = new Set<LayerState>();
   if (o.pooledIndex) {
     // Each material's indices read with its other layers' (fit/pooledIndex.ts). The least-squares
     // fit's residuals are kept to judge whether the law follows the layer's data (a layer resting on
@@ -811,12 +815,11 @@ async function analyzeLayers(
       material: s.design.material, timeS: s.samples.startTimeS, nominalIndex: s.nominal.re, estimate: s.estimate,
       eligible: s.design.monitor.cut === 'turning-point' && s.qwotAtMonitor >= 0.5 && s.fit.heldIndex === null && !s.estimate.indexGradient,
     })), warnings).forEach((e, j) => {
-      if (e !== states[j].estimate) pooled.add(states[j]);
       states[j].estimate = e;
     });
   }
-  // The gain drift's share of σ as reported (the pass weighed with the held one; see gainDriftShares).
-  for (const s of states) if (s.gainDriftShares) swapGainDriftShare(s.estimate, s.gainDriftShares, !pooled.has(s));
+  // The gain drift's share of the thickness's and n·d's σ as reported (the index's taken above).
+  for (const s of states) if (s.gainDriftShares) swapGainDriftShare(s.estimate, s.gainDriftShares, false);
   const model = o.modelSeries ? new Float64Array(trace.rowCount).fill(NaN) : undefined;
   const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model));
   const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum, ownIndex);

@@ -57,13 +57,22 @@ export function gainDriftShift(
  */
 export function swapGainDriftShare(e: LayerEstimate, shares: { held: HeldIndexShift; chained: HeldIndexShift; atFit: HeldIndexShift }, withIndex: boolean): void {
   const { held, chained, atFit } = shares;
-  const swap = (sigma: number, at: number, from: number, to: number) => {
-    const kept = at > 0 ? Math.min(1, (sigma * sigma) / (at * at)) : 1;
-    return Math.sqrt(Math.max(0, sigma * sigma - kept * from * from) + kept * to * to);
-  };
-  e.thicknessSigmaNm = swap(e.thicknessSigmaNm, atFit.thicknessNm, held.thicknessNm, chained.thicknessNm);
-  e.opticalThicknessSigmaNm = swap(e.opticalThicknessSigmaNm, atFit.opticalNm, held.opticalNm, chained.opticalNm);
-  if (withIndex) e.indexSigma = swap(e.indexSigma, atFit.index, held.index, chained.index);
+  e.thicknessSigmaNm = swapShare(e.thicknessSigmaNm, atFit.thicknessNm, held.thicknessNm, chained.thicknessNm);
+  e.opticalThicknessSigmaNm = swapShare(e.opticalThicknessSigmaNm, atFit.opticalNm, held.opticalNm, chained.opticalNm);
+  if (withIndex) swapIndexGainDriftShare(e, shares);
+}
+
+/**
+ * The index's part of swapGainDriftShare alone: taken before the indices are pooled, so the pool
+ * and the run's index drift weigh each layer's own reading by the σ it reports.
+ */
+export function swapIndexGainDriftShare(e: LayerEstimate, shares: { held: HeldIndexShift; chained: HeldIndexShift; atFit: HeldIndexShift }): void {
+  e.indexSigma = swapShare(e.indexSigma, shares.atFit.index, shares.held.index, shares.chained.index);
+}
+
+function swapShare(sigma: number, at: number, from: number, to: number): number {
+  const kept = at > 0 ? Math.min(1, (sigma * sigma) / (at * at)) : 1;
+  return Math.sqrt(Math.max(0, sigma * sigma - kept * from * from) + kept * to * to);
 }
 
 /**

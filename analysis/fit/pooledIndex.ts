@@ -33,7 +33,7 @@ export function poolIndices(layers: readonly PooledIndexLayer[], notes?: string[
     const trend = randomEffectsTrend(idx.map((j) => ({ timeS: layers[j].timeS, value: layers[j].estimate.index - layers[j].nominalIndex, sigma: layers[j].estimate.indexSigma })));
     if (!trend) continue;
     // The run says so: the per-layer indices it reports are no longer each layer's own reading alone.
-    notes?.push(pooledIndexNote(material, idx.length, trend.atMean, trend.slopePerHour, Math.sqrt(trend.tau2Upper)));
+    notes?.push(pooledIndexNote(material, idx.length, trend.atMean, trend.slopePerHour, trend.slopeSigmaPerHour, Math.sqrt(trend.tau2Upper)));
     idx.forEach((j, i) => {
       const e = layers[j].estimate;
       const index = layers[j].nominalIndex + trend.predicted[i].value;
@@ -49,10 +49,10 @@ export function poolIndices(layers: readonly PooledIndexLayer[], notes?: string[
   return out;
 }
 
-/** The run's note for one material's pooled indices. */
-export function pooledIndexNote(material: string, count: number, atMean: number, slopePerHour: number, spreadUpper: number): string {
+/** The run's note for one material's pooled indices (its trend the run's index drift's, stats/indexDrift.ts, where the same layers are fitted). */
+export function pooledIndexNote(material: string, count: number, atMean: number, slopePerHour: number, slopeSigmaPerHour: number, spreadUpper: number): string {
   const signed = (v: number) => `${v >= 0 ? '+' : '−'}${Math.abs(v).toFixed(4)}`;
   return `${material}: the indices of its ${count} turning-point layers read together (option pooledIndex): ${signed(atMean)} from nominal at mid-run, `
-    + `drifting ${signed(slopePerHour)} per hour, layer-to-layer spread at most ${spreadUpper.toFixed(4)} (95 %); each layer's index is its own reading `
+    + `drifting ${signed(slopePerHour)} ± ${slopeSigmaPerHour.toFixed(4)} per hour, layer-to-layer spread at most ${spreadUpper.toFixed(4)} (95 %); each layer's index is its own reading `
     + `drawn toward that trend as far as its own σ allows (n·d as fitted)`;
 }

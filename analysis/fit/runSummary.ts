@@ -5,8 +5,10 @@ import { type AnalysisMode, type AnalysisResult, type LayerResult, type ToolingC
 
 /**
  * Run-level figures: index drift per material, tooling check, as-built against design spectrum.
- * The drift is read from `ownIndex` (each layer's own reading) where given, not from indices read
- * together with their material's (fit/pooledIndex.ts), which lie on a trend by construction.
+ * The drift is read from `ownIndex` (each layer's own reading and its σ as reported) where given,
+ * not from indices read together with their material's (fit/pooledIndex.ts), which lie on a trend
+ * by construction; its line is weighted as the pool's (stats/indexDrift.ts), so where the pool
+ * took the same layers, the pooled-index note's trend is the drift's.
  */
 export function runSummary(
   design: Design, mode: AnalysisMode, segmentsInferred: boolean, layers: LayerResult[], chips: ChipCalibration[],

@@ -1,6 +1,7 @@
 export * from './linearTrend';
 export * from './indexDrift';
 export * from './randomEffectsTrend';
+export * from './weightedLine';
 export * from './groupSummary';
 export * from './distributions';
 export * from './groupDifference';

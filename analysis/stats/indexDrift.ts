@@ -1,4 +1,6 @@
 import { linearTrend, type LinearTrend } from './linearTrend';
+import { randomEffectsTrend } from './randomEffectsTrend';
+import { weightedLine } from './weightedLine';
 
 export interface IndexPoint {
   layer: number;
@@ -12,6 +14,15 @@ export interface IndexPoint {
   indexHeld: boolean;
 }
 
+/**
+ * How a material's drift lines were drawn: 'random-effects', five or more layers
+ * (RANDOM_EFFECTS_MIN_POINTS), each weighted by 1/(σᵢ² + τ̂²), τ̂² the layers' spread about the
+ * line read from the data (stats/randomEffectsTrend.ts: the same line as the pooled-index note's);
+ * 'weighted', fewer layers, each by 1/σᵢ², a slope's σ widened by √(χ²/(k − 2)) where the layers
+ * scatter more than their σ say; 'unweighted', a layer without a σ > 0 (ordinary least squares).
+ */
+export type DriftMethod = 'random-effects' | 'weighted' | 'unweighted';
+
 export interface MaterialDrift {
   material: string;
   layers: number[];
@@ -19,14 +30,23 @@ export interface MaterialDrift {
   deviation: number[];
   /** Each deviation's σ (the layer's own index σ). */
   sigma: number[];
+  /** The line's value at the layers' mean time (one layer: its value); 'unweighted', their mean. */
   meanDeviation: number;
   /** Deviation against the order of the material's fitted layers (1, 2, 3, …): slope per layer. */
   byOrder: LinearTrend;
   /** Deviation against time: slope per hour. */
   byTime: LinearTrend;
+  method: DriftMethod;
+  /** The layers' spread about the line, τ̂² ('random-effects'); 0 ('weighted'); NaN ('unweighted'). */
+  tau2: number;
 }
 
-/** Index deviation per material across a run, with linear trends against layer order and time. */
+/**
+ * Index deviation per material across a run, with its trend against layer order and time: one
+ * weighted line (see DriftMethod), so a reading the data barely tell (a deep layer of a high
+ * reflector, σ 0.005–0.02) does not tip it as an unweighted line let it. The order line takes the
+ * time line's weights.
+ */
 export function indexDrift(points: readonly IndexPoint[]): MaterialDrift[] {
   const byMaterial = new Map<string, IndexPoint[]>();
   for (const p of points) {
@@ -38,18 +58,72 @@ export function indexDrift(points: readonly IndexPoint[]): MaterialDrift[] {
   return [...byMaterial.entries()].map(([material, list]) => {
     const deviation = list.map((p) => p.indexDeviation);
     const timeS = list.map((p) => p.timeS);
+    const sigma = list.map((p) => p.indexSigma);
+    const hours = timeS.map((t) => t / 3600);
+    const order = list.map((_, i) => i + 1);
+    const common = { material, layers: list.map((p) => p.layer), timeS, deviation, sigma };
+    if (sigma.some((s) => !(s > 0) || !Number.isFinite(s))) {
+      return {
+        ...common, method: 'unweighted' as const, tau2: NaN,
+        meanDeviation: deviation.reduce((a, b) => a + b, 0) / deviation.length,
+        byOrder: linearTrend(order, deviation),
+        byTime: linearTrend(hours, deviation),
+      };
+    }
+    const re = randomEffectsTrend(list.map((p) => ({ timeS: p.timeS, value: p.indexDeviation, sigma: p.indexSigma })));
+    if (re) {
+      const w = sigma.map((s) => 1 / (s * s + re.tau2));
+      const tMean = re.meanTimeS / 3600;
+      const byTime: LinearTrend = {
+        slope: re.slopePerHour,
+        slopeSigma: re.slopeSigmaPerHour,
+        intercept: re.atMean - re.slopePerHour * tMean,
+        interceptSigma: Math.sqrt(Math.max(0, re.atMeanSigma ** 2 - 2 * tMean * re.atMeanSlopeCovariance + tMean ** 2 * re.slopeSigmaPerHour ** 2)),
+        count: list.length,
+        residualRms: residualRms(hours, deviation, re.atMean - re.slopePerHour * tMean, re.slopePerHour),
+      };
+      return { ...common, method: 'random-effects' as const, tau2: re.tau2, meanDeviation: re.atMean, byOrder: weightedTrend(order, deviation, w, false), byTime };
+    }
+    const w = sigma.map((s) => 1 / (s * s));
+    const byTime = weightedTrend(hours, deviation, w, true);
+    const mean = w.reduce((a, wi, i) => a + wi * deviation[i], 0) / w.reduce((a, b) => a + b, 0);
+    const tMean = hours.reduce((a, b) => a + b, 0) / hours.length;
     return {
-      material,
-      layers: list.map((p) => p.layer),
-      timeS,
-      deviation,
-      sigma: list.map((p) => p.indexSigma),
-      meanDeviation: deviation.reduce((a, b) => a + b, 0) / deviation.length,
-      byOrder: linearTrend(list.map((_, i) => i + 1), deviation),
-      byTime: linearTrend(timeS.map((t) => t / 3600), deviation),
+      ...common, method: 'weighted' as const, tau2: 0,
+      meanDeviation: Number.isFinite(byTime.slope) ? byTime.intercept + byTime.slope * tMean : mean,
+      byOrder: weightedTrend(order, deviation, w, true),
+      byTime,
     };
   });
 }
+
+/**
+ * The weighted line through (x, y) in LinearTrend's terms: σ from (X'WX)⁻¹, times √max(1, χ²/(k − 2))
+ * with `scatterScale` (the fixed-effect line's layers scattering more than their σ say; the
+ * Birge ratio, common practice); a slope needs three points to carry a σ, as the unweighted one.
+ */
+function weightedTrend(x: readonly number[], y: readonly number[], w: readonly number[], scatterScale: boolean): LinearTrend {
+  const k = x.length;
+  const xMean = x.reduce((a, b) => a + b, 0) / k;
+  const line = k >= 2 ? weightedLine(x.map((v) => v - xMean), y, w) : null;
+  if (!line) {
+    const mean = w.reduce((a, wi, i) => a + wi * y[i], 0) / w.reduce((a, b) => a + b, 0);
+    return { slope: NaN, slopeSigma: NaN, intercept: mean, interceptSigma: NaN, count: k, residualRms: NaN };
+  }
+  const f = k > 2 ? (scatterScale ? Math.max(1, line.q / (k - 2)) : 1) : NaN;
+  const intercept = line.a - line.b * xMean;
+  return {
+    slope: line.b,
+    slopeSigma: Math.sqrt(f * line.inv11),
+    intercept,
+    interceptSigma: Math.sqrt(f * Math.max(0, line.inv00 - 2 * xMean * line.inv01 + xMean * xMean * line.inv11)),
+    count: k,
+    residualRms: residualRms(x, y, intercept, line.b),
+  };
+}
+
+const residualRms = (x: readonly number[], y: readonly number[], a: number, b: number) =>
+  Math.sqrt(y.reduce((s, yi, i) => s + (yi - a - b * x[i]) ** 2, 0) / y.length);
 
 /**
  * Layer-to-layer scatter of a film's index about its trend, the floor of a held index's σ when

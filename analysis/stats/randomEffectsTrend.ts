@@ -1,4 +1,5 @@
 import { chiSquareQuantile } from './distributions';
+import { weightedLine } from './weightedLine';
 
 export interface TrendPoint {
   timeS: number;
@@ -12,6 +13,14 @@ export interface RandomEffectsTrend {
   atMean: number;
   slopePerHour: number;
   meanTimeS: number;
+  /**
+   * The line's 1σ at the mean time and of its slope per hour, and their covariance, with weights
+   * 1/(σᵢ² + τ̂²): √[(X'WX)⁻¹], the usual standard errors of a mixed-effects meta-regression
+   * (Raudenbush 2009, as above, from memory).
+   */
+  atMeanSigma: number;
+  slopeSigmaPerHour: number;
+  atMeanSlopeCovariance: number;
   /** Spread of the true values about the line: the moment estimate and its one-sided upper bound (> 0). */
   tau2: number;
   tau2Upper: number;
@@ -97,26 +106,11 @@ export function randomEffectsTrend(points: readonly TrendPoint[], upperLevel = 0
     const b = tau2 / (tau2 + s2[i]);
     return { value: fit + b * (y[i] - fit), sigma: Math.sqrt(b * b * s2[i] + (1 - b) ** 2 * (v + tauU)) };
   });
-  return { atMean: line.a, slopePerHour: line.b, meanTimeS, tau2, tau2Upper, predicted };
-}
-
-/** Weighted least squares of y on [1, x]: a, b, (X'WX)⁻¹ and Q = Σ wᵢ(yᵢ − a − b·xᵢ)²; null if singular. */
-function weightedLine(x: readonly number[], y: readonly number[], w: readonly number[]) {
-  let s0 = 0, s1 = 0, s2 = 0, t0 = 0, t1 = 0;
-  for (let i = 0; i < x.length; i++) {
-    s0 += w[i];
-    s1 += w[i] * x[i];
-    s2 += w[i] * x[i] * x[i];
-    t0 += w[i] * y[i];
-    t1 += w[i] * x[i] * y[i];
-  }
-  const det = s0 * s2 - s1 * s1;
-  if (!(det > 1e-12 * s0 * s2)) return null;
-  const a = (s2 * t0 - s1 * t1) / det;
-  const b = (s0 * t1 - s1 * t0) / det;
-  let q = 0;
-  for (let i = 0; i < x.length; i++) q += w[i] * (y[i] - a - b * x[i]) ** 2;
-  return { a, b, q, inv00: s2 / det, inv01: -s1 / det, inv11: s0 / det };
+  return {
+    atMean: line.a, slopePerHour: line.b, meanTimeS,
+    atMeanSigma: Math.sqrt(line.inv00), slopeSigmaPerHour: Math.sqrt(line.inv11), atMeanSlopeCovariance: line.inv01,
+    tau2, tau2Upper, predicted,
+  };
 }
 
 const sum = (v: readonly number[]) => v.reduce((a, b) => a + b, 0);

@@ -49,6 +49,6 @@ describe('poolIndices', () => {
     const notes: string[] = [];
     poolIndices(layers, notes);
     expect(notes).toHaveLength(1);
-    expect(notes[0]).toMatch(/^H: the indices of its 6 turning-point layers read together \(option pooledIndex\): [+−]0\.00\d\d from nominal at mid-run, drifting [+−]\d\.\d{4} per hour, layer-to-layer spread at most \d\.\d{4} \(95 %\)/);
+    expect(notes[0]).toMatch(/^H: the indices of its 6 turning-point layers read together \(option pooledIndex\): [+−]0\.00\d\d from nominal at mid-run, drifting [+−]\d\.\d{4} ± \d\.\d{4} per hour, layer-to-layer spread at most \d\.\d{4} \(95 %\)/);
   });
 });

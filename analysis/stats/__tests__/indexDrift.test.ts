@@ -54,3 +54,71 @@ describe('indexDrift', () => {
     expect(one.sigma).toBeCloseTo(Math.sqrt(0.002 ** 2 + 2 * 0.005 ** 2), 12);
   });
 });
+
+describe('indexDrift: one weighted line per material', () => {
+  const at = (hours: number[], dev: number[], sigma: number[]): IndexPoint[] =>
+    hours.map((h, i) => ({ layer: i + 1, material: 'H', timeS: h * 3600, indexDeviation: dev[i], indexSigma: sigma[i], indexHeld: false }));
+
+  it('five layers of one σ scattering beyond it: τ̂² = s² − σ², the ordinary line and its σ (closed form, by hand)', () => {
+    // With every vᵢ = v, w = 1/v: Q = SSR/v and tr[(X'WX)⁻¹X'W²X] = 2/v, so the meta-regression
+    // moment estimator τ̂² = (Q − (k − 2))/(Σw − tr) (S. W. Raudenbush, Handbook of Research
+    // Synthesis and Meta-Analysis, 2nd ed. (2009), ch. 16, from memory) is SSR/(k − 2) − v, the
+    // weights 1/(v + τ̂²) are equal again and the line is the ordinary one, σ_b² = s²/Sxx.
+    // By hand: x = 0, ½, 1, 3⁄2, 2 h, x̄ = 1, Sxx = 2.5; ȳ = 0.001, Sxy = −0.0065, b = −0.0026;
+    // residuals 0.4, −1.3, 2.0, −1.7, 0.6 (×10⁻³), SSR = 9.1·10⁻⁶, s² = SSR/3.
+    const [d] = indexDrift(at([0, 0.5, 1, 1.5, 2], [0.004, 0.001, 0.003, -0.002, -0.001], [0.001, 0.001, 0.001, 0.001, 0.001]));
+    const s2 = 9.1e-6 / 3;
+    expect(d.method).toBe('random-effects');
+    expect(d.tau2).toBeCloseTo(s2 - 1e-6, 15);
+    expect(d.byTime.slope).toBeCloseTo(-0.0026, 14);
+    expect(d.byTime.slopeSigma).toBeCloseTo(Math.sqrt(s2 / 2.5), 14);
+    expect(d.meanDeviation).toBeCloseTo(0.001, 14);
+    expect(d.byTime.intercept).toBeCloseTo(0.0036, 14);
+    expect(d.byTime.interceptSigma).toBeCloseTo(Math.sqrt(s2 * (1 / 5 + 1 / 2.5)), 14);
+    // one layer per half hour: per layer, half the slope per hour
+    expect(d.byOrder.slope).toBeCloseTo(-0.0013, 14);
+  });
+
+  it('five layers of unequal σ within their σ of a line: τ̂² = 0, the weighted least-squares line (closed form, by hand)', () => {
+    // σ = 1, 2, 1, 2, 1 (×10⁻³): w = 10⁶·(1, ¼, 1, ¼, 1), relative 4, 1, 4, 1, 4 (Σ 14).
+    // x = 0…4 h: x̄_w = 28/14 = 2, Σw(x − x̄_w)² = 2.5·10⁵·34; y antisymmetric about 0.001 there,
+    // ȳ_w = 0.001, Σw(x − x̄_w)(y − ȳ_w) = 2.5·10⁵·(−0.0344): b = −0.0344/34 per hour, its σ
+    // 1/√(2.5·10⁵·34) (weighted least squares: Draper & Smith, Applied Regression Analysis,
+    // ch. 9, from memory). Q ≈ 0.02 < k − 2 = 3, so τ̂² = 0. Unweighted the slope is −0.00104.
+    const [d] = indexDrift(at([0, 1, 2, 3, 4], [0.003, 0.0022, 0.001, -0.0002, -0.001], [0.001, 0.002, 0.001, 0.002, 0.001]));
+    expect(d.method).toBe('random-effects');
+    expect(d.tau2).toBe(0);
+    expect(d.byTime.slope).toBeCloseTo(-0.0344 / 34, 14);
+    expect(d.byTime.slopeSigma).toBeCloseTo(1 / Math.sqrt(2.5e5 * 34), 12);
+    // the unweighted mean time (2 h) is the weighted one here
+    expect(d.meanDeviation).toBeCloseTo(0.001, 14);
+    expect(d.sigma).toEqual([0.001, 0.002, 0.001, 0.002, 0.001]);
+  });
+
+  it('three layers: the fixed-effect weighted line, σ widened by √(χ²/(k − 2)) (closed form, by hand)', () => {
+    // σ = 1, 2, 1 (×10⁻³), relative weights 4, 1, 4; x = 0, 1, 2 h: x̄_w = 1, ȳ_w = 0.003/9,
+    // Σw(x − x̄_w)² = 2.5·10⁵·8, b = −0.008/8 = −0.001; residuals −1, 8, −1 (÷3000), χ² = 2/9 + 16/9 = 2,
+    // so σ_b² = (χ²/1)/(2.5·10⁵·8) = 10⁻⁶ (the Birge ratio, common practice).
+    const [d] = indexDrift(at([0, 1, 2], [0.001, 0.003, -0.001], [0.001, 0.002, 0.001]));
+    expect(d.method).toBe('weighted');
+    expect(d.tau2).toBe(0);
+    expect(d.byTime.slope).toBeCloseTo(-0.001, 14);
+    expect(d.byTime.slopeSigma).toBeCloseTo(0.001, 12);
+    expect(d.meanDeviation).toBeCloseTo(1 / 3000, 14);
+  });
+
+  it('two layers: a slope without a σ; one layer: its reading; a σ missing: the ordinary line (an older stored reading)', () => {
+    const [two] = indexDrift(at([0, 1], [0.001, 0.003], [0.001, 0.002]));
+    expect(two.method).toBe('weighted');
+    expect(two.byTime.slope).toBeCloseTo(0.002, 14);
+    expect(two.byTime.slopeSigma).toBeNaN();
+    const [one] = indexDrift(at([1], [0.004], [0.002]));
+    expect(one.meanDeviation).toBe(0.004);
+    expect(one.byTime.slope).toBeNaN();
+    const [none] = indexDrift(at([0, 1, 2], [0.001, 0.003, -0.001], [0.001, NaN, 0.001]));
+    expect(none.method).toBe('unweighted');
+    // (0.001·(−1) + (−0.001)·1)/2 with x̄ = 1, ȳ = 0.001
+    expect(none.byTime.slope).toBeCloseTo(-0.001, 14);
+    expect(none.meanDeviation).toBeCloseTo(0.001, 14);
+  });
+});

@@ -181,7 +181,7 @@ export default async function RunPage({ params, searchParams }: { params: Promis
                 wavelengthNm={monitorWavelengths.length === 1 ? monitorWavelengths[0] : null}
                 series={drift.map((d) => ({ ...d, label: labelOf(d.material) }))}
               />
-              <p className="mt-1 text-xs text-ink-soft">Each layer&apos;s own reading, ±1σ; the layer table gives each index as read with its material&apos;s trend where the analysis pooled them.</p>
+              <p className="mt-1 text-xs text-ink-soft">Each layer&apos;s own reading, ±1σ, and its material&apos;s trend (the table below); the layer table gives each index as read with that trend where the analysis pooled them.</p>
               <div className="mt-3 overflow-x-auto"><IndexDriftList drift={drift.map((d) => ({ ...d, material: labelOf(d.material) }))} /></div>
             </Panel>
             <Panel title="As-built spectrum against the design" className="min-w-0">

@@ -135,6 +135,8 @@ export function driftRows(a: AnalysisWithLayers): DriftSeries[] {
       // the drift's own σ (each layer's own reading, fit/runSummary.ts); older analyses stored none
       sigma: Array.isArray(d.sigma) ? arr(d.sigma) : arr(d.layers).map((l) => sigmaOf.get(l) ?? NaN),
       meanDeviation: num(d.meanDeviation),
+      // the line's weighting (analysis/stats/indexDrift.ts); analyses stored before it drew an unweighted one
+      method: d.method === 'random-effects' || d.method === 'weighted' ? d.method : 'unweighted',
       slopePerHour: num(byTime.slope),
       slopeSigmaPerHour: num(byTime.slopeSigma),
       interceptPerHour: num(byTime.intercept),
