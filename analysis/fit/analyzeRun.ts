@@ -100,6 +100,8 @@ export interface LayerState {
   observed?: ObservedTurningPoints;
   /** Sequential: the stack below as the layer's fit last stood on it, and that fit again on another stack. */
   fittedOn?: { below: LayerAt[]; again: (below: LayerAt[], start: LayerEstimate) => JointFitResult };
+  /** Sequential: the layer's own fit again with the chip's offset moved by `dOffset` (and the gain with it), on a stack below. */
+  offsetAgain?: (below: LayerAt[], start: LayerEstimate, dOffset: number) => JointFitResult;
 }
 
 function heldNoteFor(held: number, nominal: number, from: number, qwot: number, wl: number, wholeRun: boolean, why: string): string {
@@ -120,6 +122,7 @@ export const ANALYZE_DEFAULTS = {
   lampDriftFit: false,
   fitOffset: true,
   offsetAdoptionSigma: 3,
+  offsetAveraging: true,
   gainPriorFraction: 0.005,
   levelCutGain: 'calibration',
   reflectanceChipGain: true,
@@ -315,7 +318,7 @@ async function analyzeLayers(
   const { idleModel, noiseFloor } = basis.noise();
   const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth);
   const chipLayers = new Map<number, LayerState[]>();
-  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma);
+  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma, o.offsetAveraging);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
   // A gain drift seen across the chips' bare-chip calibrations (at 3σ: with three chips the
   // slope's scatter has one degree of freedom) is applied within every chip.
@@ -622,6 +625,18 @@ async function analyzeLayers(
       ...(gradientTrial ? { gradientTrial } : {}),
     };
     built.state = state;
+    if (o.mode === 'sequential' && o.offsetAveraging) {
+      // the gain moves with the offset: the bare reading's (B − o)/M₀, or along a reflectance chip's profile
+      const slope = chipStarts.get(chip)!.offsetGainSlope ?? 0;
+      state.offsetAgain = (on, e, dOffset) => {
+        const dGain = slope * dOffset * (1 + cg.driftPerS * chipTimeS);
+        const heldGain = fit.heldGain !== null ? fit.heldGain + dGain : null;
+        return fitLayers({
+          fixedBelow: on, layers: [{ ...fit, heldGain }], offsetSignal: calibration.offset + dOffset,
+          start: [{ ...e, gain: heldGain ?? (withPrior ? anchor + dGain : e.gain + dGain) }], ...gainPrior,
+        }, { robust: o.robustLoss, maxIterations: 30 });
+      };
+    }
     if (o.mode === 'sequential' && ends && o.fitOnFinalStack) {
       state.fittedOn = {
         below: below.slice(),
@@ -792,6 +807,12 @@ async function analyzeLayers(
   // samples on, not the white part alone: a 20 s bare-chip stretch at 10 Hz read only that, and the
   // demo's clean single-layer run then read "residuals 1.8×".
   if (reference === null && idleModel && noiseFloor.samples >= 100) reference = Math.sqrt(idleModel.whiteVar + idleModel.ar1Var);
+  // Sequential, the offset averaged (fit/offsetAveraging.ts): its random σ into every layer's σ, each chip's
+  // layers fitted again in order on the moved stack below with the offset one σ higher (fit/offsetSigma.ts in refit);
+  // before the pooling and the run's drift, which weigh each layer by its σ as reported.
+  if (o.mode === 'sequential' && o.offsetAveraging) {
+    for (const [chip, chipStates] of chipLayers) carryOffsetSigmaThroughChip(chipStates, chipStarts.get(chip)!.offsetSigmaRandom ?? 0);
+  }
   // The gain drift's share of the index's σ as reported (the pass weighed with the held one; see
   // gainDriftShares), before the pooling: the pool and the run's index drift weigh each layer's
   // own reading by its final σ, so the drift's line is the pooled-index note's and its bars the
@@ -888,6 +909,34 @@ function fitOnFinalStacks(chipLayers: ReadonlyMap<number, LayerState[]>): void {
       s.fittedOn.below = below;
     });
   }
+}
+
+/**
+ * Sequential: a chip's offset σ_o into its layers' σ to first order, as the pass would have gone
+ * with the offset σ_o higher: each layer's own fit again, in order, on the layers below as they
+ * moved (the offset is the chip's, so every layer moves with it and each carries the ones below),
+ * each change added in quadrature (σ² += Δ²). Estimates unchanged.
+ */
+function carryOffsetSigmaThroughChip(chipStates: readonly LayerState[], offsetSigma: number): void {
+  if (!(offsetSigma > 0)) return;
+  const moved: LayerEstimate[] = [];
+  const changes = chipStates.map((s, j) => {
+    const wl = s.optics.wavelengthNm;
+    if (!s.offsetAgain) return null;
+    // counted from the same fit at the offset as taken (the estimate may hold moves made after the fit)
+    const from = s.offsetAgain(chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, wl)), s.estimate, 0).layers[0];
+    const again = s.offsetAgain(moved.map((m, k) => layerAtWavelength(chipStates[k].fit, m, wl)), s.estimate, offsetSigma).layers[0];
+    moved.push({ ...s.estimate, index: s.estimate.index + again.index - from.index, rateNmPerS: s.estimate.rateNmPerS + again.rateNmPerS - from.rateNmPerS, rateDriftNmPerS2: s.estimate.rateDriftNmPerS2 + again.rateDriftNmPerS2 - from.rateDriftNmPerS2 });
+    return { index: again.index - from.index, thicknessNm: again.thicknessNm - from.thicknessNm, opticalNm: again.opticalThicknessNm - from.opticalThicknessNm };
+  });
+  if (changes.some((c) => c === null)) return;
+  chipStates.forEach((s, j) => {
+    const c = changes[j]!, e = s.estimate;
+    s.estimate = {
+      ...e, indexSigma: Math.hypot(e.indexSigma, c.index), thicknessSigmaNm: Math.hypot(e.thicknessSigmaNm, c.thicknessNm),
+      opticalThicknessSigmaNm: Math.hypot(e.opticalThicknessSigmaNm, c.opticalNm),
+    };
+  });
 }
 
 /** Points per layer in a chip's final joint fit of `layers` layers. */

@@ -15,10 +15,12 @@ export interface ChipCalibration {
   offsetSigma: number;
   /**
    * 'dark': from dark samples just before the bare chip; 'fitted': from the chip's layers (no
-   * dark samples); 'earlier-chip': an earlier chip's; 'other-chips': the median of the other
+   * dark samples); 'averaged': that fit averaged with the offset assumed (fit/offsetAveraging.ts); 'earlier-chip': an earlier chip's; 'other-chips': the median of the other
    * chips' dark readings (this chip's own was missing or disagreed); 'assumed': 0, nothing better known.
    */
-  offsetSource: 'dark' | 'fitted' | 'earlier-chip' | 'other-chips' | 'assumed';
+  offsetSource: 'dark' | 'fitted' | 'averaged' | 'earlier-chip' | 'other-chips' | 'assumed';
+  /** An averaged offset (fit/offsetAveraging.ts): the weight of the fitted one against the one assumed. */
+  offsetWeight?: number;
   /** 'bare-chip': from the idle stretch before the chip's first layer; 'first-layer': from the first layer's start. */
   source: 'bare-chip' | 'first-layer';
   bareSamples: number;

@@ -21,6 +21,8 @@ export interface ChipStart {
    * one (a fitted offset): what the layers' σ take up (see carryOffsetSigma).
    */
   offsetSigmaRandom?: number;
+  /** A fitted offset: how the chip's gain moves with it, dG/do (−1/M₀ where the bare reading ties it). */
+  offsetGainSlope?: number;
   /**
    * Where the chip's layers set its gain (reflectance, a fitted offset's profile): how that gain (at
    * the chip's first layer start) and the offset taken move per unit of a lamp drift (per second),
@@ -38,7 +40,7 @@ export interface ChipStart {
  */
 export function calibrateChips(
   design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>, warnings: string[],
-  fitOffset = true, offsetAdoptionSigma = 3,
+  fitOffset = true, offsetAdoptionSigma = 3, offsetAveraging = true,
 ): Map<number, ChipStart> {
   const chips = new Map<number, ChipStart>();
   const ends = [...samplesByLayer.values()].map((s) => s.indices[s.indices.length - 1]).sort((a, b) => a - b);
@@ -70,7 +72,7 @@ export function calibrateChips(
   }
   shareDarkReadings(chips, warnings);
   // Only where no chip of the run saw a dark reading is the offset fitted from the layers.
-  if (fitOffset) fitOffsets(design, trace, order, samplesByLayer, chips, warnings, offsetAdoptionSigma);
+  if (fitOffset) fitOffsets(design, trace, order, samplesByLayer, chips, warnings, offsetAdoptionSigma, offsetAveraging);
   return chips;
 }
 

@@ -39,6 +39,8 @@ export interface OffsetFit {
   gainSigma: number;
   /** dG/do along the profile (−1/M₀ with the gain tied to B). */
   gainSlope: number;
+  /** Fit points over their correlation time (the factor² on σ): the independent readings the profile rests on. */
+  effectivePoints: number;
 }
 
 /** Largest offset searched, as a fraction of the full-scale reading B/M₀ either side of the start. */
@@ -148,7 +150,8 @@ export function fitChipOffset(input: OffsetFitInput): OffsetFit {
   const near = evaluated.filter((p) => p !== best && Math.abs(p.o - best.o) > 0).sort((a, b) => Math.abs(a.o - best.o) - Math.abs(b.o - best.o))[0];
   const slope = near ? (near.gain - best.gain) / (near.o - best.o) : -1 / M0;
   const gainSigma = Math.hypot(best.gainSigma, slope * sigma);
-  return { offset: best.o, sigma: edge ? Infinity : sigma, ssr: best.ssr, residualRms: best.rms, evaluations, gain: best.gain, gainSigma: edge ? Infinity : gainSigma, gainSlope: slope };
+  const effectivePoints = layers.reduce((a, l) => a + l.tauS.length, 0) / (factor * factor);
+  return { effectivePoints, offset: best.o, sigma: edge ? Infinity : sigma, ssr: best.ssr, residualRms: best.rms, evaluations, gain: best.gain, gainSigma: edge ? Infinity : gainSigma, gainSlope: slope };
 }
 
 function layerEnd(l: FitLayerData, p: LayerParams) {

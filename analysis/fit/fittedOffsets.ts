@@ -4,6 +4,7 @@ import { type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { type ChipStart } from './chipCalibrations';
 import { fitChipOffset, type OffsetFit } from './chipOffset';
+import { averagedOffset } from './offsetAveraging';
 import { type FitLayerData } from './layerModel';
 import { type LayerSamples } from './layerSamples';
 import { subsampleUniform } from './subsample';
@@ -42,11 +43,13 @@ const MODEL_SIGMA = { R: 0.001, T: 0.0015 } as const;
  * off at 3.4–4σ, their H layers then up to 2.4 % thick (refit RMS 0.58 → 0.45 %). The offset assumed before (0, or an earlier chip's) is kept unless the fit is
  * more than 3σ (option offsetAdoptionSigma) away from it. A chip whose layers do not determine it gets a warning in
  * reflectance (there a bare chip reads a few % of full scale, and an offset of 0.5 % of full
- * scale taken as 0 puts thicknesses 10–30 % off).
+ * scale taken as 0 puts thicknesses 10–30 % off). Option offsetAveraging (on by default) instead
+ * averages the assumed offset and the fitted one (fit/offsetAveraging.ts), chips that disagree
+ * giving their random-effects mean (randomEffectsMean).
  */
 export function fitOffsets(
   design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>,
-  chips: Map<number, ChipStart>, warnings: string[], adoptionSigma = 3,
+  chips: Map<number, ChipStart>, warnings: string[], adoptionSigma = 3, averaging = true,
 ): void {
   const todo = [...chips.values()].filter((c) => c.calibration.bareLevel !== null && (c.calibration.offsetSource === 'assumed' || c.calibration.offsetSource === 'earlier-chip'));
   const fits = todo.map((start) => ({ start, fit: fitOne(design, trace, order, samplesByLayer, start) }));
@@ -56,10 +59,14 @@ export function fitOffsets(
     const scale = Math.abs(cal.bareLevel! / f.start.modelledBare);
     const group = fits.filter((g) => good(g) && g.start.wavelengthNm === f.start.wavelengthNm && g.start.mode === f.start.mode);
     const pooled = pool(group.map((g) => g.fit!));
-    const own = pooled ?? (good(f) ? { offset: f.fit!.offset, sigma: f.fit!.sigma } : null);
+    // Averaged (fit/offsetAveraging.ts), chips that disagree give the detector's one offset as
+    // their random-effects mean, its σ with their spread beyond their own σ (a chip's own fit,
+    // averaged with zero on its own, took a partial offset of either sign per chip).
+    const common = averaging && !pooled && group.length >= 2 ? randomEffectsMean(group.map((g) => g.fit!)) : null;
+    const own = pooled ?? common ?? (good(f) ? { offset: f.fit!.offset, sigma: f.fit!.sigma } : null);
     // Chips that disagree (the detector has one offset) show a bias their profiles do not carry,
     // e.g. a rate that wanders: their spread beyond their σ joins each chip's σ.
-    const spread = pooled ? 0 : betweenChipSigma(group.map((g) => g.fit!));
+    const spread = pooled || common ? 0 : betweenChipSigma(group.map((g) => g.fit!));
     const est = own && { offset: own.offset, sigma: Math.hypot(own.sigma, MODEL_SIGMA[f.start.mode] * scale, spread) };
     const firstLayer = order.find((l) => samplesByLayer.get(l.layer)!.chip === cal.chip)?.layer;
     if (!est) {
@@ -80,25 +87,35 @@ export function fitOffsets(
     const fromLayers = (offset: number) => (fit ? { gain: gainOf(fit, offset), layerGainSigma: fit.gainSigma } : {});
     // The same fit under a small lamp drift: how the offset and gain it gives move with the drift
     // (made when first asked for: only a sequential analysis's held drift reads it).
-    const response = (offset: number, adopted: boolean): ChipStart['gainDrift'] => {
+    // (`share`: how much of the fit the offset taken follows: 1 adopted, 0 kept, the weight averaged)
+    const response = (offset: number, share: number): ChipStart['gainDrift'] => {
       if (!fit) return undefined;
       let memo: ReturnType<NonNullable<ChipStart['gainDrift']>> | undefined;
       return () => {
         if (memo !== undefined) return memo;
         const drifted = fitOne(design, trace, order, samplesByLayer, f.start, PROBE_DRIFT_PER_S);
-        const moved = drifted && adopted ? offset + drifted.offset - fit.offset : offset;
+        const moved = drifted ? offset + share * (drifted.offset - fit.offset) : offset;
         memo = drifted && Number.isFinite(drifted.gain)
           ? { offsetPerDrift: (moved - offset) / PROBE_DRIFT_PER_S, gainPerDrift: (gainOf(drifted, moved) - gainOf(fit, offset)) / PROBE_DRIFT_PER_S }
           : null;
         return memo;
       };
     };
-    const shift = Math.abs(est.offset - cal.offset);
-    if (shift <= adoptionSigma * est.sigma) {
-      set(chips, f.start, { ...cal, offsetSigma: est.sigma, ...fromLayers(cal.offset) }, own!.sigma, response(cal.offset, false));
+    if (averaging) {
+      // the assumed offset and the fitted one, each by its weight (fit/offsetAveraging.ts); the
+      // layers' σ take the average's random part (fit/offsetSigma.ts, and in sequential analyzeRun)
+      const points = pooled || common ? group.reduce((a, g) => a + g.fit!.effectivePoints, 0) : f.fit!.effectivePoints;
+      const avg = averagedOffset({ offset: cal.offset, sigma: cal.offsetSigma, sigmaRandom: cal.offsetSigma }, { ...est, sigmaRandom: own!.sigma }, points);
+      set(chips, f.start, { ...cal, offset: avg.offset, offsetSigma: avg.sigma, offsetSource: 'averaged', offsetWeight: avg.weight, gain: (cal.bareLevel! - avg.offset) / f.start.modelledBare, ...fromLayers(avg.offset) }, avg.sigmaRandom, response(avg.offset, avg.weight));
+      chips.get(cal.chip)!.offsetGainSlope = fit ? fit.gainSlope : -1 / f.start.modelledBare;
       continue;
     }
-    set(chips, f.start, { ...cal, offset: est.offset, offsetSigma: est.sigma, offsetSource: 'fitted', gain: (cal.bareLevel! - est.offset) / f.start.modelledBare, ...fromLayers(est.offset) }, own!.sigma, response(est.offset, true));
+    const shift = Math.abs(est.offset - cal.offset);
+    if (shift <= adoptionSigma * est.sigma) {
+      set(chips, f.start, { ...cal, offsetSigma: est.sigma, ...fromLayers(cal.offset) }, own!.sigma, response(cal.offset, 0));
+      continue;
+    }
+    set(chips, f.start, { ...cal, offset: est.offset, offsetSigma: est.sigma, offsetSource: 'fitted', gain: (cal.bareLevel! - est.offset) / f.start.modelledBare, ...fromLayers(est.offset) }, own!.sigma, response(est.offset, 1));
   }
 }
 
@@ -117,6 +134,14 @@ export function betweenChipSigma(fits: readonly Pick<OffsetFit, 'offset' | 'sigm
   const mean = fits.reduce((a, f, i) => a + w[i] * f.offset, 0) / sw;
   const q = fits.reduce((a, f, i) => a + w[i] * (f.offset - mean) ** 2, 0);
   return Math.sqrt(Math.max(0, (q - (fits.length - 1)) / (sw - sw2 / sw)));
+}
+
+/** The fits' mean weighted by 1/(σᵢ² + τ²), τ their spread (betweenChipSigma), σ² = 1/Σ 1/(σᵢ² + τ²) (DerSimonian–Laird, as above). */
+export function randomEffectsMean(fits: readonly Pick<OffsetFit, 'offset' | 'sigma'>[]): { offset: number; sigma: number } {
+  const tau = betweenChipSigma(fits);
+  const w = fits.map((f) => 1 / (f.sigma * f.sigma + tau * tau));
+  const sw = w.reduce((a, b) => a + b, 0);
+  return { offset: fits.reduce((a, f, i) => a + w[i] * f.offset, 0) / sw, sigma: 1 / Math.sqrt(sw) };
 }
 
 /** Inverse-variance weighted mean of agreeing fits (each within 3σ of it); null when none or they disagree. */

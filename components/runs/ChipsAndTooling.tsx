@@ -10,6 +10,7 @@ export function offsetOrigin(source: string | undefined): string | null {
   switch (source) {
     case 'dark': return 'dark readings';
     case 'fitted': return 'fitted to the layers';
+    case 'averaged': return 'fitted to the layers, averaged with the one assumed';
     case 'earlier-chip': return 'an earlier chip';
     case 'other-chips': return "other chips' dark readings";
     case 'assumed': return 'assumed zero';

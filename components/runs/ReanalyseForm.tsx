@@ -54,6 +54,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (overshoot !== '') settings.turningPointOvershootPct = Number(overshoot);
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
+    if (form.get('offsetAveraging') !== 'on') settings.offsetAveraging = false;
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
     for (const key of ['rateWander', 'indexGradient', 'levelStartTransient'] as const) if (form.get(key) === 'on') settings[key] = true;
@@ -117,7 +118,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           <input id="re-lamp" name="lampStability" type="number" min="0" max="20" step="0.1" placeholder="1 (default)" className={select} />
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft">
-          <label htmlFor="re-adoption">A fitted offset replaces the assumed one beyond this many σ from it</label>
+          <label htmlFor="re-adoption">Without averaging: a fitted offset replaces the assumed one beyond this many σ from it</label>
           <input id="re-adoption" name="offsetAdoption" type="number" min="0" max="10" step="0.5" placeholder="3 (default)" className={select} />
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
@@ -130,6 +131,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="fitOffset" defaultChecked /> Fit the detector offset (stray light) where a chip has no dark reading
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="offsetAveraging" defaultChecked /> Average that fitted offset with the one assumed by the evidence for it, both in σ (unchecked: taken only past the σ set above)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="levelCutGain" defaultChecked /> Layer by layer, a layer cut on level keeps its chip&apos;s calibrated gain where the bare chip read it well (unchecked: a gain of its own)

@@ -15,6 +15,7 @@ export const analysisSettingsSchema = z
     gainDriftFromChips: z.boolean().optional(),
     fitOffset: z.boolean().optional(),
     offsetAdoptionSigma: z.number().min(0).max(10).optional(),
+    offsetAveraging: z.boolean().optional(),
     reflectanceChipGain: z.boolean().optional(),
     heldIndex: z.enum(['nominal', 'run-drift']).optional(),
     thinLayerQwot: z.number().min(0).max(4).optional(),

@@ -19,7 +19,9 @@ describe('chip calibration without dark samples', () => {
     const { run, trace } = await synthTrace(design, { seed: 41, offset: 0.005 });
     const result = await analyzeRun(design, trace);
     const c = result.chips[0];
-    expect(c.offsetSource).toBe('fitted');
+    // averaged with the zero assumed (option offsetAveraging, fit/offsetAveraging.ts), the fit all but wholly taken
+    expect(c.offsetSource).toBe('averaged');
+    expect(c.offsetWeight).toBeGreaterThan(0.99);
     // The profile holds each layer's rate constant: allow 3σ and a small bias.
     expect(Math.abs(c.offset - 0.005)).toBeLessThan(3 * c.offsetSigma + 3e-4);
     expect(c.offsetSigma).toBeGreaterThan(0);
@@ -47,8 +49,17 @@ describe('chip calibration without dark samples', () => {
   it('keeps a zero offset when the layers show none, and reports how well it is known', async () => {
     const design = mirrorR();
     const { trace } = await synthTrace(design, { seed: 42 });
+    // averaged with the zero assumed (option offsetAveraging, on by default): the fit weighs little
     const result = await analyzeRun(design, trace);
     for (const c of result.chips) {
+      expect(c.offsetSource).toBe('averaged');
+      expect(c.offsetWeight).toBeLessThan(0.5);
+      expect(Math.abs(c.offset)).toBeLessThan(0.5 * c.offsetSigma);
+      expect(c.offsetSigma).toBeGreaterThan(0);
+    }
+    // a threshold instead (offsetAveraging off): the zero kept as it was
+    const kept = await analyzeRun(design, trace, { offsetAveraging: false });
+    for (const c of kept.chips) {
       expect(c.offset).toBe(0);
       expect(c.offsetSource === 'assumed' || c.offsetSource === 'earlier-chip').toBe(true);
       expect(c.offsetSigma).toBeGreaterThan(0);

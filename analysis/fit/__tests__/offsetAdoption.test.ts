@@ -8,7 +8,7 @@ import { analyzeRun } from '..';
 // The independent chamber simulator's 12-layer mirror in transmittance on two chips, no dark
 // reading, stray light 0.5 % of full scale; seed 59 is one whose chips' fits pool to about 0.47 %
 // of full scale, just inside 3σ of zero once the systematic 0.15 % is in σ.
-describe('option offsetAdoptionSigma (chamber simulator, T monitoring with stray light)', () => {
+describe('option offsetAdoptionSigma, offsetAveraging off (chamber simulator, T monitoring with stray light)', () => {
   it('keeps the assumed zero at 3σ, and takes the fitted offset, within 3σ of the simulator\'s, at 2σ', { timeout: 120_000 }, async () => {
     const design = mirrorDesign(12, 6);
     const run = simulateChamberRun(design, {
@@ -17,7 +17,7 @@ describe('option offsetAdoptionSigma (chamber simulator, T monitoring with stray
     });
     const parsed = parseDesign(design, 'mirror.json');
     const trace = await readTrace(chamberCsvChunks(run), { fileName: 'mirror.csv', layerCount: parsed.layers.length });
-    const at = (offsetAdoptionSigma: number) => analyzeRun(parsed, trace, { mode: 'sequential', startTransient: false, offsetAdoptionSigma });
+    const at = (offsetAdoptionSigma: number) => analyzeRun(parsed, trace, { mode: 'sequential', startTransient: false, offsetAveraging: false, offsetAdoptionSigma });
     const [held, adopted] = [await at(3), await at(2)];
     for (const c of held.chips) expect(c.offset).toBe(0);
     adopted.chips.forEach((c, i) => {

@@ -39,7 +39,7 @@ describe('a reflectance chip\'s gain from all its layers (chamber simulator)', (
       const r = await analyzeRun(parsed, trace, { mode: 'sequential', startTransient: false });
       const [chip] = r.chips;
       const truth = run.truth.chips[0];
-      expect(chip.offsetSource).toBe('fitted');
+      expect(chip.offsetSource).toBe('averaged');
       expect(chip.layerGainSigma).toBeDefined();
       const err = Math.abs(chip.gain - truth.gain);
       // Measured: 0.01–0.12 % off, σ 0.09–0.10 % (from three layers, the gain tied to the bare reading: 0.21–0.66 % off).

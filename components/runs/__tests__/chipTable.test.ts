@@ -19,7 +19,7 @@ describe('the chip table', () => {
   });
 
   it('names every offset source the analysis writes, and nothing for an unknown one', () => {
-    for (const s of ['dark', 'fitted', 'earlier-chip', 'other-chips', 'assumed']) expect(offsetOrigin(s)).toBeTruthy();
+    for (const s of ['dark', 'fitted', 'averaged', 'earlier-chip', 'other-chips', 'assumed']) expect(offsetOrigin(s)).toBeTruthy();
     expect(offsetOrigin('something else')).toBeNull();
     expect(offsetOrigin(undefined)).toBeNull();
   });

@@ -23,8 +23,8 @@ describe('analysis settings', () => {
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', pooledIndex: false }))).toBe('refit · each index read alone');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitOnFinalStack: false }))).toBe('sequential · each layer fitted once');
-    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', reflectanceChipGain: false, offsetAdoptionSigma: 2 }))).toBe(
-      'sequential · own gain per layer in reflectance · fitted offset taken beyond 2 σ',
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', reflectanceChipGain: false, offsetAveraging: false, offsetAdoptionSigma: 2 }))).toBe(
+      'sequential · own gain per layer in reflectance · fitted offset taken or left by a threshold · fitted offset taken beyond 2 σ',
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', shutterTimeGrowth: 'run-mean' }))).toBe(
       "sequential · last layers' growth at the run's shutter time",
@@ -41,6 +41,7 @@ describe('analysis settings', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', turningPointOvershootPct: 25 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', turningPointOvershootPct: -1 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', offsetAdoptionSigma: -1 }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', offsetAveraging: 'yes' }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', shutterTimeGrowth: 'free' }).success).toBe(false);
   });
 });
