@@ -16,9 +16,14 @@ async function main(): Promise<void> {
   const seeds = seedList(process.argv[3], scenario.seeds);
   const mode = (process.argv[4] ?? 'refit') as Mode;
   const errors: LayerError[] = [];
+  const last: LayerError[] = [];
   for (const seed of seeds) {
     const { run, results } = await runScenario(scenario, seed, [mode]);
-    errors.push(...layerErrors(seed, results[mode], run.truth.layers));
+    const e = layerErrors(seed, results[mode], run.truth.layers);
+    errors.push(...e);
+    // each chip's last layer: nothing above it tells its growth after the cut (fit/layerEnds.ts)
+    const lastLayers = new Set([...new Set(run.truth.layers.map((t) => t.chip))].map((c) => run.truth.layers.filter((t) => t.chip === c).at(-1)!.layer));
+    last.push(...e.filter((x) => lastLayers.has(x.layer)));
   }
   const s = summarize(errors);
   const pct = (v: number | null) => (v === null ? '—' : `${(v * 100).toFixed(1)}`);
@@ -27,6 +32,9 @@ async function main(): Promise<void> {
   console.log(`${name} — ${mode} — seeds ${seeds[0]}…${seeds[seeds.length - 1]} (${seeds.length}): max|d| ${s.maxThicknessPct.toFixed(3)} % RMS ${s.rmsThicknessPct.toFixed(3)} `
     + `max|n| ${s.maxIndex.toFixed(4)} RMS ${s.rmsIndex.toFixed(4)} max|cut| ${s.maxCutQwotPct.toFixed(3)} RMS ${s.rmsCutQwotPct.toFixed(3)} `
     + `coverage d/n/cut ${pct(s.coverage.thickness)}/${pct(s.coverage.index)}/${pct(s.coverage.cut)} % RMS z_d ${rms(zs).toFixed(2)} z_n ${rms(zn).toFixed(2)} missing ${s.missing}`);
+  const lastD = last.flatMap((e) => (e.thicknessPct === null ? [] : [e.thicknessPct]));
+  console.log(`  chips' last layers (${lastD.length}): mean ${(lastD.reduce((a, b) => a + b, 0) / Math.max(1, lastD.length)).toFixed(3)} % RMS ${rms(lastD).toFixed(3)} % `
+    + `max|d| ${Math.max(0, ...lastD.map(Math.abs)).toFixed(3)} % within 3σ ${last.filter((e) => e.zThickness !== null && e.zThickness <= 3).length}/${last.length}`);
   const out = errors.filter((e) => (e.zThickness ?? 0) > 3 || (e.zCut ?? 0) > 3 || (e.zIndex ?? 0) > 3);
   console.log(`  beyond 3σ: ${out.map((e) => `s${e.seed} L${e.layer} d${e.thicknessPct!.toFixed(2)}% z${e.zThickness!.toFixed(1)}/${(e.zIndex ?? 0).toFixed(1)}/${(e.zCut ?? 0).toFixed(1)}`).join('  ') || 'none'}`);
 }
