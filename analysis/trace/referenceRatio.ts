@@ -6,7 +6,8 @@ import { median } from './robustStats';
  * sums and two pointers, O(n). A boxcar smoother, common practice for a slow channel.
  */
 export function runningMean(timeS: ArrayLike<number>, values: ArrayLike<number>, windowS: number): Float64Array {
-  const n = values.length, half = windowS / 2;
+  // (a hair wider than half the window: time stamps i·Δt in floating point then fall alike on both sides)
+  const n = values.length, half = (windowS / 2) * (1 + 1e-9);
   const sums = new Float64Array(n + 1);
   for (let i = 0; i < n; i++) sums[i + 1] = sums[i] + values[i];
   const out = new Float64Array(n);
@@ -27,7 +28,8 @@ export function runningMean(timeS: ArrayLike<number>, values: ArrayLike<number>,
  * drift while keeping the signal's scale (the median's lamp); the reference is smoothed first
  * (runningMean) so that its own noise adds little to the signal's (white noise σ_r becomes about
  * σ_r/√(samples in the window)). A detector offset in the signal is divided too, by a factor that
- * stays within the lamp's drift of 1.
+ * stays within the lamp's drift of 1. Within half a window of either end the mean is one-sided:
+ * a lamp drifting 1 %/h is then read off by up to (window/4)·1 %/h (1.4e-5 for 20 s).
  */
 export function referenceRatio(timeS: ArrayLike<number>, signal: ArrayLike<number>, reference: ArrayLike<number>, windowS: number): Float64Array {
   const smooth = runningMean(timeS, reference, windowS);
