@@ -163,12 +163,16 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  * With `startTransient` (on by default; and a layer column) a layer-by-layer pass first profiles
  * every layer in the run's start delay (fit/startDelay.ts); where the pooled delay is kept, the
  * run is analysed with it held, each fit refitted with it one σ longer for its share of the
- * layer's σ (fit/startDelaySigma.ts). Pure: no I/O.
+ * layer's σ (fit/startDelaySigma.ts). With a `reference` column (option lampReference) the
+ * signal is first divided by the lamp's own reading and the lamp drift's prior tightened
+ * (fit/lampReference.ts). Pure: no I/O.
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
   const referenced = withLampReference(trace, options);
   if (!referenced.note) return analyzeSignal(design, trace, options);
   const result = await analyzeSignal(design, referenced.trace, referenced.options);
+  // the model in the trace's own units, the lamp as the reference read it put back
+  if (result.model) for (let i = 0; i < result.model.length; i++) result.model[i] *= referenced.lamp![i];
   return { ...result, warnings: [referenced.note, ...result.warnings] };
 }
 

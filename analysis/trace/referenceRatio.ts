@@ -23,7 +23,8 @@ export function runningMean(timeS: ArrayLike<number>, values: ArrayLike<number>,
 }
 
 /**
- * The signal of a dual-beam monitor with the lamp divided out: signal ÷ (smoothed reference ÷ its
+ * The signal of a dual-beam monitor with the lamp divided out (`signal`), and the divisor (`lamp`,
+ * the lamp relative to its run median, to put modelled readings back in detector units): signal ÷ (smoothed reference ÷ its
  * run median). The reference detector reads the lamp directly, so the ratio removes the lamp's
  * drift while keeping the signal's scale (the median's lamp); the reference is smoothed first
  * (runningMean) so that its own noise adds little to the signal's (white noise σ_r becomes about
@@ -31,10 +32,13 @@ export function runningMean(timeS: ArrayLike<number>, values: ArrayLike<number>,
  * stays within the lamp's drift of 1. Within half a window of either end the mean is one-sided:
  * a lamp drifting 1 %/h is then read off by up to (window/4)·1 %/h (1.4e-5 for 20 s).
  */
-export function referenceRatio(timeS: ArrayLike<number>, signal: ArrayLike<number>, reference: ArrayLike<number>, windowS: number): Float64Array {
-  const smooth = runningMean(timeS, reference, windowS);
-  const mid = median(smooth);
+export function referenceRatio(timeS: ArrayLike<number>, signal: ArrayLike<number>, reference: ArrayLike<number>, windowS: number): { signal: Float64Array; lamp: Float64Array } {
+  const lamp = runningMean(timeS, reference, windowS);
+  const mid = median(lamp);
   const out = new Float64Array(signal.length);
-  for (let i = 0; i < out.length; i++) out[i] = (signal[i] * mid) / smooth[i];
-  return out;
+  for (let i = 0; i < out.length; i++) {
+    lamp[i] /= mid;
+    out[i] = signal[i] / lamp[i];
+  }
+  return { signal: out, lamp };
 }

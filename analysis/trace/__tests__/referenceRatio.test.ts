@@ -20,7 +20,7 @@ describe('referenceRatio', () => {
   it('removes a lamp drift the signal and reference share, and keeps the scale of the median lamp', () => {
     const signal = Float64Array.from(t, (s) => 1.3 * lamp(s) * film(s));
     const reference = Float64Array.from(t, (s) => 0.8 * lamp(s));
-    const r = referenceRatio(t, signal, reference, 20);
+    const r = referenceRatio(t, signal, reference, 20).signal;
     const lampMid = lamp((t[n / 2 - 1] + t[n / 2]) / 2); // the median of an even count: the middle two's mean
     let inside = 0, ends = 0;
     for (let i = 0; i < n; i++) {
@@ -42,7 +42,7 @@ describe('referenceRatio', () => {
     const noise = () => (uniform() + uniform() + uniform() + uniform() - 2) * Math.sqrt(3); // σ 1
     const signal = new Float64Array(n).fill(1);
     const reference = Float64Array.from(t, () => 1 + 0.001 * noise());
-    const r = referenceRatio(t, signal, reference, 20);
+    const r = referenceRatio(t, signal, reference, 20).signal;
     let ss = 0;
     for (let i = 100; i < n - 100; i++) ss += (r[i] - 1) ** 2;
     const sigma = Math.sqrt(ss / (n - 200));
