@@ -48,6 +48,7 @@ import { profileFromRequest, startDelayRequest } from './startDelayRequest';
 import { binsOnExposureClocks } from './profileBins';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { driftAtDelay, jointStartDelayProfile, pooledLevelDelay, type JointStartDelayProfile } from './jointStartDelay';
+import { withLampReference } from './lampReference';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -120,6 +121,7 @@ export const ANALYZE_DEFAULTS = {
   gainDriftFromChips: true,
   lampStabilityPerHour: DEFAULT_LAMP_STABILITY_PER_HOUR,
   lampDriftFit: false,
+  lampReference: true,
   fitOffset: true,
   offsetAdoptionSigma: 3,
   offsetAveraging: true,
@@ -161,9 +163,20 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  * With `startTransient` (on by default; and a layer column) a layer-by-layer pass first profiles
  * every layer in the run's start delay (fit/startDelay.ts); where the pooled delay is kept, the
  * run is analysed with it held, each fit refitted with it one σ longer for its share of the
- * layer's σ (fit/startDelaySigma.ts). Pure: no I/O.
+ * layer's σ (fit/startDelaySigma.ts). With a `reference` column (option lampReference) the
+ * signal is first divided by the lamp's own reading and the lamp drift's prior tightened
+ * (fit/lampReference.ts). Pure: no I/O.
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
+  const referenced = withLampReference(trace, options);
+  if (!referenced.note) return analyzeSignal(design, trace, options);
+  const result = await analyzeSignal(design, referenced.trace, referenced.options);
+  // the model in the trace's own units, the lamp as the reference read it put back
+  if (result.model) for (let i = 0; i < result.model.length; i++) result.model[i] *= referenced.lamp![i];
+  return { ...result, warnings: [referenced.note, ...result.warnings] };
+}
+
+async function analyzeSignal(design: Design, trace: TraceData, options: AnalyzeOptions): Promise<AnalysisResult> {
   if (!(options.startTransient ?? ANALYZE_DEFAULTS.startTransient)) return analyzePass(design, trace, options, { delayS: 0 });
   const basis = runBasis(design, trace);
   // Every layer cut on level (option levelStartTransient): δ from each chip's joint fit with the

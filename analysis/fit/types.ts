@@ -59,6 +59,13 @@ export interface AnalyzeOptions {
    */
   lampDriftFit?: boolean;
   /**
+   * Where the trace has a `reference` column (a dual-beam monitor's reading of the lamp itself),
+   * divide the signal by it, smoothed and normalised to its run median, and take the lamp drift's
+   * prior as what the ratio leaves (fit/lampReference.ts: 0.1 %/h unless lampStabilityPerHour is
+   * given). No effect without the column. @default true
+   */
+  lampReference?: boolean;
+  /**
    * Estimate the detector's gain drift from the bare-chip calibrations of successive chips (two
    * or more) and apply it within every chip, when it exceeds twice its σ. @default true
    */

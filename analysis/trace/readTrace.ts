@@ -38,6 +38,7 @@ export async function readTrace(
     layer: parser.layer ? TraceParser.samples(parser.layer, n) : null,
     chip: parser.chip ? TraceParser.samples(parser.chip, n) : null,
     crystalNm: parser.crystal ? TraceParser.samples(parser.crystal, n) : null,
+    ...(parser.reference ? { reference: TraceParser.samples(parser.reference, n) } : {}),
     rowCount: n,
     warnings: parser.warnings,
     separator: parser.separator,

@@ -9,12 +9,14 @@ const KIND_SIGNAL = 2;
 const KIND_LAYER = 3;
 const KIND_CHIP = 4;
 const KIND_CRYSTAL = 5;
+const KIND_REFERENCE = 6;
 const KNOWN: Record<string, number> = {
   time_s: KIND_TIME,
   signal: KIND_SIGNAL,
   layer: KIND_LAYER,
   chip: KIND_CHIP,
   crystal_nm: KIND_CRYSTAL,
+  reference: KIND_REFERENCE,
 };
 
 /** Warnings of one kind listed in full; the rest are counted (a file of a million bad lines must not make a million messages). */
@@ -41,6 +43,8 @@ export class TraceParser {
   layer: SampleColumn<Int32Array> | null = null;
   chip: SampleColumn<Int32Array> | null = null;
   crystal: SampleColumn<Float64Array> | null = null;
+  /** The lamp's reference-detector reading (a dual-beam monitor), only where the header names it. */
+  reference: SampleColumn<Float64Array> | null = null;
   /** Highest layer number seen (0 without a layer column). */
   maxLayer = 0;
   private kinds = new Int8Array(0);
@@ -164,9 +168,10 @@ export class TraceParser {
     if (seen.has('layer')) this.layer = this.column((n) => new Int32Array(n));
     if (seen.has('chip')) this.chip = this.column((n) => new Int32Array(n));
     if (seen.has('crystal_nm')) this.crystal = this.column((n) => new Float64Array(n));
+    if (seen.has('reference')) this.reference = this.column((n) => new Float64Array(n));
     this.columns = names;
     this.headerLine = lineNo;
-    const byKind = [null, this.time, this.signal, this.layer, this.chip, this.crystal];
+    const byKind = [null, this.time, this.signal, this.layer, this.chip, this.crystal, this.reference];
     this.fieldColumns = Array.from(this.kinds, (k) => byKind[k]);
   }
 
@@ -205,6 +210,8 @@ export class TraceParser {
           if (v > maxLayer) maxLayer = v;
         } else if (kind === KIND_CHIP) {
           if (!Number.isInteger(v) || v < 1) return false;
+        } else if (kind === KIND_REFERENCE) {
+          if (!(v > 0)) return false;
         }
         columns[j]!.set(r, v);
       }
@@ -257,6 +264,8 @@ export class TraceParser {
           if (v > maxLayer) maxLayer = v;
         } else if (kind === KIND_CHIP) {
           if (!Number.isInteger(v) || v < 1) return false;
+        } else if (kind === KIND_REFERENCE) {
+          if (!(v > 0)) return false;
         }
         columns[j]!.set(r, v);
       }
@@ -335,6 +344,9 @@ export class TraceParser {
               ok = false;
               break;
             }
+          } else if (kind === KIND_REFERENCE && !(v > 0)) {
+            ok = false;
+            break;
           }
           arrays[j]![r] = v;
         }
@@ -446,6 +458,13 @@ export class TraceParser {
           this.fail(lineNo, 'bad_chip', `"${text.trim()}" is not a chip number (a positive integer)`, this.columns[j]);
         }
         this.chip!.set(r, v);
+        break;
+      case KIND_REFERENCE:
+        // the signal is divided by it (fit/lampReference.ts): a reading of the lamp is positive
+        if (!(v > 0)) {
+          this.fail(lineNo, 'bad_reference', `"${text.trim()}" is not a lamp reference reading (a positive number)`, this.columns[j]);
+        }
+        this.reference!.set(r, v);
         break;
       default:
         this.crystal!.set(r, v);

@@ -48,6 +48,11 @@ export interface TraceData {
   layer: Int32Array | null;
   chip: Int32Array | null;
   crystalNm: Float64Array | null;
+  /**
+   * The lamp's reference-detector reading (a dual-beam monitor; arbitrary units, > 0), where the
+   * file has a `reference` column; absent otherwise (no array is kept for it).
+   */
+  reference?: Float64Array;
   rowCount: number;
   warnings: TraceWarning[];
   /** Separator found in the header. */

@@ -7,6 +7,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.gainDrift === true) parts.push('gain drift fitted');
   if (s.lampDriftFit === true) parts.push("gain drift fitted under the lamp's stability");
   if (typeof s.lampStabilityPerHour === 'number') parts.push(`lamp stability ${+(s.lampStabilityPerHour * 100).toFixed(3)} %/h`);
+  if (s.lampReference === false) parts.push('lamp reference column not used');
   if (s.reflectanceChipGain === false) parts.push('own gain per layer in reflectance');
   if (s.offsetAveraging === false) parts.push('fitted offset taken or left by a threshold');
   if (typeof s.offsetAdoptionSigma === 'number') parts.push(`fitted offset taken beyond ${+s.offsetAdoptionSigma.toFixed(2)} σ`);

@@ -12,6 +12,7 @@ export const analysisSettingsSchema = z
     gainDrift: z.boolean().optional(),
     lampStabilityPerHour: z.number().min(0).max(0.2).optional(),
     lampDriftFit: z.boolean().optional(),
+    lampReference: z.boolean().optional(),
     gainDriftFromChips: z.boolean().optional(),
     fitOffset: z.boolean().optional(),
     offsetAdoptionSigma: z.number().min(0).max(10).optional(),

@@ -31,7 +31,12 @@ export class Detector {
   }
 
   gainAt(tS: number): number {
-    return this.o.gain * (1 + (this.o.lampDriftPerHour * tS) / 3600);
+    return this.o.gain * this.lampAt(tS);
+  }
+
+  /** The lamp's intensity relative to t = 0 (its linear drift). */
+  lampAt(tS: number): number {
+    return 1 + (this.o.lampDriftPerHour * tS) / 3600;
   }
 
   /** What the detector reads with no light from the chip (lamp on: stray light; off: dark only). */

@@ -6,8 +6,8 @@ export interface ChamberOptions {
   sampleIntervalS?: number;
   /** `# key: value` lines of the trace. @default {} */
   meta?: Record<string, string>;
-  /** Which optional columns to write. @default { layer: true, chip: true } */
-  columns?: { layer?: boolean; chip?: boolean };
+  /** Which optional columns to write (reference: only with the option reference). @default { layer: true, chip: true, reference: true } */
+  columns?: { layer?: boolean; chip?: boolean; reference?: boolean };
 
   /** Detector gain (reading of a fraction 1.0) at t = 0. @default 1 */
   gain?: number;
@@ -19,6 +19,13 @@ export interface ChamberOptions {
   strayFraction?: number;
   /** Lamp-off (dark) samples before the first chip, s. @default 0 */
   darkS?: number;
+  /**
+   * A dual-beam monitor's reference detector, reading the lamp directly: its own gain times the
+   * lamp's intensity (the drift of lampDriftPerHour), plus its own white noise (σ as a fraction of
+   * its reading), independent of the signal's noise. Lamp-off samples (darkS) are not modelled
+   * with it. @default none (no reference column)
+   */
+  reference?: { gain: number; whiteNoise: number };
 
   /** White noise σ, fraction of full scale. @default 0.0005 */
   whiteNoise?: number;
@@ -115,7 +122,7 @@ export interface ChipTruth {
 
 export interface ChamberRun {
   meta: Record<string, string>;
-  columns: { layer: boolean; chip: boolean; crystal: boolean };
+  columns: { layer: boolean; chip: boolean; crystal: boolean; reference: boolean };
   /** Logged time (with jitter). */
   timeS: Float64Array;
   signal: Float64Array;
@@ -124,6 +131,8 @@ export interface ChamberRun {
   layer: Int32Array;
   chip: Int32Array;
   crystalNm: Float64Array | null;
+  /** The reference detector's reading (option reference), else null. */
+  reference: Float64Array | null;
   sampleIntervalS: number;
   truth: { layers: LayerTruth[]; chips: ChipTruth[] };
 }

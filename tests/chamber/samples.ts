@@ -8,12 +8,14 @@ export class Samples {
   private l = new Int32Array(this.cap);
   private c = new Int32Array(this.cap);
   private x: Float64Array | null;
+  private ref: Float64Array | null;
 
-  constructor(crystal: boolean) {
+  constructor(crystal: boolean, reference = false) {
     this.x = crystal ? new Float64Array(this.cap) : null;
+    this.ref = reference ? new Float64Array(this.cap) : null;
   }
 
-  push(timeS: number, signal: number, fraction: number, layer: number, chip: number, crystal: number): void {
+  push(timeS: number, signal: number, fraction: number, layer: number, chip: number, crystal: number, reference = 0): void {
     if (this.length === this.cap) this.grow();
     const i = this.length++;
     this.t[i] = timeS;
@@ -22,6 +24,7 @@ export class Samples {
     this.l[i] = layer;
     this.c[i] = chip;
     if (this.x) this.x[i] = crystal;
+    if (this.ref) this.ref[i] = reference;
   }
 
   timeAt(i: number): number {
@@ -42,6 +45,7 @@ export class Samples {
     this.l = g(this.l, i32);
     this.c = g(this.c, i32);
     if (this.x) this.x = g(this.x, f64);
+    if (this.ref) this.ref = g(this.ref, f64);
   }
 
   take() {
@@ -49,6 +53,7 @@ export class Samples {
     return {
       timeS: this.t.slice(0, n), signal: this.y.slice(0, n), fraction: this.f.slice(0, n), layer: this.l.slice(0, n), chip: this.c.slice(0, n),
       crystalNm: this.x ? this.x.slice(0, n) : null,
+      reference: this.ref ? this.ref.slice(0, n) : null,
     };
   }
 }

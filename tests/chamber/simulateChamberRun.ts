@@ -15,7 +15,7 @@ function resolve(o: ChamberOptions) {
     jitterFraction: 0, rateNmPerS: {}, defaultRateNmPerS: 0.3, rateScatter: 0.02, rampS: 0, rateDriftFraction: 0, rateSpikes: [], indexOffset: {}, indexDriftPerHour: {},
     indexWithinLayer: {}, indexScatter: 0, turningPointOvershoot: { meanPct: 0, sigmaPct: 0 }, levelLatencyS: [0, 0] as [number, number],
     overshoot: {}, shutterCloseS: [0, 0] as [number, number], bareChipS: 20, settleS: 3, ...o,
-    columns: { layer: o.columns?.layer ?? true, chip: o.columns?.chip ?? true },
+    columns: { layer: o.columns?.layer ?? true, chip: o.columns?.chip ?? true, reference: o.columns?.reference ?? true },
   };
 }
 
@@ -30,15 +30,19 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
   const dt = o.sampleIntervalS;
   if (!(dt > 0)) throw new RangeError(`sampleIntervalS must be > 0 (got ${dt})`);
   if (!(o.jitterFraction >= 0 && o.jitterFraction < 0.5)) throw new RangeError('jitterFraction must be in [0, 0.5)');
+  if (o.reference && o.darkS > 0) throw new RangeError('a reference detector with lamp-off samples (darkS) is not modelled');
   const root = chamberRng(o.seed);
   const rngLayer = root.fork('layers'), rngWander = root.fork('rate-wander'), rngJitter = root.fork('jitter'), rngTiming = root.fork('timing');
   const det = new Detector(o, dt, root.fork('white'), root.fork('correlated'), root.fork('spikes'));
   const stacks = new ChipStacks(design);
-  const out = new Samples(o.tooling !== undefined);
+  const out = new Samples(o.tooling !== undefined, o.reference !== undefined);
+  // the reference detector's own noise, on its own stream: the signal's draws stay as they were
+  const rngReference = root.fork('reference');
+  const referenceAt = (t: number) => (o.reference ? o.reference.gain * det.lampAt(t) * (1 + o.reference.whiteNoise * rngReference.gauss()) : 0);
   const tNow = () => out.length * dt;
   const push = (fraction: number, layer: number, chip: number, crystal: number, lampOn = true) => {
     const t = tNow();
-    out.push(t + o.jitterFraction * dt * (2 * rngJitter.next() - 1), det.reading(fraction, t, lampOn), fraction, layer, chip, crystal);
+    out.push(t + o.jitterFraction * dt * (2 * rngJitter.next() - 1), det.reading(fraction, t, lampOn), fraction, layer, chip, crystal, referenceAt(t));
   };
   const hold = (seconds: number, fraction: (s: number) => number, chip: number, lampOn = true) => {
     const count = Math.round(seconds / dt);
@@ -184,7 +188,8 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
     hold(o.settleS, () => level, prev.chip);
   }
   return {
-    meta: { ...o.meta }, columns: { ...o.columns, crystal: o.tooling !== undefined }, ...out.take(), sampleIntervalS: dt,
+    meta: { ...o.meta }, columns: { layer: o.columns.layer, chip: o.columns.chip, crystal: o.tooling !== undefined, reference: o.reference !== undefined && o.columns.reference },
+    ...out.take(), sampleIntervalS: dt,
     truth: { layers, chips },
   };
 }

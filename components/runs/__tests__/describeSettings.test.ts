@@ -23,6 +23,7 @@ describe('analysis settings', () => {
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', pooledIndex: false }))).toBe('refit · each index read alone');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitOnFinalStack: false }))).toBe('sequential · each layer fitted once');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', lampReference: false }))).toBe('refit · lamp reference column not used');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', reflectanceChipGain: false, offsetAveraging: false, offsetAdoptionSigma: 2 }))).toBe(
       'sequential · own gain per layer in reflectance · fitted offset taken or left by a threshold · fitted offset taken beyond 2 σ',
     );

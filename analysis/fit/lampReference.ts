@@ -1,0 +1,32 @@
+import { referenceRatio, type TraceData } from '../trace';
+import { type AnalyzeOptions } from './types';
+
+/** The reference's running mean, s: long against its white noise, short against the lamp's drift (a choice here). */
+export const REFERENCE_WINDOW_S = 20;
+
+/**
+ * The gain drift's prior σ left once the signal is divided by the reference, fraction per hour:
+ * what the ratio does not remove is the two detectors' own gains drifting apart, taken here as a
+ * tenth of the lamp's default allowance (a choice, not a published figure).
+ */
+export const REFERENCE_STABILITY_PER_HOUR = 0.001;
+
+/**
+ * A trace with a lamp reference column (option lampReference, on by default): the signal divided
+ * by the reference smoothed and normalised to its run median (trace/referenceRatio.ts), and the
+ * lamp drift's prior tightened to what the ratio leaves (REFERENCE_STABILITY_PER_HOUR, unless
+ * lampStabilityPerHour is given), with a note. Without one, or with the option off, the trace and
+ * options as they were. `lamp`: the divisor at each sample, for modelled readings (AnalysisResult.model)
+ * to be put back in the trace's units.
+ */
+export function withLampReference(trace: TraceData, options: AnalyzeOptions): { trace: TraceData; options: AnalyzeOptions; note: string | null; lamp?: Float64Array } {
+  if (!trace.reference || options.lampReference === false) return { trace, options, note: null };
+  const { signal, lamp } = referenceRatio(trace.timeS, trace.signal, trace.reference, REFERENCE_WINDOW_S);
+  const stability = options.lampStabilityPerHour ?? REFERENCE_STABILITY_PER_HOUR;
+  return {
+    trace: { ...trace, signal },
+    lamp,
+    options: { ...options, lampStabilityPerHour: stability },
+    note: `signal divided by the lamp reference column (its ${REFERENCE_WINDOW_S} s running mean over its run median); lamp drift prior ${+(stability * 100).toFixed(3)} %/h`,
+  };
+}
