@@ -2,6 +2,9 @@
 //   npx tsx tests/chamber/harness/seedSweep.ts 'scenario name' [seeds, e.g. 15-30] [mode]):
 // one scenario's errors and 3σ coverage over more seeds than the accuracy harness runs, in one
 // mode, with the analysis options of FRINGELOG_ACCURACY_OPTIONS; and the layers beyond 3σ.
+// FRINGELOG_CHAMBER_OPTIONS (JSON) changes the scenario's chamber, e.g. '{"darkOffset":0.0006}':
+// an effect the scenario leaves off, turned on to see whether a σ it holds is then used.
+import { type ChamberOptions } from '../options';
 import { scenarios, type Mode } from '../scenarios';
 import { layerErrors, summarize, type LayerError } from './accuracyTable';
 import { runScenario } from './runScenario';
@@ -11,8 +14,10 @@ const rms = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + b * b, 0) / Math.m
 
 async function main(): Promise<void> {
   const name = process.argv[2] ?? 'correlated noise and rate wander, mirror';
-  const scenario = scenarios().find((s) => s.name === name);
-  if (!scenario) throw new Error(`no scenario named '${name}'`);
+  const found = scenarios().find((s) => s.name === name);
+  if (!found) throw new Error(`no scenario named '${name}'`);
+  const chamber = process.env.FRINGELOG_CHAMBER_OPTIONS;
+  const scenario = chamber ? { ...found, options: { ...found.options, ...(JSON.parse(chamber) as ChamberOptions) } } : found;
   const seeds = seedList(process.argv[3], scenario.seeds);
   const mode = (process.argv[4] ?? 'refit') as Mode;
   const errors: LayerError[] = [];
