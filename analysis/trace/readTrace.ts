@@ -1,3 +1,4 @@
+import type { RowsBlockChunk } from './rowsBlock';
 import { TraceFormatError } from './TraceFormatError';
 import { TraceParser } from './traceParser';
 import { traceWarnings } from './traceWarnings';
@@ -22,9 +23,11 @@ function resolve(options: ReadTraceOptions) {
  * and storing the columns in typed arrays, so a large file never becomes one string. Chunks
  * should be all bytes or all strings (a string chunk between byte chunks could split a
  * multi-byte character). Throws TraceFormatError naming the line and column of the first fault.
+ * Between byte chunks may come stretches read apart (RowsBlockChunk, rowsBlock.ts): appended where
+ * they read as their bytes would, else their bytes are read; the result is the same.
  */
 export async function readTrace(
-  chunks: AsyncIterable<string | Uint8Array> | Iterable<string | Uint8Array>,
+  chunks: Chunks,
   options: ReadTraceOptions = {},
 ): Promise<TraceData> {
   const o = resolve(options);
@@ -67,7 +70,7 @@ export async function scanTrace(
   };
 }
 
-type Chunks = AsyncIterable<string | Uint8Array> | Iterable<string | Uint8Array>;
+type Chunks = AsyncIterable<string | Uint8Array | RowsBlockChunk> | Iterable<string | Uint8Array | RowsBlockChunk>;
 
 async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples: boolean): Promise<TraceParser> {
   const parser = new TraceParser({ fileName: o.fileName, maxRows: o.maxRows, layerCount: o.layerCount, keepSamples });
@@ -227,7 +230,18 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
     parser.detachPreviousTime();
   };
 
-  for await (const chunk of chunks) {
+  for await (let chunk of chunks) {
+    if (typeof chunk !== 'string' && !(chunk instanceof Uint8Array)) {
+      // rows read apart: appended where the bytes so far ended on a line's end and rowsBytes would
+      // read them alike here (TraceParser.appendRows), else read from their bytes
+      const block = chunk.block;
+      if (mode === 'bytes' && pieceBytes === 0 && carry.length === 0 && block && bytes + chunk.byteLength <= o.maxBytes && parser.appendRows(block)) {
+        bytes += chunk.byteLength;
+        lineNo += block.rows;
+        continue;
+      }
+      chunk = chunk.bytes();
+    }
     bytes += typeof chunk === 'string' ? utf8Length(chunk) : chunk.byteLength;
     if (bytes > o.maxBytes) {
       parser.fail(lineNo + 1, 'size_limit', `the file is larger than the size limit of ${formatBytes(o.maxBytes)}`);
