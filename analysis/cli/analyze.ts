@@ -2,7 +2,9 @@ import { createReadStream, statSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { AnalysisInputError } from '../fit/AnalysisInputError';
 import { analyzeRun } from '../fit/analyzeRun';
-import { readTrace, TraceFormatError, type TraceData } from '../trace';
+import { TraceFormatError, type TraceData } from '../trace';
+import { readTraceRows, sampleWarningOptions } from '../trace/readTrace';
+import { traceWarnings } from '../trace/traceWarnings';
 import { isSpectrumThread, serveSpectra, startSpectrumThread } from './spectrumThread';
 import { fileChunksWithBlocks, type RowsBlockAnswer, type RowsBlockRequest } from './traceBlocks';
 import { choiceFlag, CliInputError, loadDesignFile, parseFlags, requireFlag, runCli } from './args';
@@ -12,6 +14,7 @@ const USAGE = 'npm run --silent analyze -- --design FILE --trace FILE [--mode se
 /** The default size limit of readTrace (ReadTraceOptions.maxBytes). */
 const MAX_TRACE_BYTES = 200 * 1024 * 1024;
 
+/** The trace without its warnings that read the samples (made by the caller: readTraceRows), its columns shared with the second thread where there is one. */
 async function loadTrace(
   path: string, layerCount: number, rowsBlockOf?: (r: RowsBlockRequest) => PromiseLike<RowsBlockAnswer | null>,
 ): Promise<TraceData> {
@@ -27,7 +30,7 @@ async function loadTrace(
   try {
     // 1 MiB reads, not the stream's 64 KiB: fewer chunks to join and await (an 18 MB trace read in
     // about 0.07 s less CPU, 4 alternated cold reads each)
-    return await readTrace(split?.chunks ?? createReadStream(path, { highWaterMark: 1 << 20 }), { fileName: path, layerCount });
+    return await readTraceRows(split?.chunks ?? createReadStream(path, { highWaterMark: 1 << 20 }), { fileName: path, layerCount }, !!rowsBlockOf);
   } catch (e) {
     if (e instanceof TraceFormatError) throw new CliInputError(e.message);
     throw e;
@@ -47,8 +50,12 @@ export async function analyzeCommand(argv: string[]) {
   const spectra = availableParallelism() > 1 ? startSpectrumThread(new URL(import.meta.url)) : null;
   try {
     const trace = await loadTrace(tracePath, design.layers.length, spectra?.rowsBlockOf);
+    // the trace's warnings that read the samples: on the second thread while this one segments the run
+    const warningOptions = sampleWarningOptions({});
+    const sampleWarnings = spectra?.sampleWarningsOf({ trace: { timeS: trace.timeS, signal: trace.signal, layer: trace.layer, rowCount: trace.rowCount, headerLine: trace.headerLine }, options: warningOptions });
+    if (!sampleWarnings) trace.warnings.push(...traceWarnings(trace, warningOptions));
     const result = await analyzeRun(design, trace, {
-      mode, spectrumOf: spectra?.spectrumOf, startDelayProfileOf: spectra?.startDelayProfileOf, wanderPrepOf: spectra?.wanderPrepOf,
+      mode, spectrumOf: spectra?.spectrumOf, startDelayProfileOf: spectra?.startDelayProfileOf, wanderPrepOf: spectra?.wanderPrepOf, sampleWarnings,
     }).catch((e: unknown) => {
       if (e instanceof AnalysisInputError) throw new CliInputError(`${tracePath}: ${e.message}`);
       throw e;

@@ -1,5 +1,6 @@
 import type { RowsBlockChunk } from './rowsBlock';
 import { TraceFormatError } from './TraceFormatError';
+import { type SampleColumn } from './sampleColumn';
 import { TraceParser } from './traceParser';
 import { traceWarnings } from './traceWarnings';
 import type { ReadTraceOptions, TraceData, TraceScan } from './types';
@@ -30,24 +31,44 @@ export async function readTrace(
   chunks: Chunks,
   options: ReadTraceOptions = {},
 ): Promise<TraceData> {
-  const o = resolve(options);
-  const parser = await parse(chunks, o, true);
+  const data = await readTraceRows(chunks, options);
+  data.warnings.push(...traceWarnings(data, sampleWarningOptions(options)));
+  return data;
+}
+
+/**
+ * readTrace without the warnings that read the samples (traceWarnings with sampleWarningOptions),
+ * for a caller that makes them elsewhere; with `shared`, the columns on SharedArrayBuffers, to
+ * hand to another thread without copying.
+ */
+export async function readTraceRows(chunks: Chunks, options: ReadTraceOptions = {}, shared = false): Promise<TraceData> {
+  const parser = await parse(chunks, resolve(options), true);
   const n = parser.rowCount;
-  const data: TraceData = {
+  const take = <T extends Float64Array | Int32Array>(c: SampleColumn<T>): T => {
+    if (!shared) return TraceParser.samples(c, n);
+    const out = new (c.data.constructor as new (b: SharedArrayBuffer) => T)(new SharedArrayBuffer(n * c.data.BYTES_PER_ELEMENT));
+    out.set(c.data.subarray(0, n));
+    return out;
+  };
+  return {
     meta: parser.meta,
     columns: parser.columns,
-    timeS: TraceParser.samples(parser.time, n),
-    signal: TraceParser.samples(parser.signal, n),
-    layer: parser.layer ? TraceParser.samples(parser.layer, n) : null,
-    chip: parser.chip ? TraceParser.samples(parser.chip, n) : null,
-    crystalNm: parser.crystal ? TraceParser.samples(parser.crystal, n) : null,
+    timeS: take(parser.time),
+    signal: take(parser.signal),
+    layer: parser.layer ? take(parser.layer) : null,
+    chip: parser.chip ? take(parser.chip) : null,
+    crystalNm: parser.crystal ? take(parser.crystal) : null,
     rowCount: n,
     warnings: parser.warnings,
     separator: parser.separator,
     headerLine: parser.headerLine,
   };
-  data.warnings.push(...traceWarnings(data, { gapFactor: o.gapFactor, minLayerSamples: o.minLayerSamples }));
-  return data;
+}
+
+/** The options of the warnings that read the samples (traceWarnings), as readTrace takes them. */
+export function sampleWarningOptions(options: ReadTraceOptions): { gapFactor: number; minLayerSamples: number } {
+  const o = resolve(options);
+  return { gapFactor: o.gapFactor, minLayerSamples: o.minLayerSamples };
 }
 
 /**
