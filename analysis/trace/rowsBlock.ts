@@ -32,21 +32,24 @@ export interface RowsBlockChunk {
 
 /** The first line of bytes (the start of a trace file) that is neither blank nor a '#' metadata line, as text; null when there is none, or the text is not valid UTF-8. */
 export function headerLineOf(bytes: Uint8Array): string | null {
-  const decoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: false });
-  for (let start = 0; start < bytes.length; ) {
-    const nl = bytes.indexOf(10, start);
-    // a line without its end may go on beyond these bytes
-    if (nl < 0) return null;
-    let text: string;
-    try {
-      text = decoder.decode(bytes.subarray(start, nl));
-    } catch {
-      return null;
+  // whole lines only (a line feed never occurs inside a UTF-8 sequence), decoded at once: a
+  // file that opens with a million comment lines costs one decode, not one a line
+  const last = bytes.lastIndexOf(10);
+  if (last < 0) return null;
+  let text: string;
+  try {
+    text = new TextDecoder('utf-8', { fatal: true, ignoreBOM: false }).decode(bytes.subarray(0, last + 1));
+  } catch {
+    return null;
+  }
+  for (let start = 0; start < text.length; ) {
+    const nl = text.indexOf('\n', start);
+    const end = nl > start && text.charCodeAt(nl - 1) === 13 ? nl - 1 : nl;
+    if (text.charCodeAt(start) !== 35) {
+      const line = text.substring(start, end);
+      if (line.trim().length > 0) return line;
     }
     start = nl + 1;
-    if (text.charCodeAt(text.length - 1) === 13) text = text.slice(0, -1);
-    if (text.trim().length === 0 || text.charCodeAt(0) === 35) continue;
-    return text;
   }
   return null;
 }
