@@ -6,14 +6,27 @@ import { profileFromRequest, type StartDelayProfileRequest } from '../fit/startD
 import { type AnalyzeOptions } from '../fit/types';
 import { wanderPrepBuffers, wanderPrepFromRequest, type WanderChoiceRequest } from '../fit/wanderChoiceRequest';
 import { type WanderPrep } from '../fit/wanderPrep';
+import { rowsBlockBuffers } from '../trace/rowsBlock';
+import { traceWarnings } from '../trace/traceWarnings';
+import { type TraceData, type TraceWarning } from '../trace/types';
+import { rowsBlockFromFile, type RowsBlockAnswer, type RowsBlockRequest } from './traceBlocks';
 
 // The analyze command computes the layers' spectra (and the work on their samples that needs no
 // fit, layerSampleWork) on a second thread while the main one fits (AnalyzeOptions.spectrumOf),
 // the start delay's profiles while the profiling pass fits on (AnalyzeOptions.startDelayProfileOf),
 // and the pool-free part of a refit pass's wander choices (AnalyzeOptions.wanderPrepOf): the same
-// functions on the same values, so the same figures.
+// functions on the same values, so the same figures. Before those, it reads blocks of a large
+// trace from the file's end (rowsBlockOf, cli/traceBlocks.ts) while the main one reads from its start,
+// then the trace's warnings that read its samples (sampleWarningsOf, the columns on shared memory)
+// while the main one segments the run.
 
-type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | StartDelayProfile | WanderPrep | null;
+type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | StartDelayProfile | WanderPrep | RowsBlockAnswer | TraceWarning[] | null;
+
+/** The trace's warnings that read its samples (traceWarnings), its columns on shared memory. */
+export interface SampleWarningsRequest {
+  trace: Pick<TraceData, 'timeS' | 'signal' | 'layer' | 'rowCount' | 'headerLine'>;
+  options: Parameters<typeof traceWarnings>[1];
+}
 
 const ROLE = 'fringelog-layer-spectra';
 
@@ -23,10 +36,15 @@ type Request = { id: number } & ({
   wavelengthNm: number;
   index: number;
   work?: SampleWork;
-} | { profile: StartDelayProfileRequest } | { wander: WanderChoiceRequest });
+} | { profile: StartDelayProfileRequest } | { wander: WanderChoiceRequest } | { rows: RowsBlockRequest } | { sampleWarnings: SampleWarningsRequest });
 
-/** What the thread answers to a request (and this thread, when that one cannot). */
-function answer(r: Request): Answer {
+/**
+ * What the thread answers to a request (and this thread, here, when that one cannot): a block of
+ * the trace is read there only (here its bytes are read with the rest of the file).
+ */
+function answer(r: Request, here: boolean): Answer {
+  if ('rows' in r) return here ? null : rowsBlockFromFile(r.rows);
+  if ('sampleWarnings' in r) return traceWarnings(r.sampleWarnings.trace, r.sampleWarnings.options);
   if ('profile' in r) return profileFromRequest(r.profile);
   if ('wander' in r) return wanderPrepFromRequest(r.wander);
   const spectrum = r.work?.spectrum === false ? NO_SPECTRUM : layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
@@ -53,8 +71,9 @@ export function serveSpectra(): void {
   const claims = (workerData as { claims?: Int32Array } | null)?.claims;
   parentPort!.on('message', (r: Request) => {
     const mine = !claims || r.id >= claims.length || Atomics.compareExchange(claims, r.id, 0, THERE) === 0;
-    const a = mine ? answer(r) : null;
-    parentPort!.postMessage({ id: r.id, spectrum: a, skipped: !mine }, a && 'wander' in r ? wanderPrepBuffers(a as WanderPrep) : []);
+    const a = mine ? answer(r, false) : null;
+    const buffers = a && 'wander' in r ? wanderPrepBuffers(a as WanderPrep) : a && 'rows' in r && (a as RowsBlockAnswer).block ? rowsBlockBuffers((a as RowsBlockAnswer).block!) : [];
+    parentPort!.postMessage({ id: r.id, spectrum: a, skipped: !mine }, buffers);
   });
 }
 
@@ -64,10 +83,11 @@ export function serveSpectra(): void {
  */
 export function startSpectrumThread(entry: URL): {
   spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; startDelayProfileOf: NonNullable<AnalyzeOptions['startDelayProfileOf']>;
-  wanderPrepOf: NonNullable<AnalyzeOptions['wanderPrepOf']>; close: () => void;
+  wanderPrepOf: NonNullable<AnalyzeOptions['wanderPrepOf']>; rowsBlockOf: (r: RowsBlockRequest) => PromiseLike<RowsBlockAnswer | null>;
+  sampleWarningsOf: (r: SampleWarningsRequest) => PromiseLike<TraceWarning[]>; close: () => void;
 } {
   const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
-  const local = answer;
+  const local = (r: Request) => answer(r, true);
   const claims = new Int32Array(new SharedArrayBuffer(4 * CLAIMS));
   let worker: Worker | null = null;
   let closed = false;
@@ -122,6 +142,8 @@ export function startSpectrumThread(entry: URL): {
       ask({ id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) }) as Promise<LayerSpectrum & Partial<SampleWorkResult>>,
     startDelayProfileOf: (profile) => ask({ id: next++, profile }) as Promise<StartDelayProfile | null>,
     wanderPrepOf: (wander) => ask({ id: next++, wander }) as Promise<WanderPrep>,
+    rowsBlockOf: (rows) => ask({ id: next++, rows }) as Promise<RowsBlockAnswer | null>,
+    sampleWarningsOf: (sampleWarnings) => ask({ id: next++, sampleWarnings }) as Promise<TraceWarning[]>,
     close: () => {
       // the analysis is over (done, or failed): nothing pending is wanted any more
       closed = true;

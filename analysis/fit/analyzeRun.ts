@@ -177,13 +177,21 @@ export async function analyzeRun(design: Design, trace: TraceData, options: Anal
 }
 
 async function analyzeSignal(design: Design, trace: TraceData, options: AnalyzeOptions): Promise<AnalysisResult> {
-  if (!(options.startTransient ?? ANALYZE_DEFAULTS.startTransient)) return analyzePass(design, trace, options, { delayS: 0 });
   const basis = runBasis(design, trace);
+  // (a profiling pass keeps no warnings: the trace's made elsewhere are awaited only before the pass that reports)
+  const sampleWarnings = async () => {
+    if (options.sampleWarnings) trace.warnings.push(...(await options.sampleWarnings));
+  };
+  if (!(options.startTransient ?? ANALYZE_DEFAULTS.startTransient)) {
+    await sampleWarnings();
+    return analyzePass(design, trace, options, { delayS: 0 }, basis);
+  }
   // Every layer cut on level (option levelStartTransient): δ from each chip's joint fit with the
   // lamp drift fitted under its prior (fit/jointStartDelay.ts), the layers on its clock, and the drift fitted so in refit.
   const level = levelCutsOnly(design, trace, options);
   const levelFound = level ? await findLevelStartDelay(design, trace, options, basis) : null;
   const pooled = level ? levelFound : await findStartDelay(design, trace, options, basis);
+  await sampleWarnings();
   if (!pooled?.kept) {
     const plain = await analyzePass(design, trace, options, { delayS: 0 }, basis);
     return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled, level ? 'chip' : 'layer')] : plain.warnings };

@@ -1,4 +1,5 @@
 import { type MaterialDrift } from '../stats';
+import { type TraceWarning } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { type LayerSpectrum } from './layerSpectrum';
 import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
@@ -368,6 +369,13 @@ export interface AnalyzeOptions {
    * @default chooseRateWander, on this thread, as each layer is fitted
    */
   wanderPrepOf?: (request: WanderChoiceRequest) => Promise<WanderPrep>;
+  /**
+   * The trace's warnings that read its samples (trace/traceWarnings.ts), made elsewhere (e.g. on
+   * another thread while the run is segmented and its start delay profiled): appended to
+   * trace.warnings before the pass whose result is returned reads them.
+   * @default none: trace.warnings already holds them (readTrace)
+   */
+  sampleWarnings?: PromiseLike<TraceWarning[]>;
 }
 
 export interface TurningPointAt {

@@ -1,4 +1,6 @@
+import type { RowsBlockChunk } from './rowsBlock';
 import { TraceFormatError } from './TraceFormatError';
+import { type SampleColumn } from './sampleColumn';
 import { TraceParser } from './traceParser';
 import { traceWarnings } from './traceWarnings';
 import type { ReadTraceOptions, TraceData, TraceScan } from './types';
@@ -22,30 +24,52 @@ function resolve(options: ReadTraceOptions) {
  * and storing the columns in typed arrays, so a large file never becomes one string. Chunks
  * should be all bytes or all strings (a string chunk between byte chunks could split a
  * multi-byte character). Throws TraceFormatError naming the line and column of the first fault.
+ * Between byte chunks may come stretches read apart (RowsBlockChunk, rowsBlock.ts): appended where
+ * they read as their bytes would, else their bytes are read; the result is the same.
  */
 export async function readTrace(
-  chunks: AsyncIterable<string | Uint8Array> | Iterable<string | Uint8Array>,
+  chunks: Chunks,
   options: ReadTraceOptions = {},
 ): Promise<TraceData> {
-  const o = resolve(options);
-  const parser = await parse(chunks, o, true);
+  const data = await readTraceRows(chunks, options);
+  data.warnings.push(...traceWarnings(data, sampleWarningOptions(options)));
+  return data;
+}
+
+/**
+ * readTrace without the warnings that read the samples (traceWarnings with sampleWarningOptions),
+ * for a caller that makes them elsewhere; with `shared`, the columns on SharedArrayBuffers, to
+ * hand to another thread without copying.
+ */
+export async function readTraceRows(chunks: Chunks, options: ReadTraceOptions = {}, shared = false): Promise<TraceData> {
+  const parser = await parse(chunks, resolve(options), true);
   const n = parser.rowCount;
-  const data: TraceData = {
+  const take = <T extends Float64Array | Int32Array>(c: SampleColumn<T>): T => {
+    if (!shared) return TraceParser.samples(c, n);
+    const out = new (c.data.constructor as new (b: SharedArrayBuffer) => T)(new SharedArrayBuffer(n * c.data.BYTES_PER_ELEMENT));
+    out.set(c.data.subarray(0, n));
+    return out;
+  };
+  return {
     meta: parser.meta,
     columns: parser.columns,
-    timeS: TraceParser.samples(parser.time, n),
-    signal: TraceParser.samples(parser.signal, n),
-    layer: parser.layer ? TraceParser.samples(parser.layer, n) : null,
-    chip: parser.chip ? TraceParser.samples(parser.chip, n) : null,
-    crystalNm: parser.crystal ? TraceParser.samples(parser.crystal, n) : null,
-    ...(parser.reference ? { reference: TraceParser.samples(parser.reference, n) } : {}),
+    timeS: take(parser.time),
+    signal: take(parser.signal),
+    layer: parser.layer ? take(parser.layer) : null,
+    chip: parser.chip ? take(parser.chip) : null,
+    crystalNm: parser.crystal ? take(parser.crystal) : null,
+    ...(parser.reference ? { reference: take(parser.reference) } : {}),
     rowCount: n,
     warnings: parser.warnings,
     separator: parser.separator,
     headerLine: parser.headerLine,
   };
-  data.warnings.push(...traceWarnings(data, { gapFactor: o.gapFactor, minLayerSamples: o.minLayerSamples }));
-  return data;
+}
+
+/** The options of the warnings that read the samples (traceWarnings), as readTrace takes them. */
+export function sampleWarningOptions(options: ReadTraceOptions): { gapFactor: number; minLayerSamples: number } {
+  const o = resolve(options);
+  return { gapFactor: o.gapFactor, minLayerSamples: o.minLayerSamples };
 }
 
 /**
@@ -68,7 +92,7 @@ export async function scanTrace(
   };
 }
 
-type Chunks = AsyncIterable<string | Uint8Array> | Iterable<string | Uint8Array>;
+type Chunks = AsyncIterable<string | Uint8Array | RowsBlockChunk> | Iterable<string | Uint8Array | RowsBlockChunk>;
 
 async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples: boolean): Promise<TraceParser> {
   const parser = new TraceParser({ fileName: o.fileName, maxRows: o.maxRows, layerCount: o.layerCount, keepSamples });
@@ -228,7 +252,18 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
     parser.detachPreviousTime();
   };
 
-  for await (const chunk of chunks) {
+  for await (let chunk of chunks) {
+    if (typeof chunk !== 'string' && !(chunk instanceof Uint8Array)) {
+      // rows read apart: appended where the bytes so far ended on a line's end and rowsBytes would
+      // read them alike here (TraceParser.appendRows), else read from their bytes
+      const block = chunk.block;
+      if (mode === 'bytes' && pieceBytes === 0 && carry.length === 0 && block && bytes + chunk.byteLength <= o.maxBytes && parser.appendRows(block)) {
+        bytes += chunk.byteLength;
+        lineNo += block.rows;
+        continue;
+      }
+      chunk = chunk.bytes();
+    }
     bytes += typeof chunk === 'string' ? utf8Length(chunk) : chunk.byteLength;
     if (bytes > o.maxBytes) {
       parser.fail(lineNo + 1, 'size_limit', `the file is larger than the size limit of ${formatBytes(o.maxBytes)}`);

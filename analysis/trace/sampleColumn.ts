@@ -19,6 +19,12 @@ export class SampleColumn<T extends Float64Array | Int32Array> {
     this.data[at] = v;
   }
 
+  /** Stores rows at, at + 1, … (kept samples only). */
+  setRows(at: number, values: T): void {
+    while (at + values.length > this.data.length) this.grow();
+    this.data.set(values, at);
+  }
+
   /** Doubles the storage. */
   grow(): void {
     const next = this.make(this.data.length * 2);

@@ -1,6 +1,7 @@
 import { scanDecimal, scanDecimalBytes, scanned } from './plainDecimal';
 import { SampleColumn } from './sampleColumn';
 import { TraceFormatError } from './TraceFormatError';
+import type { RowsBlock } from './rowsBlock';
 import type { TraceWarning } from './types';
 
 const KIND_IGNORE = 0;
@@ -373,6 +374,41 @@ export class TraceParser {
     this.maxLayer = maxLayer;
     this.rowCount = r;
     return lineStart;
+  }
+
+  /**
+   * Appends rows read apart (rowsBlock.ts) where rowsBytes, reading their bytes here and now,
+   * would read every one of them as a row with the same values: under the same header, in the
+   * data (no blank line before), the first row's time after the last one's here, within the row
+   * limit. Returns false, having changed nothing, anywhere else (the caller reads the bytes).
+   */
+  appendRows(b: RowsBlock): boolean {
+    if (this.headerLine === 0 || this.blankLine !== 0 || !this.time.keep) return false;
+    if (b.separator !== this.separator || b.columns.length !== this.columns.length || b.columns.some((c, j) => c !== this.columns[j])) return false;
+    if (b.rows === 0) return true;
+    if (!(b.firstTimeS > this.prevTime) || this.rowCount + b.rows > this.limits.maxRows || b.maxLayer > (this.limits.layerCount ?? Infinity)) return false;
+    const columns = this.fieldColumns;
+    const same = (c: (typeof columns)[number], f: RowsBlock['fields'][number]) =>
+      c === null ? f === null : f !== null && f.length === b.rows && Object.getPrototypeOf(f) === Object.getPrototypeOf(c.data);
+    if (b.fields.length !== columns.length || columns.some((c, j) => !same(c, b.fields[j]))) return false;
+    columns.forEach((c, j) => c?.setRows(this.rowCount, b.fields[j] as never));
+    this.rowCount += b.rows;
+    this.prevTime = b.lastTimeS;
+    this.prevTimeSource = b.lastTimeText;
+    this.prevTimeFrom = 0;
+    this.prevTimeTo = b.lastTimeText.length;
+    if (b.maxLayer > this.maxLayer) this.maxLayer = b.maxLayer;
+    return true;
+  }
+
+  /** The previous row's time field as written. */
+  previousTimeText(): string {
+    return this.previousTime();
+  }
+
+  /** One value per header field: of(column) for a read column, null for an ignored one. */
+  fieldColumnsOf<T>(of: (c: SampleColumn<Float64Array> | SampleColumn<Int32Array>) => T): (T | null)[] {
+    return this.fieldColumns.map((c) => (c ? of(c) : null));
   }
 
   /** Keeps the previous time field as text, not as a view of bytes its caller may reuse. */

@@ -91,4 +91,27 @@ describe('the analyze command computes spectra on a second thread', () => {
     const asWritten = JSON.stringify({ format, layers, warnings, ...rest }, (_k, v: unknown) => (v instanceof Float64Array ? Array.from(v) : v));
     expect(r.stdout).toBe(`${asWritten}\n`);
   });
+
+  it('a trace of over 4 MiB with warnings that read its samples: read on both threads, its warnings made on the second, the same output', async () => {
+    const designFile = path.join(samples, 'bbar4-visible.json');
+    const lines = readFileSync(path.join(samples, 'bay2-bb4-run0587.csv'), 'utf8').split('\n');
+    const header = lines.findIndex((l) => l.startsWith('time_s'));
+    const pad = 'x'.repeat(600);
+    // an ignored column makes the file large; ten rows dropped make a gap in time
+    const padded = lines.filter((_, i) => i < header + 3000 || i >= header + 3010)
+      .map((l, i) => (i < header || l === '' ? l : `${l},${i === header ? 'note' : pad}`)).join('\n');
+    const traceFile = path.join(cache, 'bb4-padded.csv');
+    writeFileSync(traceFile, padded);
+    expect(padded.length).toBeGreaterThan(4 * 2 ** 20);
+    const r = spawnSync(process.execPath, [path.join(root, 'db/local/cli.mjs'), 'analyze', '--design', designFile, '--trace', traceFile, '--mode', 'refit'], {
+      cwd: root, encoding: 'utf8', env: { ...process.env, FRINGELOG_CLI_CACHE: cache }, maxBuffer: 64 * 2 ** 20,
+    });
+    expect(r.stderr).toBe('');
+    const design = parseDesign(JSON.parse(readFileSync(designFile, 'utf8')), designFile);
+    const trace = await readTrace(createReadStream(traceFile), { fileName: traceFile, layerCount: design.layers.length });
+    expect(trace.warnings.map((w) => w.code)).toEqual(['unknown_column', 'time_gap']);
+    const { format, layers, warnings, ...rest } = await analyzeRun(design, trace, { mode: 'refit' });
+    const asWritten = JSON.stringify({ format, layers, warnings, ...rest }, (_k, v: unknown) => (v instanceof Float64Array ? Array.from(v) : v));
+    expect(r.stdout).toBe(`${asWritten}\n`);
+  }, 30_000);
 });
