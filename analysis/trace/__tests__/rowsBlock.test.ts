@@ -140,3 +140,20 @@ describe('a trace read in stretches apart reads as it reads in one piece', () =>
     expect(whole.rows).toBe(50);
   });
 });
+
+describe('a lamp reference column read in stretches apart', () => {
+  it('gives the same reference readings, each stretch appended, not read again from its bytes', async () => {
+    const head = 'time_s,signal,layer,chip,reference\n';
+    let text = head;
+    for (let i = 0; i < 300; i++) text += `${(i * 0.1).toFixed(1)},${(0.9 + 0.01 * Math.sin(i / 7)).toFixed(6)},${i < 40 ? 0 : i < 120 ? 1 : 2},1,${(0.8 - 1e-5 * i).toFixed(6)}\n`;
+    const bytes = enc.encode(text);
+    const whole = await outcome([bytes]);
+    const counts = { fromBytes: 0 };
+    const split = await outcome(splitChunks(bytes, [bytes.length / 4, bytes.length / 2, (3 * bytes.length) / 4].map(Math.floor), opts.layerCount, counts));
+    if (whole instanceof TraceFormatError || split instanceof TraceFormatError) throw new Error('expected both to read');
+    expect(Array.from(split.reference!)).toEqual(Array.from(whole.reference!));
+    expect(split.reference![299]).toBeCloseTo(0.8 - 1e-5 * 299, 9);
+    expect(summary(split)).toEqual(summary(whole));
+    expect(counts.fromBytes).toBe(0);
+  });
+});
