@@ -242,6 +242,13 @@ export interface AnalyzeOptions {
    */
   turningPointExcessMean?: boolean;
   /**
+   * With a layer column: a chip's last layer cut at a turning point (nothing above pins its end)
+   * stands at or past its fitted turning point at the last logged sample, by no more than
+   * turningPointOvershootPct of the layer: its fitted thickness there (Gaussian, its σ) under that
+   * uniform prior, the posterior mean (fit/cutPastTurningPoint.ts); σ unchanged. @default false
+   */
+  cutPastTurningPoint?: boolean;
+  /**
    * Read each material's indices together: a turning-point cut's index (≥ 0.5 QWOT, free) from its
    * material's trend across the run and its own reading, the layers' spread about the trend
    * estimated from them (random-effects model, fit/pooledIndex.ts); n·d stays. Needs five such
