@@ -2,32 +2,38 @@ import { type LayerAt } from '../optics';
 import { modelTurningPoints } from './cutTiming';
 import { type MonitorOptics } from './layerModel';
 
-/** Standard normal density and distribution function (Abramowitz & Stegun 7.1.26 for erf, |error| < 1.5e-7). */
-const phi = (z: number) => Math.exp(-0.5 * z * z) / Math.sqrt(2 * Math.PI);
-function Phi(z: number): number {
-  const x = Math.abs(z) / Math.SQRT2;
-  const t = 1 / (1 + 0.3275911 * x);
-  const erf = 1 - ((((1.061405429 * t - 1.453152027) * t + 1.421413741) * t - 0.284496736) * t + 0.254829592) * t * Math.exp(-x * x);
-  return z >= 0 ? 0.5 * (1 + erf) : 0.5 * (1 - erf);
-}
+/** Simpson intervals over the part of the interval within ±12σ of the mean (h ≤ 0.012σ there). */
+const SIMPSON_INTERVALS = 2000;
 
 /**
- * Mean and σ of a normal N(mean, sigma²) restricted to [lo, hi] (the truncated normal's first two
- * moments, N. L. Johnson, S. Kotz & N. Balakrishnan, Continuous Univariate Distributions vol. 1,
- * 2nd ed., §10.1, from memory): the posterior of a Gaussian reading under a uniform prior on
- * [lo, hi]. Where the interval lies so far out that its probability underflows, its nearer edge.
+ * Mean and σ of a normal N(mean, sigma²) restricted to [lo, hi]: the posterior of a Gaussian
+ * reading under a uniform prior on [lo, hi] (the truncated normal; its closed form, N. L. Johnson,
+ * S. Kotz & N. Balakrishnan, Continuous Univariate Distributions vol. 1, 2nd ed., §10.1, from
+ * memory, loses its variance to cancellation where σ is wide against the interval, so the two
+ * moments are integrated by Simpson's rule over the interval's part within 12σ of the mean, the
+ * density scaled to 1 at its highest point there). Where that part is empty, its nearer edge.
  */
 export function truncatedNormalMoments(mean: number, sigma: number, lo: number, hi: number): { mean: number; sigma: number } {
   if (!(sigma > 0)) return { mean: Math.min(Math.max(mean, lo), hi), sigma: 0 };
-  const a = (lo - mean) / sigma, b = (hi - mean) / sigma;
-  const z = Phi(b) - Phi(a);
-  if (!(z > 1e-12)) {
-    const edge = mean < lo ? lo : hi;
-    return { mean: edge, sigma: 0 };
+  const a = Math.max(lo, mean - 12 * sigma), b = Math.min(hi, mean + 12 * sigma);
+  if (!(b > a)) return { mean: mean < lo ? lo : hi, sigma: 0 };
+  const peak = Math.min(Math.max(mean, a), b);
+  const logDensity = (x: number) => -0.5 * (((x - mean) / sigma) ** 2 - ((peak - mean) / sigma) ** 2);
+  const h = (b - a) / SIMPSON_INTERVALS;
+  let w0 = 0, w1 = 0;
+  const xs = new Float64Array(SIMPSON_INTERVALS + 1), ws = new Float64Array(SIMPSON_INTERVALS + 1);
+  for (let i = 0; i <= SIMPSON_INTERVALS; i++) {
+    const x = a + i * h;
+    const w = (i === 0 || i === SIMPSON_INTERVALS ? 1 : i % 2 === 1 ? 4 : 2) * Math.exp(logDensity(x));
+    xs[i] = x;
+    ws[i] = w;
+    w0 += w;
+    w1 += w * x;
   }
-  const m = (phi(a) - phi(b)) / z;
-  const v = 1 + (a * phi(a) - b * phi(b)) / z - m * m;
-  return { mean: mean + sigma * m, sigma: sigma * Math.sqrt(Math.max(v, 0)) };
+  const m = w1 / w0;
+  let w2 = 0;
+  for (let i = 0; i <= SIMPSON_INTERVALS; i++) w2 += ws[i] * (xs[i] - m) ** 2;
+  return { mean: m, sigma: Math.sqrt(w2 / w0) };
 }
 
 /** The modelled turning point of a layer (index, extinction, on `below`) nearest endNm, within 10 % of it; null without one. */
