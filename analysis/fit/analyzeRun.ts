@@ -138,6 +138,7 @@ export const ANALYZE_DEFAULTS = {
   fitOnFinalStack: true,
   turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
   turningPointExcessMean: true,
+  cutPastTurningPoint: false,
   pooledIndex: true,
   holdUncarriedDrift: true,
   startTransient: true,
@@ -284,7 +285,6 @@ async function analyzeLayers(
   const o = {
     ...ANALYZE_DEFAULTS, ...options, gain: options.gain ?? (refitMode ? 'chip' : 'per-layer'),
     shutterTimeGrowth: options.shutterTimeGrowth ?? (refitMode ? 'run-mean' : 'bounded'),
-    cutPastTurningPoint: options.cutPastTurningPoint ?? refitMode,
   };
   const warnings: string[] = trace.warnings.map((w) => w.message);
   const { byDesign, seg, gathered } = basis;

@@ -50,9 +50,6 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (lamp !== '') settings.lampStabilityPerHour = Number(lamp) / 100;
     const adoption = String(form.get('offsetAdoption') ?? '').trim();
     if (adoption !== '') settings.offsetAdoptionSigma = Number(adoption);
-    const pastTp = form.get('cutPastTurningPoint');
-    if (pastTp === 'on') settings.cutPastTurningPoint = true;
-    if (pastTp === 'off') settings.cutPastTurningPoint = false;
     const overshoot = String(form.get('turningPointOvershoot') ?? '').trim();
     if (overshoot !== '') settings.turningPointOvershootPct = Number(overshoot);
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
@@ -60,7 +57,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (form.get('offsetAveraging') !== 'on') settings.offsetAveraging = false;
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
-    for (const key of ['rateWander', 'indexGradient', 'levelStartTransient'] as const) if (form.get(key) === 'on') settings[key] = true;
+    for (const key of ['rateWander', 'indexGradient', 'levelStartTransient', 'cutPastTurningPoint'] as const) if (form.get(key) === 'on') settings[key] = true;
     for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
@@ -114,14 +111,6 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <option value="">Mode default</option>
             <option value="run-mean">The run&apos;s shutter time as read (joint re-fit&apos;s default)</option>
             <option value="bounded">That time kept within 0–2 s (layer by layer&apos;s default)</option>
-          </select>
-        </div>
-        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-past-tp">A chip&apos;s last turning-point cut (nothing above pins its end)</label>
-          <select id="re-past-tp" name="cutPastTurningPoint" className={select} defaultValue="">
-            <option value="">Mode default</option>
-            <option value="on">At or past its fitted turning point, by up to the overshoot below (joint re-fit&apos;s default)</option>
-            <option value="off">Where its fitted rate law ends (layer by layer&apos;s default)</option>
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft">
@@ -183,6 +172,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="indexGradient" /> The index may change through layers of 1.5 QWOT or more
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="cutPastTurningPoint" /> A chip&apos;s last turning-point cut at or past its fitted turning point, by up to the overshoot (only where the controller cuts after it sees the turning point)
           </label>
         </fieldset>
       </div>

@@ -26,7 +26,6 @@ describe('analysis settings', () => {
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', cutPastTurningPoint: true }))).toBe(
       "sequential · chips' last turning-point cuts held past the turning point",
     );
-    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', cutPastTurningPoint: false }))).toBe("refit · chips' last turning-point cuts where the fit ends");
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', reflectanceChipGain: false, offsetAveraging: false, offsetAdoptionSigma: 2 }))).toBe(
       'sequential · own gain per layer in reflectance · fitted offset taken or left by a threshold · fitted offset taken beyond 2 σ',
     );

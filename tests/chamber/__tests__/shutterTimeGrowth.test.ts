@@ -9,9 +9,7 @@ import { scenarios } from '../scenarios';
 // takes the run's shutter time (fit/layerEnds.ts, option shutterTimeGrowth). The simulator's
 // shutter here closes at once (its truth: no growth after any cut), and the growth the analysis
 // adds is read back from the reported layer as the thickness past its rate law at the logged cut,
-// in seconds at its final rate. Option cutPastTurningPoint (on in refit) is off here: it moves the
-// thickness at the logged cut itself (toward its fitted turning point plus half the allowed
-// overshoot, which this simulator's controller does not make), which this reading would count as growth.
+// in seconds at its final rate.
 const SCENARIO = scenarios().find((s) => s.name === 'correlated noise and spikes, mirror')!;
 const SEEDS = [15, 16, 17, 18, 19, 20, 21, 22];
 
@@ -28,7 +26,7 @@ async function lastLayerGrowths(options: AnalyzeOptions): Promise<{ growthS: num
   for (const seed of SEEDS) {
     const run = simulateChamberRun(SCENARIO.design, { ...SCENARIO.options, seed });
     const trace = await readTrace(chamberCsvChunks(run), { fileName: `mirror seed ${seed}.csv`, layerCount: design.layers.length });
-    const result = await analyzeRun(design, trace, { cutPastTurningPoint: false, ...options, mode: 'refit' });
+    const result = await analyzeRun(design, trace, { ...options, mode: 'refit' });
     const chips = [...new Set(run.truth.layers.map((t) => t.chip))];
     for (const chip of chips) {
       const truth = run.truth.layers.filter((t) => t.chip === chip).at(-1)!;
