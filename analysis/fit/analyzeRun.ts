@@ -35,7 +35,8 @@ import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
 import { indexSeparation, type HeldIndexShift } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
-import { type RateWander } from './rateWander';
+import { lawThickness, lawTimeToThickness, type RateWander } from './rateWander';
+import { cutPastTurningPointNm, turningPointNearNm } from './cutPastTurningPoint';
 import { chooseRateWander, finishRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
 import { wanderChoiceRequest } from './wanderChoiceRequest';
 import { type WanderPrep } from './wanderPrep';
@@ -139,6 +140,7 @@ export const ANALYZE_DEFAULTS = {
   fitOnFinalStack: true,
   turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
   turningPointExcessMean: true,
+  cutPastTurningPoint: false,
   pooledIndex: true,
   holdUncarriedDrift: true,
   startTransient: true,
@@ -774,6 +776,25 @@ async function analyzeLayers(
     const chipStates = chipLayers.get(s.samples.chip)!;
     return chipStates.slice(0, chipStates.indexOf(s)).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm));
   };
+  // A chip's last layer cut at a turning point, whose end nothing above pins: at or past its fitted
+  // turning point at the last logged sample (option cutPastTurningPoint, fit/cutPastTurningPoint.ts).
+  if (ends && o.cutPastTurningPoint) {
+    for (const chipStates of chipLayers.values()) {
+      const s = chipStates[chipStates.length - 1];
+      if (s.design.monitor.cut !== 'turning-point' || s.fit.heldIndex !== null) continue;
+      const cut = ends.loggedCut(s);
+      if (!cut || !(cut.sigmaNm > 0)) continue;
+      const e = s.estimate, w = e.wander ? s.fit.wander : undefined;
+      const loggedNm = lawThickness(e, w, cut.loggedS);
+      const tpNm = turningPointNearNm(s.optics, belowOf(s), e.index, -s.nominal.im, loggedNm);
+      if (tpNm === null) continue;
+      const shiftNm = cutPastTurningPointNm(loggedNm, cut.sigmaNm, tpNm, o.turningPointOvershootPct) - loggedNm;
+      const d = e.thicknessNm + shiftNm;
+      const T = lawTimeToThickness(e, w, d, s.fit.durationS);
+      if (Number.isFinite(T)) s.fit.durationS = s.refit.durationS = T;
+      s.estimate = { ...e, thicknessNm: d, opticalThicknessNm: e.index * d };
+    }
+  }
   // A turning-point cut ended on its fitted turning point (no layer column): the excess past it,
   // which the trace does not show, and the excess of the layer below, which moved its turning
   // point, moved by their mean into the estimate and their variance into σ, or (option

@@ -179,6 +179,15 @@ export class LayerEnds {
     return { deltaNm: rec.growth.deltaNm, rateNmPerS: finalRate(rec.loggedS, rec.s) };
   }
 
+  /**
+   * The time base at the layer's last logged sample, s, and the σ of its fitted thickness there
+   * (before the growth's σ took its place); null for a layer not ended here.
+   */
+  loggedCut(s: EndedLayer): { loggedS: number; sigmaNm: number } | null {
+    const rec = this.records.find((r) => r.s === s);
+    return rec ? { loggedS: rec.loggedS, sigmaNm: this.base(rec).d } : null;
+  }
+
   /** The chip's stack covariance (sequential fits) with the growth's variance added to the thickness of its top layer. */
   stackWithGrowth(chip: number, stack: StackCovariance): StackCovariance {
     const rec = this.lastOnChip.get(chip);

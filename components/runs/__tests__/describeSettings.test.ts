@@ -24,6 +24,9 @@ describe('analysis settings', () => {
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', pooledIndex: false }))).toBe('refit · each index read alone');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitOnFinalStack: false }))).toBe('sequential · each layer fitted once');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', lampReference: false }))).toBe('refit · lamp reference column not used');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', cutPastTurningPoint: true }))).toBe(
+      "sequential · chips' last turning-point cuts held past the turning point",
+    );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', reflectanceChipGain: false, offsetAveraging: false, offsetAdoptionSigma: 2 }))).toBe(
       'sequential · own gain per layer in reflectance · fitted offset taken or left by a threshold · fitted offset taken beyond 2 σ',
     );
@@ -44,5 +47,6 @@ describe('analysis settings', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', offsetAdoptionSigma: -1 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', offsetAveraging: 'yes' }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', shutterTimeGrowth: 'free' }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', cutPastTurningPoint: 'on' }).success).toBe(false);
   });
 });
