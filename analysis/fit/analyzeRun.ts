@@ -877,7 +877,7 @@ async function analyzeLayers(
     poolIndices(states.map((s) => ({
       material: s.design.material, timeS: s.samples.startTimeS, nominalIndex: s.nominal.re, estimate: s.estimate,
       eligible: s.design.monitor.cut === 'turning-point' && s.qwotAtMonitor >= 0.5 && s.fit.heldIndex === null && !s.estimate.indexGradient,
-    })), warnings).forEach((e, j) => {
+    })), warnings, o.mode === 'sequential').forEach((e, j) => {
       states[j].estimate = e;
     });
   }
@@ -975,7 +975,7 @@ function carryOffsetSigmaThroughChip(chipStates: readonly LayerState[], offsetSi
   chipStates.forEach((s, j) => {
     const c = changes[j]!, e = s.estimate;
     s.estimate = {
-      ...e, indexSigma: Math.hypot(e.indexSigma, c.index), thicknessSigmaNm: Math.hypot(e.thicknessSigmaNm, c.thicknessNm),
+      ...e, indexSigma: Math.hypot(e.indexSigma, c.index), indexOffsetShift: c.index, thicknessSigmaNm: Math.hypot(e.thicknessSigmaNm, c.thicknessNm),
       opticalThicknessSigmaNm: Math.hypot(e.opticalThicknessSigmaNm, c.opticalNm),
     };
   });

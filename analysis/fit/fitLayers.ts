@@ -63,6 +63,12 @@ export interface LayerEstimate extends LayerParams {
   noiseCorrelation: number;
   /** σ of a fitted index gradient Δn (0 when held or absent). */
   indexGradientSigma?: number;
+  /**
+   * The index's change with the detector's offset one σ higher (fit/offsetSigma.ts; its square is
+   * in indexSigma): a shift every layer's reading shares, one draw per run, which the pooling
+   * (fit/pooledIndex.ts) carries as such rather than as each layer's own error.
+   */
+  indexOffsetShift?: number;
 }
 
 export interface JointFitResult {

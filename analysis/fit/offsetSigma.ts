@@ -36,6 +36,7 @@ export function carryOffsetSigma(
   estimates.forEach((e, j) => {
     const c = changes[j];
     e.indexSigma = add(e.indexSigma, c.index);
+    e.indexOffsetShift = c.index;
     e.thicknessSigmaNm = add(e.thicknessSigmaNm, c.thicknessNm);
     e.opticalThicknessSigmaNm = add(e.opticalThicknessSigmaNm, c.opticalThicknessNm);
     e.rateSigma = add(e.rateSigma, c.rateNmPerS);

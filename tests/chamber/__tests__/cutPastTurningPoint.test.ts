@@ -32,12 +32,13 @@ const rms = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + b * b, 0) / v.leng
 
 describe('a chip\'s last turning-point cut at or past its fitted turning point', () => {
   it(`refit, rate-wander mirror, seeds ${SEEDS[0]}–${SEEDS.at(-1)}: the chips' last layers' RMS error falls; all within 3σ`, { timeout: 300_000 }, async () => {
-    // Measured: RMS 0.495 % with the option (mean −0.07 %), 0.637 % without (mean −0.20 %), 24 layers.
+    // Measured: RMS 0.368 % with the option, 0.516 % without, 24 layers (0.495 % and 0.637 % before the
+    // index pooling read the detector offset's share as common to the layers, fit/commonShiftTrend.ts).
     const held = await lastLayerErrors({ cutPastTurningPoint: true });
     expect(held.errors).toHaveLength(3 * SEEDS.length);
-    expect(rms(held.errors)).toBeLessThan(0.56);
+    expect(rms(held.errors)).toBeLessThan(0.42);
     expect(Math.max(...held.z)).toBeLessThan(3);
     const free = await lastLayerErrors({ cutPastTurningPoint: false });
-    expect(rms(free.errors)).toBeGreaterThan(0.6);
+    expect(rms(free.errors)).toBeGreaterThan(0.47);
   });
 });
