@@ -1,7 +1,3 @@
-import { type LayerAt } from '../optics';
-import { modelTurningPoints } from './cutTiming';
-import { type MonitorOptics } from './layerModel';
-
 /** Simpson intervals over the part of the interval within ±12σ of the mean (h ≤ 0.012σ there). */
 const SIMPSON_INTERVALS = 2000;
 
@@ -34,15 +30,6 @@ export function truncatedNormalMoments(mean: number, sigma: number, lo: number, 
   let w2 = 0;
   for (let i = 0; i <= SIMPSON_INTERVALS; i++) w2 += ws[i] * (xs[i] - m) ** 2;
   return { mean: m, sigma: Math.sqrt(w2 / w0) };
-}
-
-/** The modelled turning point of a layer (index, extinction, on `below`) nearest endNm, within 10 % of it; null without one. */
-export function turningPointNearNm(optics: MonitorOptics, below: readonly LayerAt[], index: number, extinction: number, endNm: number): number | null {
-  let best: number | null = null;
-  for (const tp of modelTurningPoints(optics, below, index, extinction, endNm * 1.2)) {
-    if (Math.abs(tp.thicknessNm - endNm) <= 0.1 * endNm && (best === null || Math.abs(tp.thicknessNm - endNm) < Math.abs(best - endNm))) best = tp.thicknessNm;
-  }
-  return best;
 }
 
 /**

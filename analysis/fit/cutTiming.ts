@@ -34,6 +34,15 @@ export function modelTurningPoints(
   return out;
 }
 
+/** The modelled turning point of a layer (index, extinction, on `below`) nearest endNm, within 10 % of it; null without one. */
+export function turningPointNearNm(optics: MonitorOptics, below: readonly LayerAt[], index: number, extinction: number, endNm: number): number | null {
+  let best: number | null = null;
+  for (const tp of modelTurningPoints(optics, below, index, extinction, endNm * 1.2)) {
+    if (Math.abs(tp.thicknessNm - endNm) <= 0.1 * endNm && (best === null || Math.abs(tp.thicknessNm - endNm) < Math.abs(best - endNm))) best = tp.thicknessNm;
+  }
+  return best;
+}
+
 /** τ ≥ 0 at which r·τ + a·τ²/2 reaches d (extrapolated); NaN when it never does. */
 export function timeToThickness(thicknessNm: number, rateNmPerS: number, rateDriftNmPerS2: number): number {
   const r = rateNmPerS, a = rateDriftNmPerS2;

@@ -1,5 +1,5 @@
 import { type LayerAt } from '../optics';
-import { modelTurningPoints } from './cutTiming';
+import { modelTurningPoints, turningPointNearNm } from './cutTiming';
 import { type LayerEstimate } from './fitLayers';
 import { layerAtWavelength, type FitLayerData } from './layerModel';
 import { lawThickness, lawTimeToThickness } from './rateWander';
@@ -58,15 +58,6 @@ export function turningPointEndsOnChip(data: FitLayerData[], estimates: LayerEst
   return moved;
 }
 
-/** The turning point of the layer (index `index`, on `below`) nearest endNm, within 10 % of it; null without one. */
-function turningPointNear(layer: FitLayerData, index: number, below: readonly LayerAt[], endNm: number): number | null {
-  let best: number | null = null;
-  for (const tp of modelTurningPoints(layer.optics, below, index, layer.extinction, endNm * 1.2)) {
-    if (Math.abs(tp.thicknessNm - endNm) <= 0.1 * endNm && (best === null || Math.abs(tp.thicknessNm - endNm) < Math.abs(best - endNm))) best = tp.thicknessNm;
-  }
-  return best;
-}
-
 /** σ of a layer below as the turning point's propagation takes it: thickness, nm, and real index. */
 export interface BelowSigma {
   thicknessNm: number;
@@ -97,20 +88,20 @@ export function turningPointEndSigma(
     varNd += dnd * dnd;
     return true;
   };
-  if (indexSigma > 0 && !add(turningPointNear(layer, index + indexSigma, below, endNm), turningPointNear(layer, index - indexSigma, below, endNm), indexSigma)) return null;
+  if (indexSigma > 0 && !add(turningPointNearNm(layer.optics, below, index + indexSigma, layer.extinction, endNm), turningPointNearNm(layer.optics, below, index - indexSigma, layer.extinction, endNm), indexSigma)) return null;
   for (let i = 0; i < below.length; i++) {
     const s = belowSigma[i];
     const moved = (f: (l: LayerAt) => LayerAt) => below.map((l, k) => (k === i ? f(l) : l));
     if (s.thicknessNm > 0) {
       const ok = add(
-        turningPointNear(layer, index, moved((l) => ({ ...l, thicknessNm: l.thicknessNm + s.thicknessNm })), endNm),
-        turningPointNear(layer, index, moved((l) => ({ ...l, thicknessNm: Math.max(l.thicknessNm - s.thicknessNm, 0) })), endNm), 0);
+        turningPointNearNm(layer.optics, moved((l) => ({ ...l, thicknessNm: l.thicknessNm + s.thicknessNm })), index, layer.extinction, endNm),
+        turningPointNearNm(layer.optics, moved((l) => ({ ...l, thicknessNm: Math.max(l.thicknessNm - s.thicknessNm, 0) })), index, layer.extinction, endNm), 0);
       if (!ok) return null;
     }
     if (s.index > 0) {
       const ok = add(
-        turningPointNear(layer, index, moved((l) => ({ ...l, n: { re: l.n.re + s.index, im: l.n.im } })), endNm),
-        turningPointNear(layer, index, moved((l) => ({ ...l, n: { re: l.n.re - s.index, im: l.n.im } })), endNm), 0);
+        turningPointNearNm(layer.optics, moved((l) => ({ ...l, n: { re: l.n.re + s.index, im: l.n.im } })), index, layer.extinction, endNm),
+        turningPointNearNm(layer.optics, moved((l) => ({ ...l, n: { re: l.n.re - s.index, im: l.n.im } })), index, layer.extinction, endNm), 0);
       if (!ok) return null;
     }
   }

@@ -1,5 +1,5 @@
 import { type LayerAt } from '../optics';
-import { modelTurningPoints } from './cutTiming';
+import { turningPointNearNm } from './cutTiming';
 import { type LayerEstimate } from './fitLayers';
 import { type FitLayerData } from './layerModel';
 import { lawRate, lawThickness } from './rateWander';
@@ -63,14 +63,8 @@ const STEP_NM = 0.5;
  */
 export function turningPointCompensation(layer: FitLayerData, index: number, below: readonly LayerAt[], endNm: number): number | null {
   if (below.length === 0) return null;
-  const at = (shiftNm: number) => {
-    const moved = below.map((l, i) => (i === below.length - 1 ? { ...l, thicknessNm: l.thicknessNm + shiftNm } : l));
-    let best: number | null = null;
-    for (const tp of modelTurningPoints(layer.optics, moved, index, layer.extinction, endNm * 1.2)) {
-      if (Math.abs(tp.thicknessNm - endNm) <= 0.1 * endNm && (best === null || Math.abs(tp.thicknessNm - endNm) < Math.abs(best - endNm))) best = tp.thicknessNm;
-    }
-    return best;
-  };
+  const at = (shiftNm: number) =>
+    turningPointNearNm(layer.optics, below.map((l, i) => (i === below.length - 1 ? { ...l, thicknessNm: l.thicknessNm + shiftNm } : l)), index, layer.extinction, endNm);
   const up = at(STEP_NM), down = at(-STEP_NM);
   return up === null || down === null ? null : -(up - down) / (2 * STEP_NM);
 }
