@@ -1,4 +1,4 @@
-import { chiSquareQuantile } from '../stats';
+import { qProfileUpperBound } from '../stats';
 import { invertSymmetric } from './invertSymmetric';
 
 /** One reading for commonShiftTrend: its own independent σ, and its signed change at one σ of each common shift. */
@@ -88,24 +88,22 @@ export function commonShiftTrend(points: readonly CommonShiftPoint[], mse: 'pras
   let tr = 0;
   for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) tr += PV[i * k + j] * PV[j * k + i];
   const varTau2 = trP > 0 ? (2 * tr) / (trP * trP) : 0;
-  const upper = mse === 'upperBound' ? upperBound(tau2, trP, k, (t) => { const f = withTau(t); if (!f) return 0; let qq = 0; for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) qq += y[i] * f.P[i * k + j] * y[j]; return qq; }) : null;
-  if (upper !== null) {
-    const predicted = points.map((_, i) => {
-      let value = 0, v = 0;
-      for (let j = 0; j < k; j++) value += C[i * k + j] * y[j];
-      for (let j = 0; j < k; j++) v += upper * (C[i * k + j] - (i === j ? 1 : 0)) ** 2;
-      v += quad(C, i, R, k);
-      return { value, sigma: Math.sqrt(v) };
-    });
-    return { tau2, predicted };
-  }
+  const profile = (t: number) => {
+    const f = withTau(t);
+    if (!f) return 0;
+    let qq = 0;
+    for (let i = 0; i < k; i++) for (let j = 0; j < k; j++) qq += y[i] * f.P[i * k + j] * y[j];
+    return qq;
+  };
+  // the spread the error variance takes: τ̂² (Prasad–Rao, with g₃ for its estimation) or its upper bound
+  const upper = mse === 'upperBound' ? qProfileUpperBound(profile, k - 2, tau2, trP, Math.max(tau2, 1e-12)) : null;
   const h = Math.max(tau2, points.reduce((a, p) => a + p.sigma ** 2, 0) / k) * 1e-3;
-  const moved = withTau(tau2 + h);
+  const moved = upper === null ? withTau(tau2 + h) : null;
   const predicted = points.map((_, i) => {
     let value = 0, v = 0;
     for (let j = 0; j < k; j++) value += C[i * k + j] * y[j];
     // τ²(C − I)(C − I)ᵀ + C R Cᵀ at row i
-    for (let j = 0; j < k; j++) v += tau2 * (C[i * k + j] - (i === j ? 1 : 0)) ** 2;
+    for (let j = 0; j < k; j++) v += (upper ?? tau2) * (C[i * k + j] - (i === j ? 1 : 0)) ** 2;
     v += quad(C, i, R, k);
     if (moved) {
       const dC = new Float64Array(k * k);
@@ -115,21 +113,6 @@ export function commonShiftTrend(points: readonly CommonShiftPoint[], mse: 'pras
     return { value, sigma: Math.sqrt(v) };
   });
   return { tau2, predicted };
-}
-
-/** τᵤ² of the Q-profile at 95 %, no less than τ̂² + z₀.₉₅·√(2(k − 2))/tr P. */
-function upperBound(tau2: number, trP: number, k: number, q: (t: number) => number): number {
-  const target = chiSquareQuantile(0.05, k - 2);
-  let hi = 0;
-  if (q(0) > target) {
-    let top = Math.max(tau2, 1e-12);
-    while (q(top) > target && top < 1e6) top *= 2;
-    let lo = 0;
-    for (let i = 0; i < 50; i++) { const mid = 0.5 * (lo + top); if (q(mid) > target) lo = mid; else top = mid; }
-    hi = top;
-  }
-  const z = Math.sqrt(chiSquareQuantile(0.9, 1));
-  return Math.max(hi, tau2 + (z * Math.sqrt(2 * (k - 2))) / trP);
 }
 
 /** cᵢ M cᵢᵀ for row i of c (k×k row-major). */

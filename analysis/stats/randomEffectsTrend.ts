@@ -69,24 +69,7 @@ export function randomEffectsTrend(points: readonly TrendPoint[], upperLevel = 0
   const dof = k - 2;
   const tau2 = Math.max(0, (fixed.q - dof) / (a00 - trace));
 
-  const qTarget = chiSquareQuantile(1 - upperLevel, dof);
-  let tau2Upper = 0;
-  if (fixed.q > qTarget) {
-    let hi = Math.max(tau2, Math.min(...s2)) || 1e-12;
-    while (at(hi)!.q > qTarget && hi < 1e12) hi *= 2;
-    let lo = 0;
-    for (let i = 0; i < 60; i++) {
-      const mid = 0.5 * (lo + hi);
-      if (at(mid)!.q > qTarget) lo = mid;
-      else hi = mid;
-    }
-    tau2Upper = hi;
-  }
-  // Readings that scatter less than their σ say (Q below the quantile) leave the profile no bound
-  // above 0; the moment estimate's own noise with no spread, √(2(k − 2))/c (Q ~ χ²(k − 2)), is a
-  // spread it cannot tell from none at the same level.
-  const z = Math.sqrt(chiSquareQuantile(2 * upperLevel - 1, 1));
-  tau2Upper = Math.max(tau2Upper, tau2 + (z * Math.sqrt(2 * dof)) / (a00 - trace));
+  const tau2Upper = qProfileUpperBound((t) => at(t)!.q, dof, tau2, a00 - trace, Math.max(tau2, Math.min(...s2)) || 1e-12, upperLevel);
   const tauU = tau2Upper;
 
   const line = at(tau2)!;
@@ -114,3 +97,29 @@ export function randomEffectsTrend(points: readonly TrendPoint[], upperLevel = 0
 }
 
 const sum = (v: readonly number[]) => v.reduce((a, b) => a + b, 0);
+
+/**
+ * The spread's upper bound at `level` by the Q-profile: the τ² at which the profile statistic
+ * q(τ²) falls to the χ²(dof) quantile 1 − level (Viechtbauer 2007, from memory), by doubling from
+ * `start` and bisection; 0 where q(0) is already below it. Floored at τ̂² plus level's normal
+ * quantile times the moment estimate's own σ without a spread, √(2·dof)/c, c its scale (tr P):
+ * readings that scatter less than their σ say leave the profile no bound above 0, and that much
+ * spread it cannot tell from none at the same level (Q ~ χ²(dof), Var Q = 2·dof).
+ */
+export function qProfileUpperBound(q: (tau2: number) => number, dof: number, tau2: number, c: number, start: number, level = 0.95): number {
+  const target = chiSquareQuantile(1 - level, dof);
+  let upper = 0;
+  if (q(0) > target) {
+    let hi = start;
+    while (q(hi) > target && hi < 1e12) hi *= 2;
+    let lo = 0;
+    for (let i = 0; i < 60; i++) {
+      const mid = 0.5 * (lo + hi);
+      if (q(mid) > target) lo = mid;
+      else hi = mid;
+    }
+    upper = hi;
+  }
+  const z = Math.sqrt(chiSquareQuantile(2 * level - 1, 1));
+  return Math.max(upper, tau2 + (z * Math.sqrt(2 * dof)) / c);
+}
