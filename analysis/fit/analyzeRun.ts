@@ -127,6 +127,7 @@ export const ANALYZE_DEFAULTS = {
   fitOffset: true,
   offsetAdoptionSigma: 3,
   offsetAveraging: true,
+  unmeasuredOffsetSigma: 0.003,
   gainPriorFraction: 0.005,
   levelCutGain: 'calibration',
   reflectanceChipGain: true,
@@ -342,7 +343,7 @@ async function analyzeLayers(
   const { idleModel, noiseFloor } = basis.noise();
   const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth);
   const chipLayers = new Map<number, LayerState[]>();
-  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma, o.offsetAveraging);
+  const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma, o.offsetAveraging, o.unmeasuredOffsetSigma);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
   // A gain drift seen across the chips' bare-chip calibrations (at 3σ: with three chips the
   // slope's scatter has one degree of freedom) is applied within every chip.

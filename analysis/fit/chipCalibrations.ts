@@ -40,7 +40,7 @@ export interface ChipStart {
  */
 export function calibrateChips(
   design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>, warnings: string[],
-  fitOffset = true, offsetAdoptionSigma = 3, offsetAveraging = true,
+  fitOffset = true, offsetAdoptionSigma = 3, offsetAveraging = true, unmeasuredOffsetSigma = 0,
 ): Map<number, ChipStart> {
   const chips = new Map<number, ChipStart>();
   const ends = [...samplesByLayer.values()].map((s) => s.indices[s.indices.length - 1]).sort((a, b) => a - b);
@@ -72,7 +72,7 @@ export function calibrateChips(
   }
   shareDarkReadings(chips, warnings);
   // Only where no chip of the run saw a dark reading is the offset fitted from the layers.
-  if (fitOffset) fitOffsets(design, trace, order, samplesByLayer, chips, warnings, offsetAdoptionSigma, offsetAveraging);
+  if (fitOffset) fitOffsets(design, trace, order, samplesByLayer, chips, warnings, offsetAdoptionSigma, offsetAveraging, unmeasuredOffsetSigma);
   return chips;
 }
 

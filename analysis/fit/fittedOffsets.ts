@@ -45,11 +45,13 @@ const MODEL_SIGMA = { R: 0.001, T: 0.0015 } as const;
  * reflectance (there a bare chip reads a few % of full scale, and an offset of 0.5 % of full
  * scale taken as 0 puts thicknesses 10–30 % off). Option offsetAveraging (on by default) instead
  * averages the assumed offset and the fitted one (fit/offsetAveraging.ts), chips that disagree
- * giving their random-effects mean (randomEffectsMean).
+ * giving their random-effects mean (randomEffectsMean). A chip whose offset its layers do not
+ * determine keeps the one assumed, the layers' σ carrying `unmeasuredSigma` (option
+ * unmeasuredOffsetSigma, a fraction of full scale) where that is the zero assumed.
  */
 export function fitOffsets(
   design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>,
-  chips: Map<number, ChipStart>, warnings: string[], adoptionSigma = 3, averaging = true,
+  chips: Map<number, ChipStart>, warnings: string[], adoptionSigma = 3, averaging = true, unmeasuredSigma = 0,
 ): void {
   const todo = [...chips.values()].filter((c) => c.calibration.bareLevel !== null && (c.calibration.offsetSource === 'assumed' || c.calibration.offsetSource === 'earlier-chip'));
   const fits = todo.map((start) => ({ start, fit: fitOne(design, trace, order, samplesByLayer, start) }));
@@ -75,8 +77,14 @@ export function fitOffsets(
       // In transmittance few layers rarely determine it (a single layer never does): its σ in the
       // chip's calibration says so, and a warning on every such run would flag ordinary runs.
       if (f.start.mode === 'R') warnings.push(`chip ${cal.chip}: no dark samples before layer ${firstLayer}, and its layers do not determine a detector offset (σ ${Number.isFinite(sigma) ? `${fmt(sigma / scale)} % of full scale` : 'unbounded'}); ${cal.offsetSource === 'assumed' ? 'offset taken as 0' : "an earlier chip's offset used"}: thicknesses may carry a bias`);
-      // Reported, but not carried into the layers: an offset the data do not bound is no Gaussian error.
-      set(chips, f.start, { ...cal, offsetSigma: Number.isFinite(sigma) ? sigma : 0 }, 0);
+      // Reported, but not carried into the layers: an offset the data do not bound is no Gaussian
+      // error. The zero assumed in its place is no exact figure either: the layers carry the stray
+      // light a monitor may hide, option unmeasuredOffsetSigma (a fraction of full scale), with the
+      // gain moving as the bare reading ties it to the offset (in sequential: analyzeRun's
+      // carryOffsetSigmaThroughChip; without the gain moving, the chamber BBAR's sequential σ_n
+      // grew about fourfold, where the stray light really there moves its indices as in refit).
+      set(chips, f.start, { ...cal, offsetSigma: Number.isFinite(sigma) ? sigma : 0 }, cal.offsetSource === 'assumed' ? unmeasuredSigma * scale : 0);
+      chips.get(cal.chip)!.offsetGainSlope = f.start.mode === 'R' && Number.isFinite(f.fit.gainSigma) ? f.fit.gainSlope : -1 / f.start.modelledBare;
       continue;
     }
     // In reflectance the chip's gain as its layers and bare reading tell it together (the profile's,

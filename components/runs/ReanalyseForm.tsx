@@ -50,6 +50,11 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (lamp !== '') settings.lampStabilityPerHour = Number(lamp) / 100;
     const adoption = String(form.get('offsetAdoption') ?? '').trim();
     if (adoption !== '') settings.offsetAdoptionSigma = Number(adoption);
+    const unmeasured = String(form.get('unmeasuredOffset') ?? '').trim();
+    if (unmeasured !== '') settings.unmeasuredOffsetSigma = Number(unmeasured) / 100;
+    const levelStart = form.get('levelStartTransient');
+    if (levelStart === 'on') settings.levelStartTransient = true;
+    if (levelStart === 'off') settings.levelStartTransient = false;
     const overshoot = String(form.get('turningPointOvershoot') ?? '').trim();
     if (overshoot !== '') settings.turningPointOvershootPct = Number(overshoot);
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
@@ -57,7 +62,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (form.get('offsetAveraging') !== 'on') settings.offsetAveraging = false;
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
-    for (const key of ['rateWander', 'indexGradient', 'levelStartTransient', 'cutPastTurningPoint'] as const) if (form.get(key) === 'on') settings[key] = true;
+    for (const key of ['rateWander', 'indexGradient', 'cutPastTurningPoint'] as const) if (form.get(key) === 'on') settings[key] = true;
     for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
@@ -113,6 +118,14 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <option value="bounded">That time kept within 0–2 s (layer by layer&apos;s default)</option>
           </select>
         </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-level-start">On a run cut only on level: the rate&apos;s start-up as the shutter opens, found with the lamp drift in each chip&apos;s joint fit</label>
+          <select id="re-level-start" name="levelStartTransient" className={select} defaultValue="">
+            <option value="">Where the trace has a lamp reference column (default)</option>
+            <option value="on">Always</option>
+            <option value="off">Never</option>
+          </select>
+        </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft">
           <label htmlFor="re-lamp">Lamp stability, %/h (0: none assumed)</label>
           <input id="re-lamp" name="lampStability" type="number" min="0" max="20" step="0.1" placeholder="1 (default)" className={select} />
@@ -120,6 +133,10 @@ export function ReanalyseForm({ runId }: { runId: number }) {
         <div className="flex flex-col gap-1 text-xs text-ink-soft">
           <label htmlFor="re-adoption">Without averaging: a fitted offset replaces the assumed one beyond this many σ from it</label>
           <input id="re-adoption" name="offsetAdoption" type="number" min="0" max="10" step="0.5" placeholder="3 (default)" className={select} />
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-unmeasured">Where a chip&apos;s offset is neither read dark nor told by its layers: its σ in every layer, % of full scale (0: taken as exact)</label>
+          <input id="re-unmeasured" name="unmeasuredOffset" type="number" min="0" max="5" step="0.05" placeholder="0.3 (default)" className={select} />
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
           <label htmlFor="re-overshoot">Without a layer column: how far past a turning point the controller may cut, % of the layer (its mean into the thickness, its spread into σ)</label>
@@ -166,9 +183,6 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="startTransient" defaultChecked /> The rate starts up as the shutter opens (one start delay for the run, on layers cut at a turning point)
-          </label>
-          <label className="flex items-center gap-2">
-            <input type="checkbox" name="levelStartTransient" /> On a run cut only on level: the start-up too, found with the lamp drift in each chip&apos;s joint fit
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="holdUncarriedDrift" defaultChecked /> In the joint re-fit, hold a layer&apos;s rate drift at zero where its data do not carry it (white residuals only)

@@ -11,6 +11,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.reflectanceChipGain === false) parts.push('own gain per layer in reflectance');
   if (s.offsetAveraging === false) parts.push('fitted offset taken or left by a threshold');
   if (typeof s.offsetAdoptionSigma === 'number') parts.push(`fitted offset taken beyond ${+s.offsetAdoptionSigma.toFixed(2)} σ`);
+  if (typeof s.unmeasuredOffsetSigma === 'number') parts.push(`unmeasured offset σ ${+(s.unmeasuredOffsetSigma * 100).toFixed(3)} % of full scale`);
   if (s.gainDriftFromChips === false) parts.push('no chip-to-chip gain drift');
   if (s.heldIndex === 'nominal') parts.push('thin layers held at the nominal index');
   if (s.heldIndex === 'run-drift') parts.push("thin layers held at the run's drift index");
@@ -19,6 +20,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.startTransient === true) parts.push("rate's start-up at the shutter");
   if (s.startTransient === false) parts.push('no start-up at the shutter');
   if (s.levelStartTransient === true) parts.push('start-up on level cuts');
+  if (s.levelStartTransient === false) parts.push('no start-up on level cuts');
   if (s.holdUncarriedDrift === false) parts.push('every rate drift free');
   if (s.indexGradient === true) parts.push('index gradient in thick layers');
   if (s.shutterTimeGrowth === 'bounded') parts.push("last layers' growth within 0–2 s of shutter time");

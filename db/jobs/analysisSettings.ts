@@ -17,6 +17,7 @@ export const analysisSettingsSchema = z
     fitOffset: z.boolean().optional(),
     offsetAdoptionSigma: z.number().min(0).max(10).optional(),
     offsetAveraging: z.boolean().optional(),
+    unmeasuredOffsetSigma: z.number().min(0).max(0.05).optional(),
     reflectanceChipGain: z.boolean().optional(),
     heldIndex: z.enum(['nominal', 'run-drift']).optional(),
     thinLayerQwot: z.number().min(0).max(4).optional(),

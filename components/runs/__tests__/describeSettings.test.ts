@@ -30,6 +30,9 @@ describe('analysis settings', () => {
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', reflectanceChipGain: false, offsetAveraging: false, offsetAdoptionSigma: 2 }))).toBe(
       'sequential · own gain per layer in reflectance · fitted offset taken or left by a threshold · fitted offset taken beyond 2 σ',
     );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', unmeasuredOffsetSigma: 0.005, levelStartTransient: false }))).toBe(
+      'refit · unmeasured offset σ 0.5 % of full scale · no start-up on level cuts',
+    );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', shutterTimeGrowth: 'run-mean' }))).toBe(
       "sequential · last layers' growth at the run's shutter time",
     );
@@ -46,6 +49,9 @@ describe('analysis settings', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', turningPointOvershootPct: -1 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', offsetAdoptionSigma: -1 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', offsetAveraging: 'yes' }).success).toBe(false);
+    // an unseen offset of more than 5 % of full scale is a per cent typed as a fraction
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', unmeasuredOffsetSigma: 0.3 }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', unmeasuredOffsetSigma: -0.001 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', shutterTimeGrowth: 'free' }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', cutPastTurningPoint: 'on' }).success).toBe(false);
   });

@@ -19,7 +19,11 @@ const SEEDS = [21, 22, 23];
 async function analyse(run: ChamberRun): Promise<AnalysisResult> {
   const design = parseDesign(bbarDesign(), 'bbar.json');
   const trace = await readTrace(chamberCsvChunks(run), { fileName: 'bbar.csv', layerCount: design.layers.length });
-  return analyzeRun(design, trace, { mode: 'refit' });
+  // The lamp alone: the start-up on level cuts, on by default with a reference column, held off
+  // (this simulator's rate has no ramp; with it on, seed 22 keeps a false delay of 0.78 ± 0.38 s
+  // and its layer 2 of 0.41 QWOT goes −1.03 → −2.00 % in n·d, cut 0.82 % QWOT; over seeds 21–36 the
+  // thin layers' RMS 0.82 → 0.90 %, max 2.30 % either way, the rest unchanged).
+  return analyzeRun(design, trace, { mode: 'refit', levelStartTransient: false });
 }
 
 describe('the lamp reference column', () => {
@@ -84,4 +88,51 @@ describe('the lamp reference column', () => {
     expect(s0.maxIndex).toBeGreaterThan(CHAMBER_TARGETS.index);
     expect(s0.maxThicknessPct).toBeGreaterThan(CHAMBER_TARGETS.thicknessPct);
   });
+
+  it("refit: the rate's start-up as the shutter opens found on the level cuts by itself, the index within 0.005 with it and not without", { timeout: 300_000 }, async () => {
+    // The ramp of the real chamber (rate·(1 − e^(−t/1.5 s)): an effective start delay of 1.5 s) with
+    // the lamp and the noise: each layer's own start-up read as a slower rate and a higher index.
+    const ramp = { ...LAMP_AND_NOISE, rampS: 1.5 };
+    const design = parseDesign(bbarDesign(), 'bbar.json');
+    const withIt = [], without = [];
+    for (const seed of SEEDS) {
+      const run = simulateChamberRun(bbarDesign(), { ...ramp, seed });
+      const trace = await readTrace(chamberCsvChunks(run), { fileName: 'bbar.csv', layerCount: design.layers.length });
+      const a = await analyzeRun(design, trace, { mode: 'refit' });
+      expect(a.warnings.some((w) => w.startsWith('start transient:') && w.includes('every layer fitted with it'))).toBe(true);
+      withIt.push(...layerErrors(seed, a, run.truth.layers));
+      without.push(...layerErrors(seed, await analyzeRun(design, trace, { mode: 'refit', levelStartTransient: false }), run.truth.layers));
+    }
+    const s = summarize(withIt), s0 = summarize(without);
+    // Measured (seeds 21–23): index 0.0015 with it (δ̂ 1.31, 2.27, 1.17 s), 0.0058 without; coverage 100 %.
+    expect(s.maxIndex).toBeLessThanOrEqual(CHAMBER_TARGETS.index);
+    expect(s0.maxIndex).toBeGreaterThan(CHAMBER_TARGETS.index);
+    for (const v of Object.values(s.coverage)) expect(v!).toBeGreaterThanOrEqual(CHAMBER_TARGETS.coverage!);
+  });
+
+  it('the stray light no dark reading and no layer of the chip can tell is in every index σ (option unmeasuredOffsetSigma)', { timeout: 300_000 }, async () => {
+    // Stray light of 0.5 % of full scale (the simulator's 'T monitoring with stray light'), the same
+    // draws with none: what the offset taken as 0 costs each index, against the σ reported. The
+    // BBAR's four layers leave the offset's fit at σ ≈ 2 % of full scale, so it stays at 0.
+    const design = parseDesign(bbarDesign(), 'bbar.json');
+    const analyse = async (run: ChamberRun) => analyzeRun(design, await readTrace(chamberCsvChunks(run), { fileName: 'bbar.csv', layerCount: 4 }), { mode: 'refit' });
+    const shifts: { z: number; ownZ: number }[] = [];
+    for (const seed of [21, 22]) {
+      const run = simulateChamberRun(bbarDesign(), { ...LAMP_AND_NOISE, strayFraction: 0.005, seed });
+      const [stray, none] = [await analyse(run), await analyse(simulateChamberRun(bbarDesign(), { ...LAMP_AND_NOISE, seed }))];
+      expect(stray.chips[0].offset).toBe(0);
+      for (const t of run.truth.layers.filter((x) => x.qwotAtMonitor >= 0.5)) {
+        const [a, b] = [stray.layers.find((l) => l.layer === t.layer)!, none.layers.find((l) => l.layer === t.layer)!];
+        shifts.push({ z: Math.abs(a.index - b.index) / a.indexSigma, ownZ: Math.abs(a.index - t.index) / a.indexSigma });
+      }
+    }
+    // Measured: the stray light moves layer 3's index (1.95 QWOT) by −0.0032, z 1.5 against σ_n
+    // 0.0021 (layer 4: +0.0019, z 0.5); with the offset taken as exact (option at 0, σ_n 0.0007–0.0008)
+    // z 4.1–4.3, and the truth 4.4σ off on seed 21.
+    for (const s of shifts) {
+      expect(s.z).toBeLessThan(2);
+      expect(s.ownZ).toBeLessThan(3);
+    }
+  });
 });
+
