@@ -103,8 +103,10 @@ export interface AnalyzeOptions {
    * determine it either (the offset fit's σ beyond 0.2 % of full scale, fit/fittedOffsets.ts), as
    * a fraction of full scale: the offset stays at the one assumed (0), and this σ is carried into
    * every layer's σ (fit/offsetSigma.ts; in sequential through the chip, the gain moving with the
-   * offset as the bare reading ties them). A choice: stray light the analysis cannot see, of the
-   * size the chamber simulator's real chamber carries (0.3 % of full scale); 0 carries none (as
+   * offset as the bare reading ties them). A choice, not a published figure: stray light of a few
+   * tenths of a % of full scale that the analysis cannot see (common practice); the chamber
+   * simulator's real chamber carries 0.3 %, so the default matches the case it was measured on. A
+   * shop that has measured its monitor's stray light should set its own; 0 carries none (as
    * before: an undetermined offset was taken as exact). Estimates unchanged. Measured on the
    * chamber simulator: real-chamber BBAR with a lamp reference (one chip, four level cuts, the
    * offset fit's σ about 2 % of full scale), refit seeds 21–36: index 3σ coverage 85 → 98 %,
