@@ -51,6 +51,7 @@ import { binsOnExposureClocks } from './profileBins';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { driftAtDelay, jointStartDelayProfile, pooledLevelDelay, type JointStartDelayProfile } from './jointStartDelay';
 import { withLampReference } from './lampReference';
+import { fitWithNextLayers, type PairPart } from './fitWithNextLayer';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -103,6 +104,8 @@ export interface LayerState {
   observed?: ObservedTurningPoints;
   /** Sequential: the stack below as the layer's fit last stood on it, and that fit again on another stack. */
   fittedOn?: { below: LayerAt[]; again: (below: LayerAt[], start: LayerEstimate) => JointFitResult };
+  /** Sequential: what the layer brings to a joint fit with the next one (option fitWithNextLayer, fit/fitWithNextLayer.ts). */
+  pairPart?: PairPart;
   /** Sequential: the layer's own fit again with the chip's offset moved by `dOffset` (and the gain with it), on a stack below. */
   offsetAgain?: (below: LayerAt[], start: LayerEstimate, dOffset: number) => JointFitResult;
 }
@@ -140,6 +143,7 @@ export const ANALYZE_DEFAULTS = {
   indexGradient: false,
   growthFromNext: true,
   fitOnFinalStack: true,
+  fitWithNextLayer: false,
   turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
   turningPointExcessMean: true,
   cutPastTurningPoint: false,
@@ -662,6 +666,7 @@ async function analyzeLayers(
         }, { robust: o.robustLoss, maxIterations: 30 });
       };
     }
+    if (o.mode === 'sequential' && o.fitWithNextLayer) state.pairPart = { startGain: (e) => fit.heldGain ?? (withPrior ? anchor : e.gain), ...gainPrior };
     if (o.mode === 'sequential' && ends && o.fitOnFinalStack) {
       state.fittedOn = {
         below: below.slice(),
@@ -690,17 +695,7 @@ async function analyzeLayers(
   if (transient.profiles) return null;
   if (o.mode === 'refit') {
     // Thin layers: hold at the drift estimate from the whole run, then one final joint fit per chip.
-    const points = states.map(toIndexPoint);
-    for (const s of states) {
-      if (s.fit.heldIndex === null || o.heldIndex !== 'run-drift') continue;
-      const drift = driftEstimateAt(points, s.design.material, s.samples.startTimeS);
-      if (!drift) continue;
-      const held = s.nominal.re + drift.deviation;
-      s.heldNote = heldNoteFor(held, s.nominal.re, drift.from, s.qwotAtMonitor, s.optics.wavelengthNm, true, s.heldWhy ?? 'its index does not separate from its thickness');
-      s.fit.heldIndex = held;
-      s.heldIndexSigma = drift.sigma;
-      s.estimate = { ...s.estimate, index: held };
-    }
+    if (o.heldIndex === 'run-drift') holdAtRunDrift(states, states);
     if (o.rateWander) {
       // A layer whose own choice kept no wander takes its material's shared one (fit/pooledWander.ts):
       // the wander is in every layer, and a choice that keeps the plain law only lacks the evidence.
@@ -771,8 +766,18 @@ async function analyzeLayers(
 
   if (transient.jointProfiles) return null;
   ends?.finish(o.mode === 'refit');
-  // Sequential: the layers whose stack below the growths' final reading moved, fitted again on it.
-  if (o.mode === 'sequential' && ends && o.fitOnFinalStack) fitOnFinalStacks(chipLayers);
+  if (o.mode === 'sequential' && o.fitWithNextLayer) {
+    // Sequential: a held thin level cut's index from the whole run (each level cut is fitted again
+    // in the window it starts), then each level cut fitted again with the next two layers on its
+    // chip, on the stack as it now stands (fit/fitWithNextLayer.ts); the other layers as fitOnFinalStack has them.
+    if (o.heldIndex === 'run-drift') holdAtRunDrift(states, states.filter((s) => s.design.monitor.cut === 'level' && s.pairPart));
+    fitWithNextLayers(chipLayers, o.robustLoss, (s, below) => {
+      if (ends && o.fitOnFinalStack) fitOnFinalStack(s, below);
+    });
+  } else if (o.mode === 'sequential' && ends && o.fitOnFinalStack) {
+    // Sequential: the layers whose stack below the growths' final reading moved, fitted again on it.
+    fitOnFinalStacks(chipLayers);
+  }
   /** The layers below s on its chip, as they stand now, at s's monitor wavelength. */
   const belowOf = (s: LayerState) => {
     const chipStates = chipLayers.get(s.samples.chip)!;
@@ -935,24 +940,45 @@ export function refitChip(
 }
 
 /**
+ * Once the pass is over: each layer whose index was held (a thin layer) held instead at its
+ * material's drift estimate from the whole run (its nominal plus the drift the run's fitted
+ * layers of the material show, stats/driftEstimateAt), with that estimate's σ. The estimates
+ * are the caller's to fit again.
+ */
+function holdAtRunDrift(states: readonly LayerState[], which: readonly LayerState[]): void {
+  const points = states.map(toIndexPoint);
+  for (const s of which) {
+    if (s.fit.heldIndex === null) continue;
+    const drift = driftEstimateAt(points, s.design.material, s.samples.startTimeS);
+    if (!drift) continue;
+    const held = s.nominal.re + drift.deviation;
+    s.heldNote = heldNoteFor(held, s.nominal.re, drift.from, s.qwotAtMonitor, s.optics.wavelengthNm, true, s.heldWhy ?? 'its index does not separate from its thickness');
+    s.fit.heldIndex = s.refit.heldIndex = held;
+    s.heldIndexSigma = drift.sigma;
+    s.estimate = { ...s.estimate, index: held };
+  }
+}
+
+/**
  * Sequential: each layer fitted again, in order, where the stack below it moved after its fit
  * (the growths after the cuts below, revised once the run's shutter time was known).
  */
 function fitOnFinalStacks(chipLayers: ReadonlyMap<number, LayerState[]>): void {
   for (const chipStates of chipLayers.values()) {
-    chipStates.forEach((s, j) => {
-      if (!s.fittedOn || j === 0) return;
-      const wl = s.optics.wavelengthNm;
-      const below = chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, wl));
-      const was = s.fittedOn.below;
-      if (below.length === was.length && below.every((b, k) => b.n.re === was[k].n.re && Math.abs(b.thicknessNm - was[k].thicknessNm) <= 1e-9 * b.thicknessNm)) return;
-      const e = s.estimate;
-      const { index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient, thicknessNm, opticalThicknessNm } = s.fittedOn.again(below, e).layers[0];
-      // The σ stay those of the pass (the stack's, the growth's and the gain's carried into them).
-      s.estimate = { ...e, index, rateNmPerS, rateDriftNmPerS2, gain, thicknessNm, opticalThicknessNm, ...(wander ? { wander } : {}), ...(indexGradient !== undefined ? { indexGradient } : {}) };
-      s.fittedOn.below = below;
-    });
+    chipStates.forEach((s, j) => fitOnFinalStack(s, chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm))));
   }
+}
+
+/** One layer of fitOnFinalStacks: its own fit again on `below` where that differs from the stack it was fitted on. */
+function fitOnFinalStack(s: LayerState, below: LayerAt[]): void {
+  if (!s.fittedOn || below.length === 0) return;
+  const was = s.fittedOn.below;
+  if (below.length === was.length && below.every((b, k) => b.n.re === was[k].n.re && Math.abs(b.thicknessNm - was[k].thicknessNm) <= 1e-9 * b.thicknessNm)) return;
+  const e = s.estimate;
+  const { index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient, thicknessNm, opticalThicknessNm } = s.fittedOn.again(below, e).layers[0];
+  // The σ stay those of the pass (the stack's, the growth's and the gain's carried into them).
+  s.estimate = { ...e, index, rateNmPerS, rateDriftNmPerS2, gain, thicknessNm, opticalThicknessNm, ...(wander ? { wander } : {}), ...(indexGradient !== undefined ? { indexGradient } : {}) };
+  s.fittedOn.below = below;
 }
 
 /**

@@ -32,6 +32,7 @@ export const analysisSettingsSchema = z
     turningPointExcessMean: z.boolean().optional(),
     pooledIndex: z.boolean().optional(),
     fitOnFinalStack: z.boolean().optional(),
+    fitWithNextLayer: z.boolean().optional(),
     cutPastTurningPoint: z.boolean().optional(),
   })
   .strict();

@@ -23,6 +23,7 @@ describe('analysis settings', () => {
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', pooledIndex: false }))).toBe('refit · each index read alone');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitOnFinalStack: false }))).toBe('sequential · each layer fitted once');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitWithNextLayer: true }))).toBe('sequential · level cuts fitted again with the next layers');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', lampReference: false }))).toBe('refit · lamp reference column not used');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', cutPastTurningPoint: true }))).toBe(
       "sequential · chips' last turning-point cuts held past the turning point",
@@ -54,5 +55,6 @@ describe('analysis settings', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', unmeasuredOffsetSigma: -0.001 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', shutterTimeGrowth: 'free' }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', cutPastTurningPoint: 'on' }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'sequential', fitWithNextLayer: 3 }).success).toBe(false);
   });
 });

@@ -1,0 +1,43 @@
+import { describe, expect, it } from 'vitest';
+import { type AnalyzeOptions } from '@/analysis/fit';
+import { layerErrors, summarize, type Summary } from '../harness/accuracyTable';
+import { runScenario } from '../harness/runScenario';
+import { scenarios, WHITE_TARGETS } from '../scenarios';
+
+// A four-layer AR cut on level, layer by layer. A level cut's own samples leave its index and
+// thickness on one curve (its end level gives the stack's transmittance, not the admittance the
+// next layer grows on): the thin layer 2 (0.41 QWOT) came out up to 1.5 % off in n·d, and layer 4
+// (1.03 QWOT, cut just past its turning point) stood on that error, 0.75 % off; layer 1
+// (0.22 QWOT) was held at the nominal index with the film 0.01 below it. Option fitWithNextLayer
+// fits each level cut again with the next two layers (fit/fitWithNextLayer.ts). Errors against the
+// simulator's truth, the white-noise targets of the accuracy harness (scenarios.ts WHITE_TARGETS).
+const SCENARIO = scenarios().find((s) => s.name === 'white noise, BBAR level cuts')!;
+const SEEDS = [11, 12, 13, 14, 15, 16, 17, 18];
+
+async function sequential(options: AnalyzeOptions): Promise<Summary> {
+  const errors = [];
+  for (const seed of SEEDS) {
+    const { run, results } = await runScenario(SCENARIO, seed, ['sequential'], options);
+    errors.push(...layerErrors(seed, results.sequential, run.truth.layers));
+  }
+  return summarize(errors);
+}
+
+describe('sequential: each level cut fitted again with the layers that grow on it', () => {
+  it(`white-noise BBAR, seeds ${SEEDS[0]}–${SEEDS.at(-1)}: within the white-noise targets with the option, not without`, { timeout: 300_000 }, async () => {
+    // Measured: thickness max 0.240 %, cut 0.326 % QWOT, thin n·d 0.821 %, all within 3σ with the
+    // option; 0.749 %, 0.782 % QWOT, 1.791 % without (layer 1 held at the nominal index).
+    const next = await sequential({ fitWithNextLayer: true });
+    expect(next.missing).toBe(0);
+    expect(next.maxThicknessPct).toBeLessThan(WHITE_TARGETS.thicknessPct);
+    expect(next.maxCutQwotPct).toBeLessThan(WHITE_TARGETS.cutQwotPct);
+    expect(next.maxThinOpticalPct).toBeLessThan(WHITE_TARGETS.thinOpticalPct);
+    // the index at the target's edge in either mode over these seeds (0.0031 with, 0.0033 without;
+    // refit 0.0029 over seeds 11–26): layers 3 and 4's own readings, which the window moves little
+    expect(next.maxIndex).toBeLessThan(0.0035);
+    expect(next.coverage).toEqual({ thickness: 1, index: 1, cut: 1 });
+    const own = await sequential({ fitWithNextLayer: false });
+    expect(own.maxThicknessPct).toBeGreaterThan(0.5);
+    expect(own.maxThinOpticalPct).toBeGreaterThan(1.2);
+  });
+});
