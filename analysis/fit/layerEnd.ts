@@ -87,6 +87,12 @@ export interface LevelEvidenceInput {
   /** The layer's last logged readings and their times since the layer's start. */
   lastReadings: ArrayLike<number>;
   lastTauS: ArrayLike<number>;
+  /**
+   * The least σ a mean of this many readings may have (the run's noise model, fit/idleNoiseModel.ts
+   * meanVariance): a floor under the last readings' mean misfit, whose own scatter over a few
+   * seconds of correlated noise underestimates it.
+   */
+  meanSigmaFloor?: (samples: number) => number;
 }
 
 /**
@@ -107,7 +113,9 @@ export function levelEvidence(input: LevelEvidenceInput): LevelEvidence {
   const m = growingLayerSignal(spec, d);
   const residuals = new Float64Array(k);
   for (let i = 0; i < k; i++) residuals[i] = input.lastReadings[i] - (offset + gain * m[i]);
-  const misfit = meanSigma(residuals);
+  const own = meanSigma(residuals);
+  const floor = input.meanSigmaFloor?.(k) ?? 0;
+  const misfit = { mean: own.mean, sigma: Number.isFinite(floor) ? Math.max(own.sigma, floor) : own.sigma };
   const endNm = thicknessAt(input.durationS, input.rateNmPerS, input.rateDriftNmPerS2);
   // The residuals' trend over the last readings (per nm of the curve): a curve whose slope at the
   // end is off (a misfit of the model) would carry that error into the growth; its size and σ

@@ -72,8 +72,9 @@ export class LayerEnds {
 
   /**
    * `noise`: the detector's white + AR(1) noise from the idle stretches (idleNoiseModel); it sets
-   * a floor under the σ of the start check's two levels, which their own few readings, spanning
-   * about one correlation time, underestimate. `shutterTimeGrowth`: AnalyzeOptions.shutterTimeGrowth.
+   * a floor under the σ of the start check's two levels and of a level cut's settled level and
+   * last readings (its growth's evidence), which their own few readings, spanning about one
+   * correlation time, underestimate. `shutterTimeGrowth`: AnalyzeOptions.shutterTimeGrowth.
    */
   constructor(
     private readonly trace: TraceData, samplesByLayer: ReadonlyMap<number, LayerSamples>, private readonly warnings: string[],
@@ -107,10 +108,15 @@ export class LayerEnds {
       let k = n - 1;
       while (k > 0 && n - k < 10) k--;
       while (k > 0 && samples.tauS[n - 1] - samples.tauS[k - 1] <= LAST_READINGS_S) k--;
+      // Both means floored by the run's noise: their own scatter over a few seconds of correlated
+      // noise told σ a few times too small, and a growth read 0.15–0.6 nm where none grew moved
+      // the layer on it ('R monitoring with an offset', refit, seeds 64–65: layer 5's index
+      // 3.5σ, 3.6σ off; tests/chamber/__tests__/levelGrowthNoise.test.ts).
       rec.level = levelEvidence({
-        settled, optics: s.optics, below, index: e.index, extinction: -s.nominal.im, ...endEquivalentLaw(e, s.fit.wander, loggedS),
+        settled: this.withNoiseFloor(settled, 1), optics: s.optics, below, index: e.index, extinction: -s.nominal.im, ...endEquivalentLaw(e, s.fit.wander, loggedS),
         durationS: loggedS, gain: e.gain, offset: s.calibration.offset,
         lastReadings: Array.from({ length: n - k }, (_, i) => signal[samples.indices[k + i]]), lastTauS: samples.tauS.subarray(k),
+        ...(this.noise ? { meanSigmaFloor: (m: number) => Math.sqrt(meanVariance(this.noise!, m)) } : {}),
       });
       if (offCurve(this.evidence(rec, false, false))) {
         this.warnings.push(`layer ${s.design.layer}: the idle reading after the cut (${settled.level.toFixed(4)}) is not on the layer's modelled curve within ${MAX_SHUTTER_S} s of further growth; the growth after the cut is not read from it`);
