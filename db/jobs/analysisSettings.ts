@@ -31,6 +31,7 @@ export const analysisSettingsSchema = z
     turningPointExcessMean: z.boolean().optional(),
     pooledIndex: z.boolean().optional(),
     fitOnFinalStack: z.boolean().optional(),
+    stackFromLayer: z.boolean().optional(),
     cutPastTurningPoint: z.boolean().optional(),
   })
   .strict();
