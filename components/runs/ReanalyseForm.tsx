@@ -180,7 +180,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <input type="checkbox" name="cutPastTurningPoint" /> A chip&apos;s last turning-point cut at or past its fitted turning point, by up to the overshoot (only where the controller cuts after it sees the turning point)
           </label>
           <label className="flex items-center gap-2">
-            <input type="checkbox" name="stackFromLayer" /> Layer by layer: read the stack below again with each layer&apos;s own data (for thin layers under a level cut in reflectance; it takes a lamp drift or an offset the model lacks for the stack)
+            <input type="checkbox" name="stackFromLayer" /> Layer by layer: read the stack below again with each level cut&apos;s own data in reflectance (thin layers under a cut near its extremum)
           </label>
         </fieldset>
       </div>
