@@ -7,9 +7,9 @@ import { scenarios } from '../scenarios';
 
 // Reflectance, level cuts, a thin stack below: layer 3 (1.2 QWOT H) is cut on level near its own
 // maximum, on layers 1 and 2 (0.3 and 0.4 QWOT). Fitted on the stack below as the pass holds it, a
-// 1 % error of layer 2 puts layer 3 4–5 % off (a rate drift at z 4–24 takes up the misfit; on the
-// simulator's true stack it is within its noise and layer 3 within 1.3 %), and layer 4 (0.25 QWOT)
-// as much the other way. Option stackFromLayer reads the stack below again with each layer's data
+// 1 % error of layer 2 puts layer 3 4–5 % off (a rate drift at |z| 4–9 takes up the misfit; on the
+// simulator's true stack |z| ≤ 2 and layer 3 within 1.3 %), and layer 4 (0.25 QWOT) as much the
+// other way. Option stackFromLayer reads the stack below again with each layer's data
 // (fit/stackPosterior.ts). Errors against the simulator's truth.
 const SCENARIO = scenarios().find((s) => s.name === 'thin level-cut layers (R)')!;
 const SEEDS = Array.from({ length: 8 }, (_, i) => 71 + i);
