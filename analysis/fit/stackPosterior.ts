@@ -1,6 +1,6 @@
 import { type LayerAt } from '../optics';
 import { invertSymmetric } from './invertSymmetric';
-import { symmetricEigen } from './symmetricEigen';
+import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { layerJacobian } from './layerJacobian';
 import { evaluateLayers, paramLayout, type FitLayerData } from './layerModel';
 import { type StackCovariance } from './stackUncertainty';
@@ -115,7 +115,11 @@ export function stackPosteriorStep(input: StackPosteriorInput): StackPosteriorSt
     }
   }
   // L = V·√Λ: Σ's principal axes (directions of zero variance dropped).
-  const { values, vectors } = symmetricEigen(prior, m);
+  // Σ's eigen-decomposition (ml-matrix's symmetric tridiagonal QL, after EISPACK's tql2).
+  const priorRows = Array.from({ length: m }, (_, i) => Array.from(prior.slice(i * m, (i + 1) * m)));
+  const eig = new EigenvalueDecomposition(new Matrix(priorRows), { assumeSymmetric: true });
+  const values = eig.realEigenvalues;
+  const vectors = Float64Array.from(eig.eigenvectorMatrix.to1DArray());
   const top = Math.max(...values);
   const axes: number[] = [];
   for (let j = 0; j < m; j++) if (values[j] > 1e-12 * top && values[j] > 0) axes.push(j);
