@@ -62,7 +62,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (form.get('offsetAveraging') !== 'on') settings.offsetAveraging = false;
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
-    for (const key of ['rateWander', 'indexGradient', 'cutPastTurningPoint', 'fitWithNextLayer'] as const) if (form.get(key) === 'on') settings[key] = true;
+    for (const key of ['rateWander', 'indexGradient', 'cutPastTurningPoint', 'fitWithNextLayer', 'stackFromLayer'] as const) if (form.get(key) === 'on') settings[key] = true;
     for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
@@ -195,6 +195,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="cutPastTurningPoint" /> A chip&apos;s last turning-point cut at or past its fitted turning point, by up to the overshoot (only where the controller cuts after it sees the turning point)
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="stackFromLayer" /> Layer by layer: read the stack below again with each level cut&apos;s own data in reflectance (thin layers under a cut near its extremum)
           </label>
         </fieldset>
       </div>

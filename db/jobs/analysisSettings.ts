@@ -33,6 +33,7 @@ export const analysisSettingsSchema = z
     pooledIndex: z.boolean().optional(),
     fitOnFinalStack: z.boolean().optional(),
     fitWithNextLayer: z.boolean().optional(),
+    stackFromLayer: z.boolean().optional(),
     cutPastTurningPoint: z.boolean().optional(),
   })
   .strict();

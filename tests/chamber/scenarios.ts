@@ -234,7 +234,7 @@ export function scenarios(): Scenario[] {
       design: thinLevelDesign(), seeds: [71, 72], targets: CHAMBER_TARGETS,
       options: { ...RATES, whiteNoise: 0.0003, correlatedNoise: { fraction: 0.0006, correlationS: 1 }, levelLatencyS: [0.1, 0.3] },
       modes: {
-        sequential: pending('3σ coverage met (100 %); in R a thin stack below amplifies its errors tenfold: layer 3 (1.2 QWOT) 5 % with σ 3.5 %, layer 4 (0.25 QWOT) 6 % optical; the information is not in the layer\'s own data'),
+        sequential: pending('3σ coverage met (100 %); layer 3 (1.2 QWOT, cut on level near its own maximum) +4.4/+5.0 %, layer 4 (0.25 QWOT) −5.6 %: the stack below, layer 2 (0.4 QWOT) read 0.8/2.6 % thin (index +0.0002/−0.0075) on its own data, on which layer 3 takes a rate drift at z 6–8 (on the simulator\'s true stack z ≤ 2 and, seeds 71–78, layer 3 within 1.3 %, layer 4 1.5 %); the boundaries (as logged), the growths after the cuts (none), layer 3\'s branch and layer 4\'s held index are right. Option stackFromLayer (off by default, fit/stackPosterior.ts; with every real-chamber effect on this design, seeds 71–86, 15.0 → 9.3 % but 3σ coverage of n 88 → 73 %) reads the stack again with each level cut\'s data in reflectance: 3.24 %, layer 3 0.23/1.04 %, layer 4 2.1/0.0 %, thin layers 1.77 % optical, index 0.0175, cut 1.96 % QWOT, coverage 100 %, layer 5 (0.8 QWOT) −3.2/−3.0 % with its index +0.017 left; seeds 71–86 max 14.8 → 3.6 %, RMS 3.5 → 1.3 %'),
         refit: pending('3σ coverage met (100 %), thin layers within 1.4 % optical; layer 5 (0.8 QWOT) 1.4 % (σ 1.4 %) and index 0.010: it moves 100 nm per unit of the held index of the 0.25-QWOT layer below (σ 0.0064, the L layers\' scatter floor); layer 3 cut 0.81 % QWOT (1.4σ)'),
       },
     },
