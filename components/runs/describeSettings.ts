@@ -27,7 +27,8 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.turningPointExcessMean === false) parts.push('turning-point cuts placed on the turning point');
   if (s.pooledIndex === false) parts.push('each index read alone');
   if (s.fitOnFinalStack === false) parts.push('each layer fitted once');
-  if (s.cutPastTurningPoint === true) parts.push("chips' last turning-point cuts held past the turning point");
+  if (s.cutPastTurningPoint === false) parts.push("chips' last turning-point cuts not held past the turning point");
+  if (s.cutPastTurningPoint === true) parts.push("chips' last turning-point cuts held past the turning point in both modes");
   if (typeof s.turningPointOvershootPct === 'number') parts.push(`turning-point overshoot up to ${+s.turningPointOvershootPct.toFixed(3)} %`);
   return parts.join(' · ');
 }

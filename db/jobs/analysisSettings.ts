@@ -31,7 +31,7 @@ export const analysisSettingsSchema = z
     turningPointExcessMean: z.boolean().optional(),
     pooledIndex: z.boolean().optional(),
     fitOnFinalStack: z.boolean().optional(),
-    cutPastTurningPoint: z.boolean().optional(),
+    cutPastTurningPoint: z.union([z.boolean(), z.literal('refit')]).optional(),
   })
   .strict();
 export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;
