@@ -148,7 +148,7 @@ export const ANALYZE_DEFAULTS = {
   stackFromLayer: false,
   turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
   turningPointExcessMean: true,
-  cutPastTurningPoint: false,
+  cutPastTurningPoint: 'refit',
   pooledIndex: true,
   holdUncarriedDrift: true,
   startTransient: true,
@@ -818,7 +818,7 @@ async function analyzeLayers(
   };
   // A chip's last layer cut at a turning point, whose end nothing above pins: at or past its fitted
   // turning point at the last logged sample (option cutPastTurningPoint, fit/cutPastTurningPoint.ts).
-  if (ends && o.cutPastTurningPoint) {
+  if (ends && (o.cutPastTurningPoint === true || (o.cutPastTurningPoint === 'refit' && o.mode === 'refit'))) {
     for (const chipStates of chipLayers.values()) {
       const s = chipStates[chipStates.length - 1];
       if (s.design.monitor.cut !== 'turning-point' || s.fit.heldIndex !== null) continue;

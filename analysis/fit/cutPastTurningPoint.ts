@@ -50,8 +50,8 @@ export function cutPastTurningPointNm(loggedNm: number, sigmaNm: number, turning
 
 /**
  * σ of the fit's reading beyond which, outside [d_TP, d_TP + overshoot], the reading contradicts the
- * prior and is kept as it is. Synthetic traces whose turning-point layers are cut at the design's
- * thickness ±0.4 % (analysis/synth, 18-layer mirror, refit, seeds 11–13 and 21–24: cuts up to 1.2 %
- * before the turning point, σ_d about 0.2 %) read up to 1.8 % off at 9σ held to the interval.
+ * prior and is kept as it is. Synthetic traces whose turning-point layers were cut at the design's
+ * thickness ±0.4 % (analysis/synth as it was, 18-layer mirror, refit, seeds 11–13 and 21–24: cuts up
+ * to 1.2 % before the turning point, σ_d about 0.2 %) read up to 1.8 % off at 9σ held to the interval.
  */
 const CONTRADICTS = 2;

@@ -2,6 +2,7 @@ import { type Design } from '../design';
 import { indexAt } from '../materials';
 import { fromNK, growingLayerSignal, type LayerAt } from '../optics';
 import { createRng } from './prng';
+import { turningPointNearNm } from './turningPointCut';
 import { type LayerTruth, type SynthOptions, type SynthRun } from './types';
 
 interface Deposited {
@@ -23,12 +24,15 @@ class Columns {
  * A synthetic monitor trace of `design` with known truth: per-layer thickness, index, rate and
  * rate drift, detector gain (and its drift), offset, Gaussian noise from a seeded generator,
  * overshoot cuts, rate spikes, chip changes and idle stretches. Deterministic for a given seed.
+ * A level cut ends at the design's thickness with a random error (`thicknessScatter`); a
+ * turning-point cut where the true signal turns (the true index on the true stack below) past that
+ * turning point by a random overshoot, as a controller that cuts once it has seen the turning point.
  */
 export function synthesizeRun(design: Design, options: SynthOptions = {}): SynthRun {
   const o = {
     seed: 1, sampleIntervalS: 0.1, noiseFraction: 0.001, gain: 1, gainDriftPerHour: 0, offset: 0, darkS: 0,
     rateNmPerS: {}, defaultRateNmPerS: 0.3, rateScatter: 0.02, rateDriftFraction: 0, indexOffset: {},
-    indexDriftPerHour: {}, thicknessScatter: 0.004, overshoot: {}, rateSpikes: [], pauses: [], bareChipS: 20, settleS: 3,
+    indexDriftPerHour: {}, thicknessScatter: 0.004, turningPointOvershoot: [0.001, 0.006], overshoot: {}, rateSpikes: [], pauses: [], bareChipS: 20, settleS: 3,
     layerColumn: true, chipColumn: true, meta: {}, ...options,
   };
   if (!(o.sampleIntervalS > 0)) throw new RangeError(`sampleIntervalS must be > 0 (got ${o.sampleIntervalS})`);
@@ -76,7 +80,18 @@ export function synthesizeRun(design: Design, options: SynthOptions = {}): Synth
     const startS = nowS();
     const deltaN = (o.indexOffset[layer.material] ?? 0) + ((o.indexDriftPerHour[layer.material] ?? 0) * startS) / 3600;
     const growing = { re: nominal.re + deltaN, im: nominal.im };
-    const target = layer.thicknessNm * (1 + o.thicknessScatter * rng.normal() + (o.overshoot[layer.layer] ?? 0));
+    // Drawn for every layer, so a run cut only on level keeps its random stream.
+    const scatter = o.thicknessScatter * rng.normal();
+    const below = stackAt(chip, wavelengthNm);
+    const optics = { ambient: indexAt(design.ambient, wavelengthNm), substrate: indexAt(design.substrate, wavelengthNm), below, wavelengthNm, mode, backside: design.substrateBackside };
+    const turningPointNm = layer.monitor.cut === 'turning-point'
+      ? turningPointNearNm((ds) => growingLayerSignal({ ...optics, growing }, ds), layer.thicknessNm, wavelengthNm / (4 * growing.re))
+      : null;
+    const late = o.overshoot[layer.layer] ?? 0;
+    const [overLo, overHi] = o.turningPointOvershoot;
+    const target = turningPointNm !== null
+      ? turningPointNm * (1 + overLo + (overHi - overLo) * rng.uniform() + late)
+      : layer.thicknessNm * (1 + scatter + late);
     const r = (o.rateNmPerS[layer.material] ?? o.defaultRateNmPerS) * (1 + o.rateScatter * rng.normal());
     const nominalS = target / r;
     const a = (o.rateDriftFraction * r) / nominalS;
@@ -96,9 +111,7 @@ export function synthesizeRun(design: Design, options: SynthOptions = {}): Synth
       d.push(di);
       if (di >= target || i * dt > 3 * nominalS) break;
     }
-    const m = growingLayerSignal(
-      { ambient: indexAt(design.ambient, wavelengthNm), substrate: indexAt(design.substrate, wavelengthNm), below: stackAt(chip, wavelengthNm),
-        growing, wavelengthNm, mode, backside: design.substrateBackside }, d);
+    const m = growingLayerSignal({ ...optics, growing }, d);
     const tooling = o.tooling?.[layer.material] ?? 1;
     const pause = o.pauses.find((q) => q.layer === layer.layer);
     const pauseAt = pause ? Math.min(d.length - 1, Math.max(1, Math.round((pause.atFraction * nominalS) / dt))) : -1;

@@ -37,9 +37,19 @@ export interface SynthOptions {
   indexOffset?: Record<string, number>;
   /** Index drift across the run, per material, index units per hour. @default {} */
   indexDriftPerHour?: Record<string, number>;
-  /** Random thickness (cut) error per layer, fraction (σ). @default 0.004 */
+  /**
+   * Random thickness (cut) error per level-cut layer, fraction (σ); also a turning-point layer's
+   * where its signal does not turn within half a quarter-wave of the design's thickness. @default 0.004
+   */
   thicknessScatter?: number;
-  /** Extra thickness for overshoot cuts, fraction, by layer number. @default {} */
+  /**
+   * A turning-point cut's overshoot past the true turning point, uniform on [lo, hi], fraction of
+   * the thickness there: the controller cuts once it has seen the signal turn, never before (a few
+   * tenths of a per cent: common practice).
+   * @default [0.001, 0.006]
+   */
+  turningPointOvershoot?: [number, number];
+  /** Extra thickness for late cuts, fraction (of the design's or the turning point's thickness), by layer number. @default {} */
   overshoot?: Record<number, number>;
   /** @default [] */
   rateSpikes?: RateSpike[];

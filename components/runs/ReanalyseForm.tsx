@@ -57,12 +57,15 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (levelStart === 'off') settings.levelStartTransient = false;
     const overshoot = String(form.get('turningPointOvershoot') ?? '').trim();
     if (overshoot !== '') settings.turningPointOvershootPct = Number(overshoot);
+    const cutPast = form.get('cutPastTurningPoint');
+    if (cutPast === 'both') settings.cutPastTurningPoint = true;
+    if (cutPast === 'off') settings.cutPastTurningPoint = false;
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
     if (form.get('offsetAveraging') !== 'on') settings.offsetAveraging = false;
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
-    for (const key of ['rateWander', 'indexGradient', 'cutPastTurningPoint', 'fitWithNextLayer', 'stackFromLayer'] as const) if (form.get(key) === 'on') settings[key] = true;
+    for (const key of ['rateWander', 'indexGradient', 'fitWithNextLayer', 'stackFromLayer'] as const) if (form.get(key) === 'on') settings[key] = true;
     for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
@@ -124,6 +127,14 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <option value="">Where the trace has a lamp reference column (default)</option>
             <option value="on">Always</option>
             <option value="off">Never</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-cut-past">A chip&apos;s last turning-point cut at or past its fitted turning point, by up to the overshoot (where the controller cuts after it sees the turning point)</label>
+          <select id="re-cut-past" name="cutPastTurningPoint" className={select} defaultValue="refit">
+            <option value="refit">In the joint re-fit (default)</option>
+            <option value="both">In both modes</option>
+            <option value="off">Not held (the fit&apos;s own reading)</option>
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft">
@@ -192,9 +203,6 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="indexGradient" /> The index may change through layers of 1.5 QWOT or more
-          </label>
-          <label className="flex items-center gap-2">
-            <input type="checkbox" name="cutPastTurningPoint" /> A chip&apos;s last turning-point cut at or past its fitted turning point, by up to the overshoot (only where the controller cuts after it sees the turning point)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="stackFromLayer" /> Layer by layer: read the stack below again with each level cut&apos;s own data in reflectance (thin layers under a cut near its extremum)

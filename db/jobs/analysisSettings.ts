@@ -34,7 +34,7 @@ export const analysisSettingsSchema = z
     fitOnFinalStack: z.boolean().optional(),
     fitWithNextLayer: z.boolean().optional(),
     stackFromLayer: z.boolean().optional(),
-    cutPastTurningPoint: z.boolean().optional(),
+    cutPastTurningPoint: z.union([z.boolean(), z.literal('refit')]).optional(),
   })
   .strict();
 export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;

@@ -74,6 +74,30 @@ describe('synthesizeRun', () => {
     expect(faulty.truth[0].endTimeS - faulty.truth[0].startTimeS).toBeLessThan(plain.truth[0].endTimeS - plain.truth[0].startTimeS - 15);
   });
 
+  it('cuts a turning-point layer at or past its true turning point, by no more than the overshoot (chamber simulator\'s optics)', () => {
+    // A turning-point controller cuts once it has seen the signal turn: never before the turning
+    // point of the true stack, whatever the index and the layers below.
+    const media = { ambient: 1, substrate: dispersion(design.substrate as ChamberMaterial, 550).n, backside: true };
+    for (const seed of [1, 2, 3, 4, 5, 6, 7, 8]) {
+      const run = synthesizeRun(design, { seed, noiseFraction: 0, indexOffset: { H: 0.02, L: -0.01 } });
+      for (const t of run.truth) {
+        const below = run.truth.filter((b) => b.chip === t.chip && b.layer < t.layer).map((b) => ({ n: b.index, k: 0, thicknessNm: b.thicknessNm }));
+        const T = (d: number) => stackRT([...below, { n: t.index, k: 0, thicknessNm: d }], 550, media).T;
+        // the true turning point: the extreme of T over the last 3 % of the layer, on a 0.001 % grid
+        let tp = t.thicknessNm, best = T(tp);
+        const sign = T(t.thicknessNm * 0.97) < best ? 1 : -1;
+        for (let f = 0.97; f <= 1; f += 1e-5) {
+          const v = T(t.thicknessNm * f);
+          if (sign * (v - best) > 0) [best, tp] = [v, t.thicknessNm * f];
+        }
+        const overshootPct = (t.thicknessNm / tp - 1) * 100;
+        expect(overshootPct, `seed ${seed} layer ${t.layer}`).toBeGreaterThanOrEqual(0.1 - 0.01);
+        // the default overshoot's top, 0.6 %, plus one sample's growth (0.1 s at ~0.3 nm/s on ~60–95 nm)
+        expect(overshootPct, `seed ${seed} layer ${t.layer}`).toBeLessThan(0.6 + 0.06);
+      }
+    }
+  });
+
   it('writes trace CSV that the trace reader accepts, with or without layer and chip columns', async () => {
     const run = synthesizeRun(design, { seed: 3, meta: { chamber: 'Bay 2 IAD' } });
     const trace = await readTrace(traceCsvChunks(run, { rowsPerChunk: 777 }), { fileName: 'synth.csv' });
