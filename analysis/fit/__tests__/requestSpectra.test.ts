@@ -3,7 +3,7 @@ import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseDesign } from '../../design';
 import { type TraceData } from '../../trace';
-import { type LayerSamples } from '../layerSamples';
+import { gatherLayerSamples, type LayerSamples } from '../layerSamples';
 import { type SampleWork } from '../layerSampleWork';
 import { NO_SPECTRUM } from '../layerSpectrum';
 import { requestSpectra } from '../requestSpectra';
@@ -51,5 +51,17 @@ describe('requestSpectra hands each layer its readings and times', () => {
         expect(timeS.buffer === t.timeS.buffer).toBe(view);
       }
     }
+  });
+
+  it("gatherLayerSamples puts a layer's τ on shared memory with shared columns (handed over uncopied), with the same values", () => {
+    const segments = [{ layer: 1, chip: 1, startIndex: 10, endIndex: 60 }, { layer: 2, chip: 1, startIndex: 60, endIndex: 70 }, { layer: 2, chip: 1, startIndex: 80, endIndex: 100 }];
+    const [own, sharedOnes] = [gatherLayerSamples(trace(false), segments), gatherLayerSamples(trace(true), segments)];
+    for (const layer of [1, 2]) {
+      expect(sharedOnes.get(layer)!.tauS.buffer).toBeInstanceOf(SharedArrayBuffer);
+      expect(own.get(layer)!.tauS.buffer).not.toBeInstanceOf(SharedArrayBuffer);
+      expect(Array.from(sharedOnes.get(layer)!.tauS)).toEqual(Array.from(own.get(layer)!.tauS));
+    }
+    // paused layer 2: τ runs on one sample step after the pause (0.1 s), not across it
+    expect(sharedOnes.get(2)!.tauS[10]).toBeCloseTo(sharedOnes.get(2)!.tauS[9] + 0.1, 12);
   });
 });
