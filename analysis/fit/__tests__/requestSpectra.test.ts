@@ -2,7 +2,7 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseDesign } from '../../design';
-import { type TraceData } from '../../trace';
+import { type Segment, type TraceData } from '../../trace';
 import { gatherLayerSamples, type LayerSamples } from '../layerSamples';
 import { type SampleWork } from '../layerSampleWork';
 import { NO_SPECTRUM } from '../layerSpectrum';
@@ -54,7 +54,10 @@ describe('requestSpectra hands each layer its readings and times', () => {
   });
 
   it("gatherLayerSamples puts a layer's τ on shared memory with shared columns (handed over uncopied), with the same values", () => {
-    const segments = [{ layer: 1, chip: 1, startIndex: 10, endIndex: 60 }, { layer: 2, chip: 1, startIndex: 60, endIndex: 70 }, { layer: 2, chip: 1, startIndex: 80, endIndex: 100 }];
+    const segment = (layer: number, startIndex: number, endIndex: number, run: number): Segment => ({
+      layer, chip: 1, startIndex, endIndex, startTimeS: 0.1 * startIndex, endTimeS: 0.1 * (endIndex - 1), sampleCount: endIndex - startIndex, run,
+    });
+    const segments = [segment(1, 10, 60, 1), segment(2, 60, 70, 1), segment(2, 80, 100, 2)];
     const [own, sharedOnes] = [gatherLayerSamples(trace(false), segments), gatherLayerSamples(trace(true), segments)];
     for (const layer of [1, 2]) {
       expect(sharedOnes.get(layer)!.tauS.buffer).toBeInstanceOf(SharedArrayBuffer);
