@@ -1,5 +1,6 @@
 import { createReadStream, statSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
+import { isMainThread } from 'node:worker_threads';
 import { AnalysisInputError } from '../fit/AnalysisInputError';
 import { analyzeRun } from '../fit/analyzeRun';
 import { TraceFormatError, type TraceData } from '../trace';
@@ -67,5 +68,6 @@ export async function analyzeCommand(argv: string[]) {
   }
 }
 
+// (a thread of any other role runs nothing)
 if (isSpectrumThread) serveSpectra();
-else await runCli('analyze', analyzeCommand);
+else if (isMainThread) await runCli('analyze', analyzeCommand);

@@ -64,6 +64,26 @@ const CLAIMS = 1 << 14;
 const HERE = 1, THERE = 2;
 
 /**
+ * A thread the launcher (db/local/cli.mjs) started on the command's bundle before loading it,
+ * for startSpectrumThread to take over: the same entry, role and claims as its own would have.
+ */
+const EARLY_THREAD = Symbol.for('fringelog.cli.earlyThread');
+interface EarlyThread { entry: string; worker: Worker; claims: Int32Array; failed: boolean }
+
+/** The launcher's thread on `entry` when it has this module's role and claims and has not failed (taken once); else null. */
+function takeEarlyThread(entry: URL): EarlyThread | null {
+  const g = globalThis as { [EARLY_THREAD]?: EarlyThread };
+  const early = g[EARLY_THREAD];
+  delete g[EARLY_THREAD];
+  if (!early) return null;
+  if (early.failed || early.entry !== entry.href || early.claims?.length !== CLAIMS) {
+    void early.worker?.terminate();
+    return null;
+  }
+  return early;
+}
+
+/**
  * The thread's side: answers each request it claims with layerSpectrum (or the profile or wander
  * prep asked for; a prep's arrays handed over, not copied); one claimed by the asking thread with null.
  */
@@ -88,7 +108,8 @@ export function startSpectrumThread(entry: URL): {
 } {
   const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
   const local = (r: Request) => answer(r, true);
-  const claims = new Int32Array(new SharedArrayBuffer(4 * CLAIMS));
+  const early = takeEarlyThread(entry);
+  const claims = early?.claims ?? new Int32Array(new SharedArrayBuffer(4 * CLAIMS));
   let worker: Worker | null = null;
   let closed = false;
   const fail = () => {
@@ -98,7 +119,7 @@ export function startSpectrumThread(entry: URL): {
     pending.clear();
   };
   try {
-    worker = new Worker(entry, { workerData: { role: ROLE, claims } });
+    worker = early?.worker ?? new Worker(entry, { workerData: { role: ROLE, claims } });
     worker.unref();
     worker.on('message', (m: { id: number; spectrum: Answer; skipped?: boolean }) => {
       // a request this thread claimed was answered here already

@@ -22,6 +22,7 @@ import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { type SampleWorkResult } from './layerSampleWork';
 import { type ObservedTurningPoints } from './observedTurningPoints';
 import { PROFILE_PASS_SPECTRUM_QWOT, requestSpectra } from './requestSpectra';
+import { sampleReadings } from './sampleReadings';
 import { runSummary } from './runSummary';
 import { placeBoundaries } from './placeBoundaries';
 import { levelCutEnds } from './levelCutEnds';
@@ -549,7 +550,7 @@ async function analyzeLayers(
         below: below.slice(), start: e, offsetSignal: calibration.offset,
         ...(ends?.growthBelow(chip) && heldIndex === null ? { growthBelow: { heldNm: ends.growthBelow(chip)!.deltaNm, rateNmPerS: ends.growthBelow(chip)!.rateNmPerS } } : {}),
         ...gainPrior,
-      }, fit, model, samples.tauS, pick(trace.signal, samples.indices));
+      }, fit, model, samples.tauS, sampleReadings(trace.signal, samples.indices));
       transient.profiles.push(o.startDelayProfileOf ? o.startDelayProfileOf(request) : Promise.resolve(profileFromRequest(request)));
     }
     // Not inside boundaries placed on the design's curve (no layer column): those were placed with a
@@ -563,7 +564,7 @@ async function analyzeLayers(
       // the knots took up calibration misfit instead (chamber BBAR, demo BBAR: cut errors at |z| ≈ 10).
       const e = single.layers[0];
       const input = {
-        below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: pick(trace.signal, samples.indices),
+        below, layer: fit, estimate: e, offsetSignal: calibration.offset, allTauS: samples.tauS, allY: sampleReadings(trace.signal, samples.indices),
         gainPriorSigma: withPrior ? o.gainPriorFraction * Math.abs(anchor) : 0,
         ...(stacks.has(chip) ? { stack: ends ? ends.stackWithGrowth(chip, stacks.get(chip)!) : stacks.get(chip)! } : {}),
         growthFromHere: o.growthFromNext && !!ends && below.length > 0,

@@ -43,9 +43,14 @@ export function idleNoiseModel(trace: TraceData, idle: readonly { startIndex: nu
   // a chip's or the lamp's, is far beyond it).
   // Spikes out once, before the steps are sought (a spike is no level either).
   const stretches = idle.filter((s) => s.endIndex - s.startIndex >= MIN_STEP_SAMPLES).map((s) => hampelFilter(trace.signal.subarray(s.startIndex, s.endIndex)));
-  let pooled = pooledModel(stretches, undefined);
+  // each stretch's 90th percentile, the dark steps' yardstick: the same in every pass
+  const uppers = stretches.map((part) => {
+    const sorted = Float64Array.from(part).sort();
+    return sorted[Math.floor(0.9 * (sorted.length - 1))];
+  });
+  let pooled = pooledModel(stretches, uppers, undefined);
   for (let pass = 0; pass < PASSES && pooled.fit; pass++) {
-    const next = pooledModel(stretches, pooled.fit.longRunSigma);
+    const next = pooledModel(stretches, uppers, pooled.fit.longRunSigma);
     if (!next.fit) break;
     const settled = Math.abs(next.fit.longRunSigma / pooled.fit.longRunSigma - 1) < 0.05;
     pooled = next;
@@ -59,12 +64,11 @@ export function idleNoiseModel(trace: TraceData, idle: readonly { startIndex: nu
 const PASSES = 3;
 
 /** The steps' pooled variogram fit, and the steps it read. */
-function pooledModel(stretches: readonly Float64Array[], sigma: number | undefined): { fit: Ar1PlusWhite | null; steps: Float64Array[] } {
+function pooledModel(stretches: readonly Float64Array[], uppers: readonly number[], sigma: number | undefined): { fit: Ar1PlusWhite | null; steps: Float64Array[] } {
   const steps: Float64Array[] = [];
   let read = 0;
-  reading: for (const part of stretches) {
-    const sorted = Float64Array.from(part).sort();
-    const upper = sorted[Math.floor(0.9 * (sorted.length - 1))];
+  reading: for (const [j, part] of stretches.entries()) {
+    const upper = uppers[j];
     for (const step of levelSteps(part, { minLength: MIN_STEP_SAMPLES, ...(sigma ? { sigma } : {}) })) {
       if (step.end - step.start < MIN_STEP_SAMPLES || step.mean < DARK_FRACTION * upper) continue;
       const end = Math.min(step.end, step.start + MAX_STEP_SAMPLES);

@@ -30,7 +30,8 @@ export function gatherLayerSamples(trace: TraceData, segments: readonly Segment[
     let count = 0;
     for (const s of segs) count += s.endIndex - s.startIndex;
     const indices = new Int32Array(count);
-    const tauS = new Float64Array(count);
+    // on shared memory with the trace's columns (readTraceRows for a second thread): handed to it uncopied
+    const tauS = t.buffer instanceof SharedArrayBuffer ? new Float64Array(new SharedArrayBuffer(8 * count)) : new Float64Array(count);
     let k = 0, tauEnd = 0;
     for (let si = 0; si < segs.length; si++) {
       const s = segs[si];

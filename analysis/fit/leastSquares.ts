@@ -148,8 +148,14 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
       normalEquations(jac, dy, weights ?? undefined, n, np, problem.columnRows, a, g, problem.columnTails);
       factor = choleskyScaled(a, np);
     } else {
+      // only the rows where dy is not 0 (a wander's knot moves its layer and those above it):
+      // the terms left out are ±0, which leave every sum as it was
+      let r0 = 0, r1 = n;
+      while (r0 < r1 && dy[r0] === 0) r0++;
+      while (r1 > r0 && dy[r1 - 1] === 0) r1--;
       for (let j = 0; j < np; j++) {
-        const o = j * n, lo = problem.columnRows ? problem.columnRows.start[j] : 0, hi = problem.columnRows ? problem.columnRows.end[j] : n;
+        const o = j * n;
+        const lo = Math.max(r0, problem.columnRows ? problem.columnRows.start[j] : 0), hi = Math.min(r1, problem.columnRows ? problem.columnRows.end[j] : n);
         let s = 0;
         if (weights) for (let k = lo; k < hi; k++) s += jac[o + k] * weights[k] * dy[k];
         else for (let k = lo; k < hi; k++) s += jac[o + k] * dy[k];

@@ -3,6 +3,7 @@ import { indexAt } from '../materials';
 import { type TraceData } from '../trace';
 import { type LayerSamples } from './layerSamples';
 import { type LayerSpectrum } from './layerSpectrum';
+import { sampleReadings } from './sampleReadings';
 import { type SampleWorkResult } from './layerSampleWork';
 import { type AnalyzeOptions } from './types';
 
@@ -29,10 +30,10 @@ export function requestSpectra(
     const samples = samplesByLayer.get(dl.layer)!;
     const wl = dl.monitor.wavelengthNm;
     const index = indexAt(design.materials[dl.material], wl).re;
-    const y = gather(trace.signal, samples.indices);
+    const y = sampleReadings(trace.signal, samples.indices);
     const work = profiling
       ? { binPoints: binPoints(dl.layer), spectrum: (4 * index * dl.thicknessNm) / wl >= PROFILE_PASS_SPECTRUM_QWOT }
-      : { timeS: gather(trace.timeS, samples.indices), binPoints: binPoints(dl.layer) };
+      : { timeS: sampleReadings(trace.timeS, samples.indices), binPoints: binPoints(dl.layer) };
     out.set(dl.layer, spectrumOf(samples.tauS, y, wl, index, work));
   }
   return out;
@@ -44,9 +45,3 @@ export function requestSpectra(
  * (measured: δ̂ and σ the same on the bench's 40-layer run and 8 chamber runs).
  */
 export const PROFILE_PASS_SPECTRUM_QWOT = 3;
-
-function gather(values: Float64Array, indices: Int32Array): Float64Array {
-  const out = new Float64Array(indices.length);
-  for (let i = 0; i < out.length; i++) out[i] = values[indices[i]];
-  return out;
-}

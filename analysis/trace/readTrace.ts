@@ -42,14 +42,10 @@ export async function readTrace(
  * hand to another thread without copying.
  */
 export async function readTraceRows(chunks: Chunks, options: ReadTraceOptions = {}, shared = false): Promise<TraceData> {
-  const parser = await parse(chunks, resolve(options), true);
+  const parser = await parse(chunks, resolve(options), true, shared);
   const n = parser.rowCount;
-  const take = <T extends Float64Array | Int32Array>(c: SampleColumn<T>): T => {
-    if (!shared) return TraceParser.samples(c, n);
-    const out = new (c.data.constructor as new (b: SharedArrayBuffer) => T)(new SharedArrayBuffer(n * c.data.BYTES_PER_ELEMENT));
-    out.set(c.data.subarray(0, n));
-    return out;
-  };
+  // shared: the columns were read into SharedArrayBuffers; their first n rows, in place
+  const take = <T extends Float64Array | Int32Array>(c: SampleColumn<T>): T => (shared ? c.data.subarray(0, n) as T : TraceParser.samples(c, n));
   return {
     meta: parser.meta,
     columns: parser.columns,
@@ -94,8 +90,8 @@ export async function scanTrace(
 
 type Chunks = AsyncIterable<string | Uint8Array | RowsBlockChunk> | Iterable<string | Uint8Array | RowsBlockChunk>;
 
-async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples: boolean): Promise<TraceParser> {
-  const parser = new TraceParser({ fileName: o.fileName, maxRows: o.maxRows, layerCount: o.layerCount, keepSamples });
+async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples: boolean, sharedSamples = false): Promise<TraceParser> {
+  const parser = new TraceParser({ fileName: o.fileName, maxRows: o.maxRows, layerCount: o.layerCount, keepSamples, sharedSamples });
   const decoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: false });
   let bytes = 0;
   let lineNo = 0;

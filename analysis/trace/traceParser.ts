@@ -29,6 +29,8 @@ export interface ParserLimits {
   layerCount?: number;
   /** false: check every row but keep no samples (readTrace needs them; scanTrace does not). @default true */
   keepSamples?: boolean;
+  /** The columns on SharedArrayBuffers from the start, so the rows read are handed to another thread without a copy (readTraceRows). */
+  sharedSamples?: boolean;
 }
 
 /** Line-by-line state machine for the trace CSV of shared/FORMATS.md. */
@@ -61,11 +63,12 @@ export class TraceParser {
   private readonly warningCounts = new Map<string, { count: number; firstLine?: number }>();
 
   constructor(private readonly limits: ParserLimits) {
-    this.time = this.column((n) => new Float64Array(n));
-    this.signal = this.column((n) => new Float64Array(n));
+    this.time = this.column(Float64Array);
+    this.signal = this.column(Float64Array);
   }
 
-  private column<T extends Float64Array | Int32Array>(make: (n: number) => T): SampleColumn<T> {
+  private column<T extends Float64Array | Int32Array>(Of: { new (n: number): T; new (b: SharedArrayBuffer): T; BYTES_PER_ELEMENT: number }): SampleColumn<T> {
+    const make = this.limits.sharedSamples ? (n: number) => new Of(new SharedArrayBuffer(n * Of.BYTES_PER_ELEMENT)) : (n: number) => new Of(n);
     return new SampleColumn(make, this.limits.keepSamples !== false);
   }
 
@@ -166,10 +169,10 @@ export class TraceParser {
         this.fail(lineNo, 'missing_column', `the header has no "${required}" column (required: time_s, signal)`);
       }
     }
-    if (seen.has('layer')) this.layer = this.column((n) => new Int32Array(n));
-    if (seen.has('chip')) this.chip = this.column((n) => new Int32Array(n));
-    if (seen.has('crystal_nm')) this.crystal = this.column((n) => new Float64Array(n));
-    if (seen.has('reference')) this.reference = this.column((n) => new Float64Array(n));
+    if (seen.has('layer')) this.layer = this.column(Int32Array);
+    if (seen.has('chip')) this.chip = this.column(Int32Array);
+    if (seen.has('crystal_nm')) this.crystal = this.column(Float64Array);
+    if (seen.has('reference')) this.reference = this.column(Float64Array);
     this.columns = names;
     this.headerLine = lineNo;
     const byKind = [null, this.time, this.signal, this.layer, this.chip, this.crystal, this.reference];

@@ -10,9 +10,11 @@
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import { createRequire } from 'node:module';
+import { availableParallelism } from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import v8 from 'node:v8';
+import { Worker } from 'node:worker_threads';
 
 export const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const COMMANDS = ['spectrum', 'plan', 'analyze'];
@@ -93,6 +95,32 @@ export async function buildBundle(name, dir = cacheDir()) {
   return file;
 }
 
+/**
+ * analyze: its second thread (analysis/cli/spectrumThread.ts, which takes it over from
+ * globalThis[EARLY_THREAD]) started on the bundle here, so that thread loads the bundle while this
+ * one does, not after: started by the command, it was ready about 0.13 s into the process, and
+ * until then this thread read the trace alone. The role and the claims' length are the ones
+ * spectrumThread.ts gives its threads (it takes over only a thread that has them). Unreferenced: a
+ * command that stops before taking it over does not wait for it. One core: no second thread.
+ */
+const EARLY_THREAD = Symbol.for('fringelog.cli.earlyThread');
+function startEarlyThread(file) {
+  if (availableParallelism() <= 1) return;
+  try {
+    const claims = new Int32Array(new SharedArrayBuffer(4 * (1 << 14)));
+    const early = { entry: pathToFileURL(file).href, worker: null, claims, failed: false };
+    early.worker = new Worker(new URL(early.entry), { workerData: { role: 'fringelog-layer-spectra', claims } });
+    early.worker.unref();
+    // until taken over: a thread that fails is noted, for the command to start its own
+    const failed = () => (early.failed = true);
+    early.worker.on('error', failed);
+    early.worker.on('exit', failed);
+    globalThis[EARLY_THREAD] = early;
+  } catch {
+    // the command starts its own
+  }
+}
+
 async function main() {
   const name = process.argv[2];
   if (!COMMANDS.includes(name)) {
@@ -120,6 +148,7 @@ async function main() {
       return;
     }
   }
+  if (name === 'analyze') startEarlyThread(file);
   await import(pathToFileURL(file).href);
 }
 

@@ -2,6 +2,7 @@ import { spawnSync } from 'node:child_process';
 import { createReadStream, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
+import { Worker } from 'node:worker_threads';
 import { afterAll, describe, expect, it } from 'vitest';
 import { parseDesign } from '../../design';
 import { analyzeRun } from '../../fit/analyzeRun';
@@ -73,6 +74,45 @@ describe('the analyze command computes spectra on a second thread', () => {
     const got = await t.wanderPrepOf(r);
     t.close();
     expect(got).toEqual(wanderPrepFromRequest(r));
+  }, 10_000);
+
+  // db/local/cli.mjs starts the thread on the bundle before loading it; the command takes it over
+  const EARLY = Symbol.for('fringelog.cli.earlyThread');
+  const earlyThread = (entry: string, role: string) => {
+    const claims = new Int32Array(new SharedArrayBuffer(4 * (1 << 14)));
+    const worker = new Worker(new URL(entry), { workerData: { role, claims } });
+    (globalThis as Record<symbol, unknown>)[EARLY] = { entry, worker, claims, failed: false };
+    return worker;
+  };
+  const answering = () => {
+    const file = path.join(cache, 'early.mjs');
+    // claims each request and answers with the role it was started with
+    writeFileSync(file, "import { parentPort, workerData } from 'node:worker_threads';\nparentPort.on('message', (r) => { Atomics.compareExchange(workerData.claims, r.id, 0, 2); parentPort.postMessage({ id: r.id, spectrum: { from: workerData.role } }); });\n");
+    return pathToFileURL(file);
+  };
+
+  it('takes over the thread the launcher started on the same module', async () => {
+    const entry = answering();
+    earlyThread(entry.href, 'launcher');
+    const t = startSpectrumThread(entry);
+    const tauS = Float64Array.from({ length: 400 }, (_, i) => i * 0.5);
+    const asked = t.spectrumOf(tauS, tauS, 550, 2.1);
+    // not awaited until the thread has answered (awaited first, it is computed here)
+    await new Promise((r) => setTimeout(r, 1000));
+    expect(await asked).toEqual({ from: 'launcher' });
+    expect((globalThis as Record<symbol, unknown>)[EARLY]).toBeUndefined();
+    t.close();
+  }, 10_000);
+
+  it("ends, and does not use, a launcher's thread on another module", async () => {
+    const worker = earlyThread(answering().href, 'launcher');
+    const exited = new Promise((r) => worker.once('exit', r));
+    const t = startSpectrumThread(pathToFileURL(path.join(root, 'no-such-module.mjs')));
+    const tauS = Float64Array.from({ length: 400 }, (_, i) => i * 0.5);
+    const y = tauS.map((s) => 0.5 + 0.3 * Math.sin(s / 9));
+    expect(await t.spectrumOf(tauS, y, 550, 2.1)).toEqual(layerSpectrum(tauS, y, 550, 2.1));
+    await exited;
+    t.close();
   }, 10_000);
 
   // the four-layer AR (level cuts); the 17-layer mirror (turning-point cuts: the start delay's profiles on the thread too)

@@ -28,6 +28,21 @@ describe('leastSquares', () => {
     expect(Number.isNaN(blind.sigma[2])).toBe(true);
   });
 
+  it("shiftFor: a move of some rows' data shifts a straight line's estimates by that move's own OLS line, on every call", () => {
+    // Anscombe's first data set again; the model is linear, so the Gauss–Newton step is exact
+    const x = [10, 8, 13, 9, 11, 14, 6, 4, 12, 7, 5];
+    const y = [8.04, 6.95, 7.58, 8.81, 8.33, 9.96, 7.24, 4.26, 10.84, 4.82, 5.68];
+    const fit = leastSquares({ y, model: (p, out) => x.forEach((xi, i) => (out[i] = p[0] + p[1] * xi)), start: [1, 1], scale: [1, 0.1] });
+    // the moves: all rows, then only rows 3–6 (0 before and after), then only the last row
+    const moves = [x.map((xi) => 0.3 - 0.02 * xi), x.map((_, i) => (i >= 3 && i <= 6 ? 0.1 * i - 0.25 : 0)), x.map((_, i) => (i === x.length - 1 ? 1 : 0))];
+    for (const dy of moves) {
+      const ols = linearTrend(x, dy);
+      const shift = fit.shiftFor!(dy)!;
+      expect(shift[0]).toBeCloseTo(ols.intercept, 9);
+      expect(shift[1]).toBeCloseTo(ols.slope, 9);
+    }
+  });
+
   it('rejects impossible problems with exact messages', () => {
     const model = (p: Float64Array, out: Float64Array) => out.fill(p[0]);
     expect(() => leastSquares({ y: [1], model, start: [0, 0], scale: [1, 1] })).toThrow('leastSquares: 1 points cannot determine 2 parameters');

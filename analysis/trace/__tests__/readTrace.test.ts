@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { readTrace, readTraceText } from '../readTrace';
+import { readTrace, readTraceRows, readTraceText } from '../readTrace';
 import { TraceFormatError } from '../TraceFormatError';
 
 const opts = { fileName: 'trace.csv' };
@@ -212,5 +212,18 @@ describe('readTrace: warnings', () => {
   it('no warnings on a clean trace', async () => {
     const t = await readTraceText(`time_s,signal,layer\n${rows(100)}`, opts);
     expect(t.warnings).toEqual([]);
+  });
+});
+
+describe('readTraceRows with shared columns (for a second thread)', () => {
+  it("reads every row, past the columns' growth, into SharedArrayBuffers, as many values as rows", async () => {
+    const text = rows(3000, (i) => 1 + Math.floor(i / 1000));
+    const t = await readTraceRows(['time_s,signal,layer\n', text], opts, true);
+    const lines = text.trim().split('\n').map((l) => l.split(','));
+    expect(t.rowCount).toBe(3000);
+    for (const [column, j] of [[t.timeS, 0], [t.signal, 1], [t.layer!, 2]] as const) {
+      expect(column.buffer).toBeInstanceOf(SharedArrayBuffer);
+      expect(Array.from(column)).toEqual(lines.map((l) => Number(l[j])));
+    }
   });
 });
