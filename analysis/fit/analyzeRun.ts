@@ -143,7 +143,7 @@ export const ANALYZE_DEFAULTS = {
   indexGradient: false,
   growthFromNext: true,
   fitOnFinalStack: true,
-  fitWithNextLayer: false,
+  fitWithNextLayer: true,
   turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
   turningPointExcessMean: true,
   cutPastTurningPoint: false,
