@@ -15,7 +15,7 @@ export interface PairPart {
 /** Layers in each joint fit: the level-cut layer and the two above it on its chip. */
 export const NEXT_LAYER_WINDOW = 3;
 
-/** A turning-point cut, on the stack below as it now stands: its own fit again where that moved (option fitOnFinalStack), else left. */
+/** A layer no window fits again (a turning-point cut), on the stack below as it now stands: its own fit again where that moved (option fitOnFinalStack), else left. */
 export type OwnFitAgain = (s: LayerState, below: LayerAt[]) => void;
 
 /**
