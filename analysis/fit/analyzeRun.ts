@@ -145,7 +145,7 @@ export const ANALYZE_DEFAULTS = {
   indexGradient: false,
   growthFromNext: true,
   fitOnFinalStack: true,
-  fitWithNextLayer: false,
+  fitWithNextLayer: true,
   stackFromLayer: false,
   turningPointOvershootPct: TURNING_POINT_OVERSHOOT_PCT,
   turningPointExcessMean: true,
@@ -804,10 +804,17 @@ async function analyzeLayers(
     // Sequential: a held thin level cut's index from the whole run (each level cut is fitted again
     // in the window it starts), then each level cut fitted again with the next two layers on its
     // chip, on the stack as it now stands (fit/fitWithNextLayer.ts); the other layers as fitOnFinalStack has them.
+    const asPassed = new Map(states.map((s) => [s, passedState(s)]));
     if (o.heldIndex === 'run-drift') holdAtRunDrift(states, states.filter((s) => s.design.monitor.cut === 'level' && s.pairPart));
-    fitWithNextLayers(chipLayers, o.robustLoss, (s, below) => {
+    const startedUp = fitWithNextLayers(chipLayers, o.robustLoss, (s, below) => {
       if (ends && o.fitOnFinalStack) fitOnFinalStack(s, below);
     });
+    // A chip whose windows show the rate's start-up as the shutter opens: as without the option.
+    for (const chip of startedUp) {
+      const chipStates = chipLayers.get(chip)!;
+      chipStates.forEach((s) => asPassed.get(s)!());
+      if (ends && o.fitOnFinalStack) chipStates.forEach((s, j) => fitOnFinalStack(s, chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm))));
+    }
   } else if (o.mode === 'sequential' && ends && o.fitOnFinalStack) {
     // Sequential: the layers whose stack below the growths' final reading moved, fitted again on it.
     fitOnFinalStacks(chipLayers);
@@ -1047,6 +1054,20 @@ function fitOnFinalStacks(chipLayers: ReadonlyMap<number, LayerState[]>): void {
   for (const chipStates of chipLayers.values()) {
     chipStates.forEach((s, j) => fitOnFinalStack(s, chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm))));
   }
+}
+
+/** What the windows of fitWithNextLayer (and the held index before them) change in a layer's state, as it stands: a call puts it back. */
+function passedState(s: LayerState): () => void {
+  const { estimate, heldNote, heldIndexSigma } = s;
+  const held = s.fit.heldIndex, refitHeld = s.refit.heldIndex, below = s.fittedOn?.below;
+  return () => {
+    Object.assign(s, { estimate, heldNote });
+    if (heldIndexSigma === undefined) delete s.heldIndexSigma;
+    else s.heldIndexSigma = heldIndexSigma;
+    s.fit.heldIndex = held;
+    s.refit.heldIndex = refitHeld;
+    if (s.fittedOn && below) s.fittedOn.below = below;
+  };
 }
 
 /** One layer of fitOnFinalStacks: its own fit again on `below` where that differs from the stack it was fitted on. */

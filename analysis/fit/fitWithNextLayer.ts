@@ -1,8 +1,10 @@
 import { type LayerAt } from '../optics';
 import { type LayerState } from './analyzeRun';
-import { fitLayers, type JointFitInput, type LayerEstimate } from './fitLayers';
+import { fitLayers, type JointFitInput, type JointFitResult, type LayerEstimate } from './fitLayers';
 import { layerAtWavelength } from './layerModel';
 import { holdUncarriedDrifts } from './rateDriftChoice';
+import { START_DELAY_GRID_S } from './startDelay';
+import { exposureTime, exposureTimes } from './startTransient';
 
 /** What a sequential layer brings to a joint fit with the next ones: its gain start (held, anchored or its own) and the pass's gain prior. */
 export interface PairPart {
@@ -13,49 +15,100 @@ export interface PairPart {
 /** Layers in each joint fit: the level-cut layer and the two above it on its chip. */
 export const NEXT_LAYER_WINDOW = 3;
 
-/** A turning-point cut no window covers, on the stack below as it now stands: its own fit again where that moved (option fitOnFinalStack), else left. */
+/** A layer no window fits again (a turning-point cut), on the stack below as it now stands: its own fit again where that moved (option fitOnFinalStack), else left. */
 export type OwnFitAgain = (s: LayerState, below: LayerAt[]) => void;
 
 /**
  * Sequential mode, once the pass is over (option fitWithNextLayer): each layer cut on level
  * fitted again jointly with the next two on its chip (NEXT_LAYER_WINDOW; fewer at the chip's end),
- * bottom up, on the stack below as it then stands; every layer of the window keeps the joint
- * fit's estimates, and the next window starts from them, so a chip's last layers end with the
- * window under them. Held thin layers cut on level take their index from the whole run first
- * (the caller's). A level cut's own samples tell its index and thickness along one curve only
- * (its end level gives the stack's transmittance, not the admittance the next layer grows on,
- * and just past a turning point the level tells the thickness little); the next layers, which
- * grow on that admittance, pin the rest. The joint fit holds each rate drift its layer's data do
- * not carry (fit/rateDriftChoice.ts, as refit's final joint fit). Turning-point cuts are left to
- * their own fits (their ends are read from the next layer's start already, fit/growthFromNext.ts):
- * one that no window covers goes to `ownFitAgain` on the stack as it now stands. σ stay those of
- * the pass (the stack's, the growth's, the gain's and the held index's carried into them, wider
- * than the window's own).
+ * bottom up, on the stack below as it then stands; the level cuts of the window keep the joint
+ * fit's estimates and the next window starts from them, so each ends with the window it starts.
+ * Held thin layers cut on level take their index from the whole run first (the caller's). A level
+ * cut's own samples tell its index and thickness along one curve only (its end level gives the
+ * stack's transmittance, not the admittance the next layer grows on, and just past a turning
+ * point the level tells the thickness little); the next layers, which grow on that admittance,
+ * pin the rest. The joint fit holds each rate drift its layer's data do not carry
+ * (fit/rateDriftChoice.ts, as refit's final joint fit). Turning-point cuts keep their own fits
+ * (their ends are read from the next layer's start already, fit/growthFromNext.ts), each taken to
+ * `ownFitAgain` on the stack as it now stands: a reflectance run's one level cut among turning
+ * points (chamber simulator, R with an offset, seeds 51–62) went 1.02 → 1.26 % with the window's
+ * turning-point layers kept, 0.98 % with their own fits.
+ *
+ * The window reads the start of its upper layers as made by the stack below; where the rate
+ * starts up as the shutter opens (fit/startTransient.ts, not modelled on level cuts in this mode)
+ * with the lamp drifting, it takes that start-up into the layers below: on the simulator's
+ * real-chamber BBAR (ramp 1.5 s, lamp −1 %/h) seeds 21–36 went 2.48 → 3.85 %. A chip where a window
+ * shows the start-up (its χ² falls past START_UP_GAIN_CHI2 with the upper layers on a start
+ * delay's clock, startUpGainChi2) is returned: the caller puts its layers back as the pass left
+ * them. σ stay those of the pass (the stack's, the growth's, the gain's and the held index's
+ * carried into them, wider than the window's own).
  */
-export function fitWithNextLayers(chipLayers: ReadonlyMap<number, LayerState[]>, robust: boolean, ownFitAgain: OwnFitAgain): void {
-  for (const chipStates of chipLayers.values()) {
-    let coveredTo = -1;
-    chipStates.forEach((s, j) => {
+export function fitWithNextLayers(chipLayers: ReadonlyMap<number, LayerState[]>, robust: boolean, ownFitAgain: OwnFitAgain): Set<number> {
+  const startedUp = new Set<number>();
+  for (const [chip, chipStates] of chipLayers) {
+    for (let j = 0; j < chipStates.length; j++) {
+      const s = chipStates[j];
       const wl = s.optics.wavelengthNm;
-      const belowOf = () => chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, wl));
+      const below = chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, wl));
       const window = chipStates.slice(j, j + NEXT_LAYER_WINDOW);
       if (s.design.monitor.cut !== 'level' || window.some((p) => !p.pairPart)) {
-        if (j > coveredTo) ownFitAgain(s, belowOf());
-        return;
+        ownFitAgain(s, below);
+        continue;
       }
       // A wandering rate's knots held at their estimate (as refitChip's fits during the pass).
       const layers = window.map((p) => (p.fit.wander && p.estimate.wander ? { ...p.fit, wander: { ...p.fit.wander, fixed: p.estimate.wander } } : p.fit));
       const { gainPrior } = s.pairPart!;
       const input: JointFitInput = {
-        fixedBelow: belowOf(), layers, offsetSignal: s.calibration.offset,
+        fixedBelow: below, layers, offsetSignal: s.calibration.offset,
         start: window.map((p) => ({ ...p.estimate, gain: p.pairPart!.startGain(p.estimate) })), ...(gainPrior ? { gainPrior } : {}),
       };
       const { result } = holdUncarriedDrifts(input, fitLayers(input, { robust }), { robust });
+      const gain = window.length > 1 ? startUpGainChi2(input, result, robust) : 0;
+      if (gain > START_UP_GAIN_CHI2) {
+        startedUp.add(chip);
+        break;
+      }
+      // the level cuts keep the window's estimates (the next window starts from them); the turning-point cuts their own fits
       window.forEach((p, k) => {
+        if (p.design.monitor.cut !== 'level') return;
         const { index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient, thicknessNm, opticalThicknessNm } = result.layers[k];
         p.estimate = { ...p.estimate, index, rateNmPerS, rateDriftNmPerS2, gain, thicknessNm, opticalThicknessNm, ...(wander ? { wander } : {}), ...(indexGradient !== undefined ? { indexGradient } : {}) };
       });
-      coveredTo = j + window.length - 1;
-    });
+    }
   }
+  return startedUp;
+}
+
+/**
+ * A window's χ² gain (startUpGainChi2) past which its chip shows the start-up. Measured on the
+ * chamber simulator, the largest window's gain per run: real-chamber BBAR (ramp 1.5 s) seeds
+ * 21–36 8.5–20.7; without a ramp, white-noise BBAR seeds 11–26 at most 3.2, the same without a
+ * layer column seeds 33–44 6.7, thin level cuts in R seeds 71–82 5.7 (the pooled profile of one δ
+ * for the chip, as fit/jointStartDelay.ts pools, put that run at 14.2 and a ramped one at 7.5).
+ */
+export const START_UP_GAIN_CHI2 = 7.5;
+
+/**
+ * How much the window's χ² falls when its upper layers are read on the exposure clock of a start
+ * delay δ (fit/startTransient.ts; the best δ on START_DELAY_GRID_S past 0), in units of the fit's
+ * residual variance times its residuals' autocorrelation time (as fit/jointStartDelay.ts); 0
+ * where no δ lowers it.
+ */
+export function startUpGainChi2(input: JointFitInput, at0: JointFitResult, robust: boolean): number {
+  let best = 0;
+  let tau = 0, points = 0;
+  at0.layers.forEach((l, k) => {
+    tau += Math.max(1, l.noiseCorrelation) * input.layers[k].y.length;
+    points += input.layers[k].y.length;
+  });
+  const unit = (at0.solver.ssr / Math.max(at0.solver.dof, 1)) * (tau / Math.max(points, 1));
+  if (!(unit > 0)) return 0;
+  for (const delayS of START_DELAY_GRID_S) {
+    if (delayS <= 0) continue;
+    const layers = input.layers.map((d, k) => (k === 0 ? d : { ...d, tauS: exposureTimes(d.tauS, delayS), durationS: exposureTime(d.durationS, delayS) }));
+    const inp: JointFitInput = { ...input, layers, start: at0.layers };
+    const r = holdUncarriedDrifts(inp, fitLayers(inp, { robust }), { robust }).result;
+    if (Number.isFinite(r.solver.ssr)) best = Math.max(best, (at0.solver.ssr - r.solver.ssr) / unit);
+  }
+  return best;
 }

@@ -65,8 +65,8 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (form.get('offsetAveraging') !== 'on') settings.offsetAveraging = false;
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
-    for (const key of ['rateWander', 'indexGradient', 'fitWithNextLayer', 'stackFromLayer'] as const) if (form.get(key) === 'on') settings[key] = true;
-    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
+    for (const key of ['rateWander', 'indexGradient', 'stackFromLayer'] as const) if (form.get(key) === 'on') settings[key] = true;
+    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack', 'fitWithNextLayer', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
     if (res.status === 201 && body.analysis) {
@@ -187,7 +187,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <input type="checkbox" name="fitOnFinalStack" defaultChecked /> Layer by layer: fit a layer again where the stack below it changed after its fit (the growths after the cuts read again once the run&apos;s shutter time is known)
           </label>
           <label className="flex items-center gap-2">
-            <input type="checkbox" name="fitWithNextLayer" /> Layer by layer: fit each level-cut layer again with the next two on its chip (they grow on the stack it left; a thin layer&apos;s held index from the whole run)
+            <input type="checkbox" name="fitWithNextLayer" defaultChecked /> Layer by layer: fit each level-cut layer again with the next two on its chip (they grow on the stack it left; a thin layer&apos;s held index from the whole run; not on a chip whose next layers show the rate starting up as the shutter opens)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="lampReference" defaultChecked /> Where the trace has a reference column (the lamp read directly), divide the signal by it

@@ -29,7 +29,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.turningPointExcessMean === false) parts.push('turning-point cuts placed on the turning point');
   if (s.pooledIndex === false) parts.push('each index read alone');
   if (s.fitOnFinalStack === false) parts.push('each layer fitted once');
-  if (s.fitWithNextLayer === true) parts.push('level cuts fitted again with the next layers');
+  if (s.fitWithNextLayer === false) parts.push('each level cut fitted alone');
   if (s.stackFromLayer === true) parts.push('stack below read again with each layer');
   if (s.cutPastTurningPoint === false) parts.push("chips' last turning-point cuts not held past the turning point");
   if (s.cutPastTurningPoint === true) parts.push("chips' last turning-point cuts held past the turning point in both modes");

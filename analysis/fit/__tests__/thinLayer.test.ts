@@ -74,14 +74,17 @@ describe('a thin level-cut layer with its index held off the film', () => {
       const design = parseDesign(scenario, 'bbar.json');
       const trace = await readTrace(chamberCsvChunks(run), { fileName: 'bbar.csv', layerCount: design.layers.length });
       const truth = run.truth.layers[0];
-      for (const mode of ['sequential', 'refit'] as const) {
-        const layer = (await analyzeRun(design, trace, { mode })).layers[0];
+      // sequential twice: with each level cut alone (option fitWithNextLayer off), and by default,
+      // where the held index comes from the whole run first (layer 3 is the same material)
+      for (const [mode, fitWithNextLayer] of [['sequential', false], ['sequential', true], ['refit', true]] as const) {
+        const layer = (await analyzeRun(design, trace, { mode, fitWithNextLayer })).layers[0];
         const cutError = layer.cutErrorQwotPct - truth.cutErrorQwotPct;
         expect(layer.indexHeld, mode).toBe(true);
         expect(Math.abs(cutError) / layer.cutErrorSigmaQwotPct, `${mode}: cut error ${cutError.toFixed(3)} ± ${layer.cutErrorSigmaQwotPct.toFixed(3)} % QWOT`).toBeLessThanOrEqual(3);
         expect(Math.abs(layer.thicknessNm - truth.thicknessNm) / layer.thicknessSigmaNm, mode).toBeLessThanOrEqual(3);
-        if (mode === 'sequential') {
-          // Held at the nominal (no other Ta2O5 layer yet): the error is the index's, and large.
+        if (mode === 'sequential' && !fitWithNextLayer) {
+          // Held at the nominal (no other Ta2O5 layer yet): the error is the index's, and large
+          // (by default, held at the run's index: 0.65 and 0.49 % of its QWOT on this seed).
           expect(Math.abs(cutError / truth.qwotAtMonitor)).toBeGreaterThan(1);
         }
       }

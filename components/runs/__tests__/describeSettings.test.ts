@@ -23,7 +23,8 @@ describe('analysis settings', () => {
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', pooledIndex: false }))).toBe('refit · each index read alone');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitOnFinalStack: false }))).toBe('sequential · each layer fitted once');
-    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitWithNextLayer: true }))).toBe('sequential · level cuts fitted again with the next layers');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitWithNextLayer: false }))).toBe('sequential · each level cut fitted alone');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitWithNextLayer: true }))).toBe('sequential');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', stackFromLayer: true }))).toBe('sequential · stack below read again with each layer');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', lampReference: false }))).toBe('refit · lamp reference column not used');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', cutPastTurningPoint: false }))).toBe(

@@ -9,15 +9,20 @@ import { scenarios, WHITE_TARGETS } from '../scenarios';
 // next layer grows on): the thin layer 2 (0.41 QWOT) came out up to 1.5 % off in n·d, and layer 4
 // (1.03 QWOT, cut just past its turning point) stood on that error, 0.75 % off; layer 1
 // (0.22 QWOT) was held at the nominal index with the film 0.01 below it. Option fitWithNextLayer
-// fits each level cut again with the next two layers (fit/fitWithNextLayer.ts). Errors against the
-// simulator's truth, the white-noise targets of the accuracy harness (scenarios.ts WHITE_TARGETS).
+// (on by default) fits each level cut again with the next two layers (fit/fitWithNextLayer.ts).
+// Errors against the simulator's truth, the white-noise targets of the accuracy harness
+// (scenarios.ts WHITE_TARGETS).
 const SCENARIO = scenarios().find((s) => s.name === 'white noise, BBAR level cuts')!;
 const SEEDS = [11, 12, 13, 14, 15, 16, 17, 18];
+// The same AR with every chamber effect: the rate starts up over 1.5 s as the shutter opens and
+// the lamp drifts, which the window read as the stack below.
+const CHAMBER = scenarios().find((s) => s.name === 'real chamber, BBAR')!;
+const CHAMBER_SEEDS = [21, 22, 23, 24];
 
-async function sequential(options: AnalyzeOptions): Promise<Summary> {
+async function sequential(options: AnalyzeOptions, scenario = SCENARIO, seeds = SEEDS): Promise<Summary> {
   const errors = [];
-  for (const seed of SEEDS) {
-    const { run, results } = await runScenario(SCENARIO, seed, ['sequential'], options);
+  for (const seed of seeds) {
+    const { run, results } = await runScenario(scenario, seed, ['sequential'], options);
     errors.push(...layerErrors(seed, results.sequential, run.truth.layers));
   }
   return summarize(errors);
@@ -39,5 +44,16 @@ describe('sequential: each level cut fitted again with the layers that grow on i
     const own = await sequential({ fitWithNextLayer: false });
     expect(own.maxThicknessPct).toBeGreaterThan(0.5);
     expect(own.maxThinOpticalPct).toBeGreaterThan(1.2);
+  });
+
+  it(`real-chamber BBAR, seeds ${CHAMBER_SEEDS[0]}–${CHAMBER_SEEDS.at(-1)}: where the next layers show the rate's start-up, no worse than each level cut alone`, { timeout: 300_000 }, async () => {
+    // Measured: max thickness error 2.05 % with every window kept (layer 2 read +2.2 % on average),
+    // against 1.03 % with each level cut alone on the harness's seeds 21–22; the chips whose windows
+    // show the start-up are put back as the pass left them.
+    const next = await sequential({ fitWithNextLayer: true }, CHAMBER, CHAMBER_SEEDS);
+    const own = await sequential({ fitWithNextLayer: false }, CHAMBER, CHAMBER_SEEDS);
+    expect(next.missing).toBe(0);
+    expect(next.maxThicknessPct).toBeLessThan(own.maxThicknessPct + 0.05);
+    expect(next.maxThinOpticalPct).toBeLessThan(own.maxThinOpticalPct + 0.05);
   });
 });
