@@ -85,6 +85,10 @@ export function fitWithNextLayers(chipLayers: ReadonlyMap<number, LayerState[]>,
  * 21–36 8.5–20.7; without a ramp, white-noise BBAR seeds 11–26 at most 3.2, the same without a
  * layer column seeds 33–44 6.7, thin level cuts in R seeds 71–82 5.7 (the pooled profile of one δ
  * for the chip, as fit/jointStartDelay.ts pools, put that run at 14.2 and a ramped one at 7.5).
+ * A threshold read off the simulator, not derived: as a likelihood ratio for one parameter it sits
+ * near p = 0.006 under χ²₁ (a profile over a grid of δ is not quite χ²₁), and the margin between
+ * the cases measured is narrow (6.7 against 8.5), so a chamber whose ramp is weaker may pass it and
+ * have its windows kept; the run's warnings name the chips whose windows were dropped.
  */
 export const START_UP_GAIN_CHI2 = 7.5;
 
