@@ -55,3 +55,29 @@ export function cutPastTurningPointNm(loggedNm: number, sigmaNm: number, turning
  * to 1.2 % before the turning point, σ_d about 0.2 %) read up to 1.8 % off at 9σ held to the interval.
  */
 const CONTRADICTS = 2;
+
+/**
+ * The same posterior on the reading of the end relative to the fitted turning point,
+ * x = d_end − d_TP: an error the end and the turning point share (the stack below, the detector's
+ * offset or gain) moves both and leaves x as it is, so only the layer's own errors enter. With e
+ * the end's error and e_x = e − e_TP the relative reading's (σ sigmaNm), x's posterior under the
+ * uniform prior on [0, d_TP·overshootPct/100] moves the end by beta·(E[x] − x̂), beta =
+ * cov(e, e_x)/var(e_x), the regression of the end's error on the relative one (the conditional
+ * mean of jointly normal errors). The caller decides first whether the reading contradicts the
+ * prior (cutPastTurningPointNm's gate on the whole σ). Returns that shift in nm.
+ */
+export function relativeCutShiftNm(loggedNm: number, turningPointNm: number, sigmaNm: number, beta: number, overshootPct: number): number {
+  const x = loggedNm - turningPointNm, hi = turningPointNm * (Math.max(overshootPct, 0) / 100);
+  return beta * (truncatedNormalMoments(x, sigmaNm, 0, hi).mean - x);
+}
+
+/**
+ * σ of the end's reading relative to the turning point and beta (relativeCutShiftNm) from the
+ * fit's own covariance of the end d and the index n (dd, nn, dn) and dTpDn, the turning point's
+ * change with the index (first order: e_TP = dTpDn·e_n); null where that variance is not positive.
+ */
+export function relativeCut(own: { dd: number; nn: number; dn: number }, dTpDn: number): { sigmaNm: number; beta: number } | null {
+  const v = own.dd + dTpDn * dTpDn * own.nn - 2 * dTpDn * own.dn;
+  if (!(v > 0)) return null;
+  return { sigmaNm: Math.sqrt(v), beta: (own.dd - dTpDn * own.dn) / v };
+}

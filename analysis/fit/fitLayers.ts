@@ -69,6 +69,12 @@ export interface LayerEstimate extends LayerParams {
    * (fit/pooledIndex.ts) carries as such rather than as each layer's own error.
    */
   indexOffsetShift?: number;
+  /**
+   * The fit's own variances of d and n and their covariance (nm², nm), before any σ carried from
+   * outside the fit (stack below, offset, gain drift): what moves d's end against the layer's own
+   * turning point (fit/cutPastTurningPoint.ts relativeCut).
+   */
+  ownCovariance?: { dd: number; nn: number; dn: number };
 }
 
 export interface JointFitResult {
@@ -245,6 +251,7 @@ function fitOnce(input: JointFitInput, options: LeastSquaresOptions): JointFitRe
       opticalThicknessNm: v.index * d,
       opticalThicknessSigmaNm: Math.sqrt(Math.max(0, varND)),
       noiseCorrelation: tau[j],
+      ownCovariance: { dd: Math.max(0, varD), nn: Math.max(0, cov(iN, iN)), dn: covDN },
       ...(iDn >= 0 ? { indexGradientSigma: sd(iDn) } : {}),
     };
   });

@@ -326,14 +326,30 @@ export interface AnalyzeOptions {
    * 0.11 → 0.14 %, 1 s shutter delay 0.05 → 0.07 %, and analysis/synth's R mirror with a 0.5 %
    * offset fitted (seeds 41–52) 0.16 → 0.38 %, mean +0.31 %: its σ when read here is 3.8 % of the
    * layer, so the posterior is the interval's middle. Hence 'refit' (the joint re-fit only) by
-   * default, true in both modes, false never. It was off while analysis/synth cut turning-point
+   * default then, true in both modes, false never. It was off while analysis/synth cut turning-point
    * layers at the design's thickness ±0.4 % (up to 1.2 % before the turning point): refit
    * 18-layer mirror, seeds 11–13 and 21–24, the last layers −0.21…+0.08 % → up to +1.83 % at 9σ
    * without the 2σ gate, and with it still +0.29–0.41 % on four of the 21. Nor does it remove the sequential
    * rate-wander mirror's low cut (−0.54 % at the last logged sample): the fit reads the cut +0.34 %
    * past its own turning point (the true overshoot's mean 0.4 %), but that turning point lies 0.5 %
-   * short of the true one (the layer's index read +0.2 % high, the stack below the rest).
-   * @default 'refit'
+   * short of the true one (the layer's index read +0.2 % high, the stack below the rest): the end
+   * relative to the turning point is all the option reads. In sequential it now reads that relative
+   * reading: x = d_end − d_TP on the layer's own fit's covariance of d and n (the stack below's,
+   * the offset's and the gain's shares move both and leave x), its posterior moving the end by
+   * β·(E[x] − x̂), β the regression of the end's error on x̂'s within [0, 1]; the 2σ gate on the
+   * whole σ (fit/cutPastTurningPoint.ts relativeCut). Sequential, the chips' last layers' RMS (mean),
+   * off → on: rate wander 15–30 0.612 → 0.554 % (max of all layers 1.88 → 1.66 %), T stray light
+   * 55–66 0.333 → 0.274 %, real chamber 21–36 0.683 → 0.556 % (max 2.03 → 1.12 %), 40 layers 41–48
+   * 0.897 → 0.781 %; the simulator without overshoot: spikes 15–30 0.363 → 0.373 % (+0.09 →
+   * +0.29 %), white 11–26 0.106 → 0.121 % (+0.03 → +0.10 %), 1 s shutter delay 61–68 0.051 →
+   * 0.056 %; analysis/synth's R mirror with a 0.5 % offset, seeds 41–52, its σ 3.8 % of the layer
+   * when read here, 36 layers, 0.164 → 0.171 % (+0.07 → +0.09 %; on the whole σ 0.377 %, +0.31 %);
+   * R offset 51–66 0.585 → 0.551 % (max of all layers 1.06 → 1.11 %).
+   * On the whole σ (the earlier reading) rate wander 0.559 %, spikes 0.407 %, white 0.142 %; β
+   * unbounded (read 1.2–1.3) spikes 0.402 %, white 0.134 %. Refit keeps the whole σ: there the
+   * joint fit's d carries the stack below's free parameters, which move d_TP too (relative σ in refit:
+   * spikes and real-chamber mirror the same RMS, max of the last layers 1.06 → 1.09 %). Hence true.
+   * @default true
    */
   cutPastTurningPoint?: boolean | 'refit';
   /**

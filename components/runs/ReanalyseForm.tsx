@@ -58,7 +58,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     const overshoot = String(form.get('turningPointOvershoot') ?? '').trim();
     if (overshoot !== '') settings.turningPointOvershootPct = Number(overshoot);
     const cutPast = form.get('cutPastTurningPoint');
-    if (cutPast === 'both') settings.cutPastTurningPoint = true;
+    if (cutPast === 'refit') settings.cutPastTurningPoint = 'refit';
     if (cutPast === 'off') settings.cutPastTurningPoint = false;
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
@@ -131,9 +131,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
           <label htmlFor="re-cut-past">A chip&apos;s last turning-point cut at or past its fitted turning point, by up to the overshoot (where the controller cuts after it sees the turning point)</label>
-          <select id="re-cut-past" name="cutPastTurningPoint" className={select} defaultValue="refit">
-            <option value="refit">In the joint re-fit (default)</option>
-            <option value="both">In both modes</option>
+          <select id="re-cut-past" name="cutPastTurningPoint" className={select} defaultValue="both">
+            <option value="both">In both modes (default)</option>
+            <option value="refit">In the joint re-fit only</option>
             <option value="off">Not held (the fit&apos;s own reading)</option>
           </select>
         </div>

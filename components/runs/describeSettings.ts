@@ -32,7 +32,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.fitWithNextLayer === false) parts.push('each level cut fitted alone');
   if (s.stackFromLayer === true) parts.push('stack below read again with each layer');
   if (s.cutPastTurningPoint === false) parts.push("chips' last turning-point cuts not held past the turning point");
-  if (s.cutPastTurningPoint === true) parts.push("chips' last turning-point cuts held past the turning point in both modes");
+  if (s.cutPastTurningPoint === 'refit') parts.push("chips' last turning-point cuts held past the turning point in the joint re-fit only");
   if (typeof s.turningPointOvershootPct === 'number') parts.push(`turning-point overshoot up to ${+s.turningPointOvershootPct.toFixed(3)} %`);
   return parts.join(' · ');
 }

@@ -30,10 +30,10 @@ describe('analysis settings', () => {
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', cutPastTurningPoint: false }))).toBe(
       "sequential · chips' last turning-point cuts not held past the turning point",
     );
-    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', cutPastTurningPoint: true }))).toBe(
-      "sequential · chips' last turning-point cuts held past the turning point in both modes",
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', cutPastTurningPoint: 'refit' }))).toBe(
+      "sequential · chips' last turning-point cuts held past the turning point in the joint re-fit only",
     );
-    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', cutPastTurningPoint: 'refit' }))).toBe('refit');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', cutPastTurningPoint: true }))).toBe('refit');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', reflectanceChipGain: false, offsetAveraging: false, offsetAdoptionSigma: 2 }))).toBe(
       'sequential · own gain per layer in reflectance · fitted offset taken or left by a threshold · fitted offset taken beyond 2 σ',
     );
