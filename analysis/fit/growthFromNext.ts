@@ -3,8 +3,9 @@ import { invertSymmetric } from './invertSymmetric';
 import { layerJacobian } from './layerJacobian';
 import { evaluateLayers, paramLayout, type FitLayerData } from './layerModel';
 
-export interface GrowthFromNextInput {
-  /** The stack under the layer, at its wavelength; the last entry is the layer below, whose end is sought. */
+/** One layer's converged fit on the stack under it: what a reading of that stack from the layer's data starts from. */
+export interface LayerOnStackFit {
+  /** The stack under the layer, at its wavelength. */
   below: readonly LayerAt[];
   /** The layer fitted on that stack, and its fitted parameters (fitLayers' vector for this one layer). */
   layer: FitLayerData;
@@ -15,6 +16,10 @@ export interface GrowthFromNextInput {
   /** Residual variance per fit point (SSR/dof) and the residuals' autocorrelation time in fit points. */
   residualVariance: number;
   noiseCorrelation: number;
+}
+
+/** `below`'s last entry is the layer below, whose end is sought. */
+export interface GrowthFromNextInput extends LayerOnStackFit {
   /**
    * The covariance of the (index, thickness) pairs of the chip's layers, the last entries of
    * `below` (stackUncertainty's StackCovariance), when known: their uncertainty is carried into

@@ -1,23 +1,13 @@
-import { type LayerAt } from '../optics';
 import { invertSymmetric } from './invertSymmetric';
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { layerJacobian } from './layerJacobian';
 import { evaluateLayers, paramLayout, type FitLayerData } from './layerModel';
 import { type StackCovariance } from './stackUncertainty';
+import { type LayerOnStackFit } from './growthFromNext';
 import { wanderCount } from './rateWander';
 
-export interface StackPosteriorInput {
-  /** The stack under the layer at its wavelength, as it now stands (the prior's mean plus `shift`); the chip's fitted layers are its last stack.size/2 entries. */
-  below: readonly LayerAt[];
-  /** The layer fitted on that stack, and its converged parameters (fitLayers' vector for this one layer). */
-  layer: FitLayerData;
-  params: ArrayLike<number>;
-  offsetSignal: number;
-  /** The gain prior's c of the fit (see fitLayers), 0 without one. */
-  gainPriorWeight: number;
-  /** Residual variance per fit point (SSR/dof) and the residuals' autocorrelation time in fit points. */
-  residualVariance: number;
-  noiseCorrelation: number;
+/** `below` as it now stands (the prior's mean plus `shift`); the chip's fitted layers are its last stack.size/2 entries. */
+export interface StackPosteriorInput extends LayerOnStackFit {
   /** The prior on the chip's layers' (n, d): the stack covariance the pass carried (stackUncertainty). */
   stack: StackCovariance;
   /** How far `below` already stands from the prior's mean, per entry of the stack (n, d per layer); zeros on the first step. */

@@ -4,21 +4,13 @@
 // and every layer's index error ± σ, thickness error and gain; then per layer over the seeds the
 // index error's mean, RMS, largest and RMS z. Which layers carry an index error, and whether the
 // calibration does. Options as seedSweep.ts (FRINGELOG_ACCURACY_OPTIONS, FRINGELOG_CHAMBER_OPTIONS).
-import { type ChamberOptions } from '../options';
-import { scenarios, type Mode } from '../scenarios';
 import { runScenario } from './runScenario';
-import { seedList } from './seedList';
+import { scenarioFromArgs } from './seedList';
 
 const signed = (v: number, d: number) => `${v >= 0 ? '+' : ''}${v.toFixed(d)}`;
 
 async function main(): Promise<void> {
-  const name = process.argv[2] ?? 'R monitoring with an offset';
-  const found = scenarios().find((s) => s.name === name);
-  if (!found) throw new Error(`no scenario named '${name}'`);
-  const chamber = process.env.FRINGELOG_CHAMBER_OPTIONS;
-  const scenario = chamber ? { ...found, options: { ...found.options, ...(JSON.parse(chamber) as ChamberOptions) } } : found;
-  const seeds = seedList(process.argv[3], scenario.seeds);
-  const mode = (process.argv[4] ?? 'refit') as Mode;
+  const { scenario, seeds, mode } = scenarioFromArgs(process.argv, 'R monitoring with an offset');
   const perLayer = new Map<number, { err: number; z: number }[]>();
   for (const seed of seeds) {
     const { run, results } = await runScenario(scenario, seed, [mode]);
@@ -45,7 +37,7 @@ async function main(): Promise<void> {
     console.log(`  ${cells.join('  ')}`);
   }
   const rms = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + b * b, 0) / Math.max(1, v.length));
-  console.log(`${name} — ${mode} — index error per layer over ${seeds.length} seeds:`);
+  console.log(`${scenario.name} — ${mode} — index error per layer over ${seeds.length} seeds:`);
   for (const [layer, v] of [...perLayer].sort((a, b) => a[0] - b[0])) {
     const e = v.map((x) => x.err);
     console.log(`  layer ${layer}: mean ${signed(e.reduce((a, b) => a + b, 0) / e.length, 4)} RMS ${rms(e).toFixed(4)} max ${Math.max(...e.map(Math.abs)).toFixed(4)} RMS z ${rms(v.map((x) => x.z)).toFixed(2)}`);

@@ -4,22 +4,14 @@
 // mode, with the analysis options of FRINGELOG_ACCURACY_OPTIONS; and the layers beyond 3σ.
 // FRINGELOG_CHAMBER_OPTIONS (JSON) changes the scenario's chamber, e.g. '{"darkOffset":0.0006}':
 // an effect the scenario leaves off, turned on to see whether a σ it holds is then used.
-import { type ChamberOptions } from '../options';
-import { scenarios, type Mode } from '../scenarios';
 import { layerErrors, summarize, type LayerError } from './accuracyTable';
 import { runScenario } from './runScenario';
-import { seedList } from './seedList';
+import { scenarioFromArgs } from './seedList';
 
 const rms = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + b * b, 0) / Math.max(1, v.length));
 
 async function main(): Promise<void> {
-  const name = process.argv[2] ?? 'correlated noise and rate wander, mirror';
-  const found = scenarios().find((s) => s.name === name);
-  if (!found) throw new Error(`no scenario named '${name}'`);
-  const chamber = process.env.FRINGELOG_CHAMBER_OPTIONS;
-  const scenario = chamber ? { ...found, options: { ...found.options, ...(JSON.parse(chamber) as ChamberOptions) } } : found;
-  const seeds = seedList(process.argv[3], scenario.seeds);
-  const mode = (process.argv[4] ?? 'refit') as Mode;
+  const { scenario, seeds, mode } = scenarioFromArgs(process.argv, 'correlated noise and rate wander, mirror');
   const errors: LayerError[] = [];
   const last: LayerError[] = [];
   for (const seed of seeds) {
@@ -34,7 +26,7 @@ async function main(): Promise<void> {
   const pct = (v: number | null) => (v === null ? '—' : `${(v * 100).toFixed(1)}`);
   const zs = errors.flatMap((e) => (e.zThickness === null ? [] : [e.zThickness]));
   const zn = errors.flatMap((e) => (e.zIndex === null || e.zIndex === undefined ? [] : [e.zIndex]));
-  console.log(`${name} — ${mode} — seeds ${seeds[0]}…${seeds[seeds.length - 1]} (${seeds.length}): max|d| ${s.maxThicknessPct.toFixed(3)} % RMS ${s.rmsThicknessPct.toFixed(3)} `
+  console.log(`${scenario.name} — ${mode} — seeds ${seeds[0]}…${seeds[seeds.length - 1]} (${seeds.length}): max|d| ${s.maxThicknessPct.toFixed(3)} % RMS ${s.rmsThicknessPct.toFixed(3)} `
     + `max|n| ${s.maxIndex.toFixed(4)} RMS ${s.rmsIndex.toFixed(4)} max|cut| ${s.maxCutQwotPct.toFixed(3)} RMS ${s.rmsCutQwotPct.toFixed(3)} `
     + `coverage d/n/cut ${pct(s.coverage.thickness)}/${pct(s.coverage.index)}/${pct(s.coverage.cut)} % RMS z_d ${rms(zs).toFixed(2)} z_n ${rms(zn).toFixed(2)} missing ${s.missing}`);
   const lastD = last.flatMap((e) => (e.thicknessPct === null ? [] : [e.thicknessPct]));
