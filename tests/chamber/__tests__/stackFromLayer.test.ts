@@ -38,8 +38,10 @@ const rms = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + b * b, 0) / v.leng
 
 describe('sequential: the thin stack below a level cut in reflectance read again with the layer above', () => {
   it(`thin level-cut layers (R), seeds ${SEEDS[0]}–${SEEDS.at(-1)}: layer 3 within 2 % with the stack read again, up to 15 % off (RMS over 3 %) on the stack held`, { timeout: 300_000 }, async () => {
-    const read = await layerErrors({ stackFromLayer: true }, 3);
-    const held = await layerErrors({}, 3);
+    // Each level cut fitted alone (option fitWithNextLayer, on by default, fits it again with the
+    // next two layers, which also pins this stack: seeds 71–82 max 14.8 → 3.1 % by itself).
+    const read = await layerErrors({ stackFromLayer: true, fitWithNextLayer: false }, 3);
+    const held = await layerErrors({ fitWithNextLayer: false }, 3);
     console.log(`layer 3 thickness error, %: stack read again ${read.d.map((v) => v.toFixed(2)).join(' ')}; held ${held.d.map((v) => v.toFixed(2)).join(' ')}`);
     expect(Math.max(...read.d.map(Math.abs))).toBeLessThan(2);
     expect(rms(read.d)).toBeLessThan(1.2);
