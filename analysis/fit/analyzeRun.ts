@@ -38,7 +38,7 @@ import { indexSeparation, type HeldIndexShift } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
 import { lawThickness, lawTimeToThickness, type RateWander } from './rateWander';
-import { cutPastTurningPointNm, relativeCut, relativeCutShiftNm } from './cutPastTurningPoint';
+import { cutPastTurningPointNm, overshootSeen, relativeCut, relativeCutShiftNm } from './cutPastTurningPoint';
 import { turningPointNearNm } from './cutTiming';
 import { chooseRateWander, finishRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
 import { wanderChoiceRequest } from './wanderChoiceRequest';
@@ -838,6 +838,7 @@ async function analyzeLayers(
       const tpNm = turningPointNearNm(s.optics, belowOf(s), e.index, -s.nominal.im, loggedNm);
       if (tpNm === null) continue;
       let shiftNm = cutPastTurningPointNm(loggedNm, cut.sigmaNm, tpNm, o.turningPointOvershootPct) - loggedNm;
+      let seenSigmaNm = cut.sigmaNm;
       // Sequential: the layer's σ holds the stack below's and the offset's shares, which move its
       // end and its turning point together; the posterior on the end relative to the turning
       // point, on the fit's own covariance (fit/cutPastTurningPoint.ts relativeCut), where the
@@ -851,7 +852,10 @@ async function analyzeLayers(
         // beta held within [0, 1]: the end moved no further than the relative reading (beta read
         // 1.2–1.3 on the spikes mirror; held, its chips' last layers RMS 0.402 → 0.373 %, seeds 15–30).
         if (rel) shiftNm = relativeCutShiftNm(loggedNm, tpNm, rel.sigmaNm, Math.min(Math.max(rel.beta, 0), 1), o.turningPointOvershootPct);
+        if (rel) seenSigmaNm = rel.sigmaNm;
       }
+      // Only where that σ could show a cut later than the overshoot allows (overshootSeen).
+      if (!overshootSeen(seenSigmaNm, (tpNm * Math.max(o.turningPointOvershootPct, 0)) / 100)) shiftNm = 0;
       const d = e.thicknessNm + shiftNm;
       const T = lawTimeToThickness(e, w, d, s.fit.durationS);
       if (Number.isFinite(T)) s.fit.durationS = s.refit.durationS = T;

@@ -41,6 +41,17 @@ export function truncatedNormalMoments(mean: number, sigma: number, lo: number, 
  * uniform prior on [d_TP, d_TP·(1 + overshootPct/100)] (truncatedNormalMoments), the mean only:
  * d_TP itself carries the index's and the stack's errors, which the fit's σ holds.
  */
+/**
+ * Whether a reading of σ could show a cut later than the controller's overshoot allows (width
+ * `widthNm`): only then does cutPastTurningPointNm's gate let a late cut through, so only then is
+ * the prior applied (the caller's check, on the σ the posterior is taken with). Where σ is wider than the interval, the prior would pull any late cut into it: the
+ * demo's single MgF2 layer, cut 6.3 % QWOT late (a hand cut) and read +3.0 ± 2.5 % QWOT, read
+ * +0.5 % with the prior, which hides exactly what the operator reviews.
+ */
+export function overshootSeen(sigmaNm: number, widthNm: number): boolean {
+  return sigmaNm <= widthNm;
+}
+
 export function cutPastTurningPointNm(loggedNm: number, sigmaNm: number, turningPointNm: number, overshootPct: number): number {
   const hi = turningPointNm * (1 + Math.max(overshootPct, 0) / 100);
   // A reading beyond CONTRADICTS σ outside the interval says the controller did not cut so: the reading stands.
