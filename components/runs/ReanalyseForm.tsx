@@ -130,7 +130,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-cut-past">A chip&apos;s last turning-point cut at or past its fitted turning point, by up to the overshoot (where the controller cuts after it sees the turning point)</label>
+          <label htmlFor="re-cut-past">A chip&apos;s last turning-point cut held at or past its fitted turning point, by up to the overshoot below, where the reading is sharp enough to show a later cut (a controller that cuts once it sees the turning point; a hand cut well past it stands)</label>
           <select id="re-cut-past" name="cutPastTurningPoint" className={select} defaultValue="both">
             <option value="both">In both modes (default)</option>
             <option value="refit">In the joint re-fit only</option>
@@ -150,7 +150,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           <input id="re-unmeasured" name="unmeasuredOffset" type="number" min="0" max="5" step="0.05" placeholder="0.3 (default)" className={select} />
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-overshoot">Without a layer column: how far past a turning point the controller may cut, % of the layer (its mean into the thickness, its spread into σ)</label>
+          <label htmlFor="re-overshoot">The controller&apos;s overshoot: how far past a turning point the controller may cut, % of the layer (without a layer column its mean goes into the thickness, its spread into σ; it also bounds the held last cut above)</label>
           <input id="re-overshoot" name="turningPointOvershoot" type="number" min="0" max="10" step="0.1" placeholder="1 (default)" className={select} />
         </div>
         <div className="flex flex-col justify-end gap-1 text-sm sm:col-span-2 lg:col-span-4">
