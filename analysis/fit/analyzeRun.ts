@@ -812,7 +812,6 @@ async function analyzeLayers(
     // A chip whose windows show the rate's start-up as the shutter opens: as without the option.
     for (const chip of startedUp) {
       const chipStates = chipLayers.get(chip)!;
-      warnings.push(`chip ${chip}: its level cuts fitted alone, not with the next two layers: those layers' starts show the rate starting up as the shutter opens`);
       chipStates.forEach((s) => asPassed.get(s)!());
       if (ends && o.fitOnFinalStack) chipStates.forEach((s, j) => fitOnFinalStack(s, chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm))));
     }
