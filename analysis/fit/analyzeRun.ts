@@ -53,7 +53,7 @@ import { binsOnExposureClocks } from './profileBins';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { driftAtDelay, jointStartDelayProfile, pooledLevelDelay, type JointStartDelayProfile } from './jointStartDelay';
 import { withLampReference } from './lampReference';
-import { fitWithNextLayers, type PairPart } from './fitWithNextLayer';
+import { fitWithNextLayers, withRefitted, type PairPart } from './fitWithNextLayer';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -1093,10 +1093,8 @@ function fitOnFinalStack(s: LayerState, below: LayerAt[]): void {
   if (!s.fittedOn || below.length === 0) return;
   const was = s.fittedOn.below;
   if (below.length === was.length && below.every((b, k) => b.n.re === was[k].n.re && Math.abs(b.thicknessNm - was[k].thicknessNm) <= 1e-9 * b.thicknessNm)) return;
-  const e = s.estimate;
-  const { index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient, thicknessNm, opticalThicknessNm } = s.fittedOn.again(below, e).layers[0];
   // The σ stay those of the pass (the stack's, the growth's and the gain's carried into them).
-  s.estimate = { ...e, index, rateNmPerS, rateDriftNmPerS2, gain, thicknessNm, opticalThicknessNm, ...(wander ? { wander } : {}), ...(indexGradient !== undefined ? { indexGradient } : {}) };
+  s.estimate = withRefitted(s.estimate, s.fittedOn.again(below, s.estimate).layers[0]);
   s.fittedOn.below = below;
 }
 

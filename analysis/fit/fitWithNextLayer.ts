@@ -12,6 +12,12 @@ export interface PairPart {
   gainPrior?: { fraction: number; noiseSigma: number };
 }
 
+/** A layer's estimate with a later fit's values in place of its own; its σ (and all else) kept, those of the pass. */
+export function withRefitted(e: LayerEstimate, fitted: JointFitResult['layers'][number]): LayerEstimate {
+  const { index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient, thicknessNm, opticalThicknessNm } = fitted;
+  return { ...e, index, rateNmPerS, rateDriftNmPerS2, gain, thicknessNm, opticalThicknessNm, ...(wander ? { wander } : {}), ...(indexGradient !== undefined ? { indexGradient } : {}) };
+}
+
 /** Layers in each joint fit: the level-cut layer and the two above it on its chip. */
 export const NEXT_LAYER_WINDOW = 3;
 
@@ -71,8 +77,7 @@ export function fitWithNextLayers(chipLayers: ReadonlyMap<number, LayerState[]>,
       // the level cuts keep the window's estimates (the next window starts from them); the turning-point cuts their own fits
       window.forEach((p, k) => {
         if (p.design.monitor.cut !== 'level') return;
-        const { index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient, thicknessNm, opticalThicknessNm } = result.layers[k];
-        p.estimate = { ...p.estimate, index, rateNmPerS, rateDriftNmPerS2, gain, thicknessNm, opticalThicknessNm, ...(wander ? { wander } : {}), ...(indexGradient !== undefined ? { indexGradient } : {}) };
+        p.estimate = withRefitted(p.estimate, result.layers[k]);
       });
     }
   }
