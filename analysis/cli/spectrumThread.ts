@@ -20,7 +20,7 @@ import { rowsBlockFromFile, type RowsBlockAnswer, type RowsBlockRequest } from '
 // then the trace's warnings that read its samples (sampleWarningsOf, the columns on shared memory)
 // while the main one segments the run.
 
-type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | StartDelayProfile | WanderPrep | RowsBlockAnswer | TraceWarning[] | null;
+type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | (StartDelayProfile | null)[] | WanderPrep | RowsBlockAnswer | TraceWarning[] | null;
 
 /** The trace's warnings that read its samples (traceWarnings), its columns on shared memory. */
 export interface SampleWarningsRequest {
@@ -161,7 +161,7 @@ export function startSpectrumThread(entry: URL): {
   return {
     spectrumOf: (tauS, y, wavelengthNm, index, work) =>
       ask({ id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) }) as Promise<LayerSpectrum & Partial<SampleWorkResult>>,
-    startDelayProfileOf: (profile) => ask({ id: next++, profile }) as Promise<StartDelayProfile | null>,
+    startDelayProfileOf: (profile) => ask({ id: next++, profile }) as Promise<(StartDelayProfile | null)[]>,
     wanderPrepOf: (wander) => ask({ id: next++, wander }) as Promise<WanderPrep>,
     rowsBlockOf: (rows) => ask({ id: next++, rows }) as Promise<RowsBlockAnswer | null>,
     sampleWarningsOf: (sampleWarnings) => ask({ id: next++, sampleWarnings }) as Promise<TraceWarning[]>,

@@ -48,7 +48,7 @@ import { poolIndices } from './pooledIndex';
 import { addWanderVariance, wanderErrorVariances, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
 import { pooledStartDelay, type PooledStartDelay, type StartDelayProfile } from './startDelay';
-import { profileFromRequest, startDelayRequest } from './startDelayRequest';
+import { profileFromRequest, startDelayLayerRequest, type StartDelayLayerRequest } from './startDelayRequest';
 import { binsOnExposureClocks } from './profileBins';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { driftAtDelay, jointStartDelayProfile, pooledLevelDelay, type JointStartDelayProfile } from './jointStartDelay';
@@ -227,7 +227,7 @@ async function analyzeSignal(design: Design, trace: TraceData, options: AnalyzeO
  */
 export async function findStartDelay(design: Design, trace: TraceData, options: AnalyzeOptions = {}, basis?: RunBasis): Promise<PooledStartDelay | null> {
   if (!trace.layer) return null;
-  const profiles: Promise<StartDelayProfile | null>[] = [];
+  const profiles: Promise<(StartDelayProfile | null)[]>[] = [];
   // Without the next layer's start read as growth below: that reading takes up the start delay
   // (near an extremum both first add a slope at the start; measured on the chamber simulator the
   // layers' profiles then came out flat), so here the growth stands on the idle levels.
@@ -236,7 +236,7 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   // and 1.253 ± 0.375 s on 400; 200 took 2/3 the CPU of 400).
   const maxFitPoints = Math.min(options.maxFitPoints ?? ANALYZE_DEFAULTS.maxFitPoints, PROFILE_PASS_POINTS);
   await analyzeLayers(design, trace, { ...options, mode: 'sequential', modelSeries: false, onProgress: undefined, growthFromNext: false, maxFitPoints }, { delayS: 0, profiles }, basis);
-  return pooledStartDelay((await Promise.all(profiles)).filter((p): p is StartDelayProfile => p !== null));
+  return pooledStartDelay((await Promise.all(profiles)).flat().filter((p): p is StartDelayProfile => p !== null));
 }
 
 /** Option levelStartTransient on a run with a layer column whose every layer is cut on level. */
@@ -265,7 +265,7 @@ const PROFILE_PASS_POINTS = 100;
 interface PassTransient {
   delayS: number;
   sigmaS?: number;
-  profiles?: Promise<StartDelayProfile | null>[];
+  profiles?: Promise<(StartDelayProfile | null)[]>[];
   /** Level-cut layers on the exposure clock too (option levelStartTransient). */
   levelOnClock?: boolean;
   /** Where to put each chip's profile from its final joint fit (a pass in refit mode; fit/jointStartDelay.ts). */
@@ -406,6 +406,9 @@ async function analyzeLayers(
       laterChoices.delete(built);
     }
   };
+  // The start delay's profiles, chip by chip (each chip's layers in order, sent after its last).
+  const profileChains = new Map<number, StartDelayLayerRequest[]>();
+  const lastOfChip = new Map(order.map((l) => [samplesByLayer.get(l.layer)!.chip, l.layer]));
   let done = 0;
   for (const dl of order) {
     const samples = samplesByLayer.get(dl.layer)!;
@@ -542,16 +545,27 @@ async function analyzeLayers(
         }
       }
     }
-    if (transient.profiles && !byDesign && !separation?.hold && fit.fitDrift && dl.monitor.cut === 'turning-point') {
-      // This layer's χ² in the run's start delay, on the stack below as the pass holds it.
-      // (computed where startDelayProfileOf puts it, e.g. the second thread, while this one fits on)
+    if (transient.profiles && !byDesign) {
+      // This layer in its chip's chain of profiles in the run's start delay, each layer refitted at
+      // every δ on the layers below refitted at that δ (fit/startDelayChain.ts); its χ² counted
+      // where it is a turning-point cut with its index fitted. Sent when the chip's last layer is
+      // fitted, computed where startDelayProfileOf puts it (e.g. the second thread) while this one fits on.
       const e = single.layers[0];
-      const request = startDelayRequest({
-        below: below.slice(), start: e, offsetSignal: calibration.offset,
-        ...(ends?.growthBelow(chip) && heldIndex === null ? { growthBelow: { heldNm: ends.growthBelow(chip)!.deltaNm, rateNmPerS: ends.growthBelow(chip)!.rateNmPerS } } : {}),
+      const real = gathered.get(dl.layer)!;
+      const profiled = !separation?.hold && fit.fitDrift && dl.monitor.cut === 'turning-point';
+      const growth = profiled && heldIndex === null ? ends?.growthBelow(chip) : null;
+      const chain = profileChains.get(chip) ?? [];
+      chain.push(startDelayLayerRequest({
+        below: below.slice(), start: e, offsetSignal: calibration.offset, onClock: onClock(dl.layer), profiled,
+        ...(growth ? { growthBelow: { heldNm: growth.deltaNm, rateNmPerS: growth.rateNmPerS } } : {}),
         ...gainPrior,
-      }, fit, model, samples.tauS, sampleReadings(trace.signal, samples.indices));
-      transient.profiles.push(o.startDelayProfileOf ? o.startDelayProfileOf(request) : Promise.resolve(profileFromRequest(request)));
+      }, { ...fit, durationS: real.tauS[real.tauS.length - 1] }, model, real.tauS, sampleReadings(trace.signal, real.indices)));
+      profileChains.set(chip, chain);
+      if (lastOfChip.get(chip) === dl.layer) {
+        profileChains.delete(chip);
+        const request = { layers: chain };
+        transient.profiles.push(o.startDelayProfileOf ? o.startDelayProfileOf(request) : Promise.resolve(profileFromRequest(request)));
+      }
     }
     // Not inside boundaries placed on the design's curve (no layer column): those were placed with a
     // steady rate, and the knots then take up the placement's error (measured on the no-layer
@@ -726,6 +740,11 @@ async function analyzeLayers(
     if (done % 4 === 0) await Promise.resolve();
   }
 
+  // (a chip whose last layer had too few samples to fit: its chain is sent here)
+  for (const chain of profileChains.values()) {
+    const request = { layers: chain };
+    transient.profiles?.push(o.startDelayProfileOf ? o.startDelayProfileOf(request) : Promise.resolve(profileFromRequest(request)));
+  }
   if (transient.profiles) return null;
   if (o.mode === 'refit') {
     // Thin layers: hold at the drift estimate from the whole run, then one final joint fit per chip.

@@ -1,49 +1,64 @@
 import { indexAt, type MaterialModel } from '../materials';
-import { type Complex } from '../optics';
-import { type FitLayerData } from './layerModel';
+import { type Complex, type LayerAt } from '../optics';
+import { type FitLayerData, type LayerParams } from './layerModel';
 import { binsOnExposureClocks } from './profileBins';
-import { PROFILE_POINTS, startDelayProfile, type StartDelayProfile, type StartDelayProfileInput } from './startDelay';
+import { PROFILE_POINTS, type StartDelayProfile } from './startDelay';
+import { chainedStartDelayProfiles } from './startDelayChain';
 import { exposureTime } from './startTransient';
 
-/**
- * One layer's start-delay profile (fit/startDelay.ts) as plain data, so another thread can
- * compute it (AnalyzeOptions.startDelayProfileOf) while this one fits the next layers: the
- * profile is only read once the pass is over. The layer's fit data less its samples and its
- * nominal index function (rebuilt from the material's model), and its samples on the real clock.
- */
-export interface StartDelayProfileRequest extends Omit<StartDelayProfileInput, 'dataAt'> {
+/** One layer of a chip's request: its fit data less its samples and nominal index function, and its samples on the real clock. */
+export interface StartDelayLayerRequest {
   layer: Omit<FitLayerData, 'nominalAt' | 'tauS' | 'y'>;
   material: MaterialModel;
   /** The layer's samples: time since its start, s (real clock, no delay), and readings. */
   tauS: Float64Array;
   y: Float64Array;
+  /** Its samples go on δ's exposure clock (a turning-point cut), else stay on real time. */
+  onClock: boolean;
+  start: LayerParams;
+  below: LayerAt[];
+  offsetSignal: number;
+  gainPrior?: { fraction: number; noiseSigma: number };
+  profiled: boolean;
+  growthBelow?: { heldNm: number; rateNmPerS: number };
 }
 
-/** The request for a layer's profile; `fit` the layer's fit data (its bins are not sent: the samples are). */
-export function startDelayRequest(
-  input: Omit<StartDelayProfileInput, 'dataAt'>, fit: FitLayerData, material: MaterialModel, tauS: Float64Array, y: Float64Array,
-): StartDelayProfileRequest {
+/**
+ * A chip's layers for the start delay's profiles (fit/startDelayChain.ts) as plain data, so
+ * another thread can compute them (AnalyzeOptions.startDelayProfileOf) while this one fits the
+ * next chips: the profiles are only read once the pass is over.
+ */
+export interface StartDelayProfileRequest {
+  layers: StartDelayLayerRequest[];
+}
+
+/** One layer's part of a chip's request; `fit` the layer's fit data (its bins are not sent: the samples are), its durationS the logged end in real time. */
+export function startDelayLayerRequest(
+  input: Omit<StartDelayLayerRequest, 'layer' | 'material' | 'tauS' | 'y'>, fit: FitLayerData, material: MaterialModel, tauS: Float64Array, y: Float64Array,
+): StartDelayLayerRequest {
   const { nominalAt: _n, tauS: _t, y: _y, ...layer } = fit;
   return { ...input, layer, material, tauS, y };
 }
 
-/** startDelayProfile of a request: the same figures wherever it runs (the same functions on the same values). */
-export function profileFromRequest(r: StartDelayProfileRequest): StartDelayProfile | null {
-  const memo = new Map<number, Complex>();
-  const nominalAt = (w: number) => {
-    let v = memo.get(w);
-    if (!v) memo.set(w, (v = indexAt(r.material, w)));
-    return v;
-  };
-  const own = new Int32Array(r.y.length);
-  for (let i = 0; i < own.length; i++) own[i] = i;
-  const bins = binsOnExposureClocks(r.tauS, own, r.y, PROFILE_POINTS);
-  const { layer, material: _m, tauS: _t, y: _y, ...input } = r;
-  return startDelayProfile({
-    ...input,
-    dataAt: (delayS) => {
-      const b = bins(delayS);
-      return { ...layer, nominalAt, tauS: b.tauS, y: b.y, durationS: exposureTime(layer.durationS, delayS) };
-    },
-  });
+/** The profiles of a chip's request, one per layer (null for a layer not profiled or whose fits failed): the same figures wherever it runs. */
+export function profileFromRequest(r: StartDelayProfileRequest): (StartDelayProfile | null)[] {
+  return chainedStartDelayProfiles(r.layers.map((l) => {
+    const memo = new Map<number, Complex>();
+    const nominalAt = (w: number) => {
+      let v = memo.get(w);
+      if (!v) memo.set(w, (v = indexAt(l.material, w)));
+      return v;
+    };
+    const own = new Int32Array(l.y.length);
+    for (let i = 0; i < own.length; i++) own[i] = i;
+    const bins = binsOnExposureClocks(l.tauS, own, l.y, PROFILE_POINTS);
+    return {
+      start: l.start, loggedS: l.layer.durationS, below: l.below, offsetSignal: l.offsetSignal, profiled: l.profiled,
+      ...(l.gainPrior ? { gainPrior: l.gainPrior } : {}), ...(l.growthBelow ? { growthBelow: l.growthBelow } : {}),
+      dataAt: (delayS: number) => {
+        const b = bins(l.onClock ? delayS : 0);
+        return { ...l.layer, nominalAt, tauS: b.tauS, y: b.y, durationS: l.onClock ? exposureTime(l.layer.durationS, delayS) : l.layer.durationS };
+      },
+    };
+  }));
 }

@@ -111,7 +111,7 @@ function delayShift(
  */
 export function startDelayNote(p: PooledStartDelay, over: 'layer' | 'chip' = 'layer', driftOnly = false): string {
   const found = `start transient: the rate reaches its full value as if the shutter opened ${p.delayS.toFixed(2)} ± ${p.sigmaS.toFixed(2)} s late ` +
-    `(pooled over ${p.layers} ${over === 'chip' ? (p.layers === 1 ? 'chip\'s joint fit' : 'chips\' joint fits') : 'layers'}${p.shutterS !== null ? `, with growth after turning-point cuts of ${p.shutterS.toFixed(2)} s at the full rate` : ''}, χ² lower by ${p.gainChi2.toFixed(1)})`;
+    `(pooled over ${p.layers} ${over === 'chip' ? (p.layers === 1 ? 'chip\'s joint fit' : 'chips\' joint fits') : 'layers'}${p.shutterS !== null ? `, with growth after turning-point cuts of ${p.shutterS.toFixed(2)} s at the full rate` : ''}, χ² lower by ${p.gainChi2.toFixed(1)}${over === 'layer' && p.dispersion > 1 ? `, ${(p.gainChi2 / p.dispersion).toFixed(1)} on the layers' own scatter` : ''})`;
   if (p.kept && driftOnly) return `${found}; each chip's gain drift held at its value there, the layers fitted on real time`;
   return p.kept ? `${found}; every layer fitted with it` : `${found}: not kept (not above the margin of ${p.marginChi2.toFixed(1)}); layers fitted without it`;
 }

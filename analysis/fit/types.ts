@@ -469,11 +469,11 @@ export interface AnalyzeOptions {
    */
   spectrumOf?: (tauS: Float64Array, y: Float64Array, wavelengthNm: number, index: number, work?: SampleWork) => Promise<LayerSpectrum & Partial<SampleWorkResult>>;
   /**
-   * Computes a layer's start-delay profile elsewhere, e.g. on another thread (the profiling pass
+   * Computes a chip's start-delay profiles elsewhere, e.g. on another thread (the profiling pass
    * reads the profiles only once it is over); it must resolve to what profileFromRequest returns.
    * @default profileFromRequest, on this thread
    */
-  startDelayProfileOf?: (request: StartDelayProfileRequest) => Promise<StartDelayProfile | null>;
+  startDelayProfileOf?: (request: StartDelayProfileRequest) => Promise<(StartDelayProfile | null)[]>;
   /**
    * Makes the pool-free part of a layer's wander choice (prepareRateWander) elsewhere, e.g. on
    * another thread, where the choice is read only once the pass's fits are done (refit with

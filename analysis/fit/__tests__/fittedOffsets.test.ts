@@ -82,9 +82,10 @@ describe('an offset fitted in transmittance', () => {
     const fitted = await analyzeRun(design, trace);
     const assumed = await analyzeRun(design, trace, { fitOffset: false });
     for (const c of fitted.chips) {
-      // averaged with the zero assumed (option offsetAveraging), the fit, about 3σ out, nearly wholly taken (measured 0.98)
+      // averaged with the zero assumed (option offsetAveraging), the fit, about 3σ out, mostly taken (measured 0.91; 0.98
+      // while a false start delay of 0.12 s was kept, a parabola's vertex inside the delay grid's first step)
       expect(c.offsetSource).toBe('averaged');
-      expect(c.offsetWeight).toBeGreaterThan(0.95);
+      expect(c.offsetWeight).toBeGreaterThan(0.9);
       expect(Math.abs(c.offset - 0.005)).toBeLessThan(3 * c.offsetSigma);
       // σ: the pooled profile's and the systematic 0.15 % of full scale, in quadrature.
       expect(c.offsetSigma).toBeGreaterThan(0.0015);
