@@ -154,6 +154,7 @@ export const ANALYZE_DEFAULTS = {
   holdUncarriedDrift: true,
   startTransient: true,
   levelStartTransient: false,
+  sequentialLevelClock: false,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -209,9 +210,10 @@ async function analyzeSignal(design: Design, trace: TraceData, options: AnalyzeO
   }
   // (where kept, the drift is fitted as the profile fitted it: held at δ̂, its estimate takes up the start-up again)
   // (sequential mode holds each chip's drift at the profile's, fit/jointStartDelay.ts driftAtDelay, its
-  // level cuts on real time: each layer's own fit on δ̂'s clock took δ's error into its thickness,
-  // layer 4 of the chamber BBAR about 1.7 % per second of δ, where the unmodelled ramp cost it less)
-  const levelOnRealTime = level && (options.mode ?? ANALYZE_DEFAULTS.mode) === 'sequential';
+  // level cuts on real time unless option sequentialLevelClock: each layer's own fit on δ̂'s clock
+  // took δ's error into its thickness where the lamp's prior let the drift trade with δ, layer 4 of
+  // the chamber BBAR about 1.7 % per second of δ, where the unmodelled ramp cost it less)
+  const levelOnRealTime = level && (options.mode ?? ANALYZE_DEFAULTS.mode) === 'sequential' && !(options.sequentialLevelClock ?? ANALYZE_DEFAULTS.sequentialLevelClock);
   const result = await analyzePass(design, trace, level ? { ...options, lampDriftFit: true } : options, {
     ...(levelOnRealTime ? { delayS: 0 } : { delayS: pooled.delayS, sigmaS: pooled.sigmaS, levelOnClock: level }),
     ...(levelFound ? { heldDrifts: levelFound.chipDrifts } : {}),

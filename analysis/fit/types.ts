@@ -440,6 +440,23 @@ export interface AnalyzeOptions {
    * 0.0092). @default false (true with a reference column)
    */
   levelStartTransient?: boolean;
+  /**
+   * Sequential mode, where option levelStartTransient keeps a start delay δ̂ on a run cut only on
+   * level: each level cut's own fit on δ̂'s exposure clock (fit/startTransient.ts), δ's σ carried
+   * (fit/startDelaySigma.ts), instead of on real time with only the chip's drift held at the
+   * profile's γ(δ̂). On real time a layer's law d = r·τ + a·τ²/2 starts at the logged start and
+   * takes the start-up's lag of about r·δ into its rate and end. Measured on the chamber
+   * simulator's four-layer AR with a lamp reference (ramp 1.5 s), sequential, seeds 21–36: layer 1
+   * (0.22 QWOT) n·d −1.61 → −0.18 % on average (RMS 1.79 → 0.90 %), layer 2 (0.41 QWOT) +1.56 →
+   * +1.01 %, index +0.0082 → +0.0038, layer 4 +0.55 → −0.53 % (RMS 0.96 → 0.79 %; the ramp had
+   * offset its own bias, as in refit), thickness max 1.64 → 2.00 %, RMS 0.69 → 0.57 %, index
+   * 0.0084 → 0.0079, cut 1.63 → 1.97 % QWOT, coverage 100 %; seeds 37–52 max 2.79 → 1.16 %, RMS
+   * 0.98 → 0.42 %, index 0.0124 → 0.0096, cut 2.46 → 1.92 % QWOT. Not without a reference: there
+   * the drift's prior of 1 %/h lets γ take up δ's error (real-chamber BBAR with levelStartTransient,
+   * seeds 21–36: layer 4 max 2.56 → 3.89 %, RMS 1.25 → 1.63 %, though layer 1 −1.27 → −0.10 %).
+   * @default false (true with a reference column, fit/lampReference.ts)
+   */
+  sequentialLevelClock?: boolean;
   /** …or when its trial fit's index σ exceeds this. @default 0.05 */
   heldIndexSigma?: number;
   /** The index a thin layer is held at: the nominal, or this run's drift estimate. @default 'run-drift' */

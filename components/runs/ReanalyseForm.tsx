@@ -55,6 +55,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     const levelStart = form.get('levelStartTransient');
     if (levelStart === 'on') settings.levelStartTransient = true;
     if (levelStart === 'off') settings.levelStartTransient = false;
+    const levelClock = form.get('sequentialLevelClock');
+    if (levelClock === 'on') settings.sequentialLevelClock = true;
+    if (levelClock === 'off') settings.sequentialLevelClock = false;
     const overshoot = String(form.get('turningPointOvershoot') ?? '').trim();
     if (overshoot !== '') settings.turningPointOvershootPct = Number(overshoot);
     const cutPast = form.get('cutPastTurningPoint');
@@ -124,6 +127,14 @@ export function ReanalyseForm({ runId }: { runId: number }) {
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
           <label htmlFor="re-level-start">On a run cut only on level: the rate&apos;s start-up as the shutter opens, found with the lamp drift in each chip&apos;s joint fit</label>
           <select id="re-level-start" name="levelStartTransient" className={select} defaultValue="">
+            <option value="">Where the trace has a lamp reference column (default)</option>
+            <option value="on">Always</option>
+            <option value="off">Never</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-level-clock">Layer by layer, where that start-up is found: each level cut fitted on its clock (else on real time, the chip&apos;s lamp drift held as found with it)</label>
+          <select id="re-level-clock" name="sequentialLevelClock" className={select} defaultValue="">
             <option value="">Where the trace has a lamp reference column (default)</option>
             <option value="on">Always</option>
             <option value="off">Never</option>

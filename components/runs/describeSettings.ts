@@ -21,6 +21,8 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.startTransient === false) parts.push('no start-up at the shutter');
   if (s.levelStartTransient === true) parts.push('start-up on level cuts');
   if (s.levelStartTransient === false) parts.push('no start-up on level cuts');
+  if (s.sequentialLevelClock === true) parts.push("level cuts on the start-up's clock layer by layer");
+  if (s.sequentialLevelClock === false) parts.push('level cuts on real time layer by layer');
   if (s.holdUncarriedDrift === false) parts.push('every rate drift free');
   if (s.indexGradient === true) parts.push('index gradient in thick layers');
   if (s.shutterTimeGrowth === 'bounded') parts.push("last layers' growth within 0–2 s of shutter time");

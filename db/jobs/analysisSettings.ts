@@ -24,6 +24,7 @@ export const analysisSettingsSchema = z
     rateWander: z.boolean().optional(),
     startTransient: z.boolean().optional(),
     levelStartTransient: z.boolean().optional(),
+    sequentialLevelClock: z.boolean().optional(),
     holdUncarriedDrift: z.boolean().optional(),
     indexGradient: z.boolean().optional(),
     growthFromNext: z.boolean().optional(),

@@ -40,6 +40,12 @@ describe('analysis settings', () => {
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', unmeasuredOffsetSigma: 0.005, levelStartTransient: false }))).toBe(
       'refit · unmeasured offset σ 0.5 % of full scale · no start-up on level cuts',
     );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', levelStartTransient: true, sequentialLevelClock: false }))).toBe(
+      'sequential · start-up on level cuts · level cuts on real time layer by layer',
+    );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', sequentialLevelClock: true }))).toBe(
+      "sequential · level cuts on the start-up's clock layer by layer",
+    );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', shutterTimeGrowth: 'run-mean' }))).toBe(
       "sequential · last layers' growth at the run's shutter time",
     );
