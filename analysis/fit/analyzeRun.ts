@@ -144,6 +144,7 @@ export const ANALYZE_DEFAULTS = {
   wanderSigma: true,
   indexGradient: false,
   growthFromNext: true,
+  levelGrowthFromNext: true,
   fitOnFinalStack: true,
   fitWithNextLayer: true,
   stackFromLayer: false,
@@ -350,7 +351,7 @@ async function analyzeLayers(
   };
   const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
   const { idleModel, noiseFloor } = basis.noise();
-  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth);
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth, o.levelGrowthFromNext);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma, o.offsetAveraging, o.unmeasuredOffsetSigma);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));

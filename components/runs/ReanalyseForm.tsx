@@ -69,7 +69,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
     for (const key of ['rateWander', 'indexGradient', 'stackFromLayer'] as const) if (form.get(key) === 'on') settings[key] = true;
-    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack', 'fitWithNextLayer', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
+    for (const key of ['growthFromNext', 'levelGrowthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack', 'fitWithNextLayer', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
     if (res.status === 201 && body.analysis) {
@@ -193,6 +193,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="pooledIndex" defaultChecked /> Read each material&apos;s indices together (a layer&apos;s index from its material&apos;s trend across the run and its own reading; n·d kept)
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="levelGrowthFromNext" defaultChecked /> Joint re-fit: read a level cut&apos;s growth after the cut again from the next layer&apos;s start where that layer is a turning-point cut (as after a turning-point cut)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="fitOnFinalStack" defaultChecked /> Layer by layer: fit a layer again where the stack below it changed after its fit (the growths after the cuts read again once the run&apos;s shutter time is known)

@@ -28,6 +28,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.shutterTimeGrowth === 'bounded') parts.push("last layers' growth within 0–2 s of shutter time");
   if (s.shutterTimeGrowth === 'run-mean') parts.push("last layers' growth at the run's shutter time");
   if (s.growthFromNext === false) parts.push('growth after turning-point cuts in σ only');
+  if (s.levelGrowthFromNext === false) parts.push('growth after level cuts from the idle level only');
   if (s.turningPointExcessMean === false) parts.push('turning-point cuts placed on the turning point');
   if (s.pooledIndex === false) parts.push('each index read alone');
   if (s.fitOnFinalStack === false) parts.push('each layer fitted once');

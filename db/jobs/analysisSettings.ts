@@ -28,6 +28,7 @@ export const analysisSettingsSchema = z
     holdUncarriedDrift: z.boolean().optional(),
     indexGradient: z.boolean().optional(),
     growthFromNext: z.boolean().optional(),
+    levelGrowthFromNext: z.boolean().optional(),
     shutterTimeGrowth: z.enum(['bounded', 'run-mean']).optional(),
     turningPointOvershootPct: z.number().min(0).max(10).optional(),
     turningPointExcessMean: z.boolean().optional(),
