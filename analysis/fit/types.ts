@@ -222,7 +222,9 @@ export interface AnalyzeOptions {
    * Sequential mode: once the pass is over, each layer cut on level fitted again jointly with the
    * next two on its chip, bottom up, on the stack below as it then stands, the rate drifts its
    * layers' data do not carry held at 0; a held thin layer cut on level first takes its index
-   * from the whole run (as refit holds it); σ kept (fit/fitWithNextLayer.ts; turning-point cuts
+   * from the whole run (as refit holds it), and once the windows are done again from the layers
+   * as they left them, its own window fitted again (fitHeldAgain: thin level cuts in R, seeds
+   * 71–86, the chip's first layer n·d max 2.93 → 0.78 %); σ kept (fit/fitWithNextLayer.ts; turning-point cuts
    * keep their own fits, fitted again on the final stack under fitOnFinalStack). A level cut's own
    * samples leave its index and thickness on one curve (and tell a thickness just past a turning
    * point little); the layers that grow on it pin the rest. White-noise BBAR, seeds 11–26: max
