@@ -129,7 +129,9 @@ function fitWindow(chipStates: readonly LayerState[], j: number, robust: boolean
  * admittance the window reads; the lamp and detector are the chip's, one gain for the window
  * (with the chip's held drift), as refit's final joint fit and reflectanceChipGain take it. Thin
  * level cuts in R, seeds 71–86: layer 3 (1.2 QWOT on a 0.4-QWOT layer) RMS 1.53 → 0.70 %, cut max
- * 2.71 → 1.63 % QWOT; every layer's RMS lower. Not in transmittance: the four-layer AR without a
+ * 2.71 → 1.63 % QWOT; every layer's RMS lower; with the simulator's lamp drifting +1 %/h, max
+ * 3.35 → 3.07 %, RMS 1.34 → 0.91 %; −1 %/h with stray light 0.2 %, 3.67 → 3.43 %, 1.58 → 1.16 %
+ * (the held drift in the window's gain). Not in transmittance: the four-layer AR without a
  * layer column, seeds 33–44, its last layer (1.03 QWOT, cut just past its turning point) went
  * 0.50 → 0.63 % RMS, max 0.93 → 1.57 %.
  */
