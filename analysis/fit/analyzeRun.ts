@@ -53,7 +53,7 @@ import { binsOnExposureClocks } from './profileBins';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { driftAtDelay, jointStartDelayProfile, pooledLevelDelay, type JointStartDelayProfile } from './jointStartDelay';
 import { withLampReference } from './lampReference';
-import { fitWithNextLayers, withRefitted, type PairPart } from './fitWithNextLayer';
+import { fitHeldAgain, fitWithNextLayers, withRefitted, type PairPart } from './fitWithNextLayer';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -817,6 +817,16 @@ async function analyzeLayers(
       const chipStates = chipLayers.get(chip)!;
       chipStates.forEach((s) => asPassed.get(s)!());
       if (ends && o.fitOnFinalStack) chipStates.forEach((s, j) => fitOnFinalStack(s, chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm))));
+    }
+    if (o.heldIndex === 'run-drift') {
+      // Each held thin level cut's index once more from the whole run, now from the layers as the
+      // windows left them, and its own window fitted again (fit/fitWithNextLayer.ts fitHeldAgain);
+      // put back where no window could be fitted.
+      const held = states.filter((s) => s.design.monitor.cut === 'level' && s.pairPart && s.fit.heldIndex !== null && !startedUp.has(s.samples.chip));
+      const back = new Map(held.map((s) => [s, passedState(s)]));
+      holdAtRunDrift(states, held);
+      const again = fitHeldAgain(chipLayers, o.robustLoss, new Set(held));
+      held.forEach((s) => { if (!again.has(s)) back.get(s)!(); });
     }
   } else if (o.mode === 'sequential' && ends && o.fitOnFinalStack) {
     // Sequential: the layers whose stack below the growths' final reading moved, fitted again on it.
