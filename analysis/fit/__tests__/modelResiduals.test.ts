@@ -16,7 +16,7 @@ async function run(designName: string, traceName: string) {
 }
 
 describe('the layers\' residual sums made elsewhere (AnalyzeOptions.modelResidualsOf)', () => {
-  // the four-layer AR (level and turning-point cuts) and the 17-layer mirror with a rate spike
+  // the single-layer AR cut late past its turning point, and the 17-layer mirror with a rate spike
   it.each([['ar1-mgf2-crown.json', 'bay1-ar1-run0413-overshoot.csv'], ['hr17-mirror-600.json', 'bay3-hr17-run1121-spike.csv']])(
     'from a copy of each request, as another thread receives it, give the results made here: %s', async (designName, traceName) => {
       const { design, trace } = await run(designName, traceName);
@@ -40,7 +40,7 @@ describe('the layers\' residual sums made elsewhere (AnalyzeOptions.modelResidua
     }, 60_000);
 
   it("are the ones the results report: a sum four times as large reports residuals twice as large", async () => {
-    const { design, trace } = await run('ar1-mgf2-crown.json', 'bay1-ar1-run0412.csv');
+    const { design, trace } = await run('hr17-mirror-600.json', 'bay3-hr17-run1120.csv');
     const here = await analyzeRun(design, await trace(), { mode: 'refit' });
     const scaled = await analyzeRun(design, await trace(), { mode: 'refit', modelResidualsOf: async (r) => 4 * modelSquaredResiduals(r) });
     expect(scaled.layers.map((l) => l.residualRms / 2)).toEqual(here.layers.map((l) => expect.closeTo(l.residualRms, 12)));
