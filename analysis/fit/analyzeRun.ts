@@ -11,7 +11,7 @@ import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { gapsBetween, idleNoiseModel } from './idleNoiseModel';
 import { LayerEnds } from './layerEnds';
 import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOptics } from './layerModel';
-import { layerResidualRms, layerResult } from './layerResult';
+import { layerResidualRms, layerResult, modelResidualsRequest } from './layerResult';
 import { holdsChipGain, holdsLevelCutGain } from './levelCutGain';
 import { carryHeldGainSigma } from './heldGainSigma';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
@@ -963,7 +963,15 @@ async function analyzeLayers(
   // The gain drift's share of the thickness's and n·d's σ as reported (the index's taken above).
   for (const s of states) if (s.gainDriftShares) swapGainDriftShare(s.estimate, s.gainDriftShares, false);
   const model = o.modelSeries ? new Float64Array(trace.rowCount).fill(NaN) : undefined;
-  const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model));
+  const resultBelows = states.map(belowOf);
+  // each layer's residuals under its reported model, elsewhere where modelResidualsOf is given:
+  // asked for at once, awaited from the last down (a thread taking them from the first meets this one midway)
+  const squaredSums: (number | undefined)[] = [];
+  if (o.modelResidualsOf && !model) {
+    const asked = states.map((s, j) => o.modelResidualsOf!(modelResidualsRequest(s, resultBelows[j], trace)));
+    for (let j = asked.length - 1; j >= 0; j--) squaredSums[j] = await asked[j];
+  }
+  const layers = states.map((s, j) => layerResult(s, resultBelows[j], trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model, squaredSums[j]));
   const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum, ownIndex);
   return model ? { ...result, model } : result;
 }

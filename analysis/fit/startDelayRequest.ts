@@ -1,6 +1,7 @@
 import { indexAt, type MaterialModel } from '../materials';
 import { type Complex } from '../optics';
 import { type FitLayerData } from './layerModel';
+import { indexRange } from './layerSampleWork';
 import { binsOnExposureClocks } from './profileBins';
 import { PROFILE_POINTS, startDelayProfile, type StartDelayProfile, type StartDelayProfileInput } from './startDelay';
 import { exposureTime } from './startTransient';
@@ -35,8 +36,7 @@ export function profileFromRequest(r: StartDelayProfileRequest): StartDelayProfi
     if (!v) memo.set(w, (v = indexAt(r.material, w)));
     return v;
   };
-  const own = new Int32Array(r.y.length);
-  for (let i = 0; i < own.length; i++) own[i] = i;
+  const own = indexRange(r.y.length);
   const bins = binsOnExposureClocks(r.tauS, own, r.y, PROFILE_POINTS);
   const { layer, material: _m, tauS: _t, y: _y, ...input } = r;
   return startDelayProfile({

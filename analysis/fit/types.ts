@@ -1,6 +1,7 @@
 import { type MaterialDrift } from '../stats';
 import { type TraceWarning } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
+import { type ModelResidualsRequest } from './layerResult';
 import { type LayerSpectrum } from './layerSpectrum';
 import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
 import { type StartDelayProfile } from './startDelay';
@@ -531,6 +532,14 @@ export interface AnalyzeOptions {
    * @default chooseRateWander, on this thread, as each layer is fitted
    */
   wanderPrepOf?: (request: WanderChoiceRequest) => Promise<WanderPrep>;
+  /**
+   * Sums a layer's squared residuals under its reported model elsewhere, e.g. on another thread,
+   * for the layers' results (not with modelSeries); it must resolve to what
+   * modelSquaredResiduals (fit/layerResult.ts) returns. Asked for every layer at once; awaited
+   * from the last layer down, so a thread working from the first meets this one in the middle.
+   * @default modelSquaredResiduals's sum, on this thread, in layerResult
+   */
+  modelResidualsOf?: (request: ModelResidualsRequest) => PromiseLike<number>;
   /**
    * The trace's warnings that read its samples (trace/traceWarnings.ts), made elsewhere (e.g. on
    * another thread while the run is segmented and its start delay profiled): appended to
