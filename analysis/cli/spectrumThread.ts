@@ -1,4 +1,5 @@
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
+import { modelSquaredResiduals, type ModelResidualsRequest } from '../fit/layerResult';
 import { layerSpectrum, NO_SPECTRUM, type LayerSpectrum } from '../fit/layerSpectrum';
 import { layerSampleWork, type SampleWork, type SampleWorkResult } from '../fit/layerSampleWork';
 import { type StartDelayProfile } from '../fit/startDelay';
@@ -14,13 +15,14 @@ import { rowsBlockFromFile, type RowsBlockAnswer, type RowsBlockRequest } from '
 // The analyze command computes the layers' spectra (and the work on their samples that needs no
 // fit, layerSampleWork) on a second thread while the main one fits (AnalyzeOptions.spectrumOf),
 // the start delay's profiles while the profiling pass fits on (AnalyzeOptions.startDelayProfileOf),
-// and the pool-free part of a refit pass's wander choices (AnalyzeOptions.wanderPrepOf): the same
+// the pool-free part of a refit pass's wander choices (AnalyzeOptions.wanderPrepOf), and the
+// layers' residuals under their reported models (AnalyzeOptions.modelResidualsOf): the same
 // functions on the same values, so the same figures. Before those, it reads blocks of a large
 // trace from the file's end (rowsBlockOf, cli/traceBlocks.ts) while the main one reads from its start,
 // then the trace's warnings that read its samples (sampleWarningsOf, the columns on shared memory)
 // while the main one segments the run.
 
-type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | (StartDelayProfile | null)[] | WanderPrep | RowsBlockAnswer | TraceWarning[] | null;
+type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | (StartDelayProfile | null)[] | WanderPrep | RowsBlockAnswer | TraceWarning[] | number | null;
 
 /** The trace's warnings that read its samples (traceWarnings), its columns on shared memory. */
 export interface SampleWarningsRequest {
@@ -36,7 +38,8 @@ type Request = { id: number } & ({
   wavelengthNm: number;
   index: number;
   work?: SampleWork;
-} | { profile: StartDelayProfileRequest } | { wander: WanderChoiceRequest } | { rows: RowsBlockRequest } | { sampleWarnings: SampleWarningsRequest });
+} | { profile: StartDelayProfileRequest } | { wander: WanderChoiceRequest } | { rows: RowsBlockRequest } | { sampleWarnings: SampleWarningsRequest }
+  | { residuals: ModelResidualsRequest });
 
 /**
  * What the thread answers to a request (and this thread, here, when that one cannot): a block of
@@ -47,6 +50,7 @@ function answer(r: Request, here: boolean): Answer {
   if ('sampleWarnings' in r) return traceWarnings(r.sampleWarnings.trace, r.sampleWarnings.options);
   if ('profile' in r) return profileFromRequest(r.profile);
   if ('wander' in r) return wanderPrepFromRequest(r.wander);
+  if ('residuals' in r) return modelSquaredResiduals(r.residuals);
   const spectrum = r.work?.spectrum === false ? NO_SPECTRUM : layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
   return r.work ? { ...spectrum, ...layerSampleWork(r.tauS, r.y, r.work) } : spectrum;
 }
@@ -103,7 +107,7 @@ export function serveSpectra(): void {
  */
 export function startSpectrumThread(entry: URL): {
   spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; startDelayProfileOf: NonNullable<AnalyzeOptions['startDelayProfileOf']>;
-  wanderPrepOf: NonNullable<AnalyzeOptions['wanderPrepOf']>; rowsBlockOf: (r: RowsBlockRequest) => PromiseLike<RowsBlockAnswer | null>;
+  wanderPrepOf: NonNullable<AnalyzeOptions['wanderPrepOf']>; modelResidualsOf: NonNullable<AnalyzeOptions['modelResidualsOf']>; rowsBlockOf: (r: RowsBlockRequest) => PromiseLike<RowsBlockAnswer | null>;
   sampleWarningsOf: (r: SampleWarningsRequest) => PromiseLike<TraceWarning[]>; close: () => void;
 } {
   const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
@@ -163,6 +167,7 @@ export function startSpectrumThread(entry: URL): {
       ask({ id: next++, tauS, y, wavelengthNm, index, ...(work ? { work } : {}) }) as Promise<LayerSpectrum & Partial<SampleWorkResult>>,
     startDelayProfileOf: (profile) => ask({ id: next++, profile }) as Promise<(StartDelayProfile | null)[]>,
     wanderPrepOf: (wander) => ask({ id: next++, wander }) as Promise<WanderPrep>,
+    modelResidualsOf: (residuals) => ask({ id: next++, residuals }) as Promise<number>,
     rowsBlockOf: (rows) => ask({ id: next++, rows }) as Promise<RowsBlockAnswer | null>,
     sampleWarningsOf: (sampleWarnings) => ask({ id: next++, sampleWarnings }) as Promise<TraceWarning[]>,
     close: () => {

@@ -11,7 +11,7 @@ import { gatherLayerSamples, type LayerSamples } from './layerSamples';
 import { gapsBetween, idleNoiseModel } from './idleNoiseModel';
 import { LayerEnds } from './layerEnds';
 import { layerAtWavelength, type FitLayerData, type LayerParams, type MonitorOptics } from './layerModel';
-import { layerResidualRms, layerResult } from './layerResult';
+import { layerResidualRms, layerResult, modelResidualsRequest } from './layerResult';
 import { holdsChipGain, holdsLevelCutGain } from './levelCutGain';
 import { carryHeldGainSigma } from './heldGainSigma';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
@@ -53,7 +53,7 @@ import { binsOnExposureClocks } from './profileBins';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
 import { driftAtDelay, jointStartDelayProfile, pooledLevelDelay, type JointStartDelayProfile } from './jointStartDelay';
 import { withLampReference } from './lampReference';
-import { fitWithNextLayers, withRefitted, type PairPart } from './fitWithNextLayer';
+import { fitHeldAgain, fitWithNextLayers, withRefitted, type PairPart } from './fitWithNextLayer';
 import { type AnalysisResult, type AnalyzeOptions } from './types';
 
 /** Everything known about one layer while the run is analysed. */
@@ -144,6 +144,7 @@ export const ANALYZE_DEFAULTS = {
   wanderSigma: true,
   indexGradient: false,
   growthFromNext: true,
+  levelGrowthFromNext: true,
   fitOnFinalStack: true,
   fitWithNextLayer: true,
   stackFromLayer: false,
@@ -154,6 +155,7 @@ export const ANALYZE_DEFAULTS = {
   holdUncarriedDrift: true,
   startTransient: true,
   levelStartTransient: false,
+  sequentialLevelClock: false,
   heldIndex: 'run-drift',
   residualWarnFactor: 1.5,
   cutErrorWarnPct: 2,
@@ -209,9 +211,10 @@ async function analyzeSignal(design: Design, trace: TraceData, options: AnalyzeO
   }
   // (where kept, the drift is fitted as the profile fitted it: held at δ̂, its estimate takes up the start-up again)
   // (sequential mode holds each chip's drift at the profile's, fit/jointStartDelay.ts driftAtDelay, its
-  // level cuts on real time: each layer's own fit on δ̂'s clock took δ's error into its thickness,
-  // layer 4 of the chamber BBAR about 1.7 % per second of δ, where the unmodelled ramp cost it less)
-  const levelOnRealTime = level && (options.mode ?? ANALYZE_DEFAULTS.mode) === 'sequential';
+  // level cuts on real time unless option sequentialLevelClock: each layer's own fit on δ̂'s clock
+  // took δ's error into its thickness where the lamp's prior let the drift trade with δ, layer 4 of
+  // the chamber BBAR about 1.7 % per second of δ, where the unmodelled ramp cost it less)
+  const levelOnRealTime = level && (options.mode ?? ANALYZE_DEFAULTS.mode) === 'sequential' && !(options.sequentialLevelClock ?? ANALYZE_DEFAULTS.sequentialLevelClock);
   const result = await analyzePass(design, trace, level ? { ...options, lampDriftFit: true } : options, {
     ...(levelOnRealTime ? { delayS: 0 } : { delayS: pooled.delayS, sigmaS: pooled.sigmaS, levelOnClock: level }),
     ...(levelFound ? { heldDrifts: levelFound.chipDrifts } : {}),
@@ -348,7 +351,7 @@ async function analyzeLayers(
   };
   const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
   const { idleModel, noiseFloor } = basis.noise();
-  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth);
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth, o.levelGrowthFromNext);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma, o.offsetAveraging, o.unmeasuredOffsetSigma);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
@@ -834,6 +837,16 @@ async function analyzeLayers(
       chipStates.forEach((s) => asPassed.get(s)!());
       if (ends && o.fitOnFinalStack) chipStates.forEach((s, j) => fitOnFinalStack(s, chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm))));
     }
+    if (o.heldIndex === 'run-drift') {
+      // Each held thin level cut's index once more from the whole run, now from the layers as the
+      // windows left them, and its own window fitted again (fit/fitWithNextLayer.ts fitHeldAgain);
+      // put back where no window could be fitted.
+      const held = states.filter((s) => s.design.monitor.cut === 'level' && s.pairPart && s.fit.heldIndex !== null && !startedUp.has(s.samples.chip));
+      const back = new Map(held.map((s) => [s, passedState(s)]));
+      holdAtRunDrift(states, held);
+      const again = fitHeldAgain(chipLayers, o.robustLoss, new Set(held));
+      held.forEach((s) => { if (!again.has(s)) back.get(s)!(); });
+    }
   } else if (o.mode === 'sequential' && ends && o.fitOnFinalStack) {
     // Sequential: the layers whose stack below the growths' final reading moved, fitted again on it.
     fitOnFinalStacks(chipLayers);
@@ -969,7 +982,15 @@ async function analyzeLayers(
   // The gain drift's share of the thickness's and n·d's σ as reported (the index's taken above).
   for (const s of states) if (s.gainDriftShares) swapGainDriftShare(s.estimate, s.gainDriftShares, false);
   const model = o.modelSeries ? new Float64Array(trace.rowCount).fill(NaN) : undefined;
-  const layers = states.map((s) => layerResult(s, belowOf(s), trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model));
+  const resultBelows = states.map(belowOf);
+  // each layer's residuals under its reported model, elsewhere where modelResidualsOf is given:
+  // asked for at once, awaited from the last down (a thread taking them from the first meets this one midway)
+  const squaredSums: (number | undefined)[] = [];
+  if (o.modelResidualsOf && !model) {
+    const asked = states.map((s, j) => o.modelResidualsOf!(modelResidualsRequest(s, resultBelows[j], trace)));
+    for (let j = asked.length - 1; j >= 0; j--) squaredSums[j] = await asked[j];
+  }
+  const layers = states.map((s, j) => layerResult(s, resultBelows[j], trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model, squaredSums[j]));
   const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum, ownIndex);
   return model ? { ...result, model } : result;
 }

@@ -66,22 +66,20 @@ export function growthFromNext(input: GrowthFromNextInput): GrowthFromNext | nul
   evaluateLayers(moved(h), [layer], layout, params, offsetSignal, plus);
   evaluateLayers(moved(-h), [layer], layout, params, offsetSignal, minus);
   const m = np + 1;
-  const col = (k: number, i: number) => (k < np ? jt[k * n + i] : (plus[i] - minus[i]) / (2 * h));
+  // the columns: the layer's Jacobian, then ∂model/∂δ
+  const cols = new Float64Array(m * n);
+  cols.set(jt.subarray(0, np * n));
+  centralDifference(plus, minus, h, cols, np * n);
   const a = new Float64Array(m * m);
   for (let p = 0; p < m; p++) {
-    for (let q = p; q < m; q++) {
-      let s = 0;
-      for (let i = 0; i < n; i++) s += col(p, i) * col(q, i);
-      a[p * m + q] = a[q * m + p] = s;
-    }
+    for (let q = p; q < m; q++) a[p * m + q] = a[q * m + p] = columnProduct(cols, p * n, q * n, n);
   }
   // The gain prior is a pseudo-observation on the gain, the layer's last parameter when free.
   if (layer.heldGain === null && input.gainPriorWeight > 0) a[(np - 1) * m + np - 1] += input.gainPriorWeight ** 2;
   const inv = invertSymmetric(a, m);
   if (!inv) return null;
   const w = layer.weight ?? 1;
-  let g = 0;
-  for (let i = 0; i < n; i++) g += col(np, i) * (w * layer.y[i] - at[i]);
+  const g = dotWithResiduals(cols, np * n, layer.y, w, at, n);
   const cdd = inv[m * m - 1];
   let variance = input.residualVariance * Math.max(1, input.noiseCorrelation) * cdd;
   const stack = input.stack;
@@ -95,15 +93,40 @@ export function growthFromNext(input: GrowthFromNextInput): GrowthFromNext | nul
       const moved2 = below.map((l, i) => (i !== b ? l : isIndex ? { ...l, n: { re: l.n.re + step, im: l.n.im } } : { ...l, thicknessNm: l.thicknessNm + step }));
       evaluateLayers(moved2, [layer], layout, params, offsetSignal, shifted);
       let v = 0;
-      for (let q = 0; q < m; q++) {
-        let jq = 0;
-        for (let i = 0; i < n; i++) jq += col(q, i) * (shifted[i] - at[i]);
-        v -= inv[(m - 1) * m + q] * (jq / step);
-      }
+      for (let q = 0; q < m; q++) v -= inv[(m - 1) * m + q] * (dotWithChange(cols, q * n, shifted, at, n) / step);
       sens[c] = v;
     }
     for (let a = 0; a < stack.size - 1; a++) for (let b = 0; b < stack.size - 1; b++) variance += sens[a] * sens[b] * stack.cov[a * stack.size + b];
   }
   if (!(cdd > 0) || !Number.isFinite(variance)) return null;
   return { deltaNm: cdd * g, sigmaNm: Math.sqrt(variance) };
+}
+
+// The loops over the samples sit in small functions of their own: growthFromNext runs once a
+// layer, and with them inline the engine compiled the whole of it (the same sums, in row order).
+
+/** J[row + i] = (plus[i] − minus[i])/(2h). */
+function centralDifference(plus: Float64Array, minus: Float64Array, h: number, J: Float64Array, row: number): void {
+  for (let i = 0; i < plus.length; i++) J[row + i] = (plus[i] - minus[i]) / (2 * h);
+}
+
+/** Σ J[oa + i]·J[ob + i] over i < n. */
+function columnProduct(J: Float64Array, oa: number, ob: number, n: number): number {
+  let s = 0;
+  for (let i = 0; i < n; i++) s += J[oa + i] * J[ob + i];
+  return s;
+}
+
+/** Σ J[o + i]·(w·y[i] − at[i]) over i < n. */
+function dotWithResiduals(J: Float64Array, o: number, y: ArrayLike<number>, w: number, at: Float64Array, n: number): number {
+  let g = 0;
+  for (let i = 0; i < n; i++) g += J[o + i] * (w * y[i] - at[i]);
+  return g;
+}
+
+/** Σ J[o + i]·(shifted[i] − at[i]) over i < n. */
+function dotWithChange(J: Float64Array, o: number, shifted: Float64Array, at: Float64Array, n: number): number {
+  let s = 0;
+  for (let i = 0; i < n; i++) s += J[o + i] * (shifted[i] - at[i]);
+  return s;
 }

@@ -19,7 +19,9 @@ export const REFERENCE_STABILITY_PER_HOUR = 0.001;
  * levelStartTransient) is then on unless set: it was left off because a false start delay read
  * as a lamp drift of 0.45 %/h a second, which that prior no longer lets it (real-chamber BBAR,
  * refit: the ramp as the shutter opens had left layer 2 of 0.41 QWOT +0.0085 in index, layer 4
- * +0.0049; with it +0.0033 and +0.0022, as with the simulator's ramp off). Without one, or with the option off, the trace and
+ * +0.0049; with it +0.0033 and +0.0022, as with the simulator's ramp off). So is, in sequential
+ * mode, each level cut's own fit on that delay's clock (option sequentialLevelClock): the drift
+ * held at 0.1 %/h no longer takes δ's error into the layers. Without one, or with the option off, the trace and
  * options as they were. `lamp`: the divisor at each sample, for modelled readings (AnalysisResult.model)
  * to be put back in the trace's units.
  */
@@ -30,7 +32,10 @@ export function withLampReference(trace: TraceData, options: AnalyzeOptions): { 
   return {
     trace: { ...trace, signal },
     lamp,
-    options: { ...options, lampStabilityPerHour: stability, levelStartTransient: options.levelStartTransient ?? true },
+    options: {
+      ...options, lampStabilityPerHour: stability, levelStartTransient: options.levelStartTransient ?? true,
+      sequentialLevelClock: options.sequentialLevelClock ?? true,
+    },
     note: `signal divided by the lamp reference column (its ${REFERENCE_WINDOW_S} s running mean over its run median); lamp drift prior ${+(stability * 100).toFixed(3)} %/h`,
   };
 }

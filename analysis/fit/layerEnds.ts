@@ -74,11 +74,13 @@ export class LayerEnds {
    * `noise`: the detector's white + AR(1) noise from the idle stretches (idleNoiseModel); it sets
    * a floor under the σ of the start check's two levels and of a level cut's settled level and
    * last readings (its growth's evidence), which their own few readings, spanning about one
-   * correlation time, underestimate. `shutterTimeGrowth`: AnalyzeOptions.shutterTimeGrowth.
+   * correlation time, underestimate. `shutterTimeGrowth`: AnalyzeOptions.shutterTimeGrowth;
+   * `levelGrowthFromNext`: AnalyzeOptions.levelGrowthFromNext.
    */
   constructor(
     private readonly trace: TraceData, samplesByLayer: ReadonlyMap<number, LayerSamples>, private readonly warnings: string[],
     private readonly noise: Ar1PlusWhite | null = null, private readonly shutterTimeGrowth: 'bounded' | 'run-mean' = 'bounded',
+    private readonly levelGrowthFromNext = false,
   ) {
     this.starts = [...samplesByLayer.values()].map((s) => s.indices[0]).sort((a, b) => a - b);
   }
@@ -227,14 +229,18 @@ export class LayerEnds {
 
   /**
    * After a chip's final joint fit (refit): every growth but the chip's last re-read against
-   * the jointly fitted stack (jointGrowth), the layers' estimates and σ with it.
+   * the jointly fitted stack (jointGrowth), the layers' estimates and σ with it. With
+   * `levelGrowthFromNext`, a level cut's growth too where the next layer is a turning-point cut
+   * (readLevelFromNext); where the step with every growth fails jointGrowth's safeguard, a step
+   * with those level cuts alone.
    */
   afterJointFit(data: readonly FitLayerData[], states: readonly EndedLayer[], offsetSignal: number, sharedGain: SharedGain | null): void {
     if (!this.startsConsistent()) return;
     const recs = states.map((s) => this.records.find((r) => r.s === s) ?? null);
-    const out = jointGrowth({
+    const level = recs.map((r, j) => r !== null && this.readLevelFromNext(r, states[j + 1]));
+    const step = (grown: (r: EndRecord, j: number) => boolean) => jointGrowth({
       data, estimates: states.map((s) => s.estimate), sharedGain, offsetSignal,
-      growth: recs.map((r, j) => (r && r.next && j + 1 < states.length ? { loggedS: r.loggedS, deltaNm: r.growth.deltaNm } : null)),
+      growth: recs.map((r, j) => (r && grown(r, j) && j + 1 < states.length ? { loggedS: r.loggedS, deltaNm: r.growth.deltaNm } : null)),
       finalize: (j, joint) => {
         const rec = recs[j]!;
         rec.next = rec.nextAsGrowth = joint;
@@ -242,6 +248,9 @@ export class LayerEnds {
         return growthPosterior(this.evidence(rec, true, false));
       },
     });
+    let out = step((r, j) => r.next !== null || level[j]);
+    // (a failed step leaves each level cut's reading as a stale start, dropped in finish like any other)
+    if (!out && level.some(Boolean)) out = step((_, j) => level[j]);
     if (!out) return;
     out.forEach((o, j) => {
       const s = states[j];
@@ -253,6 +262,21 @@ export class LayerEnds {
         this.joint.add(rec);
       }
     });
+  }
+
+  /**
+   * Whether a level cut's growth is read from the next layer's start in the chip's joint fit
+   * (AnalyzeOptions.levelGrowthFromNext). The idle level after the cut reads it too, but over a
+   * few seconds of correlated noise, to ±0.1–0.3 nm (R with an offset), and its posterior under
+   * the bound δ ≥ 0 stands above a growth of 0. The next layer's start reads it as it does after
+   * a turning-point cut, to first order where that layer starts on the cut's slope; but only
+   * where that start's ramp as the shutter opens is modelled (a turning-point cut, the start
+   * transient): a next layer cut on level, whose start-up is not, reads that ramp as growth. Not
+   * across a held index (as fromNext).
+   */
+  private readLevelFromNext(rec: EndRecord, next: EndedLayer | undefined): boolean {
+    return this.levelGrowthFromNext && rec.s.design.monitor.cut === 'level' && rec.next === null && next !== undefined
+      && next.design.monitor.cut === 'turning-point' && next.samples.chip === rec.chip && rec.s.fit.heldIndex === null && next.fit.heldIndex === null;
   }
 
   /**

@@ -3,8 +3,9 @@ import { type TraceData } from '../trace';
 import { type LayerState } from './analyzeRun';
 import { modelTurningPoints, timeToThickness } from './cutTiming';
 import { INDEX_BOUND } from './fitLayers';
-import { thicknessAt } from './layerModel';
-import { lawThicknessSeries, lawTimeToThickness, wanderKnotRates, type RateWander } from './rateWander';
+import { thicknessAt, type MonitorOptics } from './layerModel';
+import { lawThicknessSeries, lawTimeToThickness, wanderKnotRates, type RateWander, type ThicknessLaw } from './rateWander';
+import { sampleReadings } from './sampleReadings';
 import { observedTurningPoints } from './observedTurningPoints';
 import { realTime } from './startTransient';
 import { type LayerResult, type TurningPointAt } from './types';
@@ -30,18 +31,23 @@ interface ResultOptions {
  * With modelOut (one slot per trace sample), the modelled reading offset + gain·M(d(τ)) is
  * written at each of the layer's samples, for plotting the fit over the trace.
  */
-export function layerResult(s: LayerState, below: readonly LayerAt[], trace: TraceData, noiseSigma: number, o: ResultOptions, modelOut?: Float64Array): LayerResult {
+export function layerResult(
+  s: LayerState, below: readonly LayerAt[], trace: TraceData, noiseSigma: number, o: ResultOptions, modelOut?: Float64Array,
+  /** Σ of the squared residuals as modelSquaredResiduals gives them for this layer (e.g. made on another thread); computed here when absent or with modelOut. */
+  squaredSum?: number,
+): LayerResult {
   const { design: dl, samples, optics, nominal, estimate: e, calibration } = s;
   const wl = optics.wavelengthNm;
   const k = -nominal.im;
   const n = samples.tauS.length;
   const wander = e.wander ? s.fit.wander : undefined;
-  const m = modelSignal(s, below);
   // The residuals reported are those of the model reported (the one drawn over the data); where
   // they exceed the warning's factor after the index pooling moved the estimates
   // (fit/pooledIndex.ts: a pooled index, or one below, fits a little worse by design, and that is
   // no departure from a smooth rate), the least-squares fit's own must too.
-  const residualRms = Math.sqrt(squaredResiduals(trace.signal, samples.indices, calibration.offset, e.gain, m, modelOut) / n);
+  const ss = squaredSum !== undefined && !modelOut ? squaredSum
+    : squaredResiduals(trace.signal, samples.indices, calibration.offset, e.gain, modelSignal(s, below), modelOut);
+  const residualRms = Math.sqrt(ss / n);
   const noise = noiseSigma / e.gain;
   const residualToNoise = noise > 0 ? residualRms / noise : NaN;
   const lawMisfit = residualToNoise > o.residualWarnFactor && s.lawResidualRms ? s.lawResidualRms() / noise : residualToNoise;
@@ -132,14 +138,62 @@ export function layerResult(s: LayerState, below: readonly LayerAt[], trace: Tra
 
 /** The layer's modelled response M(d(τ)) at each of its samples, on `below`. */
 function modelSignal(s: LayerState, below: readonly LayerAt[]): Float64Array {
-  const { samples, optics, nominal, estimate: e } = s;
-  const n = samples.tauS.length;
+  return modelAt(modelOf(s, below), s.samples.tauS);
+}
+
+/** What the layer's modelled response reads: its optics, the stack below, the growing layer's index and thickness law. */
+interface LayerModelOf {
+  optics: MonitorOptics;
+  below: readonly LayerAt[];
+  index: number;
+  extinction: number;
+  indexGradient: number;
+  thicknessNm: number;
+  law: ThicknessLaw;
+  /** The wander's knots, where the law has a wander. */
+  wander?: RateWander;
+}
+
+function modelOf(s: LayerState, below: readonly LayerAt[]): LayerModelOf {
+  const { optics, nominal, estimate: e } = s;
   const wander = e.wander ? s.fit.wander : undefined;
-  const d = wander ? lawThicknessSeries(e, wander, samples.tauS, new Float64Array(n)) : thicknesses(samples.tauS, e.rateNmPerS, e.rateDriftNmPerS2);
-  const dn = e.indexGradient ?? 0;
+  return {
+    optics, below, index: e.index, extinction: -nominal.im, indexGradient: e.indexGradient ?? 0, thicknessNm: e.thicknessNm,
+    law: { rateNmPerS: e.rateNmPerS, rateDriftNmPerS2: e.rateDriftNmPerS2, ...(e.wander ? { wander: e.wander } : {}) },
+    ...(wander ? { wander } : {}),
+  };
+}
+
+function modelAt(m: LayerModelOf, tauS: Float64Array): Float64Array {
+  const n = tauS.length;
+  const d = m.wander ? lawThicknessSeries(m.law, m.wander, tauS, new Float64Array(n)) : thicknesses(tauS, m.law.rateNmPerS, m.law.rateDriftNmPerS2);
+  const dn = m.indexGradient;
   return dn !== 0
-    ? gradedGrowingSignal({ ...optics, below, growing: fromNK(e.index - dn / 2, -nominal.im), pol: 's' }, dn / Math.max(e.thicknessNm, 1e-9), d)
-    : growingLayerSignal({ ...optics, below, growing: fromNK(e.index, -nominal.im), pol: 's' }, d);
+    ? gradedGrowingSignal({ ...m.optics, below: m.below, growing: fromNK(m.index - dn / 2, m.extinction), pol: 's' }, dn / Math.max(m.thicknessNm, 1e-9), d)
+    : growingLayerSignal({ ...m.optics, below: m.below, growing: fromNK(m.index, m.extinction), pol: 's' }, d);
+}
+
+/**
+ * A layer's reported model and samples as plain data (structured-cloneable; τ and the readings
+ * views of shared memory where they lie there), for modelSquaredResiduals on another thread.
+ */
+export interface ModelResidualsRequest {
+  model: LayerModelOf;
+  tauS: Float64Array;
+  /** The layer's readings, sample by sample. */
+  y: Float64Array;
+  offset: number;
+  gain: number;
+}
+
+/** layerResult's residual sum for s on `below`, as a request (see ModelResidualsRequest). */
+export function modelResidualsRequest(s: LayerState, below: readonly LayerAt[], trace: TraceData): ModelResidualsRequest {
+  return { model: modelOf(s, below), tauS: s.samples.tauS, y: sampleReadings(trace.signal, s.samples.indices), offset: s.calibration.offset, gain: s.estimate.gain };
+}
+
+/** Σ of the layer's squared residuals in model units, (reading − offset)/gain − M, as layerResult sums them. */
+export function modelSquaredResiduals(r: ModelResidualsRequest): number {
+  return squaredResidualsOf(r.y, r.offset, r.gain, modelAt(r.model, r.tauS));
 }
 
 /** RMS of the layer's residuals (reading − offset)/gain − M on all its samples, in model units. */
@@ -162,6 +216,16 @@ function thicknesses(tauS: Float64Array, rateNmPerS: number, rateDriftNmPerS2: n
   const d = new Float64Array(tauS.length);
   for (let i = 0; i < tauS.length; i++) d[i] = thicknessAt(tauS[i], rateNmPerS, rateDriftNmPerS2);
   return d;
+}
+
+/** Σ of the squared residuals in model units, (y − offset)/gain − M, y the layer's readings in order. */
+function squaredResidualsOf(y: Float64Array, offset: number, gain: number, m: Float64Array): number {
+  let ss = 0;
+  for (let i = 0; i < m.length; i++) {
+    const r = (y[i] - offset) / gain - m[i];
+    ss += r * r;
+  }
+  return ss;
 }
 
 /** Σ of the squared residuals in model units, (reading − offset)/gain − M; the modelled readings into modelOut when given. */

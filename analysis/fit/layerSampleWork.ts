@@ -22,8 +22,14 @@ export interface SampleWorkResult {
  * own series: the same functions on the same values as analyzeRun's loop, so the same figures.
  */
 export function layerSampleWork(tauS: Float64Array, y: Float64Array, work: SampleWork): SampleWorkResult {
-  const own = new Int32Array(y.length);
-  for (let i = 0; i < own.length; i++) own[i] = i;
+  const own = indexRange(y.length);
   const binned = work.binPoints.map((points) => ({ points, ...binMeans(tauS, own, y, points) }));
   return work.timeS ? { observed: observedTurningPoints(tauS, work.timeS, y), binned } : { binned };
+}
+
+/** 0, 1, …, n − 1 (in a function of its own: compiled on the stack inline, the caller's code then left it at the next statement on every call). */
+export function indexRange(n: number): Int32Array {
+  const out = new Int32Array(n);
+  for (let i = 0; i < n; i++) out[i] = i;
+  return out;
 }

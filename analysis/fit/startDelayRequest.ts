@@ -1,6 +1,7 @@
 import { indexAt, type MaterialModel } from '../materials';
 import { type Complex, type LayerAt } from '../optics';
 import { type FitLayerData, type LayerParams } from './layerModel';
+import { indexRange } from './layerSampleWork';
 import { binsOnExposureClocks } from './profileBins';
 import { PROFILE_POINTS, type StartDelayProfile } from './startDelay';
 import { chainedStartDelayProfiles } from './startDelayChain';
@@ -49,8 +50,7 @@ export function profileFromRequest(r: StartDelayProfileRequest): (StartDelayProf
       if (!v) memo.set(w, (v = indexAt(l.material, w)));
       return v;
     };
-    const own = new Int32Array(l.y.length);
-    for (let i = 0; i < own.length; i++) own[i] = i;
+    const own = indexRange(l.y.length);
     const bins = binsOnExposureClocks(l.tauS, own, l.y, PROFILE_POINTS);
     return {
       start: l.start, loggedS: l.layer.durationS, below: l.below, offsetSignal: l.offsetSignal, profiled: l.profiled,

@@ -44,18 +44,36 @@ export function binMeans(
   }
   const t0 = tauS[0], span = tauS[n - 1] - t0 || 1;
   const sumT = new Float64Array(maxPoints), sumY = new Float64Array(maxPoints), count = new Int32Array(maxPoints);
-  for (let i = 0; i < n; i++) {
+  binSums(tauS, indices, signal, maxPoints, valueTauS, t0, span, sumT, sumY, count);
+  const k = binMeansInPlace(sumT, sumY, count);
+  return { tauS: sumT.slice(0, k), y: sumY.slice(0, k) };
+}
+
+// binMeans's two loops in functions of their own: the engine compiled the first on the stack
+// (on-stack replacement) before the second had run, and that code then left at the second's
+// first comparison on every later call (dozens of times a run); the same sums.
+
+/** Each sample's τ and reading summed into its bin, and counted. */
+function binSums(
+  tauS: ArrayLike<number>, indices: ArrayLike<number>, signal: ArrayLike<number>, maxPoints: number, valueTauS: ArrayLike<number>,
+  t0: number, span: number, sumT: Float64Array, sumY: Float64Array, count: Int32Array,
+): void {
+  for (let i = 0; i < tauS.length; i++) {
     const b = Math.min(maxPoints - 1, Math.floor(((tauS[i] - t0) / span) * maxPoints));
     sumT[b] += valueTauS[i];
     sumY[b] += signal[indices[i]];
     count[b]++;
   }
+}
+
+/** The non-empty bins' means, packed to the front; returns how many. */
+function binMeansInPlace(sumT: Float64Array, sumY: Float64Array, count: Int32Array): number {
   let k = 0;
-  for (let b = 0; b < maxPoints; b++) {
+  for (let b = 0; b < count.length; b++) {
     if (count[b] === 0) continue;
     sumT[k] = sumT[b] / count[b];
     sumY[k] = sumY[b] / count[b];
     k++;
   }
-  return { tauS: sumT.slice(0, k), y: sumY.slice(0, k) };
+  return k;
 }

@@ -1,6 +1,7 @@
 import { type MaterialDrift } from '../stats';
 import { type TraceWarning } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
+import { type ModelResidualsRequest } from './layerResult';
 import { type LayerSpectrum } from './layerSpectrum';
 import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
 import { type StartDelayProfile } from './startDelay';
@@ -210,6 +211,32 @@ export interface AnalyzeOptions {
    */
   growthFromNext?: boolean;
   /**
+   * Refit mode: the growth after a level cut read again with the chip's final joint fit from
+   * where the next layer starts on the stack it left (fit/jointGrowth.ts, as after a turning-point
+   * cut), that reading joined to the idle level's and the run's shutter time (fit/layerEnds.ts),
+   * and the layers above moved with it by Gaussian conditioning; only where the next layer is a
+   * turning-point cut, whose rate's start-up at the shutter the start transient models, and
+   * neither has a held index. Where a next layer cut on level starts, its unmodelled start-up
+   * reads as growth (real-chamber BBAR, refit, seeds 21–36, with level-to-level readings: 3σ
+   * coverage of d 100 → 96.9 %, cut max 2.42 → 3.05 % QWOT). Where the chip's step with every
+   * growth fails its safeguard, these level cuts are read alone. Measured on 'R monitoring with an
+   * offset' (layer 4, a level cut under a turning-point cut; the simulator's shutter closes at
+   * once), refit: seeds 51–66 max 0.539 → 0.448 %, RMS 0.174 → 0.167 %, index 0.0089 → 0.0076,
+   * the layer above's index RMS 0.0034 → 0.0028 (mean +0.0027 → +0.0013); seeds 67–82 0.822 →
+   * 0.825 %, RMS 0.268 → 0.242 %, index 0.0092 → 0.0086 (the layer above's RMS 0.0043 → 0.0035),
+   * coverage unchanged (100/100/100 %, 100/99.2/100 %); with the simulator's shutter closing in
+   * 0.1–1 s, seeds 51–66, 0.482 → 0.481 %, index 0.0102 → 0.0103, cut 0.39 → 0.34 % QWOT, index
+   * coverage 97.7 → 98.4 %; with the ramp at opening, shutter 0.1–1 s, rate wander and scatter of
+   * the real-chamber scenarios added, seeds 51–66, 1.76 → 1.69 %, RMS 0.642 → 0.626 %, index
+   * 0.0346 → 0.0348, cut 1.65 → 1.22 % QWOT, coverage unchanged; the level cuts of the BBAR, thin-R and real-chamber BBAR scenarios
+   * stand under level cuts and are not read so (unchanged). What is left on layer 5 of that run
+   * is mostly the start delay kept there by Schwarz's criterion where the simulator has none
+   * (seeds 52, 56, 65, 68, 71, 73, 74, 77, 79): with option startTransient off the joint fit's
+   * reading of layer 4's growth has mean z +0.12 and RMS z 1.09 over seeds 51–82, with it on +0.88
+   * and 1.48 (the start-up and a growth both bend the next layer's start). @default true
+   */
+  levelGrowthFromNext?: boolean;
+  /**
    * Sequential mode: once the pass is over, each layer whose stack below moved since its fit
    * (the growths after the cuts below read again once the run's shutter time was known, which
    * takes three layers' readings) fitted again on its own samples on the stack as it now stands,
@@ -222,7 +249,13 @@ export interface AnalyzeOptions {
    * Sequential mode: once the pass is over, each layer cut on level fitted again jointly with the
    * next two on its chip, bottom up, on the stack below as it then stands, the rate drifts its
    * layers' data do not carry held at 0; a held thin layer cut on level first takes its index
-   * from the whole run (as refit holds it); σ kept (fit/fitWithNextLayer.ts; turning-point cuts
+   * from the whole run (as refit holds it), and once the windows are done again from the layers
+   * as they left them, its own window fitted again (fitHeldAgain: thin level cuts in R, seeds
+   * 71–86, the chip's first layer n·d max 2.93 → 0.78 %); in reflectance a window's layers share
+   * one gain under the pass's prior (sharesGain: there each layer's own gain traded against the
+   * thin stack below; thin level cuts in R, seeds 71–86, max 3.32 → 3.05 %, RMS 1.35 → 0.92 %, cut
+   * 2.71 → 1.85 % QWOT; in transmittance the AR without a layer column lost 0.93 → 1.57 %, so not
+   * there); σ kept (fit/fitWithNextLayer.ts; turning-point cuts
    * keep their own fits, fitted again on the final stack under fitOnFinalStack). A level cut's own
    * samples leave its index and thickness on one curve (and tell a thickness just past a turning
    * point little); the layers that grow on it pin the rest. White-noise BBAR, seeds 11–26: max
@@ -440,6 +473,23 @@ export interface AnalyzeOptions {
    * 0.0092). @default false (true with a reference column)
    */
   levelStartTransient?: boolean;
+  /**
+   * Sequential mode, where option levelStartTransient keeps a start delay δ̂ on a run cut only on
+   * level: each level cut's own fit on δ̂'s exposure clock (fit/startTransient.ts), δ's σ carried
+   * (fit/startDelaySigma.ts), instead of on real time with only the chip's drift held at the
+   * profile's γ(δ̂). On real time a layer's law d = r·τ + a·τ²/2 starts at the logged start and
+   * takes the start-up's lag of about r·δ into its rate and end. Measured on the chamber
+   * simulator's four-layer AR with a lamp reference (ramp 1.5 s), sequential, seeds 21–36: layer 1
+   * (0.22 QWOT) n·d −1.61 → −0.18 % on average (RMS 1.79 → 0.90 %), layer 2 (0.41 QWOT) +1.56 →
+   * +1.01 %, index +0.0082 → +0.0038, layer 4 +0.55 → −0.53 % (RMS 0.96 → 0.79 %; the ramp had
+   * offset its own bias, as in refit), thickness max 1.64 → 2.00 %, RMS 0.69 → 0.57 %, index
+   * 0.0084 → 0.0079, cut 1.63 → 1.97 % QWOT, coverage 100 %; seeds 37–52 max 2.79 → 1.16 %, RMS
+   * 0.98 → 0.42 %, index 0.0124 → 0.0096, cut 2.46 → 1.92 % QWOT. Not without a reference: there
+   * the drift's prior of 1 %/h lets γ take up δ's error (real-chamber BBAR with levelStartTransient,
+   * seeds 21–36: layer 4 max 2.56 → 3.89 %, RMS 1.25 → 1.63 %, though layer 1 −1.27 → −0.10 %).
+   * @default false (true with a reference column, fit/lampReference.ts)
+   */
+  sequentialLevelClock?: boolean;
   /** …or when its trial fit's index σ exceeds this. @default 0.05 */
   heldIndexSigma?: number;
   /** The index a thin layer is held at: the nominal, or this run's drift estimate. @default 'run-drift' */
@@ -482,6 +532,14 @@ export interface AnalyzeOptions {
    * @default chooseRateWander, on this thread, as each layer is fitted
    */
   wanderPrepOf?: (request: WanderChoiceRequest) => Promise<WanderPrep>;
+  /**
+   * Sums a layer's squared residuals under its reported model elsewhere, e.g. on another thread,
+   * for the layers' results (not with modelSeries); it must resolve to what
+   * modelSquaredResiduals (fit/layerResult.ts) returns. Asked for every layer at once; awaited
+   * from the last layer down, so a thread working from the first meets this one in the middle.
+   * @default modelSquaredResiduals's sum, on this thread, in layerResult
+   */
+  modelResidualsOf?: (request: ModelResidualsRequest) => PromiseLike<number>;
   /**
    * The trace's warnings that read its samples (trace/traceWarnings.ts), made elsewhere (e.g. on
    * another thread while the run is segmented and its start delay profiled): appended to

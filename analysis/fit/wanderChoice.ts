@@ -83,9 +83,7 @@ export function finishRateWander(prep: WanderPrep, noisePool?: VariogramPool): W
     whitenAr1PlusWhite(noise, [r, ...cols]);
     // Huber's pseudo-residuals ψ(r), |r| capped (P. J. Huber, "Robust Statistics", Wiley (1981),
     // §7.8, from memory): a spike does not pass for a wandering rate.
-    for (let i = 0; i < N; i++) r[i] = Math.max(-HUBER_K, Math.min(HUBER_K, r[i]));
-    let rr = 0;
-    for (let i = 0; i < N; i++) rr += r[i] * r[i];
+    const rr = huberCappedSquares(r, N);
     // Gram matrix; fixed columns scaled to unit norm (log|XᵀX| shifts every score alike).
     const norm = new Float64Array(np).fill(1);
     for (let j = 0; j < np; j++) {
@@ -96,10 +94,7 @@ export function finishRateWander(prep: WanderPrep, noisePool?: VariogramPool): W
     // The whitened columns stay smooth (a smooth column through the filter), so their products
     // are summed on every GRAM_STRIDE-th row (times the stride); the data's, which are not, on all.
     const gram = new Float64Array(np * np), b = new Float64Array(np);
-    for (let a = 0; a < np; a++) {
-      b[a] = dotWithColumn(jac, a * N, r, N) * norm[a];
-      for (let c = a; c < np; c++) gram[a * np + c] = gram[c * np + a] = stridedProduct(jac, a * N, c * N, N) * norm[a] * norm[c];
-    }
+    gramWithData(jac, r, np, N, norm, gram, b);
     const gainParam = prep.freeGain ? np0 - 1 : -1;
     // the gain prior's information, for the column scaled by norm
     if (gainParam >= 0 && prep.gainPriorSigma > 0) gram[gainParam * np + gainParam] += (norm[gainParam] / prep.gainPriorSigma) ** 2;
@@ -109,12 +104,7 @@ export function finishRateWander(prep: WanderPrep, noisePool?: VariogramPool): W
       // −2·log L = (N − p)·log(min/(N − p)) + log|A′|, A′ = [XᵀX, κXᵀZ; κZᵀX, κ²ZᵀZ + I].
       const kappa = fraction * Math.abs(prep.rateNmPerS);
       const a = new Float64Array(np * np), g = new Float64Array(np);
-      for (let i = 0; i < np; i++) {
-        const si = isW(i) ? kappa : 1;
-        g[i] = si * b[i];
-        for (let j = 0; j < np; j++) a[i * np + j] = si * (isW(j) ? kappa : 1) * gram[i * np + j];
-        if (isW(i) || isS(i)) a[i * np + i] += 1;
-      }
+      wanderScaled(gram, b, np, kappa, wFirst, k, np0, m, a, g);
       const f = choleskyLogDet(a, np, g);
       if (!f) continue;
       const dof = N - pFixed;
@@ -222,6 +212,44 @@ function sumOfSquares(a: Float64Array, from: number, to: number): number {
   return c;
 }
 
+// finishRateWander's loops over rows and matrix entries sit in the small functions below: it runs
+// once a layer, and with them inline the engine compiled the whole of it (the same sums).
+
+/** The Gram matrix of the np columns (scaled by norm) into gram, and their products with r into b. */
+function gramWithData(jac: Float64Array, r: Float64Array, np: number, N: number, norm: Float64Array, gram: Float64Array, b: Float64Array): void {
+  const products = new Float64Array(np);
+  for (let a = 0; a < np; a++) {
+    b[a] = dotWithColumn(jac, a * N, r, N) * norm[a];
+    stridedProductsWith(jac, a, np, N, products);
+    for (let c = a; c < np; c++) gram[a * np + c] = gram[c * np + a] = products[c] * norm[a] * norm[c];
+  }
+}
+
+/**
+ * A′ into a and the scaled data's products into g: the wander's columns (wFirst … wFirst + k − 1)
+ * scaled by κ, a unit prior on the diagonal of those and of the stack below's (np0 … np0 + m − 1).
+ */
+function wanderScaled(gram: Float64Array, b: Float64Array, np: number, kappa: number, wFirst: number, k: number, np0: number, m: number, a: Float64Array, g: Float64Array): void {
+  const isW = (j: number) => j >= wFirst && j < wFirst + k;
+  const isS = (j: number) => j >= np0 && j < np0 + m;
+  for (let i = 0; i < np; i++) {
+    const si = isW(i) ? kappa : 1;
+    g[i] = si * b[i];
+    for (let j = 0; j < np; j++) a[i * np + j] = si * (isW(j) ? kappa : 1) * gram[i * np + j];
+    if (isW(i) || isS(i)) a[i * np + i] += 1;
+  }
+}
+
+/** Caps each of r's first N values at ±HUBER_K in place; returns the sum of their squares (in row order). */
+function huberCappedSquares(r: Float64Array, N: number): number {
+  let rr = 0;
+  for (let i = 0; i < N; i++) {
+    r[i] = Math.max(-HUBER_K, Math.min(HUBER_K, r[i]));
+    rr += r[i] * r[i];
+  }
+  return rr;
+}
+
 /** Σ jac[oa + i]·r[i] over i < N. */
 function dotWithColumn(jac: Float64Array, oa: number, r: Float64Array, N: number): number {
   let q = 0;
@@ -229,9 +257,45 @@ function dotWithColumn(jac: Float64Array, oa: number, r: Float64Array, N: number
   return q;
 }
 
-/** The product of two columns of N rows summed on the first and every GRAM_STRIDE-th row after it, times the stride. */
-function stridedProduct(jac: Float64Array, oa: number, oc: number, N: number): number {
-  let t = jac[oa] * jac[oc];
-  for (let i = 1; i < N; i += GRAM_STRIDE) t += jac[oa + i] * jac[oc + i] * Math.min(GRAM_STRIDE, N - i);
-  return t;
+/**
+ * The products of column a with each column c ≥ a (np columns of N rows in jac), into out[c]:
+ * each summed on the first row and every GRAM_STRIDE-th row after it, times the stride (the last
+ * of those rows times the rows left). Four columns a pass, each its own sum in row order, so
+ * column a is read once for four products (the figures those of one column at a time).
+ */
+export function stridedProductsWith(jac: Float64Array, a: number, np: number, N: number, out: Float64Array): void {
+  const oa = a * N;
+  // rows 1, 1 + S, …: those with a full stride after them, then the last (if short)
+  const full = 1 + GRAM_STRIDE * (N - 1 - GRAM_STRIDE >= 0 ? Math.floor((N - 1 - GRAM_STRIDE) / GRAM_STRIDE) + 1 : 0);
+  let c = a;
+  for (; c + 4 <= np; c += 4) {
+    const o0 = c * N, o1 = o0 + N, o2 = o1 + N, o3 = o2 + N;
+    const x = jac[oa];
+    let t0 = x * jac[o0], t1 = x * jac[o1], t2 = x * jac[o2], t3 = x * jac[o3];
+    for (let i = 1; i < full; i += GRAM_STRIDE) {
+      const u = jac[oa + i];
+      t0 += u * jac[o0 + i] * GRAM_STRIDE;
+      t1 += u * jac[o1 + i] * GRAM_STRIDE;
+      t2 += u * jac[o2 + i] * GRAM_STRIDE;
+      t3 += u * jac[o3 + i] * GRAM_STRIDE;
+    }
+    for (let i = full; i < N; i += GRAM_STRIDE) {
+      const u = jac[oa + i], w = N - i;
+      t0 += u * jac[o0 + i] * w;
+      t1 += u * jac[o1 + i] * w;
+      t2 += u * jac[o2 + i] * w;
+      t3 += u * jac[o3 + i] * w;
+    }
+    out[c] = t0;
+    out[c + 1] = t1;
+    out[c + 2] = t2;
+    out[c + 3] = t3;
+  }
+  for (; c < np; c++) {
+    const oc = c * N;
+    let t = jac[oa] * jac[oc];
+    for (let i = 1; i < full; i += GRAM_STRIDE) t += jac[oa + i] * jac[oc + i] * GRAM_STRIDE;
+    for (let i = full; i < N; i += GRAM_STRIDE) t += jac[oa + i] * jac[oc + i] * (N - i);
+    out[c] = t;
+  }
 }

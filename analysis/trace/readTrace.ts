@@ -16,6 +16,7 @@ function resolve(options: ReadTraceOptions) {
     gapFactor: options.gapFactor ?? 5,
     minLayerSamples: options.minLayerSamples ?? 20,
     maxLineLength: options.maxLineLength ?? MIB,
+    expectedBytes: options.expectedBytes,
   };
 }
 
@@ -100,6 +101,8 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
   // Byte chunks are read as bytes, line by line (readBytes); string chunks as text (feed). The
   // first chunk decides; a chunk of the other kind is converted.
   let mode: 'bytes' | 'text' | null = null;
+  // the input's size, until the columns are sized from it (ReadTraceOptions.expectedBytes)
+  let sizeBytes = keepSamples && o.expectedBytes && o.expectedBytes > 0 ? o.expectedBytes : 0;
 
   const feed = (text: string): void => {
     if (first && text.length > 0) {
@@ -267,6 +270,11 @@ async function parse(chunks: Chunks, o: ReturnType<typeof resolve>, keepSamples:
     mode ??= typeof chunk === 'string' ? 'text' : 'bytes';
     if (mode === 'bytes') readBytes(typeof chunk === 'string' ? new TextEncoder().encode(chunk) : chunk);
     else feed(typeof chunk === 'string' ? chunk : decode(chunk));
+    if (sizeBytes && parser.rowCount >= 100) {
+      // the whole input at the bytes a row read so far, with a twentieth to spare
+      if (bytes < sizeBytes) parser.reserveRows(Math.ceil(parser.rowCount * (sizeBytes / bytes) * 1.05));
+      sizeBytes = 0;
+    }
   }
   if (mode === 'bytes') {
     if (pieceBytes > 0) {

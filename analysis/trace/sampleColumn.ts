@@ -25,6 +25,14 @@ export class SampleColumn<T extends Float64Array | Int32Array> {
     this.data.set(values, at);
   }
 
+  /** Room for n rows at least (kept samples only): one copy now rather than a doubling's each time it fills. */
+  reserve(n: number): void {
+    if (!this.keep || n <= this.data.length) return;
+    const next = this.make(n);
+    next.set(this.data);
+    this.data = next;
+  }
+
   /** Doubles the storage. */
   grow(): void {
     const next = this.make(this.data.length * 2);

@@ -72,6 +72,12 @@ export class TraceParser {
     return new SampleColumn(make, this.limits.keepSamples !== false);
   }
 
+  /** Room for n rows in every column read (ReadTraceOptions.expectedBytes), at most the row limit. */
+  reserveRows(n: number): void {
+    const rows = Math.min(n, this.limits.maxRows);
+    for (const c of [this.time, this.signal, this.layer, this.chip, this.crystal, this.reference]) c?.reserve(rows);
+  }
+
   /** The samples of a column read with keepSamples (the default). */
   static samples<T extends Float64Array | Int32Array>(c: SampleColumn<T>, n: number): T {
     return c.take(n);

@@ -24,6 +24,12 @@ export interface ReadTraceOptions {
   minLayerSamples?: number;
   /** Longest accepted line, in characters. @default 1048576 */
   maxLineLength?: number;
+  /**
+   * The input's size in bytes when known (a file's): once the first chunk is read, the columns
+   * are sized for the rows that many bytes hold at that chunk's bytes a row, not grown by
+   * doubling from a thousand rows (a wrong size only costs a copy). @default unknown
+   */
+  expectedBytes?: number;
 }
 
 /** What scanTrace learns of a trace without keeping its samples. */

@@ -55,6 +55,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     const levelStart = form.get('levelStartTransient');
     if (levelStart === 'on') settings.levelStartTransient = true;
     if (levelStart === 'off') settings.levelStartTransient = false;
+    const levelClock = form.get('sequentialLevelClock');
+    if (levelClock === 'on') settings.sequentialLevelClock = true;
+    if (levelClock === 'off') settings.sequentialLevelClock = false;
     const overshoot = String(form.get('turningPointOvershoot') ?? '').trim();
     if (overshoot !== '') settings.turningPointOvershootPct = Number(overshoot);
     const cutPast = form.get('cutPastTurningPoint');
@@ -66,7 +69,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
     for (const key of ['rateWander', 'indexGradient', 'stackFromLayer'] as const) if (form.get(key) === 'on') settings[key] = true;
-    for (const key of ['growthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack', 'fitWithNextLayer', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
+    for (const key of ['growthFromNext', 'levelGrowthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack', 'fitWithNextLayer', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
     if (res.status === 201 && body.analysis) {
@@ -130,6 +133,14 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-level-clock">Layer by layer, where that start-up is found: each level cut fitted on its clock (else on real time, the chip&apos;s lamp drift held as found with it)</label>
+          <select id="re-level-clock" name="sequentialLevelClock" className={select} defaultValue="">
+            <option value="">Where the trace has a lamp reference column (default)</option>
+            <option value="on">Always</option>
+            <option value="off">Never</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
           <label htmlFor="re-cut-past">A chip&apos;s last turning-point cut held at or past its fitted turning point, by up to the overshoot below, where the reading is sharp enough to show a later cut (a controller that cuts once it sees the turning point; a hand cut well past it stands)</label>
           <select id="re-cut-past" name="cutPastTurningPoint" className={select} defaultValue="both">
             <option value="both">In both modes (default)</option>
@@ -182,6 +193,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="pooledIndex" defaultChecked /> Read each material&apos;s indices together (a layer&apos;s index from its material&apos;s trend across the run and its own reading; n·d kept)
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="levelGrowthFromNext" defaultChecked /> Joint re-fit: read a level cut&apos;s growth after the cut again from the next layer&apos;s start where that layer is a turning-point cut (as after a turning-point cut)
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="fitOnFinalStack" defaultChecked /> Layer by layer: fit a layer again where the stack below it changed after its fit (the growths after the cuts read again once the run&apos;s shutter time is known)

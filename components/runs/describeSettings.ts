@@ -21,11 +21,14 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.startTransient === false) parts.push('no start-up at the shutter');
   if (s.levelStartTransient === true) parts.push('start-up on level cuts');
   if (s.levelStartTransient === false) parts.push('no start-up on level cuts');
+  if (s.sequentialLevelClock === true) parts.push("level cuts on the start-up's clock layer by layer");
+  if (s.sequentialLevelClock === false) parts.push('level cuts on real time layer by layer');
   if (s.holdUncarriedDrift === false) parts.push('every rate drift free');
   if (s.indexGradient === true) parts.push('index gradient in thick layers');
   if (s.shutterTimeGrowth === 'bounded') parts.push("last layers' growth within 0–2 s of shutter time");
   if (s.shutterTimeGrowth === 'run-mean') parts.push("last layers' growth at the run's shutter time");
   if (s.growthFromNext === false) parts.push('growth after turning-point cuts in σ only');
+  if (s.levelGrowthFromNext === false) parts.push('growth after level cuts from the idle level only');
   if (s.turningPointExcessMean === false) parts.push('turning-point cuts placed on the turning point');
   if (s.pooledIndex === false) parts.push('each index read alone');
   if (s.fitOnFinalStack === false) parts.push('each layer fitted once');

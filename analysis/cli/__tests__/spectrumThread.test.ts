@@ -6,6 +6,7 @@ import { Worker } from 'node:worker_threads';
 import { afterAll, describe, expect, it } from 'vitest';
 import { parseDesign } from '../../design';
 import { analyzeRun } from '../../fit/analyzeRun';
+import { modelSquaredResiduals, type ModelResidualsRequest } from '../../fit/layerResult';
 import { layerSampleWork } from '../../fit/layerSampleWork';
 import { layerSpectrum } from '../../fit/layerSpectrum';
 import { wanderPrepFromRequest } from '../../fit/wanderChoiceRequest';
@@ -74,6 +75,32 @@ describe('the analyze command computes spectra on a second thread', () => {
     const got = await t.wanderPrepOf(r);
     t.close();
     expect(got).toEqual(wanderPrepFromRequest(r));
+  }, 10_000);
+
+  // a single layer of n 2.1 growing at 0.5 nm/s on glass, read in transmission with noise of 1e-3
+  const residualsRequest = (): ModelResidualsRequest => {
+    const tauS = Float64Array.from({ length: 800 }, (_, i) => i * 0.25);
+    const y = tauS.map((t, i) => 0.02 + 0.95 * (0.9 - 0.05 * Math.sin(t / 15)) + 1e-3 * Math.sin(i * 2.399));
+    return {
+      model: {
+        optics: { ambient: { re: 1, im: 0 }, substrate: { re: 1.52, im: 0 }, backside: false, wavelengthNm: 550, mode: 'T' },
+        below: [], index: 2.1, extinction: 0, indexGradient: 0, thicknessNm: 100, law: { rateNmPerS: 0.5, rateDriftNmPerS2: 0 },
+      },
+      tauS, y, offset: 0.02, gain: 0.95,
+    };
+  };
+
+  it("sums a layer's residuals here, as modelSquaredResiduals does, when the thread cannot start or has not begun it", async () => {
+    const stuck = path.join(cache, 'stuck-residuals.mjs');
+    writeFileSync(stuck, "import { parentPort } from 'node:worker_threads';\nparentPort.on('message', () => {});\nsetInterval(() => {}, 1000);\n");
+    for (const entry of [pathToFileURL(path.join(root, 'no-such-module.mjs')), pathToFileURL(stuck)]) {
+      const r = residualsRequest();
+      const t = startSpectrumThread(entry);
+      const got = await t.modelResidualsOf(r);
+      t.close();
+      expect(got).toBe(modelSquaredResiduals(r));
+      expect(got).toBeGreaterThan(0);
+    }
   }, 10_000);
 
   // db/local/cli.mjs starts the thread on the bundle before loading it; the command takes it over

@@ -22,6 +22,8 @@ describe('analysis settings', () => {
       'sequential · turning-point cuts placed on the turning point',
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', pooledIndex: false }))).toBe('refit · each index read alone');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', levelGrowthFromNext: false }))).toBe('refit · growth after level cuts from the idle level only');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', levelGrowthFromNext: true }))).toBe('refit');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitOnFinalStack: false }))).toBe('sequential · each layer fitted once');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitWithNextLayer: false }))).toBe('sequential · each level cut fitted alone');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitWithNextLayer: true }))).toBe('sequential');
@@ -39,6 +41,12 @@ describe('analysis settings', () => {
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', unmeasuredOffsetSigma: 0.005, levelStartTransient: false }))).toBe(
       'refit · unmeasured offset σ 0.5 % of full scale · no start-up on level cuts',
+    );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', levelStartTransient: true, sequentialLevelClock: false }))).toBe(
+      'sequential · start-up on level cuts · level cuts on real time layer by layer',
+    );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', sequentialLevelClock: true }))).toBe(
+      "sequential · level cuts on the start-up's clock layer by layer",
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', shutterTimeGrowth: 'run-mean' }))).toBe(
       "sequential · last layers' growth at the run's shutter time",
@@ -62,5 +70,6 @@ describe('analysis settings', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', shutterTimeGrowth: 'free' }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', cutPastTurningPoint: 'on' }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'sequential', fitWithNextLayer: 3 }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', levelGrowthFromNext: 'on' }).success).toBe(false);
   });
 });

@@ -154,6 +154,28 @@ describe('the bound code', () => {
     });
   });
 
+  // a prior adds information (never raises a bound) and a known parameter is a vanishing prior's
+  // limit; tying parameters (one index per material) is a constraint, which never raises one either
+  it('the whole chip\'s bound with the thin layers\' index told: known ≤ prior ≤ free, a vanishing prior is known, a wide one free', { timeout: 60_000 }, () => {
+    const s = scenarios().find((x) => x.name === 'thin level-cut layers (R)')!;
+    const run = simulateChamberRun(s.design, { ...s.options, seed: s.seeds[0] });
+    const free = chipBound(s.design, s.options, run, 1), wide = chipBound(s.design, s.options, run, 1, { thinIndex: 10 });
+    const prior = chipBound(s.design, s.options, run, 1, { thinIndex: 0.0064 }), known = chipBound(s.design, s.options, run, 1, { thinIndex: 0 });
+    const narrow = chipBound(s.design, s.options, run, 1, { thinIndex: 1e-7 }), shared = chipBound(s.design, s.options, run, 1, { sharedIndex: true });
+    const noDrift = chipBound(s.design, s.options, run, 1, { rateDrift: false });
+    free.forEach((b, j) => {
+      expect(wide[j].thicknessSigmaNm / b.thicknessSigmaNm).toBeCloseTo(1, 4);
+      expect(narrow[j].thicknessSigmaNm / known[j].thicknessSigmaNm).toBeCloseTo(1, 4);
+      expect(prior[j].thicknessSigmaNm).toBeLessThanOrEqual(b.thicknessSigmaNm * 1.0001);
+      expect(known[j].thicknessSigmaNm).toBeLessThanOrEqual(prior[j].thicknessSigmaNm * 1.0001);
+      expect(shared[j].indexSigma).toBeLessThanOrEqual(b.indexSigma * 1.0001);
+      expect(noDrift[j].thicknessSigmaNm).toBeLessThanOrEqual(b.thicknessSigmaNm * 1.0001);
+    });
+    // the 0.8-QWOT layer 5 on the thin L layer 4: what the held index gives it
+    expect(known[4].thicknessSigmaNm).toBeLessThan(0.5 * free[4].thicknessSigmaNm);
+    expect(known[0].indexSigma).toBe(0);
+  });
+
   it('the whole chip\'s wander bound: a vanishing wander gives B, the block length hardly matters, the wander widens it', { timeout: 60_000 }, () => {
     const s = scenarios().find((x) => x.name === 'correlated noise and rate wander, mirror')!;
     const run = simulateChamberRun(s.design, { ...s.options, seed: s.seeds[0] });

@@ -20,6 +20,16 @@ export interface ChipBoundOptions {
    * the simulator draws each layer's wander afresh). @default none (no wander)
    */
   wanderBlockS?: number;
+  /**
+   * The index of layers thinner than 0.5 QWOT: 'free' (own data only), or a Gaussian prior of this
+   * σ about the truth (0: known), as an analysis that holds a thin layer's index from the run's
+   * other layers of its material has at best. @default 'free'
+   */
+  thinIndex?: 'free' | number;
+  /** One index per material on the chip (the simulator's truth without index scatter or drift). @default false */
+  sharedIndex?: boolean;
+  /** Free rate drift a in d = r·τ + a·τ²/2 per layer (false: known, as where the simulator has none). @default true */
+  rateDrift?: boolean;
 }
 
 export interface ChipLayerBound {
@@ -91,7 +101,7 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
   };
 
   const growth = o.growth ?? 'known';
-  const free = [...layers.flatMap((_, j) => [per * j, per * j + 1, per * j + 2, ...(growth === 'free' && j < layers.length - 1 ? [per * j + 3] : [])]), gIndex];
+  const free = [...layers.flatMap((_, j) => [per * j, per * j + 1, ...(o.rateDrift === false ? [] : [per * j + 2]), ...(growth === 'free' && j < layers.length - 1 ? [per * j + 3] : [])]), gIndex];
   const derivative = (p: number) => {
     const up = [...theta], down = [...theta];
     up[p] += steps[p];
@@ -99,7 +109,27 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
     const a = signal(up), b = signal(down);
     return a.map((v, i) => (v - b[i]) / (2 * steps[p]));
   };
-  const columns = free.map(derivative);
+  const thinPrior = o.thinIndex === undefined || o.thinIndex === 'free' ? null : o.thinIndex;
+  const thin = (j: number) => layers[j].qwotAtMonitor < 0.5;
+  // a thin layer's index held known leaves the parameters; a prior adds 1/σ² to its information
+  if (thinPrior === 0) for (let j = layers.length - 1; j >= 0; j--) if (thin(j)) free.splice(free.indexOf(per * j), 1);
+  const raw = free.map(derivative);
+  // shared: each material's index one parameter, ∂s/∂n = Σ over its layers' ∂s/∂n_j (the first layer's slot holds it)
+  const nSlot = layers.map((_, j) => free.indexOf(per * j));
+  if (o.sharedIndex) {
+    layers.forEach((l, j) => {
+      const owner = layers.findIndex((m, q) => m.material === l.material && nSlot[q] >= 0 && free[nSlot[q]] === per * q);
+      if (owner >= 0 && owner !== j && nSlot[j] >= 0) {
+        const a = raw[nSlot[owner]], b = raw[nSlot[j]];
+        for (let i = 0; i < a.length; i++) a[i] += b[i];
+        nSlot[j] = nSlot[owner];
+      }
+    });
+  }
+  const dropped = new Set(layers.flatMap((_, j) => (nSlot[j] >= 0 && free[nSlot[j]] !== per * j ? [free.indexOf(per * j)] : [])));
+  const keep = free.map((_, c) => !dropped.has(c));
+  const columns = raw.filter((_, c) => keep[c]);
+  const colOf = (c: number) => (c < 0 ? -1 : keep.slice(0, c).filter(Boolean).length);
   // The wander's columns from ∂s/∂r and ∂s/∂(end thickness) (= ∂s/∂g): in layer j at step m,
   // ∂s/∂u_k = (∂s/∂r)/τ_m · r·Δt·#{steps < m in block k}; after it, ∂s/∂g · r·Δt·#{steps in block k}.
   function wanderColumns(blockS: number) {
@@ -108,7 +138,7 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
     const out: Float64Array[] = [], firstNonZero: number[] = [], prior: [number, number, number][] = [], offsets: number[] = [];
     const count = (m: number, kb: number) => Math.min(Math.max(m - kb * B, 0), B);
     layers.forEach((l, j) => {
-      const jr = columns[free.indexOf(per * j + 1)], jg = derivative(per * j + 3);
+      const jr = raw[free.indexOf(per * j + 1)], jg = derivative(per * j + 3);
       const nj = Math.round(tauEnd[j] / dt) + 1, blocks = Math.ceil(nj / B), r = theta[per * j + 1];
       const f0 = first.get(l.layer)!, last = f0 + nj - 1;
       offsets.push(out.length);
@@ -141,14 +171,16 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
   const all = [...columns, ...(wander?.columns ?? [])];
   const info = gram(whiten(all, detectorNoise(options)), wander?.firstNonZero);
   if (wander) for (const [a, b, v] of wander.prior) info[columns.length + a][columns.length + b] += v;
+  if (thinPrior !== null && thinPrior > 0) layers.forEach((_, j) => { if (thin(j) && nSlot[j] >= 0) info[colOf(nSlot[j])][colOf(nSlot[j])] += 1 / thinPrior ** 2; });
   const crb = invert(info);
   return layers.map((l, j) => {
-    const gradTheta = free.map((p) => (p === per * j + 1 ? tauEnd[j] : p === per * j + 2 ? 0.5 * tauEnd[j] ** 2 : p === per * j + 3 ? 1 : 0));
+    const gradTheta = free.filter((_, c) => keep[c]).map((p) => (p === per * j + 1 ? tauEnd[j] : p === per * j + 2 ? 0.5 * tauEnd[j] ** 2 : p === per * j + 3 ? 1 : 0));
     const gradD = [...gradTheta, ...(wander ? wander.endGradient(j) : [])];
-    const gradND = gradD.map((v, q) => (q === free.indexOf(per * j) ? l.thicknessNm : l.index * v));
+    const nCol = colOf(nSlot[j]);
+    const gradND = gradD.map((v, q) => (q === nCol ? l.thicknessNm : l.index * v));
     const opticalSigmaNm = Math.sqrt(quadratic(crb, gradND));
     return {
-      layer: l.layer, thicknessSigmaNm: Math.sqrt(quadratic(crb, gradD)), indexSigma: Math.sqrt(crb[free.indexOf(per * j)][free.indexOf(per * j)]),
+      layer: l.layer, thicknessSigmaNm: Math.sqrt(quadratic(crb, gradD)), indexSigma: nCol < 0 ? 0 : Math.sqrt(crb[nCol][nCol]),
       opticalSigmaNm, cutSigmaQwotPct: (opticalSigmaNm / (wl / 4)) * 100,
     };
   });
