@@ -10,6 +10,20 @@ const select = 'rounded-md border border-paper-line bg-paper-raised px-2 py-1.5 
  * Queues a new analysis of this run with other fit settings (POST /api/runs/{id}/analyses), then
  * watches it and refreshes the page when it has finished. Every earlier result is kept.
  */
+/** An option whose default follows the trace: on where it has a lamp reference column. */
+function ReferenceDefaultSelect({ id, name, label }: { id: string; name: string; label: string }) {
+  return (
+    <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+      <label htmlFor={id}>{label}</label>
+      <select id={id} name={name} className={select} defaultValue="">
+        <option value="">Where the trace has a lamp reference column (default)</option>
+        <option value="on">Always</option>
+        <option value="off">Never</option>
+      </select>
+    </div>
+  );
+}
+
 export function ReanalyseForm({ runId }: { runId: number }) {
   const router = useRouter();
   const [waiting, setWaiting] = useState<string | null>(null);
@@ -124,22 +138,8 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <option value="bounded">That time kept within 0–2 s (layer by layer&apos;s default)</option>
           </select>
         </div>
-        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-level-start">On a run cut only on level: the rate&apos;s start-up as the shutter opens, found with the lamp drift in each chip&apos;s joint fit</label>
-          <select id="re-level-start" name="levelStartTransient" className={select} defaultValue="">
-            <option value="">Where the trace has a lamp reference column (default)</option>
-            <option value="on">Always</option>
-            <option value="off">Never</option>
-          </select>
-        </div>
-        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-level-clock">Layer by layer, where that start-up is found: each level cut fitted on its clock (else on real time, the chip&apos;s lamp drift held as found with it)</label>
-          <select id="re-level-clock" name="sequentialLevelClock" className={select} defaultValue="">
-            <option value="">Where the trace has a lamp reference column (default)</option>
-            <option value="on">Always</option>
-            <option value="off">Never</option>
-          </select>
-        </div>
+        <ReferenceDefaultSelect id="re-level-start" name="levelStartTransient" label="On a run cut only on level: the rate's start-up as the shutter opens, found with the lamp drift in each chip's joint fit" />
+        <ReferenceDefaultSelect id="re-level-clock" name="sequentialLevelClock" label="Layer by layer, where that start-up is found: each level cut fitted on its clock (else on real time, the chip's lamp drift held as found with it)" />
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
           <label htmlFor="re-cut-past">A chip&apos;s last turning-point cut held at or past its fitted turning point, by up to the overshoot below, where the reading is sharp enough to show a later cut (a controller that cuts once it sees the turning point; a hand cut well past it stands)</label>
           <select id="re-cut-past" name="cutPastTurningPoint" className={select} defaultValue="both">
