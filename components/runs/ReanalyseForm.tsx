@@ -16,7 +16,7 @@ function ReferenceDefaultSelect({ id, name, label }: { id: string; name: string;
     <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
       <label htmlFor={id}>{label}</label>
       <select id={id} name={name} className={select} defaultValue="">
-        <option value="">Where the trace has a lamp reference column (default)</option>
+        <option value="">With a lamp reference column (default)</option>
         <option value="on">Always</option>
         <option value="off">Never</option>
       </select>
