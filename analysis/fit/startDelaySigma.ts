@@ -1,7 +1,7 @@
 import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
 import { evaluateLayers, paramLayout, type FitLayerData } from './layerModel';
 import { layerChangesFor, type LayerChange } from './solutionShift';
-import { type PooledStartDelay } from './startDelay';
+import { START_DELAY_GRID_S, type PooledStartDelay } from './startDelay';
 import { exposureTime, realTime } from './startTransient';
 
 /**
@@ -113,5 +113,9 @@ export function startDelayNote(p: PooledStartDelay, over: 'layer' | 'chip' = 'la
   const found = `start transient: the rate reaches its full value as if the shutter opened ${p.delayS.toFixed(2)} ± ${p.sigmaS.toFixed(2)} s late ` +
     `(pooled over ${p.layers} ${over === 'chip' ? (p.layers === 1 ? 'chip\'s joint fit' : 'chips\' joint fits') : 'layers'}${p.shutterS !== null ? `, with growth after turning-point cuts of ${p.shutterS.toFixed(2)} s at the full rate` : ''}, χ² lower by ${p.gainChi2.toFixed(1)}${over === 'layer' && p.dispersion > 1 ? `, ${(p.gainChi2 / p.dispersion).toFixed(1)} on the layers' own scatter` : ''})`;
   if (p.kept && driftOnly) return `${found}; each chip's gain drift held at its value there, the layers fitted on real time`;
-  return p.kept ? `${found}; every layer fitted with it` : `${found}: not kept (not above the margin of ${p.marginChi2.toFixed(1)}); layers fitted without it`;
+  if (p.kept) return `${found}; every layer fitted with it`;
+  const firstStep = START_DELAY_GRID_S[1];
+  const why = p.delayS > 0 && p.delayS < firstStep && p.gainChi2 / p.dispersion > p.marginChi2
+    ? `inside the profile grid's first step of ${firstStep} s` : `not above the margin of ${p.marginChi2.toFixed(1)}`;
+  return `${found}: not kept (${why}); layers fitted without it`;
 }
