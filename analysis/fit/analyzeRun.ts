@@ -466,8 +466,9 @@ async function analyzeLayers(
         optics, nominalAt, tauS: binned.tauS, y: binned.y, durationS: built.state?.fit.durationS ?? durationS,
         extinction: -nominal.im, heldIndex: built.state?.fit.heldIndex ?? heldIndex, fitDrift: built.state?.fit.fitDrift ?? qwotAtMonitor >= 0.5, weight: built.state?.weight ?? 1,
         heldGain: o.gain === 'chip' || levelGain || holdsGain.has(chip) ? cg.gain * (1 + cg.driftPerS * chipTimeS) : null, chipTimeS, gainDriftPerS: cg.driftPrior ? cg.driftPerS : heldDrift(chip).perS,
-        ...(built.wander ? { wander: { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } } : {}),
-        ...(built.gradient ? { indexGradient: 'fit' as const } : {}),
+        // every key present (undefined when absent) and in one order: one object shape for V8 (layerModel.ts)
+        wander: built.wander ? { ...built.wander, pointSigma: built.wander.pointSigma * Math.sqrt(binned.tauS.length / n) } : undefined,
+        indexGradient: built.gradient ? 'fit' as const : undefined,
       };
     };
     const fit = make(o.maxFitPoints);

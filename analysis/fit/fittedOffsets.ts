@@ -199,6 +199,8 @@ function offsetFitData(design: Design, trace: TraceData, dl: DesignLayer, s: Lay
   return {
     optics: { ambient: indexAt(design.ambient, wl), substrate: indexAt(design.substrate, wl), backside: design.substrateBackside, wavelengthNm: wl, mode: dl.monitor.mode },
     nominalAt: (w) => indexAt(model, w), tauS: Float64Array.from(sub, (k) => s.tauS[k]), y: Float64Array.from(sub, (k) => trace.signal[s.indices[k]]),
-    durationS: s.tauS[n - 1], extinction: -nominal.im, heldIndex: thin ? nominal.re : null, fitDrift: false, heldGain: null, chipTimeS: 0,
+    durationS: s.tauS[n - 1], extinction: -nominal.im, heldIndex: thin ? nominal.re : null, fitDrift: false, weight: undefined, heldGain: null, chipTimeS: 0,
+    // the keys and order of analyzeRun's layers: one object shape in the model's hot code
+    gainDriftPerS: undefined, wander: undefined, indexGradient: undefined,
   };
 }

@@ -46,6 +46,20 @@ export interface FitLayerData {
   indexGradient?: 'fit' | number;
 }
 
+/**
+ * A layer's fit data with every field present (undefined when absent) and in one order. Hot code
+ * (evaluateLayers, jacobianLayers) reads these objects; V8 compiles it for the object shapes it
+ * has seen, and each further shape (a field missing, or in another order) deoptimises it and
+ * costs a recompile.
+ */
+export function fitLayerData(f: FitLayerData): FitLayerData {
+  return {
+    optics: f.optics, nominalAt: f.nominalAt, tauS: f.tauS, y: f.y, durationS: f.durationS, extinction: f.extinction,
+    heldIndex: f.heldIndex, fitDrift: f.fitDrift, weight: f.weight, heldGain: f.heldGain, chipTimeS: f.chipTimeS,
+    gainDriftPerS: f.gainDriftPerS, wander: f.wander, indexGradient: f.indexGradient,
+  };
+}
+
 /** The physical parameters of one layer. */
 export interface LayerParams {
   index: number;
@@ -102,9 +116,9 @@ export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: n
   i += k;
   const indexGradient = layer.indexGradient === 'fit' ? p[i++] : layer.indexGradient;
   const gain = layout && layout.shared >= 0 ? sharedGainAt(p, layout, layer.chipTimeS, layer.gainDriftPerS) : layer.heldGain === null ? p[i] : layer.heldGain;
-  const out: LayerParams = wander ? { index, rateNmPerS, rateDriftNmPerS2, gain, wander } : { index, rateNmPerS, rateDriftNmPerS2, gain };
-  if (indexGradient !== undefined) out.indexGradient = indexGradient;
-  return out;
+  // One shape for every layer (absent fields undefined, not missing): the model's hot loops read
+  // these objects, and a second shape there costs V8 a deoptimisation and a recompile.
+  return { index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient };
 }
 
 export function encodeLayer(layer: FitLayerData, v: LayerParams, out: number[], sharedGain = false): void {
@@ -137,13 +151,17 @@ export function evaluateLayers(
    */
   phase?: { cos: Float64Array; sin: Float64Array; fill: boolean; after: number },
 ): void {
-  const values = layers.map((l, j) => decodeLayer(l, p, layout.offsets[j], layout));
+  // Arrays built by a loop rather than map()/slice(): their element kind then stays the same in
+  // V8's interpreter and optimised code (map() there makes another, and every switch deoptimises).
+  const values: LayerParams[] = [];
+  for (let j = 0; j < layers.length; j++) values.push(decodeLayer(layers[j], p, layout.offsets[j], layout));
   let pos = 0;
   for (let j = 0; j < fromLayer; j++) pos += layers[j].tauS.length;
   for (let j = fromLayer; j < layers.length; j++) {
     const layer = layers[j];
     const v = values[j];
-    const below: LayerAt[] = fixedBelow.slice();
+    const below: LayerAt[] = [];
+    for (let i = 0; i < fixedBelow.length; i++) below.push(fixedBelow[i]);
     for (let i = 0; i < j; i++) {
       const b = layerAtWavelength(layers[i], values[i], layer.optics.wavelengthNm);
       if (shift && shift.layer === i) b.thicknessNm += shift.deltaNm;

@@ -1,6 +1,6 @@
 import { indexAt, type MaterialModel } from '../materials';
 import { type Complex, type LayerAt } from '../optics';
-import { type FitLayerData, type LayerParams } from './layerModel';
+import { fitLayerData, type FitLayerData, type LayerParams } from './layerModel';
 import { indexRange } from './layerSampleWork';
 import { binsOnExposureClocks } from './profileBins';
 import { PROFILE_POINTS, type StartDelayProfile } from './startDelay';
@@ -57,7 +57,7 @@ export function profileFromRequest(r: StartDelayProfileRequest): (StartDelayProf
       ...(l.gainPrior ? { gainPrior: l.gainPrior } : {}), ...(l.growthBelow ? { growthBelow: l.growthBelow } : {}),
       dataAt: (delayS: number) => {
         const b = bins(l.onClock ? delayS : 0);
-        return { ...l.layer, nominalAt, tauS: b.tauS, y: b.y, durationS: l.onClock ? exposureTime(l.layer.durationS, delayS) : l.layer.durationS };
+        return fitLayerData({ ...l.layer, nominalAt, tauS: b.tauS, y: b.y, durationS: l.onClock ? exposureTime(l.layer.durationS, delayS) : l.layer.durationS });
       },
     };
   }));

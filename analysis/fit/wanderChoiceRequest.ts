@@ -1,6 +1,6 @@
 import { indexAt, type MaterialModel } from '../materials';
 import { type Complex } from '../optics';
-import { type FitLayerData } from './layerModel';
+import { fitLayerData, type FitLayerData } from './layerModel';
 import { type WanderChoiceInput } from './wanderChoice';
 import { prepareRateWander, type WanderPrep } from './wanderPrep';
 
@@ -30,7 +30,7 @@ export function wanderPrepFromRequest(r: WanderChoiceRequest): WanderPrep {
     return v;
   };
   const { material: _m, layer, ...input } = r;
-  return prepareRateWander({ ...input, layer: { ...layer, nominalAt } });
+  return prepareRateWander({ ...input, layer: fitLayerData({ ...layer, nominalAt }) });
 }
 
 /** The arrays of a prep that another thread may hand over rather than copy (it keeps none of them). */

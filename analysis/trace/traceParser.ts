@@ -303,7 +303,11 @@ export class TraceParser {
     const kinds = this.kinds, nFields = kinds.length, columns = this.fieldColumns;
     const maxRows = this.limits.maxRows, layerLimit = this.limits.layerCount ?? Infinity;
     let r = this.rowCount, prevTime = this.prevTime, maxLayer = this.maxLayer, timeStart = -1, timeEnd = -1;
-    let arrays = columns.map((c) => c?.data ?? null);
+    // Filled by a loop and refreshed in place after a growth, never rebuilt by map(): V8's
+    // optimised map() makes an array of another element kind than the interpreter's, and reading
+    // it then deoptimises this loop (a recompile for each chunk of a large file).
+    const arrays: (Float64Array | Int32Array | null)[] = [];
+    for (let j = 0; j < nFields; j++) arrays.push(columns[j]?.data ?? null);
     let capacity = this.time.data.length;
     let lineStart = start;
     while (r < maxRows) {
@@ -312,7 +316,7 @@ export class TraceParser {
       const stopAt = nl > lineStart && bytes[nl - 1] === 13 ? nl - 1 : nl;
       if (r >= capacity) {
         for (const c of columns) c?.grow();
-        arrays = columns.map((c) => c?.data ?? null);
+        for (let j = 0; j < nFields; j++) arrays[j] = columns[j]?.data ?? null;
         capacity = this.time.data.length;
       }
       let pos = lineStart, ok = true, time = 0, tStart = 0, tEnd = 0, layerMax = maxLayer;
