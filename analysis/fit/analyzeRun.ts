@@ -412,6 +412,10 @@ async function analyzeLayers(
   // The start delay's profiles, chip by chip (each chip's layers in order, sent after its last).
   const profileChains = new Map<number, StartDelayLayerRequest[]>();
   const lastOfChip = new Map(order.map((l) => [samplesByLayer.get(l.layer)!.chip, l.layer]));
+  const sendChain = (layers: StartDelayLayerRequest[]) => {
+    const request = { layers };
+    transient.profiles?.push(o.startDelayProfileOf ? o.startDelayProfileOf(request) : Promise.resolve(profileFromRequest(request)));
+  };
   let done = 0;
   for (const dl of order) {
     const samples = samplesByLayer.get(dl.layer)!;
@@ -567,8 +571,7 @@ async function analyzeLayers(
       profileChains.set(chip, chain);
       if (lastOfChip.get(chip) === dl.layer) {
         profileChains.delete(chip);
-        const request = { layers: chain };
-        transient.profiles.push(o.startDelayProfileOf ? o.startDelayProfileOf(request) : Promise.resolve(profileFromRequest(request)));
+        sendChain(chain);
       }
     }
     // Not inside boundaries placed on the design's curve (no layer column): those were placed with a
@@ -745,10 +748,7 @@ async function analyzeLayers(
   }
 
   // (a chip whose last layer had too few samples to fit: its chain is sent here)
-  for (const chain of profileChains.values()) {
-    const request = { layers: chain };
-    transient.profiles?.push(o.startDelayProfileOf ? o.startDelayProfileOf(request) : Promise.resolve(profileFromRequest(request)));
-  }
+  for (const chain of profileChains.values()) sendChain(chain);
   if (transient.profiles) return null;
   if (o.mode === 'refit') {
     // Thin layers: hold at the drift estimate from the whole run, then one final joint fit per chip.

@@ -54,8 +54,7 @@ export function fitWithNextLayers(chipLayers: ReadonlyMap<number, LayerState[]>,
   for (const [chip, chipStates] of chipLayers) {
     for (let j = 0; j < chipStates.length; j++) {
       const s = chipStates[j];
-      const window = chipStates.slice(j, j + NEXT_LAYER_WINDOW);
-      if (s.design.monitor.cut !== 'level' || window.some((p) => !p.pairPart)) {
+      if (!opensWindow(chipStates, j)) {
         ownFitAgain(s, chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm)));
         continue;
       }
@@ -65,7 +64,7 @@ export function fitWithNextLayers(chipLayers: ReadonlyMap<number, LayerState[]>,
         break;
       }
       // the level cuts keep the window's estimates (the next window starts from them); the turning-point cuts their own fits
-      window.forEach((p, k) => {
+      chipStates.slice(j, j + NEXT_LAYER_WINDOW).forEach((p, k) => {
         if (p.design.monitor.cut !== 'level') return;
         p.estimate = withRefitted(p.estimate, result.layers[k]);
       });
@@ -89,7 +88,7 @@ export function fitHeldAgain(chipLayers: ReadonlyMap<number, LayerState[]>, robu
   const done = new Set<LayerState>();
   for (const chipStates of chipLayers.values()) {
     chipStates.forEach((s, j) => {
-      if (!held.has(s) || s.design.monitor.cut !== 'level' || chipStates.slice(j, j + NEXT_LAYER_WINDOW).some((p) => !p.pairPart)) return;
+      if (!held.has(s) || !opensWindow(chipStates, j)) return;
       const result = fitWindow(chipStates, j, robust);
       if (!result) return;
       s.estimate = withRefitted(s.estimate, result.layers[0]);
@@ -97,6 +96,11 @@ export function fitHeldAgain(chipLayers: ReadonlyMap<number, LayerState[]>, robu
     });
   }
   return done;
+}
+
+/** Whether chip layer j opens a window: a level cut whose window's layers all have the pass's pair part. */
+function opensWindow(chipStates: readonly LayerState[], j: number): boolean {
+  return chipStates[j].design.monitor.cut === 'level' && chipStates.slice(j, j + NEXT_LAYER_WINDOW).every((p) => p.pairPart);
 }
 
 /**

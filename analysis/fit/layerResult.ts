@@ -230,12 +230,7 @@ function squaredResidualsOf(y: Float64Array, offset: number, gain: number, m: Fl
 
 /** Σ of the squared residuals in model units, (reading − offset)/gain − M; the modelled readings into modelOut when given. */
 function squaredResiduals(signal: Float64Array, indices: Int32Array, offset: number, gain: number, m: Float64Array, modelOut?: Float64Array): number {
-  let ss = 0;
-  for (let i = 0; i < m.length; i++) {
-    const r = (signal[indices[i]] - offset) / gain - m[i];
-    ss += r * r;
-    if (modelOut) modelOut[indices[i]] = offset + gain * m[i];
-  }
-  return ss;
+  if (modelOut) for (let i = 0; i < m.length; i++) modelOut[indices[i]] = offset + gain * m[i];
+  return squaredResidualsOf(sampleReadings(signal, indices), offset, gain, m);
 }
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { parseDesign } from '@/analysis/design';
-import { analyzeRun, type AnalysisResult } from '@/analysis/fit';
+import { analyzeRun, type AnalysisResult, type AnalyzeOptions } from '@/analysis/fit';
 import { readTrace } from '@/analysis/trace';
 import { chamberCsv, chamberCsvChunks, simulateChamberRun, type ChamberOptions, type ChamberRun } from '..';
 import { layerErrors, misses, summarize } from '../harness/accuracyTable';
@@ -24,6 +24,25 @@ async function analyse(run: ChamberRun): Promise<AnalysisResult> {
   // and its layer 2 of 0.41 QWOT goes −1.03 → −2.00 % in n·d, cut 0.82 % QWOT; over seeds 21–36 the
   // thin layers' RMS 0.82 → 0.90 %, max 2.30 % either way, the rest unchanged).
   return analyzeRun(design, trace, { mode: 'refit', levelStartTransient: false });
+}
+
+/**
+ * Seeds SEEDS with the real chamber's ramp (rate·(1 − e^(−t/1.5 s))), the lamp and the noise,
+ * analysed in `mode` at the defaults (where the start-up must be found on every layer) and with
+ * `off`: the layers' errors of each.
+ */
+async function withRampAndWithout(mode: 'refit' | 'sequential', off: AnalyzeOptions) {
+  const design = parseDesign(bbarDesign(), 'bbar.json');
+  const withIt = [], without = [];
+  for (const seed of SEEDS) {
+    const run = simulateChamberRun(bbarDesign(), { ...LAMP_AND_NOISE, rampS: 1.5, seed });
+    const trace = await readTrace(chamberCsvChunks(run), { fileName: 'bbar.csv', layerCount: design.layers.length });
+    const a = await analyzeRun(design, trace, { mode });
+    expect(a.warnings.some((w) => w.startsWith('start transient:') && w.includes('every layer fitted with it'))).toBe(true);
+    withIt.push(...layerErrors(seed, a, run.truth.layers));
+    without.push(...layerErrors(seed, await analyzeRun(design, trace, { mode, ...off }), run.truth.layers));
+  }
+  return { s: summarize(withIt), s0: summarize(without) };
 }
 
 describe('the lamp reference column', () => {
@@ -92,18 +111,7 @@ describe('the lamp reference column', () => {
   it("refit: the rate's start-up as the shutter opens found on the level cuts by itself, the index within 0.005 with it and not without", { timeout: 300_000 }, async () => {
     // The ramp of the real chamber (rate·(1 − e^(−t/1.5 s)): an effective start delay of 1.5 s) with
     // the lamp and the noise: each layer's own start-up read as a slower rate and a higher index.
-    const ramp = { ...LAMP_AND_NOISE, rampS: 1.5 };
-    const design = parseDesign(bbarDesign(), 'bbar.json');
-    const withIt = [], without = [];
-    for (const seed of SEEDS) {
-      const run = simulateChamberRun(bbarDesign(), { ...ramp, seed });
-      const trace = await readTrace(chamberCsvChunks(run), { fileName: 'bbar.csv', layerCount: design.layers.length });
-      const a = await analyzeRun(design, trace, { mode: 'refit' });
-      expect(a.warnings.some((w) => w.startsWith('start transient:') && w.includes('every layer fitted with it'))).toBe(true);
-      withIt.push(...layerErrors(seed, a, run.truth.layers));
-      without.push(...layerErrors(seed, await analyzeRun(design, trace, { mode: 'refit', levelStartTransient: false }), run.truth.layers));
-    }
-    const s = summarize(withIt), s0 = summarize(without);
+    const { s, s0 } = await withRampAndWithout('refit', { levelStartTransient: false });
     // Measured (seeds 21–23): index 0.0015 with it (δ̂ 1.31, 2.27, 1.17 s), 0.0058 without; coverage 100 %.
     expect(s.maxIndex).toBeLessThanOrEqual(CHAMBER_TARGETS.index);
     expect(s0.maxIndex).toBeGreaterThan(CHAMBER_TARGETS.index);
@@ -113,18 +121,7 @@ describe('the lamp reference column', () => {
   it("sequential: each level cut's own fit on the start-up's clock (option sequentialLevelClock, on with a reference column), the index within 0.005 and thin layers within 1.5 % with it and not on real time", { timeout: 300_000 }, async () => {
     // The ramp, the lamp and the noise as above; in sequential each layer's law d = r·τ + a·τ²/2 on
     // real time starts at the logged start and takes the start-up's lag into its rate and end.
-    const ramp = { ...LAMP_AND_NOISE, rampS: 1.5 };
-    const design = parseDesign(bbarDesign(), 'bbar.json');
-    const withIt = [], realTime = [];
-    for (const seed of SEEDS) {
-      const run = simulateChamberRun(bbarDesign(), { ...ramp, seed });
-      const trace = await readTrace(chamberCsvChunks(run), { fileName: 'bbar.csv', layerCount: design.layers.length });
-      const a = await analyzeRun(design, trace, { mode: 'sequential' });
-      expect(a.warnings.some((w) => w.startsWith('start transient:') && w.includes('every layer fitted with it'))).toBe(true);
-      withIt.push(...layerErrors(seed, a, run.truth.layers));
-      realTime.push(...layerErrors(seed, await analyzeRun(design, trace, { mode: 'sequential', sequentialLevelClock: false }), run.truth.layers));
-    }
-    const s = summarize(withIt), s0 = summarize(realTime);
+    const { s, s0 } = await withRampAndWithout('sequential', { sequentialLevelClock: false });
     // Measured (seeds 21–23): with it thickness 0.77 %, index 0.0037, thin layers 0.97 % (layer 1
     // −0.34 to +0.27 %); on real time 2.87 %, 0.0071, 2.10 % (layer 1 −1.09 to −0.51 %).
     expect(s.maxIndex).toBeLessThanOrEqual(CHAMBER_TARGETS.index);
