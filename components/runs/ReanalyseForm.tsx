@@ -1,7 +1,9 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
+import { useQuery } from '@tanstack/react-query';
 import { useEffect, useState, useTransition } from 'react';
+import { analysisFinished, analysisQuery } from '@/components/query/analysisQuery';
 
 type Answer = { analysis?: { id: string; state: string }; error?: { message: string } };
 const select = 'rounded-md border border-paper-line bg-paper-raised px-2 py-1.5 text-sm text-ink';
@@ -32,24 +34,17 @@ export function ReanalyseForm({ runId }: { runId: number }) {
   // never says "finished" beside a list that still says "waiting".
   const [, startTransition] = useTransition();
 
+  // The queued analysis, asked after until it is done or failed (the upload page's watch does the same).
+  const watched = useQuery({ ...analysisQuery(waiting ?? ''), enabled: waiting !== null });
   useEffect(() => {
-    if (!waiting) return;
-    const timer = setInterval(() => {
-      void fetch(`/api/analyses/${waiting}`, { cache: 'no-store' })
-        .then((r) => r.json() as Promise<{ state: string }>)
-        .then((a) => {
-          if (a.state === 'done' || a.state === 'failed') {
-            setWaiting(null);
-            startTransition(() => {
-              setMessage(`Analysis #${waiting} ${a.state === 'done' ? 'finished' : 'failed'}.`);
-              router.refresh();
-            });
-          }
-        })
-        .catch(() => undefined);
-    }, 1500);
-    return () => clearInterval(timer);
-  }, [waiting, router]);
+    const answer = watched.data;
+    if (!waiting || !answer || !analysisFinished(answer)) return;
+    setWaiting(null);
+    startTransition(() => {
+      setMessage(`Analysis #${waiting} ${answer.state === 'done' ? 'finished' : 'failed'}.`);
+      router.refresh();
+    });
+  }, [waiting, watched.data, router]);
 
   async function submit(form: FormData) {
     setMessage(null);
@@ -228,6 +223,11 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           {waiting ? `Analysis #${waiting} in the queue…` : 'Queue the analysis'}
         </button>
         {message ? <span className="text-sm text-ink-soft" role="status">{message}</span> : null}
+        {waiting && watched.error ? (
+          <span className="text-sm text-alarm" role="status">
+            Could not read analysis #{waiting}&apos;s state ({watched.error.message}); still asking every few seconds.
+          </span>
+        ) : null}
       </div>
     </form>
   );

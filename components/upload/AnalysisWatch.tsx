@@ -3,22 +3,14 @@
 import Link from 'next/link';
 import { useQueries } from '@tanstack/react-query';
 import { AnalysisStateBadge } from '@/components/runs/AnalysisStateBadge';
-import { fetchJson } from '@/components/query/fetchJson';
-
-type AnalysisState = { id: string; mode: 'sequential' | 'refit'; state: 'queued' | 'running' | 'done' | 'failed'; error?: string; result?: { layers: unknown[]; warnings: string[] } };
+import { analysisFinished as finished, analysisQuery } from '@/components/query/analysisQuery';
 
 const modeLabel = { sequential: 'Layer by layer', refit: 'Joint re-fit' } as const;
-const finished = (a?: AnalysisState) => a?.state === 'done' || a?.state === 'failed';
 
 /** The queued analyses of an upload, polled every 1.5 s until each is done or failed, then the way to the run. */
 export function AnalysisWatch({ run, analyses }: { run: { url: string; runCode: string }; analyses: { id: string; mode: 'sequential' | 'refit' }[] }) {
   const results = useQueries({
-    queries: analyses.map((a) => ({
-      queryKey: ['analysis', a.id],
-      queryFn: () => fetchJson<AnalysisState>(`/api/analyses/${a.id}`),
-      refetchInterval: (q: { state: { data?: AnalysisState } }) => (finished(q.state.data) ? false : 1500),
-      staleTime: 0,
-    })),
+    queries: analyses.map((a) => analysisQuery(a.id)),
   });
   const allDone = results.every((r) => finished(r.data));
   return (

@@ -13,6 +13,7 @@ import { PageHeader, Panel, formatTime } from '@/components/ui/Page';
 import { findAnalysis, latestAnalyses, listAnalysesOfRun, type AnalysisMode } from '@/db/queries/analyses';
 import { dispositionAuthor, listAnnotations, listComments, runDesignDocument } from '@/db/queries/review';
 import { AnalysisHistory } from '@/components/runs/AnalysisHistory';
+import { QueryProvider } from '@/components/query/QueryProvider';
 import { ReanalyseForm } from '@/components/runs/ReanalyseForm';
 import { findRun } from '@/db/queries/runs';
 import { findOverview } from '@/db/queries/series';
@@ -205,7 +206,9 @@ export default async function RunPage({ params, searchParams }: { params: Promis
       </Panel>
       {can(user.role, 'reanalyseRuns') ? (
         <Panel title="Analyse again with other settings" className="mt-6">
-          <ReanalyseForm runId={run.id} />
+          <QueryProvider>
+            <ReanalyseForm runId={run.id} />
+          </QueryProvider>
         </Panel>
       ) : null}
     </>
