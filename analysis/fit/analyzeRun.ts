@@ -47,7 +47,7 @@ import { sharedWanderCosts, sharedWanders, type WanderEvidence } from './pooledW
 import { poolIndices } from './pooledIndex';
 import { addWanderVariance, wanderErrorVariances, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
-import { pooledStartDelay, type PooledStartDelay, type StartDelayProfile } from './startDelay';
+import { pooledStartDelay, unresolvedDelaySigma, type PooledStartDelay, type StartDelayProfile } from './startDelay';
 import { profileFromRequest, startDelayLayerRequest, type StartDelayLayerRequest } from './startDelayRequest';
 import { binsOnExposureClocks } from './profileBins';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
@@ -206,7 +206,9 @@ async function analyzeSignal(design: Design, trace: TraceData, options: AnalyzeO
   const pooled = level ? levelFound : await findStartDelay(design, trace, options, basis);
   await sampleWarnings();
   if (!pooled?.kept) {
-    const plain = await analyzePass(design, trace, options, { delayS: 0 }, basis);
+    // the layers on real time; a delay chosen inside the profile grid's first step carried into their σ (fit/startDelay.ts unresolvedDelaySigma)
+    const sigmaS = pooled && !level ? unresolvedDelaySigma(pooled) : 0;
+    const plain = await analyzePass(design, trace, options, { delayS: 0, ...(sigmaS > 0 ? { sigmaS } : {}) }, basis);
     return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled, level ? 'chip' : 'layer')] : plain.warnings };
   }
   // (where kept, the drift is fitted as the profile fitted it: held at δ̂, its estimate takes up the start-up again)
@@ -329,6 +331,8 @@ async function analyzeLayers(
   // it directly, and there the delay cost more than it gave (the sample four-layer AR, ramp 1.2 s,
   // refit: δ̂ 1.34 ± 0.46 s from two layers, n·d of layer 2 off by 1.13 % against 0.42 % without).
   const onClock = (l: number) => design.layers[l - 1]?.monitor.cut === 'turning-point' || (!!transient.levelOnClock && design.layers[l - 1]?.monitor.cut === 'level');
+  // the layers whose σ takes the delay's (on its clock; at δ = 0, those that would be)
+  const carriesDelay = (s: LayerSamples, l: number) => (transient.delayS > 0 ? (s.startDelayS ?? 0) > 0 : onClock(l));
   const samplesByLayer = transient.delayS > 0 && !byDesign
     ? new Map([...gathered].map(([l, s]) => [l, onClock(l) ? onExposureClock(s, transient.delayS) : s])) : gathered;
   // Boundaries placed on the design's curve (no layer column) already end where the growth after
@@ -690,7 +694,7 @@ async function analyzeLayers(
       }
       if (transient.sigmaS && !byDesign) {
         const e = single.layers[0];
-        carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, [(samples.startDelayS ?? 0) > 0], ([moved]) => fitAgain(moved, e, below, 30));
+        carryStartDelaySigma([fit], [e], transient.delayS, transient.sigmaS, [carriesDelay(samples, dl.layer)], ([moved]) => fitAgain(moved, e, below, 30));
       }
     }
     // A layer the smooth-rate model does not follow (rate spike, jump) counts less in joint fits.
@@ -808,7 +812,7 @@ async function analyzeLayers(
       if (transient.sigmaS && !byDesign) {
         // to the ends the growths after the cuts put on the layers (LayerEnds), as their estimates now stand
         const ended = data.map((d, j) => ({ ...d, durationS: chipStates[j].fit.durationS }));
-        carryJointStartDelaySigma(ended, chipStates.map((p) => p.estimate), cal.offset, transient.delayS, transient.sigmaS, chipStates.map((p) => (p.samples.startDelayS ?? 0) > 0), cg, o.robustLoss, joint);
+        carryJointStartDelaySigma(ended, chipStates.map((p) => p.estimate), cal.offset, transient.delayS, transient.sigmaS, chipStates.map((p) => carriesDelay(p.samples, p.design.layer)), cg, o.robustLoss, joint);
       }
       if (shared) {
         cal.refinedGain = shared.gain;
