@@ -72,7 +72,25 @@ function logPrior(e: GrowthEvidence, x: number): number {
   if (!p) return Math.log(Math.max(normalCdf(x / s) - normalCdf((x - max) / s), 1e-300));
   const v2 = p.sigmaNm ** 2 + s * s;
   const mx = (p.meanNm * s * s + x * p.sigmaNm ** 2) / v2, v = (p.sigmaNm * s) / Math.sqrt(v2);
-  return -0.5 * ((x - p.meanNm) ** 2) / v2 + Math.log(Math.max(normalCdf((max - mx) / v) - normalCdf(-mx / v), 1e-300));
+  return -0.5 * ((x - p.meanNm) ** 2) / v2 + logCdfDifference(-mx / v, (max - mx) / v);
+}
+
+/** log Φ(x), with the tail's asymptotic series where Φ underflows (Abramowitz and Stegun 26.2.12). */
+export function logNormalCdf(x: number): number {
+  if (x > -6) return Math.log(Math.max(normalCdf(x), 1e-300));
+  const x2 = x * x;
+  return -0.5 * x2 - Math.log(-x) - 0.5 * Math.log(2 * Math.PI) + Math.log(1 - 1 / x2 + 3 / (x2 * x2));
+}
+
+/**
+ * log(Φ(b) − Φ(a)), a < b, in the tail it lies in: a prior piled far below 0 (the run's shutter
+ * time cut at 0) puts both deep in one tail, where their difference underflowed.
+ */
+function logCdfDifference(a: number, b: number): number {
+  // Φ(b) − Φ(a) = Φ(−a) − Φ(−b): take the side where the larger term is not near 1.
+  const [hi, lo] = a > 0 ? [logNormalCdf(-a), logNormalCdf(-b)] : [logNormalCdf(b), logNormalCdf(a)];
+  if (!(hi > -Infinity)) return -690;
+  return hi + Math.log(Math.max(-Math.expm1(lo - hi), 1e-300));
 }
 
 /**

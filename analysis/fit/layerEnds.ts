@@ -63,7 +63,7 @@ export class LayerEnds {
   private readonly starts: number[];
   private readonly lastOnChip = new Map<number, EndRecord>();
   private readonly records: EndRecord[] = [];
-  private readonly shutter = new ShutterTime();
+  private readonly shutter = new ShutterTime(true, MAX_SHUTTER_S);
   /** Layers whose growth the final joint fit of their chip re-estimated (their σ hold it already). */
   private readonly joint = new WeakSet<EndRecord>();
   private startsDropped = false;
@@ -340,7 +340,7 @@ export class LayerEnds {
     this.record(rec);
     const e = this.evidence(rec);
     let growth = growthPosterior(e);
-    if (this.shutterTimeGrowth === 'run-mean' && final && !keepTime && !rec.level && !e.gaussians?.length && e.prior) {
+    if (this.shutterTimeGrowth === 'run-mean' && !this.shutter.truncated && final && !keepTime && !rec.level && !e.gaussians?.length && e.prior) {
       // Told by the run's shutter time alone, once the pass is over: its prediction as it stands.
       // Cut to [0, max] the mean stands about 0.8σ above a time of 0 whatever the readings say
       // (AnalyzeOptions.shutterTimeGrowth). The pass keeps the bounded mean: its next layer reads

@@ -293,7 +293,10 @@ export interface AnalyzeOptions {
   stackFromLayer?: boolean;
   /**
    * The growth after a turning-point cut that nothing but the run's shutter time tells (the last
-   * layer on its chip, fit/layerEnds.ts): 'bounded', the posterior mean under that time's
+   * layer on its chip, fit/layerEnds.ts). With the run's times read as a population cut at 0
+   * (fit/shutterTime.ts truncatedPopulation, the default since) both give that population's mean
+   * (the prior's own mean cut at 0, which stands at 0 where the readings pile there); what
+   * follows was measured with the uncut normal population: 'bounded', the posterior mean under that time's
    * prediction cut to [0, the longest shutter], which adds about 0.8σ of the prediction where the
    * shutter closes at once; 'run-mean', the prediction itself (the run's mean time, from readings
    * left unbounded, × the layer's final rate) with its σ, negative where the readings put the
