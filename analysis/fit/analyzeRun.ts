@@ -39,7 +39,7 @@ import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } 
 import { binMeans } from './subsample';
 import { lawThickness, lawTimeToThickness, type RateWander } from './rateWander';
 import { cutPastTurningPointNm, overshootSeen, relativeCut, relativeCutShiftNm, type RunOvershoot } from './cutPastTurningPoint';
-import { truncatedPopulation } from './shutterTime';
+import { populationMixture, truncatedPopulation } from './shutterTime';
 import { turningPointNearNm } from './cutTiming';
 import { chooseRateWander, finishRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
 import { wanderChoiceRequest } from './wanderChoiceRequest';
@@ -146,6 +146,7 @@ export const ANALYZE_DEFAULTS = {
   indexGradient: false,
   growthFromNext: true,
   levelGrowthFromNext: true,
+  shutterTimePopulation: 'normal' as 'normal' | 'truncated' | 'mixture',
   fitOnFinalStack: true,
   fitWithNextLayer: true,
   stackFromLayer: false,
@@ -352,7 +353,7 @@ async function analyzeLayers(
   };
   const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
   const { idleModel, noiseFloor } = basis.noise();
-  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth, o.levelGrowthFromNext);
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth, o.levelGrowthFromNext, o.shutterTimePopulation);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma, o.offsetAveraging, o.unmeasuredOffsetSigma);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
@@ -885,8 +886,11 @@ async function analyzeLayers(
       readings.push({ timeS: (100 * (loggedNm - tpNm)) / tpNm, sigmaS: (100 * sigmaNm) / tpNm });
     }
     const maxPct = Math.max(o.turningPointOvershootPct, 0);
-    const pop = readings.length >= 3 && maxPct > 0 ? truncatedPopulation(readings, maxPct) : null;
-    const run: RunOvershoot | null = pop ? { meanPct: pop.meanS, spreadPct: pop.spreadS } : null;
+    const usable = readings.length >= 3 && maxPct > 0 && o.shutterTimePopulation !== 'normal';
+    const pop = usable ? truncatedPopulation(readings, maxPct) : null;
+    const run: RunOvershoot | null = pop
+      ? { meanPct: pop.meanS, spreadPct: pop.spreadS, ...(o.shutterTimePopulation === 'mixture' ? { components: populationMixture(readings, maxPct) } : {}) }
+      : null;
     for (const chipStates of chipLayers.values()) {
       const s = chipStates[chipStates.length - 1];
       if (s.design.monitor.cut !== 'turning-point' || s.fit.heldIndex !== null) continue;

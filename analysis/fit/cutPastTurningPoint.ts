@@ -1,3 +1,5 @@
+import { populationPosterior, type PopulationComponent } from './truncatedNormal';
+
 /** Simpson intervals over the part of the interval within ±12σ of the mean (h ≤ 0.012σ there). */
 const SIMPSON_INTERVALS = 2000;
 
@@ -68,6 +70,8 @@ export function cutPastTurningPointNm(loggedNm: number, sigmaNm: number, turning
 export interface RunOvershoot {
   meanPct: number;
   spreadPct: number;
+  /** The population over its own (μ, τ) posterior (shutterTime's populationMixture), % of the layer: used in place of the point estimate where given. */
+  components?: readonly PopulationComponent[];
 }
 
 /**
@@ -77,6 +81,11 @@ export interface RunOvershoot {
  */
 function overshootPosterior(x: number, sigmaNm: number, hiNm: number, turningPointNm: number, run: RunOvershoot | null): number {
   if (!run) return truncatedNormalMoments(x, sigmaNm, 0, hiNm).mean;
+  if (run.components) {
+    const k = turningPointNm / 100;
+    const population = run.components.map((c) => ({ meanNm: c.meanNm * k, sigmaNm: c.sigmaNm * k, weight: c.weight }));
+    return populationPosterior(population, hiNm, { meanNm: x, sigmaNm }).deltaNm;
+  }
   const mu = (run.meanPct * turningPointNm) / 100, tau = (run.spreadPct * turningPointNm) / 100;
   const v = sigmaNm * sigmaNm + tau * tau;
   const m = (x * tau * tau + mu * sigmaNm * sigmaNm) / v, s = (sigmaNm * tau) / Math.sqrt(v);

@@ -1,4 +1,5 @@
 import { logNormalCdf } from './growthPosterior';
+import { populationPosterior, type PopulationComponent } from './truncatedNormal';
 
 /**
  * The shutter's closing time as the run shows it, as a hierarchical (empirical Bayes) prior on
@@ -19,13 +20,33 @@ import { logNormalCdf } from './growthPosterior';
  * run's time; one they do not tell at all (a turning-point cut, last on its chip) takes it, with
  * its spread.
  */
+export type ShutterTimeModel = 'normal' | 'truncated' | 'mixture';
+
+export interface ShutterPrediction {
+  timeS: number;
+  sigmaS: number;
+  from: number;
+  /** 'mixture': the population's components, s (meanNm/sigmaNm in seconds here), weights summing to 1. */
+  population?: PopulationComponent[];
+}
+
 export class ShutterTime {
   /**
-   * `truncated`: the true times as a normal population cut at 0 (a shutter does not un-grow a
-   * film), its mean and spread by marginal maximum likelihood (truncatedPopulation); else the
-   * uncut normal by DerSimonian–Laird above.
+   * `model`: 'truncated', the true times as a normal population cut at 0 (a shutter does not
+   * un-grow a film), its mean and spread by marginal maximum likelihood (truncatedPopulation);
+   * 'mixture', that population over its (μ, τ) posterior (populationMixture), each layer's prior
+   * a mixture of normals each cut at 0 on its own; 'normal', the uncut normal by
+   * DerSimonian–Laird above. (`true`/`false` for 'truncated'/'normal'.)
    */
-  constructor(readonly truncated = true, private readonly maxS = 2) {}
+  readonly model: ShutterTimeModel;
+  constructor(model: ShutterTimeModel | boolean = 'normal', private readonly maxS = 2) {
+    this.model = model === true ? 'truncated' : model === false ? 'normal' : model;
+  }
+
+  /** The population is cut at 0 ('truncated' or 'mixture'). */
+  get truncated(): boolean {
+    return this.model !== 'normal';
+  }
 
   private readonly times = new Map<number, { timeS: number; sigmaS: number }>();
 
@@ -46,10 +67,15 @@ export class ShutterTime {
    * The time of a layer's shutter as the other layers predict it (the layer's own estimate left
    * out, so it is not counted twice), with its σ; null with fewer than 3 other layers.
    */
-  predict(exceptLayer?: number): { timeS: number; sigmaS: number; from: number } | null {
+  predict(exceptLayer?: number): ShutterPrediction | null {
     const v = [...this.times].filter(([l]) => l !== exceptLayer).map(([, t]) => t);
     const m = v.length;
     if (m < 3) return null;
+    if (this.model === 'mixture') {
+      const population = populationMixture(v, this.maxS);
+      const p = populationPosterior(population, this.maxS, null);
+      return { timeS: p.deltaNm, sigmaS: p.sigmaNm, from: m, population };
+    }
     if (this.truncated) {
       // The spread widened by the mean's own variance at that spread (as the uncut model's
       // prediction): a few readings that agree would otherwise fix every layer's time at their mean.
@@ -127,4 +153,43 @@ export function truncatedPopulation(v: readonly { timeS: number; sigmaS: number 
     [tauLo, tauHi] = [Math.max(tau0, best.tau - dt), Math.min(tau1, best.tau + dt)];
   }
   return { meanS: best.mu, spreadS: best.tau };
+}
+
+/**
+ * The population of true times over its own uncertainty: truncatedLogLikelihood on a grid in
+ * (μ, τ), refined twice onto the box where it lies within 10 of its maximum (a flat prior on μ
+ * and on τ within μ ∈ [−maxS, maxS], τ ∈ [0.01, 1]·maxS; flat on τ as A. Gelman, "Prior
+ * distributions for variance parameters in hierarchical models", Bayesian Analysis 1, 515–533
+ * (2006) recommends for a hierarchical spread, from memory), each grid point a component
+ * N(μ, τ²) weighted by its likelihood. Where the readings scatter about 0 the (μ, τ) that
+ * explain them run along a ridge from a pile at 0 (μ ≪ 0) to a narrow population just above 0;
+ * each component cut at 0 on its own keeps the piles at 0, which a single normal widened by the
+ * mean's uncertainty and then cut did not (it stood about 0.8σ above 0).
+ */
+export function populationMixture(v: readonly { timeS: number; sigmaS: number }[], maxS: number): PopulationComponent[] {
+  const [mu0, mu1, tau0, tau1] = [-maxS, maxS, 0.01 * maxS, maxS];
+  let box = [mu0, mu1, tau0, tau1];
+  let grid: { mu: number; tau: number; ll: number }[] = [];
+  for (const K of [41, 25, 25]) {
+    const [ml, mh, tl, th] = box;
+    grid = [];
+    for (let i = 0; i < K; i++) {
+      const mu = ml + ((mh - ml) * i) / (K - 1);
+      for (let j = 0; j < K; j++) {
+        const tau = tl + ((th - tl) * j) / (K - 1);
+        grid.push({ mu, tau, ll: truncatedLogLikelihood(v, mu, tau) });
+      }
+    }
+    const top = Math.max(...grid.map((g) => g.ll));
+    const kept = grid.filter((g) => g.ll > top - 10);
+    const dm = (mh - ml) / (K - 1), dt = (th - tl) / (K - 1);
+    box = [
+      Math.max(mu0, Math.min(...kept.map((g) => g.mu)) - dm), Math.min(mu1, Math.max(...kept.map((g) => g.mu)) + dm),
+      Math.max(tau0, Math.min(...kept.map((g) => g.tau)) - dt), Math.min(tau1, Math.max(...kept.map((g) => g.tau)) + dt),
+    ];
+  }
+  const top = Math.max(...grid.map((g) => g.ll));
+  const kept = grid.filter((g) => g.ll > top - 10);
+  const sum = kept.reduce((a, g) => a + Math.exp(g.ll - top), 0);
+  return kept.map((g) => ({ meanNm: g.mu, sigmaNm: g.tau, weight: Math.exp(g.ll - top) / sum }));
 }

@@ -142,11 +142,11 @@ describe("the run's shutter time", () => {
   });
 });
 
-describe("the run's shutter time as a population cut at 0 (the default)", () => {
+describe("the run's shutter time as a population cut at 0 (option shutterTimePopulation)", () => {
   // Each layer's growth from its own reading (σ 0.5 s, rate 1 nm/s) under the run's time as the
   // others predict it, as fit/layerEnds.ts reads it: the posterior mean, averaged over the layers.
-  const meanReadGrowth = (truth: (l: number) => number, count: number, seed: number): number => {
-    const g = gaussian(seed), t = new ShutterTime();
+  const meanReadGrowth = (truth: (l: number) => number, count: number, seed: number, model: 'normal' | 'truncated' | 'mixture' = 'truncated'): number => {
+    const g = gaussian(seed), t = new ShutterTime(model);
     const own = new Map<number, number>();
     for (let l = 1; l <= count; l++) {
       own.set(l, truth(l) + 0.5 * g());
@@ -155,7 +155,8 @@ describe("the run's shutter time as a population cut at 0 (the default)", () => 
     let sum = 0;
     for (let l = 1; l <= count; l++) {
       const p = t.predict(l)!;
-      sum += growthPosterior({ maxNm: 2, prior: { meanNm: p.timeS, sigmaNm: Math.max(p.sigmaS, 1e-6) }, gaussians: [{ meanNm: own.get(l)!, sigmaNm: 0.5 }] }).deltaNm;
+      const prior = p.population ? { population: p.population } : { prior: { meanNm: p.timeS, sigmaNm: Math.max(p.sigmaS, 1e-6) } };
+      sum += growthPosterior({ maxNm: 2, ...prior, gaussians: [{ meanNm: own.get(l)!, sigmaNm: 0.5 }] }).deltaNm;
     }
     return sum / count;
   };
@@ -163,13 +164,30 @@ describe("the run's shutter time as a population cut at 0 (the default)", () => 
   it('a shutter that closes at once: the layers read a growth of about 0, not 0.8σ of the prediction above it', () => {
     // over 40 runs of 18 layers (the run's own mean reading scatters ±0.12 s)
     const m = Array.from({ length: 40 }, (_, i) => meanReadGrowth(() => 0, 18, i + 1)).reduce((a, b) => a + b, 0) / 40;
-    // 0.06 s here; the uncut normal, cut at 0 afterwards, read 0.14 s
+    // 0.06 s here; the uncut normal, cut at 0 afterwards, read 0.14 s ('mixture' below 0.08 s)
     expect(m).toBeLessThan(0.09);
   });
 
   it('a shutter that always takes the same time: the layers read that time', () => {
     const m = Array.from({ length: 40 }, (_, i) => meanReadGrowth(() => 0.5, 18, i + 1)).reduce((a, b) => a + b, 0) / 40;
     expect(Math.abs(m - 0.5)).toBeLessThan(0.04);
+  });
+
+  it("'mixture', the population over its own (μ, τ): a shutter that closes at once still reads about 0, and a fixed time that time", () => {
+    const runs = (truth: number, model: 'normal' | 'mixture') => Array.from({ length: 40 }, (_, i) => meanReadGrowth(() => truth, 18, i + 1, model)).reduce((a, b) => a + b, 0) / 40;
+    const atOnce = runs(0, 'mixture');
+    console.log(`closes at once: mixture ${atOnce.toFixed(3)} s, uncut normal cut afterwards ${runs(0, 'normal').toFixed(3)} s`);
+    expect(atOnce).toBeLessThan(0.09);
+    expect(Math.abs(runs(0.5, 'mixture') - 0.5)).toBeLessThan(0.04);
+  });
+
+  it("'mixture': each component cut at 0 on its own, so a (μ, τ) far below 0 is a pile at 0, not a tail above it", () => {
+    const t = new ShutterTime('mixture');
+    [0.02, -0.03, 0.01, -0.01, 0.0, 0.02].forEach((x, i) => t.add(i + 1, x, 0.02));
+    const p = t.predict()!;
+    expect(p.population!.reduce((a, c) => a + c.weight, 0)).toBeCloseTo(1, 9);
+    // readings at 0 ± 0.02 s: the population's mean cut at 0 within a few hundredths of a second of 0
+    expect(p.timeS).toBeLessThan(0.03);
   });
 
   it('the marginal likelihood has the normal-with-normal-error form where the cut takes no mass', () => {

@@ -42,17 +42,15 @@ async function lastLayerGrowths(options: AnalyzeOptions): Promise<{ growthS: num
 const mean = (v: number[]) => v.reduce((a, b) => a + b, 0) / v.length;
 
 describe('the growth after a chip\'s last turning-point cut, from the run\'s shutter time', () => {
-  it(`refit: about the simulator's 0 s over the chips' last layers (seeds ${SEEDS[0]}–${SEEDS.at(-1)}); bounded at 0 too`, { timeout: 300_000 }, async () => {
+  it(`refit: about the simulator's 0 s over the chips' last layers (seeds ${SEEDS[0]}–${SEEDS.at(-1)}); bounded at 0 it stands above`, { timeout: 300_000 }, async () => {
     const runMean = await lastLayerGrowths({});
     expect(runMean.growthS).toHaveLength(3 * SEEDS.length);
     expect(Math.max(...runMean.truthS.map(Math.abs))).toBe(0);
-    // Measured with the run's times as an uncut normal population: its mean over these 8 runs
-    // +0.03 s (each run's prediction ±0.17–0.56 s); the same predictions cut to [0, 2 s] (option
-    // 'bounded') +0.27 s, about 0.13 % of these layers. With the population itself cut at 0
-    // (fit/shutterTime.ts truncatedPopulation, the default) both give its mean, +0.09 s.
+    // Measured: the run's mean time over these 8 runs +0.03 s (each run's prediction ±0.17–0.56 s);
+    // the same predictions cut to [0, 2 s] (option 'bounded') +0.27 s, about 0.13 % of these layers.
     expect(Math.abs(mean(runMean.growthS))).toBeLessThan(0.12);
     const bounded = await lastLayerGrowths({ shutterTimeGrowth: 'bounded' });
     expect(bounded.growthS.every((g) => g >= -1e-6)).toBe(true);
-    expect(mean(bounded.growthS)).toBeLessThan(0.12);
+    expect(mean(bounded.growthS)).toBeGreaterThan(0.18);
   });
 });
