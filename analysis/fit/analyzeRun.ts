@@ -38,7 +38,8 @@ import { indexSeparation, type HeldIndexShift } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
 import { lawThickness, lawTimeToThickness, type RateWander } from './rateWander';
-import { cutPastTurningPointNm, overshootSeen, relativeCut, relativeCutShiftNm } from './cutPastTurningPoint';
+import { cutPastTurningPointNm, overshootSeen, relativeCut, relativeCutShiftNm, type RunOvershoot } from './cutPastTurningPoint';
+import { populationMixture, truncatedPopulation } from './shutterTime';
 import { turningPointNearNm } from './cutTiming';
 import { chooseRateWander, finishRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
 import { wanderChoiceRequest } from './wanderChoiceRequest';
@@ -145,6 +146,7 @@ export const ANALYZE_DEFAULTS = {
   indexGradient: false,
   growthFromNext: true,
   levelGrowthFromNext: true,
+  shutterTimePopulation: 'normal' as 'normal' | 'truncated' | 'mixture',
   fitOnFinalStack: true,
   fitWithNextLayer: true,
   stackFromLayer: false,
@@ -355,7 +357,7 @@ async function analyzeLayers(
   };
   const spectra = o.spectrumOf ? requestSpectra(o.spectrumOf, design, trace, order, samplesByLayer, binPoints, transient.profiles !== undefined) : null;
   const { idleModel, noiseFloor } = basis.noise();
-  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth, o.levelGrowthFromNext);
+  const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth, o.levelGrowthFromNext, o.shutterTimePopulation);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma, o.offsetAveraging, o.unmeasuredOffsetSigma);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
@@ -864,6 +866,35 @@ async function analyzeLayers(
   // A chip's last layer cut at a turning point, whose end nothing above pins: at or past its fitted
   // turning point at the last logged sample (option cutPastTurningPoint, fit/cutPastTurningPoint.ts).
   if (ends && (o.cutPastTurningPoint === true || (o.cutPastTurningPoint === 'refit' && o.mode === 'refit'))) {
+    // The run's overshoot from its other turning-point cuts, each end pinned by the layer above.
+    const readings: { timeS: number; sigmaS: number }[] = [];
+    for (const chipStates of chipLayers.values()) for (const s of chipStates.slice(0, -1)) {
+      if (s.design.monitor.cut !== 'turning-point' || s.fit.heldIndex !== null) continue;
+      const cut = ends.loggedCut(s);
+      if (!cut || !(cut.sigmaNm > 0)) continue;
+      const e = s.estimate, w = e.wander ? s.fit.wander : undefined;
+      const loggedNm = lawThickness(e, w, cut.loggedS);
+      const tpNm = turningPointNearNm(s.optics, belowOf(s), e.index, -s.nominal.im, loggedNm);
+      if (tpNm === null || !(tpNm > 0)) continue;
+      // Sequential: the σ of the end relative to the turning point (relativeCut), as for the last
+      // cut below; the whole σ holds the stack's and the offset's shares, which move both.
+      let sigmaNm = cut.sigmaNm;
+      const own = e.ownCovariance;
+      if (o.mode === 'sequential' && own) {
+        const h = Math.max(Math.sqrt(own.nn), 1e-4);
+        const up = turningPointNearNm(s.optics, belowOf(s), e.index + h, -s.nominal.im, loggedNm);
+        const down = turningPointNearNm(s.optics, belowOf(s), e.index - h, -s.nominal.im, loggedNm);
+        const rel = up !== null && down !== null ? relativeCut(own, (up - down) / (2 * h)) : null;
+        if (rel) sigmaNm = rel.sigmaNm;
+      }
+      readings.push({ timeS: (100 * (loggedNm - tpNm)) / tpNm, sigmaS: (100 * sigmaNm) / tpNm });
+    }
+    const maxPct = Math.max(o.turningPointOvershootPct, 0);
+    const usable = readings.length >= 3 && maxPct > 0 && o.shutterTimePopulation !== 'normal';
+    const pop = usable ? truncatedPopulation(readings, maxPct) : null;
+    const run: RunOvershoot | null = pop
+      ? { meanPct: pop.meanS, spreadPct: pop.spreadS, ...(o.shutterTimePopulation === 'mixture' ? { components: populationMixture(readings, maxPct) } : {}) }
+      : null;
     for (const chipStates of chipLayers.values()) {
       const s = chipStates[chipStates.length - 1];
       if (s.design.monitor.cut !== 'turning-point' || s.fit.heldIndex !== null) continue;
@@ -873,7 +904,7 @@ async function analyzeLayers(
       const loggedNm = lawThickness(e, w, cut.loggedS);
       const tpNm = turningPointNearNm(s.optics, belowOf(s), e.index, -s.nominal.im, loggedNm);
       if (tpNm === null) continue;
-      let shiftNm = cutPastTurningPointNm(loggedNm, cut.sigmaNm, tpNm, o.turningPointOvershootPct) - loggedNm;
+      let shiftNm = cutPastTurningPointNm(loggedNm, cut.sigmaNm, tpNm, o.turningPointOvershootPct, run) - loggedNm;
       let seenSigmaNm = cut.sigmaNm;
       // Sequential: the layer's σ holds the stack below's and the offset's shares, which move its
       // end and its turning point together; the posterior on the end relative to the turning
@@ -887,7 +918,7 @@ async function analyzeLayers(
         const rel = up !== null && down !== null ? relativeCut(own, (up - down) / (2 * h)) : null;
         // beta held within [0, 1]: the end moved no further than the relative reading (beta read
         // 1.2–1.3 on the spikes mirror; held, its chips' last layers RMS 0.402 → 0.373 %, seeds 15–30).
-        if (rel) shiftNm = relativeCutShiftNm(loggedNm, tpNm, rel.sigmaNm, Math.min(Math.max(rel.beta, 0), 1), o.turningPointOvershootPct);
+        if (rel) shiftNm = relativeCutShiftNm(loggedNm, tpNm, rel.sigmaNm, Math.min(Math.max(rel.beta, 0), 1), o.turningPointOvershootPct, run);
         if (rel) seenSigmaNm = rel.sigmaNm;
       }
       // Only where that σ could show a cut later than the overshoot allows (overshootSeen).

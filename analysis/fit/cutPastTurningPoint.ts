@@ -1,3 +1,5 @@
+import { populationPosterior, type PopulationComponent } from './truncatedNormal';
+
 /** Simpson intervals over the part of the interval within ±12σ of the mean (h ≤ 0.012σ there). */
 const SIMPSON_INTERVALS = 2000;
 
@@ -52,11 +54,42 @@ export function overshootSeen(sigmaNm: number, widthNm: number): boolean {
   return sigmaNm <= widthNm;
 }
 
-export function cutPastTurningPointNm(loggedNm: number, sigmaNm: number, turningPointNm: number, overshootPct: number): number {
+export function cutPastTurningPointNm(loggedNm: number, sigmaNm: number, turningPointNm: number, overshootPct: number, run: RunOvershoot | null = null): number {
   const hi = turningPointNm * (1 + Math.max(overshootPct, 0) / 100);
   // A reading beyond CONTRADICTS σ outside the interval says the controller did not cut so: the reading stands.
   if (loggedNm < turningPointNm - CONTRADICTS * sigmaNm || loggedNm > hi + CONTRADICTS * sigmaNm) return loggedNm;
-  return truncatedNormalMoments(loggedNm, sigmaNm, turningPointNm, hi).mean;
+  return turningPointNm + overshootPosterior(loggedNm - turningPointNm, sigmaNm, hi - turningPointNm, turningPointNm, run);
+}
+
+/**
+ * The controller's overshoot as the run's other turning-point cuts show it, % of the layer: the
+ * population N(mean, spread²) cut at 0 of their ends read relative to their fitted turning points
+ * (each pinned by the layer above it), by marginal maximum likelihood (shutterTime's
+ * truncatedPopulation). A chip's last cut takes it as its prior in place of the uniform one.
+ */
+export interface RunOvershoot {
+  meanPct: number;
+  spreadPct: number;
+  /** The population over its own (μ, τ) posterior (shutterTime's populationMixture), % of the layer: used in place of the point estimate where given. */
+  components?: readonly PopulationComponent[];
+}
+
+/**
+ * Posterior mean of x = d_end − d_TP, nm, from its reading x̂ ± σ: under the run's overshoot
+ * population where known (the product of the two Gaussians, then cut to [0, hi]), else under the
+ * uniform prior on [0, hi].
+ */
+function overshootPosterior(x: number, sigmaNm: number, hiNm: number, turningPointNm: number, run: RunOvershoot | null): number {
+  if (!run) return truncatedNormalMoments(x, sigmaNm, 0, hiNm).mean;
+  if (run.components) {
+    const k = turningPointNm / 100;
+    const population = run.components.map((c) => ({ meanNm: c.meanNm * k, sigmaNm: c.sigmaNm * k, weight: c.weight }));
+    return populationPosterior(population, hiNm, { meanNm: x, sigmaNm }).deltaNm;
+  }
+  const mu = (run.meanPct * turningPointNm) / 100, tau = (run.spreadPct * turningPointNm) / 100;
+  const v = sigmaNm * sigmaNm + tau * tau;
+  const m = (x * tau * tau + mu * sigmaNm * sigmaNm) / v, s = (sigmaNm * tau) / Math.sqrt(v);
+  return truncatedNormalMoments(m, s, 0, hiNm).mean;
 }
 
 /**
@@ -77,9 +110,9 @@ const CONTRADICTS = 2;
  * mean of jointly normal errors). The caller decides first whether the reading contradicts the
  * prior (cutPastTurningPointNm's gate on the whole σ). Returns that shift in nm.
  */
-export function relativeCutShiftNm(loggedNm: number, turningPointNm: number, sigmaNm: number, beta: number, overshootPct: number): number {
+export function relativeCutShiftNm(loggedNm: number, turningPointNm: number, sigmaNm: number, beta: number, overshootPct: number, run: RunOvershoot | null = null): number {
   const x = loggedNm - turningPointNm, hi = turningPointNm * (Math.max(overshootPct, 0) / 100);
-  return beta * (truncatedNormalMoments(x, sigmaNm, 0, hi).mean - x);
+  return beta * (overshootPosterior(x, sigmaNm, hi, turningPointNm, run) - x);
 }
 
 /**

@@ -1,3 +1,5 @@
+import { populationPosterior, truncatedNormal, type PopulationComponent } from './truncatedNormal';
+
 /** One Gaussian piece of evidence on the growth after a cut, nm. */
 export interface GaussianEvidence {
   meanNm: number;
@@ -17,6 +19,11 @@ export interface GrowthEvidence {
   gaussians?: readonly GaussianEvidence[];
   /** A Gaussian prior on the true growth within [0, maxNm] (the run's shutter time). */
   prior?: GaussianEvidence;
+  /**
+   * In place of `prior`: the run's shutter times as a mixture of normals, each cut to [0, maxNm]
+   * on its own (its own mass under the cut: truncatedNormal.ts populationPosterior).
+   */
+  population?: readonly PopulationComponent[];
   /**
    * σ of the thickness the growth is counted from (the fitted thickness at the last logged
    * sample). The growth sought is then the final thickness minus that estimate, and its prior is
@@ -46,6 +53,15 @@ const GRID = 401;
  */
 export function growthPosterior(e: GrowthEvidence): GrowthEstimate {
   const smooth = e.smoothNm ?? 0;
+  if (e.population?.length && !e.level) {
+    // Gaussian evidence only: the posterior's moments in closed form.
+    let w = 0, wm = 0;
+    for (const g of e.gaussians ?? []) {
+      w += 1 / g.sigmaNm ** 2;
+      wm += g.meanNm / g.sigmaNm ** 2;
+    }
+    return populationPosterior(e.population, Math.max(e.maxNm, 1e-12), w > 0 ? { meanNm: wm / w, sigmaNm: 1 / Math.sqrt(w) } : null, smooth);
+  }
   const [lo0, hi0] = [-6 * smooth, Math.max(e.maxNm, 1e-12) + 6 * smooth];
   let [lo, hi] = [lo0, hi0];
   let out = moments(e, lo, hi);
@@ -65,6 +81,7 @@ export function growthPosterior(e: GrowthEvidence): GrowthEstimate {
  */
 function logPrior(e: GrowthEvidence, x: number): number {
   const s = e.smoothNm ?? 0, max = e.maxNm, p = e.prior;
+  if (e.population?.length) return logPopulationPrior(e.population, max, s, x);
   if (!(s > 0)) {
     if (x < 0 || x > max) return -Infinity;
     return p ? -0.5 * ((x - p.meanNm) / p.sigmaNm) ** 2 : 0;
@@ -72,7 +89,54 @@ function logPrior(e: GrowthEvidence, x: number): number {
   if (!p) return Math.log(Math.max(normalCdf(x / s) - normalCdf((x - max) / s), 1e-300));
   const v2 = p.sigmaNm ** 2 + s * s;
   const mx = (p.meanNm * s * s + x * p.sigmaNm ** 2) / v2, v = (p.sigmaNm * s) / Math.sqrt(v2);
-  return -0.5 * ((x - p.meanNm) ** 2) / v2 + Math.log(Math.max(normalCdf((max - mx) / v) - normalCdf(-mx / v), 1e-300));
+  return -0.5 * ((x - p.meanNm) ** 2) / v2 + logCdfDifference(-mx / v, (max - mx) / v);
+}
+
+/** log Φ(x), with the tail's asymptotic series where Φ underflows (Abramowitz and Stegun 26.2.12). */
+export function logNormalCdf(x: number): number {
+  if (x > -6) return Math.log(Math.max(normalCdf(x), 1e-300));
+  const x2 = x * x;
+  return -0.5 * x2 - Math.log(-x) - 0.5 * Math.log(2 * Math.PI) + Math.log(1 - 1 / x2 + 3 / (x2 * x2));
+}
+
+/**
+ * log(Φ(b) − Φ(a)), a < b, in the tail it lies in: a prior piled far below 0 (the run's shutter
+ * time cut at 0) puts both deep in one tail, where their difference underflowed.
+ */
+function logCdfDifference(a: number, b: number): number {
+  // Φ(b) − Φ(a) = Φ(−a) − Φ(−b): take the side where the larger term is not near 1.
+  const [hi, lo] = a > 0 ? [logNormalCdf(-a), logNormalCdf(-b)] : [logNormalCdf(b), logNormalCdf(a)];
+  if (!(hi > -Infinity)) return -690;
+  return hi + Math.log(Math.max(-Math.expm1(lo - hi), 1e-300));
+}
+
+/**
+ * log Σₖ wₖ·[N(μₖ, τₖ²) cut to [0, max], smeared by N(0, s²)](x): each component as logPrior's
+ * single Gaussian, over its own mass in [0, max].
+ */
+const massCache = new WeakMap<readonly PopulationComponent[], { max: number; z: number[] }>();
+
+function logPopulationPrior(population: readonly PopulationComponent[], max: number, s: number, x: number): number {
+  let cached = massCache.get(population);
+  if (!cached || cached.max !== max) massCache.set(population, (cached = { max, z: population.map((c) => truncatedNormal(c.meanNm, c.sigmaNm, 0, max).logMass) }));
+  const terms: number[] = [];
+  for (const [k, c] of population.entries()) {
+    if (!(c.weight > 0)) continue;
+    const z = cached.z[k];
+    let t: number;
+    if (!(s > 0)) {
+      if (x < 0 || x > max) return -Infinity;
+      t = -0.5 * ((x - c.meanNm) / c.sigmaNm) ** 2 - Math.log(c.sigmaNm);
+    } else {
+      const v2 = c.sigmaNm ** 2 + s * s;
+      const mx = (c.meanNm * s * s + x * c.sigmaNm ** 2) / v2, v = (c.sigmaNm * s) / Math.sqrt(v2);
+      t = -0.5 * ((x - c.meanNm) ** 2) / v2 - 0.5 * Math.log(v2) + truncatedNormal(mx, v, 0, max).logMass;
+    }
+    terms.push(Math.log(c.weight) + t - z);
+  }
+  const top = Math.max(...terms);
+  if (!(top > -Infinity)) return -Infinity;
+  return top + Math.log(terms.reduce((a, t) => a + Math.exp(t - top), 0));
 }
 
 /**

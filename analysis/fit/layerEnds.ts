@@ -10,7 +10,7 @@ import { type Ar1PlusWhite } from '../stats';
 import { meanVariance } from './idleNoiseModel';
 import { endEquivalentLaw, lawRate, lawThickness, lawTimeToThickness } from './rateWander';
 import { type LayerSamples } from './layerSamples';
-import { ShutterTime } from './shutterTime';
+import { ShutterTime, type ShutterTimeModel } from './shutterTime';
 import { type StackCovariance } from './stackUncertainty';
 
 /** What the end of a layer needs of its state (a LayerState's parts); `estimate`, `fit.durationS` and `refit.durationS` are updated. */
@@ -63,7 +63,7 @@ export class LayerEnds {
   private readonly starts: number[];
   private readonly lastOnChip = new Map<number, EndRecord>();
   private readonly records: EndRecord[] = [];
-  private readonly shutter = new ShutterTime();
+  private readonly shutter: ShutterTime;
   /** Layers whose growth the final joint fit of their chip re-estimated (their σ hold it already). */
   private readonly joint = new WeakSet<EndRecord>();
   private startsDropped = false;
@@ -80,8 +80,9 @@ export class LayerEnds {
   constructor(
     private readonly trace: TraceData, samplesByLayer: ReadonlyMap<number, LayerSamples>, private readonly warnings: string[],
     private readonly noise: Ar1PlusWhite | null = null, private readonly shutterTimeGrowth: 'bounded' | 'run-mean' = 'bounded',
-    private readonly levelGrowthFromNext = false,
+    private readonly levelGrowthFromNext = false, shutterTimeModel: ShutterTimeModel = 'normal',
   ) {
+    this.shutter = new ShutterTime(shutterTimeModel, MAX_SHUTTER_S);
     this.starts = [...samplesByLayer.values()].map((s) => s.indices[0]).sort((a, b) => a - b);
   }
 
@@ -340,14 +341,14 @@ export class LayerEnds {
     this.record(rec);
     const e = this.evidence(rec);
     let growth = growthPosterior(e);
-    if (this.shutterTimeGrowth === 'run-mean' && final && !keepTime && !rec.level && !e.gaussians?.length && e.prior) {
+    if (this.shutterTimeGrowth === 'run-mean' && !this.shutter.truncated && final && !keepTime && !rec.level && !e.gaussians?.length && e.prior) {
       // Told by the run's shutter time alone, once the pass is over: its prediction as it stands.
       // Cut to [0, max] the mean stands about 0.8σ above a time of 0 whatever the readings say
       // (AnalyzeOptions.shutterTimeGrowth). The pass keeps the bounded mean: its next layer reads
       // the growth from there, and a run on the edge of its fit (synthetic reflectance run with an
       // absorbing film) took a different way through it.
       growth = { deltaNm: e.prior.meanNm, sigmaNm: Math.hypot(e.prior.sigmaNm, e.smoothNm ?? 0) };
-    } else if (!e.gaussians?.length && !e.prior) {
+    } else if (!e.gaussians?.length && !e.prior && !e.population) {
       const own = growthPosterior(this.evidence(rec, false, false));
       // Nothing but a level that does not determine it: no growth added, its size into σ.
       if (!determines(own, e.maxNm)) growth = { deltaNm: 0, sigmaNm: Math.hypot(own.deltaNm, own.sigmaNm, e.smoothNm ?? 0) };
@@ -375,16 +376,18 @@ export class LayerEnds {
     const maxNm = rate * MAX_SHUTTER_S;
     const t = withShutter ? this.shutter.predict(rec.s.design.layer) : null;
     const pool = t ? { meanNm: rate * t.timeS, sigmaNm: Math.max(rate * t.sigmaS, 1e-6) } : null;
+    // 'mixture': the population itself, each component cut at 0 on its own (growthPosterior).
+    const population = t?.population?.map((c) => ({ meanNm: rate * c.meanNm, sigmaNm: Math.max(rate * c.sigmaNm, 1e-6), weight: c.weight }));
+    const popPrior = population ? { population } : pool ? { prior: pool } : {};
     const level = rec.level ? { predict: rec.level.predict, observed: rec.level.settled.level, sigma: rec.level.sigma, sigmaPerNm: rec.level.sigmaPerNm } : null;
     const gaussians = rec.next ? [rec.next] : [];
     const smooth = this.base(rec).d;
-    if (!smeared || !Number.isFinite(smooth)) return { maxNm, gaussians, ...(pool ? { prior: pool } : {}), ...(level ? { level } : {}) };
-    let prior = pool;
+    if (!smeared || !Number.isFinite(smooth)) return { maxNm, gaussians, ...popPrior, ...(level ? { level } : {}) };
     if (level) {
-      const own = growthPosterior({ maxNm, level, ...(pool ? { prior: pool } : {}) });
-      if (pool || determines(own, maxNm)) prior = { meanNm: own.deltaNm, sigmaNm: Math.max(own.sigmaNm, 1e-6) };
+      const own = growthPosterior({ maxNm, level, ...popPrior });
+      if (pool || determines(own, maxNm)) return { maxNm, gaussians, prior: { meanNm: own.deltaNm, sigmaNm: Math.max(own.sigmaNm, 1e-6) }, smoothNm: smooth };
     }
-    return { maxNm, gaussians, ...(prior ? { prior } : {}), smoothNm: smooth };
+    return { maxNm, gaussians, ...popPrior, smoothNm: smooth };
   }
 
   /**

@@ -237,6 +237,15 @@ export interface AnalyzeOptions {
    */
   levelGrowthFromNext?: boolean;
   /**
+   * The run's shutter times (the growth after each cut, fit/shutterTime.ts) and, for a chip's
+   * last turning-point cut, the overshoots of its other turning-point cuts
+   * (fit/cutPastTurningPoint.ts): 'normal', an uncut normal population (DerSimonian–Laird) and the
+   * uniform overshoot prior; 'truncated', each a normal population cut at 0 at its maximum
+   * likelihood; 'mixture', that population over its own (μ, τ) posterior, each component cut at
+   * 0 on its own (fit/truncatedNormal.ts). @default 'normal'
+   */
+  shutterTimePopulation?: 'normal' | 'truncated' | 'mixture';
+  /**
    * Sequential mode: once the pass is over, each layer whose stack below moved since its fit
    * (the growths after the cuts below read again once the run's shutter time was known, which
    * takes three layers' readings) fitted again on its own samples on the stack as it now stands,
@@ -293,7 +302,9 @@ export interface AnalyzeOptions {
   stackFromLayer?: boolean;
   /**
    * The growth after a turning-point cut that nothing but the run's shutter time tells (the last
-   * layer on its chip, fit/layerEnds.ts): 'bounded', the posterior mean under that time's
+   * layer on its chip, fit/layerEnds.ts). With option shutterTimePopulation 'truncated' or
+   * 'mixture' (the run's times as a population cut at 0) both give that population's mean cut at
+   * 0; with 'normal' (the default), as measured here: 'bounded', the posterior mean under that time's
    * prediction cut to [0, the longest shutter], which adds about 0.8σ of the prediction where the
    * shutter closes at once; 'run-mean', the prediction itself (the run's mean time, from readings
    * left unbounded, × the layer's final rate) with its σ, negative where the readings put the

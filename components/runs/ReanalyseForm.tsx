@@ -49,7 +49,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
   async function submit(form: FormData) {
     setMessage(null);
     const settings: Record<string, unknown> = { mode: form.get('mode') };
-    for (const key of ['gain', 'heldIndex', 'shutterTimeGrowth'] as const) if (form.get(key)) settings[key] = form.get(key);
+    for (const key of ['gain', 'heldIndex', 'shutterTimeGrowth', 'shutterTimePopulation'] as const) if (form.get(key)) settings[key] = form.get(key);
     const thin = String(form.get('thinLayerQwot') ?? '').trim();
     if (thin !== '') settings.thinLayerQwot = Number(thin);
     const drift = form.get('chipDrift');
@@ -131,6 +131,14 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <option value="">Mode default</option>
             <option value="run-mean">The run&apos;s shutter time as read (joint re-fit&apos;s default)</option>
             <option value="bounded">That time kept within 0–2 s (layer by layer&apos;s default)</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-shutter-pop">The run&apos;s shutter times, and a chip&apos;s last turning-point cut&apos;s overshoot</label>
+          <select id="re-shutter-pop" name="shutterTimePopulation" className={select} defaultValue="">
+            <option value="">A normal spread; the overshoot anywhere up to its limit (default)</option>
+            <option value="mixture">Spreads that cannot go below 0, read with their own uncertainty; the overshoot from the run&apos;s other cuts</option>
+            <option value="truncated">Spreads that cannot go below 0, at their best fit; the overshoot from the run&apos;s other cuts</option>
           </select>
         </div>
         <ReferenceDefaultSelect id="re-level-start" name="levelStartTransient" label="On a run cut only on level: the rate's start-up as the shutter opens, found with the lamp drift in each chip's joint fit" />

@@ -30,6 +30,7 @@ export const analysisSettingsSchema = z
     growthFromNext: z.boolean().optional(),
     levelGrowthFromNext: z.boolean().optional(),
     shutterTimeGrowth: z.enum(['bounded', 'run-mean']).optional(),
+    shutterTimePopulation: z.enum(['normal', 'truncated', 'mixture']).optional(),
     turningPointOvershootPct: z.number().min(0).max(10).optional(),
     turningPointExcessMean: z.boolean().optional(),
     pooledIndex: z.boolean().optional(),

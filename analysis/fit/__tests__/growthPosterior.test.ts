@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { growthPosterior, normalCdf } from '../growthPosterior';
-import { ShutterTime } from '../shutterTime';
+import { ShutterTime, truncatedLogLikelihood, truncatedPopulation } from '../shutterTime';
 import { gaussian } from '../../trace/__tests__/rng';
 
 describe('the posterior of the growth after a cut', () => {
@@ -79,7 +79,7 @@ describe('the growth counted from an estimated thickness', () => {
 
 describe("the run's shutter time", () => {
   it('needs three other layers, then predicts the mean with the spread and the mean\'s σ', () => {
-    const t = new ShutterTime();
+    const t = new ShutterTime(false);
     t.add(1, 0.4, 0.01);
     t.add(2, 0.6, 0.01);
     expect(t.predict()).toBeNull();
@@ -96,7 +96,7 @@ describe("the run's shutter time", () => {
   });
 
   it('with no spread beyond the layers\' own σ, the prediction is the mean with σ/√m', () => {
-    const t = new ShutterTime();
+    const t = new ShutterTime(false);
     for (const l of [1, 2, 3, 4]) t.add(l, 0.5, 0.05);
     expect(t.predict()!.sigmaS).toBeCloseTo(0.05 / 2, 12);
     t.remove(4);
@@ -105,7 +105,7 @@ describe("the run's shutter time", () => {
 
   it('weighs each layer by its own σ: loose readings (slow layers) do not pull the prediction', () => {
     // Four layers read the time at ±0.1 s, three (slow, high-index layers) at ±2 s and far off.
-    const t = new ShutterTime();
+    const t = new ShutterTime(false);
     [0.05, -0.05, 0.1, -0.1].forEach((x, i) => t.add(i + 1, x, 0.1));
     [2.5, 2, -1].forEach((x, i) => t.add(i + 5, x, 2));
     const p = t.predict()!;
@@ -123,7 +123,7 @@ describe("the run's shutter time", () => {
 
   it('a spread between equally good readings beyond their σ is found (DerSimonian–Laird) and enters the prediction', () => {
     // Two groups of readings, each at σ 0.05, at 0.2 and 0.8: the times themselves scatter.
-    const t = new ShutterTime();
+    const t = new ShutterTime(false);
     [0.2, 0.8, 0.2, 0.8, 0.2, 0.8].forEach((x, i) => t.add(i + 1, x, 0.05));
     const p = t.predict()!;
     // equal σ: τ² = s² − σ² with s² = 0.09·6/5 = 0.108 (Efron–Morris's moment estimate)
@@ -133,11 +133,69 @@ describe("the run's shutter time", () => {
 
   it('recovers the spread of the times from noisy estimates (the normal hierarchical model)', () => {
     // True times N(0.4, 0.1²), each seen with σ 0.05: τ² = s² − σ² estimates 0.1² (moment estimate; Efron and Morris 1975).
-    const g = gaussian(5), t = new ShutterTime();
+    const g = gaussian(5), t = new ShutterTime(false);
     for (let l = 1; l <= 400; l++) t.add(l, 0.4 + 0.1 * g() + 0.05 * g(), 0.05);
     const p = t.predict()!;
     expect(p.timeS).toBeCloseTo(0.4, 1);
     expect(Math.sqrt(p.sigmaS ** 2 - 0.0125 / 400)).toBeGreaterThan(0.09);
     expect(Math.sqrt(p.sigmaS ** 2 - 0.0125 / 400)).toBeLessThan(0.11);
+  });
+});
+
+describe("the run's shutter time as a population cut at 0 (option shutterTimePopulation)", () => {
+  // Each layer's growth from its own reading (σ 0.5 s, rate 1 nm/s) under the run's time as the
+  // others predict it, as fit/layerEnds.ts reads it: the posterior mean, averaged over the layers.
+  const meanReadGrowth = (truth: (l: number) => number, count: number, seed: number, model: 'normal' | 'truncated' | 'mixture' = 'truncated'): number => {
+    const g = gaussian(seed), t = new ShutterTime(model);
+    const own = new Map<number, number>();
+    for (let l = 1; l <= count; l++) {
+      own.set(l, truth(l) + 0.5 * g());
+      t.add(l, own.get(l)!, 0.5);
+    }
+    let sum = 0;
+    for (let l = 1; l <= count; l++) {
+      const p = t.predict(l)!;
+      const prior = p.population ? { population: p.population } : { prior: { meanNm: p.timeS, sigmaNm: Math.max(p.sigmaS, 1e-6) } };
+      sum += growthPosterior({ maxNm: 2, ...prior, gaussians: [{ meanNm: own.get(l)!, sigmaNm: 0.5 }] }).deltaNm;
+    }
+    return sum / count;
+  };
+
+  it('a shutter that closes at once: the layers read a growth of about 0, not 0.8σ of the prediction above it', () => {
+    // over 40 runs of 18 layers (the run's own mean reading scatters ±0.12 s)
+    const m = Array.from({ length: 40 }, (_, i) => meanReadGrowth(() => 0, 18, i + 1)).reduce((a, b) => a + b, 0) / 40;
+    // 0.06 s here; the uncut normal, cut at 0 afterwards, read 0.14 s ('mixture' below 0.08 s)
+    expect(m).toBeLessThan(0.09);
+  });
+
+  it('a shutter that always takes the same time: the layers read that time', () => {
+    const m = Array.from({ length: 40 }, (_, i) => meanReadGrowth(() => 0.5, 18, i + 1)).reduce((a, b) => a + b, 0) / 40;
+    expect(Math.abs(m - 0.5)).toBeLessThan(0.04);
+  });
+
+  it("'mixture', the population over its own (μ, τ): a shutter that closes at once still reads about 0, and a fixed time that time", () => {
+    const runs = (truth: number, model: 'normal' | 'mixture') => Array.from({ length: 40 }, (_, i) => meanReadGrowth(() => truth, 18, i + 1, model)).reduce((a, b) => a + b, 0) / 40;
+    const atOnce = runs(0, 'mixture');
+    console.log(`closes at once: mixture ${atOnce.toFixed(3)} s, uncut normal cut afterwards ${runs(0, 'normal').toFixed(3)} s`);
+    expect(atOnce).toBeLessThan(0.09);
+    expect(Math.abs(runs(0.5, 'mixture') - 0.5)).toBeLessThan(0.04);
+  });
+
+  it("'mixture': each component cut at 0 on its own, so a (μ, τ) far below 0 is a pile at 0, not a tail above it", () => {
+    const t = new ShutterTime('mixture');
+    [0.02, -0.03, 0.01, -0.01, 0.0, 0.02].forEach((x, i) => t.add(i + 1, x, 0.02));
+    const p = t.predict()!;
+    expect(p.population!.reduce((a, c) => a + c.weight, 0)).toBeCloseTo(1, 9);
+    // readings at 0 ± 0.02 s: the population's mean cut at 0 within a few hundredths of a second of 0
+    expect(p.timeS).toBeLessThan(0.03);
+  });
+
+  it('the marginal likelihood has the normal-with-normal-error form where the cut takes no mass', () => {
+    // τ² + σ² with μ far above 0: log N(t̂; μ, τ² + σ²) (the product of two Gaussians integrated over all t).
+    const v = [{ timeS: 5.2, sigmaS: 0.3 }, { timeS: 4.7, sigmaS: 0.4 }];
+    const mu = 5, tau = 0.2;
+    const expected = v.reduce((a, t) => a - 0.5 * (t.timeS - mu) ** 2 / (tau ** 2 + t.sigmaS ** 2) - 0.5 * Math.log(tau ** 2 + t.sigmaS ** 2), 0);
+    expect(truncatedLogLikelihood(v, mu, tau)).toBeCloseTo(expected, 9);
+    expect(truncatedPopulation(v, 10).meanS).toBeGreaterThan(4.5);
   });
 });

@@ -51,6 +51,10 @@ describe('analysis settings', () => {
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', shutterTimeGrowth: 'run-mean' }))).toBe(
       "sequential · last layers' growth at the run's shutter time",
     );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', shutterTimePopulation: 'mixture' }))).toBe(
+      'refit · shutter times and overshoots cut at 0, with their uncertainty',
+    );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', shutterTimePopulation: 'normal' }))).toBe('refit');
   });
 
   it('refuses an option the fit does not know, and a wrong type', () => {
@@ -71,5 +75,6 @@ describe('analysis settings', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', cutPastTurningPoint: 'on' }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'sequential', fitWithNextLayer: 3 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', levelGrowthFromNext: 'on' }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', shutterTimePopulation: 'uniform' }).success).toBe(false);
   });
 });
