@@ -84,6 +84,9 @@ export interface JointFitResult {
   solver: LeastSquaresResult;
 }
 
+/** The Jacobian of the layers' rows alone when a fit has prior rows, kept between fits (one thread's fits run one at a time). */
+let innerSpare = new Float64Array(0);
+
 /**
  * Least-squares fit of consecutive layers of one chip against the growing-layer model, each
  * layer on the ones before it as currently estimated. One layer: the sequential fit; all
@@ -192,7 +195,9 @@ function fitOnce(input: JointFitInput, options: LeastSquaresOptions): JointFitRe
       },
       jacobian: (p, at, steps, out) => {
         if (priors.length === 0) return jacobianLayers(fixedBelow, layers, layout, p, offsetSignal, at, steps, out);
-        const inner = new Float64Array(layout.count * total);
+        // jacobianLayers writes every value of it (one array kept between calls, as its own)
+        if (innerSpare.length < layout.count * total) innerSpare = new Float64Array(layout.count * total);
+        const inner = innerSpare.subarray(0, layout.count * total);
         jacobianLayers(fixedBelow, layers, layout, p, offsetSignal, at.subarray(0, total), steps, inner);
         out.fill(0);
         for (let j = 0; j < layout.count; j++) out.set(inner.subarray(j * total, (j + 1) * total), j * width);

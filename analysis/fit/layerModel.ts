@@ -1,5 +1,6 @@
 import { fromNK, gradedGrowingSignal, growingLayerSignal, type Complex, type LayerAt } from '../optics';
-import { lawThickness, lawThicknessSeries, wanderBasis, wanderCount, type RateWander } from './rateWander';
+import { oneShapeFrom } from './oneShape';
+import { lawThickness, lawThicknessSeries, rateWander, wanderBasis, wanderCount, type RateWander } from './rateWander';
 
 /** What the monitor sees apart from the layers: media, wavelength, R or T. */
 export interface MonitorOptics {
@@ -50,14 +51,29 @@ export interface FitLayerData {
  * A layer's fit data with every field present (undefined when absent) and in one order. Hot code
  * (evaluateLayers, jacobianLayers) reads these objects; V8 compiles it for the object shapes it
  * has seen, and each further shape (a field missing, or in another order) deoptimises it and
- * costs a recompile.
+ * costs a recompile. evaluateLayers and jacobianLayers pass every layer through here: a copy made
+ * by spreading (`{ ...layer, heldGain }`) has a shape of its own even with the same fields. The
+ * fields' kinds are made general first (oneShapeFrom).
  */
 export function fitLayerData(f: FitLayerData): FitLayerData {
   return {
     optics: f.optics, nominalAt: f.nominalAt, tauS: f.tauS, y: f.y, durationS: f.durationS, extinction: f.extinction,
     heldIndex: f.heldIndex, fitDrift: f.fitDrift, weight: f.weight, heldGain: f.heldGain, chipTimeS: f.chipTimeS,
-    gainDriftPerS: f.gainDriftPerS, wander: f.wander, indexGradient: f.indexGradient,
+    gainDriftPerS: f.gainDriftPerS, wander: f.wander ? rateWander(f.wander) : f.wander, indexGradient: f.indexGradient,
   };
+}
+
+const FIT_LAYER_FIELDS: readonly (keyof FitLayerData)[] = [
+  'optics', 'nominalAt', 'tauS', 'y', 'durationS', 'extinction', 'heldIndex', 'fitDrift', 'weight', 'heldGain', 'chipTimeS',
+  'gainDriftPerS', 'wander', 'indexGradient',
+];
+oneShapeFrom(fitLayerData, FIT_LAYER_FIELDS);
+
+/** The layers as fitLayerData gives them (one shape), in a new array. */
+function oneShape(layers: readonly FitLayerData[]): FitLayerData[] {
+  const out: FitLayerData[] = [];
+  for (let j = 0; j < layers.length; j++) out.push(fitLayerData(layers[j]));
+  return out;
 }
 
 /** The physical parameters of one layer. */
@@ -116,10 +132,21 @@ export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: n
   i += k;
   const indexGradient = layer.indexGradient === 'fit' ? p[i++] : layer.indexGradient;
   const gain = layout && layout.shared >= 0 ? sharedGainAt(p, layout, layer.chipTimeS, layer.gainDriftPerS) : layer.heldGain === null ? p[i] : layer.heldGain;
-  // One shape for every layer (absent fields undefined, not missing): the model's hot loops read
-  // these objects, and a second shape there costs V8 a deoptimisation and a recompile.
+  return layerParams(index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient);
+}
+
+/**
+ * One shape for every layer's parameters (absent fields undefined, not missing): the model's hot
+ * loops read these objects, and a second shape there costs V8 a deoptimisation and a recompile.
+ */
+function layerParams(
+  index: number, rateNmPerS: number, rateDriftNmPerS2: number, gain: number, wander: Float64Array | undefined, indexGradient: number | undefined,
+): LayerParams {
   return { index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient };
 }
+oneShapeFrom((v: LayerParams) => layerParams(v.index, v.rateNmPerS, v.rateDriftNmPerS2, v.gain, v.wander, v.indexGradient), [
+  'index', 'rateNmPerS', 'rateDriftNmPerS2', 'gain', 'wander', 'indexGradient',
+]);
 
 export function encodeLayer(layer: FitLayerData, v: LayerParams, out: number[], sharedGain = false): void {
   if (layer.heldIndex === null) out.push(v.index);
@@ -145,6 +172,20 @@ export function evaluateLayers(
   fromLayer = 0,
   /** Adds deltaNm to the thickness of layer `layer` throughout (for thickness derivatives). */
   shift?: { layer: number; deltaNm: number },
+): void {
+  evaluateSameShape(fixedBelow, oneShape(layers), layout, p, offsetSignal, out, fromLayer, shift);
+}
+
+/** evaluateLayers on layers of fitLayerData's one shape. */
+function evaluateSameShape(
+  fixedBelow: readonly LayerAt[],
+  layers: readonly FitLayerData[],
+  layout: ParamLayout,
+  p: ArrayLike<number>,
+  offsetSignal: number,
+  out: Float64Array,
+  fromLayer = 0,
+  shift?: { layer: number; deltaNm: number },
   /**
    * The growing layers' phase terms over the whole output (PhaseCache): `fill` writes them; else
    * each layer after `after` reads them (its own index and thicknesses as when they were written).
@@ -163,7 +204,7 @@ export function evaluateLayers(
     const below: LayerAt[] = [];
     for (let i = 0; i < fixedBelow.length; i++) below.push(fixedBelow[i]);
     for (let i = 0; i < j; i++) {
-      const b = layerAtWavelength(layers[i], values[i], layer.optics.wavelengthNm);
+      const b = layerAt(layers[i], values[i], layer.optics.wavelengthNm);
       if (shift && shift.layer === i) b.thicknessNm += shift.deltaNm;
       below.push(b);
     }
@@ -233,6 +274,11 @@ function scaleSeries(view: Float64Array, tauS: Float64Array, G: number, gamma: n
  * the deviation fitted at the layer's own monitor wavelength.
  */
 export function layerAtWavelength(layer: FitLayerData, v: LayerParams, wavelengthNm: number): LayerAt {
+  return layerAt(fitLayerData(layer), layerParams(v.index, v.rateNmPerS, v.rateDriftNmPerS2, v.gain, v.wander, v.indexGradient), wavelengthNm);
+}
+
+/** layerAtWavelength on objects of fitLayerData's and layerParams's one shape. */
+function layerAt(layer: FitLayerData, v: LayerParams, wavelengthNm: number): LayerAt {
   const thicknessNm = lawThickness(v, layer.wander, layer.durationS);
   // A graded layer keeps its Δn at every wavelength (the gradient's dispersion is not known).
   const graded = v.indexGradient ? { indexChange: v.indexGradient } : {};
@@ -259,15 +305,18 @@ export function jacobianLayers(
   steps: Float64Array,
   out: Float64Array,
 ): void {
+  layers = oneShape(layers);
   const total = modelAtP.length;
   out.fill(0);
-  const scratch = new Float64Array(total);
+  // every value of scratch read below is written first (the first evaluation writes all of it,
+  // each later one from layer i on, where it is then read)
+  const scratch = spare(SCRATCH, total);
   const q = new Float64Array(p);
   // A difference in layer i leaves every later layer's own phase thickness as it is: with more
   // than one layer, those are computed once here and read back (the same values).
-  const phase = layers.length > 1 ? { cos: new Float64Array(total), sin: new Float64Array(total), fill: true, after: -1 } : undefined;
+  const phase = layers.length > 1 ? { cos: spare(COS, total), sin: spare(SIN, total), fill: true, after: -1 } : undefined;
   if (phase) {
-    evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, scratch, 0, undefined, phase);
+    evaluateSameShape(fixedBelow, layers, layout, p, offsetSignal, scratch, 0, undefined, phase);
     phase.fill = false;
   }
   let pos = 0;
@@ -292,7 +341,7 @@ export function jacobianLayers(
       } else if (j === indexParam || j === gradientParam) {
         const h = steps[j];
         q[j] = p[j] + h;
-        evaluateLayers(fixedBelow, layers, layout, q, offsetSignal, scratch, i, undefined, phase && { ...phase, after: i });
+        evaluateSameShape(fixedBelow, layers, layout, q, offsetSignal, scratch, i, undefined, phase && { ...phase, after: i });
         q[j] = p[j];
         for (let x = pos; x < total; x++) out[row + x] = (scratch[x] - modelAtP[x]) / h;
       }
@@ -300,7 +349,7 @@ export function jacobianLayers(
     // One thickness difference for rate and drift.
     const T = layer.durationS;
     const h = Math.max(steps[rateParam] * T, 1e-9);
-    evaluateLayers(fixedBelow, layers, layout, p, offsetSignal, scratch, i, { layer: i, deltaNm: h }, phase && { ...phase, after: i });
+    evaluateSameShape(fixedBelow, layers, layout, p, offsetSignal, scratch, i, { layer: i, deltaNm: h }, phase && { ...phase, after: i });
     const rowR = rateParam * total, rowA = driftParam * total;
     if (wk === 0) rateColumns(scratch, modelAtP, h, layer.tauS, T, pos, out, rowR, driftParam >= 0 ? rowA : -1);
     else {
@@ -325,6 +374,18 @@ export function jacobianLayers(
     gainColumns(modelAtP, (layer.weight ?? 1) * offsetSignal, layer.tauS, layer.chipTimeS, G, gamma, pos, out, rowG, layout.sharedDrift >= 0 ? rowGamma : -1);
     pos += layer.tauS.length;
   }
+}
+
+/**
+ * Working arrays of jacobianLayers, kept between its calls (it is not re-entered; one set per
+ * thread): the bench's run makes about 1400 Jacobians (both threads), each of which allocated,
+ * zeroed and left to the collector three arrays of its rows.
+ */
+const SCRATCH = 0, COS = 1, SIN = 2;
+const spares: Float64Array[] = [new Float64Array(0), new Float64Array(0), new Float64Array(0)];
+function spare(which: number, n: number): Float64Array {
+  if (spares[which].length < n) spares[which] = new Float64Array(n);
+  return spares[which].subarray(0, n);
 }
 
 /** The chip-wide gain's columns over one layer's samples (from pos): ∂/∂G and, rowGamma ≥ 0, ∂/∂γ. */

@@ -39,11 +39,7 @@ export function gatherLayerSamples(trace: TraceData, segments: readonly Segment[
       // single sample takes the step before it, so τ stays strictly increasing).
       const step = s.endIndex - s.startIndex > 1 ? t[s.startIndex + 1] - t[s.startIndex] : t[s.startIndex] - t[s.startIndex - 1];
       const base = si === 0 ? 0 : tauEnd + step;
-      for (let i = s.startIndex; i < s.endIndex; i++) {
-        indices[k] = i;
-        tauS[k] = base + (t[i] - t[s.startIndex]);
-        k++;
-      }
+      k = gatherRun(t, s.startIndex, s.endIndex, base, indices, tauS, k);
       tauEnd = tauS[k - 1];
     }
     out.set(layer, {
@@ -52,4 +48,20 @@ export function gatherLayerSamples(trace: TraceData, segments: readonly Segment[
     });
   }
   return out;
+}
+
+/**
+ * One run's samples from k on: their indices, and τ from `base`; returns the next k. A function of
+ * its own, so that V8 compiles this loop alone while it runs (on-stack replacement), not all of
+ * gatherLayerSamples, which runs once: that compile took long enough for most of the trace's
+ * samples to pass through the interpreter meanwhile.
+ */
+function gatherRun(t: Float64Array, start: number, end: number, base: number, indices: Int32Array, tauS: Float64Array, k: number): number {
+  const t0 = t[start];
+  for (let i = start; i < end; i++) {
+    indices[k] = i;
+    tauS[k] = base + (t[i] - t0);
+    k++;
+  }
+  return k;
 }

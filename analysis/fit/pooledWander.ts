@@ -1,4 +1,4 @@
-import { wanderKnots, type RateWander } from './rateWander';
+import { rateWander, wanderKnots, type RateWander } from './rateWander';
 import { WANDER_HYPERPARAMETERS, type WanderChoice } from './wanderChoice';
 
 /** A wander scale shared by layers: a fraction of each layer's rate, and the correlation time. */
@@ -50,11 +50,11 @@ export function sharedWander(choices: readonly WanderChoice['scores'][]): Shared
 export function wanderAtShared(shared: SharedWander, scores: WanderChoice['scores'], rateNmPerS: number, durationS: number, pointSigma: number): RateWander | null {
   const s = scores.find((c) => c.fraction === shared.fraction && c.correlationS === shared.correlationS);
   if (!s || !(s.scale2 > 0)) return null;
-  return {
+  return rateWander({
     knotsS: wanderKnots(durationS, shared.correlationS),
     sigmaNmPerS: shared.fraction * Math.abs(rateNmPerS) * Math.sqrt(s.scale2),
     correlationS: shared.correlationS, pointSigma,
-  };
+  });
 }
 
 /** What one layer's wander choice left for the shared scale. */

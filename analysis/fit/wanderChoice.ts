@@ -3,7 +3,7 @@ import { fitAr1PlusWhiteSums, whitenAr1PlusWhite, type VariogramPool } from '../
 import { paramLayout, type FitLayerData, type LayerParams } from './layerModel';
 import { type LayerEstimate } from './fitLayers';
 import { invertSymmetric } from './invertSymmetric';
-import { wanderBasis, wanderCount, wanderKnots, type RateWander } from './rateWander';
+import { rateWander, wanderBasis, wanderCount, wanderKnots, type RateWander } from './rateWander';
 import { prepareRateWander, WANDER_CORRELATIONS_S, type WanderPrep } from './wanderPrep';
 import { type StackCovariance } from './stackUncertainty';
 
@@ -125,11 +125,11 @@ export function finishRateWander(prep: WanderPrep, noisePool?: VariogramPool): W
   }
   // The noise's long-run σ per sample, with the profiled scale of the chosen model.
   const sampleSigma = noise.longRunSigma * Math.sqrt(best.scale2 * per);
-  const wander: RateWander = {
+  const wander: RateWander = rateWander({
     knotsS: wanderKnots(prep.durationS, best.correlationS),
     sigmaNmPerS: best.kappa * Math.abs(prep.rateNmPerS) * Math.sqrt(best.scale2),
     correlationS: best.correlationS, pointSigma: sampleSigma,
-  };
+  });
   return { wander, sampleSigma, scores };
 }
 

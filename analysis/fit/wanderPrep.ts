@@ -1,7 +1,7 @@
 import { variogramSums, type VariogramSums } from '../stats';
 import { binMeans } from './subsample';
 import { encodeLayer, evaluateLayers, jacobianLayers, paramLayout, type FitLayerData } from './layerModel';
-import { wanderKnots, type RateWander } from './rateWander';
+import { rateWander, wanderKnots, type RateWander } from './rateWander';
 import { lastBelowThicknessColumn, stackBelowColumns } from './wanderStackBelow';
 import { type WanderChoiceInput } from './wanderChoice';
 
@@ -60,7 +60,7 @@ export function prepareRateWander(input: Omit<WanderChoiceInput, 'noisePool'>): 
   // (too few bins: the choice keeps the plain law)
   if (N < 100) return prep;
   for (const correlationS of WANDER_CORRELATIONS_S) {
-    const wander: RateWander = { knotsS: wanderKnots(layer.durationS, correlationS), sigmaNmPerS: 1, correlationS, pointSigma: 1 };
+    const wander: RateWander = rateWander({ knotsS: wanderKnots(layer.durationS, correlationS), sigmaNmPerS: 1, correlationS, pointSigma: 1 });
     const withW: FitLayerData = { ...plain, wander };
     const layout = paramLayout([withW]);
     const p: number[] = [];
