@@ -866,63 +866,61 @@ async function analyzeLayers(
   // A chip's last layer cut at a turning point, whose end nothing above pins: at or past its fitted
   // turning point at the last logged sample (option cutPastTurningPoint, fit/cutPastTurningPoint.ts).
   if (ends && (o.cutPastTurningPoint === true || (o.cutPastTurningPoint === 'refit' && o.mode === 'refit'))) {
-    // The run's overshoot from its other turning-point cuts, each end pinned by the layer above.
-    const readings: { timeS: number; sigmaS: number }[] = [];
-    for (const chipStates of chipLayers.values()) for (const s of chipStates.slice(0, -1)) {
-      if (s.design.monitor.cut !== 'turning-point' || s.fit.heldIndex !== null) continue;
+    // A turning-point cut's logged end and the turning point near it, on the layer's fitted law.
+    const loggedEnd = (s: LayerState) => {
+      if (s.design.monitor.cut !== 'turning-point' || s.fit.heldIndex !== null) return null;
       const cut = ends.loggedCut(s);
-      if (!cut || !(cut.sigmaNm > 0)) continue;
+      if (!cut || !(cut.sigmaNm > 0)) return null;
       const e = s.estimate, w = e.wander ? s.fit.wander : undefined;
       const loggedNm = lawThickness(e, w, cut.loggedS);
       const tpNm = turningPointNearNm(s.optics, belowOf(s), e.index, -s.nominal.im, loggedNm);
-      if (tpNm === null || !(tpNm > 0)) continue;
-      // Sequential: the σ of the end relative to the turning point (relativeCut), as for the last
-      // cut below; the whole σ holds the stack's and the offset's shares, which move both.
-      let sigmaNm = cut.sigmaNm;
+      return tpNm === null ? null : { cut, e, w, loggedNm, tpNm };
+    };
+    // Sequential: the σ of the end relative to the turning point, on the fit's own covariance
+    // (fit/cutPastTurningPoint.ts relativeCut); the whole σ holds the stack below's and the
+    // offset's shares, which move the end and its turning point together.
+    const relativeReading = (s: LayerState, e: LayerState['estimate'], loggedNm: number) => {
       const own = e.ownCovariance;
-      if (o.mode === 'sequential' && own) {
-        const h = Math.max(Math.sqrt(own.nn), 1e-4);
-        const up = turningPointNearNm(s.optics, belowOf(s), e.index + h, -s.nominal.im, loggedNm);
-        const down = turningPointNearNm(s.optics, belowOf(s), e.index - h, -s.nominal.im, loggedNm);
-        const rel = up !== null && down !== null ? relativeCut(own, (up - down) / (2 * h)) : null;
-        if (rel) sigmaNm = rel.sigmaNm;
-      }
-      readings.push({ timeS: (100 * (loggedNm - tpNm)) / tpNm, sigmaS: (100 * sigmaNm) / tpNm });
-    }
+      if (o.mode !== 'sequential' || !own) return null;
+      const h = Math.max(Math.sqrt(own.nn), 1e-4);
+      const up = turningPointNearNm(s.optics, belowOf(s), e.index + h, -s.nominal.im, loggedNm);
+      const down = turningPointNearNm(s.optics, belowOf(s), e.index - h, -s.nominal.im, loggedNm);
+      return up !== null && down !== null ? relativeCut(own, (up - down) / (2 * h)) : null;
+    };
+    // The run's overshoot from its other turning-point cuts, each end pinned by the layer above
+    // (option shutterTimePopulation; the default, 'normal', keeps the uniform prior alone).
     const maxPct = Math.max(o.turningPointOvershootPct, 0);
-    const usable = readings.length >= 3 && maxPct > 0 && o.shutterTimePopulation !== 'normal';
-    const pop = usable ? truncatedPopulation(readings, maxPct) : null;
+    const readings: { timeS: number; sigmaS: number }[] = [];
+    if (maxPct > 0 && o.shutterTimePopulation !== 'normal') {
+      for (const chipStates of chipLayers.values()) for (const s of chipStates.slice(0, -1)) {
+        const end = loggedEnd(s);
+        if (!end || !(end.tpNm > 0)) continue;
+        const sigmaNm = relativeReading(s, end.e, end.loggedNm)?.sigmaNm ?? end.cut.sigmaNm;
+        readings.push({ timeS: (100 * (end.loggedNm - end.tpNm)) / end.tpNm, sigmaS: (100 * sigmaNm) / end.tpNm });
+      }
+    }
+    const pop = readings.length >= 3 ? truncatedPopulation(readings, maxPct) : null;
     const run: RunOvershoot | null = pop
       ? { meanPct: pop.meanS, spreadPct: pop.spreadS, ...(o.shutterTimePopulation === 'mixture' ? { components: populationMixture(readings, maxPct) } : {}) }
       : null;
     for (const chipStates of chipLayers.values()) {
       const s = chipStates[chipStates.length - 1];
-      if (s.design.monitor.cut !== 'turning-point' || s.fit.heldIndex !== null) continue;
-      const cut = ends.loggedCut(s);
-      if (!cut || !(cut.sigmaNm > 0)) continue;
-      const e = s.estimate, w = e.wander ? s.fit.wander : undefined;
-      const loggedNm = lawThickness(e, w, cut.loggedS);
-      const tpNm = turningPointNearNm(s.optics, belowOf(s), e.index, -s.nominal.im, loggedNm);
-      if (tpNm === null) continue;
+      const end = loggedEnd(s);
+      if (!end) continue;
+      const { cut, e, w, loggedNm, tpNm } = end;
       let shiftNm = cutPastTurningPointNm(loggedNm, cut.sigmaNm, tpNm, o.turningPointOvershootPct, run) - loggedNm;
       let seenSigmaNm = cut.sigmaNm;
-      // Sequential: the layer's σ holds the stack below's and the offset's shares, which move its
-      // end and its turning point together; the posterior on the end relative to the turning
-      // point, on the fit's own covariance (fit/cutPastTurningPoint.ts relativeCut), where the
-      // reading does not contradict the prior on the whole σ (the gate above).
-      const own = e.ownCovariance;
-      if (o.mode === 'sequential' && own && shiftNm !== 0) {
-        const h = Math.max(Math.sqrt(own.nn), 1e-4);
-        const up = turningPointNearNm(s.optics, belowOf(s), e.index + h, -s.nominal.im, loggedNm);
-        const down = turningPointNearNm(s.optics, belowOf(s), e.index - h, -s.nominal.im, loggedNm);
-        const rel = up !== null && down !== null ? relativeCut(own, (up - down) / (2 * h)) : null;
+      // Sequential: the posterior on the end relative to the turning point (relativeReading),
+      // where the reading does not contradict the prior on the whole σ (the gate above).
+      if (shiftNm !== 0) {
+        const rel = relativeReading(s, e, loggedNm);
         // beta held within [0, 1]: the end moved no further than the relative reading (beta read
         // 1.2–1.3 on the spikes mirror; held, its chips' last layers RMS 0.402 → 0.373 %, seeds 15–30).
         if (rel) shiftNm = relativeCutShiftNm(loggedNm, tpNm, rel.sigmaNm, Math.min(Math.max(rel.beta, 0), 1), o.turningPointOvershootPct, run);
         if (rel) seenSigmaNm = rel.sigmaNm;
       }
       // Only where that σ could show a cut later than the overshoot allows (overshootSeen).
-      if (!overshootSeen(seenSigmaNm, (tpNm * Math.max(o.turningPointOvershootPct, 0)) / 100)) shiftNm = 0;
+      if (!overshootSeen(seenSigmaNm, (tpNm * maxPct) / 100)) shiftNm = 0;
       const d = e.thicknessNm + shiftNm;
       const T = lawTimeToThickness(e, w, d, s.fit.durationS);
       if (Number.isFinite(T)) s.fit.durationS = s.refit.durationS = T;
