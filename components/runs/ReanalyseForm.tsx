@@ -134,11 +134,11 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-shutter-pop">The run&apos;s shutter times, and a chip&apos;s last turning-point cut&apos;s overshoot</label>
+          <label htmlFor="re-shutter-pop">The run&apos;s shutter times and a chip&apos;s last overshoot, as populations</label>
           <select id="re-shutter-pop" name="shutterTimePopulation" className={select} defaultValue="">
-            <option value="">A normal spread; the overshoot anywhere up to its limit (default)</option>
-            <option value="mixture">Spreads that cannot go below 0, read with their own uncertainty; the overshoot from the run&apos;s other cuts</option>
-            <option value="truncated">Spreads that cannot go below 0, at their best fit; the overshoot from the run&apos;s other cuts</option>
+            <option value="">Normal; the overshoot anywhere up to its limit (default)</option>
+            <option value="mixture">Cut at 0, with their own uncertainty; overshoot from the run</option>
+            <option value="truncated">Cut at 0, at their best fit; overshoot from the run</option>
           </select>
         </div>
         <ReferenceDefaultSelect id="re-level-start" name="levelStartTransient" label="On a run cut only on level: the rate's start-up as the shutter opens, found with the lamp drift in each chip's joint fit" />
