@@ -120,7 +120,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
           <label htmlFor="re-drift">Gain drift within a chip (lamp, detector)</label>
           <select id="re-drift" name="chipDrift" className={select} defaultValue="">
-            <option value="">Held; the lamp&apos;s stability carried into every σ</option>
+            <option value="">Held; lamp stability in every σ</option>
             <option value="prior">Fitted under the lamp&apos;s stability (joint re-fit)</option>
             <option value="free">Fitted freely (joint re-fit, one gain per chip)</option>
           </select>
@@ -134,11 +134,11 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-shutter-pop">The run&apos;s shutter times and a chip&apos;s last overshoot, as populations</label>
+          <label htmlFor="re-shutter-pop">Shutter times and overshoots across the run, as populations (a chip&apos;s last cut&apos;s prior)</label>
           <select id="re-shutter-pop" name="shutterTimePopulation" className={select} defaultValue="">
-            <option value="">Normal; the overshoot anywhere up to its limit (default)</option>
-            <option value="mixture">Cut at 0, with their own uncertainty; overshoot from the run</option>
-            <option value="truncated">Cut at 0, at their best fit; overshoot from the run</option>
+            <option value="">Normal spread (default)</option>
+            <option value="mixture">Cut at 0, with their uncertainty</option>
+            <option value="truncated">Cut at 0, at their best fit</option>
           </select>
         </div>
         <ReferenceDefaultSelect id="re-level-start" name="levelStartTransient" label="On a run cut only on level: the rate's start-up as the shutter opens, found with the lamp drift in each chip's joint fit" />
