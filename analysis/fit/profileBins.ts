@@ -19,15 +19,8 @@ export function binsOnExposureClocks(
   const real = binMeans(tauS, indices, signal, maxPoints);
   // Each kept bin's first sample and end (binMeans drops empty bins, keeping order).
   const t0 = tauS[0], span = tauS[n - 1] - t0 || 1;
-  const binOf = (i: number) => Math.min(maxPoints - 1, Math.floor(((tauS[i] - t0) / span) * maxPoints));
   const first: number[] = [], end: number[] = [];
-  for (let i = 0; i < n; i++) {
-    if (i === 0 || binOf(i) !== binOf(i - 1)) {
-      if (i > 0) end.push(i);
-      first.push(i);
-    }
-  }
-  end.push(n);
+  binStarts(tauS, maxPoints, t0, span, first, end);
   return (delayS) => {
     const out = new Float64Array(real.tauS.length);
     for (let b = 0; b < out.length; b++) {
@@ -41,4 +34,22 @@ export function binsOnExposureClocks(
     }
     return { tauS: out, y: real.y };
   };
+}
+
+/**
+ * Each bin's first sample into `first` and its end into `end`, the bins those of binMeans (each
+ * sample's bin computed once; a function of its own so the engine optimises the loop apart).
+ */
+function binStarts(tauS: ArrayLike<number>, maxPoints: number, t0: number, span: number, first: number[], end: number[]): void {
+  const n = tauS.length;
+  let last = -1;
+  for (let i = 0; i < n; i++) {
+    const b = Math.min(maxPoints - 1, Math.floor(((tauS[i] - t0) / span) * maxPoints));
+    if (i === 0 || b !== last) {
+      if (i > 0) end.push(i);
+      first.push(i);
+    }
+    last = b;
+  }
+  end.push(n);
 }
