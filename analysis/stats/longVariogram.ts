@@ -1,5 +1,5 @@
 import { type Ar1PlusWhite } from './correlatedNoise';
-import { fitVariogramLine } from './variogramLine';
+import { fitVariogramLine, powersAtLags } from './variogramLine';
 
 /**
  * The semivariogram γ(k) = ½·E(e_{i+k} − e_i)² of a noise, pooled over stretches of different
@@ -77,11 +77,13 @@ export function fitLongVariogram(v: LongVariogram): Ar1PlusWhite | null {
   for (let g = 0; g <= GRID; g++) grid.push(Math.exp(-1 / (0.2 * (tauMax / 0.2) ** (g / GRID))));
   let model = gamma.slice();
   let best = { ssr: Infinity, A: gamma[0], B: 0, rho: 0 };
+  // ρ^k at each ρ of the grid: the same in every pass
+  const powers = grid.map((rho) => powersAtLags(lags, rho));
   for (let pass = 0; pass < 3; pass++) {
     const w = model.map((m, q) => (m > 0 ? count[q] / (m * m) : 0));
     best = { ssr: Infinity, A: gamma[0], B: 0, rho: 0 };
-    for (const rho of grid) {
-      const fit = fitVariogramLine(lags, gamma, w, rho);
+    for (const [g, rho] of grid.entries()) {
+      const fit = fitVariogramLine(lags, gamma, w, rho, powers[g]);
       if (fit.ssr < best.ssr) best = { ...fit, rho };
     }
     const { A, B, rho } = best;
