@@ -31,12 +31,23 @@ export function newLongVariogram(maxLag: number): LongVariogram {
  * memory).
  */
 export function addToLongVariogram(e: ArrayLike<number>, v: LongVariogram): void {
+  addStretchSums(stretchSums(e, v), e.length, v);
+}
+
+/** One stretch's ½·Σ(e_{i+k} − e_i)² at the pool's lags up to half its length (what addToLongVariogram adds). */
+export function stretchSums(e: ArrayLike<number>, v: LongVariogram): Float64Array {
   const n = e.length;
   const x = Float64Array.from(e);
-  for (let q = 0; q < v.lags.length && v.lags[q] <= n / 2; q++) {
-    const k = v.lags[q];
-    v.sums[q] += squaredDifferences(x, k) / 2;
-    v.counts[q] += n - k;
+  const out: number[] = [];
+  for (let q = 0; q < v.lags.length && v.lags[q] <= n / 2; q++) out.push(squaredDifferences(x, v.lags[q]) / 2);
+  return Float64Array.from(out);
+}
+
+/** Adds a stretch of n values by its stretchSums (the same additions as addToLongVariogram). */
+export function addStretchSums(sums: Float64Array, n: number, v: LongVariogram): void {
+  for (let q = 0; q < sums.length; q++) {
+    v.sums[q] += sums[q];
+    v.counts[q] += n - v.lags[q];
   }
 }
 
