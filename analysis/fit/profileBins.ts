@@ -21,6 +21,7 @@ export function binsOnExposureClocks(
   const t0 = tauS[0], span = tauS[n - 1] - t0 || 1;
   const first: number[] = [], end: number[] = [];
   binStarts(tauS, maxPoints, t0, span, first, end);
+  end.push(n);
   return (delayS) => {
     const out = new Float64Array(real.tauS.length);
     for (let b = 0; b < out.length; b++) {
@@ -37,8 +38,10 @@ export function binsOnExposureClocks(
 }
 
 /**
- * Each bin's first sample into `first` and its end into `end`, the bins those of binMeans (each
- * sample's bin computed once; a function of its own so the engine optimises the loop apart).
+ * Each bin's first sample into `first` and the ends of all but the last bin into `end`, the bins
+ * those of binMeans (each sample's bin computed once; a function of its own so the engine
+ * optimises the loop apart, with nothing after the loop: a call there, with no type feedback
+ * when the loop was compiled on the stack, left that code on every later call).
  */
 function binStarts(tauS: ArrayLike<number>, maxPoints: number, t0: number, span: number, first: number[], end: number[]): void {
   const n = tauS.length;
@@ -51,5 +54,4 @@ function binStarts(tauS: ArrayLike<number>, maxPoints: number, t0: number, span:
     }
     last = b;
   }
-  end.push(n);
 }
