@@ -1,4 +1,4 @@
-import { addToLongVariogram, fitLongVariogram, newLongVariogram, whitenAr1PlusWhite, type Ar1PlusWhite } from '../stats';
+import { addStretchSums, fitLongVariogram, newLongVariogram, stretchSums, whitenAr1PlusWhite, type Ar1PlusWhite } from '../stats';
 import { levelSteps, type TraceData } from '../trace';
 import { hampelFilter } from '../trace/hampelFilter';
 import { medianInPlace } from '../trace/robustStats';
@@ -48,9 +48,11 @@ export function idleNoiseModel(trace: TraceData, idle: readonly { startIndex: nu
     const sorted = Float64Array.from(part).sort();
     return sorted[Math.floor(0.9 * (sorted.length - 1))];
   });
-  let pooled = pooledModel(stretches, uppers, undefined);
+  // each step's variogram sums, by stretch and place: a step found again in a later pass is not read again
+  const known = new Map<string, Float64Array>();
+  let pooled = pooledModel(stretches, uppers, undefined, known);
   for (let pass = 0; pass < PASSES && pooled.fit; pass++) {
-    const next = pooledModel(stretches, uppers, pooled.fit.longRunSigma);
+    const next = pooledModel(stretches, uppers, pooled.fit.longRunSigma, known);
     if (!next.fit) break;
     const settled = Math.abs(next.fit.longRunSigma / pooled.fit.longRunSigma - 1) < 0.05;
     pooled = next;
@@ -64,8 +66,10 @@ export function idleNoiseModel(trace: TraceData, idle: readonly { startIndex: nu
 const PASSES = 3;
 
 /** The steps' pooled variogram fit, and the steps it read. */
-function pooledModel(stretches: readonly Float64Array[], uppers: readonly number[], sigma: number | undefined): { fit: Ar1PlusWhite | null; steps: Float64Array[] } {
-  const steps: Float64Array[] = [];
+function pooledModel(
+  stretches: readonly Float64Array[], uppers: readonly number[], sigma: number | undefined, known: Map<string, Float64Array>,
+): { fit: Ar1PlusWhite | null; steps: Float64Array[] } {
+  const steps: Float64Array[] = [], places: string[] = [];
   let read = 0;
   reading: for (const [j, part] of stretches.entries()) {
     const upper = uppers[j];
@@ -73,6 +77,7 @@ function pooledModel(stretches: readonly Float64Array[], uppers: readonly number
       if (step.end - step.start < MIN_STEP_SAMPLES || step.mean < DARK_FRACTION * upper) continue;
       const end = Math.min(step.end, step.start + MAX_STEP_SAMPLES);
       steps.push(part.subarray(step.start, end));
+      places.push(`${j} ${step.start} ${end}`);
       read += end - step.start;
       if (read >= MAX_SAMPLES || steps.length >= MAX_STEPS) break reading;
     }
@@ -80,13 +85,19 @@ function pooledModel(stretches: readonly Float64Array[], uppers: readonly number
   if (steps.length === 0) return { fit: null, steps };
   const rough = steps.map(meanSquaredDifference);
   const typical = medianInPlace(Float64Array.from(rough));
-  const kept = steps.filter((_, j) => !(rough[j] > ROUGH_FACTOR * typical));
-  return { fit: fitPool(kept), steps: kept };
+  const keep = (_: unknown, j: number) => !(rough[j] > ROUGH_FACTOR * typical);
+  const kept = steps.filter(keep);
+  return { fit: fitPool(kept, places.filter(keep), known), steps: kept };
 }
 
-function fitPool(steps: readonly Float64Array[]): Ar1PlusWhite | null {
+/** The steps' pooled variogram (stats/longVariogram: addToLongVariogram's sums, each step's read once a run), fitted. */
+function fitPool(steps: readonly Float64Array[], places: readonly string[], known: Map<string, Float64Array>): Ar1PlusWhite | null {
   const pool = newLongVariogram(MAX_LAG);
-  for (const y of steps) addToLongVariogram(y, pool);
+  steps.forEach((y, j) => {
+    let sums = known.get(places[j]);
+    if (!sums) known.set(places[j], (sums = stretchSums(y, pool)));
+    addStretchSums(sums, y.length, pool);
+  });
   return fitLongVariogram(pool);
 }
 

@@ -13,7 +13,7 @@ export interface SampleWork {
 
 export interface SampleWorkResult {
   observed?: ObservedTurningPoints;
-  /** binMeans of the samples for each of SampleWork.binPoints. */
+  /** binMeans of the samples for each distinct size of SampleWork.binPoints. */
   binned: { points: number; tauS: Float64Array; y: Float64Array }[];
 }
 
@@ -23,7 +23,8 @@ export interface SampleWorkResult {
  */
 export function layerSampleWork(tauS: Float64Array, y: Float64Array, work: SampleWork): SampleWorkResult {
   const own = indexRange(y.length);
-  const binned = work.binPoints.map((points) => ({ points, ...binMeans(tauS, own, y, points) }));
+  // Each size once: the pass's sizes often repeat (a profiling pass asks for 100 points three times).
+  const binned = [...new Set(work.binPoints)].map((points) => ({ points, ...binMeans(tauS, own, y, points) }));
   return work.timeS ? { observed: observedTurningPoints(tauS, work.timeS, y), binned } : { binned };
 }
 

@@ -150,16 +150,12 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
     } else {
       // only the rows where dy is not 0 (a wander's knot moves its layer and those above it):
       // the terms left out are ±0, which leave every sum as it was
-      let r0 = 0, r1 = n;
-      while (r0 < r1 && dy[r0] === 0) r0++;
-      while (r1 > r0 && dy[r1 - 1] === 0) r1--;
+      // (the loops in functions of their own: see columnTimes)
+      const r0 = firstNonZero(dy, n), r1 = endOfNonZero(dy, r0, n);
       for (let j = 0; j < np; j++) {
         const o = j * n;
         const lo = Math.max(r0, problem.columnRows ? problem.columnRows.start[j] : 0), hi = Math.min(r1, problem.columnRows ? problem.columnRows.end[j] : n);
-        let s = 0;
-        if (weights) for (let k = lo; k < hi; k++) s += jac[o + k] * weights[k] * dy[k];
-        else for (let k = lo; k < hi; k++) s += jac[o + k] * dy[k];
-        g[j] = s;
+        g[j] = weights ? weightedColumnTimes(jac, o, weights, dy, lo, hi) : columnTimes(jac, o, dy, lo, hi);
       }
     }
     if (!factor) return null;
@@ -225,4 +221,36 @@ function covarianceFrom(
   for (let a = 0; a < np; a++) for (let b = 0; b < np; b++) covariance[a * np + b] = s2 * inv[a * np + b] * unit[a] * unit[b];
   for (let j = 0; j < np; j++) sigma[j] = Math.sqrt(Math.max(0, covariance[j * np + j]));
   return { covariance, sigma, ok: true };
+}
+
+// shiftFor's loops over the rows, each alone in a function that returns right after it: inside
+// shiftFor, the engine compiled them on the stack, and that code left at a call after them with
+// no type feedback on every later call (some 30 times a run), running the rest unoptimised.
+
+/** The first i < n with dy[i] ≠ 0 (n if none). */
+function firstNonZero(dy: Float64Array, n: number): number {
+  let i = 0;
+  while (i < n && dy[i] === 0) i++;
+  return i;
+}
+
+/** One past the last i ≥ from, i < n, with dy[i] ≠ 0 (from if none). */
+function endOfNonZero(dy: Float64Array, from: number, n: number): number {
+  let i = n;
+  while (i > from && dy[i - 1] === 0) i--;
+  return i;
+}
+
+/** Σ jac[o + k]·dy[k] over lo ≤ k < hi, in order. */
+function columnTimes(jac: Float64Array, o: number, dy: Float64Array, lo: number, hi: number): number {
+  let s = 0;
+  for (let k = lo; k < hi; k++) s += jac[o + k] * dy[k];
+  return s;
+}
+
+/** Σ jac[o + k]·w[k]·dy[k] over lo ≤ k < hi, in order. */
+function weightedColumnTimes(jac: Float64Array, o: number, w: ArrayLike<number>, dy: Float64Array, lo: number, hi: number): number {
+  let s = 0;
+  for (let k = lo; k < hi; k++) s += jac[o + k] * w[k] * dy[k];
+  return s;
 }

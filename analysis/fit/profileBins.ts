@@ -19,14 +19,8 @@ export function binsOnExposureClocks(
   const real = binMeans(tauS, indices, signal, maxPoints);
   // Each kept bin's first sample and end (binMeans drops empty bins, keeping order).
   const t0 = tauS[0], span = tauS[n - 1] - t0 || 1;
-  const binOf = (i: number) => Math.min(maxPoints - 1, Math.floor(((tauS[i] - t0) / span) * maxPoints));
   const first: number[] = [], end: number[] = [];
-  for (let i = 0; i < n; i++) {
-    if (i === 0 || binOf(i) !== binOf(i - 1)) {
-      if (i > 0) end.push(i);
-      first.push(i);
-    }
-  }
+  binStarts(tauS, maxPoints, t0, span, first, end);
   end.push(n);
   return (delayS) => {
     const out = new Float64Array(real.tauS.length);
@@ -41,4 +35,23 @@ export function binsOnExposureClocks(
     }
     return { tauS: out, y: real.y };
   };
+}
+
+/**
+ * Each bin's first sample into `first` and the ends of all but the last bin into `end`, the bins
+ * those of binMeans (each sample's bin computed once; a function of its own so the engine
+ * optimises the loop apart, with nothing after the loop: a call there, with no type feedback
+ * when the loop was compiled on the stack, left that code on every later call).
+ */
+function binStarts(tauS: ArrayLike<number>, maxPoints: number, t0: number, span: number, first: number[], end: number[]): void {
+  const n = tauS.length;
+  let last = -1;
+  for (let i = 0; i < n; i++) {
+    const b = Math.min(maxPoints - 1, Math.floor(((tauS[i] - t0) / span) * maxPoints));
+    if (i === 0 || b !== last) {
+      if (i > 0) end.push(i);
+      first.push(i);
+    }
+    last = b;
+  }
 }

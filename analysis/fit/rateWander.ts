@@ -78,8 +78,12 @@ export function wanderBasis(w: RateWander, tau: number, out: Float64Array, rate 
   const t = w.knotsS, K = t.length - 1;
   const rho = K > 0 ? Math.exp(-(t[1] - t[0]) / w.correlationS) : 0;
   const s = Math.sqrt(Math.max(0, 1 - rho * rho));
+  let j = K;
+  // Knots wholly after τ (t_{j−1} ≥ τ): Φ_j(τ) is 0 and so is the sum so far; the same figures
+  // without the calls (the Jacobian of the wander's choice asks for every sample of a layer).
+  if (!rate && Number.isFinite(rho)) for (; j >= 1 && t[j - 1] >= tau; j--) out[j] = w.sigmaNmPerS * s * 0;
   let acc = 0;
-  for (let j = K; j >= 0; j--) {
+  for (; j >= 0; j--) {
     acc = (rate ? hat(t, j, tau) : hatIntegral(t, j, tau)) + rho * acc;
     out[j] = w.sigmaNmPerS * (j === 0 ? 1 : s) * acc;
   }
@@ -105,9 +109,48 @@ export function wanderThickness(w: RateWander | undefined, v: ArrayLike<number> 
 /** The law's thickness at every τ of tauS into out (knot rates computed once). */
 export function lawThicknessSeries(law: ThicknessLaw, w: RateWander | undefined, tauS: ArrayLike<number>, out: Float64Array): Float64Array {
   const c = w && law.wander ? wanderKnotRates(w, law.wander) : null;
+  if (c) return wanderSeries(law.rateNmPerS, law.rateDriftNmPerS2, w!.knotsS, c, knotPrefix(w!.knotsS, c), tauS, out);
   for (let i = 0; i < tauS.length; i++) {
     const tau = tauS[i];
-    out[i] = law.rateNmPerS * tau + 0.5 * law.rateDriftNmPerS2 * tau * tau + (c ? integrateKnots(w!.knotsS, c, tau) : 0);
+    out[i] = law.rateNmPerS * tau + 0.5 * law.rateDriftNmPerS2 * tau * tau + 0;
+  }
+  return out;
+}
+
+/**
+ * integrateKnots's sums over whole segments: P[k] = the sum of segments 0 … k − 1, added in the
+ * same order. A segment the loop passes whole has x = h exactly (τ > t[k+1] gives τ − t[k] ≥
+ * t[k+1] − t[k] after rounding, which is monotone), so P[k] plus the partial segment is
+ * integrateKnots's figure to the last bit, at one segment a τ instead of all before it.
+ */
+function knotPrefix(t: Float64Array, c: Float64Array): Float64Array {
+  const K = t.length - 1;
+  const P = new Float64Array(K + 1);
+  let d = 0;
+  for (let k = 0; k < K; k++) {
+    const h = t[k + 1] - t[k], x = h;
+    d += c[k] * x + ((c[k + 1] - c[k]) * x * x) / (2 * h);
+    P[k + 1] = d;
+  }
+  return P;
+}
+
+/** lawThicknessSeries with a wander: integrateKnots through knotPrefix (the same figures). */
+function wanderSeries(
+  rate: number, drift: number, t: Float64Array, c: Float64Array, P: Float64Array, tauS: ArrayLike<number>, out: Float64Array,
+): Float64Array {
+  const K = t.length - 1;
+  for (let i = 0; i < tauS.length; i++) {
+    const tau = tauS[i];
+    // the last segment integrateKnots's loop enters: the largest k < K with τ > t[k] (none: −1)
+    let k = -1;
+    while (k + 1 < K && tau > t[k + 1]) k++;
+    let d = 0;
+    if (k >= 0) {
+      const h = t[k + 1] - t[k], x = Math.min(tau - t[k], h);
+      d = (k === 0 ? 0 : P[k]) + (c[k] * x + ((c[k + 1] - c[k]) * x * x) / (2 * h));
+    }
+    out[i] = rate * tau + 0.5 * drift * tau * tau + (tau > t[K] ? d + c[K] * (tau - t[K]) : d);
   }
   return out;
 }

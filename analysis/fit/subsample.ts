@@ -58,11 +58,27 @@ function binSums(
   tauS: ArrayLike<number>, indices: ArrayLike<number>, signal: ArrayLike<number>, maxPoints: number, valueTauS: ArrayLike<number>,
   t0: number, span: number, sumT: Float64Array, sumY: Float64Array, count: Int32Array,
 ): void {
-  for (let i = 0; i < tauS.length; i++) {
+  // The running bin's sums held in locals while the samples stay in it (in time order, a bin's
+  // samples come in one run) and stored after each sample, read back only when the bin changes:
+  // the same additions in the same order, without waiting on each sample's store. Nothing after
+  // the loop (code there, never reached when the engine compiled the loop on the stack, would
+  // leave that code on every later call).
+  const n = tauS.length;
+  let run = -1, t = 0, y = 0, c = 0;
+  for (let i = 0; i < n; i++) {
     const b = Math.min(maxPoints - 1, Math.floor(((tauS[i] - t0) / span) * maxPoints));
-    sumT[b] += valueTauS[i];
-    sumY[b] += signal[indices[i]];
-    count[b]++;
+    if (b !== run) {
+      run = b;
+      t = sumT[b];
+      y = sumY[b];
+      c = count[b];
+    }
+    t += valueTauS[i];
+    y += signal[indices[i]];
+    c++;
+    sumT[b] = t;
+    sumY[b] = y;
+    count[b] = c;
   }
 }
 

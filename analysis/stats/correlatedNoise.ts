@@ -1,5 +1,5 @@
 import { pooledGamma, robustVariogram, variogramSums, type VariogramSums } from './robustVariogram';
-import { fitVariogramLine } from './variogramLine';
+import { fitVariogramLine, powersAtLags } from './variogramLine';
 
 /**
  * How much correlated noise inflates the variance of a least-squares estimate over white noise
@@ -104,14 +104,26 @@ function fitVariogram(lags: readonly number[], gamma: readonly number[]): Ar1Plu
   // told from a trend and would have its long-run variance extrapolated from a short rise.
   const rhoMax = Math.min(0.995, 0.3 ** (1 / lags[lags.length - 1]));
   const unit = lags.map(() => 1);
+  const powers = gridPowers(lags, rhoMax);
   for (let g = 0; g <= 200; g++) {
     const rho = (g / 200) * rhoMax;
-    const { ssr, A, B } = fitVariogramLine(lags, gamma, unit, rho);
+    const { ssr, A, B } = fitVariogramLine(lags, gamma, unit, rho, powers[g]);
     if (ssr < best.ssr) best = { ssr, whiteVar: Math.max(0, A - B), ar1Var: B, rho };
   }
   const { whiteVar, ar1Var, rho } = best;
   return { whiteVar, ar1Var, rho, longRunSigma: Math.sqrt(whiteVar + (ar1Var * (1 + rho)) / (1 - rho)) };
 }
+
+/**
+ * ρ^k at fitVariogram's lags for each ρ of its grid, kept for the last lags asked (every layer's
+ * variogram has the same lags, so each layer's fit would compute the same powers again).
+ */
+function gridPowers(lags: readonly number[], rhoMax: number): number[][] {
+  const key = `${rhoMax} ${lags.join(',')}`;
+  if (keptPowers?.key !== key) keptPowers = { key, powers: Array.from({ length: 201 }, (_, g) => powersAtLags(lags, (g / 200) * rhoMax)) };
+  return keptPowers.powers;
+}
+let keptPowers: { key: string; powers: number[][] } | null = null;
 
 /**
  * Whitens series under white plus AR(1) noise: the Kalman filter's standardised innovations

@@ -1,5 +1,5 @@
 import { type Ar1PlusWhite } from './correlatedNoise';
-import { fitVariogramLine } from './variogramLine';
+import { fitVariogramLine, powersAtLags } from './variogramLine';
 
 /**
  * The semivariogram γ(k) = ½·E(e_{i+k} − e_i)² of a noise, pooled over stretches of different
@@ -31,12 +31,23 @@ export function newLongVariogram(maxLag: number): LongVariogram {
  * memory).
  */
 export function addToLongVariogram(e: ArrayLike<number>, v: LongVariogram): void {
+  addStretchSums(stretchSums(e, v), e.length, v);
+}
+
+/** One stretch's ½·Σ(e_{i+k} − e_i)² at the pool's lags up to half its length (what addToLongVariogram adds). */
+export function stretchSums(e: ArrayLike<number>, v: LongVariogram): Float64Array {
   const n = e.length;
   const x = Float64Array.from(e);
-  for (let q = 0; q < v.lags.length && v.lags[q] <= n / 2; q++) {
-    const k = v.lags[q];
-    v.sums[q] += squaredDifferences(x, k) / 2;
-    v.counts[q] += n - k;
+  const out: number[] = [];
+  for (let q = 0; q < v.lags.length && v.lags[q] <= n / 2; q++) out.push(squaredDifferences(x, v.lags[q]) / 2);
+  return Float64Array.from(out);
+}
+
+/** Adds a stretch of n values by its stretchSums (the same additions as addToLongVariogram). */
+export function addStretchSums(sums: Float64Array, n: number, v: LongVariogram): void {
+  for (let q = 0; q < sums.length; q++) {
+    v.sums[q] += sums[q];
+    v.counts[q] += n - v.lags[q];
   }
 }
 
@@ -77,11 +88,13 @@ export function fitLongVariogram(v: LongVariogram): Ar1PlusWhite | null {
   for (let g = 0; g <= GRID; g++) grid.push(Math.exp(-1 / (0.2 * (tauMax / 0.2) ** (g / GRID))));
   let model = gamma.slice();
   let best = { ssr: Infinity, A: gamma[0], B: 0, rho: 0 };
+  // ρ^k at each ρ of the grid: the same in every pass
+  const powers = grid.map((rho) => powersAtLags(lags, rho));
   for (let pass = 0; pass < 3; pass++) {
     const w = model.map((m, q) => (m > 0 ? count[q] / (m * m) : 0));
     best = { ssr: Infinity, A: gamma[0], B: 0, rho: 0 };
-    for (const rho of grid) {
-      const fit = fitVariogramLine(lags, gamma, w, rho);
+    for (const [g, rho] of grid.entries()) {
+      const fit = fitVariogramLine(lags, gamma, w, rho, powers[g]);
       if (fit.ssr < best.ssr) best = { ...fit, rho };
     }
     const { A, B, rho } = best;

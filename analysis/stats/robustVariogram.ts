@@ -40,11 +40,13 @@ export function variogramSums(e: ArrayLike<number>, maxLag: number): VariogramSu
   // Arrays shared by every lag: the differences, the values near a median (in a window: see
   // trace/robustStats.ts medianFromWindow), and a copy to reorder when the median is not there.
   const d = new Float64Array(n), near = new Float64Array(n + 1), work = new Float64Array(n);
-  const sample = new Float64Array(MEDIAN_WINDOW_SAMPLE), tally = new Int32Array(2);
+  const sample = new Float64Array(MEDIAN_WINDOW_SAMPLE);
   const sums: number[] = [], counts: number[] = [];
   let last: { k: number; med: number; mad: number } | null = null;
-  for (const k of lags) {
-    const m = n - k;
+  // the count within the window of this lag's differences when the last lag's sum already took them (else −1)
+  let ahead = -1;
+  for (let q = 0; q < lags.length; q++) {
+    const k = lags[q], m = n - k;
     // Squared differences, winsorised at 4 MAD-σ: nearly the efficiency of the plain mean (the
     // MAD alone has 37 %), without the spikes. Each median from one pass over the values, which
     // gathers those in a window: first around the last lag's (the median of the differences
@@ -55,26 +57,35 @@ export function variogramSums(e: ArrayLike<number>, maxLag: number): VariogramSu
     let med: number | null = null;
     if (windowed && last && last.mad > 0) {
       const centre = (last.med * k) / last.k, half = MED_HINT * last.mad;
-      differencesInWindow(e, k, d, centre - half, centre + half, near, tally);
-      med = medianFromWindow(near, tally[1], tally[0], m);
+      const inside = ahead >= 0 ? ahead : differencesInWindow(e, k, d, centre - half, centre + half, near);
+      med = medianFromWindow(near, inside, windowBelow, m);
     } else differencesAt(e, k, d);
-    if (windowed && med === null) med = medianInSampledWindow(d, m, null, sample, near, tally);
+    ahead = -1;
+    if (windowed && med === null) med = medianInSampledWindow(d, m, null, sample, near);
     if (med === null) {
       work.set(d.subarray(0, m));
       med = medianInPlace(work.subarray(0, m));
     }
     let mad: number | null = null;
     if (windowed && last && last.mad > 0) {
-      deviationsInWindow(d, m, med, MAD_HINT_LOW * last.mad, MAD_HINT_HIGH * last.mad, near, tally);
-      mad = medianFromWindow(near, tally[1], tally[0], m);
+      const inside = deviationsInWindow(d, m, med, MAD_HINT_LOW * last.mad, MAD_HINT_HIGH * last.mad, near);
+      mad = medianFromWindow(near, inside, windowBelow, m);
     }
-    if (windowed && mad === null) mad = medianInSampledWindow(d, m, med, sample, near, tally);
+    if (windowed && mad === null) mad = medianInSampledWindow(d, m, med, sample, near);
     if (mad === null) {
       absoluteDeviations(d, med, m, work);
       mad = medianInPlace(work.subarray(0, m));
     }
     last = { k, med, mad };
-    const ss = cappedSquares(d, m, med, 4 * 1.4826 * mad);
+    // The next lag's differences (and its window, the same as it would place) in the pass that
+    // sums this lag's squares: one pass over the series fewer, each sum in the same order.
+    const next = q + 1 < lags.length ? lags[q + 1] : 0;
+    let ss: number;
+    if (next > 0 && n - next >= MEDIAN_WINDOW_MIN && mad > 0) {
+      const centre = (med * next) / k, half = MED_HINT * mad;
+      ahead = squaresAndNextDifferences(e, d, m, med, 4 * 1.4826 * mad, next, centre - half, centre + half, near);
+      ss = squaresSum;
+    } else ss = cappedSquares(d, m, med, 4 * 1.4826 * mad);
     gamma.push(ss / m / 2);
     sums.push(ss / 2);
     counts.push(m);
@@ -91,19 +102,24 @@ const MAD_HINT_LOW = 0.98, MAD_HINT_HIGH = 1.1;
  * The median of d[i] for i < m (with a centre: of |d[i] − centre|) within the window a strided
  * sample of those values places (robustStats medianWindow), or null when it is not there.
  */
-function medianInSampledWindow(d: Float64Array, m: number, centre: number | null, sample: Float64Array, near: Float64Array, tally: Int32Array): number | null {
+function medianInSampledWindow(d: Float64Array, m: number, centre: number | null, sample: Float64Array, near: Float64Array): number | null {
   for (let q = 0; q < MEDIAN_WINDOW_SAMPLE; q++) {
     const x = d[Math.floor((q * m) / MEDIAN_WINDOW_SAMPLE)];
     sample[q] = centre === null ? x : Math.abs(x - centre);
   }
   const w = medianWindow(sample);
-  if (centre === null) valuesInWindow(d, m, w.lo, w.hi, near, tally);
-  else deviationsInWindow(d, m, centre, w.lo, w.hi, near, tally);
-  return medianFromWindow(near, tally[1], tally[0], m);
+  const inside = centre === null ? valuesInWindow(d, m, w.lo, w.hi, near) : deviationsInWindow(d, m, centre, w.lo, w.hi, near);
+  return medianFromWindow(near, inside, windowBelow, m);
 }
 
 // The loops over the samples sit in small functions of their own (see trace/robustStats.ts), and
-// the arrays are allocated once a series, not once a lag.
+// the arrays are allocated once a series, not once a lag. The window loops return one count and
+// leave the other in a module variable: a store into an array after the loop had no type feedback
+// when the engine compiled the loop on the stack during the first call, so that code left at the
+// store on every later call (about 50 times a thread a run) and ran the loop unoptimised.
+
+/** The count below the window of the last window loop (differencesInWindow and the like). */
+let windowBelow = 0;
 
 /** d[i] ← e[i + k] − e[i] for i < n − k. */
 function differencesAt(e: ArrayLike<number>, k: number, d: Float64Array): void {
@@ -113,9 +129,9 @@ function differencesAt(e: ArrayLike<number>, k: number, d: Float64Array): void {
 
 /**
  * differencesAt, and those within [lo, hi] copied to the front of `near`, without branching on
- * the data; tally ← [count below lo, count within].
+ * the data; returns the count within, the count below lo goes to windowBelow.
  */
-function differencesInWindow(e: ArrayLike<number>, k: number, d: Float64Array, lo: number, hi: number, near: Float64Array, tally: Int32Array): void {
+function differencesInWindow(e: ArrayLike<number>, k: number, d: Float64Array, lo: number, hi: number, near: Float64Array): number {
   const m = e.length - k;
   let c = 0, b = 0;
   for (let i = 0; i < m; i++) {
@@ -125,12 +141,12 @@ function differencesInWindow(e: ArrayLike<number>, k: number, d: Float64Array, l
     c += ((x >= lo) as unknown as number) & ((x <= hi) as unknown as number);
     b += (x < lo) as unknown as number;
   }
-  tally[0] = b;
-  tally[1] = c;
+  windowBelow = b;
+  return c;
 }
 
-/** Of d[i] for i < m, those within [lo, hi] copied to the front of `near`; tally as differencesInWindow. */
-function valuesInWindow(d: Float64Array, m: number, lo: number, hi: number, near: Float64Array, tally: Int32Array): void {
+/** Of d[i] for i < m, those within [lo, hi] copied to the front of `near`; counts as differencesInWindow. */
+function valuesInWindow(d: Float64Array, m: number, lo: number, hi: number, near: Float64Array): number {
   let c = 0, b = 0;
   for (let i = 0; i < m; i++) {
     const x = d[i];
@@ -138,8 +154,8 @@ function valuesInWindow(d: Float64Array, m: number, lo: number, hi: number, near
     c += ((x >= lo) as unknown as number) & ((x <= hi) as unknown as number);
     b += (x < lo) as unknown as number;
   }
-  tally[0] = b;
-  tally[1] = c;
+  windowBelow = b;
+  return c;
 }
 
 /** out[i] ← |d[i] − med| for i < m. */
@@ -147,8 +163,8 @@ function absoluteDeviations(d: Float64Array, med: number, m: number, out: Float6
   for (let i = 0; i < m; i++) out[i] = Math.abs(d[i] - med);
 }
 
-/** Of |d[i] − med| for i < m, those within [lo, hi] copied to the front of `near`; tally as differencesInWindow. */
-function deviationsInWindow(d: Float64Array, m: number, med: number, lo: number, hi: number, near: Float64Array, tally: Int32Array): void {
+/** Of |d[i] − med| for i < m, those within [lo, hi] copied to the front of `near`; counts as differencesInWindow. */
+function deviationsInWindow(d: Float64Array, m: number, med: number, lo: number, hi: number, near: Float64Array): number {
   let c = 0, b = 0;
   for (let i = 0; i < m; i++) {
     const x = Math.abs(d[i] - med);
@@ -156,8 +172,8 @@ function deviationsInWindow(d: Float64Array, m: number, med: number, lo: number,
     c += ((x >= lo) as unknown as number) & ((x <= hi) as unknown as number);
     b += (x < lo) as unknown as number;
   }
-  tally[0] = b;
-  tally[1] = c;
+  windowBelow = b;
+  return c;
 }
 
 /** Σ min(|d[i] − med|, cap)² over i < m, in order. */
@@ -166,3 +182,32 @@ function cappedSquares(d: Float64Array, m: number, med: number, cap: number): nu
   for (let i = 0; i < m; i++) ss += Math.min(Math.abs(d[i] - med), cap) ** 2;
   return ss;
 }
+
+/**
+ * cappedSquares(d, m, med, cap) (its sum to squaresSum) and, in the same pass, differencesInWindow
+ * for lag k2 (> the lag of d): d[i] is read for the sum before the next lag's difference
+ * overwrites it. One loop with the second part under a test (code after a loop, compiled on the
+ * stack, left at it on every call: see windowBelow).
+ */
+function squaresAndNextDifferences(
+  e: ArrayLike<number>, d: Float64Array, m: number, med: number, cap: number, k2: number, lo: number, hi: number, near: Float64Array,
+): number {
+  const m2 = e.length - k2;
+  let ss = 0, c = 0, b = 0;
+  for (let i = 0; i < m; i++) {
+    ss += Math.min(Math.abs(d[i] - med), cap) ** 2;
+    if (i < m2) {
+      const x = e[i + k2] - e[i];
+      d[i] = x;
+      near[c] = x;
+      c += ((x >= lo) as unknown as number) & ((x <= hi) as unknown as number);
+      b += (x < lo) as unknown as number;
+    }
+  }
+  squaresSum = ss;
+  windowBelow = b;
+  return c;
+}
+
+/** squaresAndNextDifferences's sum. */
+let squaresSum = 0;

@@ -1,12 +1,18 @@
+/** ρ^k at each lag k: fitVariogramLine's x (a caller that fits the same lags and ρ again passes them in). */
+export function powersAtLags(lags: readonly number[], rho: number): number[] {
+  const logRho = rho > 0 ? Math.log(rho) : -Infinity;
+  return lags.map((k) => Math.exp(k * logRho));
+}
+
 /**
  * Weighted least squares of the white + AR(1) variogram γ(k) = A − B·ρ^k in (A, B) at one ρ
  * (A = σ_w² + σ_x², B = σ_x²), with 0 ≤ B ≤ A: where the free solution breaks that, no AR(1) part
  * (γ flat) or no white part (γ = B·(1 − ρ^k)). Unit weights give ordinary least squares.
  */
-export function fitVariogramLine(lags: readonly number[], gamma: readonly number[], w: readonly number[], rho: number): { ssr: number; A: number; B: number } {
-  const logRho = rho > 0 ? Math.log(rho) : -Infinity;
+export function fitVariogramLine(
+  lags: readonly number[], gamma: readonly number[], w: readonly number[], rho: number, x: readonly number[] = powersAtLags(lags, rho),
+): { ssr: number; A: number; B: number } {
   let s1 = 0, sx = 0, sxx = 0, sy = 0, sxy = 0;
-  const x = lags.map((k) => Math.exp(k * logRho));
   for (let q = 0; q < lags.length; q++) {
     s1 += w[q]; sx += w[q] * x[q]; sxx += w[q] * x[q] * x[q]; sy += w[q] * gamma[q]; sxy += w[q] * x[q] * gamma[q];
   }
