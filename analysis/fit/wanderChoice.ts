@@ -260,27 +260,23 @@ function dotWithColumn(jac: Float64Array, oa: number, r: Float64Array, N: number
 /**
  * The products of column a with each column c ≥ a (np columns of N rows in jac), into out[c]:
  * each summed on the first row and every GRAM_STRIDE-th row after it, times the stride (the last
- * of those rows times the rows left). Four columns a pass, each its own sum in row order, so
- * column a is read once for four products (the figures those of one column at a time).
+ * of those rows times the rows left, min(stride, N − i)). Four columns a pass, each its own sum in
+ * row order, so column a is read once for four products (the figures those of one column at a
+ * time). Code the engine may compile on the stack (inside a loop) while code after that loop has
+ * never run would leave the compiled code there on one call after another (no type feedback):
+ * hence one loop over the rows, the short last stride's weight picked inside it (a loop of its own
+ * ran only for some N), and the columns beyond the passes of four done before them.
  */
 export function stridedProductsWith(jac: Float64Array, a: number, np: number, N: number, out: Float64Array): void {
   const oa = a * N;
-  // rows 1, 1 + S, …: those with a full stride after them, then the last (if short)
-  const full = 1 + GRAM_STRIDE * (N - 1 - GRAM_STRIDE >= 0 ? Math.floor((N - 1 - GRAM_STRIDE) / GRAM_STRIDE) + 1 : 0);
-  let c = a;
-  for (; c + 4 <= np; c += 4) {
+  // the columns beyond the last pass of four first: nothing after the loop of passes
+  for (let c = np - ((np - a) % 4); c < np; c++) out[c] = stridedProduct(jac, oa, c * N, N);
+  for (let c = a; c + 4 <= np; c += 4) {
     const o0 = c * N, o1 = o0 + N, o2 = o1 + N, o3 = o2 + N;
     const x = jac[oa];
     let t0 = x * jac[o0], t1 = x * jac[o1], t2 = x * jac[o2], t3 = x * jac[o3];
-    for (let i = 1; i < full; i += GRAM_STRIDE) {
-      const u = jac[oa + i];
-      t0 += u * jac[o0 + i] * GRAM_STRIDE;
-      t1 += u * jac[o1 + i] * GRAM_STRIDE;
-      t2 += u * jac[o2 + i] * GRAM_STRIDE;
-      t3 += u * jac[o3 + i] * GRAM_STRIDE;
-    }
-    for (let i = full; i < N; i += GRAM_STRIDE) {
-      const u = jac[oa + i], w = N - i;
+    for (let i = 1; i < N; i += GRAM_STRIDE) {
+      const u = jac[oa + i], left = N - i, w = left < GRAM_STRIDE ? left : GRAM_STRIDE;
       t0 += u * jac[o0 + i] * w;
       t1 += u * jac[o1 + i] * w;
       t2 += u * jac[o2 + i] * w;
@@ -291,11 +287,17 @@ export function stridedProductsWith(jac: Float64Array, a: number, np: number, N:
     out[c + 2] = t2;
     out[c + 3] = t3;
   }
-  for (; c < np; c++) {
-    const oc = c * N;
-    let t = jac[oa] * jac[oc];
-    for (let i = 1; i < full; i += GRAM_STRIDE) t += jac[oa + i] * jac[oc + i] * GRAM_STRIDE;
-    for (let i = full; i < N; i += GRAM_STRIDE) t += jac[oa + i] * jac[oc + i] * (N - i);
-    out[c] = t;
+}
+
+/**
+ * One column's product of stridedProductsWith (the columns left over by the passes of four), in
+ * a function of its own, so its loop is compiled with its own type feedback.
+ */
+function stridedProduct(jac: Float64Array, oa: number, oc: number, N: number): number {
+  let t = jac[oa] * jac[oc];
+  for (let i = 1; i < N; i += GRAM_STRIDE) {
+    const left = N - i;
+    t += jac[oa + i] * jac[oc + i] * (left < GRAM_STRIDE ? left : GRAM_STRIDE);
   }
+  return t;
 }

@@ -13,8 +13,12 @@ export function plainDecimal(text: string, start: number, end: number): number {
   return scanDecimal(text, start, end, -1);
 }
 
-/** Where the last successful scanDecimal stopped: the separator's position, or end. */
-export const scanned = { end: 0 };
+/**
+ * Where the last successful scanDecimal stopped (the separator's position, or end), and the value
+ * scanDecimalBytesTo read. A double field is written in place: returned from a call the engine
+ * does not inline, a fractional number is boxed on the heap (one object per field of a trace row).
+ */
+export const scanned = { end: 0, value: NaN };
 
 /**
  * plainDecimal of the field that starts at `start` and runs to the first `sep` (a char code) or
@@ -75,6 +79,12 @@ const asciiDecoder = new TextDecoder();
  * for bit (a plain decimal is ASCII, so its bytes are its characters); the end in scanned.end.
  */
 export function scanDecimalBytes(bytes: Uint8Array, start: number, end: number, sep: number): number {
+  scanDecimalBytesTo(bytes, start, end, sep);
+  return scanned.value;
+}
+
+/** scanDecimalBytes with its value left in scanned.value (NaN when the field is not a plain decimal), nothing returned. */
+export function scanDecimalBytesTo(bytes: Uint8Array, start: number, end: number, sep: number): void {
   let i = start;
   let c = i < end ? bytes[i] : 0;
   const negative = c === 45; // '-'
@@ -94,7 +104,10 @@ export function scanDecimalBytes(bytes: Uint8Array, start: number, end: number, 
       c = ++i < end ? bytes[i] : 0;
     }
   }
-  if (digits === 0) return NaN;
+  if (digits === 0) {
+    scanned.value = NaN;
+    return;
+  }
   let exponent = 0;
   if (c === 101 || c === 69) { // 'e', 'E'
     c = ++i < end ? bytes[i] : 0;
@@ -106,16 +119,23 @@ export function scanDecimalBytes(bytes: Uint8Array, start: number, end: number, 
       expDigits++;
       c = ++i < end ? bytes[i] : 0;
     }
-    if (expDigits === 0) return NaN;
+    if (expDigits === 0) {
+      scanned.value = NaN;
+      return;
+    }
     if (minus) exponent = -exponent;
   }
-  if (i !== end && c !== sep) return NaN;
+  if (i !== end && c !== sep) {
+    scanned.value = NaN;
+    return;
+  }
   scanned.end = i;
   const e = exponent - fraction;
   if (digits <= 15 && e >= -22 && e <= 22) {
     const v = e < 0 ? mantissa / POW10[-e] : mantissa * POW10[e];
-    return negative ? -v : v;
+    scanned.value = negative ? -v : v;
+    return;
   }
   const v = Number(asciiDecoder.decode(bytes.subarray(start, i)));
-  return Number.isFinite(v) ? v : NaN;
+  scanned.value = Number.isFinite(v) ? v : NaN;
 }

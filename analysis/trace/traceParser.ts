@@ -1,4 +1,4 @@
-import { scanDecimal, scanDecimalBytes, scanned } from './plainDecimal';
+import { scanDecimal, scanDecimalBytesTo, scanned } from './plainDecimal';
 import { SampleColumn } from './sampleColumn';
 import { TraceFormatError } from './TraceFormatError';
 import type { RowsBlock } from './rowsBlock';
@@ -261,7 +261,8 @@ export class TraceParser {
           stop++;
         }
       } else {
-        const v = scanDecimalBytes(bytes, pos, end, sep);
+        scanDecimalBytesTo(bytes, pos, end, sep);
+        const v = scanned.value;
         if (v !== v) return false;
         stop = scanned.end;
         if (kind === KIND_TIME) {
@@ -302,82 +303,18 @@ export class TraceParser {
     const sep = this.separator === ',' ? 44 : 9;
     const kinds = this.kinds, nFields = kinds.length, columns = this.fieldColumns;
     const maxRows = this.limits.maxRows, layerLimit = this.limits.layerCount ?? Infinity;
-    let r = this.rowCount, prevTime = this.prevTime, maxLayer = this.maxLayer, timeStart = -1, timeEnd = -1;
     // Filled by a loop and refreshed in place after a growth, never rebuilt by map(): V8's
     // optimised map() makes an array of another element kind than the interpreter's, and reading
     // it then deoptimises this loop (a recompile for each chunk of a large file).
     const arrays: (Float64Array | Int32Array | null)[] = [];
     for (let j = 0; j < nFields; j++) arrays.push(columns[j]?.data ?? null);
-    let capacity = this.time.data.length;
-    let lineStart = start;
-    while (r < maxRows) {
-      const nl = bytes.indexOf(10, lineStart);
-      if (nl < 0 || nl >= end) break;
-      const stopAt = nl > lineStart && bytes[nl - 1] === 13 ? nl - 1 : nl;
-      if (r >= capacity) {
-        for (const c of columns) c?.grow();
-        for (let j = 0; j < nFields; j++) arrays[j] = columns[j]?.data ?? null;
-        capacity = this.time.data.length;
-      }
-      let pos = lineStart, ok = true, time = 0, tStart = 0, tEnd = 0, layerMax = maxLayer;
-      for (let j = 0; j < nFields; j++) {
-        const kind = kinds[j];
-        let stop = pos;
-        if (kind === KIND_IGNORE) {
-          while (stop < stopAt && bytes[stop] !== sep) {
-            if (bytes[stop] >= 0x80) break;
-            stop++;
-          }
-          if (stop < stopAt && bytes[stop] !== sep) {
-            ok = false;
-            break;
-          }
-        } else {
-          const v = scanDecimalBytes(bytes, pos, stopAt, sep);
-          if (v !== v) {
-            ok = false;
-            break;
-          }
-          stop = scanned.end;
-          if (kind === KIND_TIME) {
-            if (!(v > prevTime)) {
-              ok = false;
-              break;
-            }
-            time = v;
-            tStart = pos;
-            tEnd = stop;
-          } else if (kind === KIND_LAYER) {
-            if (!Number.isInteger(v) || v < 0 || v > layerLimit) {
-              ok = false;
-              break;
-            }
-            if (v > layerMax) layerMax = v;
-          } else if (kind === KIND_CHIP) {
-            if (!Number.isInteger(v) || v < 1) {
-              ok = false;
-              break;
-            }
-          } else if (kind === KIND_REFERENCE && !(v > 0)) {
-            ok = false;
-            break;
-          }
-          arrays[j]![r] = v;
-        }
-        if ((j === nFields - 1) !== (stop === stopAt)) {
-          ok = false;
-          break;
-        }
-        pos = stop + 1;
-      }
-      if (!ok) break;
-      prevTime = time;
-      maxLayer = layerMax;
-      timeStart = tStart;
-      timeEnd = tEnd;
-      r++;
-      lineStart = nl + 1;
-    }
+    rowState[0] = this.rowCount;
+    rowState[1] = this.prevTime;
+    rowState[2] = this.maxLayer;
+    rowState[3] = -1;
+    rowState[4] = -1;
+    const lineStart = readRows(bytes, start, end, sep, kinds, columns, arrays, this.time, maxRows, layerLimit);
+    const r = rowState[0], prevTime = rowState[1], maxLayer = rowState[2], timeStart = rowState[3], timeEnd = rowState[4];
     if (timeStart >= 0) {
       this.prevTimeSource = bytes;
       this.prevTimeFrom = timeStart;
@@ -525,4 +462,101 @@ export class TraceParser {
 function badNumberText(text: string, v: number): boolean {
   if (v === 0 && text.trim() === '') return true;
   return text.length >= 3 && Number.isInteger(v) && /^\s*[+-]?0[xob]/i.test(text);
+}
+
+/**
+ * rowsBytes' state after each row read by readRows: rowCount, prevTime, maxLayer, and where the
+ * last row's time field starts and ends (−1 before the first row).
+ */
+const rowState = new Float64Array(5);
+
+/**
+ * The loop of rowsBytes from lineStart, its state in rowState (updated row by row), returning
+ * where it stopped. A function of its own with nothing after the loop but the return: the engine
+ * compiles the loop on the stack while its first chunk is read, and code after the loop, never run
+ * by then, had no type feedback and threw that compiled code away at the end of chunk after chunk.
+ */
+function readRows(
+  bytes: Uint8Array, lineStart: number, end: number, sep: number, kinds: Int8Array,
+  columns: readonly (SampleColumn<Float64Array> | SampleColumn<Int32Array> | null)[],
+  arrays: (Float64Array | Int32Array | null)[], time0: SampleColumn<Float64Array>, maxRows: number, layerLimit: number,
+): number {
+  const nFields = kinds.length;
+  let r = rowState[0], prevTime = rowState[1], maxLayer = rowState[2], timeStart = rowState[3], timeEnd = rowState[4];
+  let capacity = time0.data.length;
+  while (r < maxRows) {
+    const nl = bytes.indexOf(10, lineStart);
+    if (nl < 0 || nl >= end) break;
+    const stopAt = nl > lineStart && bytes[nl - 1] === 13 ? nl - 1 : nl;
+    if (r >= capacity) {
+      for (const c of columns) c?.grow();
+      for (let j = 0; j < nFields; j++) arrays[j] = columns[j]?.data ?? null;
+      capacity = time0.data.length;
+    }
+    let pos = lineStart, ok = true, time = 0, tStart = 0, tEnd = 0, layerMax = maxLayer;
+    for (let j = 0; j < nFields; j++) {
+      const kind = kinds[j];
+      let stop = pos;
+      if (kind === KIND_IGNORE) {
+        while (stop < stopAt && bytes[stop] !== sep) {
+          if (bytes[stop] >= 0x80) break;
+          stop++;
+        }
+        if (stop < stopAt && bytes[stop] !== sep) {
+          ok = false;
+          break;
+        }
+      } else {
+        scanDecimalBytesTo(bytes, pos, stopAt, sep);
+        const v = scanned.value;
+        if (v !== v) {
+          ok = false;
+          break;
+        }
+        stop = scanned.end;
+        if (kind === KIND_TIME) {
+          if (!(v > prevTime)) {
+            ok = false;
+            break;
+          }
+          time = v;
+          tStart = pos;
+          tEnd = stop;
+        } else if (kind === KIND_LAYER) {
+          if (!Number.isInteger(v) || v < 0 || v > layerLimit) {
+            ok = false;
+            break;
+          }
+          if (v > layerMax) layerMax = v;
+        } else if (kind === KIND_CHIP) {
+          if (!Number.isInteger(v) || v < 1) {
+            ok = false;
+            break;
+          }
+        } else if (kind === KIND_REFERENCE && !(v > 0)) {
+          ok = false;
+          break;
+        }
+        arrays[j]![r] = v;
+      }
+      if ((j === nFields - 1) !== (stop === stopAt)) {
+        ok = false;
+        break;
+      }
+      pos = stop + 1;
+    }
+    if (!ok) break;
+    prevTime = time;
+    maxLayer = layerMax;
+    timeStart = tStart;
+    timeEnd = tEnd;
+    r++;
+    lineStart = nl + 1;
+    rowState[0] = r;
+    rowState[1] = prevTime;
+    rowState[2] = maxLayer;
+    rowState[3] = timeStart;
+    rowState[4] = timeEnd;
+  }
+  return lineStart;
 }
