@@ -19,8 +19,7 @@ export function traceWarnings(
     // by runs of one layer (a trace holds a few long ones), not a map update per sample
     for (let i = 0; i < n; ) {
       const l = layer[i];
-      let j = i + 1;
-      while (j < n && layer[j] === l) j++;
+      const j = runEnd(layer, n, i);
       if (l > 0) counts.set(l, (counts.get(l) ?? 0) + j - i);
       i = j;
     }
@@ -39,12 +38,11 @@ export function traceWarnings(
 
   if (n >= 3) {
     const steps = new Float64Array(n - 1);
-    for (let i = 1; i < n; i++) steps[i - 1] = timeS[i] - timeS[i - 1];
+    timeSteps(timeS, n, steps);
     const step = median(steps);
     const limit = options.gapFactor * step;
     let gaps = 0;
-    for (let i = 0; i < steps.length; i++) {
-      if (steps[i] <= limit) continue;
+    for (let i = nextAbove(steps, limit, 0); i >= 0; i = nextAbove(steps, limit, i + 1)) {
       gaps++;
       if (gaps <= MAX_GAP_WARNINGS) {
         out.push({
@@ -60,12 +58,7 @@ export function traceWarnings(
   }
 
   if (n > 0) {
-    let max = -Infinity;
-    let min = Infinity;
-    for (let i = 0; i < n; i++) {
-      if (signal[i] > max) max = signal[i];
-      if (signal[i] < min) min = signal[i];
-    }
+    const max = largest(signal, n), min = smallest(signal, n);
     if (max > min) {
       saturation(signal, n, max, 'maximum', out, lineOf);
       saturation(signal, n, min, 'minimum', out, lineOf);
@@ -85,19 +78,14 @@ function saturation(
   let runs = 0;
   let samples = 0;
   let first = -1;
-  for (let i = 0; i < n; ) {
-    if (signal[i] !== level) {
-      i++;
-      continue;
-    }
-    let j = i;
-    while (j < n && signal[j] === level) j++;
+  for (let i = nextAt(signal, n, level, 0); i >= 0; ) {
+    const j = runEnd(signal, n, i);
     if (j - i >= SATURATION_RUN) {
       runs++;
       samples += j - i;
       if (first < 0) first = i;
     }
-    i = j;
+    i = nextAt(signal, n, level, j);
   }
   if (runs === 0) return;
   out.push({
@@ -111,4 +99,45 @@ function saturation(
 
 function fmt(x: number): string {
   return Number(x.toPrecision(4)).toString();
+}
+
+// The long loops over the samples sit in small functions with nothing after the loop but the
+// return: the engine compiles such a loop on the stack while it runs (traceWarnings runs once), and
+// code after it, never run by then, had no type feedback and threw that compiled code away.
+
+/** The end of the run of values equal to a[i] that starts at i. */
+function runEnd(a: ArrayLike<number>, n: number, i: number): number {
+  const v = a[i];
+  let j = i + 1;
+  while (j < n && a[j] === v) j++;
+  return j;
+}
+
+/** steps[i − 1] = timeS[i] − timeS[i − 1] for i in [1, n). */
+function timeSteps(timeS: ArrayLike<number>, n: number, steps: Float64Array): void {
+  for (let i = 1; i < n; i++) steps[i - 1] = timeS[i] - timeS[i - 1];
+}
+
+/** The first i ≥ from whose a[i] is not ≤ limit (a NaN included), or −1. */
+function nextAbove(a: Float64Array, limit: number, from: number): number {
+  for (let i = from; i < a.length; i++) if (!(a[i] <= limit)) return i;
+  return -1;
+}
+
+/** The first i in [from, n) with a[i] === level, or −1. */
+function nextAt(a: Float64Array, n: number, level: number, from: number): number {
+  for (let i = from; i < n; i++) if (a[i] === level) return i;
+  return -1;
+}
+
+function largest(a: Float64Array, n: number): number {
+  let max = -Infinity;
+  for (let i = 0; i < n; i++) if (a[i] > max) max = a[i];
+  return max;
+}
+
+function smallest(a: Float64Array, n: number): number {
+  let min = Infinity;
+  for (let i = 0; i < n; i++) if (a[i] < min) min = a[i];
+  return min;
 }

@@ -87,14 +87,25 @@ function assertFinite(timeS: ArrayLike<number>, y: ArrayLike<number>): void {
   }
 }
 
+/**
+ * The lowest and highest of ys, each from a loop of its own with nothing after it but the
+ * return: an object built after the loop, with no type feedback when the engine compiled the
+ * loop on the stack, left that compiled code on call after call (one per layer).
+ */
 function extent(ys: Float64Array): { lo: number; hi: number } {
+  return { lo: lowest(ys), hi: highest(ys) };
+}
+
+function lowest(ys: Float64Array): number {
   let lo = Infinity;
+  for (let i = 0; i < ys.length; i++) lo = Math.min(lo, ys[i]);
+  return lo;
+}
+
+function highest(ys: Float64Array): number {
   let hi = -Infinity;
-  for (let i = 0; i < ys.length; i++) {
-    lo = Math.min(lo, ys[i]);
-    hi = Math.max(hi, ys[i]);
-  }
-  return { lo, hi };
+  for (let i = 0; i < ys.length; i++) hi = Math.max(hi, ys[i]);
+  return hi;
 }
 
 type Pivot = { index: number; kind: 'max' | 'min' };
@@ -205,8 +216,7 @@ function refineAtEnd(
   const sign = kind === 'max' ? 1 : -1;
   // one-sided, so a wider fit than refine() uses: samples within 3 × drop of the extreme
   const level = sign * ys[k] - 3 * drop;
-  let a = k;
-  while (a > 0 && k - a < 2 * maxHalf && (sign * ys[a - 1] >= level || (a > 1 && sign * ys[a - 2] >= level))) a--;
+  const a = fitStart(ys, k, sign, level, maxHalf);
   if (n - a < 5) return null;
   const t0 = timeS[n - 1];
   const span = t0 - timeS[a];
@@ -217,6 +227,17 @@ function refineAtEnd(
   // a poor parabola over a long flat stretch can put its vertex far from the extreme sample
   if (Math.abs(t0 + u * span - timeS[k]) > 0.5 * span) return null;
   return { index: k, timeS: t0 + u * span, value: c[0] + c[1] * u + c[2] * u * u, kind, confirmed: false };
+}
+
+/**
+ * refineAtEnd's first sample: back from k while the samples (or the one before) stay within the
+ * level, at most 2·maxHalf. A function of its own with nothing after the loop: code after it, with
+ * no type feedback when the engine compiled the loop on the stack, left that code call after call.
+ */
+function fitStart(ys: Float64Array, k: number, sign: number, level: number, maxHalf: number): number {
+  let a = k;
+  while (a > 0 && k - a < 2 * maxHalf && (sign * ys[a - 1] >= level || (a > 1 && sign * ys[a - 2] >= level))) a--;
+  return a;
 }
 
 function nearestIndex(timeS: ArrayLike<number>, t: number, a: number, b: number): number {
