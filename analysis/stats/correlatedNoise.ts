@@ -1,5 +1,5 @@
 import { pooledGamma, robustVariogram, variogramSums, type VariogramSums } from './robustVariogram';
-import { fitVariogramLine, powersAtLags } from './variogramLine';
+import { fitVariogramLineInto, powersAtLags } from './variogramLine';
 
 /**
  * How much correlated noise inflates the variance of a least-squares estimate over white noise
@@ -105,9 +105,11 @@ function fitVariogram(lags: readonly number[], gamma: readonly number[]): Ar1Plu
   const rhoMax = Math.min(0.995, 0.3 ** (1 / lags[lags.length - 1]));
   const unit = lags.map(() => 1);
   const powers = gridPowers(lags, rhoMax);
+  const fit = new Float64Array(3);
   for (let g = 0; g <= 200; g++) {
     const rho = (g / 200) * rhoMax;
-    const { ssr, A, B } = fitVariogramLine(lags, gamma, unit, rho, powers[g]);
+    fitVariogramLineInto(lags, gamma, unit, rho, powers[g], fit);
+    const ssr = fit[0], A = fit[1], B = fit[2];
     if (ssr < best.ssr) best = { ssr, whiteVar: Math.max(0, A - B), ar1Var: B, rho };
   }
   const { whiteVar, ar1Var, rho } = best;

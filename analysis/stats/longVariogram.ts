@@ -1,5 +1,5 @@
 import { type Ar1PlusWhite } from './correlatedNoise';
-import { fitVariogramLine, powersAtLags } from './variogramLine';
+import { fitVariogramLineInto, powersAtLags } from './variogramLine';
 
 /**
  * The semivariogram γ(k) = ½·E(e_{i+k} − e_i)² of a noise, pooled over stretches of different
@@ -90,12 +90,13 @@ export function fitLongVariogram(v: LongVariogram): Ar1PlusWhite | null {
   let best = { ssr: Infinity, A: gamma[0], B: 0, rho: 0 };
   // ρ^k at each ρ of the grid: the same in every pass
   const powers = grid.map((rho) => powersAtLags(lags, rho));
+  const fit = new Float64Array(3);
   for (let pass = 0; pass < 3; pass++) {
     const w = model.map((m, q) => (m > 0 ? count[q] / (m * m) : 0));
     best = { ssr: Infinity, A: gamma[0], B: 0, rho: 0 };
     for (const [g, rho] of grid.entries()) {
-      const fit = fitVariogramLine(lags, gamma, w, rho, powers[g]);
-      if (fit.ssr < best.ssr) best = { ...fit, rho };
+      fitVariogramLineInto(lags, gamma, w, rho, powers[g], fit);
+      if (fit[0] < best.ssr) best = { ssr: fit[0], A: fit[1], B: fit[2], rho };
     }
     const { A, B, rho } = best;
     const next = lags.map((k) => A - B * rho ** k);

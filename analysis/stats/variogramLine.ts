@@ -12,6 +12,18 @@ export function powersAtLags(lags: readonly number[], rho: number): number[] {
 export function fitVariogramLine(
   lags: readonly number[], gamma: readonly number[], w: readonly number[], rho: number, x: readonly number[] = powersAtLags(lags, rho),
 ): { ssr: number; A: number; B: number } {
+  const out = new Float64Array(3);
+  fitVariogramLineInto(lags, gamma, w, rho, x, out);
+  return { ssr: out[0], A: out[1], B: out[2] };
+}
+
+/**
+ * fitVariogramLine with (ssr, A, B) written into out[0..2]: for a search over a grid of ρ, which
+ * would otherwise make an object (and its numbers) on the heap at every ρ of every fit.
+ */
+export function fitVariogramLineInto(
+  lags: readonly number[], gamma: readonly number[], w: readonly number[], rho: number, x: readonly number[], out: Float64Array,
+): void {
   let s1 = 0, sx = 0, sxx = 0, sy = 0, sxy = 0;
   for (let q = 0; q < lags.length; q++) {
     s1 += w[q]; sx += w[q] * x[q]; sxx += w[q] * x[q] * x[q]; sy += w[q] * gamma[q]; sxy += w[q] * x[q] * gamma[q];
@@ -40,5 +52,7 @@ export function fitVariogramLine(
   }
   let ssr = 0;
   for (let q = 0; q < lags.length; q++) ssr += w[q] * (gamma[q] - (A - B * x[q])) ** 2;
-  return { ssr, A, B };
+  out[0] = ssr;
+  out[1] = A;
+  out[2] = B;
 }
