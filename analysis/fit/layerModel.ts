@@ -198,15 +198,27 @@ function evaluateSameShape(
   for (let j = 0; j < layers.length; j++) values.push(decodeLayer(layers[j], p, layout.offsets[j], layout));
   let pos = 0;
   for (let j = 0; j < fromLayer; j++) pos += layers[j].tauS.length;
+  // layerAt of the layers below at one wavelength, kept while the next layers are monitored at it
+  // (read only: the stepped layer's entry is made afresh)
+  const at: LayerAt[] = [];
+  let atWavelength = NaN;
   for (let j = fromLayer; j < layers.length; j++) {
     const layer = layers[j];
     const v = values[j];
     const below: LayerAt[] = [];
     for (let i = 0; i < fixedBelow.length; i++) below.push(fixedBelow[i]);
+    const wavelengthNm = layer.optics.wavelengthNm;
+    if (wavelengthNm !== atWavelength) {
+      at.length = 0;
+      atWavelength = wavelengthNm;
+    }
     for (let i = 0; i < j; i++) {
-      const b = layerAt(layers[i], values[i], layer.optics.wavelengthNm);
-      if (shift && shift.layer === i) b.thicknessNm += shift.deltaNm;
-      below.push(b);
+      if (i === at.length) at.push(layerAt(layers[i], values[i], wavelengthNm));
+      if (shift && shift.layer === i) {
+        const b = layerAt(layers[i], values[i], wavelengthNm);
+        b.thicknessNm += shift.deltaNm;
+        below.push(b);
+      } else below.push(at[i]);
     }
     const growing = fromNK(v.index, layer.extinction);
     // The layer's fields read once, not per sample (the layers' objects differ in shape).
