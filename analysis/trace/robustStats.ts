@@ -1,3 +1,5 @@
+import { largest } from './extremes';
+
 /** Median of values (copied; the input is not reordered). NaN for an empty input. */
 export function median(values: ArrayLike<number>): number {
   return values.length === 0 ? NaN : medianInPlace(Float64Array.from(values));
@@ -81,13 +83,6 @@ function gatherWindow(a: Float64Array, lo: number, hi: number, out: Float64Array
   }
   gathered = c;
   return b;
-}
-
-/** Largest of a[0, end). */
-function largest(a: Float64Array, end: number): number {
-  let v = -Infinity;
-  for (let i = 0; i < end; i++) if (a[i] > v) v = a[i];
-  return v;
 }
 
 /**

@@ -1,3 +1,4 @@
+import { largest, smallest } from './extremes';
 import { median } from './robustStats';
 import type { TraceData, TraceWarning } from './types';
 
@@ -130,14 +131,3 @@ function nextAt(a: Float64Array, n: number, level: number, from: number): number
   return -1;
 }
 
-function largest(a: Float64Array, n: number): number {
-  let max = -Infinity;
-  for (let i = 0; i < n; i++) if (a[i] > max) max = a[i];
-  return max;
-}
-
-function smallest(a: Float64Array, n: number): number {
-  let min = Infinity;
-  for (let i = 0; i < n; i++) if (a[i] < min) min = a[i];
-  return min;
-}

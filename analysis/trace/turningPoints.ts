@@ -1,3 +1,4 @@
+import { largest, smallest } from './extremes';
 import { fitPolynomial } from './polyFit';
 import { noiseSigma } from './robustStats';
 import { savitzkyGolay, savitzkyGolayCoefficients } from './savitzkyGolay';
@@ -93,20 +94,9 @@ function assertFinite(timeS: ArrayLike<number>, y: ArrayLike<number>): void {
  * loop on the stack, left that compiled code on call after call (one per layer).
  */
 function extent(ys: Float64Array): { lo: number; hi: number } {
-  return { lo: lowest(ys), hi: highest(ys) };
+  return { lo: smallest(ys), hi: largest(ys) };
 }
 
-function lowest(ys: Float64Array): number {
-  let lo = Infinity;
-  for (let i = 0; i < ys.length; i++) lo = Math.min(lo, ys[i]);
-  return lo;
-}
-
-function highest(ys: Float64Array): number {
-  let hi = -Infinity;
-  for (let i = 0; i < ys.length; i++) hi = Math.max(hi, ys[i]);
-  return hi;
-}
 
 type Pivot = { index: number; kind: 'max' | 'min' };
 
