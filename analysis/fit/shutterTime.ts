@@ -36,12 +36,9 @@ export class ShutterTime {
    * un-grow a film), its mean and spread by marginal maximum likelihood (truncatedPopulation);
    * 'mixture', that population over its (μ, τ) posterior (populationMixture), each layer's prior
    * a mixture of normals each cut at 0 on its own; 'normal', the uncut normal by
-   * DerSimonian–Laird above. (`true`/`false` for 'truncated'/'normal'.)
+   * DerSimonian–Laird above.
    */
-  readonly model: ShutterTimeModel;
-  constructor(model: ShutterTimeModel | boolean = 'normal', private readonly maxS = 2) {
-    this.model = model === true ? 'truncated' : model === false ? 'normal' : model;
-  }
+  constructor(readonly model: ShutterTimeModel = 'normal', private readonly maxS = 2) {}
 
   /** The population is cut at 0 ('truncated' or 'mixture'). */
   get truncated(): boolean {

@@ -79,7 +79,7 @@ describe('the growth counted from an estimated thickness', () => {
 
 describe("the run's shutter time", () => {
   it('needs three other layers, then predicts the mean with the spread and the mean\'s σ', () => {
-    const t = new ShutterTime(false);
+    const t = new ShutterTime('normal');
     t.add(1, 0.4, 0.01);
     t.add(2, 0.6, 0.01);
     expect(t.predict()).toBeNull();
@@ -96,7 +96,7 @@ describe("the run's shutter time", () => {
   });
 
   it('with no spread beyond the layers\' own σ, the prediction is the mean with σ/√m', () => {
-    const t = new ShutterTime(false);
+    const t = new ShutterTime('normal');
     for (const l of [1, 2, 3, 4]) t.add(l, 0.5, 0.05);
     expect(t.predict()!.sigmaS).toBeCloseTo(0.05 / 2, 12);
     t.remove(4);
@@ -105,7 +105,7 @@ describe("the run's shutter time", () => {
 
   it('weighs each layer by its own σ: loose readings (slow layers) do not pull the prediction', () => {
     // Four layers read the time at ±0.1 s, three (slow, high-index layers) at ±2 s and far off.
-    const t = new ShutterTime(false);
+    const t = new ShutterTime('normal');
     [0.05, -0.05, 0.1, -0.1].forEach((x, i) => t.add(i + 1, x, 0.1));
     [2.5, 2, -1].forEach((x, i) => t.add(i + 5, x, 2));
     const p = t.predict()!;
@@ -123,7 +123,7 @@ describe("the run's shutter time", () => {
 
   it('a spread between equally good readings beyond their σ is found (DerSimonian–Laird) and enters the prediction', () => {
     // Two groups of readings, each at σ 0.05, at 0.2 and 0.8: the times themselves scatter.
-    const t = new ShutterTime(false);
+    const t = new ShutterTime('normal');
     [0.2, 0.8, 0.2, 0.8, 0.2, 0.8].forEach((x, i) => t.add(i + 1, x, 0.05));
     const p = t.predict()!;
     // equal σ: τ² = s² − σ² with s² = 0.09·6/5 = 0.108 (Efron–Morris's moment estimate)
@@ -133,7 +133,7 @@ describe("the run's shutter time", () => {
 
   it('recovers the spread of the times from noisy estimates (the normal hierarchical model)', () => {
     // True times N(0.4, 0.1²), each seen with σ 0.05: τ² = s² − σ² estimates 0.1² (moment estimate; Efron and Morris 1975).
-    const g = gaussian(5), t = new ShutterTime(false);
+    const g = gaussian(5), t = new ShutterTime('normal');
     for (let l = 1; l <= 400; l++) t.add(l, 0.4 + 0.1 * g() + 0.05 * g(), 0.05);
     const p = t.predict()!;
     expect(p.timeS).toBeCloseTo(0.4, 1);
