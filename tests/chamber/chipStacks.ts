@@ -1,3 +1,4 @@
+import { type BandNode } from './band';
 import { type ChamberDesign, dispersion } from './design';
 import { identity, layerMatrix, mul, response, stackMatrices, type FilmLayer, type Mat, type Media } from './thinFilm';
 
@@ -39,6 +40,14 @@ export class ChipStacks {
     const m = this.matrices(chip, wavelengthNm);
     const r = response(m.forward, m.reverse, this.media(wavelengthNm));
     return mode === 'R' ? r.R : r.T;
+  }
+
+  /** The chip's response as the detector reads it over the monitor's band (the slit-weighted mean). */
+  bandLevel(chip: number, band: readonly BandNode[], mode: 'R' | 'T'): number {
+    if (band.length === 1) return this.level(chip, band[0].wavelengthNm, mode);
+    let s = 0;
+    for (const b of band) s += b.weight * this.level(chip, b.wavelengthNm, mode);
+    return s;
   }
 
   add(chip: number, slabs: Sublayer[]): void {

@@ -10,6 +10,19 @@ interface CurveInput {
   n: number;
   k: number;
   wavelengthNm: number;
+  /** The monitor's band (option bandwidthNm): the curve is the weighted sum over these in place of the one wavelength above. */
+  band?: (Omit<CurveInput, 'mode' | 'band'> & { weight: number })[];
+}
+
+/** The curve the detector reads while the layer grows: at the one wavelength, or averaged over the band. */
+function curve(c: CurveInput, dNm: ArrayLike<number>): Float64Array {
+  if (!c.band) return growingCurve(c.below, c.media, c.mode, c.n, c.k, c.wavelengthNm, dNm);
+  const out = new Float64Array(dNm.length);
+  for (const b of c.band) {
+    const s = growingCurve(b.below, b.media, c.mode, b.n, b.k, b.wavelengthNm, dNm);
+    for (let i = 0; i < out.length; i++) out[i] += b.weight * s[i];
+  }
+  return out;
 }
 
 function grid(dMax: number): Float64Array {
@@ -18,11 +31,12 @@ function grid(dMax: number): Float64Array {
 
 /**
  * Turning-point cut: the thickness of the true curve's extremum nearest the design thickness
- * (the controller cuts on the turning point it sees, not on the design's).
+ * (the controller cuts on the turning point it sees, not on the design's; with a band, on the
+ * band-averaged curve the detector reads).
  */
 export function turningPointThickness(truth: CurveInput, designNm: number): number {
   const d = grid(1.6 * designNm);
-  const s = growingCurve(truth.below, truth.media, truth.mode, truth.n, truth.k, truth.wavelengthNm, d);
+  const s = curve(truth, d);
   let best = designNm, bestGap = Infinity;
   for (let i = 1; i < STEPS; i++) {
     // a sign change of the slope; equal neighbours on either side of a differing point are an
@@ -43,13 +57,15 @@ export function turningPointThickness(truth: CurveInput, designNm: number): numb
 /**
  * Level cut: the trigger is the design's modelled signal at the design thickness (nominal stack
  * below); the true curve reaches it on the branch of the same slope nearest the design thickness.
+ * With a band the controller's model stays at the one wavelength (as the analysis's does) while
+ * the true curve is the band-averaged reading.
  */
 export function levelCutThickness(design: CurveInput, truth: CurveInput, designNm: number): { thicknessNm: number; triggerLevel: number } {
   const eps = designNm * 1e-4;
-  const [lo, at, hi] = growingCurve(design.below, design.media, design.mode, design.n, design.k, design.wavelengthNm, [designNm - eps, designNm, designNm + eps]);
+  const [lo, at, hi] = curve(design, [designNm - eps, designNm, designNm + eps]);
   const slope = Math.sign(hi - lo);
   const d = grid(1.6 * designNm);
-  const s = growingCurve(truth.below, truth.media, truth.mode, truth.n, truth.k, truth.wavelengthNm, d);
+  const s = curve(truth, d);
   let best = designNm, bestGap = Infinity;
   for (let i = 1; i <= STEPS; i++) {
     const a = s[i - 1] - at, b = s[i] - at;

@@ -27,6 +27,17 @@ export interface ChamberOptions {
    */
   reference?: { gain: number; whiteNoise: number };
 
+  /**
+   * The monitor's spectral bandwidth: FWHM (nm) of a triangular slit function (equal entrance and
+   * exit slits) centred on the monitor wavelength, triangular in wavelength. Each sample is the
+   * slit-weighted mean of R or T over the band, the lamp's spectrum and the detector's response
+   * taken as flat across it (band.ts: Gauss–Legendre, 3 nodes on each half). Turning-point cuts
+   * are made on that averaged curve; level cuts' trigger stays the design's single-wavelength
+   * value. The truth (thickness, index at the monitor wavelength) is unchanged by it.
+   * @default none (the monitor wavelength alone)
+   */
+  bandwidthNm?: number;
+
   /** White noise σ, fraction of full scale. @default 0.0005 */
   whiteNoise?: number;
   /** Correlated noise (AR(1), exact discretisation of Ornstein–Uhlenbeck): σ as a fraction of full scale, correlation time. @default none */

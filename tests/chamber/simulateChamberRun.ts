@@ -1,3 +1,4 @@
+import { monitorBand, type BandNode } from './band';
 import { ChipStacks, type Sublayer } from './chipStacks';
 import { levelCutThickness, turningPointThickness } from './cutPlan';
 import { type ChamberDesign, designThicknessNm, dispersion } from './design';
@@ -51,7 +52,7 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
   const layers: LayerTruth[] = [];
   const chips: ChipTruth[] = [];
   const designOnChip = new Map<number, { material: string; thicknessNm: number }[]>();
-  let prev: { chip: number; wavelengthNm: number; mode: 'R' | 'T' } | null = null;
+  let prev: { chip: number; band: BandNode[]; mode: 'R' | 'T' } | null = null;
 
   for (const [li, dl] of design.layers.entries()) {
     const layerNo = li + 1;
@@ -59,22 +60,24 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
     const material = dl.material;
     const dDesign = designThicknessNm(design, dl);
     const media = stacks.media(wl);
+    // the wavelengths the detector averages over (option bandwidthNm; the monitor wavelength alone by default)
+    const band = monitorBand(wl, o.bandwidthNm);
     if (!prev || prev.chip !== chip) {
       if (!prev && o.darkS > 0) hold(o.darkS, () => 0, chip, false);
       if (prev && o.chipChange) {
-        const old = stacks.level(prev.chip, wl, mode);
-        const bare = stacks.level(chip, wl, mode);
+        const old = stacks.bandLevel(prev.chip, band, mode);
+        const bare = stacks.bandLevel(chip, band, mode);
         hold(rngTiming.between(...o.chipChange.oldLevelS), () => old, chip);
         // the holder turns: the old chip leaves the beam, nothing, then the new chip arrives
         hold(rngTiming.between(...o.chipChange.darkS), (s) => (s < 0.3 ? old * (1 - s / 0.3) : s > 0.7 ? (bare * (s - 0.7)) / 0.3 : 0), chip);
       }
       chips.push({ chip, gain: NaN, offset: NaN, bareFromS: tNow() });
-      hold(o.bareChipS, () => stacks.level(chip, wl, mode), chip);
+      hold(o.bareChipS, () => stacks.bandLevel(chip, band, mode), chip);
     } else {
-      const level = stacks.level(chip, wl, mode);
+      const level = stacks.bandLevel(chip, band, mode);
       hold(o.settleS, () => level, chip);
     }
-    prev = { chip, wavelengthNm: wl, mode };
+    prev = { chip, band, mode };
 
     const startS = tNow();
 
@@ -91,8 +94,17 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
       const nk = dispersion(design.materials[l.material], wl);
       return { n: nk.n, k: nk.k, thicknessNm: l.thicknessNm };
     });
+    // per wavelength of the band: the stack below, the media, the growing film's index (its
+    // deviation from the material's dispersion the same at every wavelength, as for the slabs)
+    const channels = band.length === 1 ? null : band.map((b) => {
+      const nk = dispersion(design.materials[material], b.wavelengthNm);
+      return { ...b, media: stacks.media(b.wavelengthNm), below: stacks.matrices(chip, b.wavelengthNm), dn: nk.n - nominal.n, k: nk.k, G: identity(), Gr: identity() };
+    });
     let dCut: number;
-    const truthCurve = { below, media, mode, n: base, k: nominal.k, wavelengthNm: wl };
+    const truthCurve = {
+      below, media, mode, n: base, k: nominal.k, wavelengthNm: wl,
+      band: channels?.map((c) => ({ below: c.below, media: c.media, n: base + c.dn, k: c.k, wavelengthNm: c.wavelengthNm, weight: c.weight })),
+    };
     if (dl.monitor.cut === 'turning-point') {
       const pct = Math.max(0, o.turningPointOvershoot.meanPct + o.turningPointOvershoot.sigmaPct * rngLayer.gauss());
       dCut = turningPointThickness(truthCurve, dDesign) * (1 + pct / 100);
@@ -117,9 +129,17 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
     const grow = (dd: number) => {
       if (dd <= 0) return;
       const n = indexAt((d + dd / 2) / dCut);
-      layerMatrix(n, nominal.k, dd, wl, S);
-      G.set(mul(S, G, tmp));
-      Gr.set(mul(Gr, S, tmp));
+      if (channels) {
+        for (const c of channels) {
+          layerMatrix(n + c.dn, c.k, dd, c.wavelengthNm, S);
+          c.G.set(mul(S, c.G, tmp));
+          c.Gr.set(mul(c.Gr, S, tmp));
+        }
+      } else {
+        layerMatrix(n, nominal.k, dd, wl, S);
+        G.set(mul(S, G, tmp));
+        Gr.set(mul(Gr, S, tmp));
+      }
       d += dd;
       nd += n * dd;
       slabD += dd;
@@ -133,6 +153,17 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
       slabND = 0;
     };
     const now = () => {
+      if (channels) {
+        // the detector reads the slit-weighted mean over the band (lamp and detector flat across it)
+        let s = 0;
+        for (const c of channels) {
+          mul(c.G, c.below.forward, F);
+          mul(c.below.reverse, c.Gr, R);
+          const r = response(F, R, c.media);
+          s += c.weight * (mode === 'R' ? r.R : r.T);
+        }
+        return s;
+      }
       mul(G, below.forward, F);
       mul(below.reverse, Gr, R);
       const r = response(F, R, media);
@@ -184,7 +215,7 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
     });
   }
   if (prev) {
-    const level = stacks.level(prev.chip, prev.wavelengthNm, prev.mode);
+    const level = stacks.bandLevel(prev.chip, prev.band, prev.mode);
     hold(o.settleS, () => level, prev.chip);
   }
   return {
