@@ -1,5 +1,6 @@
 import { type Design, type DesignLayer } from '../design';
 import { indexAt } from '../materials';
+import { NOMINAL_INDEX_SIGMA } from '../stats';
 import { type TraceData } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { type ChipStart } from './chipCalibrations';
@@ -101,7 +102,7 @@ export function fitOffsets(
       let memo: ReturnType<NonNullable<ChipStart['gainDrift']>> | undefined;
       return () => {
         if (memo !== undefined) return memo;
-        const drifted = fitOne(design, trace, order, samplesByLayer, f.start, PROBE_DRIFT_PER_S);
+        const drifted = fitOne(design, trace, order, samplesByLayer, f.start, PROBE_DRIFT_PER_S, false);
         const moved = drifted ? offset + share * (drifted.offset - fit.offset) : offset;
         memo = drifted && Number.isFinite(drifted.gain)
           ? { offsetPerDrift: (moved - offset) / PROBE_DRIFT_PER_S, gainPerDrift: (gainOf(drifted, moved) - gainOf(fit, offset)) / PROBE_DRIFT_PER_S }
@@ -168,38 +169,78 @@ export function pool(fits: readonly Pick<OffsetFit, 'offset' | 'sigma'>[]): { of
  */
 const PROBE_DRIFT_PER_S = 1e-6;
 
-/** `driftPerS`: the layers' gain drifting so from the chip's first layer start (the bare reading's time). */
-function fitOne(design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>, start: ChipStart, driftPerS = 0): OffsetFit | null {
+/** The held indices' step in the offset fit's σ, as a fraction of their σ. */
+const HELD_STEP = 0.25;
+
+/**
+ * `driftPerS`: the layers' gain drifting so from the chip's first layer start (the bare reading's time).
+ * `heldSigma`: whether the thin layers' held indices carry their σ into the offset's (below).
+ */
+function fitOne(
+  design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>, start: ChipStart, driftPerS = 0,
+  heldSigma = true,
+): OffsetFit | null {
   const cal = start.calibration;
   const own = order.filter((l) => samplesByLayer.get(l.layer)!.chip === cal.chip && samplesByLayer.get(l.layer)!.tauS.length >= 20).slice(0, OFFSET_FIT_LAYERS[start.mode]);
   if (own.length === 0 || cal.bareLevel === null) return null;
-  const layers = own.map((dl) => {
-    const s = samplesByLayer.get(dl.layer)!;
-    const data = offsetFitData(design, trace, dl, s);
-    return driftPerS !== 0 ? { ...data, chipTimeS: s.startTimeS - start.startS, gainDriftPerS: driftPerS } : data;
-  });
-  // The gain free under the bare reading's prior (σ_B = gainSigma·M₀): where the layers pin the
-  // gain down, the offset takes up the bare reading's own error, and the profile's σ carries it.
-  return fitChipOffset({
-    layers, bareLevel: cal.bareLevel, modelledBare: start.modelledBare, startOffset: cal.offset,
-    rateGuess: own.map((dl, j) => dl.thicknessNm / Math.max(layers[j].durationS, 1e-9)), bareSigma: cal.gainSigma * start.modelledBare,
-  });
+  const profileAt = (shift: ReadonlyMap<string, number>, startOffset: number): OffsetFit => {
+    const layers = own.map((dl) => {
+      const s = samplesByLayer.get(dl.layer)!;
+      const data = offsetFitData(design, trace, dl, s, shift.get(dl.material) ?? 0);
+      return driftPerS !== 0 ? { ...data, chipTimeS: s.startTimeS - start.startS, gainDriftPerS: driftPerS } : data;
+    });
+    // The gain free under the bare reading's prior (σ_B = gainSigma·M₀): where the layers pin the
+    // gain down, the offset takes up the bare reading's own error, and the profile's σ carries it.
+    return fitChipOffset({
+      layers, bareLevel: cal.bareLevel!, modelledBare: start.modelledBare, startOffset,
+      rateGuess: own.map((dl, j) => dl.thicknessNm / Math.max(layers[j].durationS, 1e-9)), bareSigma: cal.gainSigma * start.modelledBare,
+    });
+  };
+  const fit = profileAt(new Map(), cal.offset);
+  if (!heldSigma || !Number.isFinite(fit.sigma)) return fit;
+  // A thin layer's index is held at its material's nominal, which no layer of the run has yet
+  // told (σ NOMINAL_INDEX_SIGMA about it, as the analysis holds one where no layer tells:
+  // stats/indexDrift.ts); where the chip's layers trade the offset against the indices, the
+  // profile's σ leaves that out: the white-noise BBAR (H 0.01 below its nominal, its 0.22-QWOT
+  // layer 1 held) took +1.0 ± 0.16 % of full scale where the simulator has none, its indices then
+  // 0.004–0.006 off. Each material's held indices moved together by their σ (a material's index
+  // is off alike in its layers), the offset profiled again from the one found with them a quarter
+  // σ off (a whole σ ran the profile to its search's edge), and four times the move carried into
+  // its σ to first order, the materials taken as independent.
+  const materials = [...new Set(own.filter((dl) => isThin(design, dl)).map((dl) => dl.material))];
+  let variance = 0;
+  for (const m of materials) {
+    const moved = profileAt(new Map([[m, HELD_STEP * NOMINAL_INDEX_SIGMA]]), fit.offset);
+    variance += Number.isFinite(moved.sigma) ? ((moved.offset - fit.offset) / HELD_STEP) ** 2 : Infinity;
+  }
+  // (the gain moves with the offset along the profile: its σ takes the same share)
+  const held = Math.sqrt(variance);
+  return { ...fit, sigma: Math.hypot(fit.sigma, held), gainSigma: Math.hypot(fit.gainSigma, fit.gainSlope * held) };
+}
+
+/** Below half a quarter-wave at the monitor wavelength: the offset fit holds its index. */
+function isThin(design: Design, dl: DesignLayer): boolean {
+  const wl = dl.monitor.wavelengthNm;
+  return (4 * indexAt(design.materials[dl.material], wl).re * dl.thicknessNm) / wl < 0.5;
 }
 
 const fmt = (x: number) => (100 * x).toFixed(2);
 
-/** One layer's samples (at most OFFSET_FIT_POINTS) for the offset fit: index free above half a quarter-wave, no rate drift. */
-function offsetFitData(design: Design, trace: TraceData, dl: DesignLayer, s: LayerSamples): FitLayerData {
+/**
+ * One layer's samples (at most OFFSET_FIT_POINTS) for the offset fit: index free above half a
+ * quarter-wave, below it held at the nominal plus `heldShift`; no rate drift.
+ */
+function offsetFitData(design: Design, trace: TraceData, dl: DesignLayer, s: LayerSamples, heldShift: number): FitLayerData {
   const wl = dl.monitor.wavelengthNm;
   const model = design.materials[dl.material];
   const nominal = indexAt(model, wl);
   const n = s.tauS.length;
   const sub = subsampleUniform(s.tauS, 0, n, OFFSET_FIT_POINTS);
-  const thin = (4 * nominal.re * dl.thicknessNm) / wl < 0.5;
+  const thin = isThin(design, dl);
   return {
     optics: { ambient: indexAt(design.ambient, wl), substrate: indexAt(design.substrate, wl), backside: design.substrateBackside, wavelengthNm: wl, mode: dl.monitor.mode },
     nominalAt: (w) => indexAt(model, w), tauS: Float64Array.from(sub, (k) => s.tauS[k]), y: Float64Array.from(sub, (k) => trace.signal[s.indices[k]]),
-    durationS: s.tauS[n - 1], extinction: -nominal.im, heldIndex: thin ? nominal.re : null, fitDrift: false, weight: undefined, heldGain: null, chipTimeS: 0,
+    durationS: s.tauS[n - 1], extinction: -nominal.im, heldIndex: thin ? nominal.re + heldShift : null, fitDrift: false, weight: undefined, heldGain: null, chipTimeS: 0,
     // the keys and order of analyzeRun's layers: one object shape in the model's hot code
     gainDriftPerS: undefined, wander: undefined, indexGradient: undefined,
   };

@@ -286,7 +286,9 @@ export interface AnalyzeOptions {
    * below moved there (their reported σ kept), the posterior carried on. In reflectance a thin
    * stack below moves a near-extremum level cut by several times its own error, and the layer's
    * data tell that stack better than the layers' own: 'thin level-cut layers (R)', seeds 71–86,
-   * max 14.8 → 3.6 %, RMS 3.5 → 1.3 %, thin layers' n·d 14.4 → 2.7 %, coverage 100 % (layer 3,
+   * max 14.8 → 3.6 %, RMS 3.5 → 1.3 %, thin layers' n·d 14.4 → 2.7 %, coverage 100 % (since the
+   * chip's offset fit carries its thin layers' held indices, fit/fittedOffsets.ts, which leaves that
+   * offset undetermined, 0 ± 0.31 % of full scale: max 4.1 %, layer 3 RMS 0.82 → 1.84 %; layer 3,
    * 1.2 QWOT: −14.8…+7.4 → −1.3…+1.9 %; layer 4 −9.8…+13.8 → −2.5…+3.0 %; but layer 5, 0.8 QWOT,
    * −2.1…+2.9 → −3.3…+3.6 %); the same with the lamp drifting 1 %/h (14.9 → 3.7 %) or stray
    * light and a dark offset (14.8 → 3.5 %); R with an offset, seeds 51–66 (its one level cut):

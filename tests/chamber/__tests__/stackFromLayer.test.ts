@@ -37,14 +37,18 @@ async function layerErrors(options: AnalyzeOptions, layer: number): Promise<Laye
 const rms = (v: number[]) => Math.sqrt(v.reduce((a, b) => a + b * b, 0) / v.length);
 
 describe('sequential: the thin stack below a level cut in reflectance read again with the layer above', () => {
-  it(`thin level-cut layers (R), seeds ${SEEDS[0]}–${SEEDS.at(-1)}: layer 3 within 2 % with the stack read again, up to 15 % off (RMS over 3 %) on the stack held`, { timeout: 300_000 }, async () => {
+  it(`thin level-cut layers (R), seeds ${SEEDS[0]}–${SEEDS.at(-1)}: layer 3 within 4 % and 3σ with the stack read again, up to 15 % off (RMS over 3 %) on the stack held`, { timeout: 300_000 }, async () => {
     // Each level cut fitted alone (option fitWithNextLayer, on by default, fits it again with the
     // next two layers, which also pins this stack: seeds 71–82 max 14.8 → 3.1 % by itself).
     const read = await layerErrors({ stackFromLayer: true, fitWithNextLayer: false }, 3);
     const held = await layerErrors({ fitWithNextLayer: false }, 3);
     console.log(`layer 3 thickness error, %: stack read again ${read.d.map((v) => v.toFixed(2)).join(' ')}; held ${held.d.map((v) => v.toFixed(2)).join(' ')}`);
-    expect(Math.max(...read.d.map(Math.abs))).toBeLessThan(2);
-    expect(rms(read.d)).toBeLessThan(1.2);
+    // measured: max 3.43 %, RMS 1.91 %, max 1.1σ; held RMS 6.5 %. (Max 1.51 %, RMS 0.83 % while the
+    // chip's offset fit took its thin layers' held indices as exact, fit/fittedOffsets.ts: with them
+    // at their σ the offset is not determined, 0 ± 0.31 % of full scale, and this reading of the
+    // stack has the offset's direction that much wider.)
+    expect(Math.max(...read.d.map(Math.abs))).toBeLessThan(4);
+    expect(rms(read.d)).toBeLessThan(2.2);
     expect(Math.max(...read.z)).toBeLessThan(3);
     expect(rms(held.d)).toBeGreaterThan(3);
   });
