@@ -128,11 +128,22 @@ export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: n
   const rateNmPerS = p[i++];
   const rateDriftNmPerS2 = layer.fitDrift ? p[i++] : 0;
   const k = wanderCount(layer.wander);
-  const wander = k > 0 ? Float64Array.from({ length: k }, (_, j) => p[i + j]) : layer.wander?.fixed;
+  const wander = k > 0 ? knotParams(p, i, k) : layer.wander?.fixed;
   i += k;
   const indexGradient = layer.indexGradient === 'fit' ? p[i++] : layer.indexGradient;
   const gain = layout && layout.shared >= 0 ? sharedGainAt(p, layout, layer.chipTimeS, layer.gainDriftPerS) : layer.heldGain === null ? p[i] : layer.heldGain;
   return layerParams(index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient);
+}
+
+/**
+ * p[from … from + k − 1] in a new array. A loop, not Float64Array.from with a map function, which
+ * took the generic path over an array-like object (an iterator's step and a call per knot) for
+ * every layer with a wander in every model evaluation of the refit pass.
+ */
+function knotParams(p: ArrayLike<number>, from: number, k: number): Float64Array {
+  const out = new Float64Array(k);
+  for (let j = 0; j < k; j++) out[j] = p[from + j];
+  return out;
 }
 
 /**
@@ -292,12 +303,19 @@ export function layerAtWavelength(layer: FitLayerData, v: LayerParams, wavelengt
 /** layerAtWavelength on objects of fitLayerData's and layerParams's one shape. */
 function layerAt(layer: FitLayerData, v: LayerParams, wavelengthNm: number): LayerAt {
   const thicknessNm = lawThickness(v, layer.wander, layer.durationS);
-  // A graded layer keeps its Δn at every wavelength (the gradient's dispersion is not known).
-  const graded = v.indexGradient ? { indexChange: v.indexGradient } : {};
-  if (wavelengthNm === layer.optics.wavelengthNm) return { n: fromNK(v.index, layer.extinction), thicknessNm, ...graded };
+  if (wavelengthNm === layer.optics.wavelengthNm) return entry(fromNK(v.index, layer.extinction), thicknessNm, v.indexGradient);
   const own = layer.nominalAt(layer.optics.wavelengthNm).re;
   const there = layer.nominalAt(wavelengthNm);
-  return { n: { re: there.re + (v.index - own), im: there.im }, thicknessNm, ...graded };
+  return entry({ re: there.re + (v.index - own), im: there.im }, thicknessNm, v.indexGradient);
+}
+
+/**
+ * A stack entry; a graded layer keeps its Δn at every wavelength (the gradient's dispersion is
+ * not known). Written out, not spread from an object made for the purpose: the entries of the
+ * layers below are made for every model evaluation.
+ */
+function entry(n: Complex, thicknessNm: number, indexGradient: number | undefined): LayerAt {
+  return indexGradient ? { n, thicknessNm, indexChange: indexGradient } : { n, thicknessNm };
 }
 
 /**
