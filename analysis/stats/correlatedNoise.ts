@@ -103,12 +103,13 @@ function fitVariogram(lags: readonly number[], gamma: readonly number[]): Ar1Plu
   // ρ no larger than the lags can resolve (ρ^L ≤ 0.3 at the longest lag): a slower part is not
   // told from a trend and would have its long-run variance extrapolated from a short rise.
   const rhoMax = Math.min(0.995, 0.3 ** (1 / lags[lags.length - 1]));
-  const unit = lags.map(() => 1);
+  const unit = new Float64Array(lags.length).fill(1);
   const powers = gridPowers(lags, rhoMax);
   const fit = new Float64Array(3);
+  const gammaAt = Float64Array.from(gamma);
   for (let g = 0; g <= 200; g++) {
     const rho = (g / 200) * rhoMax;
-    fitVariogramLineInto(lags, gamma, unit, rho, powers[g], fit);
+    fitVariogramLineInto(lags, gammaAt, unit, rho, powers[g], fit);
     const ssr = fit[0], A = fit[1], B = fit[2];
     if (ssr < best.ssr) best = { ssr, whiteVar: Math.max(0, A - B), ar1Var: B, rho };
   }
@@ -120,12 +121,12 @@ function fitVariogram(lags: readonly number[], gamma: readonly number[]): Ar1Plu
  * ρ^k at fitVariogram's lags for each ρ of its grid, kept for the last lags asked (every layer's
  * variogram has the same lags, so each layer's fit would compute the same powers again).
  */
-function gridPowers(lags: readonly number[], rhoMax: number): number[][] {
+function gridPowers(lags: readonly number[], rhoMax: number): Float64Array[] {
   const key = `${rhoMax} ${lags.join(',')}`;
   if (keptPowers?.key !== key) keptPowers = { key, powers: Array.from({ length: 201 }, (_, g) => powersAtLags(lags, (g / 200) * rhoMax)) };
   return keptPowers.powers;
 }
-let keptPowers: { key: string; powers: number[][] } | null = null;
+let keptPowers: { key: string; powers: Float64Array[] } | null = null;
 
 /**
  * Whitens series under white plus AR(1) noise: the Kalman filter's standardised innovations
