@@ -210,25 +210,32 @@ function evaluateSameShape(
   let pos = 0;
   for (let j = 0; j < fromLayer; j++) pos += layers[j].tauS.length;
   // layerAt of the layers below at one wavelength, kept while the next layers are monitored at it
-  // (read only: the stepped layer's entry is made afresh)
+  // (read only), and the stepped layer's entry likewise (made once a wavelength, not once for
+  // every layer above it: the same figures)
   const at: LayerAt[] = [];
+  let stepped: LayerAt | null = null;
   let atWavelength = NaN;
+  // the stack under layer j, refilled for each (the optics read it during the call only)
+  const below: LayerAt[] = [];
   for (let j = fromLayer; j < layers.length; j++) {
     const layer = layers[j];
     const v = values[j];
-    const below: LayerAt[] = [];
+    below.length = 0;
     for (let i = 0; i < fixedBelow.length; i++) below.push(fixedBelow[i]);
     const wavelengthNm = layer.optics.wavelengthNm;
     if (wavelengthNm !== atWavelength) {
       at.length = 0;
+      stepped = null;
       atWavelength = wavelengthNm;
     }
     for (let i = 0; i < j; i++) {
       if (i === at.length) at.push(layerAt(layers[i], values[i], wavelengthNm));
       if (shift && shift.layer === i) {
-        const b = layerAt(layers[i], values[i], wavelengthNm);
-        b.thicknessNm += shift.deltaNm;
-        below.push(b);
+        if (!stepped) {
+          stepped = layerAt(layers[i], values[i], wavelengthNm);
+          stepped.thicknessNm += shift.deltaNm;
+        }
+        below.push(stepped);
       } else below.push(at[i]);
     }
     const growing = fromNK(v.index, layer.extinction);

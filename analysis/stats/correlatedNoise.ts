@@ -109,7 +109,7 @@ function fitVariogram(lags: readonly number[], gamma: readonly number[]): Ar1Plu
   const gammaAt = Float64Array.from(gamma);
   for (let g = 0; g <= 200; g++) {
     const rho = (g / 200) * rhoMax;
-    fitVariogramLineInto(lags, gammaAt, unit, rho, powers[g], fit);
+    fitVariogramLineInto(gammaAt, unit, rho, powers[g], fit);
     const ssr = fit[0], A = fit[1], B = fit[2];
     if (ssr < best.ssr) best = { ssr, whiteVar: Math.max(0, A - B), ar1Var: B, rho };
   }

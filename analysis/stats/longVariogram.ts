@@ -96,7 +96,7 @@ export function fitLongVariogram(v: LongVariogram): Ar1PlusWhite | null {
     const w = Float64Array.from(model.map((m, q) => (m > 0 ? count[q] / (m * m) : 0)));
     best = { ssr: Infinity, A: gamma[0], B: 0, rho: 0 };
     for (const [g, rho] of grid.entries()) {
-      fitVariogramLineInto(lags, gammaAt, w, rho, powers[g], fit);
+      fitVariogramLineInto(gammaAt, w, rho, powers[g], fit);
       if (fit[0] < best.ssr) best = { ssr: fit[0], A: fit[1], B: fit[2], rho };
     }
     const { A, B, rho } = best;
