@@ -341,6 +341,8 @@ export function jacobianLayers(
   modelAtP: Float64Array,
   steps: Float64Array,
   out: Float64Array,
+  /** Where each parameter's row starts in out, a multiple of this (the data's columns, then any a caller adds: priors' rows); out is zeroed whole. @default the samples' count */
+  rowStride = modelAtP.length,
 ): void {
   layers = oneShape(layers);
   const total = modelAtP.length;
@@ -370,7 +372,7 @@ export function jacobianLayers(
     const gradientParam = layer.indexGradient === 'fit' ? wanderParam + wk : -1;
     const basis = new Float64Array(wk);
     for (let j = first; j < last; j++) {
-      const row = j * total;
+      const row = j * rowStride;
       if (j === gainParam) {
         const g = p[j];
         const wOff = (layer.weight ?? 1) * offsetSignal;
@@ -387,7 +389,7 @@ export function jacobianLayers(
     const T = layer.durationS;
     const h = Math.max(steps[rateParam] * T, 1e-9);
     evaluateSameShape(fixedBelow, layers, layout, p, offsetSignal, scratch, i, { layer: i, deltaNm: h }, phase && { ...phase, after: i });
-    const rowR = rateParam * total, rowA = driftParam * total;
+    const rowR = rateParam * rowStride, rowA = driftParam * rowStride;
     if (wk === 0) rateColumns(scratch, modelAtP, h, layer.tauS, T, pos, out, rowR, driftParam >= 0 ? rowA : -1);
     else {
       for (let x = pos; x < total; x++) {
@@ -397,14 +399,14 @@ export function jacobianLayers(
         if (driftParam >= 0) out[rowA + x] = 0.5 * dSdd * tau * tau;
         // ∂d/∂v_j = Ψ_j(τ): constant over the later layers (τ = T)
         if (x < pos + n || x === pos + n) wanderBasis(layer.wander!, tau, basis);
-        for (let j = 0; j < wk; j++) out[(wanderParam + j) * total + x] = dSdd * basis[j];
+        for (let j = 0; j < wk; j++) out[(wanderParam + j) * rowStride + x] = dSdd * basis[j];
       }
     }
     pos += n;
   }
   if (layout.shared < 0) return;
   const G = p[layout.shared];
-  const rowG = layout.shared * total, rowGamma = layout.sharedDrift * total;
+  const rowG = layout.shared * rowStride, rowGamma = layout.sharedDrift * rowStride;
   pos = 0;
   for (const layer of layers) {
     const gamma = layout.sharedDrift < 0 ? (layer.gainDriftPerS ?? 0) : p[layout.sharedDrift];
