@@ -140,10 +140,14 @@ function wanderSeries(
   rate: number, drift: number, t: Float64Array, c: Float64Array, P: Float64Array, tauS: ArrayLike<number>, out: Float64Array,
 ): Float64Array {
   const K = t.length - 1;
+  // the segment of the last τ: samples come in time order, so the search goes on from there
+  // (from the start again for an earlier τ); the same segment as a search from the start
+  let k = -1, last = -Infinity;
   for (let i = 0; i < tauS.length; i++) {
     const tau = tauS[i];
     // the last segment integrateKnots's loop enters: the largest k < K with τ > t[k] (none: −1)
-    let k = -1;
+    if (!(tau >= last)) k = -1;
+    last = tau;
     while (k + 1 < K && tau > t[k + 1]) k++;
     let d = 0;
     if (k >= 0) {
