@@ -1,5 +1,5 @@
 import { type Design, type DesignLayer } from '../design';
-import { indexAt } from '../materials';
+import { indexAt, indexAtMemo } from '../materials';
 import { type Complex, type LayerAt } from '../optics';
 import { driftEstimateAt, newVariogramPool, NOMINAL_INDEX_SIGMA, type IndexPoint } from '../stats';
 import { median, noiseSigma, segmentTrace, type TraceData } from '../trace';
@@ -437,13 +437,8 @@ async function analyzeLayers(
     const cg = chipGain.get(chip)!;
     const chipTimeS = samples.startTimeS - cg.startS;
 
-    const memo = new Map<number, Complex>();
     const model = design.materials[dl.material];
-    const nominalAt = (w: number) => {
-      let v = memo.get(w);
-      if (!v) memo.set(w, (v = indexAt(model, w)));
-      return v;
-    };
+    const nominalAt = indexAtMemo(model);
     const nominal = nominalAt(wl);
     const qwotAtMonitor = (4 * nominal.re * dl.thicknessNm) / wl;
     // A thin layer gets a free trial fit; its index is held when that fit cannot separate it from the thickness.

@@ -84,9 +84,6 @@ export interface JointFitResult {
   solver: LeastSquaresResult;
 }
 
-/** The Jacobian of the layers' rows alone when a fit has prior rows, kept between fits (one thread's fits run one at a time). */
-let innerSpare = new Float64Array(0);
-
 /**
  * Least-squares fit of consecutive layers of one chip against the growing-layer model, each
  * layer on the ones before it as currently estimated. One layer: the sequential fit; all
@@ -195,12 +192,9 @@ function fitOnce(input: JointFitInput, options: LeastSquaresOptions): JointFitRe
       },
       jacobian: (p, at, steps, out) => {
         if (priors.length === 0) return jacobianLayers(fixedBelow, layers, layout, p, offsetSignal, at, steps, out);
-        // jacobianLayers writes every value of it (one array kept between calls, as its own)
-        if (innerSpare.length < layout.count * total) innerSpare = new Float64Array(layout.count * total);
-        const inner = innerSpare.subarray(0, layout.count * total);
-        jacobianLayers(fixedBelow, layers, layout, p, offsetSignal, at.subarray(0, total), steps, inner);
-        out.fill(0);
-        for (let j = 0; j < layout.count; j++) out.set(inner.subarray(j * total, (j + 1) * total), j * width);
+        // the layers' columns written straight into rows of the full width (zeroed whole there),
+        // not into an array of their own copied over: the same values, two passes fewer over it
+        jacobianLayers(fixedBelow, layers, layout, p, offsetSignal, at.subarray(0, total), steps, out, width);
         priors.forEach((q, k) => (out[q.param * width + total + k] = q.c));
       },
       start: p0,

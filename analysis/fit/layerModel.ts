@@ -128,11 +128,22 @@ export function decodeLayer(layer: FitLayerData, p: ArrayLike<number>, offset: n
   const rateNmPerS = p[i++];
   const rateDriftNmPerS2 = layer.fitDrift ? p[i++] : 0;
   const k = wanderCount(layer.wander);
-  const wander = k > 0 ? Float64Array.from({ length: k }, (_, j) => p[i + j]) : layer.wander?.fixed;
+  const wander = k > 0 ? knotParams(p, i, k) : layer.wander?.fixed;
   i += k;
   const indexGradient = layer.indexGradient === 'fit' ? p[i++] : layer.indexGradient;
   const gain = layout && layout.shared >= 0 ? sharedGainAt(p, layout, layer.chipTimeS, layer.gainDriftPerS) : layer.heldGain === null ? p[i] : layer.heldGain;
   return layerParams(index, rateNmPerS, rateDriftNmPerS2, gain, wander, indexGradient);
+}
+
+/**
+ * p[from … from + k − 1] in a new array. A loop, not Float64Array.from with a map function, which
+ * took the generic path over an array-like object (an iterator's step and a call per knot) for
+ * every layer with a wander in every model evaluation of the refit pass.
+ */
+function knotParams(p: ArrayLike<number>, from: number, k: number): Float64Array {
+  const out = new Float64Array(k);
+  for (let j = 0; j < k; j++) out[j] = p[from + j];
+  return out;
 }
 
 /**
@@ -199,25 +210,32 @@ function evaluateSameShape(
   let pos = 0;
   for (let j = 0; j < fromLayer; j++) pos += layers[j].tauS.length;
   // layerAt of the layers below at one wavelength, kept while the next layers are monitored at it
-  // (read only: the stepped layer's entry is made afresh)
+  // (read only), and the stepped layer's entry likewise (made once a wavelength, not once for
+  // every layer above it: the same figures)
   const at: LayerAt[] = [];
+  let stepped: LayerAt | null = null;
   let atWavelength = NaN;
+  // the stack under layer j, refilled for each (the optics read it during the call only)
+  const below: LayerAt[] = [];
   for (let j = fromLayer; j < layers.length; j++) {
     const layer = layers[j];
     const v = values[j];
-    const below: LayerAt[] = [];
+    below.length = 0;
     for (let i = 0; i < fixedBelow.length; i++) below.push(fixedBelow[i]);
     const wavelengthNm = layer.optics.wavelengthNm;
     if (wavelengthNm !== atWavelength) {
       at.length = 0;
+      stepped = null;
       atWavelength = wavelengthNm;
     }
     for (let i = 0; i < j; i++) {
       if (i === at.length) at.push(layerAt(layers[i], values[i], wavelengthNm));
       if (shift && shift.layer === i) {
-        const b = layerAt(layers[i], values[i], wavelengthNm);
-        b.thicknessNm += shift.deltaNm;
-        below.push(b);
+        if (!stepped) {
+          stepped = layerAt(layers[i], values[i], wavelengthNm);
+          stepped.thicknessNm += shift.deltaNm;
+        }
+        below.push(stepped);
       } else below.push(at[i]);
     }
     const growing = fromNK(v.index, layer.extinction);
@@ -292,12 +310,19 @@ export function layerAtWavelength(layer: FitLayerData, v: LayerParams, wavelengt
 /** layerAtWavelength on objects of fitLayerData's and layerParams's one shape. */
 function layerAt(layer: FitLayerData, v: LayerParams, wavelengthNm: number): LayerAt {
   const thicknessNm = lawThickness(v, layer.wander, layer.durationS);
-  // A graded layer keeps its Δn at every wavelength (the gradient's dispersion is not known).
-  const graded = v.indexGradient ? { indexChange: v.indexGradient } : {};
-  if (wavelengthNm === layer.optics.wavelengthNm) return { n: fromNK(v.index, layer.extinction), thicknessNm, ...graded };
+  if (wavelengthNm === layer.optics.wavelengthNm) return entry(fromNK(v.index, layer.extinction), thicknessNm, v.indexGradient);
   const own = layer.nominalAt(layer.optics.wavelengthNm).re;
   const there = layer.nominalAt(wavelengthNm);
-  return { n: { re: there.re + (v.index - own), im: there.im }, thicknessNm, ...graded };
+  return entry({ re: there.re + (v.index - own), im: there.im }, thicknessNm, v.indexGradient);
+}
+
+/**
+ * A stack entry; a graded layer keeps its Δn at every wavelength (the gradient's dispersion is
+ * not known). Written out, not spread from an object made for the purpose: the entries of the
+ * layers below are made for every model evaluation.
+ */
+function entry(n: Complex, thicknessNm: number, indexGradient: number | undefined): LayerAt {
+  return indexGradient ? { n, thicknessNm, indexChange: indexGradient } : { n, thicknessNm };
 }
 
 /**
@@ -316,6 +341,8 @@ export function jacobianLayers(
   modelAtP: Float64Array,
   steps: Float64Array,
   out: Float64Array,
+  /** Where each parameter's row starts in out, a multiple of this (the data's columns, then any a caller adds: priors' rows); out is zeroed whole. @default the samples' count */
+  rowStride = modelAtP.length,
 ): void {
   layers = oneShape(layers);
   const total = modelAtP.length;
@@ -345,7 +372,7 @@ export function jacobianLayers(
     const gradientParam = layer.indexGradient === 'fit' ? wanderParam + wk : -1;
     const basis = new Float64Array(wk);
     for (let j = first; j < last; j++) {
-      const row = j * total;
+      const row = j * rowStride;
       if (j === gainParam) {
         const g = p[j];
         const wOff = (layer.weight ?? 1) * offsetSignal;
@@ -362,7 +389,7 @@ export function jacobianLayers(
     const T = layer.durationS;
     const h = Math.max(steps[rateParam] * T, 1e-9);
     evaluateSameShape(fixedBelow, layers, layout, p, offsetSignal, scratch, i, { layer: i, deltaNm: h }, phase && { ...phase, after: i });
-    const rowR = rateParam * total, rowA = driftParam * total;
+    const rowR = rateParam * rowStride, rowA = driftParam * rowStride;
     if (wk === 0) rateColumns(scratch, modelAtP, h, layer.tauS, T, pos, out, rowR, driftParam >= 0 ? rowA : -1);
     else {
       for (let x = pos; x < total; x++) {
@@ -372,14 +399,14 @@ export function jacobianLayers(
         if (driftParam >= 0) out[rowA + x] = 0.5 * dSdd * tau * tau;
         // ∂d/∂v_j = Ψ_j(τ): constant over the later layers (τ = T)
         if (x < pos + n || x === pos + n) wanderBasis(layer.wander!, tau, basis);
-        for (let j = 0; j < wk; j++) out[(wanderParam + j) * total + x] = dSdd * basis[j];
+        for (let j = 0; j < wk; j++) out[(wanderParam + j) * rowStride + x] = dSdd * basis[j];
       }
     }
     pos += n;
   }
   if (layout.shared < 0) return;
   const G = p[layout.shared];
-  const rowG = layout.shared * total, rowGamma = layout.sharedDrift * total;
+  const rowG = layout.shared * rowStride, rowGamma = layout.sharedDrift * rowStride;
   pos = 0;
   for (const layer of layers) {
     const gamma = layout.sharedDrift < 0 ? (layer.gainDriftPerS ?? 0) : p[layout.sharedDrift];

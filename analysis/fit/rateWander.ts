@@ -83,12 +83,32 @@ export function wanderBasis(w: RateWander, tau: number, out: Float64Array, rate 
   // without the calls (the Jacobian of the wander's choice asks for every sample of a layer).
   if (!rate && Number.isFinite(rho)) for (; j >= 1 && t[j - 1] >= tau; j--) out[j] = w.sigmaNmPerS * s * 0;
   let acc = 0;
+  const whole = rate ? null : wholeHatIntegrals(t);
   for (; j >= 0; j--) {
-    acc = (rate ? hat(t, j, tau) : hatIntegral(t, j, tau)) + rho * acc;
+    const phi = rate ? hat(t, j, tau) : j < K && tau >= t[j + 1] ? whole![j] : hatIntegral(t, j, tau);
+    acc = phi + rho * acc;
     out[j] = w.sigmaNmPerS * (j === 0 ? 1 : s) * acc;
   }
   return out;
 }
+
+/**
+ * hatIntegral(t, k, τ) of each knot k < K whose hat τ has passed whole (τ ≥ t[k+1]), where it no
+ * longer depends on τ: each half's x is its width h then (τ − a ≥ h after rounding, which is
+ * monotone), so the figure at τ = t[k+1] is the figure at any later τ, to the last bit. Kept for
+ * the last knots asked (a Jacobian asks for every sample of a layer on one wander's knots).
+ */
+function wholeHatIntegrals(t: Float64Array): Float64Array {
+  if (t !== wholeFor) {
+    const K = t.length - 1;
+    wholeValues = new Float64Array(Math.max(K, 0));
+    for (let k = 0; k < K; k++) wholeValues[k] = hatIntegral(t, k, t[k + 1]);
+    wholeFor = t;
+  }
+  return wholeValues;
+}
+let wholeFor: Float64Array | null = null;
+let wholeValues = new Float64Array(0);
 
 /** The wander's knot rates c_k, nm/s, from its parameters v. */
 export function wanderKnotRates(w: RateWander, v: ArrayLike<number>): Float64Array {
@@ -140,10 +160,14 @@ function wanderSeries(
   rate: number, drift: number, t: Float64Array, c: Float64Array, P: Float64Array, tauS: ArrayLike<number>, out: Float64Array,
 ): Float64Array {
   const K = t.length - 1;
+  // the segment of the last τ: samples come in time order, so the search goes on from there
+  // (from the start again for an earlier τ); the same segment as a search from the start
+  let k = -1, last = -Infinity;
   for (let i = 0; i < tauS.length; i++) {
     const tau = tauS[i];
     // the last segment integrateKnots's loop enters: the largest k < K with τ > t[k] (none: −1)
-    let k = -1;
+    if (!(tau >= last)) k = -1;
+    last = tau;
     while (k + 1 < K && tau > t[k + 1]) k++;
     let d = 0;
     if (k >= 0) {

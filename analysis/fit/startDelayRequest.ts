@@ -1,5 +1,5 @@
-import { indexAt, type MaterialModel } from '../materials';
-import { type Complex, type LayerAt } from '../optics';
+import { indexAtMemo, type MaterialModel } from '../materials';
+import { type LayerAt } from '../optics';
 import { fitLayerData, type FitLayerData, type LayerParams } from './layerModel';
 import { indexRange } from './layerSampleWork';
 import { binsOnExposureClocks } from './profileBins';
@@ -44,12 +44,7 @@ export function startDelayLayerRequest(
 /** The profiles of a chip's request, one per layer (null for a layer not profiled or whose fits failed): the same figures wherever it runs. */
 export function profileFromRequest(r: StartDelayProfileRequest): (StartDelayProfile | null)[] {
   return chainedStartDelayProfiles(r.layers.map((l) => {
-    const memo = new Map<number, Complex>();
-    const nominalAt = (w: number) => {
-      let v = memo.get(w);
-      if (!v) memo.set(w, (v = indexAt(l.material, w)));
-      return v;
-    };
+    const nominalAt = indexAtMemo(l.material);
     const own = indexRange(l.y.length);
     const bins = binsOnExposureClocks(l.tauS, own, l.y, PROFILE_POINTS);
     return {

@@ -55,3 +55,16 @@ export function indexAt(model: MaterialModel, wavelengthNm: number): Complex {
     }
   }
 }
+
+/**
+ * indexAt for one model as a function of the wavelength, each wavelength's value computed once
+ * (a layer's fits ask for the same few wavelengths many times): the same values.
+ */
+export function indexAtMemo(model: MaterialModel): (wavelengthNm: number) => Complex {
+  const memo = new Map<number, Complex>();
+  return (w) => {
+    let v = memo.get(w);
+    if (!v) memo.set(w, (v = indexAt(model, w)));
+    return v;
+  };
+}

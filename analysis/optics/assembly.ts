@@ -1,6 +1,6 @@
 import { type Complex } from './complex';
 import { gradedSublayers } from './gradedSublayers';
-import { identity, layerMatrix, type Mat2, multiply } from './matrix';
+import { layerMatrix, type Mat2, multiply } from './matrix';
 import { tilt, type Polarization, type Tilted } from './tilt';
 
 /** One layer with its complex index at the wavelength in question. */
@@ -14,17 +14,21 @@ export interface LayerAt {
 
 /**
  * The characteristic matrix of an assembly, M = M_top · … · M_1, for layers listed in
- * deposition order (layers[0] touches the substrate, the last faces the ambient).
+ * deposition order (layers[0] touches the substrate, the last faces the ambient). Written into
+ * `out` (a new matrix by default).
  */
 export function assemblyMatrix(
   layers: readonly LayerAt[],
   wavelengthNm: number,
   n0SinTheta0: number,
   pol: Polarization,
+  out: Mat2 = new Float64Array(8),
 ): Mat2 {
-  let m: Mat2 = identity();
-  let tmp: Mat2 = new Float64Array(8);
-  const lm = new Float64Array(8);
+  let m: Mat2 = out.fill(0);
+  m[0] = 1;
+  m[6] = 1;
+  let tmp: Mat2 = PRODUCT;
+  const lm = LAYER;
   // Stacks alternate a few materials whose index objects are shared: tilt each distinct one once.
   let lastA: Complex | null = null, tiltA: Tilted | null = null;
   let lastB: Complex | null = null, tiltB: Tilted | null = null;
@@ -57,5 +61,14 @@ export function assemblyMatrix(
     multiply(tmp, m, lm);
     [m, tmp] = [tmp, m];
   }
-  return m;
+  if (m !== out) out.set(m);
+  return out;
 }
+
+/**
+ * assemblyMatrix's working matrices (the product's other half and one layer's), kept between its
+ * calls: it is not re-entered, and a module has one copy a thread. A monitor signal's set-up
+ * assembles the stack below once per evaluation (tens of thousands a run), and three new arrays
+ * each time were a good part of what the fits left to the collector.
+ */
+const PRODUCT: Mat2 = new Float64Array(8), LAYER: Mat2 = new Float64Array(8);

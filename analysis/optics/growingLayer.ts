@@ -48,18 +48,28 @@ export function growingLayerSignal(
   assertTransparentIncidence(spec.ambient, 'ambient');
   if (spec.backside) assertTransparentIncidence(spec.substrate, 'substrate');
   const pol = spec.pol ?? 'mean';
+  const d = float64(thicknessNm);
   if (pol !== 'mean') {
-    signalLoop(setUp(spec, pol), thicknessNm, out, 1, true, phase);
+    signalLoop(setUp(spec, pol), d, out, 1, true, phase);
     return out;
   }
   // At normal incidence s and p coincide (η_p = N²/N = η_s).
   if ((spec.angleDeg ?? 0) === 0) {
-    signalLoop(setUp(spec, 's'), thicknessNm, out, 1, true, phase);
+    signalLoop(setUp(spec, 's'), d, out, 1, true, phase);
     return out;
   }
-  accumulate(spec, 's', thicknessNm, out, 0.5, true);
-  accumulate(spec, 'p', thicknessNm, out, 0.5, false);
+  accumulate(spec, 's', d, out, 0.5, true);
+  accumulate(spec, 'p', d, out, 0.5, false);
   return out;
+}
+
+/**
+ * The thicknesses as a Float64Array (the same numbers): signalLoop's optimised code is made for
+ * the one kind of array it has read, and a plain array (a caller's single point or grid) after
+ * typed ones sent it back to the interpreter, where every number it computes is a new object.
+ */
+function float64(thicknessNm: ArrayLike<number>): Float64Array {
+  return thicknessNm instanceof Float64Array ? thicknessNm : Float64Array.from(thicknessNm);
 }
 
 /**
@@ -74,7 +84,7 @@ export function growingLayerSignalFor(spec: GrowingLayer): (thicknessNm: ArrayLi
   if (pol === 'mean' && (spec.angleDeg ?? 0) !== 0) throw new RangeError('growingLayerSignalFor: one polarization or normal incidence');
   const c = setUp(spec, pol === 'mean' ? 's' : pol);
   return (thicknessNm, out) => {
-    signalLoop(c, thicknessNm, out, 1, true);
+    signalLoop(c, float64(thicknessNm), out, 1, true);
     return out;
   };
 }
@@ -82,7 +92,7 @@ export function growingLayerSignalFor(spec: GrowingLayer): (thicknessNm: ArrayLi
 function accumulate(
   spec: GrowingLayer,
   pol: Polarization,
-  thicknessNm: ArrayLike<number>,
+  thicknessNm: Float64Array,
   out: Float64Array,
   weight: number,
   overwrite: boolean,
@@ -92,14 +102,17 @@ function accumulate(
 
 type SetUp = ReturnType<typeof setUp>;
 
+/** setUp's matrix of the stack below, read into numbers there at once (kept: one array a thread, not one a call). */
+const BELOW = new Float64Array(8);
+
 /** What every thickness point of one spec shares. */
 function setUp(spec: GrowingLayer, pol: Polarization) {
   const invariant = spec.ambient.re * Math.sin(((spec.angleDeg ?? 0) * Math.PI) / 180);
   const e0 = tilt(spec.ambient, invariant, pol).eta;
   const es = tilt(spec.substrate, invariant, pol).eta;
   const g = tilt(spec.growing, invariant, pol);
-  const mb = assemblyMatrix(spec.below, spec.wavelengthNm, invariant, pol);
-  const [b11r, b11i, b12r, b12i, b21r, b21i, b22r, b22i] = mb;
+  const mb = assemblyMatrix(spec.below, spec.wavelengthNm, invariant, pol, BELOW);
+  const b11r = mb[0], b11i = mb[1], b12r = mb[2], b12i = mb[3], b21r = mb[4], b21i = mb[5], b22r = mb[6], b22i = mb[7];
   // Front view: [B, C] = L·(Mb·[1, ηs]); the stack below and the substrate fold into one vector.
   const vbr = b11r + b12r * es.re - b12i * es.im, vbi = b11i + b12r * es.im + b12i * es.re;
   const vcr = b21r + b22r * es.re - b22i * es.im, vci = b21i + b22r * es.im + b22i * es.re;
@@ -110,9 +123,9 @@ function setUp(spec: GrowingLayer, pol: Polarization) {
   const backside = spec.backside ?? false;
   const e0r = e0.re, e0i = e0.im, esr = es.re, esi = es.im;
   // Bare back face seen from inside the substrate (Fresnel), for the incoherent sum.
-  const rbNum = { re: es.re - e0.re, im: es.im - e0.im };
-  const rbDen = { re: es.re + e0.re, im: es.im + e0.im };
-  const rBack = (rbNum.re * rbNum.re + rbNum.im * rbNum.im) / (rbDen.re * rbDen.re + rbDen.im * rbDen.im);
+  const rbNumR = es.re - e0.re, rbNumI = es.im - e0.im;
+  const rbDenR = es.re + e0.re, rbDenI = es.im + e0.im;
+  const rBack = (rbNumR * rbNumR + rbNumI * rbNumI) / (rbDenR * rbDenR + rbDenI * rbDenI);
   const tBack = 1 - rBack;
   const kr = g.nCos.re * k, ki = g.nCos.im * k;
   // A transparent growing layer (real δ and η, the usual case): the terms that vanish are left
@@ -129,7 +142,7 @@ function setUp(spec: GrowingLayer, pol: Polarization) {
   };
 }
 
-function signalLoop(c: SetUp, thicknessNm: ArrayLike<number>, out: Float64Array, weight: number, overwrite: boolean, phase?: PhaseCache): void {
+function signalLoop(c: SetUp, thicknessNm: Float64Array, out: Float64Array, weight: number, overwrite: boolean, phase?: PhaseCache): void {
   const { b11r, b11i, b12r, b12i, b21r, b21i, b22r, b22i, vbr, vbi, vcr, vci, ger, gei, etaDen, wantR, backside } = c;
   const { e0r, e0i, esr, esi, rBack, tBack, kr, ki, transparent, lossless } = c;
   const cosIn = phase && !phase.fill ? phase.cos : null, sinIn = phase && !phase.fill ? phase.sin : null;

@@ -91,11 +91,12 @@ export function fitLongVariogram(v: LongVariogram): Ar1PlusWhite | null {
   // ρ^k at each ρ of the grid: the same in every pass
   const powers = grid.map((rho) => powersAtLags(lags, rho));
   const fit = new Float64Array(3);
+  const gammaAt = Float64Array.from(gamma);
   for (let pass = 0; pass < 3; pass++) {
-    const w = model.map((m, q) => (m > 0 ? count[q] / (m * m) : 0));
+    const w = Float64Array.from(model.map((m, q) => (m > 0 ? count[q] / (m * m) : 0)));
     best = { ssr: Infinity, A: gamma[0], B: 0, rho: 0 };
     for (const [g, rho] of grid.entries()) {
-      fitVariogramLineInto(lags, gamma, w, rho, powers[g], fit);
+      fitVariogramLineInto(gammaAt, w, rho, powers[g], fit);
       if (fit[0] < best.ssr) best = { ssr: fit[0], A: fit[1], B: fit[2], rho };
     }
     const { A, B, rho } = best;

@@ -1,7 +1,9 @@
 /** ρ^k at each lag k: fitVariogramLine's x (a caller that fits the same lags and ρ again passes them in). */
-export function powersAtLags(lags: readonly number[], rho: number): number[] {
+export function powersAtLags(lags: readonly number[], rho: number): Float64Array {
   const logRho = rho > 0 ? Math.log(rho) : -Infinity;
-  return lags.map((k) => Math.exp(k * logRho));
+  const x = new Float64Array(lags.length);
+  for (let q = 0; q < lags.length; q++) x[q] = Math.exp(lags[q] * logRho);
+  return x;
 }
 
 /**
@@ -10,22 +12,24 @@ export function powersAtLags(lags: readonly number[], rho: number): number[] {
  * (γ flat) or no white part (γ = B·(1 − ρ^k)). Unit weights give ordinary least squares.
  */
 export function fitVariogramLine(
-  lags: readonly number[], gamma: readonly number[], w: readonly number[], rho: number, x: readonly number[] = powersAtLags(lags, rho),
+  lags: readonly number[], gamma: readonly number[], w: readonly number[], rho: number, x: ArrayLike<number> = powersAtLags(lags, rho),
 ): { ssr: number; A: number; B: number } {
   const out = new Float64Array(3);
-  fitVariogramLineInto(lags, gamma, w, rho, x, out);
+  fitVariogramLineInto(Float64Array.from(gamma), Float64Array.from(w), rho, Float64Array.from(x), out);
   return { ssr: out[0], A: out[1], B: out[2] };
 }
 
 /**
  * fitVariogramLine with (ssr, A, B) written into out[0..2]: for a search over a grid of ρ, which
- * would otherwise make an object (and its numbers) on the heap at every ρ of every fit.
+ * would otherwise make an object (and its numbers) on the heap at every ρ of every fit. Its
+ * series in Float64Arrays (the same numbers): plain arrays of numbers come as integers (unit
+ * weights, ρ^k = 0 at ρ = 0) or as doubles, and each kind met after the engine had compiled the
+ * loops for the other sent them back to the interpreter. γ at each lag, w and x alike.
  */
-export function fitVariogramLineInto(
-  lags: readonly number[], gamma: readonly number[], w: readonly number[], rho: number, x: readonly number[], out: Float64Array,
-): void {
+export function fitVariogramLineInto(gamma: Float64Array, w: Float64Array, rho: number, x: Float64Array, out: Float64Array): void {
+  const lags = gamma.length;
   let s1 = 0, sx = 0, sxx = 0, sy = 0, sxy = 0;
-  for (let q = 0; q < lags.length; q++) {
+  for (let q = 0; q < lags; q++) {
     s1 += w[q]; sx += w[q] * x[q]; sxx += w[q] * x[q] * x[q]; sy += w[q] * gamma[q]; sxy += w[q] * x[q] * gamma[q];
   }
   const det = s1 * sxx - sx * sx;
@@ -44,14 +48,14 @@ export function fitVariogramLineInto(
   } else if (B > A) {
     // no white part: γ = B·(1 − ρ^k)
     let num = 0, den = 0;
-    for (let q = 0; q < lags.length; q++) {
+    for (let q = 0; q < lags; q++) {
       num += w[q] * gamma[q] * (1 - x[q]);
       den += w[q] * (1 - x[q]) ** 2;
     }
     A = B = den > 0 ? num / den : 0;
   }
   let ssr = 0;
-  for (let q = 0; q < lags.length; q++) ssr += w[q] * (gamma[q] - (A - B * x[q])) ** 2;
+  for (let q = 0; q < lags; q++) ssr += w[q] * (gamma[q] - (A - B * x[q])) ** 2;
   out[0] = ssr;
   out[1] = A;
   out[2] = B;

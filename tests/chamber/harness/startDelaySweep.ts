@@ -7,8 +7,7 @@
 // both without the growth below: a start-up shows at the start only, a rate wander anywhere.
 import { parseDesign } from '@/analysis/design';
 import { findStartDelay, type AnalyzeOptions } from '@/analysis/fit';
-import { indexAt } from '@/analysis/materials';
-import { type Complex } from '@/analysis/optics';
+import { indexAtMemo } from '@/analysis/materials';
 import { fitLayerData } from '@/analysis/fit/layerModel';
 import { indexRange } from '@/analysis/fit/layerSampleWork';
 import { binMeans } from '@/analysis/fit/subsample';
@@ -32,12 +31,7 @@ function argmin(c: ArrayLike<number>): number {
 /** A request's profiles with the onset at fraction `at` of each layer's logged time (0: its start), no growth below. */
 function profilesWithOnsetAt(r: StartDelayProfileRequest, at: number): (StartDelayProfile | null)[] {
   return chainedStartDelayProfiles(r.layers.map((l) => {
-    const memo = new Map<number, Complex>();
-    const nominalAt = (w: number) => {
-      let v = memo.get(w);
-      if (!v) memo.set(w, (v = indexAt(l.material, w)));
-      return v;
-    };
+    const nominalAt = indexAtMemo(l.material);
     const own = indexRange(l.y.length);
     const t0 = at * l.layer.durationS;
     const clock = (t: number, d: number) => (t < t0 ? t : t0 + exposureTime(t - t0, d));
