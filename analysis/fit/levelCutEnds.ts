@@ -1,6 +1,10 @@
 import { monitorCurve, type Design } from '../design';
 import { type Segment, type TraceData } from '../trace';
 import { expectedLevels } from './expectedLevels';
+import { fitAr1PlusWhite } from '../stats/correlatedNoise';
+
+/** The fewest pause readings whose variogram sets the noise's scale for the bent curves (see chosen). */
+const MIN_PAUSE_SAMPLES = 20;
 
 export interface LevelCutEndOptions {
   /** How far either way of the placed boundary the cut and the next start are searched, s. @default 40 */
@@ -161,13 +165,21 @@ function chosen(bend: number, ...args: Parameters<typeof breakpoints>): { end: n
   const [t, y, level, from, to, endSpan, startSpan, into, outOf] = args;
   const bent = breakpoints(t, y, level, from, to, endSpan, startSpan, into, outOf, bend);
   if (!bent) return plain;
-  // the readings' noise from their second differences (the growth's own is far below it at 0.1 s)
-  let s2 = 0, m = 0;
-  for (let i = from + 1; i + 1 < to; i++) {
-    s2 += (y[i + 1] - 2 * y[i] + y[i - 1]) ** 2;
-    m++;
-  }
-  const variance = s2 / Math.max(m, 1) / 6;
+  // The noise's scale for a slow term's χ² gain: its long-run variance σ_w² + σ_x²·(1 + ρ)/(1 − ρ)
+  // (a smooth regressor sees the noise's spectral density at zero, not its per-sample variance),
+  // white + AR(1) fitted to the variogram of the pause between the cut and the next start, where
+  // the readings are flat at the level. Second differences see (1 − ρ)(3 − ρ)/3 of an AR(1) part's
+  // variance: on a detector whose noise is correlated over ~10 samples they kept the quadratic
+  // everywhere and the boundaries left the layers. Lags to half the pause, so that a wander slower
+  // than the AR(1) part (the demo trace's rate and lamp) is counted too; capped at 40 (4 s) the
+  // no-layer-column demo trace still kept one quadratic, its layer 2 end 4 s early and n·d +0.6 %.
+  // Too short a pause: the design's curves as they are.
+  const pauseEnd = startSpan ? plain.start : to; // the run's last layer: flat to the window's end
+  const pause = Float64Array.from({ length: pauseEnd - plain.end }, (_, i) => y[plain.end + i]);
+  if (pause.length < MIN_PAUSE_SAMPLES) return plain;
+  const noise = fitAr1PlusWhite(pause, Math.floor(pause.length / 2));
+  const variance = noise.longRunSigma ** 2;
+  if (!(variance > 0)) return plain;
   const terms = (startSpan ? 2 : 1) * bend;
   return plain.cost - bent.cost > terms * Math.log(to - from) * variance ? bent : plain;
 }
