@@ -2,8 +2,9 @@ import { monitorCurve, type Design } from '../design';
 import { type Segment, type TraceData } from '../trace';
 import { expectedLevels } from './expectedLevels';
 import { fitAr1PlusWhite } from '../stats/correlatedNoise';
+import { gapsBetween, idleNoiseModel } from './idleNoiseModel';
 
-/** The fewest pause readings whose variogram sets the noise's scale for the bent curves (see chosen). */
+/** The fewest pause readings whose variogram sets the noise's scale for the bent curves where the run's pauses tell nothing (see chosen). */
 const MIN_PAUSE_SAMPLES = 20;
 
 export interface LevelCutEndOptions {
@@ -18,7 +19,7 @@ export interface LevelCutEndOptions {
   /**
    * Powers of the time from a breakpoint added to each design curve where the readings show them
    * (Schwarz's criterion; `chosen`): the film's curve near the cut is not the design's. 0: the
-   * design's curves alone. @default 2
+   * design's curves alone. From the second round on (see levelCutEnds). @default 2
    */
   bend?: number;
 }
@@ -38,7 +39,12 @@ export interface LevelCutEndOptions {
  */
 export function levelCutEnds(trace: TraceData, design: Design, layers: readonly Segment[], gain: number, options: LevelCutEndOptions = {}): Segment[] {
   let out = layers.map((s) => ({ ...s }));
-  for (let round = 0; round < (options.rounds ?? 3); round++) out = levelCutRound(trace, design, out, gain, options);
+  // The bent curves from the second round on: the first round's rates come from the boundaries
+  // placed before (fit/placeBoundaries), on the no-layer-column demo trace 25–28 s off around
+  // layer 2's end, a rate beyond the curves' ±15 % stretches, and there the quadratic took up the
+  // wrong stretch, not the film's curve (a χ² gain of 30 long-run variances, kept): the end it
+  // moved set the next rounds' rates, and those rounds' plain fits landed elsewhere.
+  for (let round = 0; round < (options.rounds ?? 3); round++) out = levelCutRound(trace, design, out, gain, round === 0 ? { ...options, bend: 0 } : options);
   return out;
 }
 
@@ -50,11 +56,12 @@ function levelCutRound(trace: TraceData, design: Design, layers: readonly Segmen
   const t = trace.timeS, y = trace.signal;
   const expected = expectedLevels(design);
   const chipGain = bareChipGains(t, y, out, expected, gain);
+  const runVariance = (options.bend ?? 2) > 0 ? pausesLongRunVariance(trace, out) : NaN;
   for (let j = 0; j < out.length; j++) {
     const seg = out[j];
     const dl = design.layers[seg.layer - 1];
     if (!dl || dl.monitor.cut !== 'level') continue;
-    if (j === 0 || out[j - 1].chip !== seg.chip) out[j] = firstStart(trace, design, seg, j > 0 ? out[j - 1].endIndex : 0, (chipGain.get(seg.chip) ?? gain) * expected[seg.layer - 1].startLevel, options);
+    if (j === 0 || out[j - 1].chip !== seg.chip) out[j] = firstStart(trace, design, seg, j > 0 ? out[j - 1].endIndex : 0, (chipGain.get(seg.chip) ?? gain) * expected[seg.layer - 1].startLevel, runVariance, options);
     const nxt = j + 1 < out.length && out[j + 1].layer === seg.layer + 1 && out[j + 1].chip === seg.chip ? out[j + 1] : null;
     const g = chipGain.get(seg.chip) ?? gain;
     if (!(g > 0)) continue;
@@ -74,7 +81,7 @@ function levelCutRound(trace: TraceData, design: Design, layers: readonly Segmen
     const rate = dl.thicknessNm / Math.max(durS, 1e-9);
     const into = STRETCH.map((k) => shapeOf(design, seg.layer, 'end', k * rate));
     const outOf = nxt ? STRETCH.map((k) => shapeOf(design, nxt.layer, 'start', (k * design.layers[nxt.layer - 1].thicknessNm) / Math.max(nextDurS, 1e-9))) : null;
-    const best = chosen(options.bend ?? 2, t, y, level, from, to, [endS - search, endS + search], nxt ? [startS - search, startS + search] : null, into, outOf);
+    const best = chosen(options.bend ?? 2, runVariance, t, y, level, from, to, [endS - search, endS + search], nxt ? [startS - search, startS + search] : null, into, outOf);
     if (!best) continue;
     out[j] = { ...seg, endIndex: best.end, endTimeS: t[best.end - 1], sampleCount: best.end - seg.startIndex };
     if (nxt) out[j + 1] = { ...nxt, startIndex: best.start, startTimeS: t[best.start], sampleCount: nxt.endIndex - best.start };
@@ -87,7 +94,7 @@ function levelCutRound(trace: TraceData, design: Design, layers: readonly Segmen
  * out of it. Searched at most 8 s either way (before it lie the chip change's steps), on the
  * 10 s before it.
  */
-function firstStart(trace: TraceData, design: Design, seg: Segment, notBefore: number, level: number, options: LevelCutEndOptions): Segment {
+function firstStart(trace: TraceData, design: Design, seg: Segment, notBefore: number, level: number, runVariance: number, options: LevelCutEndOptions): Segment {
   const t = trace.timeS, y = trace.signal;
   if (!(level > 0)) return seg;
   const durS = t[seg.endIndex - 1] - t[seg.startIndex];
@@ -99,7 +106,7 @@ function firstStart(trace: TraceData, design: Design, seg: Segment, notBefore: n
   while (to < seg.endIndex && t[to] <= startS + search + (options.slopeS ?? 20)) to++;
   if (from + 1 >= to) return seg;
   const outOf = STRETCH.map((k) => shapeOf(design, seg.layer, 'start', (k * design.layers[seg.layer - 1].thicknessNm) / Math.max(durS, 1e-9)));
-  const best = chosen(options.bend ?? 2, t, y, level, from, to, [t[from + 1], t[from + 1]], [startS - search, startS + search], [() => 0], outOf);
+  const best = chosen(options.bend ?? 2, runVariance, t, y, level, from, to, [t[from + 1], t[from + 1]], [startS - search, startS + search], [() => 0], outOf);
   return best ? { ...seg, startIndex: best.start, startTimeS: t[best.start], sampleCount: seg.endIndex - best.start } : seg;
 }
 
@@ -150,6 +157,24 @@ function bareChipGains(
 }
 
 /**
+ * The detector's long-run noise variance (fit/idleNoiseModel: white + AR(1), every pause's level
+ * steps pooled) from the stretches between the layers as placed and after the last. One pause
+ * (48 s on the no-layer-column demo trace, about 50 correlation times) reads it to some 30 %:
+ * there 4.1–4.7e-3 for a long-run σ of 5.3e-3 (the simulator's white 0.04 % and AR(1) 0.06 % of
+ * full scale at ρ = e^(−0.1)), and layer 4's end, cut 3 % past a turning point where the design's
+ * curve is itself nearly a quadratic in time, kept a quadratic 4 s early (its thickness 0.3 %
+ * further off); on the simulator with that noise, seed 15, one pause moved layer 2's cut 28 s.
+ * Pooled, 5.8–6.3e-3. Where a gap still holds a layer's slow start (a boundary the last round
+ * left 10 s off) it reads high, and the design's curves are kept as they are. NaN where no step is
+ * long enough.
+ */
+function pausesLongRunVariance(trace: TraceData, layers: readonly Segment[]): number {
+  const lastEnd = layers.reduce((m, l) => Math.max(m, l.endIndex), 0);
+  const noise = idleNoiseModel(trace, [...gapsBetween(layers), { startIndex: lastEnd, endIndex: trace.rowCount }]);
+  return noise ? noise.longRunSigma ** 2 : NaN;
+}
+
+/**
  * The breakpoints on the design's curves as they are, and again with a quadratic in the time from
  * each breakpoint added to each curve (`bend` terms a side); the bent fit kept where its χ² gain
  * clears Schwarz's penalty (ln n per term) in units of the readings' noise. The film's index and the
@@ -159,26 +184,26 @@ function bareChipGains(
  * the scenario's own noise the quadratics are seldom kept, where free they moved a boundary by
  * tens of seconds (n·d errors to 87 %).
  */
-function chosen(bend: number, ...args: Parameters<typeof breakpoints>): { end: number; start: number } | null {
+function chosen(bend: number, runVariance: number, ...args: Parameters<typeof breakpoints>): { end: number; start: number } | null {
   const plain = breakpoints(...args);
   if (!(bend > 0) || !plain) return plain;
   const [t, y, level, from, to, endSpan, startSpan, into, outOf] = args;
   const bent = breakpoints(t, y, level, from, to, endSpan, startSpan, into, outOf, bend);
   if (!bent) return plain;
   // The noise's scale for a slow term's χ² gain: its long-run variance σ_w² + σ_x²·(1 + ρ)/(1 − ρ)
-  // (a smooth regressor sees the noise's spectral density at zero, not its per-sample variance),
-  // white + AR(1) fitted to the variogram of the pause between the cut and the next start, where
-  // the readings are flat at the level. Second differences see (1 − ρ)(3 − ρ)/3 of an AR(1) part's
-  // variance: on a detector whose noise is correlated over ~10 samples they kept the quadratic
-  // everywhere and the boundaries left the layers. Lags to half the pause, so that a wander slower
-  // than the AR(1) part (the demo trace's rate and lamp) is counted too; capped at 40 (4 s) the
-  // no-layer-column demo trace still kept one quadratic, its layer 2 end 4 s early and n·d +0.6 %.
-  // Too short a pause: the design's curves as they are.
-  const pauseEnd = startSpan ? plain.start : to; // the run's last layer: flat to the window's end
-  const pause = Float64Array.from({ length: pauseEnd - plain.end }, (_, i) => y[plain.end + i]);
-  if (pause.length < MIN_PAUSE_SAMPLES) return plain;
-  const noise = fitAr1PlusWhite(pause, Math.floor(pause.length / 2));
-  const variance = noise.longRunSigma ** 2;
+  // (a smooth regressor sees the noise's spectral density at zero, not its per-sample variance).
+  // Second differences see (1 − ρ)(3 − ρ)/3 of an AR(1) part's variance: on a detector whose noise
+  // is correlated over ~10 samples they kept the quadratic everywhere and the boundaries left the
+  // layers. The run's pauses pooled (pausesLongRunVariance); where they tell nothing, white + AR(1)
+  // fitted to the variogram of this pause alone, lags to its half, and too short a pause: the
+  // design's curves as they are.
+  let variance = runVariance;
+  if (!(variance > 0)) {
+    const pauseEnd = startSpan ? plain.start : to; // the run's last layer: flat to the window's end
+    const pause = Float64Array.from({ length: pauseEnd - plain.end }, (_, i) => y[plain.end + i]);
+    if (pause.length < MIN_PAUSE_SAMPLES) return plain;
+    variance = fitAr1PlusWhite(pause, Math.floor(pause.length / 2)).longRunSigma ** 2;
+  }
   if (!(variance > 0)) return plain;
   const terms = (startSpan ? 2 : 1) * bend;
   return plain.cost - bent.cost > terms * Math.log(to - from) * variance ? bent : plain;

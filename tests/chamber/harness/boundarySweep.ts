@@ -2,7 +2,8 @@
 // the level-cut BBAR without a layer column, seeds 31–46, each layer's start and end as
 // segmentByDesign → placeBoundaries → levelCutEnds place them against the simulator's logged
 // times (s), with the design's curves alone (bend 0) and with levelCutEnds' default. WN sets the
-// white noise (the scenario's own 0.001 by default).
+// white noise (the scenario's own by default); ROW the scenario (by default 'no layer column, BBAR
+// level cuts'; 'no layer column, BBAR level cuts, correlated noise' has the demo B2-0588's noise).
 import { parseDesign } from '@/analysis/design';
 import { segmentByDesign } from '@/analysis/fit/designSegments';
 import { levelCutEnds } from '@/analysis/fit/levelCutEnds';
@@ -11,7 +12,7 @@ import { readTrace } from '@/analysis/trace';
 import { chamberCsvChunks, simulateChamberRun } from '..';
 import { scenarios } from '../scenarios';
 async function main() {
-  const sc = scenarios().find((s) => s.name === 'no layer column, BBAR level cuts')!;
+  const sc = scenarios().find((s) => s.name === (process.env.ROW ?? 'no layer column, BBAR level cuts'))!;
   const wn = Number(process.env.WN ?? sc.options.whiteNoise ?? 0.001);
   for (const bend of [0, 2]) {
     const errE: number[][] = [[], [], [], []], errS: number[][] = [[], [], [], []];
@@ -32,4 +33,4 @@ async function main() {
     for (let l = 0; l < 4; l++) console.log(`  L${l + 1} start ${st(errS[l])} | end ${st(errE[l])}`);
   }
 }
-main();
+main().catch((e) => { console.error(e); process.exit(1); });
