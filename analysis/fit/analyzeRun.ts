@@ -140,6 +140,7 @@ export const ANALYZE_DEFAULTS = {
   thinLayerQwot: 0.9,
   heldIndexSigma: 0.05,
   heldIndexCorrelation: 0.99,
+  heldIndexLevelCut: true,
   robustLoss: false,
   rateWander: false,
   wanderSigma: true,
@@ -396,7 +397,7 @@ async function analyzeLayers(
   // wander's choice or a thin layer's index prior (weighed by the σ of the layers before): without
   // those it carries no stack (its fits only build the stack each profile stands on).
   const stackRead = !transient.profiles || o.growthFromNext || o.rateWander
-    || order.some((l) => (4 * indexAt(design.materials[l.material], l.monitor.wavelengthNm).re * l.thicknessNm) / l.monitor.wavelengthNm < o.thinLayerQwot);
+    || order.some((l) => (4 * indexAt(design.materials[l.material], l.monitor.wavelengthNm).re * l.thicknessNm) / l.monitor.wavelengthNm < o.thinLayerQwot || (o.heldIndexLevelCut && l.monitor.cut === 'level'));
   // The wander choices take the layers in order onto one variogram pool a pass. Where nothing
   // reads a choice before the pass's end (refit, the wander not fitted), wanderPrepOf may make
   // their pool-free part elsewhere while the fits go on; the pool's part is done here, in order.
@@ -443,6 +444,8 @@ async function analyzeLayers(
     const qwotAtMonitor = (4 * nominal.re * dl.thicknessNm) / wl;
     // A thin layer gets a free trial fit; its index is held when that fit cannot separate it from the thickness.
     const thin = qwotAtMonitor < o.thinLayerQwot;
+    // Thicker level-cut layers too (option heldIndexLevelCut): a cut near the layer's turning point leaves index and thickness as entangled as a thin layer's.
+    const judged = thin || (o.heldIndexLevelCut && dl.monitor.cut === 'level');
     let heldIndex: number | null = null, heldNote: string | null = null, heldSigma = 0;
     const n = samples.tauS.length;
     if (n < 10) {
@@ -503,8 +506,8 @@ async function analyzeLayers(
     }, { robust: o.robustLoss, ...(maxIterations ? { maxIterations } : {}) });
     let single = fitSingle(sv.index, sv.rateNmPerS, fit.heldGain ?? (withPrior ? anchor : sv.gain));
     // Held also when the data tell the index less well than the run's other layers of the material do.
-    const indexPrior = thin && o.heldIndex === 'run-drift' ? driftEstimateAt(states.map(toIndexPoint), dl.material, samples.startTimeS) : null;
-    const separation = thin ? indexSeparation(single, Math.min(o.heldIndexSigma, indexPrior?.sigma ?? NOMINAL_INDEX_SIGMA), o.heldIndexCorrelation) : null;
+    const indexPrior = judged && o.heldIndex === 'run-drift' ? driftEstimateAt(states.map(toIndexPoint), dl.material, samples.startTimeS) : null;
+    const separation = judged ? indexSeparation(single, Math.min(o.heldIndexSigma, indexPrior?.sigma ?? NOMINAL_INDEX_SIGMA), o.heldIndexCorrelation) : null;
     if (separation?.hold) {
       heldIndex = nominal.re + (indexPrior?.deviation ?? 0);
       heldSigma = indexPrior?.sigma ?? NOMINAL_INDEX_SIGMA;

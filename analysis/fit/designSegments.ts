@@ -1,6 +1,6 @@
 import { type Design } from '../design';
 import { flatStretches, type FlatStretch, type Segment, type TraceData } from '../trace';
-import { expectedLevels } from './expectedLevels';
+import { expectedLevels, SHAPE_POINTS } from './expectedLevels';
 import { type BoundaryWindow } from './placeBoundaries';
 
 export interface DesignSegmentOptions {
@@ -12,6 +12,8 @@ export interface DesignSegmentOptions {
   extraFlatCost?: number;
   /** Cost of a design layer left without a segment. @default 40 */
   skipCost?: number;
+  /** Weight of the layer's shape mismatch (nine points inside it, each costed as a level). @default 1/3 */
+  shapeWeight?: number;
 }
 
 export interface DesignSegmentation {
@@ -41,14 +43,16 @@ const CAP = 9;
  * shows at each layer's start and end and at its inner turning points (fit/expectedLevels). A
  * dynamic programme picks, for layers 1…L in order, the pause before and after each so that the
  * levels at the pauses match the design (one unknown detector gain, re-estimated once from the
- * match), flat stretches inside a layer are explained by its turning points, and the chip column
+ * match), flat stretches inside a layer are explained by its turning points, the reading between
+ * the pauses follows the layer's design curve at a steady rate, and the chip column
  * (when there is one) agrees with the design's chip. A flat stretch at an extreme right after a
  * turning-point cut is thereby a pause when the levels say so, and a layer's own slow stretch near
  * an inner turning point is not. A layer the trace does not show can be skipped at a cost; it is
  * returned in `missing` (the caller fails the run naming it). A level cut's pause may be too short
  * to show as flat; the times the reading crosses the cut level are then candidates too, at a cost.
  * The costs (one unit per 2 % of full scale of level mismatch, capped at 9; 6 per unexplained flat
- * stretch; 40 per skipped layer; one unit for a rate 2.5× off the run's mean) are chosen here, not
+ * stretch; 40 per skipped layer; one unit for a rate 2.5× off the run's mean; a third of a level's
+ * cost at each of nine points of the layer's shape) are chosen here, not
  * taken from a source. The boundaries are coarse (the
  * edges of flat stretches); fit/placeBoundaries places them on the model.
  */
@@ -98,6 +102,36 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
   let flatS = 0;
   for (const f of flats) flatS += t[f.endIndex - 1] - t[f.startIndex];
   const meanRate = design.layers.reduce((a, l) => a + l.thicknessNm, 0) / Math.max(t[n - 1] - t[0] - flatS, 1e-9);
+  // The layer's shape between its pauses: the reading at nine evenly spaced times inside a
+  // candidate segment (1 s means) against the design's curve at the same fractions of the layer's
+  // thickness (a steady rate), each within ±5 % of the layer (the ramp as the shutter opens, a rate
+  // that wanders). Levels at the pauses alone cannot tell a level cut's pause, hidden in the noise,
+  // from a flat stretch further on where the next layer starts near the same level.
+  const cum = new Float64Array(n + 1);
+  for (let i = 0; i < n; i++) cum[i + 1] = cum[i] + y[i];
+  const halfWin = Math.max(1, Math.round(0.5 / Math.max((t[n - 1] - t[0]) / Math.max(n - 1, 1), 1e-9)));
+  const fractions = [0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9];
+  const bands = expected.map((e) => fractions.map((f) => {
+    let lo = Infinity, hi = -Infinity;
+    for (let i = Math.floor((f - 0.05) * SHAPE_POINTS); i <= Math.ceil((f + 0.05) * SHAPE_POINTS); i++) [lo, hi] = [Math.min(lo, e.shape[i]), Math.max(hi, e.shape[i])];
+    return [lo, hi] as const;
+  }));
+  const shapeWeight = options.shapeWeight ?? 1 / 3;
+  const shapeCost = (k: number, s: number, end: number, gain: number, tol: number): number => {
+    if (!(shapeWeight > 0)) return 0;
+    const t0 = t[s], span = t[end - 1] - t0;
+    let sum = 0, i = s;
+    for (let j = 0; j < fractions.length; j++) {
+      const at = t0 + fractions[j] * span;
+      while (i < end - 1 && t[i] < at) i++;
+      const a = Math.max(s, i - halfWin), b = Math.min(end, i + halfWin + 1);
+      const obs = (cum[b] - cum[a]) / (b - a);
+      const [lo, hi] = bands[k - 1][j];
+      const dist = obs < gain * lo ? gain * lo - obs : obs > gain * hi ? obs - gain * hi : 0;
+      sum += Math.min((dist / tol) ** 2, CAP);
+    }
+    return shapeWeight * sum;
+  };
   let best: ReturnType<typeof solve> | null = null;
   for (const g0 of gains) {
     if (!(g0 > 0) || !Number.isFinite(g0)) continue;
@@ -238,7 +272,7 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
           // a layer's rate far from the run's mean (×2.5 costs one unit) is unlikely: a fringe fragment, not a layer
           const rate = design.layers[k - 1].thicknessNm / Math.max(t[end - 1] - t[s], 1e-9);
           const durCost = Math.min((Math.log(rate / meanRate) / Math.log(2.5)) ** 2, CAP);
-          let c = prev[p] + durCost + inner + extraCost * Math.max(0, innerWeight - e.turningPointLevels.length);
+          let c = prev[p] + durCost + inner + extraCost * Math.max(0, innerWeight - e.turningPointLevels.length) + shapeCost(k, s, end, gain, tol);
           c += lvl(cands[b], e.endLevel) + pauseCost(q);
           // the pause ends where the next layer starts: the same level, or the bare new chip
           if (next) c += lvl(cands[pauses[q].last], next.startLevel);

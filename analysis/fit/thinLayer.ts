@@ -24,9 +24,11 @@ export function indexSeparation(trial: JointFitResult, maxIndexSigma: number, ma
   const e = trial.layers[0];
   const cov = trial.solver.covariance;
   const np = trial.solver.params.length;
-  // Trial layout [n, r, …]: cov(n, d) = T·cov(n, r), T from d = r·T.
+  // cov(n, d) as the fit propagated it (d = r·T + a·T²/2 + the wander's terms: a layer of ≥ 0.5 QWOT
+  // fits a rate drift a too); else, trial layout [n, r, …], cov(n, d) = T·cov(n, r), T from d = r·T.
   const T = e.rateNmPerS !== 0 ? e.thicknessNm / e.rateNmPerS : 0;
-  const correlation = e.indexSigma > 0 && e.thicknessSigmaNm > 0 ? (T * cov[1]) / (e.indexSigma * e.thicknessSigmaNm) : NaN;
+  const covND = e.ownCovariance ? e.ownCovariance.dn : T * cov[1];
+  const correlation = e.indexSigma > 0 && e.thicknessSigmaNm > 0 ? covND / (e.indexSigma * e.thicknessSigmaNm) : NaN;
   const sigma = trial.solver.wellDetermined ? e.indexSigma : NaN;
   const hold = !(sigma <= maxIndexSigma) || !(Math.abs(correlation) <= maxCorrelation) || np < 2;
   const rho = Number.isFinite(correlation) ? correlation.toFixed(3) : 'undefined';

@@ -144,6 +144,11 @@ export interface AnalyzeOptions {
   /** A thin layer's index is held when its trial fit's index–thickness |correlation| exceeds this. @default 0.99 */
   heldIndexCorrelation?: number;
   /**
+   * Level-cut layers of any thickness get the thin layers' free trial fit, and their index is held
+   * on the same rules (heldIndexCorrelation, heldIndexSigma, the run's other layers of the material). @default true
+   */
+  heldIndexLevelCut?: boolean;
+  /**
    * Huber's loss in every fit, so spikes and outliers count less (fit/solver/huber.ts). Off by
    * default: the fits work on bin means, which dilute short spikes, and on the chamber simulator's
    * spiky traces Huber changed the errors by < 0.03 % while its 5 % efficiency loss cost the

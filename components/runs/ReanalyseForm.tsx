@@ -78,7 +78,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     if (form.get('levelCutGain') !== 'on') settings.levelCutGain = 'free';
     if (form.get('reflectanceChipGain') !== 'on') settings.reflectanceChipGain = false;
     for (const key of ['rateWander', 'indexGradient', 'stackFromLayer'] as const) if (form.get(key) === 'on') settings[key] = true;
-    for (const key of ['growthFromNext', 'levelGrowthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'fitOnFinalStack', 'fitWithNextLayer', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
+    for (const key of ['growthFromNext', 'levelGrowthFromNext', 'startTransient', 'holdUncarriedDrift', 'turningPointExcessMean', 'pooledIndex', 'heldIndexLevelCut', 'fitOnFinalStack', 'fitWithNextLayer', 'lampReference'] as const) if (form.get(key) !== 'on') settings[key] = false;
     const res = await fetch(`/api/runs/${runId}/analyses`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(settings) });
     const body = (await res.json().catch(() => ({}))) as Answer;
     if (res.status === 201 && body.analysis) {
@@ -196,6 +196,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="pooledIndex" defaultChecked /> Read each material&apos;s indices together (a layer&apos;s index from its material&apos;s trend across the run and its own reading; n·d kept)
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="checkbox" name="heldIndexLevelCut" defaultChecked /> Judge every level-cut layer&apos;s index as a thin layer&apos;s: held at its material&apos;s reading from the run where the layer&apos;s own data tell it less well
           </label>
           <label className="flex items-center gap-2">
             <input type="checkbox" name="levelGrowthFromNext" defaultChecked /> Joint re-fit: read a level cut&apos;s growth after the cut again from the next layer&apos;s start where that layer is a turning-point cut (as after a turning-point cut)

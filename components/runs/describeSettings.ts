@@ -33,6 +33,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.levelGrowthFromNext === false) parts.push('growth after level cuts from the idle level only');
   if (s.turningPointExcessMean === false) parts.push('turning-point cuts placed on the turning point');
   if (s.pooledIndex === false) parts.push('each index read alone');
+  if (s.heldIndexLevelCut === false) parts.push('thick level-cut layers\' indices always free');
   if (s.fitOnFinalStack === false) parts.push('each layer fitted once');
   if (s.fitWithNextLayer === false) parts.push('each level cut fitted alone');
   if (s.stackFromLayer === true) parts.push('stack below read again with each layer');

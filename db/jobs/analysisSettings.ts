@@ -34,6 +34,7 @@ export const analysisSettingsSchema = z
     turningPointOvershootPct: z.number().min(0).max(10).optional(),
     turningPointExcessMean: z.boolean().optional(),
     pooledIndex: z.boolean().optional(),
+    heldIndexLevelCut: z.boolean().optional(),
     fitOnFinalStack: z.boolean().optional(),
     fitWithNextLayer: z.boolean().optional(),
     stackFromLayer: z.boolean().optional(),

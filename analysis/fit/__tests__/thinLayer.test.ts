@@ -47,7 +47,45 @@ function trial(sigmaN: number, rho: number, wellDetermined = true): JointFitResu
   };
 }
 
+/**
+ * A trial fit of a layer that also fits a rate drift a, parameters [n, r, a, g], d = r·T + a·T²/2,
+ * with the (n, d) covariance propagated as fitLayers does (ownCovariance). Rate and drift trade
+ * against each other in such a fit (here ρ(r, a) = −0.9), so T·cov(n, r) alone is not cov(n, d).
+ */
+function trialWithDrift(): { fit: JointFitResult; rho: number } {
+  const T = 400, r = 0.25;
+  const s = [0.004, 0.002, 1e-5, 1e-4];
+  const rho = [[1, 0.6, -0.5, 0], [0.6, 1, -0.9, 0], [-0.5, -0.9, 1, 0], [0, 0, 0, 1]];
+  const cov = new Float64Array(16);
+  for (let i = 0; i < 4; i++) for (let j = 0; j < 4; j++) cov[i * 4 + j] = rho[i][j] * s[i] * s[j];
+  const g = [0, T, T * T / 2];
+  let dd = 0, dn = 0;
+  for (let i = 1; i < 3; i++) {
+    dn += g[i] * cov[i * 4];
+    for (let j = 1; j < 3; j++) dd += g[i] * g[j] * cov[i * 4 + j];
+  }
+  const layer = { ...estimate(2.1, r * T, { n: s[0], d: Math.sqrt(dd), nd: 0 }), rateNmPerS: r, ownCovariance: { dd, nn: s[0] ** 2, dn } };
+  return {
+    rho: dn / (s[0] * Math.sqrt(dd)),
+    fit: {
+      layers: [layer], sharedGain: null,
+      solver: {
+        params: new Float64Array([2.1, r, 0, 1]), sigma: new Float64Array(4), covariance: cov, ssr: 0, dof: 100, residualRms: 0, iterations: 5,
+        converged: true, reason: 'cost', wellDetermined: true, residuals: new Float64Array(0), weights: null,
+      },
+    },
+  };
+}
+
 describe("whether a thin layer's index is held", () => {
+  it('reads cov(n, d) with the rate drift in d where the trial fits one (a layer of ≥ 0.5 QWOT)', () => {
+    const { fit, rho } = trialWithDrift();
+    const c = indexSeparation(fit, 0.02, 0.99).correlation;
+    // ρ = 0.22; T·cov(n, r)/(σn·σd) alone would read 1.34, not a correlation at all
+    expect(Math.abs(rho)).toBeLessThan(1);
+    expect(c).toBeCloseTo(rho, 12);
+  });
+
   it('reads the index–thickness correlation of the trial fit: cov(n, d) = T·cov(n, r)', () => {
     expect(indexSeparation(trial(0.01, 0.5), 0.02, 0.99).correlation).toBeCloseTo(0.5, 12);
     expect(indexSeparation(trial(0.01, -0.995), 0.02, 0.99).correlation).toBeCloseTo(-0.995, 12);

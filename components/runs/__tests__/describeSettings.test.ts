@@ -25,6 +25,7 @@ describe('analysis settings', () => {
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', levelGrowthFromNext: false }))).toBe('refit · growth after level cuts from the idle level only');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', levelGrowthFromNext: true }))).toBe('refit');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitOnFinalStack: false }))).toBe('sequential · each layer fitted once');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', heldIndexLevelCut: false }))).toBe('refit · thick level-cut layers\' indices always free');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitWithNextLayer: false }))).toBe('sequential · each level cut fitted alone');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', fitWithNextLayer: true }))).toBe('sequential');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', stackFromLayer: true }))).toBe('sequential · stack below read again with each layer');
