@@ -1,6 +1,11 @@
 import { monitorCurve, type Design } from '../design';
 import { type Segment, type TraceData } from '../trace';
 import { expectedLevels } from './expectedLevels';
+import { fitAr1PlusWhite } from '../stats/correlatedNoise';
+import { gapsBetween, idleNoiseModel } from './idleNoiseModel';
+
+/** The fewest pause readings whose variogram sets the noise's scale for the bent curves where the run's pauses tell nothing (see chosen). */
+const MIN_PAUSE_SAMPLES = 20;
 
 export interface LevelCutEndOptions {
   /** How far either way of the placed boundary the cut and the next start are searched, s. @default 40 */
@@ -11,6 +16,12 @@ export interface LevelCutEndOptions {
   searchFraction?: number;
   /** Rounds (each layer's rate from the last round's boundaries). @default 3 */
   rounds?: number;
+  /**
+   * Powers of the time from a breakpoint added to each design curve where the readings show them
+   * (Schwarz's criterion; `chosen`): the film's curve near the cut is not the design's. 0: the
+   * design's curves alone. From the second round on (see levelCutEnds). @default 2
+   */
+  bend?: number;
 }
 
 /**
@@ -28,7 +39,12 @@ export interface LevelCutEndOptions {
  */
 export function levelCutEnds(trace: TraceData, design: Design, layers: readonly Segment[], gain: number, options: LevelCutEndOptions = {}): Segment[] {
   let out = layers.map((s) => ({ ...s }));
-  for (let round = 0; round < (options.rounds ?? 3); round++) out = levelCutRound(trace, design, out, gain, options);
+  // The bent curves from the second round on: the first round's rates come from the boundaries
+  // placed before (fit/placeBoundaries), on the no-layer-column demo trace 25–28 s off around
+  // layer 2's end, a rate beyond the curves' ±15 % stretches, and there the quadratic took up the
+  // wrong stretch, not the film's curve (a χ² gain of 30 long-run variances, kept): the end it
+  // moved set the next rounds' rates, and those rounds' plain fits landed elsewhere.
+  for (let round = 0; round < (options.rounds ?? 3); round++) out = levelCutRound(trace, design, out, gain, round === 0 ? { ...options, bend: 0 } : options);
   return out;
 }
 
@@ -40,11 +56,12 @@ function levelCutRound(trace: TraceData, design: Design, layers: readonly Segmen
   const t = trace.timeS, y = trace.signal;
   const expected = expectedLevels(design);
   const chipGain = bareChipGains(t, y, out, expected, gain);
+  const runVariance = (options.bend ?? 2) > 0 ? pausesLongRunVariance(trace, out) : NaN;
   for (let j = 0; j < out.length; j++) {
     const seg = out[j];
     const dl = design.layers[seg.layer - 1];
     if (!dl || dl.monitor.cut !== 'level') continue;
-    if (j === 0 || out[j - 1].chip !== seg.chip) out[j] = firstStart(trace, design, seg, j > 0 ? out[j - 1].endIndex : 0, (chipGain.get(seg.chip) ?? gain) * expected[seg.layer - 1].startLevel, options);
+    if (j === 0 || out[j - 1].chip !== seg.chip) out[j] = firstStart(trace, design, seg, j > 0 ? out[j - 1].endIndex : 0, (chipGain.get(seg.chip) ?? gain) * expected[seg.layer - 1].startLevel, runVariance, options);
     const nxt = j + 1 < out.length && out[j + 1].layer === seg.layer + 1 && out[j + 1].chip === seg.chip ? out[j + 1] : null;
     const g = chipGain.get(seg.chip) ?? gain;
     if (!(g > 0)) continue;
@@ -64,7 +81,7 @@ function levelCutRound(trace: TraceData, design: Design, layers: readonly Segmen
     const rate = dl.thicknessNm / Math.max(durS, 1e-9);
     const into = STRETCH.map((k) => shapeOf(design, seg.layer, 'end', k * rate));
     const outOf = nxt ? STRETCH.map((k) => shapeOf(design, nxt.layer, 'start', (k * design.layers[nxt.layer - 1].thicknessNm) / Math.max(nextDurS, 1e-9))) : null;
-    const best = breakpoints(t, y, level, from, to, [endS - search, endS + search], nxt ? [startS - search, startS + search] : null, into, outOf);
+    const best = chosen(options.bend ?? 2, runVariance, t, y, level, from, to, [endS - search, endS + search], nxt ? [startS - search, startS + search] : null, into, outOf);
     if (!best) continue;
     out[j] = { ...seg, endIndex: best.end, endTimeS: t[best.end - 1], sampleCount: best.end - seg.startIndex };
     if (nxt) out[j + 1] = { ...nxt, startIndex: best.start, startTimeS: t[best.start], sampleCount: nxt.endIndex - best.start };
@@ -77,7 +94,7 @@ function levelCutRound(trace: TraceData, design: Design, layers: readonly Segmen
  * out of it. Searched at most 8 s either way (before it lie the chip change's steps), on the
  * 10 s before it.
  */
-function firstStart(trace: TraceData, design: Design, seg: Segment, notBefore: number, level: number, options: LevelCutEndOptions): Segment {
+function firstStart(trace: TraceData, design: Design, seg: Segment, notBefore: number, level: number, runVariance: number, options: LevelCutEndOptions): Segment {
   const t = trace.timeS, y = trace.signal;
   if (!(level > 0)) return seg;
   const durS = t[seg.endIndex - 1] - t[seg.startIndex];
@@ -89,7 +106,7 @@ function firstStart(trace: TraceData, design: Design, seg: Segment, notBefore: n
   while (to < seg.endIndex && t[to] <= startS + search + (options.slopeS ?? 20)) to++;
   if (from + 1 >= to) return seg;
   const outOf = STRETCH.map((k) => shapeOf(design, seg.layer, 'start', (k * design.layers[seg.layer - 1].thicknessNm) / Math.max(durS, 1e-9)));
-  const best = breakpoints(t, y, level, from, to, [t[from + 1], t[from + 1]], [startS - search, startS + search], [() => 0], outOf);
+  const best = chosen(options.bend ?? 2, runVariance, t, y, level, from, to, [t[from + 1], t[from + 1]], [startS - search, startS + search], [() => 0], outOf);
   return best ? { ...seg, startIndex: best.start, startTimeS: t[best.start], sampleCount: seg.endIndex - best.start } : seg;
 }
 
@@ -140,6 +157,59 @@ function bareChipGains(
 }
 
 /**
+ * The detector's long-run noise variance (fit/idleNoiseModel: white + AR(1), every pause's level
+ * steps pooled) from the stretches between the layers as placed and after the last. One pause
+ * (48 s on the no-layer-column demo trace, about 50 correlation times) reads it to some 30 %:
+ * there 4.1–4.7e-3 for a long-run σ of 5.3e-3 (the simulator's white 0.04 % and AR(1) 0.06 % of
+ * full scale at ρ = e^(−0.1)), and layer 4's end, cut 3 % past a turning point where the design's
+ * curve is itself nearly a quadratic in time, kept a quadratic 4 s early (its thickness 0.3 %
+ * further off); on the simulator with that noise, seed 15, one pause moved layer 2's cut 28 s.
+ * Pooled, 5.8–6.3e-3. Where a gap still holds a layer's slow start (a boundary the last round
+ * left 10 s off) it reads high, and the design's curves are kept as they are. NaN where no step is
+ * long enough.
+ */
+function pausesLongRunVariance(trace: TraceData, layers: readonly Segment[]): number {
+  const lastEnd = layers.reduce((m, l) => Math.max(m, l.endIndex), 0);
+  const noise = idleNoiseModel(trace, [...gapsBetween(layers), { startIndex: lastEnd, endIndex: trace.rowCount }]);
+  return noise ? noise.longRunSigma ** 2 : NaN;
+}
+
+/**
+ * The breakpoints on the design's curves as they are, and again with a quadratic in the time from
+ * each breakpoint added to each curve (`bend` terms a side); the bent fit kept where its χ² gain
+ * clears Schwarz's penalty (ln n per term) in units of the readings' noise. The film's index and the
+ * stack below are not the design's, so its curve into and out of the cut level is not the design's
+ * scaled and stretched: on the chamber simulator's BBAR at white noise 1e-5 (no layer column) the
+ * curves' misfit moved the cuts 0.3–0.7 s (layer 2's cut 0.7 s early, n·d of layer 1 −1.5 %); at
+ * the scenario's own noise the quadratics are seldom kept, where free they moved a boundary by
+ * tens of seconds (n·d errors to 87 %).
+ */
+function chosen(bend: number, runVariance: number, ...args: Parameters<typeof breakpoints>): { end: number; start: number } | null {
+  const plain = breakpoints(...args);
+  if (!(bend > 0) || !plain) return plain;
+  const [t, y, level, from, to, endSpan, startSpan, into, outOf] = args;
+  const bent = breakpoints(t, y, level, from, to, endSpan, startSpan, into, outOf, bend);
+  if (!bent) return plain;
+  // The noise's scale for a slow term's χ² gain: its long-run variance σ_w² + σ_x²·(1 + ρ)/(1 − ρ)
+  // (a smooth regressor sees the noise's spectral density at zero, not its per-sample variance).
+  // Second differences see (1 − ρ)(3 − ρ)/3 of an AR(1) part's variance: on a detector whose noise
+  // is correlated over ~10 samples they kept the quadratic everywhere and the boundaries left the
+  // layers. The run's pauses pooled (pausesLongRunVariance); where they tell nothing, white + AR(1)
+  // fitted to the variogram of this pause alone, lags to its half, and too short a pause: the
+  // design's curves as they are.
+  let variance = runVariance;
+  if (!(variance > 0)) {
+    const pauseEnd = startSpan ? plain.start : to; // the run's last layer: flat to the window's end
+    const pause = Float64Array.from({ length: pauseEnd - plain.end }, (_, i) => y[plain.end + i]);
+    if (pause.length < MIN_PAUSE_SAMPLES) return plain;
+    variance = fitAr1PlusWhite(pause, Math.floor(pause.length / 2)).longRunSigma ** 2;
+  }
+  if (!(variance > 0)) return plain;
+  const terms = (startSpan ? 2 : 1) * bend;
+  return plain.cost - bent.cost > terms * Math.log(to - from) * variance ? bent : plain;
+}
+
+/**
  * Samples [from, to): the readings reach `level` on the layer's design curve (`into`, a scale ≥ 0
  * fitted: the slope's sign is the design's, so the level is not taken where it is crossed the
  * other way) over [from, e), stay flat at it over [e, s), and leave it on the next layer's curve
@@ -150,8 +220,8 @@ function bareChipGains(
 function breakpoints(
   t: ArrayLike<number>, y: ArrayLike<number>, level: number, from: number, to: number,
   endSpan: [number, number], startSpan: [number, number] | null,
-  into: readonly ((dtS: number) => number)[], outOf: readonly ((dtS: number) => number)[] | null,
-): { end: number; start: number } | null {
+  into: readonly ((dtS: number) => number)[], outOf: readonly ((dtS: number) => number)[] | null, bend = 0,
+): { end: number; start: number; cost: number } | null {
   const n = to - from;
   if (n < 20) return null;
   const RR = new Float64Array(n + 1);
@@ -167,6 +237,43 @@ function breakpoints(
     }
     return !(ff > 0) || rf < 0 ? flat(a, b) + (rf < 0 ? Infinity : 0) : flat(a, b) - (rf * rf) / ff;
   };
+  // r ≈ a·f + b₁·u + … + b_bend·u^bend over [a, b), u the time from the breakpoint (per 10 s), a ≥ 0:
+  // the residual (normal equations by Gaussian elimination; at most 3 × 3)
+  const bentScaled = (a: number, b: number, f: (i: number) => number, u: (i: number) => number): number => {
+    if (bend === 0) return scaled(a, b, f);
+    const m = bend + 1;
+    const N = new Float64Array(m * m), r = new Float64Array(m), v = new Float64Array(m);
+    for (let i = a; i < b; i++) {
+      const x = u(i) / 10;
+      v[0] = f(i);
+      for (let p = 1; p < m; p++) v[p] = p === 1 ? x : v[p - 1] * x;
+      const ri = y[from + i] - level;
+      for (let p = 0; p < m; p++) {
+        r[p] += v[p] * ri;
+        for (let q = 0; q < m; q++) N[p * m + q] += v[p] * v[q];
+      }
+    }
+    const A = Array.from(N), c = Array.from(r);
+    for (let k = 0; k < m; k++) {
+      const piv = A[k * m + k];
+      if (!(Math.abs(piv) > 1e-300)) return flat(a, b);
+      for (let i2 = k + 1; i2 < m; i2++) {
+        const fct = A[i2 * m + k] / piv;
+        for (let j2 = k; j2 < m; j2++) A[i2 * m + j2] -= fct * A[k * m + j2];
+        c[i2] -= fct * c[k];
+      }
+    }
+    const sol = new Array(m).fill(0);
+    for (let k = m - 1; k >= 0; k--) {
+      let sum = c[k];
+      for (let j2 = k + 1; j2 < m; j2++) sum -= A[k * m + j2] * sol[j2];
+      sol[k] = sum / A[k * m + k];
+    }
+    if (sol[0] < 0) return Infinity;
+    let red = 0;
+    for (let p = 0; p < m; p++) red += sol[p] * r[p];
+    return flat(a, b) - red;
+  };
   const inside = (i: number, span: [number, number]) => t[from + i] >= span[0] && t[from + i] <= span[1];
   // the cost of the readings before each trial end, and after each trial start (computed as asked for)
   const before = new Float64Array(n + 1).fill(NaN), after = new Float64Array(n + 1).fill(NaN);
@@ -174,7 +281,7 @@ function breakpoints(
     if (Number.isNaN(before[e])) {
       const te = t[from + e];
       before[e] = Infinity;
-      for (const f of into) before[e] = Math.min(before[e], scaled(0, e, (i) => f(te - t[from + i])));
+      for (const f of into) before[e] = Math.min(before[e], bentScaled(0, e, (i) => f(te - t[from + i]), (i) => te - t[from + i]));
     }
     return before[e];
   };
@@ -182,24 +289,24 @@ function breakpoints(
     if (Number.isNaN(after[s])) {
       const ts = t[from + s];
       after[s] = Infinity;
-      for (const f of outOf!) after[s] = Math.min(after[s], scaled(s, n, (i) => f(t[from + i] - ts)));
+      for (const f of outOf!) after[s] = Math.min(after[s], bentScaled(s, n, (i) => f(t[from + i] - ts), (i) => t[from + i] - ts));
     }
     return after[s];
   };
   // every `step`-th pair over the spans, then every pair within a step of the best
   const pass = (step: number, e0: number, e1: number, s0: number, s1: number) => {
-    let found: { end: number; start: number } | null = null, foundCost = Infinity;
+    let found: { end: number; start: number; cost: number } | null = null, foundCost = Infinity;
     for (let e = Math.max(1, e0); e <= Math.min(n - 1, e1); e += step) {
       if (!inside(e, endSpan) || !Number.isFinite(costBefore(e))) continue;
       if (!startSpan || !outOf) {
         const c = before[e] + flat(e, n);
-        if (c < foundCost) [found, foundCost] = [{ end: e, start: e }, c];
+        if (c < foundCost) [found, foundCost] = [{ end: e, start: e, cost: c }, c];
         continue;
       }
       for (let s = Math.max(e, s0); s <= Math.min(n - 2, s1); s += step) {
         if (!inside(s, startSpan) || !Number.isFinite(costAfter(s))) continue;
         const c = before[e] + flat(e, s) + after[s];
-        if (c < foundCost) [found, foundCost] = [{ end: e, start: s }, c];
+        if (c < foundCost) [found, foundCost] = [{ end: e, start: s, cost: c }, c];
       }
     }
     return found;
@@ -209,6 +316,6 @@ function breakpoints(
   const coarse = pass(stride, 1, n - 1, 1, n - 2);
   if (!coarse) return null;
   const fine = stride > 1 ? pass(1, coarse.end - stride, coarse.end + stride, coarse.start - stride, coarse.start + stride) ?? coarse : coarse;
-  const best = { end: from + fine.end, start: from + fine.start };
+  const best = { end: from + fine.end, start: from + fine.start, cost: fine.cost };
   return best;
 }
