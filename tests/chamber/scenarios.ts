@@ -179,10 +179,10 @@ export function scenarios(): Scenario[] {
       name: 'no layer column, BBAR level cuts', about: 'four-layer AR cut on level, white noise 0.1 %, no layer column',
       design: bbarDesign(), seeds: [33, 34], targets: NO_LAYER_TARGETS,
       options: { ...RATES, whiteNoise: 0.001, indexOffset: { H: -0.01 }, columns: { layer: false } },
-      // Seeds 11–26, with each candidate layer's shape in the segmentation (fit/designSegments.ts):
-      // sequential every layer ≥ 0.5 QWOT within 1.06 % (2.26 % before; layer 2, 0.41 QWOT, 3.99 →
-      // 1.03 %), refit within 1.97 % (1.09 % before: seed 16's layer 4, index +0.016 at z 0.6, moved
-      // by boundaries 0.2–0.3 s apart).
+      // Seeds 11–26, with each candidate layer's shape in the segmentation (fit/designSegments.ts)
+      // and the level cuts' bent curves (fit/levelCutEnds.ts): sequential every layer ≥ 0.5 QWOT
+      // within 1.06 % (2.26 % before; layer 2, 0.41 QWOT, 3.99 → 1.03 %), refit within 1.83 %
+      // (1.09 % before: seed 16's layer 4, index +0.016 at z 0.6, moved by boundaries 0.2–0.3 s apart).
       modes: both({ status: 'target' }),
     },
     {
