@@ -120,10 +120,13 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
   const shapeCost = (k: number, s: number, end: number, gain: number, tol: number): number => {
     if (!(shapeWeight > 0)) return 0;
     const t0 = t[s], span = t[end - 1] - t0;
-    let sum = 0, i = s;
+    let sum = 0;
     for (let j = 0; j < fractions.length; j++) {
       const at = t0 + fractions[j] * span;
+      // the first sample at or after `at`: from where even sampling puts it, a few steps at most
+      let i = s + Math.round(fractions[j] * (end - 1 - s));
       while (i < end - 1 && t[i] < at) i++;
+      while (i > s && t[i - 1] >= at) i--;
       const a = Math.max(s, i - halfWin), b = Math.min(end, i + halfWin + 1);
       const obs = (cum[b] - cum[a]) / (b - a);
       const [lo, hi] = bands[k - 1][j];
@@ -272,11 +275,13 @@ export function segmentByDesign(trace: TraceData, design: Design, options: Desig
           // a layer's rate far from the run's mean (×2.5 costs one unit) is unlikely: a fringe fragment, not a layer
           const rate = design.layers[k - 1].thicknessNm / Math.max(t[end - 1] - t[s], 1e-9);
           const durCost = Math.min((Math.log(rate / meanRate) / Math.log(2.5)) ** 2, CAP);
-          let c = prev[p] + durCost + inner + extraCost * Math.max(0, innerWeight - e.turningPointLevels.length) + shapeCost(k, s, end, gain, tol);
+          let c = prev[p] + durCost + inner + extraCost * Math.max(0, innerWeight - e.turningPointLevels.length);
           c += lvl(cands[b], e.endLevel) + pauseCost(q);
           // the pause ends where the next layer starts: the same level, or the bare new chip
           if (next) c += lvl(cands[pauses[q].last], next.startLevel);
           if (trace.chip && trace.chip[(s + end) >> 1] !== e.chip) c += 4 * CAP;
+          // the shape last: it only adds, so a candidate already dearer than the best needs none
+          if (c < cur[q]) c += shapeCost(k, s, end, gain, tol);
           if (c < cur[q]) {
             cur[q] = c;
             arg[q] = p;
