@@ -206,8 +206,18 @@ function chosen(bend: number, runVariance: number, ...args: Parameters<typeof br
   }
   if (!(variance > 0)) return plain;
   const terms = (startSpan ? 2 : 1) * bend;
-  return plain.cost - bent.cost > terms * Math.log(to - from) * variance ? bent : plain;
+  if (!(plain.cost - bent.cost > terms * Math.log(to - from) * variance)) return plain;
+  // The curves' misfit that the bend is for (the film's index and the stack below, the curves
+  // already stretched ±15 %) moved the boundaries by 0.7 s at most on quiet traces; a rate that
+  // wanders also bends the readings in time, and there the bent breakpoints float (a 5 % wander
+  // over 20 s, seed 101 of the correlated-noise BBAR: layer 2's cut 24 s early, refit −21 %). A
+  // bent boundary more than MAX_BEND_SHIFT_S from the plain one is taken as that, not the film.
+  const shift = Math.max(Math.abs(t[bent.end - 1] - t[plain.end - 1]), startSpan ? Math.abs(t[bent.start] - t[plain.start]) : 0);
+  return shift <= MAX_BEND_SHIFT_S ? bent : plain;
 }
+
+/** The most a bent curve may move a boundary from the design curves' placement, s (see chosen; 0.7 s seen, chosen here with a margin). */
+const MAX_BEND_SHIFT_S = 2;
 
 /**
  * Samples [from, to): the readings reach `level` on the layer's design curve (`into`, a scale ≥ 0
