@@ -485,11 +485,8 @@ function readRows(
   let r = rowState[0], prevTime = rowState[1], maxLayer = rowState[2], timeStart = rowState[3], timeEnd = rowState[4];
   let capacity = time0.data.length;
   while (r < maxRows) {
-    // the line's end by a plain loop: a Buffer's indexOf is a call into C++ per row, about a
-    // tenth of the read's time on a short line
-    let nl = lineStart;
-    while (nl < end && bytes[nl] !== 10) nl++;
-    if (nl >= end) break;
+    const nl = bytes.indexOf(10, lineStart);
+    if (nl < 0 || nl >= end) break;
     const stopAt = nl > lineStart && bytes[nl - 1] === 13 ? nl - 1 : nl;
     if (r >= capacity) {
       for (const c of columns) c?.grow();
