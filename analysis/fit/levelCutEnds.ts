@@ -1,6 +1,7 @@
 import { monitorCurve, type Design } from '../design';
 import { type Segment, type TraceData } from '../trace';
-import { expectedLevels } from './expectedLevels';
+import { solveDense } from '../trace/polyFit';
+import { expectedLevels, type ExpectedLayer } from './expectedLevels';
 import { fitAr1PlusWhite } from '../stats/correlatedNoise';
 import { gapsBetween, idleNoiseModel } from './idleNoiseModel';
 
@@ -44,17 +45,19 @@ export function levelCutEnds(trace: TraceData, design: Design, layers: readonly 
   // layer 2's end, a rate beyond the curves' ±15 % stretches, and there the quadratic took up the
   // wrong stretch, not the film's curve (a χ² gain of 30 long-run variances, kept): the end it
   // moved set the next rounds' rates, and those rounds' plain fits landed elsewhere.
-  for (let round = 0; round < (options.rounds ?? 3); round++) out = levelCutRound(trace, design, out, gain, round === 0 ? { ...options, bend: 0 } : options);
+  const expected = expectedLevels(design);
+  for (let round = 0; round < (options.rounds ?? 3); round++) out = levelCutRound(trace, design, expected, out, gain, round === 0 ? { ...options, bend: 0 } : options);
   return out;
 }
 
 /** Time stretches of the design curves tried: the film's rate and index are not the design's. */
 const STRETCH = [0.85, 0.925, 1, 1.075, 1.15];
 
-function levelCutRound(trace: TraceData, design: Design, layers: readonly Segment[], gain: number, options: LevelCutEndOptions): Segment[] {
+function levelCutRound(
+  trace: TraceData, design: Design, expected: readonly ExpectedLayer[], layers: readonly Segment[], gain: number, options: LevelCutEndOptions,
+): Segment[] {
   const out = layers.map((s) => ({ ...s }));
   const t = trace.timeS, y = trace.signal;
-  const expected = expectedLevels(design);
   const chipGain = bareChipGains(t, y, out, expected, gain);
   const runVariance = (options.bend ?? 2) > 0 ? pausesLongRunVariance(trace, out) : NaN;
   for (let j = 0; j < out.length; j++) {
@@ -248,7 +251,7 @@ function breakpoints(
     return !(ff > 0) || rf < 0 ? flat(a, b) + (rf < 0 ? Infinity : 0) : flat(a, b) - (rf * rf) / ff;
   };
   // r ≈ a·f + b₁·u + … + b_bend·u^bend over [a, b), u the time from the breakpoint (per 10 s), a ≥ 0:
-  // the residual (normal equations by Gaussian elimination; at most 3 × 3)
+  // the residual from the normal equations (at most 3 × 3)
   const bentScaled = (a: number, b: number, f: (i: number) => number, u: (i: number) => number): number => {
     if (bend === 0) return scaled(a, b, f);
     const m = bend + 1;
@@ -263,22 +266,8 @@ function breakpoints(
         for (let q = 0; q < m; q++) N[p * m + q] += v[p] * v[q];
       }
     }
-    const A = Array.from(N), c = Array.from(r);
-    for (let k = 0; k < m; k++) {
-      const piv = A[k * m + k];
-      if (!(Math.abs(piv) > 1e-300)) return flat(a, b);
-      for (let i2 = k + 1; i2 < m; i2++) {
-        const fct = A[i2 * m + k] / piv;
-        for (let j2 = k; j2 < m; j2++) A[i2 * m + j2] -= fct * A[k * m + j2];
-        c[i2] -= fct * c[k];
-      }
-    }
-    const sol = new Array(m).fill(0);
-    for (let k = m - 1; k >= 0; k--) {
-      let sum = c[k];
-      for (let j2 = k + 1; j2 < m; j2++) sum -= A[k * m + j2] * sol[j2];
-      sol[k] = sum / A[k * m + k];
-    }
+    const sol = solveDense(N, r.slice(), m);
+    if (!sol) return flat(a, b);
     if (sol[0] < 0) return Infinity;
     let red = 0;
     for (let p = 0; p < m; p++) red += sol[p] * r[p];
