@@ -20,8 +20,15 @@ export function assertEqual<T>(actual: T, expected: T, what: string): void {
   if (a !== e) throw new Error(`${what}: expected ${e}, got ${a}`);
 }
 
+/**
+ * A screenshot to look at, not a check: it gets more time than the 10 s of an action, since a
+ * full-page capture of a page of plots can take longer while the analysis worker fills both
+ * cores (a fresh machine's first run timed out here once).
+ */
+export const SHOT_TIMEOUT_MS = 45_000;
+
 export async function shot(page: Page, name: string): Promise<void> {
-  await page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true });
+  await page.screenshot({ path: path.join(shots, `${name}.png`), fullPage: true, timeout: SHOT_TIMEOUT_MS });
 }
 
 export async function signInAs(page: Page, role: string): Promise<void> {

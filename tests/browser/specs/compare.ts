@@ -1,4 +1,4 @@
-import { baseUrl, assert, assertEqual, shot, signInAs, test } from '../harness';
+import { baseUrl, assert, assertEqual, shot, SHOT_TIMEOUT_MS, signInAs, test } from '../harness';
 import { ComparePage, Shell } from '../pages';
 
 /** The figure shown first in a group-table cell: the signed mean. */
@@ -46,7 +46,7 @@ test('compare: the night shift cuts layer 3 of the broadband AR late, and the ch
   await page.getByRole('heading', { name: 'Compare runs' }).waitFor();
   await shot(page, 'compare-phone');
   await page.getByTestId('compare-by-shift').scrollIntoViewIfNeeded();
-  await page.screenshot({ path: 'tests/screenshots/compare-phone-shift-table.png' });
+  await page.screenshot({ path: 'tests/screenshots/compare-phone-shift-table.png', timeout: SHOT_TIMEOUT_MS });
 });
 
 test('compare: an operator may look, a bad address says what is wrong', async (page) => {
