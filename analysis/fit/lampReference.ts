@@ -1,8 +1,6 @@
-import { referenceRatio, type TraceData } from '../trace';
+import { referenceRatio, referenceWindowS, type TraceData } from '../trace';
 import { type AnalyzeOptions } from './types';
 
-/** The reference's running mean, s: long against its white noise, short against the lamp's drift (a choice here). */
-export const REFERENCE_WINDOW_S = 20;
 
 /**
  * The gain drift's prior σ left once the signal is divided by the reference, fraction per hour:
@@ -13,7 +11,8 @@ export const REFERENCE_STABILITY_PER_HOUR = 0.001;
 
 /**
  * A trace with a lamp reference column (option lampReference, on by default): the signal divided
- * by the reference smoothed and normalised to its run median (trace/referenceRatio.ts), and the
+ * by the reference smoothed (over the window trace/referenceRatio.ts referenceWindowS picks) and
+ * normalised to its run median (trace/referenceRatio.ts), and the
  * lamp drift's prior tightened to what the ratio leaves (REFERENCE_STABILITY_PER_HOUR, unless
  * lampStabilityPerHour is given), with a note. The start-up on level cuts (option
  * levelStartTransient) is then on unless set: it was left off because a false start delay read
@@ -27,7 +26,9 @@ export const REFERENCE_STABILITY_PER_HOUR = 0.001;
  */
 export function withLampReference(trace: TraceData, options: AnalyzeOptions): { trace: TraceData; options: AnalyzeOptions; note: string | null; lamp?: Float64Array } {
   if (!trace.reference || options.lampReference === false) return { trace, options, note: null };
-  const { signal, lamp } = referenceRatio(trace.timeS, trace.signal, trace.reference, REFERENCE_WINDOW_S);
+  // The window: long against the reference's white noise, short against what the lamp does (trace/referenceRatio.ts).
+  const { windowS } = referenceWindowS(trace.timeS, trace.reference);
+  const { signal, lamp } = referenceRatio(trace.timeS, trace.signal, trace.reference, windowS);
   const stability = options.lampStabilityPerHour ?? REFERENCE_STABILITY_PER_HOUR;
   return {
     trace: { ...trace, signal },
@@ -36,6 +37,6 @@ export function withLampReference(trace: TraceData, options: AnalyzeOptions): { 
       ...options, lampStabilityPerHour: stability, levelStartTransient: options.levelStartTransient ?? true,
       sequentialLevelClock: options.sequentialLevelClock ?? true,
     },
-    note: `signal divided by the lamp reference column (its ${REFERENCE_WINDOW_S} s running mean over its run median); lamp drift prior ${+(stability * 100).toFixed(3)} %/h`,
+    note: `signal divided by the lamp reference column (its ${windowS} s running mean over its run median, the window chosen by Mallows' C_L); lamp drift prior ${+(stability * 100).toFixed(3)} %/h`,
   };
 }

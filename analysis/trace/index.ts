@@ -10,7 +10,7 @@ export { decimateMinMax } from './decimate';
 export { decimateIndices } from './decimateIndices';
 export { realFftMagnitude } from './realFftMagnitude';
 export { median, noiseSigma } from './robustStats';
-export { referenceRatio, runningMean } from './referenceRatio';
+export { REFERENCE_WINDOWS_S, referenceRatio, referenceWindowS, runningMean } from './referenceRatio';
 export { flatStretches, type FlatStretch, type FlatStretchOptions } from './flatStretches';
 export { levelSteps, longRunSigma, meanSigma, type Level, type LevelStepOptions } from './levelSteps';
 export type { ReadTraceOptions, TraceData, TraceScan, TraceWarning, Segment, Segmentation } from './types';

@@ -4,7 +4,8 @@ import { type ChamberRng } from './rng';
 /**
  * The detector chain from optical response to reading: lamp gain with drift, stray light, the
  * electronic offset, white noise, AR(1) correlated noise (x ← ρx + √(1−ρ²)·σ·g with
- * ρ = e^(−Δt/τ), the exact discretisation of an Ornstein–Uhlenbeck process) and short spikes.
+ * ρ = e^(−Δt/τ), the exact discretisation of an Ornstein–Uhlenbeck process) and short spikes;
+ * optionally a lamp ripple and a detector that reads low toward full scale.
  */
 export class Detector {
   private ar = 0;
@@ -34,9 +35,14 @@ export class Detector {
     return this.o.gain * this.lampAt(tS);
   }
 
-  /** The lamp's intensity relative to t = 0 (its linear drift). */
+  /**
+   * The lamp's intensity relative to t = 0: its linear drift and, where set, a ripple at the
+   * mains-driven frequency that the lock-in leaves (lampRipple), sampled at each reading's true time.
+   */
   lampAt(tS: number): number {
-    return 1 + (this.o.lampDriftPerHour * tS) / 3600;
+    const r = this.o.lampRipple;
+    const ripple = r ? 1 + r.fraction * Math.sin(2 * Math.PI * r.frequencyHz * tS) : 1;
+    return (1 + (this.o.lampDriftPerHour * tS) / 3600) * ripple;
   }
 
   /** What the detector reads with no light from the chip (lamp on: stray light; off: dark only). */
@@ -47,6 +53,8 @@ export class Detector {
   reading(fraction: number, tS: number, lampOn = true): number {
     let v = this.offsetAt(tS, lampOn) + (lampOn ? this.gainAt(tS) * fraction : 0);
     const fullScale = this.o.gain;
+    // a detector chain that reads low toward the top of its range (nonlinearity): v·(1 − β·v/full scale)
+    if (this.o.nonlinearity) v *= 1 - (this.o.nonlinearity * v) / fullScale;
     v += fullScale * this.o.whiteNoise * this.noiseRng.gauss();
     if (this.arScale > 0) {
       this.ar = this.rho * this.ar + this.arScale * this.arRng.gauss();

@@ -38,6 +38,20 @@ export interface ChamberOptions {
    */
   bandwidthNm?: number;
 
+  /**
+   * A ripple on the lamp's intensity that the detection leaves (a lamp on mains-derived power
+   * ripples at twice the mains frequency; a lock-in or a DC supply removes most of it): relative
+   * amplitude and frequency. Sampled at each reading's true time, so at the log's sample interval
+   * it aliases to a slow beat (100.05 Hz read every 0.1 s: a 20 s period). A reference column sees
+   * the same ripple. @default none
+   */
+  lampRipple?: { fraction: number; frequencyHz: number };
+  /**
+   * A detector chain that reads low toward the top of its range: each reading v becomes
+   * v·(1 − β·v/gain), β this value (0.005: 0.5 % low at full scale). Applied before the noise. @default 0
+   */
+  nonlinearity?: number;
+
   /** White noise σ, fraction of full scale. @default 0.0005 */
   whiteNoise?: number;
   /** Correlated noise (AR(1), exact discretisation of Ornstein–Uhlenbeck): σ as a fraction of full scale, correlation time. @default none */

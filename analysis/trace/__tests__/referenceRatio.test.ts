@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { referenceRatio, runningMean } from '../referenceRatio';
+import { REFERENCE_WINDOWS_S, referenceRatio, referenceWindowS, runningMean } from '../referenceRatio';
 
 // A dual-beam monitor's ratio: signal = G·L(t)·T(t), reference = g·L(t). Dividing by the
 // reference over its median leaves G·L_med·T(t): the film's curve with the lamp held still.
@@ -51,3 +51,51 @@ describe('referenceRatio', () => {
     expect(sigma).toBeLessThan(1.1e-4);
   });
 });
+
+// The window the reference is smoothed over (Mallows' C_L among REFERENCE_WINDOWS_S). Checked
+// against the closed-form risk of a boxcar: a sinusoid of frequency f through a centred running
+// mean of width w keeps sin(πfw)/(πfw) of its amplitude (the boxcar's transfer function; e.g.
+// A. V. Oppenheim & R. W. Schafer, "Discrete-Time Signal Processing", the moving average's
+// frequency response, here in its continuous limit), so the lamp's error after smoothing has mean
+// square (a·(1 − sinc))²/2 from the ripple plus σ²/nᵢ from the reference's own noise.
+describe('referenceWindowS', () => {
+  const n = 12000, dt = 0.1;
+  const t = Float64Array.from({ length: n }, (_, i) => i * dt);
+  let state = 777;
+  const uniform = () => ((state = (Math.imul(state, 1664525) + 1013904223) >>> 0) / 4294967296);
+  const gauss = () => (uniform() + uniform() + uniform() + uniform() - 2) * Math.sqrt(3);
+  const sigma = 0.0003;
+  const drift = (s: number) => 1 - (0.01 * s) / 3600;
+
+  it('keeps the longest window for a lamp that only drifts', () => {
+    const reference = Float64Array.from(t, (s) => 0.8 * drift(s) * (1 + sigma * gauss()));
+    expect(referenceWindowS(t, reference).windowS).toBe(20);
+  });
+
+  it('follows a mains ripple aliased into a 20 s beat: the window of least closed-form risk, and the lamp read far better than over 20 s', () => {
+    // a 0.2 % ripple at 100.05 Hz read every 0.1 s: sin(2π·100.05·t) = sin(2π·0.05·t) at t = k·0.1
+    const a = 0.002, beatHz = 0.05;
+    const lamp = (s: number) => drift(s) * (1 + a * Math.sin(2 * Math.PI * 100.05 * s));
+    const reference = Float64Array.from(t, (s) => 0.8 * lamp(s) * (1 + sigma * gauss()));
+    const sinc = (x: number) => (x === 0 ? 1 : Math.sin(x) / x);
+    const risk = REFERENCE_WINDOWS_S.map((w) => ((a * (1 - sinc(Math.PI * beatHz * w))) ** 2) / 2 + sigma ** 2 / (2 * Math.round(w / dt / 2) + 1));
+    const best = REFERENCE_WINDOWS_S[risk.indexOf(Math.min(...risk))];
+    expect(best).toBe(2);
+    const { windowS } = referenceWindowS(t, reference);
+    expect(windowS).toBe(best);
+    // the lamp as the ratio divides it out, against the truth, away from the ends
+    const error = (w: number) => {
+      const m = runningMean(t, reference, w);
+      let ss = 0, count = 0;
+      for (let i = 300; i < n - 300; i++) {
+        ss += (m[i] / (0.8 * lamp(t[i])) - 1) ** 2;
+        count++;
+      }
+      return Math.sqrt(ss / count);
+    };
+    // closed form: 2 s, √(risk) ≈ 7e-5; 20 s, the beat left whole: a/√2 ≈ 1.4e-3
+    expect(error(windowS)).toBeLessThan(1.5 * Math.sqrt(risk[REFERENCE_WINDOWS_S.indexOf(2)]));
+    expect(error(20)).toBeGreaterThan(0.8 * (a / Math.SQRT2));
+  });
+});
+

@@ -89,6 +89,31 @@ describe('simulateChamberRun', () => {
     expect(c1.gain).toBeLessThan(2);
   });
 
+  it('adds a lamp ripple, sampled at each reading\'s time, and a detector that reads low toward full scale', () => {
+    // no noise: each reading is the lamp times the truth's fraction, so the ripple and the
+    // compression can be read off sample by sample against the formulas they are documented by
+    const base = { seed: 9, whiteNoise: 0, gain: 1.5 };
+    const plain = simulateChamberRun(design, base);
+    const rippled = simulateChamberRun(design, { ...base, lampRipple: { fraction: 0.002, frequencyHz: 100.05 } });
+    const squeezed = simulateChamberRun(design, { ...base, nonlinearity: 0.01 });
+    expect(Array.from(rippled.fraction)).toEqual(Array.from(plain.fraction));
+    let worstRipple = 0, worstSqueeze = 0, beatSeen = 0;
+    for (let i = 0; i < plain.signal.length; i += 7) {
+      const tS = i * plain.sampleIntervalS;
+      if (plain.signal[i] === 0) continue;
+      // 100.05 Hz read every 0.1 s is a 0.05 Hz beat: sin(2π·100.05·t) = sin(2π·0.05·t) at t = k·0.1
+      const expected = 1 + 0.002 * Math.sin(2 * Math.PI * 0.05 * tS);
+      worstRipple = Math.max(worstRipple, Math.abs(rippled.signal[i] / plain.signal[i] - expected));
+      beatSeen = Math.max(beatSeen, Math.abs(rippled.signal[i] / plain.signal[i] - 1));
+      // v·(1 − β·v/gain)
+      const v = plain.signal[i];
+      worstSqueeze = Math.max(worstSqueeze, Math.abs(squeezed.signal[i] - v * (1 - (0.01 * v) / 1.5)));
+    }
+    expect(worstRipple).toBeLessThan(1e-9);
+    expect(beatSeen).toBeGreaterThan(0.0019);
+    expect(worstSqueeze).toBeLessThan(1e-12);
+  });
+
   it('adds spikes, time-stamp jitter and a rate ramp as the shutter opens', () => {
     const base = simulateChamberRun(design, { seed: 8, whiteNoise: 0 });
     const run = simulateChamberRun(design, { seed: 8, whiteNoise: 0, spikes: { perMinute: 6, amplitude: [0.01, 0.02], maxSamples: 2 }, jitterFraction: 0.3 });
