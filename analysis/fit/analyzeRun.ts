@@ -29,6 +29,7 @@ import { levelCutEnds } from './levelCutEnds';
 import { turningPointEndS, turningPointEndSigma, turningPointEndsOnChip } from './turningPointEnd';
 import { excessErrorMeanSquare, excessErrorVariance, excessMeanShiftNm, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess, type TurningPointExcess } from './turningPointExcess';
 import { segmentByDesign } from './designSegments';
+import { runDisturbanceWarning, runLinesFromRequest, runLinesRequest } from './runDisturbances';
 import { carryStackUncertainty, emptyStack, shiftThroughStack, type StackCovariance } from './stackUncertainty';
 import { stackPosteriorStep, type Nuisance } from './stackPosterior';
 import { startValues } from './startValues';
@@ -164,6 +165,7 @@ export const ANALYZE_DEFAULTS = {
   cutErrorWarnPct: 2,
   spectrum: { fromNm: 400, toNm: 800, stepNm: 2 },
   modelSeries: false,
+  runDisturbances: true,
 } as const;
 
 function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): Float64Array {
@@ -1018,11 +1020,16 @@ async function analyzeLayers(
   // each layer's residuals under its reported model, elsewhere where modelResidualsOf is given:
   // asked for at once, awaited from the last down (a thread taking them from the first meets this one midway)
   const squaredSums: (number | undefined)[] = [];
+  // Periodic disturbances through the run, in all the layers' residuals together (fit/runDisturbances.ts):
+  // asked for first, so another thread searches the spectrum while this one makes the layers' results.
+  const linesAsked = o.runDisturbances ? runLinesRequest(states, resultBelows, trace) : null;
+  const lines = linesAsked ? (o.runLinesOf ? o.runLinesOf(linesAsked) : null) : null;
   if (o.modelResidualsOf && !model) {
     const asked = states.map((s, j) => o.modelResidualsOf!(modelResidualsRequest(s, resultBelows[j], trace)));
     for (let j = asked.length - 1; j >= 0; j--) squaredSums[j] = await asked[j];
   }
   const layers = states.map((s, j) => layerResult(s, resultBelows[j], trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model, squaredSums[j]));
+  if (linesAsked) warnings.push(...(lines ? await lines : runLinesFromRequest(linesAsked)).slice(0, 3).map(runDisturbanceWarning));
   const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum, ownIndex);
   return model ? { ...result, model } : result;
 }

@@ -201,6 +201,24 @@ export function layerResidualRms(s: LayerState, below: readonly LayerAt[], trace
   return Math.sqrt(squaredResiduals(trace.signal, s.samples.indices, s.calibration.offset, s.estimate.gain, modelSignal(s, below)) / s.samples.tauS.length);
 }
 
+/**
+ * The layer's residuals under its reported model, (reading − offset)/gain − M in model units
+ * (fractions of full scale), at every `step`-th of its samples, with the samples' trace times.
+ */
+export function layerResidualsEvery(s: LayerState, below: readonly LayerAt[], trace: TraceData, step: number): { timeS: Float64Array; residual: Float64Array } {
+  const count = Math.ceil(s.samples.tauS.length / step);
+  const tauS = new Float64Array(count), timeS = new Float64Array(count), residual = new Float64Array(count);
+  for (let j = 0; j < count; j++) {
+    const i = j * step;
+    tauS[j] = s.samples.tauS[i];
+    timeS[j] = trace.timeS[s.samples.indices[i]];
+  }
+  const m = modelAt(modelOf(s, below), tauS);
+  const { offset } = s.calibration, { gain } = s.estimate;
+  for (let j = 0; j < count; j++) residual[j] = (trace.signal[s.samples.indices[j * step]] - offset) / gain - m[j];
+  return { timeS, residual };
+}
+
 /** The index gradient's figures: the fitted ones on a graded layer, the trial's on one kept uniform. */
 function gradientFigures(s: LayerState): Pick<LayerResult, 'indexGradient' | 'indexGradientSigma' | 'indexGradientKept'> {
   const t = s.gradientTrial;

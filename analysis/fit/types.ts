@@ -1,7 +1,8 @@
 import { type MaterialDrift } from '../stats';
-import { type TraceWarning } from '../trace';
+import { type SpectrumLine, type TraceWarning } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { type ModelResidualsRequest } from './layerResult';
+import { type RunLinesRequest } from './runDisturbances';
 import { type LayerSpectrum } from './layerSpectrum';
 import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
 import { type StartDelayProfile } from './startDelay';
@@ -525,6 +526,12 @@ export interface AnalyzeOptions {
   spectrum?: { fromNm: number; toNm: number; stepNm: number };
   /** Also return the fitted model at every trace sample (AnalysisResult.model). @default false */
   modelSeries?: boolean;
+  /**
+   * Look for periodic disturbances through the whole run (a lamp's ripple aliased by the sampling,
+   * the holder's rotation) in all the layers' residuals together, and warn of each line found
+   * (fit/runDisturbances.ts). @default true
+   */
+  runDisturbances?: boolean;
   /** Called after each layer's fit. */
   onProgress?: (layersDone: number, layerCount: number) => void;
   /**
@@ -558,6 +565,12 @@ export interface AnalyzeOptions {
    * @default modelSquaredResiduals's sum, on this thread, in layerResult
    */
   modelResidualsOf?: (request: ModelResidualsRequest) => PromiseLike<number>;
+  /**
+   * Searches the run's residual series for periodic lines elsewhere, e.g. on another thread while
+   * this one makes the layers' results; it must resolve to what runLinesFromRequest
+   * (fit/runDisturbances.ts) returns. @default runLinesFromRequest, on this thread
+   */
+  runLinesOf?: (request: RunLinesRequest) => PromiseLike<SpectrumLine[]>;
   /**
    * The trace's warnings that read its samples (trace/traceWarnings.ts), made elsewhere (e.g. on
    * another thread while the run is segmented and its start delay profiled): appended to

@@ -5,7 +5,7 @@ export { segmentTrace, type SegmentOptions } from './segment';
 export { autoSegment, type AutoSegmentOptions } from './autoSegment';
 export { savitzkyGolay, savitzkyGolayCoefficients, type SavitzkyGolayOptions } from './savitzkyGolay';
 export { findTurningPoints, type TurningPoint, type TurningPointOptions } from './turningPoints';
-export { fringeSpectrum, type FringeSpectrum, type FringeSpectrumOptions, type SpectrumPeak, type Disturbance } from './fringeSpectrum';
+export { fringeSpectrum, spectrumLines, type FringeSpectrum, type FringeSpectrumOptions, type SpectrumLine, type SpectrumLinesOptions, type SpectrumPeak, type Disturbance } from './fringeSpectrum';
 export { decimateMinMax } from './decimate';
 export { decimateIndices } from './decimateIndices';
 export { realFftMagnitude } from './realFftMagnitude';
