@@ -30,7 +30,7 @@ export interface RunLinesRequest {
  * residuals under its reported model, taken together in time (trace/fringeSpectrum.ts
  * spectrumLines). One layer's spectrum holds a few cycles of a slow line under its fringe and
  * the detector's red noise; the run's residuals hold many, with the fringe taken out by the fit
- * (a 0.2 % lamp ripple aliased into a 20 s beat stands 16–100 times above its continuum there
+ * (a 0.2 % lamp ripple aliased into a 20 s beat stands 6–100 times above its continuum there
  * and passes unseen in every layer's own spectrum). Lines slower than MIN_CYCLES_IN_RUN cycles
  * over the run or MIN_CYCLES_IN_LAYER over a median layer are not sought: there misfit follows
  * the layers. The request is the series (null where too short); runLinesFromRequest searches it,
