@@ -252,7 +252,8 @@ function lineSource(f: number, o: SpectrumLinesOptions, binHz: number): string {
   for (const mains of o.mainsHz ?? [50, 60]) {
     const hits = [1, 2, 3].map((h) => h * mains).filter(reaches);
     if (hits.length > 0) {
-      return `where ${hits.join(' or ')} Hz (the ${mains} Hz mains${hits.some((x) => x !== mains) ? ' and its harmonics' : ''}, within ±${+(tol * 100).toFixed(1)} %) falls when sampled at ${Number(fs.toPrecision(4))} Hz (a lamp's ripple the detection leaves?), or the holder's rotation`;
+      const list = hits.length > 1 ? `${hits.slice(0, -1).join(', ')} or ${hits[hits.length - 1]}` : `${hits[0]}`;
+      return `where ${list} Hz (the ${mains} Hz mains${hits.some((x) => x !== mains) ? ' and its harmonics' : ''}, within ±${+(tol * 100).toFixed(1)} %) ${hits.length > 1 ? 'fall' : 'falls'} when sampled at ${Number(fs.toPrecision(4))} Hz (a lamp's ripple the detection leaves?), or the holder's rotation`;
     }
   }
   return 'e.g. the holder\'s rotation or a vibration';
