@@ -29,7 +29,7 @@ import { levelCutEnds } from './levelCutEnds';
 import { turningPointEndS, turningPointEndSigma, turningPointEndsOnChip } from './turningPointEnd';
 import { excessErrorMeanSquare, excessErrorVariance, excessMeanShiftNm, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess, type TurningPointExcess } from './turningPointExcess';
 import { segmentByDesign } from './designSegments';
-import { runDisturbanceWarning, runLinesFromRequest, runLinesRequest } from './runDisturbances';
+import { lampRippleOf, runDisturbanceWarning, runLinesFromRequest, runLinesRequest, type LampRipple } from './runDisturbances';
 import { carryStackUncertainty, emptyStack, shiftThroughStack, type StackCovariance } from './stackUncertainty';
 import { stackPosteriorStep, type Nuisance } from './stackPosterior';
 import { startValues } from './startValues';
@@ -166,6 +166,7 @@ export const ANALYZE_DEFAULTS = {
   spectrum: { fromNm: 400, toNm: 800, stepNm: 2 },
   modelSeries: false,
   runDisturbances: true,
+  rippleDivide: true,
 } as const;
 
 function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): Float64Array {
@@ -187,11 +188,36 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
   const referenced = withLampReference(trace, options);
-  if (!referenced.note) return analyzeSignal(design, trace, options);
+  if (!referenced.note) return withRippleDivided(design, trace, options, await analyzeSignal(design, trace, options));
   const result = await analyzeSignal(design, referenced.trace, referenced.options);
   // the model in the trace's own units, the lamp as the reference read it put back
   if (result.model) for (let i = 0; i < result.model.length; i++) result.model[i] *= referenced.lamp![i];
   return { ...result, warnings: [referenced.note, ...result.warnings] };
+}
+
+/** The lamp ripple the reported pass's residuals showed on each trace (fit/runDisturbances.ts lampRippleOf), where they did. */
+const ripples = new WeakMap<TraceData, LampRipple>();
+/** A ripple is divided out only where the fit tells it this many σ from 0. */
+const RIPPLE_SIGMAS = 5;
+
+/**
+ * Without a reference column, a lamp ripple the run's residuals show (a line through the run,
+ * fit/runDisturbances.ts) divided out of the signal and the run analysed again (option
+ * rippleDivide): the reference column's division, with the lamp's ripple read from the data.
+ * The first analysis's figures carry the ripple's misfit; the second's are reported, with a note.
+ */
+async function withRippleDivided(design: Design, trace: TraceData, options: AnalyzeOptions, first: AnalysisResult): Promise<AnalysisResult> {
+  const ripple = ripples.get(trace);
+  if (!ripple || !(options.rippleDivide ?? ANALYZE_DEFAULTS.rippleDivide) || !(ripple.amplitude > RIPPLE_SIGMAS * ripple.amplitudeSigma)) return first;
+  const w = 2 * Math.PI * ripple.frequencyHz;
+  const lamp = Float64Array.from(trace.timeS, (t) => 1 + ripple.a * Math.sin(w * t) + ripple.b * Math.cos(w * t));
+  const signal = Float64Array.from(trace.signal, (v, i) => v / lamp[i]);
+  // (the trace's warnings as the first analysis left them, its sample warnings among them)
+  const second = await analyzeSignal(design, { ...trace, signal, warnings: [...trace.warnings] }, { ...options, sampleWarnings: undefined });
+  if (second.model) for (let i = 0; i < second.model.length; i++) second.model[i] *= lamp[i];
+  const note = `lamp ripple divided out: ${(ripple.amplitude * 100).toFixed(3)} ± ${(ripple.amplitudeSigma * 100).toFixed(3)} % at ${ripple.frequencyHz.toPrecision(4)} Hz, `
+    + 'read from the first analysis\'s residuals (option rippleDivide); the figures are the run analysed again on the divided signal';
+  return { ...second, warnings: [note, ...first.warnings.filter((x) => x.startsWith('periodic disturbance through the run')), ...second.warnings] };
 }
 
 async function analyzeSignal(design: Design, trace: TraceData, options: AnalyzeOptions): Promise<AnalysisResult> {
@@ -1029,9 +1055,13 @@ async function analyzeLayers(
     for (let j = asked.length - 1; j >= 0; j--) squaredSums[j] = await asked[j];
   }
   const layers = states.map((s, j) => layerResult(s, resultBelows[j], trace, reference ?? noiseFloor.sigma ?? s.calibration.noiseSigma, o, model, squaredSums[j]));
-  if (linesAsked) warnings.push(...(lines ? await lines : runLinesFromRequest(linesAsked)).slice(0, 3).map(runDisturbanceWarning));
-  const result = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum, ownIndex);
-  return model ? { ...result, model } : result;
+  const found = linesAsked ? (lines ? await lines : runLinesFromRequest(linesAsked)) : [];
+  warnings.push(...found.slice(0, 3).map(runDisturbanceWarning));
+  const ripple = linesAsked && found.length > 0 ? lampRippleOf(linesAsked, found[0]) : null;
+  const summary = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum, ownIndex);
+  const result = model ? { ...summary, model } : summary;
+  if (ripple) ripples.set(trace, ripple);
+  return result;
 }
 
 /**

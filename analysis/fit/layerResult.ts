@@ -203,9 +203,9 @@ export function layerResidualRms(s: LayerState, below: readonly LayerAt[], trace
 
 /**
  * The layer's residuals under its reported model, (reading − offset)/gain − M in model units
- * (fractions of full scale), at every `step`-th of its samples, with the samples' trace times.
+ * (fractions of full scale), at every `step`-th of its samples, with the samples' trace times and M.
  */
-export function layerResidualsEvery(s: LayerState, below: readonly LayerAt[], trace: TraceData, step: number): { timeS: Float64Array; residual: Float64Array } {
+export function layerResidualsEvery(s: LayerState, below: readonly LayerAt[], trace: TraceData, step: number): { timeS: Float64Array; residual: Float64Array; model: Float64Array } {
   const count = Math.ceil(s.samples.tauS.length / step);
   const tauS = new Float64Array(count), timeS = new Float64Array(count), residual = new Float64Array(count);
   for (let j = 0; j < count; j++) {
@@ -216,7 +216,7 @@ export function layerResidualsEvery(s: LayerState, below: readonly LayerAt[], tr
   const m = modelAt(modelOf(s, below), tauS);
   const { offset } = s.calibration, { gain } = s.estimate;
   for (let j = 0; j < count; j++) residual[j] = (trace.signal[s.samples.indices[j * step]] - offset) / gain - m[j];
-  return { timeS, residual };
+  return { timeS, residual, model: m };
 }
 
 /** The index gradient's figures: the fitted ones on a graded layer, the trial's on one kept uniform. */

@@ -21,6 +21,8 @@ const MIN_CYCLES_IN_LAYER = 3;
 export interface RunLinesRequest {
   timeS: Float64Array;
   residual: Float64Array;
+  /** The reported model M at those samples (model units). */
+  model: Float64Array;
   minFrequencyHz: number;
   rawRateHz: number;
 }
@@ -43,12 +45,13 @@ export function runLinesRequest(states: readonly LayerState[], belows: readonly 
   const parts = states.map((s, j) => layerResidualsEvery(s, belows[j], trace, step)).filter((p) => p.timeS.length > 0);
   // in time order, each part's samples increasing; samples that would go back in time (none in a valid run) left out
   parts.sort((a, b) => a.timeS[0] - b.timeS[0]);
-  const timeS = new Float64Array(parts.reduce((a, p) => a + p.timeS.length, 0)), residual = new Float64Array(timeS.length);
+  const timeS = new Float64Array(parts.reduce((a, p) => a + p.timeS.length, 0)), residual = new Float64Array(timeS.length), model = new Float64Array(timeS.length);
   let count = 0;
   for (const p of parts) {
     for (let i = 0; i < p.timeS.length; i++) {
       if ((count > 0 && !(p.timeS[i] > timeS[count - 1])) || !Number.isFinite(p.residual[i])) continue;
       timeS[count] = p.timeS[i];
+      model[count] = p.model[i];
       residual[count++] = p.residual[i];
     }
   }
@@ -56,7 +59,7 @@ export function runLinesRequest(states: readonly LayerState[], belows: readonly 
   const spanS = timeS[count - 1] - timeS[0];
   const medianLayerS = medianInPlace(Float64Array.from(states, (s) => s.samples.tauS[s.samples.tauS.length - 1] ?? 0));
   return {
-    timeS: timeS.slice(0, count), residual: residual.slice(0, count),
+    timeS: timeS.slice(0, count), residual: residual.slice(0, count), model: model.slice(0, count),
     minFrequencyHz: Math.max(MIN_CYCLES_IN_RUN / spanS, medianLayerS > 0 ? MIN_CYCLES_IN_LAYER / medianLayerS : 0),
     rawRateHz: 1 / loggedIntervalS(trace.timeS),
   };
@@ -80,3 +83,52 @@ function loggedIntervalS(timeS: Float64Array): number {
   for (let i = 1; i < n; i++) steps[i - 1] = timeS[i] - timeS[i - 1];
   return medianInPlace(steps);
 }
+
+/** A ripple on the lamp read from the run's residuals: reading = offset + gain·M·(1 + a·sin ωt + b·cos ωt). */
+export interface LampRipple {
+  frequencyHz: number;
+  a: number;
+  b: number;
+  /** √(a² + b²), a fraction of the lamp. */
+  amplitude: number;
+  /** Its standard error, from the residuals about the fit. */
+  amplitudeSigma: number;
+}
+
+/**
+ * The lamp ripple behind a line of the run's residuals, where the line is one: with the lamp
+ * ripple ε(t) the residual in model units is M·ε(t), so a and b are the least-squares
+ * coefficients of the residuals on M·sin ωt and M·cos ωt (ordinary least squares; the standard
+ * errors from the residual variance about the fit). The frequency is refined over ±1.5 bins of
+ * the run (1/span) to the one that explains most (31 steps): a line's frequency from the spectrum
+ * is good to a fraction of a bin, and over a long run a phase that slips that much halves the fit.
+ */
+export function lampRippleOf(r: RunLinesRequest, line: SpectrumLine): LampRipple | null {
+  const n = r.timeS.length;
+  if (n < 16) return null;
+  const span = r.timeS[n - 1] - r.timeS[0];
+  let best: LampRipple & { explained: number } | null = null;
+  for (let k = -15; k <= 15; k++) {
+    const f = line.frequencyHz + (k / 10) * (1 / span);
+    const w = 2 * Math.PI * f;
+    let ss = 0, sc = 0, cc = 0, ys = 0, yc = 0, yy = 0;
+    for (let i = 0; i < n; i++) {
+      const xs = r.model[i] * Math.sin(w * r.timeS[i]), xc = r.model[i] * Math.cos(w * r.timeS[i]), y = r.residual[i];
+      ss += xs * xs; sc += xs * xc; cc += xc * xc; ys += y * xs; yc += y * xc; yy += y * y;
+    }
+    const det = ss * cc - sc * sc;
+    if (!(det > 0)) continue;
+    const a = (ys * cc - yc * sc) / det, b = (yc * ss - ys * sc) / det;
+    const explained = a * ys + b * yc;
+    if (best && explained <= best.explained) continue;
+    const s2 = Math.max(0, yy - explained) / Math.max(1, n - 2);
+    const amplitude = Math.hypot(a, b);
+    // var(a) = s²·cc/det, var(b) = s²·ss/det; the amplitude's along (a, b)
+    const amplitudeSigma = amplitude > 0 ? Math.sqrt((s2 * (a * a * cc + b * b * ss - 2 * a * b * sc)) / det) / amplitude : Infinity;
+    best = { frequencyHz: f, a, b, amplitude, amplitudeSigma, explained };
+  }
+  if (!best) return null;
+  const { explained: _explained, ...ripple } = best;
+  return ripple;
+}
+

@@ -532,6 +532,12 @@ export interface AnalyzeOptions {
    * (fit/runDisturbances.ts). @default true
    */
   runDisturbances?: boolean;
+  /**
+   * Without a reference column, where the run's residuals show a line (runDisturbances), read a
+   * lamp ripple at it from them, divide it out of the signal and analyse the run again
+   * (fit/analyzeRun.ts withRippleDivided). @default true
+   */
+  rippleDivide?: boolean;
   /** Called after each layer's fit. */
   onProgress?: (layersDone: number, layerCount: number) => void;
   /**
