@@ -1,7 +1,6 @@
 import { referenceRatio, referenceWindowS, type TraceData } from '../trace';
 import { type AnalyzeOptions } from './types';
 
-
 /**
  * The gain drift's prior σ left once the signal is divided by the reference, fraction per hour:
  * what the ratio does not remove is the two detectors' own gains drifting apart, taken here as a

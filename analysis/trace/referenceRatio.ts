@@ -6,10 +6,14 @@ import { median } from './robustStats';
  * sums and two pointers, O(n). A boxcar smoother, common practice for a slow channel.
  */
 export function runningMean(timeS: ArrayLike<number>, values: ArrayLike<number>, windowS: number): Float64Array {
+  return meanOverSpans(values, windowSpans(timeS, windowS));
+}
+
+/** Each sample's mean over its window [lo, hi), by prefix sums. */
+function meanOverSpans(values: ArrayLike<number>, { lo, hi }: { lo: Int32Array; hi: Int32Array }): Float64Array {
   const n = values.length;
   const sums = new Float64Array(n + 1);
   for (let i = 0; i < n; i++) sums[i + 1] = sums[i] + values[i];
-  const { lo, hi } = windowSpans(timeS, windowS);
   const out = new Float64Array(n);
   for (let i = 0; i < n; i++) out[i] = (sums[hi[i]] - sums[lo[i]]) / (hi[i] - lo[i]);
   return out;
@@ -52,8 +56,10 @@ export function referenceWindowS(timeS: ArrayLike<number>, reference: ArrayLike<
   for (let i = 1; i < n; i++) d2 += (reference[i] - reference[i - 1]) ** 2;
   const sigma2 = n > 1 ? d2 / (2 * (n - 1)) : 0;
   const risk = windowsS.map((w) => {
-    const m = runningMean(timeS, reference, w);
-    const { lo, hi } = windowSpans(timeS, w);
+    // (the windows found once, for the mean and its trace alike)
+    const spans = windowSpans(timeS, w);
+    const m = meanOverSpans(reference, spans);
+    const { lo, hi } = spans;
     let rss = 0, trace = 0;
     for (let i = 0; i < n; i++) {
       rss += (reference[i] - m[i]) ** 2;
