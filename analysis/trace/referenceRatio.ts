@@ -43,7 +43,7 @@ export const REFERENCE_WINDOWS_S = [0.5, 1, 2, 5, 10, 20] as const;
  * The running-mean window for the reference, chosen among `windowsS` by Mallows' C_L (the
  * unbiased risk estimate of a linear smoother: C. L. Mallows, "Some comments on C_p",
  * Technometrics 15 (1973) 661–675; for smoothers, T. Hastie & R. Tibshirani, "Generalized
- * Additive Models" (1990), §3.4): ‖r − S·r‖² − n·σ² + 2σ²·tr S, where tr S = Σ 1/nᵢ for a boxcar
+ * Additive Models" (1990), §3.4; both from memory): ‖r − S·r‖² − n·σ² + 2σ²·tr S, where tr S = Σ 1/nᵢ for a boxcar
  * of nᵢ samples. σ², the reference's white noise, from its lag-one differences (half their mean
  * square; a lamp that changes little between neighbouring samples adds little to them). A lamp
  * that only drifts keeps the longest window; one that also flickers faster (a mains ripple aliased

@@ -56,7 +56,7 @@ describe('referenceRatio', () => {
 // against the closed-form risk of a boxcar: a sinusoid of frequency f through a centred running
 // mean of width w keeps sin(πfw)/(πfw) of its amplitude (the boxcar's transfer function; e.g.
 // A. V. Oppenheim & R. W. Schafer, "Discrete-Time Signal Processing", the moving average's
-// frequency response, here in its continuous limit), so the lamp's error after smoothing has mean
+// frequency response, here in its continuous limit; from memory), so the lamp's error after smoothing has mean
 // square (a·(1 − sinc))²/2 from the ripple plus σ²/nᵢ from the reference's own noise.
 describe('referenceWindowS', () => {
   const n = 12000, dt = 0.1;
