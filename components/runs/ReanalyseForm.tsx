@@ -72,6 +72,9 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     const cutPast = form.get('cutPastTurningPoint');
     if (cutPast === 'refit') settings.cutPastTurningPoint = 'refit';
     if (cutPast === 'off') settings.cutPastTurningPoint = false;
+    const periodic = form.get('periodicDisturbance');
+    if (periodic === 'name') settings.rippleDivide = false;
+    if (periodic === 'off') settings.runDisturbances = false;
     if (form.get('gainDriftFromChips') !== 'on') settings.gainDriftFromChips = false;
     if (form.get('fitOffset') !== 'on') settings.fitOffset = false;
     if (form.get('offsetAveraging') !== 'on') settings.offsetAveraging = false;
@@ -149,6 +152,14 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <option value="both">In both modes (default)</option>
             <option value="refit">In the joint re-fit only</option>
             <option value="off">Not held (the fit&apos;s own reading)</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-periodic">A periodic disturbance through the run (a lamp&apos;s ripple the sampling turns into a slow beat, the holder&apos;s rotation), sought in all the layers&apos; residuals together</label>
+          <select id="re-periodic" name="periodicDisturbance" className={select} defaultValue="divide">
+            <option value="divide">Named; without a reference column, a lamp ripple divided out and the run analysed again (default)</option>
+            <option value="name">Named only (its source is not the lamp)</option>
+            <option value="off">Not sought</option>
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft">

@@ -40,5 +40,7 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.cutPastTurningPoint === false) parts.push("chips' last turning-point cuts not held past the turning point");
   if (s.cutPastTurningPoint === 'refit') parts.push("chips' last turning-point cuts held past the turning point in the joint re-fit only");
   if (typeof s.turningPointOvershootPct === 'number') parts.push(`turning-point overshoot up to ${+s.turningPointOvershootPct.toFixed(3)} %`);
+  if (s.runDisturbances === false) parts.push('no search for a periodic disturbance through the run');
+  else if (s.rippleDivide === false) parts.push('a lamp ripple found through the run named, not divided out');
   return parts.join(' · ');
 }

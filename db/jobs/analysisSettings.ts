@@ -39,6 +39,8 @@ export const analysisSettingsSchema = z
     fitWithNextLayer: z.boolean().optional(),
     stackFromLayer: z.boolean().optional(),
     cutPastTurningPoint: z.union([z.boolean(), z.literal('refit')]).optional(),
+    runDisturbances: z.boolean().optional(),
+    rippleDivide: z.boolean().optional(),
   })
   .strict();
 export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;

@@ -56,6 +56,11 @@ describe('analysis settings', () => {
       'refit · shutter times and overshoots cut at 0, with their uncertainty',
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', shutterTimePopulation: 'normal' }))).toBe('refit');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', rippleDivide: false }))).toBe('refit · a lamp ripple found through the run named, not divided out');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', runDisturbances: false, rippleDivide: false }))).toBe(
+      'sequential · no search for a periodic disturbance through the run',
+    );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', runDisturbances: true, rippleDivide: true }))).toBe('refit');
   });
 
   it('refuses an option the fit does not know, and a wrong type', () => {
