@@ -90,6 +90,16 @@ export const SAMPLES: Sample[] = [
       meta: shop('Bay 3 sputter', 'B3-1121', 'Priya Oyelaran', 'night', '2026-11-10', 600),
     },
   },
+  {
+    file: 'bay3-hr17-run1122-ripple.csv',
+    design: 'hr17-mirror-600.json',
+    about: '17-layer mirror, chip change; the lamp supply ripples 0.25 % at twice a mains running at 50.02 Hz, which 5 readings a second turn into a 25 s beat (no reference column)',
+    options: {
+      ...CHAMBER, seed: 1122, gain: 1.0, sampleIntervalS: 0.2, rateNmPerS: { H: 0.2, L: 0.5 }, indexDriftPerHour: { H: -0.03 }, lampDriftPerHour: -0.02,
+      chipChange: CHIP_CHANGE, lampRipple: { fraction: 0.0025, frequencyHz: 100.04 },
+      meta: shop('Bay 3 sputter', 'B3-1122', 'Priya Oyelaran', 'night', '2026-11-12', 600),
+    },
+  },
 ];
 
 /**

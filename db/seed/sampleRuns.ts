@@ -22,6 +22,7 @@ export const sampleRunDesigns: Record<string, string> = {
   'bay2-bb4-run0588-nolayer.csv': 'bbar4-visible.json',
   'bay3-hr17-run1120.csv': 'hr17-mirror-600.json',
   'bay3-hr17-run1121-spike.csv': 'hr17-mirror-600.json',
+  'bay3-hr17-run1122-ripple.csv': 'hr17-mirror-600.json',
 };
 
 /** The process engineer owns the demo designs; the chamber operator uploaded the demo runs. */

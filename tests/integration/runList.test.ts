@@ -9,8 +9,8 @@ afterAll(async () => {
 });
 
 type Page = { runs: { runCode: string; chamber: string; flagged: boolean; analysisState: string; cutsOutsideTolerance: number; warningCount: number; startedAt: string }[]; total: number };
-// The six sample runs (the shop history's codes look alike, so they are named).
-const sampleCodes = ['B1-0412', 'B1-0413', 'B2-0587', 'B2-0588', 'B3-1120', 'B3-1121'];
+// The seven sample runs (the shop history's codes look alike, so they are named).
+const sampleCodes = ['B1-0412', 'B1-0413', 'B2-0587', 'B2-0588', 'B3-1120', 'B3-1121', 'B3-1122'];
 const demo = { test: (code: string) => sampleCodes.includes(code) };
 
 async function list(query: string): Promise<Page> {
@@ -23,7 +23,7 @@ describe('GET /api/runs: filters, sort and pages', () => {
   it('filters by chamber, design and start date; the total counts every match', async () => {
     await signInDemo('supervisor');
     const bay3 = await list('chamber=Bay 3 sputter&pageSize=200');
-    expect(bay3.runs.filter((r) => demo.test(r.runCode)).map((r) => r.runCode).sort()).toEqual(['B3-1120', 'B3-1121']);
+    expect(bay3.runs.filter((r) => demo.test(r.runCode)).map((r) => r.runCode).sort()).toEqual(['B3-1120', 'B3-1121', 'B3-1122']);
     expect(new Set(bay3.runs.map((r) => r.chamber))).toEqual(new Set(['Bay 3 sputter']));
     expect(bay3.total).toBe(bay3.runs.length);
     const dated = await list('from=2026-11-09&to=2026-11-10');

@@ -54,7 +54,7 @@ describe('the runs pages', () => {
       await signInDemo(role);
       // The list is a client component fed by the page: its rows are in the props the page passes.
       const list = propsText(await RunsPage({}));
-      for (const code of ['B1-0412', 'B1-0413', 'B2-0587', 'B2-0588', 'B3-1120', 'B3-1121']) expect(list).toContain(code);
+      for (const code of ['B1-0412', 'B1-0413', 'B2-0587', 'B2-0588', 'B3-1120', 'B3-1121', 'B3-1122']) expect(list).toContain(code);
       expect(list).toContain('Bay 3 sputter');
       const run = textOf(await runPage(id));
       expect(run).toContain('Run B2-0587');

@@ -53,8 +53,8 @@ async function collect(chunks: AsyncIterable<Uint8Array>): Promise<{ bytes: Buff
 describe('the demo runs of the seed', () => {
   it('lists every sample trace as a run in the chamber its metadata names, analysed, with a worst cut error', async () => {
     const list = await listRuns();
-    // The seed's shop history (seed:shop-history) adds runs of its own beside the six sample traces.
-    const sampleCodes = ['B1-0412', 'B1-0413', 'B2-0587', 'B2-0588', 'B3-1120', 'B3-1121'];
+    // The seed's shop history (seed:shop-history) adds runs of its own beside the seven sample traces.
+    const sampleCodes = ['B1-0412', 'B1-0413', 'B2-0587', 'B2-0588', 'B3-1120', 'B3-1121', 'B3-1122'];
     const demo = list.filter((r) => sampleCodes.includes(r.runCode));
     expect(demo.map((r) => r.runCode).sort()).toEqual(sampleCodes);
     for (const r of demo) {
@@ -88,6 +88,26 @@ describe('the demo runs of the seed', () => {
     const header = await findRun(b3.id);
     expect(header?.design.layerCount).toBe(17);
     expect(header?.trace?.sha256).toBe(createHash('sha256').update(sample('bay3-hr17-run1120.csv')).digest('hex'));
+  });
+
+  it('names the lamp ripple of run B3-1122 and divides it out: every layer within 3σ of the truth the trace was made with', async () => {
+    // sample-traces/generate.ts: a 0.25 % ripple at 100.04 Hz read 5 times a second, a 0.04 Hz beat
+    const truth = JSON.parse(sample('bay3-hr17-run1122-ripple.truth.json').toString('utf8')) as { layers: { thicknessNm: number; index: number }[] };
+    const run = (await listRuns()).find((r) => r.runCode === 'B3-1122')!;
+    const byMode = await latestAnalyses(run.id);
+    for (const mode of ['sequential', 'refit'] as const) {
+      const a = byMode[mode]!;
+      expect(a.analysis.state, mode).toBe('done');
+      const divided = a.analysis.warnings.find((w) => w.startsWith('lamp ripple divided out'));
+      expect(divided, mode).toMatch(/^lamp ripple divided out: 0\.2[4-6]\d ± 0\.0\d\d % at 0\.0400\d Hz/);
+      expect(a.analysis.warnings.some((w) => w.startsWith('periodic disturbance through the run at 0.0400 Hz')), mode).toBe(true);
+      expect(a.layers).toHaveLength(17);
+      for (const l of a.layers) {
+        const t = truth.layers[l.layer - 1];
+        expect(Math.abs(l.thicknessNm - t.thicknessNm), `${mode} layer ${l.layer} thickness`).toBeLessThan(3 * l.thicknessSigmaNm);
+        expect(Math.abs(l.index - t.index), `${mode} layer ${l.layer} index`).toBeLessThan(3 * l.indexSigma);
+      }
+    }
   });
 });
 
