@@ -155,10 +155,10 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-periodic">A periodic disturbance through the run (a lamp&apos;s ripple the sampling turns into a slow beat, the holder&apos;s rotation), sought in all the layers&apos; residuals together</label>
+          <label htmlFor="re-periodic">A periodic disturbance through the run (a lamp&apos;s ripple the sampling turns into a slow beat, the holder&apos;s rotation), sought in all the layers&apos; residuals together; without a reference column, divided out as the lamp&apos;s and the run analysed again</label>
           <select id="re-periodic" name="periodicDisturbance" className={select} defaultValue="divide">
-            <option value="divide">Named; without a reference column, a lamp ripple divided out and the run analysed again (default)</option>
-            <option value="name">Named only (its source is not the lamp)</option>
+            <option value="divide">Named and divided out (default)</option>
+            <option value="name">Named only (not the lamp&apos;s)</option>
             <option value="off">Not sought</option>
           </select>
         </div>
