@@ -29,6 +29,7 @@ import { levelCutEnds } from './levelCutEnds';
 import { turningPointEndS, turningPointEndSigma, turningPointEndsOnChip } from './turningPointEnd';
 import { excessErrorMeanSquare, excessErrorVariance, excessMeanShiftNm, TURNING_POINT_OVERSHOOT_PCT, turningPointCompensation, turningPointExcess, type TurningPointExcess } from './turningPointExcess';
 import { segmentByDesign } from './designSegments';
+import { compressedReading, withLinearisedSignal } from './detectorLinearity';
 import { lampRippleOf, runDisturbanceWarning, runLinesFromRequest, runLinesRequest, type LampRipple } from './runDisturbances';
 import { carryStackUncertainty, emptyStack, shiftThroughStack, type StackCovariance } from './stackUncertainty';
 import { stackPosteriorStep, type Nuisance } from './stackPosterior';
@@ -187,6 +188,16 @@ function pick(y: ArrayLike<number>, positions: Int32Array, base?: Int32Array): F
  * (fit/lampReference.ts). Pure: no I/O.
  */
 export async function analyzeRun(design: Design, trace: TraceData, options: AnalyzeOptions = {}): Promise<AnalysisResult> {
+  const linear = withLinearisedSignal(trace, options);
+  if (!linear.note) return analyzeReadings(design, trace, options);
+  const result = await analyzeReadings(design, linear.trace, options);
+  // the model in the trace's own units: read through the detector as entered
+  if (result.model) for (let i = 0; i < result.model.length; i++) result.model[i] = compressedReading(result.model[i], linear.k);
+  return { ...result, warnings: [linear.note, ...result.warnings] };
+}
+
+/** analyzeRun on readings proportional to the light (a detector linearised where the shop said how). */
+async function analyzeReadings(design: Design, trace: TraceData, options: AnalyzeOptions): Promise<AnalysisResult> {
   const referenced = withLampReference(trace, options);
   if (!referenced.note) return withRippleDivided(design, trace, options, await analyzeSignal(design, trace, options));
   const result = await analyzeSignal(design, referenced.trace, referenced.options);

@@ -1,3 +1,4 @@
+import { fitAr1PlusWhite } from '../stats';
 import { levelSteps, longRunSigma, meanSigma, median, noiseSigma, type Level } from '../trace';
 
 export interface ChipCalibration {
@@ -59,6 +60,8 @@ export interface CalibrationInput {
    * when this chip replaced another: a low level near it is that chip, not a dark reading.
    */
   previousChipLevel?: number;
+  /** The trace's logging interval, s (the noise's correlation is read over seconds, not samples: trace/levelSteps ar1Noise). */
+  sampleS?: number;
 }
 
 /** A level counts as dark below this fraction of the bare chip's reading. */
@@ -77,7 +80,7 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
   const fallbackOffset = input.knownOffset ?? 0;
   const offsetSource = input.knownOffset === undefined ? 'assumed' : 'earlier-chip';
   if (idle.length >= 10) {
-    const sigma = longRunSigma(idle);
+    const sigma = longRunSigma(idle, input.sampleS);
     const levels = levelSteps(idle, { sigma, minLength: 5 });
     // The bare chip's stretch: the last long level, extended back over levels at the same reading
     // (lamp drift and slow noise split a long stretch).
@@ -98,8 +101,8 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
       // noise does not average away over a dip shorter than its correlation time).
       return {
         chip, gain: (bareLevel - offset) / modelledBare, offset, offsetSource: dark.length ? 'dark' : offsetSource,
-        offsetSigma: dark.length ? meanSigma(bareSignal, darkCount) : 0,
-        gainSigma: medianSigma(bareSignal, s) / modelledBare, source: 'bare-chip',
+        offsetSigma: dark.length ? whiteAr1MeanSigma(bareSignal, darkCount, input.sampleS) : 0,
+        gainSigma: medianSigma(bareSignal, s, input.sampleS) / modelledBare, source: 'bare-chip',
         bareSamples: bareCount, darkSamples: darkCount, otherSamples: idle.length - bareCount - darkCount, noiseSigma: s, bareLevel,
       };
     }
@@ -118,8 +121,31 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
  * median's extra variance on the white part, (π/2 − 1)·σ²/N (the median's asymptotic variance
  * πσ²/(2N) for normal samples; from memory).
  */
-function medianSigma(y: Float64Array, white: number): number {
-  return Math.sqrt(meanSigma(y, y.length) ** 2 + ((Math.PI / 2 - 1) * white * white) / y.length);
+function medianSigma(y: Float64Array, white: number, sampleS?: number): number {
+  return Math.sqrt(whiteAr1MeanSigma(y, y.length, sampleS) ** 2 + ((Math.PI / 2 - 1) * white * white) / y.length);
+}
+
+/** The variogram's lags for whiteAr1MeanSigma, s: two or three of a lock-in's correlation times. */
+const NOISE_LAG_S = 2.5;
+
+/**
+ * σ of the mean of m consecutive samples with the noise of the stretch y, white plus AR(1) read
+ * from its robust variogram over 2.5 s (stats fitAr1PlusWhite): Var = σ_w²/m + (σ_x²/m)·[1 +
+ * 2·Σ_{k=1}^{m−1} (1 − k/m)·ρ^k] (the variance of a stationary series' mean, G. E. P. Box and
+ * G. M. Jenkins, "Time Series Analysis"; from memory), never below trace/meanSigma's. Read as AR(1)
+ * alone (meanSigma), the white part's share of the first differences takes the correlation for a
+ * short one: on an 86 Hz trace a 0.5 s dark dip's mean came out at ±0.0002 for a lock-in's
+ * noise of 0.0006 correlated over 1 s, which hardly averages over the dip.
+ */
+function whiteAr1MeanSigma(y: Float64Array, m: number, sampleS?: number): number {
+  const floor = meanSigma(y, m, sampleS);
+  const maxLag = sampleS && sampleS > 0 ? Math.max(8, Math.round(NOISE_LAG_S / sampleS)) : 25;
+  if (y.length < 4 * 8) return floor;
+  const { whiteVar, ar1Var, rho } = fitAr1PlusWhite(y, maxLag);
+  const count = Math.max(1, Math.floor(m));
+  let sum = 1;
+  for (let k = 1, rk = rho; k < count && rk > 1e-12; k++, rk *= rho) sum += 2 * (1 - k / count) * rk;
+  return Math.max(floor, Math.sqrt(whiteVar / count + (ar1Var / count) * sum));
 }
 
 /** Samples a level needs to be taken as the bare chip (2 s at 10 Hz) when there is a choice. */

@@ -2,7 +2,7 @@ import { type Design, type DesignLayer } from '../design';
 import { indexAt } from '../materials';
 import { fromNK, growingLayerSignal } from '../optics';
 import { linearTrend } from '../stats';
-import { type TraceData } from '../trace';
+import { loggedIntervalS, type TraceData } from '../trace';
 import { calibrateChip, type ChipCalibration } from './calibrateChip';
 import { fitOffsets, pool } from './fittedOffsets';
 import { type LayerSamples } from './layerSamples';
@@ -46,6 +46,7 @@ export function calibrateChips(
   const ends = [...samplesByLayer.values()].map((s) => s.indices[s.indices.length - 1]).sort((a, b) => a - b);
   let lastOffset: number | undefined;
   let previous: DesignLayer | null = null;
+  const sampleS = loggedIntervalS(trace.timeS);
   for (const dl of order) {
     const samples = samplesByLayer.get(dl.layer)!;
     const before = previous;
@@ -62,7 +63,7 @@ export function calibrateChips(
       : undefined;
     const firstCount = Math.min(samples.indices.length, 20);
     const calibration = calibrateChip({
-      chip: samples.chip, modelledBare, knownOffset: lastOffset, previousChipLevel,
+      chip: samples.chip, modelledBare, knownOffset: lastOffset, previousChipLevel, sampleS,
       idleSignal: trace.signal.subarray(idleFrom, first),
       firstLayerSignal: Float64Array.from({ length: firstCount }, (_, i) => trace.signal[samples.indices[i]]),
     });

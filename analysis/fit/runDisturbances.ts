@@ -1,5 +1,5 @@
 import { type LayerAt } from '../optics';
-import { spectrumLines, type SpectrumLine, type TraceData } from '../trace';
+import { loggedIntervalS, spectrumLines, type SpectrumLine, type TraceData } from '../trace';
 import { medianInPlace } from '../trace/robustStats';
 import { type LayerState } from './analyzeRun';
 import { layerResidualsEvery } from './layerResult';
@@ -74,14 +74,6 @@ export function runLinesFromRequest(r: RunLinesRequest): SpectrumLine[] {
 export function runDisturbanceWarning(d: SpectrumLine): string {
   return `periodic disturbance through the run at ${d.frequencyHz.toPrecision(3)} Hz (period ${(1 / d.frequencyHz).toPrecision(3)} s), `
     + `${(d.amplitude * 100).toFixed(2)} % of full scale in the fits' residuals (${d.snr.toFixed(0)}× the noise near it): ${d.note}`;
-}
-
-/** The trace's median logging interval, from its first samples (the whole trace where short). */
-function loggedIntervalS(timeS: Float64Array): number {
-  const n = Math.min(timeS.length, 20001);
-  const steps = new Float64Array(n - 1);
-  for (let i = 1; i < n; i++) steps[i - 1] = timeS[i] - timeS[i - 1];
-  return medianInPlace(steps);
 }
 
 /** A ripple on the lamp read from the run's residuals: reading = offset + gain·M·(1 + a·sin ωt + b·cos ωt). */

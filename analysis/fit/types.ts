@@ -2,6 +2,7 @@ import { type MaterialDrift } from '../stats';
 import { type SpectrumLine, type TraceWarning } from '../trace';
 import { type ChipCalibration } from './calibrateChip';
 import { type ModelResidualsRequest } from './layerResult';
+import { type DetectorLinearity } from './detectorLinearity';
 import { type RunLinesRequest } from './runDisturbances';
 import { type LayerSpectrum } from './layerSpectrum';
 import { type SampleWork, type SampleWorkResult } from './layerSampleWork';
@@ -68,6 +69,12 @@ export interface AnalyzeOptions {
    * given). No effect without the column. @default true
    */
   lampReference?: boolean;
+  /**
+   * A detector chain that reads low toward the top of its range, as the shop measured it: the
+   * signal linearised before anything else (fit/detectorLinearity.ts), the model read back through
+   * it. Unset or lowPct 0: readings taken as linear.
+   */
+  detectorLinearity?: DetectorLinearity;
   /**
    * Estimate the detector's gain drift from the bare-chip calibrations of successive chips (two
    * or more) and apply it within every chip, when it exceeds twice its σ. @default true

@@ -13,4 +13,5 @@ export { median, noiseSigma } from './robustStats';
 export { REFERENCE_WINDOWS_S, referenceRatio, referenceWindowS, runningMean } from './referenceRatio';
 export { flatStretches, type FlatStretch, type FlatStretchOptions } from './flatStretches';
 export { levelSteps, longRunSigma, meanSigma, type Level, type LevelStepOptions } from './levelSteps';
+export { loggedIntervalS } from './loggedInterval';
 export type { ReadTraceOptions, TraceData, TraceScan, TraceWarning, Segment, Segmentation } from './types';

@@ -23,6 +23,8 @@ export interface LevelStepOptions {
   minLength?: number;
   /** Adjacent levels closer than this (absolute) are merged after the search. @default 0 */
   mergeBelow?: number;
+  /** The series' sampling interval, s, for the default σ (longRunSigma). */
+  sampleS?: number;
 }
 
 /**
@@ -34,7 +36,7 @@ export interface LevelStepOptions {
  * still growing after the logged cut) comes out as a staircase of short levels.
  */
 export function levelSteps(y: ArrayLike<number>, options: LevelStepOptions = {}): Level[] {
-  return search(y, options.sigma ?? longRunSigma(y), options);
+  return search(y, options.sigma ?? longRunSigma(y, options.sampleS), options);
 }
 
 /**
@@ -44,8 +46,8 @@ export function levelSteps(y: ArrayLike<number>, options: LevelStepOptions = {})
  * differences at a lag beyond the correlation (Var(y[i+k] − y[i]) → 2σ²), ρ from the MAD of
  * first differences (Var = 2σ²(1 − ρ)). Never below the white σ of second differences.
  */
-export function longRunSigma(y: ArrayLike<number>): number {
-  const ar = ar1Noise(y);
+export function longRunSigma(y: ArrayLike<number>, sampleS?: number): number {
+  const ar = ar1Noise(y, sampleS);
   if (!ar) return noiseSigma(y);
   return Math.max(noiseSigma(y), Math.sqrt(ar.variance * ((1 + ar.rho) / (1 - ar.rho))));
 }
@@ -57,22 +59,36 @@ export function longRunSigma(y: ArrayLike<number>): number {
  * near σ (a short dark dip under a lock-in's slow noise averages nothing away); for m much
  * longer it tends to longRunSigma/√m. Never below the white σ over √m.
  */
-export function meanSigma(y: ArrayLike<number>, m: number): number {
+export function meanSigma(y: ArrayLike<number>, m: number, sampleS?: number): number {
   const count = Math.max(1, Math.floor(m));
   const white = noiseSigma(y) / Math.sqrt(count);
-  const ar = ar1Noise(y);
+  const ar = ar1Noise(y, sampleS);
   if (!ar) return white;
   let sum = 1;
   for (let k = 1, rk = ar.rho; k < count; k++, rk *= ar.rho) sum += 2 * (1 - k / count) * rk;
   return Math.max(white, Math.sqrt((ar.variance / count) * sum));
 }
 
-/** Robust σ² and lag-1 correlation ρ of an AR(1) noise (see longRunSigma); null for short series. */
-function ar1Noise(y: ArrayLike<number>): { variance: number; rho: number } | null {
+/** The lag of ar1Noise's variance, s: two or three correlation times of a lock-in (about 1 s). */
+const AR_LAG_S = 2.5;
+/** Samples of that lag at 10 Hz and slower, and the cap on ρ there. */
+const AR_LAG_SAMPLES = 25;
+const AR_RHO_CAP = 0.98;
+
+/**
+ * Robust σ² and lag-1 correlation ρ of an AR(1) noise (see longRunSigma); null for short series.
+ * The lag is 25 samples, or 2.5 s where the series is sampled faster than 10 Hz (sampleS given):
+ * 25 samples of an 86 Hz trace are 0.3 s, which a lock-in's 1 s correlation hardly reaches, so its
+ * variance was read low (the bench's 40-layer run: a 0.5 s dark dip's mean at ±0.00006 for an
+ * error of 0.0003, every index above its truth, 7 of 40 beyond 3σ); ρ's cap goes with the lag, the
+ * same correlation time at any rate.
+ */
+function ar1Noise(y: ArrayLike<number>, sampleS?: number): { variance: number; rho: number } | null {
   const n = y.length;
   if (n < 40) return null;
-  // Two or three correlation times of a lock-in (1 s at 10 Hz), few enough to keep steps rare among the differences.
-  const lag = Math.min(25, Math.floor(n / 8));
+  // Two or three correlation times, few enough to keep steps rare among the differences.
+  const perLag = sampleS && sampleS > 0 ? Math.max(AR_LAG_SAMPLES, Math.round(AR_LAG_S / sampleS)) : AR_LAG_SAMPLES;
+  const lag = Math.min(perLag, Math.floor(n / 8));
   const mad = (k: number) => {
     const d = new Float64Array(n - k);
     for (let i = 0; i + k < n; i++) d[i] = y[i + k] - y[i];
@@ -83,7 +99,7 @@ function ar1Noise(y: ArrayLike<number>): { variance: number; rho: number } | nul
   const total2 = mad(lag) ** 2 / 2;
   const first2 = mad(1) ** 2;
   if (!(total2 > 0)) return null;
-  return { variance: total2, rho: Math.min(Math.max(1 - first2 / (2 * total2), 0), 0.98) };
+  return { variance: total2, rho: Math.min(Math.max(1 - first2 / (2 * total2), 0), AR_RHO_CAP ** (AR_LAG_SAMPLES / perLag)) };
 }
 
 function search(y: ArrayLike<number>, sigma: number, options: LevelStepOptions): Level[] {

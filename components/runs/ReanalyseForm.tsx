@@ -67,6 +67,13 @@ export function ReanalyseForm({ runId }: { runId: number }) {
     const levelClock = form.get('sequentialLevelClock');
     if (levelClock === 'on') settings.sequentialLevelClock = true;
     if (levelClock === 'off') settings.sequentialLevelClock = false;
+    const lowPct = String(form.get('linearityLowPct') ?? '').trim();
+    const atReading = String(form.get('linearityAtReading') ?? '').trim();
+    if ((lowPct === '') !== (atReading === '')) {
+      setMessage('Detector linearity: give both how far low it reads (%) and the reading it was measured at, or neither.');
+      return;
+    }
+    if (lowPct !== '') settings.detectorLinearity = { lowPct: Number(lowPct), atReading: Number(atReading) };
     const overshoot = String(form.get('turningPointOvershoot') ?? '').trim();
     if (overshoot !== '') settings.turningPointOvershootPct = Number(overshoot);
     const cutPast = form.get('cutPastTurningPoint');
@@ -173,6 +180,14 @@ export function ReanalyseForm({ runId }: { runId: number }) {
         <div className="flex flex-col gap-1 text-xs text-ink-soft">
           <label htmlFor="re-unmeasured">Where a chip&apos;s offset is neither read dark nor told by its layers: its σ in every layer, % of full scale (0: taken as exact)</label>
           <input id="re-unmeasured" name="unmeasuredOffset" type="number" min="0" max="5" step="0.05" placeholder="0.3 (default)" className={select} />
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-linearity-low">Detector linearity, from the shop&apos;s own check (e.g. calibrated neutral-density filters): it reads this many % low… (empty: linear)</label>
+          <input id="re-linearity-low" name="linearityLowPct" type="number" min="0" max="20" step="0.01" placeholder="0 (linear)" className={select} />
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft">
+          <label htmlFor="re-linearity-at">…at this reading, in the trace&apos;s signal units (the readings are linearised before the fit)</label>
+          <input id="re-linearity-at" name="linearityAtReading" type="number" min="0" step="any" placeholder="e.g. the bare chip's reading" className={select} />
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
           <label htmlFor="re-overshoot">The controller&apos;s overshoot: how far past a turning point the controller may cut, % of the layer (without a layer column its mean goes into the thickness, its spread into σ; it also bounds the held last cut above)</label>

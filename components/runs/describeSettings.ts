@@ -42,5 +42,9 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (typeof s.turningPointOvershootPct === 'number') parts.push(`turning-point overshoot up to ${+s.turningPointOvershootPct.toFixed(3)} %`);
   if (s.runDisturbances === false) parts.push('no search for a periodic disturbance through the run');
   else if (s.rippleDivide === false) parts.push('a lamp ripple found through the run named, not divided out');
+  const linearity = s.detectorLinearity as { lowPct?: unknown; atReading?: unknown } | undefined;
+  if (linearity && typeof linearity.lowPct === 'number' && typeof linearity.atReading === 'number' && linearity.lowPct > 0) {
+    parts.push(`detector linearised: ${+linearity.lowPct.toFixed(4)} % low at a reading of ${+linearity.atReading.toPrecision(4)}`);
+  }
   return parts.join(' · ');
 }

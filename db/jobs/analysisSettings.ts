@@ -41,6 +41,7 @@ export const analysisSettingsSchema = z
     cutPastTurningPoint: z.union([z.boolean(), z.literal('refit')]).optional(),
     runDisturbances: z.boolean().optional(),
     rippleDivide: z.boolean().optional(),
+    detectorLinearity: z.object({ lowPct: z.number().min(0).max(20), atReading: z.number().positive() }).strict().optional(),
   })
   .strict();
 export type AnalysisSettings = z.infer<typeof analysisSettingsSchema>;

@@ -61,6 +61,12 @@ describe('analysis settings', () => {
       'sequential · no search for a periodic disturbance through the run',
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', runDisturbances: true, rippleDivide: true }))).toBe('refit');
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', detectorLinearity: { lowPct: 0.5, atReading: 1.94 } }))).toBe(
+      'refit · detector linearised: 0.5 % low at a reading of 1.94',
+    );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', detectorLinearity: { lowPct: 0, atReading: 1 } }))).toBe('refit');
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', detectorLinearity: { lowPct: 0.5, atReading: 0 } }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', detectorLinearity: { lowPct: 25, atReading: 1 } }).success).toBe(false);
   });
 
   it('refuses an option the fit does not know, and a wrong type', () => {
