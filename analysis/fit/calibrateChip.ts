@@ -99,10 +99,11 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
       const s = noiseSigma(bareSignal);
       // σ of the short dark mean and of the bare mean from the bare stretch's noise (correlated
       // noise does not average away over a dip shorter than its correlation time).
+      const noise = bareNoise(bareSignal, input.sampleS);
       return {
         chip, gain: (bareLevel - offset) / modelledBare, offset, offsetSource: dark.length ? 'dark' : offsetSource,
-        offsetSigma: dark.length ? whiteAr1MeanSigma(bareSignal, darkCount, input.sampleS) : 0,
-        gainSigma: medianSigma(bareSignal, s, input.sampleS) / modelledBare, source: 'bare-chip',
+        offsetSigma: dark.length ? whiteAr1MeanSigma(bareSignal, noise, darkCount, input.sampleS) : 0,
+        gainSigma: medianSigma(bareSignal, noise, s, input.sampleS) / modelledBare, source: 'bare-chip',
         bareSamples: bareCount, darkSamples: darkCount, otherSamples: idle.length - bareCount - darkCount, noiseSigma: s, bareLevel,
       };
     }
@@ -121,31 +122,61 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
  * median's extra variance on the white part, (π/2 − 1)·σ²/N (the median's asymptotic variance
  * πσ²/(2N) for normal samples; from memory).
  */
-function medianSigma(y: Float64Array, white: number, sampleS?: number): number {
-  return Math.sqrt(whiteAr1MeanSigma(y, y.length, sampleS) ** 2 + ((Math.PI / 2 - 1) * white * white) / y.length);
+function medianSigma(y: Float64Array, noise: StretchNoise | null, white: number, sampleS?: number): number {
+  return Math.sqrt(whiteAr1MeanSigma(y, noise, y.length, sampleS) ** 2 + ((Math.PI / 2 - 1) * white * white) / y.length);
 }
 
-/** The variogram's lags for whiteAr1MeanSigma, s: two or three of a lock-in's correlation times. */
+/** The variogram's lags for the bare stretch's noise, s: two or three of a lock-in's correlation times. */
 const NOISE_LAG_S = 2.5;
+/** The noise is read on means of this many seconds' samples at most (one sample at 10 Hz and slower). */
+const NOISE_BIN_S = 0.1;
+
+/** White + AR(1) noise of a stretch (see bareNoise), on means of k samples: the white part per sample. */
+interface StretchNoise {
+  k: number;
+  whitePerSample: number;
+  ar1Var: number;
+  rho: number;
+}
 
 /**
- * σ of the mean of m consecutive samples with the noise of the stretch y, white plus AR(1) read
- * from its robust variogram over 2.5 s (stats fitAr1PlusWhite): Var = σ_w²/m + (σ_x²/m)·[1 +
- * 2·Σ_{k=1}^{m−1} (1 − k/m)·ρ^k] (the variance of a stationary series' mean, G. E. P. Box and
- * G. M. Jenkins, "Time Series Analysis"; from memory), never below trace/meanSigma's. Read as AR(1)
- * alone (meanSigma), the white part's share of the first differences takes the correlation for a
- * short one: on an 86 Hz trace a 0.5 s dark dip's mean came out at ±0.0002 for a lock-in's
- * noise of 0.0006 correlated over 1 s, which hardly averages over the dip.
+ * The bare stretch's noise, white plus AR(1), from the robust variogram over 2.5 s (stats
+ * fitAr1PlusWhite) of its means of k samples, k the samples in 0.1 s (1 at 10 Hz and slower): on
+ * an 86 Hz trace the variogram of every sample to 2.5 s cost 0.15 s of a 1.8 s analysis, the
+ * means of 8 a sixtieth of it. A mean of k samples keeps the AR(1) part (k samples are a tenth of
+ * its correlation time) and divides the white part by k.
  */
-function whiteAr1MeanSigma(y: Float64Array, m: number, sampleS?: number): number {
+function bareNoise(y: Float64Array, sampleS?: number): StretchNoise | null {
+  const k = sampleS && sampleS > 0 ? Math.max(1, Math.floor(NOISE_BIN_S / sampleS + 1e-9)) : 1;
+  const n = Math.floor(y.length / k);
+  if (n < 4 * 8) return null;
+  const means = new Float64Array(n);
+  for (let b = 0; b < n; b++) {
+    let sum = 0;
+    for (let i = b * k; i < (b + 1) * k; i++) sum += y[i];
+    means[b] = sum / k;
+  }
+  const maxLag = sampleS && sampleS > 0 ? Math.max(8, Math.round(NOISE_LAG_S / (k * sampleS))) : 25;
+  const { whiteVar, ar1Var, rho } = fitAr1PlusWhite(means, maxLag);
+  return { k, whitePerSample: whiteVar * k, ar1Var, rho };
+}
+
+/**
+ * σ of the mean of m consecutive samples under the stretch's noise (bareNoise): σ_w²/m +
+ * (σ_x²/m')·[1 + 2·Σ_{j=1}^{m'−1} (1 − j/m')·ρ^j], m' = m/k of its means (the variance of a
+ * stationary series' mean, G. E. P. Box and G. M. Jenkins, "Time Series Analysis"; from memory),
+ * never below trace/meanSigma's. Read as AR(1) alone (meanSigma), the white part's share of the
+ * first differences takes the correlation for a short one: on an 86 Hz trace a 0.5 s dark dip's
+ * mean came out at ±0.00006 for a lock-in's noise of 0.0006 correlated over 1 s, which hardly
+ * averages over the dip.
+ */
+function whiteAr1MeanSigma(y: Float64Array, noise: StretchNoise | null, m: number, sampleS?: number): number {
   const floor = meanSigma(y, m, sampleS);
-  const maxLag = sampleS && sampleS > 0 ? Math.max(8, Math.round(NOISE_LAG_S / sampleS)) : 25;
-  if (y.length < 4 * 8) return floor;
-  const { whiteVar, ar1Var, rho } = fitAr1PlusWhite(y, maxLag);
-  const count = Math.max(1, Math.floor(m));
+  if (!noise) return floor;
+  const count = Math.max(1, m / noise.k);
   let sum = 1;
-  for (let k = 1, rk = rho; k < count && rk > 1e-12; k++, rk *= rho) sum += 2 * (1 - k / count) * rk;
-  return Math.max(floor, Math.sqrt(whiteVar / count + (ar1Var / count) * sum));
+  for (let j = 1, rj = noise.rho; j < count && rj > 1e-12; j++, rj *= noise.rho) sum += 2 * (1 - j / count) * rj;
+  return Math.max(floor, Math.sqrt(noise.whitePerSample / Math.max(1, m) + (noise.ar1Var / count) * sum));
 }
 
 /** Samples a level needs to be taken as the bare chip (2 s at 10 Hz) when there is a choice. */
