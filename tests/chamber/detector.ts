@@ -14,6 +14,9 @@ export class Detector {
   private spikeLeft = 0;
   private spikeValue = 0;
   private readonly spikeP: number;
+  private wanderT = 0;
+  private wanderHz = NaN;
+  private wanderPhase = 0;
 
   constructor(
     private readonly o: Required<Pick<ChamberOptions, 'gain' | 'lampDriftPerHour' | 'darkOffset' | 'strayFraction' | 'whiteNoise'>> & ChamberOptions,
@@ -21,6 +24,8 @@ export class Detector {
     private readonly noiseRng: ChamberRng,
     private readonly arRng: ChamberRng,
     private readonly spikeRng: ChamberRng,
+    /** The ripple frequency's wander (lampRipple.frequencyWander), on its own stream. */
+    private readonly wanderRng?: ChamberRng,
   ) {
     const c = o.correlatedNoise;
     if (c && c.fraction > 0) {
@@ -29,6 +34,26 @@ export class Detector {
       this.ar = c.fraction * arRng.gauss();
     }
     this.spikeP = o.spikes ? (o.spikes.perMinute * dt) / 60 : 0;
+  }
+
+  /**
+   * The ripple's phase beyond 2π·f·t at true time t (option lampRipple.frequencyWander): the
+   * frequency's excursion, an Ornstein–Uhlenbeck process stepped exactly between the times asked
+   * (which do not go back), integrated at each step's end. 0 without the option.
+   */
+  private wanderPhaseAt(tS: number): number {
+    const w = this.o.lampRipple?.frequencyWander;
+    if (!w || !this.wanderRng) return 0;
+    // (the excursion at the first reading drawn from the process's stationary spread)
+    if (Number.isNaN(this.wanderHz)) this.wanderHz = w.sigmaHz * this.wanderRng.gauss();
+    if (tS > this.wanderT) {
+      const dt = tS - this.wanderT;
+      const a = Math.exp(-dt / w.correlationS);
+      this.wanderHz = a * this.wanderHz + w.sigmaHz * Math.sqrt(1 - a * a) * this.wanderRng.gauss();
+      this.wanderPhase += 2 * Math.PI * this.wanderHz * dt;
+      this.wanderT = tS;
+    }
+    return this.wanderPhase;
   }
 
   gainAt(tS: number): number {
@@ -41,7 +66,7 @@ export class Detector {
    */
   lampAt(tS: number): number {
     const r = this.o.lampRipple;
-    const ripple = r ? 1 + r.fraction * Math.sin(2 * Math.PI * r.frequencyHz * tS) : 1;
+    const ripple = r ? 1 + r.fraction * Math.sin(2 * Math.PI * r.frequencyHz * tS + this.wanderPhaseAt(tS)) : 1;
     return (1 + (this.o.lampDriftPerHour * tS) / 3600) * ripple;
   }
 

@@ -45,7 +45,16 @@ export interface ChamberOptions {
    * it aliases to a slow beat (100.05 Hz read every 0.1 s: a 20 s period). A reference column sees
    * the same ripple. @default none
    */
-  lampRipple?: { fraction: number; frequencyHz: number };
+  lampRipple?: {
+    fraction: number;
+    frequencyHz: number;
+    /**
+     * The mains frequency wanders (a grid holds 50 Hz within about ±0.05 Hz, drifting over
+     * minutes): the ripple's frequency about frequencyHz as an Ornstein–Uhlenbeck process of this
+     * σ (Hz, at the ripple: twice the mains') and correlation time, its phase the integral.
+     */
+    frequencyWander?: { sigmaHz: number; correlationS: number };
+  };
   /**
    * A detector chain that reads low toward the top of its range: each reading v becomes
    * v·(1 − β·v/gain), β this value (0.005: 0.5 % low at full scale). Applied before the noise. @default 0

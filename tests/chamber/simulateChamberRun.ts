@@ -34,7 +34,7 @@ export function simulateChamberRun(design: ChamberDesign, options: ChamberOption
   if (o.reference && o.darkS > 0) throw new RangeError('a reference detector with lamp-off samples (darkS) is not modelled');
   const root = chamberRng(o.seed);
   const rngLayer = root.fork('layers'), rngWander = root.fork('rate-wander'), rngJitter = root.fork('jitter'), rngTiming = root.fork('timing');
-  const det = new Detector(o, dt, root.fork('white'), root.fork('correlated'), root.fork('spikes'));
+  const det = new Detector(o, dt, root.fork('white'), root.fork('correlated'), root.fork('spikes'), root.fork('ripple-wander'));
   const stacks = new ChipStacks(design);
   const out = new Samples(o.tooling !== undefined, o.reference !== undefined);
   // the reference detector's own noise, on its own stream: the signal's draws stay as they were
