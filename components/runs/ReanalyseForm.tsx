@@ -98,7 +98,16 @@ export function ReanalyseForm({ runId }: { runId: number }) {
   }
 
   return (
-    <form action={submit} className="flex flex-col gap-3" data-testid="reanalyse-form">
+    // Submitted by hand, not as a form action: an action resets every field once it returns, so a
+    // refused request (half a linearity, a server's answer) would have cleared what was entered.
+    <form
+      onSubmit={(e) => {
+        e.preventDefault();
+        void submit(new FormData(e.currentTarget));
+      }}
+      className="flex flex-col gap-3"
+      data-testid="reanalyse-form"
+    >
       <div className="grid grid-cols-1 gap-3 sm:grid-cols-2 lg:grid-cols-4">
         <div className="flex flex-col gap-1 text-xs text-ink-soft">
           <label htmlFor="re-mode">Mode</label>
