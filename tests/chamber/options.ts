@@ -50,7 +50,7 @@ export interface ChamberOptions {
     frequencyHz: number;
     /**
      * The mains frequency wanders (a grid holds 50 Hz within about ±0.05 Hz, drifting over
-     * minutes): the ripple's frequency about frequencyHz as an Ornstein–Uhlenbeck process of this
+     * minutes; from memory): the ripple's frequency about frequencyHz as an Ornstein–Uhlenbeck process of this
      * σ (Hz, at the ripple: twice the mains') and correlation time, its phase the integral.
      */
     frequencyWander?: { sigmaHz: number; correlationS: number };
