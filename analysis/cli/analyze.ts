@@ -72,6 +72,7 @@ export async function analyzeCommand(argv: string[]) {
   }
 }
 
-// (a thread of any other role runs nothing)
+// (a thread of any other role runs nothing; runCli settles every error itself, so the promise is
+// not awaited: the launcher runs the bundle as a script, which has no top-level await)
 if (isSpectrumThread) serveSpectra();
-else if (isMainThread) await runCli('analyze', analyzeCommand);
+else if (isMainThread) void runCli('analyze', analyzeCommand);

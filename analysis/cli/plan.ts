@@ -10,4 +10,5 @@ export function planCommand(argv: string[]) {
   return { design: design.name, layers: cutPlan(design) };
 }
 
-await runCli('plan', planCommand);
+// (runCli settles every error itself; not awaited: the launcher runs the bundle as a script)
+void runCli('plan', planCommand);

@@ -20,4 +20,5 @@ export function spectrumCommand(argv: string[]) {
   return { wavelengthNm, R, T };
 }
 
-await runCli('spectrum', spectrumCommand);
+// (runCli settles every error itself; not awaited: the launcher runs the bundle as a script)
+void runCli('spectrum', spectrumCommand);

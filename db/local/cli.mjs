@@ -1,11 +1,12 @@
 // `npm run NAME` for the command lines of analysis/cli (spectrum, plan, analyze). Plain Node:
-// runs analysis/cli/NAME.ts as one ES module bundled by tsx's own esbuild, kept in
+// runs analysis/cli/NAME.ts as one script bundled by tsx's own esbuild, kept in
 // node_modules/.cache/fringelog-cli/ and rebuilt whenever any of its source files (or
 // tsconfig.json) changed, so a fresh clone and an edited tree work alike. Starting the bundle
 // costs about a tenth of starting tsx, which compiles every file on each run. Packages go into
 // the bundle too (their files are among its inputs): loading zod's hundred modules from
 // node_modules one by one cost each thread of `analyze` about 0.07 s of CPU more than reading them
-// in the one file (10 alternated starts each). When no bundle can be built or written, the
+// in the one file (10 alternated starts each). The bundle is a CommonJS script run through
+// node:vm with V8's code cache (cliRun.mjs runBundle). When no bundle can be built or written, the
 // command runs through tsx in this process instead.
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
@@ -14,13 +15,14 @@ import { availableParallelism } from 'node:os';
 import path from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import v8 from 'node:v8';
-import { Worker } from 'node:worker_threads';
+import { isMainThread, Worker } from 'node:worker_threads';
+import { runBundle, THREAD_ENTRY } from './cliRun.mjs';
 
 export const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', '..');
 const COMMANDS = ['spectrum', 'plan', 'analyze'];
 const HEADER = '// fringelog-cli ';
 // Part of every bundle's key: a change to how bundles are built invalidates the old ones.
-const BUILD = 'esm-node20-packages-bundled-2';
+const BUILD = 'cjs-node20-packages-bundled-codecache-1';
 
 /** Where the bundles live (FRINGELOG_CLI_CACHE overrides it, e.g. for a test: a folder inside the project, where the bundle finds node_modules). */
 export function cacheDir() {
@@ -44,7 +46,12 @@ function inputsHash(inputs) {
 
 /** The bundle's path when it exists and matches its sources, else null. */
 export function freshBundle(name, dir = cacheDir()) {
-  const file = path.join(dir, `${name}.mjs`);
+  return freshBundleKey(name, dir)?.file ?? null;
+}
+
+/** freshBundle's path with the hash its first line records. */
+export function freshBundleKey(name, dir = cacheDir()) {
+  const file = path.join(dir, `${name}.cjs`);
   let head;
   try {
     const fd = fs.openSync(file, 'r');
@@ -65,7 +72,7 @@ export function freshBundle(name, dir = cacheDir()) {
   } catch {
     return null;
   }
-  return Array.isArray(key.inputs) && key.hash === inputsHash(key.inputs) ? file : null;
+  return Array.isArray(key.inputs) && key.hash === inputsHash(key.inputs) ? { file, hash: key.hash } : null;
 }
 
 /** Builds analysis/cli/NAME.ts into the cache (written whole, then renamed into place); returns its path. */
@@ -78,8 +85,11 @@ export async function buildBundle(name, dir = cacheDir()) {
     entryPoints: [path.join('analysis', 'cli', `${name}.ts`)],
     bundle: true,
     platform: 'node',
-    format: 'esm',
+    // a script, not a module: node:vm compiles a script with a code cache (runBundle), a module only
+    // behind a flag. import.meta.url (the thread's entry in analyze) is the launcher's (runBundle).
+    format: 'cjs',
     target: 'node20',
+    define: { 'import.meta.url': '__fringelogEntryUrl' },
     metafile: true,
     write: false,
     logLevel: 'silent',
@@ -87,29 +97,34 @@ export async function buildBundle(name, dir = cacheDir()) {
   const inputs = [...Object.keys(result.metafile.inputs), 'tsconfig.json'].sort();
   const hash = inputsHash(inputs);
   if (hash === null) throw new Error('a source file vanished during the build');
-  const file = path.join(dir, `${name}.mjs`);
+  const file = path.join(dir, `${name}.cjs`);
   fs.mkdirSync(dir, { recursive: true });
   const tmp = `${file}.${process.pid}.tmp`;
   fs.writeFileSync(tmp, `${HEADER}${JSON.stringify({ hash, inputs })}\n${result.outputFiles[0].text}`);
   fs.renameSync(tmp, file);
-  return file;
+  // the code caches of the bundles it replaces (runBundle), and a bundle of the earlier ES module kind
+  for (const f of fs.readdirSync(dir)) {
+    if ((f.startsWith(`${name}.cjs.`) && f.endsWith('.v8cache') && !f.startsWith(`${name}.cjs.${hash.slice(0, 16)}.`)) || f === `${name}.mjs`) fs.rmSync(path.join(dir, f), { force: true });
+  }
+  return { file, hash };
 }
+
 
 /**
  * analyze: its second thread (analysis/cli/spectrumThread.ts, which takes it over from
- * globalThis[EARLY_THREAD]) started on the bundle here, so that thread loads the bundle while this
- * one does, not after: started by the command, it was ready about 0.13 s into the process, and
+ * globalThis[EARLY_THREAD]) started here on the bundle's thread entry (cliRun.mjs, told which
+ * bundle in its workerData), so that thread loads the bundle while this one does, not after: started by the command, it was ready about 0.13 s into the process, and
  * until then this thread read the trace alone. The role and the claims' length are the ones
  * spectrumThread.ts gives its threads (it takes over only a thread that has them). Unreferenced: a
  * command that stops before taking it over does not wait for it. One core: no second thread.
  */
 const EARLY_THREAD = Symbol.for('fringelog.cli.earlyThread');
-function startEarlyThread(file) {
+function startEarlyThread(bundle) {
   if (availableParallelism() <= 1) return;
   try {
     const claims = new Int32Array(new SharedArrayBuffer(4 * (1 << 14)));
-    const early = { entry: pathToFileURL(file).href, worker: null, claims, failed: false };
-    early.worker = new Worker(new URL(early.entry), { workerData: { role: 'fringelog-layer-spectra', claims } });
+    const early = { entry: THREAD_ENTRY, worker: null, claims, failed: false };
+    early.worker = new Worker(new URL(early.entry), { workerData: { role: 'fringelog-layer-spectra', claims, bundle } });
     early.worker.unref();
     // until taken over: a thread that fails is noted, for the command to start its own
     const failed = () => (early.failed = true);
@@ -136,10 +151,10 @@ async function main() {
   // engine shares the flags): CPU 2.85 → 2.61 s, wall −9 % (paired, 10 runs each), the same output
   // (inlining does not change a float operation). Without inlining at all, no faster still.
   if (name === 'analyze') v8.setFlagsFromString('--max-inlined-bytecode-size-cumulative=120');
-  let file = freshBundle(name);
-  if (!file) {
+  let bundle = freshBundleKey(name);
+  if (!bundle) {
     try {
-      file = await buildBundle(name);
+      bundle = await buildBundle(name);
     } catch (e) {
       if (process.env.FRINGELOG_CLI_DEBUG) process.stderr.write(`cli: no bundle (${e.message}); running through tsx\n`);
       const { register } = await import('tsx/esm/api');
@@ -148,8 +163,9 @@ async function main() {
       return;
     }
   }
-  if (name === 'analyze') startEarlyThread(file);
-  await import(pathToFileURL(file).href);
+  if (name === 'analyze') startEarlyThread(bundle);
+  runBundle(bundle, true);
 }
 
-if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) await main();
+// (main thread only: cliRun.mjs imports this module in a thread that was not told its bundle)
+if (isMainThread && process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) await main();
