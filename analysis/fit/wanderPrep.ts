@@ -7,14 +7,19 @@ import { type WanderChoiceInput } from './wanderChoice';
 
 /** The wander correlation times tried, s (knots one correlation time apart). */
 export const WANDER_CORRELATIONS_S = [20];
-const SAMPLES_PER_BIN = 3;
-const NOISE_LAGS_S = 4;
 /**
- * Beyond lag 40 (only on traces logged faster than about 30 Hz: 4 s is 13 lags at 10 Hz) every
- * 6th lag of the variogram, not every 2nd: on the bench's 86 Hz run its 115 lags were about a
- * quarter of a second of the second thread, on the path the wander choice waits on.
+ * Bins of SAMPLES_PER_BIN samples, and of at least BIN_S: at 10 Hz the same, on a faster trace as
+ * many samples as make BIN_S (29 on the bench's 86 Hz run, where bins of three samples, 0.035 s,
+ * gave 6700 bins a layer and a variogram to 115 lags: about a third of a second of the second
+ * thread's CPU, and the whitening and Gram products of the main one's wander choices on all those
+ * rows). A lock-in's noise is correlated over about a second either way, so the bins' noise is
+ * white plus AR(1) as at 10 Hz. Bench run, refit: wall 0.91×, CPU 0.88× (10 alternated pairs);
+ * 86 Hz seeds 40–44 beyond 3σ as before (1 of 200 indices, 0 of 200 thicknesses), thickness
+ * errors within 0.01 % at the worst layer of each run.
  */
-const FAR_LAG_STEP = 6;
+const SAMPLES_PER_BIN = 3;
+const BIN_S = 0.3;
+const NOISE_LAGS_S = 4;
 
 /**
  * The part of a layer's wander choice (chooseRateWander) that does not read the run's variogram
@@ -42,9 +47,11 @@ export interface WanderPrep {
 export function prepareRateWander(input: Omit<WanderChoiceInput, 'noisePool'>): WanderPrep {
   const { below, layer, estimate, offsetSignal } = input;
   const all = input.allTauS.length;
-  // Bin means of SAMPLES_PER_BIN samples (a fraction of a lock-in's correlation time at 10 Hz, so
-  // the bins' noise is still white plus AR(1) and read as such; the same lags in every layer).
-  const bins = binMeans(input.allTauS, indexRange(all), input.allY, Math.floor(all / SAMPLES_PER_BIN));
+  // Bin means of SAMPLES_PER_BIN samples and at least BIN_S (a fraction of a lock-in's correlation
+  // time, so the bins' noise is still white plus AR(1) and read as such; the same lags in every layer).
+  const spanS = all > 1 ? input.allTauS[all - 1] - input.allTauS[0] : 0;
+  const perBin = Math.max(SAMPLES_PER_BIN, spanS > 0 ? Math.round((BIN_S * (all - 1)) / spanS) : SAMPLES_PER_BIN);
+  const bins = binMeans(input.allTauS, indexRange(all), input.allY, Math.floor(all / perBin));
   const N = bins.tauS.length;
   const per = all / Math.max(N, 1);
   const plain: FitLayerData = { ...layer, tauS: bins.tauS, y: bins.y, weight: 1, wander: undefined };
@@ -57,7 +64,7 @@ export function prepareRateWander(input: Omit<WanderChoiceInput, 'noisePool'>): 
   evaluateLayers(below, [plain], l0, p0, offsetSignal, at);
   const binS = N > 1 ? (bins.tauS[N - 1] - bins.tauS[0]) / (N - 1) : 1;
   const residuals = difference(bins.y, at);
-  const variogram = variogramSums(residuals, Math.max(8, Math.round(NOISE_LAGS_S / binS)), FAR_LAG_STEP);
+  const variogram = variogramSums(residuals, Math.max(8, Math.round(NOISE_LAGS_S / binS)));
   const candidates: WanderPrep['candidates'] = [];
   const prep = {
     N, per, rateNmPerS: estimate.rateNmPerS, durationS: layer.durationS, freeGain: plain.heldGain === null, gainPriorSigma: input.gainPriorSigma,

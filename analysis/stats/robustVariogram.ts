@@ -29,16 +29,13 @@ export function pooledGamma(v: VariogramSums, pool?: VariogramPool): number[] {
   return v.lags.map((k) => pool.sums.get(k)! / pool.counts.get(k)!);
 }
 
-/**
- * The robust variogram of a series alone (see robustVariogram), with its sums for a pool. Lags
- * beyond FAR_LAG are taken every `farStep`-th (2 as below it unless the caller asks for fewer).
- */
-export function variogramSums(e: ArrayLike<number>, maxLag: number, farStep = 2): VariogramSums {
+/** The robust variogram of a series alone (see robustVariogram), with its sums for a pool. */
+export function variogramSums(e: ArrayLike<number>, maxLag: number): VariogramSums {
   const n = e.length;
   const L = Math.min(maxLag, Math.floor(n / 4));
   // Every lag up to 8, then every 2nd: the short lags carry the white part and ρ, the rest the level.
   const lags: number[] = [];
-  for (let k = 1; k <= L; k += k < 8 ? 1 : k < FAR_LAG ? 2 : farStep) lags.push(k);
+  for (let k = 1; k <= L; k += k < 8 ? 1 : 2) lags.push(k);
   const gamma: number[] = [];
   // Arrays shared by every lag: the differences, the values near a median (in a window: see
   // trace/robustStats.ts medianFromWindow), and a copy to reorder when the median is not there.
@@ -95,9 +92,6 @@ export function variogramSums(e: ArrayLike<number>, maxLag: number, farStep = 2)
   }
   return { lags, gamma, sums, counts };
 }
-
-/** The lag from which variogramSums may take fewer lags (see there). */
-const FAR_LAG = 40;
 
 /** Half-width of the window about the last lag's median of the differences, in its MAD (±0.1 σ for Gaussian differences: ~8 % of them, where the median moves by ~0.02 σ between lags of 6000 values). */
 const MED_HINT = 0.15;

@@ -2,11 +2,12 @@ import { describe, expect, it } from 'vitest';
 import { fitLayers } from '..';
 import { createRng } from '../../synth';
 import { chooseRateWander, wanderEndVariance } from '../wanderChoice';
+import { prepareRateWander } from '../wanderPrep';
 import { plainFit, wanderingLayer } from './wanderLayers';
 
 /** A wandering layer (wanderLayers.ts) on its own random stream: what the chooser must tell apart. */
-function layer(wanderFraction: number, seed: number) {
-  return wanderingLayer(wanderFraction, createRng(seed));
+function layer(wanderFraction: number, seed: number, dtS?: number) {
+  return wanderingLayer(wanderFraction, createRng(seed), dtS);
 }
 
 describe('chooseRateWander', () => {
@@ -48,4 +49,35 @@ describe('chooseRateWander', () => {
     }
     expect(chosen).toBeGreaterThanOrEqual(2);
   });
+
+  // A fast trace is binned to bins of at least 0.3 s (fit/wanderPrep.ts BIN_S), not three samples:
+  // the same noise model and choice as at 10 Hz, on a tenth of the rows.
+  it('reads a 100 Hz trace on bins of 0.3 s and chooses as at 10 Hz', () => {
+    let steadyChosen = 0, wanderingChosen = 0;
+    const ratios: number[] = [];
+    for (const seed of [1, 2, 3, 4, 5, 6]) {
+      for (const fraction of [0, 0.03]) {
+        const l = layer(fraction, seed, 0.01);
+        const plain = plainFit(l.data);
+        const input = { below: [], layer: l.data, estimate: plain.layers[0], offsetSignal: 0, gainPriorSigma: 0, allTauS: l.tauS, allY: l.y };
+        const prep = prepareRateWander(input);
+        // 25 000 samples in bins of 30 (0.3 s)
+        expect(prep.per).toBeGreaterThan(29);
+        expect(prep.per).toBeLessThan(31);
+        expect(prep.N).toBe(Math.floor(l.tauS.length / 30));
+        const c = chooseRateWander(input);
+        if (fraction === 0) {
+          if (c.wander) steadyChosen++;
+          // the noise's long-run σ at 100 Hz: √(0.0003² + 0.0006²·(1 + ρ)/(1 − ρ)), ρ = e^(−0.01)
+          const rho = Math.exp(-0.01);
+          ratios.push(c.sampleSigma / Math.sqrt(0.0003 ** 2 + 0.0006 ** 2 * ((1 + rho) / (1 - rho))));
+        } else if (c.wander) wanderingChosen++;
+      }
+    }
+    ratios.sort((a, b) => a - b);
+    expect(ratios[2]).toBeGreaterThan(0.8);
+    expect(ratios[3]).toBeLessThan(1.25);
+    expect(steadyChosen).toBeLessThanOrEqual(1);
+    expect(wanderingChosen).toBeGreaterThanOrEqual(4);
+  }, 60_000);
 });

@@ -11,23 +11,23 @@ const DT = 0.1;
 type Rng = ReturnType<typeof createRng>;
 
 /**
- * One quarter-wave-ish layer (n = 2.3, 0.25 nm/s, 250 s at 10 Hz) whose rate wanders by
+ * One quarter-wave-ish layer (n = 2.3, 0.25 nm/s, 250 s at 10 Hz, or every dtS) whose rate wanders by
  * `fraction` as an OU process with a 15 s correlation time (integrated here by the rectangle rule,
  * not by fit/rateWander's knots), under white + AR(1) noise of a lock-in (1 s): its samples, its
  * fit data on 400 bin means, and the true end thickness.
  */
-export function wanderingLayer(fraction: number, rng: Rng) {
-  const n = 2500, rate = 0.25;
-  const tauS = Float64Array.from({ length: n }, (_, i) => i * DT);
+export function wanderingLayer(fraction: number, rng: Rng, dtS = DT) {
+  const n = Math.round(250 / dtS), rate = 0.25;
+  const tauS = Float64Array.from({ length: n }, (_, i) => i * dtS);
   const d = new Float64Array(n);
-  const rhoW = Math.exp(-DT / 15);
+  const rhoW = Math.exp(-dtS / 15);
   let w = fraction * rng.normal();
   for (let i = 1; i < n; i++) {
-    d[i] = d[i - 1] + rate * (1 + w) * DT;
+    d[i] = d[i - 1] + rate * (1 + w) * dtS;
     w = rhoW * w + fraction * Math.sqrt(1 - rhoW * rhoW) * rng.normal();
   }
   const m = growingLayerSignal({ ...optics, below: [], growing: fromNK(2.3), pol: 's' }, d);
-  const rhoN = Math.exp(-DT / 1);
+  const rhoN = Math.exp(-dtS / 1);
   let x = 0.0006 * rng.normal();
   const y = m.map((v) => {
     x = rhoN * x + 0.0006 * Math.sqrt(1 - rhoN * rhoN) * rng.normal();
