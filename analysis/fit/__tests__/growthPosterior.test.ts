@@ -77,6 +77,52 @@ describe('the growth counted from an estimated thickness', () => {
   });
 });
 
+describe('the growth under a Gaussian prior, in closed form', () => {
+  // The posterior of x = y + ε, y ~ N(μ, τ²) cut to [0, max], ε ~ N(0, s²), times Gaussian
+  // evidence on x, integrated here by brute force (the trapezoid rule on x and on y: its
+  // definition, no code shared with growthPosterior's closed form).
+  function bruteForce(max: number, prior: { meanNm: number; sigmaNm: number }, smooth: number, evidence: { meanNm: number; sigmaNm: number } | null) {
+    const N = 1200, M = 1200;
+    const lo = -8 * smooth, hi = max + 8 * smooth;
+    let w0 = 0, w1 = 0, w2 = 0;
+    for (let i = 0; i <= M; i++) {
+      const x = lo + ((hi - lo) * i) / M;
+      let px = 0;
+      if (smooth > 0) {
+        for (let j = 0; j <= N; j++) {
+          const y = (max * j) / N;
+          px += Math.exp(-0.5 * ((y - prior.meanNm) / prior.sigmaNm) ** 2 - 0.5 * ((x - y) / smooth) ** 2) * (j === 0 || j === N ? 0.5 : 1);
+        }
+      } else px = x >= 0 && x <= max ? Math.exp(-0.5 * ((x - prior.meanNm) / prior.sigmaNm) ** 2) : 0;
+      if (evidence) px *= Math.exp(-0.5 * ((x - evidence.meanNm) / evidence.sigmaNm) ** 2);
+      const w = px * (i === 0 || i === M ? 0.5 : 1);
+      w0 += w;
+      w1 += w * x;
+      w2 += w * x * x;
+    }
+    const mean = w1 / w0;
+    return { deltaNm: mean, sigmaNm: Math.sqrt(w2 / w0 - mean * mean) };
+  }
+
+  it('agrees with the posterior integrated by brute force, prior inside, across and below the bounds, with and without evidence', () => {
+    const cases: [number, { meanNm: number; sigmaNm: number }, number, { meanNm: number; sigmaNm: number } | null][] = [
+      [1, { meanNm: 0.4, sigmaNm: 0.2 }, 0.1, null],
+      [1, { meanNm: 0.05, sigmaNm: 0.3 }, 0.2, { meanNm: 0.3, sigmaNm: 0.1 }],
+      [2, { meanNm: -0.8, sigmaNm: 0.4 }, 0.05, null],
+      [2, { meanNm: -0.8, sigmaNm: 0.4 }, 0.3, { meanNm: -0.2, sigmaNm: 0.2 }],
+      [0.5, { meanNm: 0.6, sigmaNm: 0.1 }, 0, { meanNm: 0.45, sigmaNm: 0.05 }],
+      [0.5, { meanNm: 0.2, sigmaNm: 0.5 }, 0, null],
+      [3, { meanNm: 1.2, sigmaNm: 0.05 }, 0.8, { meanNm: 2.5, sigmaNm: 0.6 }],
+    ];
+    for (const [max, prior, smooth, evidence] of cases) {
+      const g = growthPosterior({ maxNm: max, prior, smoothNm: smooth, ...(evidence ? { gaussians: [evidence] } : {}) });
+      const b = bruteForce(max, prior, smooth, evidence);
+      expect(Math.abs(g.deltaNm - b.deltaNm)).toBeLessThan(2e-5 * max);
+      expect(Math.abs(g.sigmaNm - b.sigmaNm)).toBeLessThan(2e-5 * max);
+    }
+  });
+});
+
 describe("the run's shutter time", () => {
   it('needs three other layers, then predicts the mean with the spread and the mean\'s σ', () => {
     const t = new ShutterTime('normal');
