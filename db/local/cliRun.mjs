@@ -1,7 +1,7 @@
 // Runs a command's bundle (db/local/cli.mjs buildBundle) with V8's code cache, in the launcher's
 // thread and in the threads `analyze` starts on THREAD_ENTRY (this module). Kept apart from the
-// launcher so that a thread loads only what running a bundle takes (node:crypto and the rest of
-// the launcher's imports cost the second thread about 0.025 s of CPU at its start).
+// launcher so that a thread loads only what running a bundle takes, and never the launcher's own
+// start (its hashing and building); the launcher is imported only by a thread told no bundle.
 import fs from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
