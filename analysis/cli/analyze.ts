@@ -60,7 +60,7 @@ export async function analyzeCommand(argv: string[]) {
     if (!sampleWarnings) trace.warnings.push(...traceWarnings(trace, warningOptions));
     const result = await analyzeRun(design, trace, {
       mode, spectrumOf: spectra?.spectrumOf, startDelayProfileOf: spectra?.startDelayProfileOf, wanderPrepOf: spectra?.wanderPrepOf,
-      modelResidualsOf: spectra?.modelResidualsOf, runLinesOf: spectra?.runLinesOf, sampleWarnings,
+      modelResidualsOf: spectra?.modelResidualsOf, runLinesOf: spectra?.runLinesOf, wanderVariancesOf: spectra?.wanderVariancesOf, sampleWarnings,
     }).catch((e: unknown) => {
       if (e instanceof AnalysisInputError) throw new CliInputError(`${tracePath}: ${e.message}`);
       throw e;

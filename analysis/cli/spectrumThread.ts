@@ -7,6 +7,7 @@ import { type StartDelayProfile } from '../fit/startDelay';
 import { profileFromRequest, type StartDelayProfileRequest } from '../fit/startDelayRequest';
 import { type AnalyzeOptions } from '../fit/types';
 import { wanderPrepBuffers, wanderPrepFromRequest, type WanderChoiceRequest } from '../fit/wanderChoiceRequest';
+import { wanderVariancesFromRequest, type WanderErrorVariance, type WanderVariancesRequest } from '../fit/wanderSigma';
 import { type WanderPrep } from '../fit/wanderPrep';
 import { type SpectrumLine } from '../trace/fringeSpectrum';
 import { rowsBlockBuffers } from '../trace/rowsBlock';
@@ -18,14 +19,15 @@ import { rowsBlockFromFile, type RowsBlockAnswer, type RowsBlockRequest } from '
 // fit, layerSampleWork) on a second thread while the main one fits (AnalyzeOptions.spectrumOf),
 // the start delay's profiles while the profiling pass fits on (AnalyzeOptions.startDelayProfileOf),
 // the pool-free part of a refit pass's wander choices (AnalyzeOptions.wanderPrepOf), and the
-// layers' residuals under their reported models (AnalyzeOptions.modelResidualsOf) and the run's
-// residual spectrum's lines (AnalyzeOptions.runLinesOf): the same
+// layers' residuals under their reported models (AnalyzeOptions.modelResidualsOf), the run's
+// residual spectrum's lines (AnalyzeOptions.runLinesOf) and each chip's unmodelled-wander
+// variances in refit (AnalyzeOptions.wanderVariancesOf): the same
 // functions on the same values, so the same figures. Before those, it reads blocks of a large
 // trace from the file's end (rowsBlockOf, cli/traceBlocks.ts) while the main one reads from its start,
 // then the trace's warnings that read its samples (sampleWarningsOf, the columns on shared memory)
 // while the main one segments the run.
 
-type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | (StartDelayProfile | null)[] | WanderPrep | RowsBlockAnswer | TraceWarning[] | SpectrumLine[] | number | null;
+type Answer = (LayerSpectrum & Partial<SampleWorkResult>) | (StartDelayProfile | null)[] | WanderPrep | WanderErrorVariance[] | RowsBlockAnswer | TraceWarning[] | SpectrumLine[] | number | null;
 
 /** The trace's warnings that read its samples (traceWarnings), its columns on shared memory. */
 export interface SampleWarningsRequest {
@@ -42,7 +44,7 @@ type Request = { id: number } & ({
   index: number;
   work?: SampleWork;
 } | { profile: StartDelayProfileRequest } | { wander: WanderChoiceRequest } | { rows: RowsBlockRequest } | { sampleWarnings: SampleWarningsRequest }
-  | { residuals: ModelResidualsRequest } | { runLines: RunLinesRequest });
+  | { residuals: ModelResidualsRequest } | { runLines: RunLinesRequest } | { wanderVariances: WanderVariancesRequest });
 
 /**
  * What the thread answers to a request (and this thread, here, when that one cannot): a block of
@@ -55,6 +57,7 @@ function answer(r: Request, here: boolean): Answer {
   if ('wander' in r) return wanderPrepFromRequest(r.wander);
   if ('residuals' in r) return modelSquaredResiduals(r.residuals);
   if ('runLines' in r) return runLinesFromRequest(r.runLines);
+  if ('wanderVariances' in r) return wanderVariancesFromRequest(r.wanderVariances);
   const spectrum = r.work?.spectrum === false ? NO_SPECTRUM : layerSpectrum(r.tauS, r.y, r.wavelengthNm, r.index);
   return r.work ? { ...spectrum, ...layerSampleWork(r.tauS, r.y, r.work) } : spectrum;
 }
@@ -112,7 +115,7 @@ export function serveSpectra(): void {
 export function startSpectrumThread(entry: URL): {
   spectrumOf: NonNullable<AnalyzeOptions['spectrumOf']>; startDelayProfileOf: NonNullable<AnalyzeOptions['startDelayProfileOf']>;
   wanderPrepOf: NonNullable<AnalyzeOptions['wanderPrepOf']>; modelResidualsOf: NonNullable<AnalyzeOptions['modelResidualsOf']>;
-  runLinesOf: NonNullable<AnalyzeOptions['runLinesOf']>; rowsBlockOf: (r: RowsBlockRequest) => PromiseLike<RowsBlockAnswer | null>;
+  runLinesOf: NonNullable<AnalyzeOptions['runLinesOf']>; wanderVariancesOf: NonNullable<AnalyzeOptions['wanderVariancesOf']>; rowsBlockOf: (r: RowsBlockRequest) => PromiseLike<RowsBlockAnswer | null>;
   sampleWarningsOf: (r: SampleWarningsRequest) => PromiseLike<TraceWarning[]>; close: () => void;
 } {
   const pending = new Map<number, { request: Request; resolve: (s: Answer) => void }>();
@@ -174,6 +177,7 @@ export function startSpectrumThread(entry: URL): {
     wanderPrepOf: (wander) => ask({ id: next++, wander }) as Promise<WanderPrep>,
     modelResidualsOf: (residuals) => ask({ id: next++, residuals }) as Promise<number>,
     runLinesOf: (runLines) => ask({ id: next++, runLines }) as Promise<SpectrumLine[]>,
+    wanderVariancesOf: (wanderVariances) => ask({ id: next++, wanderVariances }) as Promise<WanderErrorVariance[] | null>,
     rowsBlockOf: (rows) => ask({ id: next++, rows }) as Promise<RowsBlockAnswer | null>,
     sampleWarningsOf: (sampleWarnings) => ask({ id: next++, sampleWarnings }) as Promise<TraceWarning[]>,
     close: () => {

@@ -48,7 +48,7 @@ import { wanderChoiceRequest } from './wanderChoiceRequest';
 import { type WanderPrep } from './wanderPrep';
 import { sharedWanderCosts, sharedWanders, type WanderEvidence } from './pooledWander';
 import { poolIndices } from './pooledIndex';
-import { addWanderVariance, wanderErrorVariances, type WanderErrorVariance } from './wanderSigma';
+import { addWanderVariance, wanderErrorVariances, wanderVariancesFromRequest, wanderVariancesRequest, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
 import { pooledStartDelay, unresolvedDelaySigma, type PooledStartDelay, type StartDelayProfile } from './startDelay';
 import { profileFromRequest, startDelayLayerRequest, type StartDelayLayerRequest } from './startDelayRequest';
@@ -793,6 +793,8 @@ async function analyzeLayers(
   // (a chip whose last layer had too few samples to fit: its chain is sent here)
   for (const chain of profileChains.values()) sendChain(chain);
   if (transient.profiles) return null;
+  // Each chip's unmodelled-wander variances (refit), in chip order: added to σ after the last chip's fit.
+  const chipWanderVariances: { chipStates: LayerState[]; variances: WanderErrorVariance[] | null | PromiseLike<WanderErrorVariance[] | null> }[] = [];
   if (o.mode === 'refit') {
     // Thin layers: hold at the drift estimate from the whole run, then one final joint fit per chip.
     if (o.heldIndex === 'run-drift') holdAtRunDrift(states, states);
@@ -844,9 +846,10 @@ async function analyzeLayers(
       ));
       await tookChoices(chipStates);
       if (chipStates.some((p) => p.unmodelledWander)) {
-        // each layer's unmodelled wander, through the chip's final joint fit (fit/wanderSigma.ts)
-        const v = wanderErrorVariances([], data, joint, cal.offset, chipStates.map((p) => p.unmodelledWander ?? null), cg);
-        v?.forEach((x, j) => addWanderVariance(chipStates[j].estimate, x));
+        // each layer's unmodelled wander, through the chip's final joint fit (fit/wanderSigma.ts):
+        // asked for now (elsewhere, where wanderVariancesOf is given), added to σ once every chip is fitted
+        const request = wanderVariancesRequest(data, chipStates.map((p) => design.materials[p.design.material]), joint, cal.offset, chipStates.map((p) => p.unmodelledWander ?? null), cg);
+        if (request) chipWanderVariances.push({ chipStates, variances: o.wanderVariancesOf ? o.wanderVariancesOf(request) : wanderVariancesFromRequest(request) });
       }
       if (transient.sigmaS && !byDesign) {
         // to the ends the growths after the cuts put on the layers (LayerEnds), as their estimates now stand
@@ -865,6 +868,7 @@ async function analyzeLayers(
   }
 
   if (transient.jointProfiles) return null;
+  for (const { chipStates, variances } of chipWanderVariances) (await variances)?.forEach((x, j) => addWanderVariance(chipStates[j].estimate, x));
   ends?.finish(o.mode === 'refit');
   if (o.mode === 'sequential' && o.fitWithNextLayer) {
     // Sequential: a held thin level cut's index from the whole run (each level cut is fitted again

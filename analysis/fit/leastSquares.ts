@@ -65,6 +65,61 @@ export interface LeastSquaresResult {
    * weights, held). Null where JᵀWJ is singular.
    */
   shiftFor?: (deltaY: ArrayLike<number>) => Float64Array | null;
+  /** What shiftFor reads, as plain data: shiftWith takes the same steps from it on any thread. */
+  shiftBasis?: ShiftBasis;
+}
+
+/**
+ * The Jacobian at the solution (column-major, scaled to unit columns at the start: `unit`), the
+ * IRLS weights, the rows each column spans and the normal matrix's factor once made (`factored`;
+ * `factor` null where it is singular). Structured-cloneable, so a step can be taken elsewhere
+ * (fit/wanderSigma.ts on the second thread) with the same figures.
+ */
+export interface ShiftBasis {
+  jac: Float64Array;
+  weights: Float64Array | null;
+  n: number;
+  np: number;
+  unit: Float64Array;
+  columnRows?: { start: Int32Array; end: Int32Array };
+  columnTails?: ColumnTails;
+  factored: boolean;
+  factor: ReturnType<typeof choleskyScaled>;
+}
+
+/**
+ * LeastSquaresResult.shiftFor on its basis: one Gauss–Newton step from the solution,
+ * Δp = (JᵀWJ)⁻¹JᵀW·Δy. The normal matrix and its factor once, on the first call; each call then
+ * forms Jᵀ·W·dy only (fit/wanderSigma.ts takes one step per wander knot).
+ */
+export function shiftWith(b: ShiftBasis, deltaY: ArrayLike<number>): Float64Array | null {
+  const { jac, weights, n, np, unit, columnRows } = b;
+  const dy = Float64Array.from(deltaY), g = new Float64Array(np);
+  if (!b.factored) {
+    const a = new Float64Array(np * np);
+    normalEquations(jac, dy, weights ?? undefined, n, np, columnRows, a, g, b.columnTails);
+    b.factor = choleskyScaled(a, np);
+    b.factored = true;
+  } else {
+    // only the rows where dy is not 0 (a wander's knot moves its layer and those above it):
+    // the terms left out are ±0, which leave every sum as it was
+    // (the loops in functions of their own: see columnTimes)
+    const r0 = firstNonZero(dy, n), r1 = endOfNonZero(dy, r0, n);
+    for (let j = 0; j < np; j++) {
+      const o = j * n;
+      const lo = Math.max(r0, columnRows ? columnRows.start[j] : 0), hi = Math.min(r1, columnRows ? columnRows.end[j] : n);
+      g[j] = weights ? weightedColumnTimes(jac, o, weights, dy, lo, hi) : columnTimes(jac, o, dy, lo, hi);
+    }
+  }
+  if (!b.factor) return null;
+  const du = solveScaled(b.factor, g, np);
+  for (let j = 0; j < np; j++) du[j] *= unit[j];
+  return du;
+}
+
+/** The basis's factor made now (with no step taken), so every step after it forms Jᵀ·W·dy alike, wherever it is taken. */
+export function factorShiftBasis(b: ShiftBasis): void {
+  if (!b.factored) shiftWith(b, new Float64Array(b.n));
 }
 
 const DEFAULTS: Required<LeastSquaresOptions> = { gradientStep: 0.001, maxIterations: 100, tolerance: 0.001, robust: false };
@@ -137,35 +192,14 @@ export function leastSquares(problem: LeastSquaresProblem, options: LeastSquares
   const dof = n - np;
   const weights = result.weights ?? null;
   const { covariance, sigma, ok } = covarianceFrom(result.jac, residuals, weights, n, np, unit, problem.columnRows);
-  const jac = result.jac;
-  // The normal matrix and its factor once, on the first call; each call then forms Jᵀ·W·dy only
-  // (fit/wanderSigma.ts takes one step per wander knot).
-  let factor: ReturnType<typeof choleskyScaled> | undefined;
-  const shiftFor = (deltaY: ArrayLike<number>): Float64Array | null => {
-    const dy = Float64Array.from(deltaY), g = new Float64Array(np);
-    if (factor === undefined) {
-      const a = new Float64Array(np * np);
-      normalEquations(jac, dy, weights ?? undefined, n, np, problem.columnRows, a, g, problem.columnTails);
-      factor = choleskyScaled(a, np);
-    } else {
-      // only the rows where dy is not 0 (a wander's knot moves its layer and those above it):
-      // the terms left out are ±0, which leave every sum as it was
-      // (the loops in functions of their own: see columnTimes)
-      const r0 = firstNonZero(dy, n), r1 = endOfNonZero(dy, r0, n);
-      for (let j = 0; j < np; j++) {
-        const o = j * n;
-        const lo = Math.max(r0, problem.columnRows ? problem.columnRows.start[j] : 0), hi = Math.min(r1, problem.columnRows ? problem.columnRows.end[j] : n);
-        g[j] = weights ? weightedColumnTimes(jac, o, weights, dy, lo, hi) : columnTimes(jac, o, dy, lo, hi);
-      }
-    }
-    if (!factor) return null;
-    const du = solveScaled(factor, g, np);
-    for (let j = 0; j < np; j++) du[j] *= unit[j];
-    return du;
+  const shiftBasis: ShiftBasis = {
+    jac: result.jac, weights, n, np, unit, ...(problem.columnRows ? { columnRows: problem.columnRows } : {}),
+    ...(problem.columnTails ? { columnTails: problem.columnTails } : {}), factored: false, factor: null,
   };
+  const shiftFor = (deltaY: ArrayLike<number>): Float64Array | null => shiftWith(shiftBasis, deltaY);
   return {
     params, sigma, covariance, ssr, dof, residualRms: Math.sqrt(ssr / n), iterations: result.iterations,
-    converged: result.converged, reason: result.reason, wellDetermined: ok, residuals, weights, shiftFor,
+    converged: result.converged, reason: result.reason, wellDetermined: ok, residuals, weights, shiftFor, shiftBasis,
   };
 }
 

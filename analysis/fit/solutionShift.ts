@@ -19,7 +19,7 @@ export interface LayerChange {
  * (no normal matrix kept, a singular one, or a layout that is not the fit's).
  */
 export function layerChangesFor(
-  data: readonly FitLayerData[], solver: LeastSquaresResult, layout: ParamLayout, dy: Float64Array,
+  data: readonly FitLayerData[], solver: Pick<LeastSquaresResult, 'params' | 'shiftFor'>, layout: ParamLayout, dy: Float64Array,
   /** The layers' data after the move, when it changed their durations (the end thickness is read at those). */
   after: readonly FitLayerData[] = data,
 ): LayerChange[] | null {

@@ -10,6 +10,7 @@ import { type StartDelayProfile } from './startDelay';
 import { type StartDelayProfileRequest } from './startDelayRequest';
 import { type WanderChoiceRequest } from './wanderChoiceRequest';
 import { type WanderPrep } from './wanderPrep';
+import { type WanderErrorVariance, type WanderVariancesRequest } from './wanderSigma';
 
 export type AnalysisMode = 'sequential' | 'refit';
 
@@ -584,6 +585,13 @@ export interface AnalyzeOptions {
    * (fit/runDisturbances.ts) returns. @default runLinesFromRequest, on this thread
    */
   runLinesOf?: (request: RunLinesRequest) => PromiseLike<SpectrumLine[]>;
+  /**
+   * Computes a chip's unmodelled-wander variances through its final joint fit (refit) elsewhere,
+   * e.g. on another thread while this one fits the next chips; they are added to the layers' σ once
+   * every chip is fitted. It must resolve to what wanderVariancesFromRequest (fit/wanderSigma.ts)
+   * returns. @default wanderErrorVariances, on this thread, as each chip is fitted
+   */
+  wanderVariancesOf?: (request: WanderVariancesRequest) => PromiseLike<WanderErrorVariance[] | null>;
   /**
    * The trace's warnings that read its samples (trace/traceWarnings.ts), made elsewhere (e.g. on
    * another thread while the run is segmented and its start delay profiled): appended to

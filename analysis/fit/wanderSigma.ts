@@ -1,6 +1,8 @@
+import { indexAtMemo, type MaterialModel } from '../materials';
 import { type LayerAt } from '../optics';
 import { type JointFitResult, type LayerEstimate } from './fitLayers';
-import { evaluateLayers, paramLayout, type FitLayerData } from './layerModel';
+import { factorShiftBasis, shiftWith, type LeastSquaresResult, type ShiftBasis } from './leastSquares';
+import { evaluateLayers, fitLayerData, paramLayout, type FitLayerData } from './layerModel';
 import { wanderBasis, wanderCount, type RateWander } from './rateWander';
 import { layerChangesFor } from './solutionShift';
 
@@ -10,6 +12,12 @@ export interface WanderErrorVariance {
   thicknessNm2: number;
   opticalNm2: number;
 }
+
+/** What wanderErrorVariances reads of a joint fit. */
+type JointFitRead = {
+  layers: readonly Pick<JointFitResult['layers'][number], 'index'>[];
+  solver: Pick<LeastSquaresResult, 'params' | 'shiftFor'> & { residuals: { length: number } };
+};
 
 /**
  * What a rate wander that the fit's law d = r·τ + a·τ²/2 cannot follow costs each layer's figures,
@@ -28,7 +36,7 @@ export interface WanderErrorVariance {
  * Null when the fit cannot take the step.
  */
 export function wanderErrorVariances(
-  below: readonly LayerAt[], data: readonly FitLayerData[], joint: JointFitResult, offsetSignal: number,
+  below: readonly LayerAt[], data: readonly FitLayerData[], joint: JointFitRead, offsetSignal: number,
   wanders: readonly (RateWander | null)[], sharedGain: { fitDrift: boolean } | null,
 ): WanderErrorVariance[] | null {
   const { solver } = joint;
@@ -74,4 +82,48 @@ export function addWanderVariance(e: LayerEstimate, v: WanderErrorVariance): voi
   e.indexSigma = Math.sqrt(e.indexSigma ** 2 + v.index);
   e.thicknessSigmaNm = Math.sqrt(e.thicknessSigmaNm ** 2 + v.thicknessNm2);
   e.opticalThicknessSigmaNm = Math.sqrt(e.opticalThicknessSigmaNm ** 2 + v.opticalNm2);
+}
+
+/**
+ * A chip's wanderErrorVariances as plain data, so another thread can compute it
+ * (AnalyzeOptions.wanderVariancesOf) while this one fits the next chips: the layers' fit data less
+ * their index functions (each layer's material instead), the joint fit's solution and the basis
+ * of its Gauss–Newton steps (factored here first, so every step forms its product alike wherever
+ * it runs), copied field by field at the time of asking. Null where the fit keeps no basis.
+ */
+export interface WanderVariancesRequest {
+  layers: Omit<FitLayerData, 'nominalAt'>[];
+  materials: MaterialModel[];
+  params: Float64Array;
+  rows: number;
+  indices: number[];
+  basis: ShiftBasis;
+  offsetSignal: number;
+  wanders: (RateWander | null)[];
+  sharedGain: { fitDrift: boolean } | null;
+}
+
+export function wanderVariancesRequest(
+  data: readonly FitLayerData[], materials: readonly MaterialModel[], joint: JointFitResult, offsetSignal: number,
+  wanders: readonly (RateWander | null)[], sharedGain: { fitDrift: boolean } | null,
+): WanderVariancesRequest | null {
+  const basis = joint.solver.shiftBasis;
+  if (!basis) return null;
+  factorShiftBasis(basis);
+  return {
+    layers: data.map(({ nominalAt: _n, ...l }) => ({ ...l })), materials: [...materials], params: Float64Array.from(joint.solver.params),
+    rows: joint.solver.residuals.length, indices: joint.layers.map((e) => e.index), basis, offsetSignal,
+    wanders: [...wanders], sharedGain: sharedGain ? { fitDrift: sharedGain.fitDrift } : null,
+  };
+}
+
+/** wanderErrorVariances of a request (here or on another thread): the same figures. */
+export function wanderVariancesFromRequest(r: WanderVariancesRequest): WanderErrorVariance[] | null {
+  const data = r.layers.map((l, j) => fitLayerData({ ...l, nominalAt: indexAtMemo(r.materials[j]) }));
+  const basis = r.basis;
+  const joint: JointFitRead = {
+    layers: r.indices.map((index) => ({ index })),
+    solver: { params: r.params, residuals: { length: r.rows }, shiftFor: (dy: ArrayLike<number>) => shiftWith(basis, dy) },
+  };
+  return wanderErrorVariances([], data, joint, r.offsetSignal, r.wanders, r.sharedGain);
 }
