@@ -44,13 +44,8 @@ function inputsHash(inputs) {
   return h.digest('hex');
 }
 
-/** The bundle's path when it exists and matches its sources, else null. */
+/** The bundle (its path, and the hash its first line records) when it exists and matches its sources, else null. */
 export function freshBundle(name, dir = cacheDir()) {
-  return freshBundleKey(name, dir)?.file ?? null;
-}
-
-/** freshBundle's path with the hash its first line records. */
-export function freshBundleKey(name, dir = cacheDir()) {
   const file = path.join(dir, `${name}.cjs`);
   let head;
   try {
@@ -75,7 +70,7 @@ export function freshBundleKey(name, dir = cacheDir()) {
   return Array.isArray(key.inputs) && key.hash === inputsHash(key.inputs) ? { file, hash: key.hash } : null;
 }
 
-/** Builds analysis/cli/NAME.ts into the cache (written whole, then renamed into place); returns its path. */
+/** Builds analysis/cli/NAME.ts into the cache (written whole, then renamed into place); returns its path and hash. */
 export async function buildBundle(name, dir = cacheDir()) {
   // tsx's own esbuild: tsx is a dependency, so it is there wherever `npm run` works.
   const requireFromTsx = createRequire(createRequire(path.join(root, 'package.json')).resolve('tsx/package.json'));
@@ -86,7 +81,7 @@ export async function buildBundle(name, dir = cacheDir()) {
     bundle: true,
     platform: 'node',
     // a script, not a module: node:vm compiles a script with a code cache (runBundle), a module only
-    // behind a flag. import.meta.url (the thread's entry in analyze) is the launcher's (runBundle).
+    // behind a flag. import.meta.url (the thread's entry in analyze) is cliRun.mjs's (runBundle).
     format: 'cjs',
     target: 'node20',
     define: { 'import.meta.url': '__fringelogEntryUrl' },
@@ -109,12 +104,12 @@ export async function buildBundle(name, dir = cacheDir()) {
   return { file, hash };
 }
 
-
 /**
  * analyze: its second thread (analysis/cli/spectrumThread.ts, which takes it over from
  * globalThis[EARLY_THREAD]) started here on the bundle's thread entry (cliRun.mjs, told which
- * bundle in its workerData), so that thread loads the bundle while this one does, not after: started by the command, it was ready about 0.13 s into the process, and
- * until then this thread read the trace alone. The role and the claims' length are the ones
+ * bundle in its workerData), so that thread loads the bundle while this one does, not after:
+ * started by the command, it was ready about 0.13 s into the process, and until then this thread
+ * read the trace alone. The role and the claims' length are the ones
  * spectrumThread.ts gives its threads (it takes over only a thread that has them). Unreferenced: a
  * command that stops before taking it over does not wait for it. One core: no second thread.
  */
@@ -151,7 +146,7 @@ async function main() {
   // engine shares the flags): CPU 2.85 → 2.61 s, wall −9 % (paired, 10 runs each), the same output
   // (inlining does not change a float operation). Without inlining at all, no faster still.
   if (name === 'analyze') v8.setFlagsFromString('--max-inlined-bytecode-size-cumulative=120');
-  let bundle = freshBundleKey(name);
+  let bundle = freshBundle(name);
   if (!bundle) {
     try {
       bundle = await buildBundle(name);

@@ -65,6 +65,6 @@ if (!isMainThread && workerData?.role === 'fringelog-layer-spectra') {
   // a thread analyze started on its entry: the bundle the launcher passed (cli.mjs
   // startEarlyThread), else the current one (the command's own thread, when the early one failed)
   // (not awaited at the top level: cli.mjs imports this module, which would wait on itself)
-  const bundle = workerData.bundle ? Promise.resolve(workerData.bundle) : import('./cli.mjs').then((m) => m.freshBundleKey('analyze'));
+  const bundle = workerData.bundle ? Promise.resolve(workerData.bundle) : import('./cli.mjs').then((m) => m.freshBundle('analyze'));
   void bundle.then((b) => b && runBundle(b, false));
 }

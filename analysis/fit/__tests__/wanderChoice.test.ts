@@ -68,7 +68,8 @@ describe('chooseRateWander', () => {
         const c = chooseRateWander(input);
         if (fraction === 0) {
           if (c.wander) steadyChosen++;
-          // the noise's long-run σ at 100 Hz: √(0.0003² + 0.0006²·(1 + ρ)/(1 − ρ)), ρ = e^(−0.01)
+          // the noise's long-run σ at 100 Hz: √(0.0003² + 0.0006²·(1 + ρ)/(1 − ρ)), ρ = e^(−0.01): white plus
+          // AR(1), whose long-run variance is σ²(1 + ρ)/(1 − ρ) (Box and Jenkins, "Time Series Analysis"; from memory)
           const rho = Math.exp(-0.01);
           ratios.push(c.sampleSigma / Math.sqrt(0.0003 ** 2 + 0.0006 ** 2 * ((1 + rho) / (1 - rho))));
         } else if (c.wander) wanderingChosen++;
