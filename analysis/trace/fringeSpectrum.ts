@@ -1,3 +1,4 @@
+import { peaksClearOfSideLobes } from './sideLobes';
 import { realFftMagnitude } from './realFftMagnitude';
 import { median, medianInPlace } from './robustStats';
 
@@ -74,17 +75,12 @@ export function fringeSpectrum(timeS: ArrayLike<number>, y: ArrayLike<number>, o
   const durationS = m * dtS * block;
   const kMin = Math.max(1, Math.ceil((options.minFrequencyHz ?? 1.5 / durationS) / binHz));
 
-  const found = localPeaks(amp, kMin, binHz);
-  found.sort((p, q) => q.amplitude - p.amplitude);
+  // (in frequency order as found)
+  const byFrequency = localPeaks(amp, kMin, binHz);
+  const found = byFrequency.slice().sort((p, q) => q.amplitude - p.amplitude);
   const lobeHz = sampleRateHz / m;
-  const real = found.filter((p) => {
-    // only a peak ≥ 1 / (3 × 0.0266) ≈ 12.5 times larger can hide p in its side lobes
-    for (let j = 0; j < found.length && found[j].amplitude * 3 * 0.0266 > p.amplitude; j++) {
-      const q = found[j];
-      if (p.amplitude < 3 * hannLeakage(q.amplitude, Math.abs(p.frequencyHz - q.frequencyHz) / lobeHz)) return false;
-    }
-    return true;
-  });
+  // only a peak ≥ 1 / (3 × 0.0266) ≈ 12.5 times larger can hide p in its side lobes
+  const real = peaksClearOfSideLobes(found, byFrequency, lobeHz);
   const dom = real[0];
   const empty = { sampleRateHz, nyquistHz: sampleRateHz / 2, fftSize: size, binHz, blockSize: block, resampled };
   const scaleY = largestMagnitude(y);
@@ -382,15 +378,6 @@ function halfWidth(amp: Float64Array, k: number): number {
   let b = k;
   while (b < amp.length - 1 && amp[b + 1] > half) b++;
   return b - a + 1;
-}
-
-/**
- * Upper envelope of the Hann window's side lobes at distance `bins` (unpadded DFT bins) from a
- * peak of the given amplitude: first side lobe −31.5 dB near 2.5 bins, decaying as 1/bins³
- * (Harris 1978, Proc. IEEE 66, 51, Table I: Hann, −31.5 dB, 18 dB/octave; values from memory).
- */
-function hannLeakage(amplitude: number, bins: number): number {
-  return amplitude * 0.0266 * Math.min(1, (2.5 / bins) ** 3);
 }
 
 /**
