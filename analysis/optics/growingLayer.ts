@@ -1,5 +1,6 @@
 import { type Complex } from './complex';
 import { assemblyMatrix, type LayerAt } from './assembly';
+import { sinCos, sinCosOut } from './sinCos';
 import { assertTransparentIncidence } from './stackResponse';
 import { tilt, type Polarization } from './tilt';
 
@@ -153,9 +154,10 @@ function signalLoop(c: SetUp, thicknessNm: Float64Array, out: Float64Array, weig
       cd = cosIn[i];
       sd = sinIn[i];
     } else {
-      const dr = kr * thicknessNm[i];
-      cd = Math.cos(dr);
-      sd = Math.sin(dr);
+      // (both from one argument reduction: optics/sinCos.ts)
+      sinCos(kr * thicknessNm[i]);
+      cd = sinCosOut.cos;
+      sd = sinCosOut.sin;
       if (cosOut && sinOut) {
         cosOut[i] = cd;
         sinOut[i] = sd;
