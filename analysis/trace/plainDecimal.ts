@@ -1,5 +1,5 @@
 // 10^0 … 10^22: every one exactly representable in binary64.
-const POW10 = Float64Array.from({ length: 23 }, (_, i) => Number(`1e${i}`));
+export const POW10 = Float64Array.from({ length: 23 }, (_, i) => Number(`1e${i}`));
 
 /**
  * The value of text[start, end) when it is a plain decimal — [+-]digits[.digits][(e|E)[+-]digits],
