@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { createRng } from '../../synth/prng';
 import { binMeans } from '../subsample';
 
 /** Bin means the plain way, written here: each sample's bin from its τ, sums in sample order, empty bins left out. */
@@ -16,16 +17,11 @@ function naive(tauS: number[], indices: number[], signal: number[], maxPoints: n
   return { tauS: kept.map((b) => b.t / b.c), y: kept.map((b) => b.y / b.c) };
 }
 
-/** A small deterministic generator (Park–Miller minimal standard; common practice). */
-function lcg(seed: number) {
-  let s = seed;
-  return () => (s = (s * 48271) % 2147483647) / 2147483647;
-}
 
 describe('binMeans', () => {
   it('equals the plain per-sample sums bit for bit: jittered clocks, gaps, another value clock, picked indices', () => {
     for (let seed = 1; seed <= 30; seed++) {
-      const rnd = lcg(seed);
+      const rnd = createRng(seed).uniform;
       const n = 200 + Math.floor(rnd() * 3000);
       const tauS: number[] = [];
       let t = 0;

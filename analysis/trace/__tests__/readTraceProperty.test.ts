@@ -2,6 +2,19 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { readTrace, readTraceText } from '../readTrace';
 
+/** The text's UTF-8 bytes cut at the given places (each taken modulo the length). */
+function chunked(text: string, cuts: number[]): Uint8Array[] {
+  const bytes = new TextEncoder().encode(text);
+  const points = [...new Set(cuts.map((c) => c % (bytes.length + 1)))].sort((a, b) => a - b);
+  const chunks: Uint8Array[] = [];
+  let from = 0;
+  for (const p of [...points, bytes.length]) {
+    chunks.push(bytes.subarray(from, p));
+    from = p;
+  }
+  return chunks;
+}
+
 describe('readTrace: properties', () => {
   it('any finite values, any separator and line ending, any byte-level chunking: read back exactly', async () => {
     const row = fc.record({
@@ -24,14 +37,7 @@ describe('readTrace: properties', () => {
             `# chamber: Bay 1 e-beam — µ${eol}layer${sep}signal${sep}time_s${eol}` +
             rows.map((r, i) => `${r.layer}${sep}${r.signal}${sep}${times[i]}`).join(eol) +
             eol;
-          const bytes = new TextEncoder().encode(text);
-          const points = [...new Set(cuts.map((c) => c % (bytes.length + 1)))].sort((a, b) => a - b);
-          const chunks: Uint8Array[] = [];
-          let from = 0;
-          for (const p of [...points, bytes.length]) {
-            chunks.push(bytes.subarray(from, p));
-            from = p;
-          }
+          const chunks = chunked(text, cuts);
           const trace = await readTrace(chunks, { minLayerSamples: 0 });
           expect(trace.meta.chamber).toBe('Bay 1 e-beam — µ');
           expect(Array.from(trace.timeS)).toEqual(times);
@@ -71,14 +77,7 @@ describe('readTrace: properties', () => {
             return text + eols[i % eols.length];
           });
           const text = `layer,signal,time_s\n${body.join('')}`;
-          const bytes = new TextEncoder().encode(text);
-          const points = [...new Set(cuts.map((c) => c % (bytes.length + 1)))].sort((a, b) => a - b);
-          const chunks: Uint8Array[] = [];
-          let from = 0;
-          for (const p of [...points, bytes.length]) {
-            chunks.push(bytes.subarray(from, p));
-            from = p;
-          }
+          const chunks = chunked(text, cuts);
           const opts = { minLayerSamples: 0, layerCount: 60, fileName: 'run.csv' };
           const outcome = (p: Promise<Awaited<ReturnType<typeof readTrace>>>) =>
             p.then(

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { createRng } from '../../synth/prng';
 import { hannLeakage, peaksClearOfSideLobes } from '../sideLobes';
 
 /** The test over every larger peak, written out here (the rule as fringeSpectrum first applied it). */
@@ -12,15 +13,11 @@ function everyLarger<P extends { frequencyHz: number; amplitude: number }>(byAmp
   });
 }
 
-function lcg(seed: number) {
-  let s = seed;
-  return () => (s = (s * 48271) % 2147483647) / 2147483647;
-}
 
 describe('peaksClearOfSideLobes', () => {
   it('keeps exactly the peaks the test over every larger peak keeps: noise-like spectra with strong lines, amplitudes over 8 decades', () => {
     for (let seed = 1; seed <= 60; seed++) {
-      const rnd = lcg(seed);
+      const rnd = createRng(seed).uniform;
       const binHz = 0.01 * (1 + rnd());
       const lobeHz = 2 * binHz;
       const byFrequency: { frequencyHz: number; amplitude: number; id: number }[] = [];
