@@ -61,9 +61,9 @@ function binSums(
   // A run of samples in one bin (in time order a bin's samples come in one run) summed in locals
   // and stored once, when a sample falls in another bin: the same bins and the same additions in
   // the same order as a store after every sample, at half its time (measured here: 10 → 6 ns a
-  // sample, 20,000 samples into 100–400 bins). Nothing after the outer
-  // loop (code there, never reached when the engine compiled the loop on the stack, would leave
-  // that code on every later call).
+  // sample, 20,000 samples into 100–400 bins). Nothing after the outer loop (code there, never
+  // reached when the engine compiled the loop on the stack, would leave that code on every later
+  // call).
   const n = tauS.length, last = maxPoints - 1;
   let i = 0;
   while (i < n) {
