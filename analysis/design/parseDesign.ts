@@ -1,4 +1,4 @@
-import { type z } from 'zod';
+import { type core } from 'zod/mini';
 import { type Complex } from '../optics/complex';
 import { indexAt } from '../materials/indexAt';
 import { materialLibrary } from '../materials/library';
@@ -33,7 +33,7 @@ export interface Design {
 
 const VACUUM: MaterialModel = { model: 'constant', n: 1, k: 0 };
 
-function firstIssue(error: z.ZodError, prefix: readonly PropertyKey[], fileName?: string): DesignFormatError {
+function firstIssue(error: core.$ZodError, prefix: readonly PropertyKey[], fileName?: string): DesignFormatError {
   const issue = error.issues[0];
   const path = [...prefix, ...issue.path];
   if (issue.code === 'unrecognized_keys') {

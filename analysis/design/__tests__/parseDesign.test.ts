@@ -77,6 +77,8 @@ describe('parseDesign errors name the file and the key', () => {
     ['negative reference wavelength', (j) => ({ ...j, referenceWavelengthNm: -5 }), 'referenceWavelengthNm', /> 0/],
     ['unknown top-level key', (j) => ({ ...j, substrateBackSide: true }), '', /unknown key "substrateBackSide"/],
     ['bad monitor mode', (j) => { (j.layers[0].monitor as { mode: string }).mode = 'X'; return j; }, 'layers[0].monitor.mode', /T|R/],
+    // zod's English messages (analysis/materials/zodLocale.ts): without them, a bare "Invalid input"
+    ['chip not a number', (j) => { (j.layers[0].monitor as { chip: unknown }).chip = 'one'; return j; }, 'layers[0].monitor.chip', /expected number, received string/],
     ['fractional chip', (j) => { j.layers[0].monitor.chip = 1.5; return j; }, 'layers[0].monitor.chip', /whole number/],
     ['both thickness and qwot', (j) => ({ ...j, layers: [{ ...j.layers[0], thicknessNm: 100 }] }), 'layers[0].qwot', /exactly one of/],
     ['neither thickness nor qwot', (j) => ({ ...j, layers: [{ material: 'L', monitor: j.layers[0].monitor }] }), 'layers[0].thicknessNm', /exactly one of/],
