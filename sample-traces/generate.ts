@@ -110,8 +110,8 @@ export const SAMPLES: Sample[] = [
  */
 export const HELD_BACK: Record<string, { off: ChamberOptions; reason: string }> = {
   'bay2-bb4-run0587.csv': {
-    off: { lampDriftPerHour: 0, rampS: 0, correlatedNoise: undefined },
-    reason: 'refit, each alone: lamp drift within one chip gives 1.45 % thickness, 0.014 index and 1.2 % QWOT cut error off; the rate ramp 0.56 % and 1.2 % QWOT; correlated noise 0.29 %, 0.0017 and 0.62 % QWOT, but in sequential layer 1 (0.22 QWOT, index held at the nominal, 0.015 above this run) and layer 2 come out 3–4 % thin, layer 4 1.8 % thick, and layer 3 reads "residuals 1.9×" over that stack; all three: 1.2 %, 0.016 and 2.0 % QWOT in refit; the shutter delay and level-cut reaction time are read (0.27 %, 0.0015, 0.54 % QWOT)',
+    off: { lampDriftPerHour: 0, rampS: 0 },
+    reason: 'measured on this trace (seed 587, correlated noise on): the lamp drift alone (within one chip, no reference column) leaves refit within 1.5 % thickness (layer 4, 0.5σ) and 0.013 index, but in sequential layer 1 (0.22 QWOT, its index held at the nominal, 0.0165 above this run) reads 3 % thin and layer 3 "residuals 1.9× the noise", a warning on a run with nothing wrong in it; the rate ramp as the shutter opens alone (no start-up modelled on level cuts without a reference column) gives layer 3 "residuals 1.7×" in sequential; all three: sequential layer 2 −6.4 % (1.1σ), layer 3 "residuals 2.6×" and false cut warnings on layers 2 and 4 (2.3 and 3.3 % QWOT), refit 1.3 % and 0.016 index',
   },
 };
 
