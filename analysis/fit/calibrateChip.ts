@@ -223,14 +223,18 @@ function darkLevels(idle: Float64Array, levels: readonly Level[], sigma: number,
  * The flat part of a dip's bottom level [a, b): binary segmentation splits greedily and keeps
  * every level ≥ 3 samples, so a sample of a sloping side can stay in the bottom when the flat
  * bottom is short (the holder's dark moment, 4–6 samples at 10 Hz: chamber mirror, seed 28,
- * bottom [0.104, 0.003, 0.003, 0.003] read as a dark level 0.028 for a true 0.003). Samples at
- * its ends more than 5σ from its median are left out, keeping at least two.
+ * bottom [0.104, 0.003, 0.003, 0.003] read as a dark level 0.028 for a true 0.003; at 1 Hz two or
+ * three: [0.104, 0.003, 0.004, 0.314]). Samples at its ends more than 5σ above its lowest are left
+ * out (the dip's sides rise from it; a flat sample lies that far above the lowest of a few only
+ * past about 3σ of its own), keeping at least one. Measured from the level's median instead,
+ * the 1 Hz bottom above (an even count: the median halfway up a side) kept a side and read 0.16.
  */
 export function flatBottom(y: ArrayLike<number>, a: number, b: number, sigma: number): Level {
-  const mid = median(Float64Array.from({ length: b - a }, (_, i) => y[a + i]));
-  const off = (i: number) => Math.abs(y[i] - mid) > 5 * sigma;
-  while (b - a > 2 && off(a)) a++;
-  while (b - a > 2 && off(b - 1)) b--;
+  let low = Infinity;
+  for (let i = a; i < b; i++) low = Math.min(low, y[i]);
+  const off = (i: number) => y[i] - low > 5 * sigma;
+  while (b - a > 1 && off(a)) a++;
+  while (b - a > 1 && off(b - 1)) b--;
   let sum = 0;
   for (let i = a; i < b; i++) sum += y[i];
   return { start: a, end: b, mean: sum / (b - a) };

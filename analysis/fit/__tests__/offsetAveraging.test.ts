@@ -35,4 +35,21 @@ describe('randomEffectsMean (chips that disagree, one detector offset)', () => {
     expect(three.offset).toBeCloseTo(2, 12);
     expect(three.sigma).toBeCloseTo(1, 12);
   });
+
+  it('is the inverse-variance pool where the chips scatter no more than their σ (Cochran\'s Q ≤ k − 1, τ = 0)', () => {
+    // 1 ± 1 and 2 ± 1: Q = 0.5 on 1 degree of freedom, the pool 1.5 ± 1/√2
+    const p = randomEffectsMean([{ offset: 1, sigma: 1 }, { offset: 2, sigma: 1 }]);
+    expect(p.offset).toBeCloseTo(1.5, 12);
+    expect(p.sigma).toBeCloseTo(Math.SQRT1_2, 12);
+  });
+
+  it('three chips each within 3σ of their pool but scattered beyond their σ (fit/fittedOffsets.ts pools them so)', () => {
+    // Offsets fitted on a 1 Hz real-chamber mirror (tests/chamber/__tests__/slowLogger.test.ts, seed
+    // 22): the pool is 0.00761 ± 0.00072, each chip within 2.8σ of it, but Q = 18.8 on 2 degrees of
+    // freedom; DerSimonian–Laird's τ = 0.00431 (hand-computed from their formula) widens it.
+    const fits = [{ offset: 0.00393, sigma: 0.00157 }, { offset: 0.00961, sigma: 0.00086 }, { offset: 0.00112, sigma: 0.00231 }];
+    const r = randomEffectsMean(fits);
+    expect(r.offset).toBeCloseTo(0.005181, 5);
+    expect(r.sigma).toBeCloseTo(0.002664, 5);
+  });
 });
