@@ -62,19 +62,18 @@ export function fitOffsets(
     const cal = f.start.calibration;
     const scale = Math.abs(cal.bareLevel! / f.start.modelledBare);
     const group = fits.filter((g) => good(g) && g.start.wavelengthNm === f.start.wavelengthNm && g.start.mode === f.start.mode);
-    // Two or more chips: their random-effects mean (DerSimonian–Laird, below), the inverse-variance
-    // pool where they scatter no more than their σ (Cochran's Q at most its degrees of freedom). A
-    // pool of chips each within 3σ of their mean (pool) took three 1 Hz chips at 0.0039 ± 0.0016,
-    // 0.0096 ± 0.0009 and 0.0011 ± 0.0023 (Q = 19 on 2) as 0.0076 ± 0.0007 for a true 0.003.
+    // Averaged (fit/offsetAveraging.ts), two or more chips give the detector's one offset as their
+    // random-effects mean (DerSimonian–Laird, below), its σ with their spread beyond their own σ,
+    // the inverse-variance pool where they scatter no more than their σ (Cochran's Q at most its
+    // degrees of freedom). A chip's own fit, averaged with zero on its own, took a partial offset of
+    // either sign per chip; a pool of chips each within 3σ of their mean (pool, as without
+    // averaging) took three 1 Hz chips at 0.0039 ± 0.0016, 0.0096 ± 0.0009 and 0.0011 ± 0.0023
+    // (Q = 19 on 2) as 0.0076 ± 0.0007 for a true 0.003.
     const pooled = averaging && group.length >= 2 ? randomEffectsMean(group.map((g) => g.fit!)) : pool(group.map((g) => g.fit!));
-    // Averaged (fit/offsetAveraging.ts), chips that disagree give the detector's one offset as
-    // their random-effects mean, its σ with their spread beyond their own σ (a chip's own fit,
-    // averaged with zero on its own, took a partial offset of either sign per chip).
-    const common = averaging && !pooled && group.length >= 2 ? randomEffectsMean(group.map((g) => g.fit!)) : null;
-    const own = pooled ?? common ?? (good(f) ? { offset: f.fit!.offset, sigma: f.fit!.sigma } : null);
+    const own = pooled ?? (good(f) ? { offset: f.fit!.offset, sigma: f.fit!.sigma } : null);
     // Chips that disagree (the detector has one offset) show a bias their profiles do not carry,
     // e.g. a rate that wanders: their spread beyond their σ joins each chip's σ.
-    const spread = pooled || common ? 0 : betweenChipSigma(group.map((g) => g.fit!));
+    const spread = pooled ? 0 : betweenChipSigma(group.map((g) => g.fit!));
     const est = own && { offset: own.offset, sigma: Math.hypot(own.sigma, MODEL_SIGMA[f.start.mode] * scale, spread) };
     const firstLayer = order.find((l) => samplesByLayer.get(l.layer)!.chip === cal.chip)?.layer;
     if (!est) {
@@ -118,7 +117,7 @@ export function fitOffsets(
     if (averaging) {
       // the assumed offset and the fitted one, each by its weight (fit/offsetAveraging.ts); the
       // layers' σ take the average's random part (fit/offsetSigma.ts, and in sequential analyzeRun)
-      const points = pooled || common ? group.reduce((a, g) => a + g.fit!.effectivePoints, 0) : f.fit!.effectivePoints;
+      const points = pooled ? group.reduce((a, g) => a + g.fit!.effectivePoints, 0) : f.fit!.effectivePoints;
       // The zero assumed (or an earlier chip's offset that was itself assumed) is no exact figure
       // either: a stray light of unmeasuredOffsetSigma a shop cannot see (its σ where the layers do
       // not determine the offset, above), sharpened by the fit as a prior N(0, u²) would be, σ =
