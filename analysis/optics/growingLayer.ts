@@ -1,5 +1,6 @@
 import { type Complex } from './complex';
 import { assemblyMatrix, type LayerAt } from './assembly';
+import { expm1Small } from './expm1Small';
 import { sinCos, sinCosOut } from './sinCos';
 import { assertTransparentIncidence } from './stackResponse';
 import { tilt, type Polarization } from './tilt';
@@ -178,7 +179,7 @@ function signalLoop(c: SetUp, thicknessNm: Float64Array, out: Float64Array, weig
       Ci = l21i * vbr + cd * vci;
     } else {
       // cosh and sinh from one expm1, accurate for the small di of weak absorbers
-      const em = Math.expm1(ki * thicknessNm[i]);
+      const em = expm1Small(ki * thicknessNm[i]);
       const emInv = -em / (1 + em);
       const sh = (em - emInv) / 2, ch = 1 + (em + emInv) / 2;
       // L = [[cos δ, i sin δ/η], [i η sin δ, cos δ]] (Macleod eq. 2.106)
