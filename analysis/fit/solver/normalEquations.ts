@@ -32,12 +32,29 @@ export function normalEquations(
     else for (let k = from; k < to; k++) t += jac[oi + k] * jac[oj + k];
     return t;
   };
+  // Column i times the weights, made once for all of its pairs: (J_ki·w_k)·J_kj is the very
+  // product `product` forms left to right, so the same figures with one load and one multiply
+  // less in each pair's loop.
+  const weighted = w ? new Float64Array(n) : null;
+  /** product(i, j, from, to) with column i's weighted copy in `weighted` (or no weights). */
+  const productWith = (i: number, j: number, from: number, to: number) => {
+    const oj = j * n;
+    let t = 0;
+    if (weighted) for (let k = from; k < to; k++) t += weighted[k] * jac[oj + k];
+    else {
+      const oi = i * n;
+      for (let k = from; k < to; k++) t += jac[oi + k] * jac[oj + k];
+    }
+    return t;
+  };
   for (let i = 0; i < p; i++) {
     const oi = i * n;
     const lo = s0(i), hi = s1(i);
     let s = 0;
-    if (w) for (let k = lo; k < hi; k++) s += jac[oi + k] * w[k] * e[k];
-    else for (let k = lo; k < hi; k++) s += jac[oi + k] * e[k];
+    if (w && weighted) {
+      for (let k = lo; k < hi; k++) weighted[k] = jac[oi + k] * w[k];
+      for (let k = lo; k < hi; k++) s += weighted[k] * e[k];
+    } else for (let k = lo; k < hi; k++) s += jac[oi + k] * e[k];
     g[i] = s;
     for (let j = i; j < p; j++) {
       const from = Math.max(lo, s0(j)), to = Math.min(hi, s1(j));
@@ -49,9 +66,9 @@ export function normalEquations(
           const key = ((bi * p + bj) * (n + 1) + t0) * (n + 1) + t1;
           let b = baseProducts.get(key);
           if (b === undefined) baseProducts.set(key, (b = product(bi, bj, t0, t1)));
-          t = product(i, j, from, t0) + f[i] * f[j] * b + product(i, j, t1, to);
-        } else t = product(i, j, from, to);
-      } else t = product(i, j, from, to);
+          t = productWith(i, j, from, t0) + f[i] * f[j] * b + productWith(i, j, t1, to);
+        } else t = productWith(i, j, from, to);
+      } else t = productWith(i, j, from, to);
       a[i * p + j] = t;
       a[j * p + i] = t;
     }
