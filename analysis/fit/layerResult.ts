@@ -2,6 +2,7 @@ import { fromNK, gradedGrowingSignal, growingLayerSignal, type LayerAt } from '.
 import { type TraceData } from '../trace';
 import { type LayerState } from './analyzeRun';
 import { modelTurningPoints, timeToThickness } from './cutTiming';
+import { cutWarning } from './cutWarning';
 import { INDEX_BOUND } from './fitLayers';
 import { thicknessAt, type MonitorOptics } from './layerModel';
 import { lawThicknessSeries, lawTimeToThickness, wanderKnotRates, type RateWander, type ThicknessLaw } from './rateWander';
@@ -117,9 +118,8 @@ export function layerResult(
   for (const x of disturbances) {
     warnings.push(`periodic disturbance at ${x.frequencyHz.toFixed(3)} Hz (amplitude ${(x.amplitude * 100).toFixed(2)} % of full scale): ${x.note}`);
   }
-  if (Math.abs(cutErrorQwotPct) > o.cutErrorWarnPct) {
-    warnings.push(`cut ${cutErrorQwotPct > 0 ? 'thick (overshoot)' : 'thin (undershoot)'} by ${Math.abs(cutErrorQwotPct).toFixed(1)} % of a quarter-wave at ${wl} nm`);
-  }
+  const cut = cutWarning(cutErrorQwotPct, cutErrorSigmaQwotPct, o.cutErrorWarnPct, wl);
+  if (cut) warnings.push(cut);
   return {
     layer: dl.layer, material: dl.material, chip: samples.chip, wavelengthNm: wl, mode: dl.monitor.mode, cut: dl.monitor.cut,
     designThicknessNm: dl.thicknessNm, qwot: dl.qwot, qwotDeposited: e.opticalThicknessNm / quarter,
