@@ -50,7 +50,7 @@ import { sharedWanderCosts, sharedWanders, type WanderEvidence } from './pooledW
 import { poolIndices } from './pooledIndex';
 import { addWanderVariance, wanderErrorVariances, wanderVariancesFromRequest, wanderVariancesRequest, type WanderErrorVariance } from './wanderSigma';
 import { onExposureClock } from './startTransient';
-import { pooledStartDelay, unresolvedDelaySigma, type PooledStartDelay, type StartDelayProfile } from './startDelay';
+import { pooledStartDelay, unresolvedDelaySigma, unresolvedLevelDelaySigma, type PooledStartDelay, type StartDelayProfile } from './startDelay';
 import { profileFromRequest, startDelayLayerRequest, type StartDelayLayerRequest } from './startDelayRequest';
 import { binsOnExposureClocks } from './profileBins';
 import { carryJointStartDelaySigma, carryStartDelaySigma, startDelayNote } from './startDelaySigma';
@@ -241,17 +241,29 @@ async function analyzeSignal(design: Design, trace: TraceData, options: AnalyzeO
     await sampleWarnings();
     return analyzePass(design, trace, options, { delayS: 0 }, basis);
   }
-  // Every layer cut on level (option levelStartTransient): δ from each chip's joint fit with the
-  // lamp drift fitted under its prior (fit/jointStartDelay.ts), the layers on its clock, and the drift fitted so in refit.
-  const level = levelCutsOnly(design, trace, options);
-  const levelFound = level ? await findLevelStartDelay(design, trace, options, basis) : null;
-  const pooled = level ? levelFound : await findStartDelay(design, trace, options, basis);
+  // Every layer cut on level: δ from each chip's joint fit with the lamp drift fitted under its
+  // prior (fit/jointStartDelay.ts). With option levelStartTransient, where kept, the layers on its
+  // clock and the drift fitted so in refit. Without the option, or where not kept, the level cuts
+  // stay on real time, and the δ the profile allows (its root mean square about 0, fit/startDelay.ts
+  // unresolvedLevelDelaySigma) goes into their σ: on such runs the start-up was otherwise in no σ
+  // (chamber simulator's real-chamber BBAR, ramp 1.5 s, refit seeds 21–40: layer 2's index, 0.41
+  // QWOT, biased +0.007 to +0.016 at σ 0.003–0.004; 3σ coverage of the index 91.7 → 98.3 %, RMS z
+  // 1.75 → 1.20, no estimate moved; with the ramp off, RMS z 1.12 → 1.04).
+  const levelRun = levelCutRun(design, trace);
+  const level = levelRun && (options.levelStartTransient ?? ANALYZE_DEFAULTS.levelStartTransient);
+  const levelFound = levelRun ? await findLevelStartDelay(design, trace, options, basis) : null;
+  const pooled = levelRun ? levelFound : await findStartDelay(design, trace, options, basis);
   await sampleWarnings();
-  if (!pooled?.kept) {
-    // the layers on real time; a delay chosen inside the profile grid's first step carried into their σ (fit/startDelay.ts unresolvedDelaySigma)
-    const sigmaS = pooled && !level ? unresolvedDelaySigma(pooled) : 0;
-    const plain = await analyzePass(design, trace, options, { delayS: 0, ...(sigmaS > 0 ? { sigmaS } : {}) }, basis);
-    return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled, level ? 'chip' : 'layer')] : plain.warnings };
+  const applied = !!pooled?.kept && (level || !levelRun);
+  if (!applied) {
+    // the layers on real time; a delay not resolved carried into their σ (fit/startDelay.ts
+    // unresolvedDelaySigma, unresolvedLevelDelaySigma; at δ = 0 levelOnClock marks the level cuts as the layers that carry it)
+    const sigmaS = !pooled ? 0 : levelRun ? unresolvedLevelDelaySigma(pooled) : unresolvedDelaySigma(pooled);
+    const plain = await analyzePass(design, trace, options, { delayS: 0, ...(sigmaS > 0 ? { sigmaS, ...(levelRun ? { levelOnClock: true } : {}) } : {}) }, basis);
+    // (with option levelStartTransient off, no note: its σ is carried as the lamp's is, silently; a
+    // run's warnings flag it in the run list, and the demo's four-layer AR was flagged by this note alone)
+    const note = pooled && (level || !levelRun) ? startDelayNote(pooled, levelRun ? 'chip' : 'layer') : null;
+    return { ...plain, warnings: note ? [...plain.warnings, note] : plain.warnings };
   }
   // (where kept, the drift is fitted as the profile fitted it: held at δ̂, its estimate takes up the start-up again)
   // (sequential mode holds each chip's drift at the profile's, fit/jointStartDelay.ts driftAtDelay, its
@@ -286,9 +298,9 @@ export async function findStartDelay(design: Design, trace: TraceData, options: 
   return pooledStartDelay((await Promise.all(profiles)).flat().filter((p): p is StartDelayProfile => p !== null));
 }
 
-/** Option levelStartTransient on a run with a layer column whose every layer is cut on level. */
-function levelCutsOnly(design: Design, trace: TraceData, options: AnalyzeOptions): boolean {
-  return (options.levelStartTransient ?? ANALYZE_DEFAULTS.levelStartTransient) && !!trace.layer && design.layers.every((l) => l.monitor.cut === 'level');
+/** A run with a layer column whose every layer is cut on level (its start delay read from the chips' joint fits). */
+function levelCutRun(design: Design, trace: TraceData): boolean {
+  return !!trace.layer && design.layers.every((l) => l.monitor.cut === 'level');
 }
 
 /**
@@ -313,7 +325,7 @@ interface PassTransient {
   delayS: number;
   sigmaS?: number;
   profiles?: Promise<(StartDelayProfile | null)[]>[];
-  /** Level-cut layers on the exposure clock too (option levelStartTransient). */
+  /** Level-cut layers on the exposure clock too (option levelStartTransient); at δ = 0, the level cuts carry δ's σ. */
   levelOnClock?: boolean;
   /** Where to put each chip's profile from its final joint fit (a pass in refit mode; fit/jointStartDelay.ts). */
   jointProfiles?: { chip: number; profile: JointStartDelayProfile }[];

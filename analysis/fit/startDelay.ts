@@ -227,3 +227,15 @@ export function unresolvedDelaySigma(p: PooledStartDelay): number {
   const chosen = p.delayS > 0 && p.delayS < firstStep && p.gainChi2 / p.dispersion > p.marginChi2;
   return !p.kept && chosen && Number.isFinite(p.sigmaS) ? Math.hypot(p.delayS, p.sigmaS) : 0;
 }
+
+/**
+ * The start delay's σ to carry into the level cuts of a run cut on level only, where the chips'
+ * pooled delay (fit/jointStartDelay.ts) is not applied (not kept, or option levelStartTransient
+ * off): the layers are fitted at δ = 0, so the δ the profile allows, its root mean square about 0,
+ * √(δ̂² + σ_δ²) (the second moment of N(δ̂, σ_δ²) about 0). A profile with no curvature (σ_δ not
+ * finite) gives δ̂ alone. 0 for a delay that does not lie past 0.
+ */
+export function unresolvedLevelDelaySigma(p: PooledStartDelay): number {
+  if (!(p.delayS > 0)) return 0;
+  return Number.isFinite(p.sigmaS) ? Math.hypot(p.delayS, p.sigmaS) : p.delayS;
+}

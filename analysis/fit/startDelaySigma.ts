@@ -1,7 +1,7 @@
 import { fitLayers, type JointFitResult, type LayerEstimate, type SharedGain } from './fitLayers';
 import { evaluateLayers, paramLayout, type FitLayerData } from './layerModel';
 import { layerChangesFor, type LayerChange } from './solutionShift';
-import { START_DELAY_GRID_S, unresolvedDelaySigma, type PooledStartDelay } from './startDelay';
+import { START_DELAY_GRID_S, unresolvedDelaySigma, unresolvedLevelDelaySigma, type PooledStartDelay } from './startDelay';
 import { exposureTime, realTime } from './startTransient';
 
 /**
@@ -115,7 +115,7 @@ export function startDelayNote(p: PooledStartDelay, over: 'layer' | 'chip' = 'la
   if (p.kept && driftOnly) return `${found}; each chip's gain drift held at its value there, the layers fitted on real time`;
   if (p.kept) return `${found}; every layer fitted with it`;
   const firstStep = START_DELAY_GRID_S[1];
-  const carried = over === 'layer' ? unresolvedDelaySigma(p) : 0;
+  const carried = over === 'layer' ? unresolvedDelaySigma(p) : unresolvedLevelDelaySigma(p);
   const why = p.delayS > 0 && p.delayS < firstStep && p.gainChi2 / p.dispersion > p.marginChi2 ? `inside the profile grid's first step of ${firstStep} s` : `not above the margin of ${p.marginChi2.toFixed(1)}`;
   return `${found}: not kept (${why}); layers fitted without it${carried > 0 ? `, δ's root mean square about 0, ${carried.toFixed(2)} s, carried into their σ` : ''}`;
 }

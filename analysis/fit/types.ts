@@ -474,8 +474,11 @@ export interface AnalyzeOptions {
    * with its σ carried in refit, which fits the drift under its prior (lampDriftFit) as the profile
    * did; sequential holds each chip's drift at the profile's γ(δ̂), its σ widened by γ's change
    * over ±σ_δ, and fits its level cuts on real time (on δ̂'s clock each layer's own fit took δ's
-   * error into its thickness: seeds 21–30 max 3.64 → 2.22 %). Where not kept nothing changes but
-   * the note on the delay, added to every such run's warnings. Off by default, measured on the
+   * error into its thickness: seeds 21–30 max 3.64 → 2.22 %). Where not kept, or with the option
+   * off, the profile still runs and the layers stay on real time, the δ it allows (√(δ̂² + σ²),
+   * fit/startDelay.ts unresolvedLevelDelaySigma) carried into their σ, with the note on the delay
+   * in every such run's warnings (real-chamber BBAR refit seeds 21–40: index within 3σ 91.7 →
+   * 98.3 %, estimates unchanged). Off by default, measured on the
    * chamber simulator: real-chamber BBAR (ramp 1.5 s, lamp −1 %/h) refit 2.56 → 1.47 %, index
    * 0.035 → 0.015, sequential 1.03 → 1.49 %, index 0.030 → 0.0060, cut 1.34 → 1.20 % QWOT,
    * coverage 100 %; on 20 seeds (21–40) refit max 3.79 → 3.67 %, RMS 2.24 → 1.12 %, index max
