@@ -1,4 +1,5 @@
 import Link from 'next/link';
+import { warningCount } from '@/analysis/fit/analysisNotes';
 import { formatTime } from '@/components/ui/Page';
 import { AnalysisStateBadge } from './AnalysisStateBadge';
 import { describeSettings } from './describeSettings';
@@ -25,7 +26,7 @@ export function AnalysisHistory({ runId, entries, shownId, newestIds }: { runId:
           <span className="text-xs text-ink-faint">
             queued {formatTime(a.createdAt)}
             {a.finishedAt ? ` · finished ${formatTime(a.finishedAt)}` : ''}
-            {a.state === 'done' ? ` · ${a.warnings.length} warning${a.warnings.length === 1 ? '' : 's'}` : ''}
+            {a.state === 'done' ? ` · ${warningCount(a.warnings)} warning${warningCount(a.warnings) === 1 ? '' : 's'}` : ''}
           </span>
           {a.id === shownId ? (
             <span className="text-xs font-medium text-fringe-dark">shown above</span>

@@ -2,6 +2,7 @@ import 'server-only';
 import { sql, type SQL } from 'drizzle-orm';
 import { db } from '../client';
 import type { RunListRow } from './runs';
+import { warningCountSql } from './runNotes';
 
 export type RunState = 'queued' | 'running' | 'done' | 'failed';
 
@@ -62,6 +63,8 @@ export async function searchRuns(f: RunFilters): Promise<{ rows: RunSummaryRow[]
   if (f.to) where.push(sql`r.started_at < ${f.to.toISOString()}`);
   if (f.state) where.push(sql`s.state = ${f.state}`);
   if (f.flagged !== undefined) where.push(f.flagged ? sql`s.flagged` : sql`not s.flagged`);
+  // the analyses' warnings, not their notes (runNotes.ts)
+  const warnings = warningCountSql(sql`a.warnings`);
   const result = await db().execute<Record<string, unknown>>(sql`
     select r.id, r.run_code, dr.name as design_name, dr.revision as design_revision, c.name as chamber_name,
            coalesce(u.name, r.operator_name) as operator_name, r.shift, r.started_at, r.created_at, r.status, r.disposition,
@@ -73,10 +76,10 @@ export async function searchRuns(f: RunFilters): Promise<{ rows: RunSummaryRow[]
     left join lateral (
       select case when bool_or(a.state = 'running') then 'running' when bool_or(a.state = 'queued') then 'queued'
                   when bool_or(a.state = 'failed') then 'failed' when count(*) > 0 then 'done' end as state,
-             coalesce(sum(jsonb_array_length(a.warnings)) filter (where a.state = 'done'), 0)::int as warning_count,
+             coalesce(sum(${warnings}) filter (where a.state = 'done'), 0)::int as warning_count,
              coalesce(max(a.cuts_outside_tolerance) filter (where a.state = 'done'), 0)::int as cuts_outside,
              (select max(abs(lr.cut_error_qwot_pct)) from layer_results lr where lr.analysis_id = max(a.id) filter (where a.state = 'done')) as worst_cut,
-             coalesce(bool_or(a.state = 'failed' or (a.state = 'done' and (jsonb_array_length(a.warnings) > 0 or a.cuts_outside_tolerance > 0))), false) as flagged
+             coalesce(bool_or(a.state = 'failed' or (a.state = 'done' and (${warnings} > 0 or a.cuts_outside_tolerance > 0))), false) as flagged
       from (select distinct on (x.mode) x.* from analyses x where x.run_id = r.id order by x.mode, x.id desc) a
     ) s on true
     where ${sql.join(where, sql` and `)}

@@ -40,6 +40,9 @@ describe('GET /api/runs: filters, sort and pages', () => {
     expect(overshoot).toMatchObject({ flagged: true, analysisState: 'done' });
     expect(overshoot!.cutsOutsideTolerance).toBeGreaterThan(0);
     expect(all.runs.find((r) => r.runCode === 'B2-0587')).toMatchObject({ flagged: false, cutsOutsideTolerance: 0, warningCount: 0 });
+    // the clean run: its analyses' only message is the start-up delay's note (what the analysis did),
+    // which neither counts as a warning nor flags it (db/queries/runNotes.ts)
+    expect(all.runs.find((r) => r.runCode === 'B1-0412')).toMatchObject({ flagged: false, cutsOutsideTolerance: 0, warningCount: 0 });
     const flagged = await list('flagged=true&pageSize=200');
     expect(flagged.runs.every((r) => r.flagged)).toBe(true);
     expect(flagged.runs.map((r) => r.runCode)).toContain('B1-0413');

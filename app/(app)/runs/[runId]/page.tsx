@@ -1,6 +1,7 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
+import { isAnalysisNote } from '@/analysis/fit/analysisNotes';
 import { AnalysisStateBadge } from '@/components/runs/AnalysisStateBadge';
 import { ChipTable, ToolingList, type ChipView, type ToolingView } from '@/components/runs/ChipsAndTooling';
 import { DispositionPanel } from '@/components/runs/DispositionPanel';
@@ -68,7 +69,10 @@ export default async function RunPage({ params, searchParams }: { params: Promis
   const summary = done?.analysis.summary ?? {};
   const tooling = (Array.isArray(summary.tooling) ? summary.tooling : []) as Omit<ToolingView, 'label'>[];
   const spectrum = summary.spectrum as SpectrumView | undefined;
-  const warnings = done ? [...driftWarnings(drift, names), ...done.analysis.warnings] : [];
+  const messages = done ? [...driftWarnings(drift, names), ...done.analysis.warnings] : [];
+  // what the analysis did (a start-up delay, a ripple divided out) apart from what needs a look (analysis/fit/analysisNotes.ts)
+  const warnings = messages.filter((m) => !isAnalysisNote(m));
+  const notes = messages.filter(isAnalysisNote);
   const monitorWavelengths = [...new Set(layers.map((l) => l.wavelengthNm).filter((w) => w !== null))];
   const writes = can(user.role, 'writeRunNotes');
   const history = await listAnalysesOfRun(run.id);
@@ -175,6 +179,14 @@ export default async function RunPage({ params, searchParams }: { params: Promis
                 </ul>
               ) : (
                 <p className="text-sm text-ink-soft">None.</p>
+              )}
+              {notes.length > 0 && (
+                <>
+                  <h3 className="mt-3 text-xs font-semibold uppercase tracking-wide text-ink-soft">What the analysis did</h3>
+                  <ul className="mt-1 flex list-disc flex-col gap-1 pl-5 text-xs text-ink-soft break-words" data-testid="run-notes">
+                    {notes.map((w, i) => <li key={i}>{w}</li>)}
+                  </ul>
+                </>
               )}
             </Panel>
             <Panel title="Index against nominal, per material" className="min-w-0">

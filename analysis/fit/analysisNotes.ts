@@ -1,0 +1,17 @@
+/**
+ * The analysis's messages that say what it did, not what needs a look: a start-up delay found or
+ * not and how the fits took it (startDelaySigma.ts startDelayNote), a lamp ripple read and divided
+ * out (analyzeRun.ts withRippleDivided). They go out among the result's `warnings` (the format has
+ * one list), and the product lists them apart: they neither count as warnings nor flag the run
+ * (db/queries/runNotes.ts holds the same openings for its SQL; its test keeps the two equal).
+ */
+export const NOTE_OPENINGS: readonly string[] = ['start transient:', 'lamp ripple divided out:'];
+
+export function isAnalysisNote(message: string): boolean {
+  return NOTE_OPENINGS.some((o) => message.startsWith(o));
+}
+
+/** How many of an analysis's messages are warnings (not notes). */
+export function warningCount(messages: readonly string[]): number {
+  return messages.filter((m) => !isAnalysisNote(m)).length;
+}
