@@ -248,7 +248,7 @@ async function analyzeSignal(design: Design, trace: TraceData, options: AnalyzeO
   // unresolvedLevelDelaySigma) goes into their σ: on such runs the start-up was otherwise in no σ
   // (chamber simulator's real-chamber BBAR, ramp 1.5 s, refit seeds 21–40: layer 2's index, 0.41
   // QWOT, biased +0.007 to +0.016 at σ 0.003–0.004; 3σ coverage of the index 91.7 → 98.3 %, RMS z
-  // 1.75 → 1.20, no estimate moved; with the ramp off, RMS z 1.12 → 1.04).
+  // 1.75 → 1.20, no estimate moved; with the ramp off, RMS z 1.12 → 1.11).
   const levelRun = levelCutRun(design, trace);
   const level = levelRun && (options.levelStartTransient ?? ANALYZE_DEFAULTS.levelStartTransient);
   const levelFound = levelRun ? await findLevelStartDelay(design, trace, options, basis) : null;
@@ -260,10 +260,8 @@ async function analyzeSignal(design: Design, trace: TraceData, options: AnalyzeO
     // unresolvedDelaySigma, unresolvedLevelDelaySigma; at δ = 0 levelOnClock marks the level cuts as the layers that carry it)
     const sigmaS = !pooled ? 0 : levelRun ? unresolvedLevelDelaySigma(pooled) : unresolvedDelaySigma(pooled);
     const plain = await analyzePass(design, trace, options, { delayS: 0, ...(sigmaS > 0 ? { sigmaS, ...(levelRun ? { levelOnClock: true } : {}) } : {}) }, basis);
-    // (with option levelStartTransient off, no note: its σ is carried as the lamp's is, silently; a
-    // run's warnings flag it in the run list, and the demo's four-layer AR was flagged by this note alone)
-    const note = pooled && (level || !levelRun) ? startDelayNote(pooled, levelRun ? 'chip' : 'layer') : null;
-    return { ...plain, warnings: note ? [...plain.warnings, note] : plain.warnings };
+    // (a note, what the analysis did: it does not flag the run, analysisNotes.ts)
+    return { ...plain, warnings: pooled ? [...plain.warnings, startDelayNote(pooled, levelRun ? 'chip' : 'layer', false, levelRun && !level)] : plain.warnings };
   }
   // (where kept, the drift is fitted as the profile fitted it: held at δ̂, its estimate takes up the start-up again)
   // (sequential mode holds each chip's drift at the profile's, fit/jointStartDelay.ts driftAtDelay, its

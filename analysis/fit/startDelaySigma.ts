@@ -107,15 +107,18 @@ function delayShift(
 
 /**
  * The run's note on the start transient (a warning line: shared/FORMATS.md fixes no other field); `over`: what was pooled (layers,
- * or chips' joint fits); `driftOnly`: where kept, only the gain drift at δ̂ was taken (sequential level cuts), the layers on real time.
+ * or chips' joint fits); `driftOnly`: where kept, only the gain drift at δ̂ was taken (sequential level cuts), the layers on real time;
+ * `optionOff`: a run cut on level without option levelStartTransient, its delay not applied whatever the profile (its σ carried).
+ * A note, listed apart from the warnings (fit/analysisNotes.ts).
  */
-export function startDelayNote(p: PooledStartDelay, over: 'layer' | 'chip' = 'layer', driftOnly = false): string {
+export function startDelayNote(p: PooledStartDelay, over: 'layer' | 'chip' = 'layer', driftOnly = false, optionOff = false): string {
   const found = `start transient: the rate reaches its full value as if the shutter opened ${p.delayS.toFixed(2)} ± ${p.sigmaS.toFixed(2)} s late ` +
     `(pooled over ${p.layers} ${over === 'chip' ? (p.layers === 1 ? 'chip\'s joint fit' : 'chips\' joint fits') : 'layers'}${p.shutterS !== null ? `, with growth after turning-point cuts of ${p.shutterS.toFixed(2)} s at the full rate` : ''}, χ² lower by ${p.gainChi2.toFixed(1)}${over === 'layer' && p.dispersion > 1 ? `, ${(p.gainChi2 / p.dispersion).toFixed(1)} on the layers' own scatter` : ''})`;
-  if (p.kept && driftOnly) return `${found}; each chip's gain drift held at its value there, the layers fitted on real time`;
-  if (p.kept) return `${found}; every layer fitted with it`;
+  if (p.kept && !optionOff && driftOnly) return `${found}; each chip's gain drift held at its value there, the layers fitted on real time`;
+  if (p.kept && !optionOff) return `${found}; every layer fitted with it`;
   const firstStep = START_DELAY_GRID_S[1];
   const carried = over === 'layer' ? unresolvedDelaySigma(p) : unresolvedLevelDelaySigma(p);
   const why = p.delayS > 0 && p.delayS < firstStep && p.gainChi2 / p.dispersion > p.marginChi2 ? `inside the profile grid's first step of ${firstStep} s` : `not above the margin of ${p.marginChi2.toFixed(1)}`;
-  return `${found}: not kept (${why}); layers fitted without it${carried > 0 ? `, δ's root mean square about 0, ${carried.toFixed(2)} s, carried into their σ` : ''}`;
+  const fate = optionOff ? 'not applied (option levelStartTransient off)' : `not kept (${why})`;
+  return `${found}: ${fate}; layers fitted without it${carried > 0 ? `, δ's root mean square about 0, ${carried.toFixed(2)} s, carried into their σ` : ''}`;
 }
