@@ -15,3 +15,9 @@ export function isAnalysisNote(message: string): boolean {
 export function warningCount(messages: readonly string[]): number {
   return messages.filter((m) => !isAnalysisNote(m)).length;
 }
+
+/** "1 warning", "3 warnings": an analysis's warnings counted in words, its notes left out. */
+export function warningsInWords(messages: readonly string[]): string {
+  const n = warningCount(messages);
+  return `${n} warning${n === 1 ? '' : 's'}`;
+}

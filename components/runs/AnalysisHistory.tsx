@@ -1,5 +1,5 @@
 import Link from 'next/link';
-import { warningCount } from '@/analysis/fit/analysisNotes';
+import { warningsInWords } from '@/analysis/fit/analysisNotes';
 import { formatTime } from '@/components/ui/Page';
 import { AnalysisStateBadge } from './AnalysisStateBadge';
 import { describeSettings } from './describeSettings';
@@ -26,7 +26,7 @@ export function AnalysisHistory({ runId, entries, shownId, newestIds }: { runId:
           <span className="text-xs text-ink-faint">
             queued {formatTime(a.createdAt)}
             {a.finishedAt ? ` · finished ${formatTime(a.finishedAt)}` : ''}
-            {a.state === 'done' ? ` · ${warningCount(a.warnings)} warning${warningCount(a.warnings) === 1 ? '' : 's'}` : ''}
+            {a.state === 'done' ? ` · ${warningsInWords(a.warnings)}` : ''}
           </span>
           {a.id === shownId ? (
             <span className="text-xs font-medium text-fringe-dark">shown above</span>

@@ -2,7 +2,7 @@
 
 import Link from 'next/link';
 import { useQueries } from '@tanstack/react-query';
-import { warningCount } from '@/analysis/fit/analysisNotes';
+import { warningsInWords } from '@/analysis/fit/analysisNotes';
 import { AnalysisStateBadge } from '@/components/runs/AnalysisStateBadge';
 import { analysisFinished as finished, analysisQuery } from '@/components/query/analysisQuery';
 
@@ -25,7 +25,7 @@ export function AnalysisWatch({ run, analyses }: { run: { url: string; runCode: 
               <AnalysisStateBadge state={d?.state ?? 'queued'} />
               {d?.state === 'done' && d.result ? (
                 <span className="text-xs text-ink-faint">
-                  {d.result.layers.length} layer{d.result.layers.length === 1 ? '' : 's'} fitted, {warningCount(d.result.warnings)} warning{warningCount(d.result.warnings) === 1 ? '' : 's'}
+                  {d.result.layers.length} layer{d.result.layers.length === 1 ? '' : 's'} fitted, {warningsInWords(d.result.warnings)}
                 </span>
               ) : null}
               {d?.state === 'failed' ? <span className="font-mono text-xs text-alarm">{d.error}</span> : null}

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { NOTE_OPENINGS as analysisOpenings, isAnalysisNote, warningCount } from '@/analysis/fit/analysisNotes';
+import { NOTE_OPENINGS as analysisOpenings, isAnalysisNote, warningCount, warningsInWords } from '@/analysis/fit/analysisNotes';
 import { startDelayNote } from '@/analysis/fit/startDelaySigma';
 import { NOTE_OPENINGS } from '../runNotes';
 
@@ -18,5 +18,7 @@ describe('the analysis\'s notes, apart from its warnings', () => {
       'the trace has no layer column: 4 layer segments inferred from the design',
     ];
     expect(warningCount(messages)).toBe(2);
+    expect(warningsInWords(messages)).toBe('2 warnings');
+    expect(warningsInWords(messages.slice(0, 2))).toBe('1 warning');
   });
 });
