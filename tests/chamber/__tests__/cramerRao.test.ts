@@ -191,6 +191,26 @@ describe('the bound code', () => {
     });
   });
 
+  // the lamp's drift as a parameter: its prior adds information to a free γ, so a vanishing prior is
+  // the known drift's limit and a wider one never lowers a bound (freeing a parameter never does)
+  it('the whole chip\'s bound with the lamp\'s drift a parameter: a vanishing prior is the known drift, a wider one never lower', { timeout: 60_000 }, () => {
+    const s = scenarios().find((x) => x.name === 'real chamber, BBAR')!;
+    const run = simulateChamberRun(s.design, { ...s.options, seed: s.seeds[0] });
+    const known = chipBound(s.design, s.options, run, 1, { thinIndex: 0 });
+    const narrow = chipBound(s.design, s.options, run, 1, { thinIndex: 0, lampDriftSigmaPerHour: 1e-7 });
+    const prior = chipBound(s.design, s.options, run, 1, { thinIndex: 0, lampDriftSigmaPerHour: 0.01 });
+    const wide = chipBound(s.design, s.options, run, 1, { thinIndex: 0, lampDriftSigmaPerHour: 0.05 });
+    known.forEach((b, j) => {
+      // (not to the last digit: with γ a parameter the model's gain moves with time, −1 %/h here, where the plain one holds it)
+      expect(narrow[j].thicknessSigmaNm / b.thicknessSigmaNm).toBeCloseTo(1, 2);
+      expect(prior[j].thicknessSigmaNm).toBeGreaterThanOrEqual(narrow[j].thicknessSigmaNm * 0.9999);
+      expect(wide[j].thicknessSigmaNm).toBeGreaterThanOrEqual(prior[j].thicknessSigmaNm * 0.9999);
+      expect(wide[j].indexSigma).toBeGreaterThanOrEqual(prior[j].indexSigma * 0.9999);
+    });
+    // the last layer (1.03 QWOT, cut on level just past its turning point) reads the drift most
+    expect(prior[3].indexSigma).toBeGreaterThan(2 * known[3].indexSigma);
+  });
+
   it('the wander bound: a vanishing wander gives the plain bound; the scenario\'s wander widens it', { timeout: 60_000 }, () => {
     const s = scenarios().find((x) => x.name === 'correlated noise and rate wander, mirror')!;
     const run = simulateChamberRun(s.design, { ...s.options, seed: s.seeds[0] });

@@ -30,6 +30,12 @@ export interface ChipBoundOptions {
   sharedIndex?: boolean;
   /** Free rate drift a in d = r·τ + a·τ²/2 per layer (false: known, as where the simulator has none). @default true */
   rateDrift?: boolean;
+  /**
+   * The lamp's drift within the chip as a parameter: the gain G·(1 + γ·(t − t₀)), t₀ the chip's
+   * first layer start, γ under a Gaussian prior of this σ (fraction per hour) about the truth, as
+   * an analysis without a reference column has it at best (fit/gainDriftPrior.ts). @default none (γ known)
+   */
+  lampDriftSigmaPerHour?: number;
 }
 
 export interface ChipLayerBound {
@@ -65,9 +71,14 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
   // θ = [n, r, a, g] per layer, then G
   const per = 4, gIndex = per * layers.length;
   const theta = layers.flatMap((l, j) => [l.index, (l.thicknessNm - l.afterCutNm) / tauEnd[j], 0, l.afterCutNm]);
-  theta.push(1 + ((options.lampDriftPerHour ?? 0) * layers[0].startTimeS) / 3600);
+  const lampPerS = (options.lampDriftPerHour ?? 0) / 3600, t0 = layers[0].startTimeS;
+  const lamp = o.lampDriftSigmaPerHour !== undefined;
+  // with the lamp's drift a parameter the gain is G at t₀ and moves with it; without, one G for the chip
+  theta.push(1 + lampPerS * t0);
+  const lIndex = gIndex + 1;
+  theta.push(lampPerS);
   const steps = layers.flatMap((l, j) => [1e-4, (1e-4 * l.thicknessNm) / tauEnd[j], (1e-4 * l.thicknessNm) / tauEnd[j] ** 2, 1e-3]);
-  steps.push(1e-4);
+  steps.push(1e-4, 1e-4 / 3600);
   const fullScale = options.gain ?? 1;
 
   const signal = (t: readonly number[]): Float64Array => {
@@ -95,13 +106,13 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
         const x = response(f, rv, media);
         v = mode === 'R' ? x.R : x.T;
       } else v = level(stacks[done]);
-      out[s] = fullScale * t[gIndex] * v;
+      out[s] = fullScale * t[gIndex] * (lamp ? 1 + t[lIndex] * (run.timeS[i] - t0) : 1) * v;
     });
     return out;
   };
 
   const growth = o.growth ?? 'known';
-  const free = [...layers.flatMap((_, j) => [per * j, per * j + 1, ...(o.rateDrift === false ? [] : [per * j + 2]), ...(growth === 'free' && j < layers.length - 1 ? [per * j + 3] : [])]), gIndex];
+  const free = [...layers.flatMap((_, j) => [per * j, per * j + 1, ...(o.rateDrift === false ? [] : [per * j + 2]), ...(growth === 'free' && j < layers.length - 1 ? [per * j + 3] : [])]), gIndex, ...(lamp ? [lIndex] : [])];
   const derivative = (p: number) => {
     const up = [...theta], down = [...theta];
     up[p] += steps[p];
@@ -171,6 +182,7 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
   const all = [...columns, ...(wander?.columns ?? [])];
   const info = gram(whiten(all, detectorNoise(options)), wander?.firstNonZero);
   if (wander) for (const [a, b, v] of wander.prior) info[columns.length + a][columns.length + b] += v;
+  if (lamp) info[colOf(free.indexOf(lIndex))][colOf(free.indexOf(lIndex))] += 1 / (o.lampDriftSigmaPerHour! / 3600) ** 2;
   if (thinPrior !== null && thinPrior > 0) layers.forEach((_, j) => { if (thin(j) && nSlot[j] >= 0) info[colOf(nSlot[j])][colOf(nSlot[j])] += 1 / thinPrior ** 2; });
   const crb = invert(info);
   return layers.map((l, j) => {

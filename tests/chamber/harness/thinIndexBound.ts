@@ -1,6 +1,8 @@
 // A diagnosis, not a test (run by hand:
 //   npx tsx tests/chamber/harness/thinIndexBound.ts ['scenario name'] [seeds] [mode]; env
-//   BOUND_NO_DRIFT=1: every layer's rate drift known, as the simulator has none):
+//   BOUND_NO_DRIFT=1: every layer's rate drift known, as the simulator has none; BOUND_LAMP_SIGMA=0.01:
+//   the lamp's drift within the chip a parameter under a Gaussian prior of that σ per hour, as an
+//   analysis without a reference column has it, chipBound.ts lampDriftSigmaPerHour):
 // the Cramér–Rao bound of each layer from its whole chip's record (chipBound.ts, growths known)
 // as the thin layers' (< 0.5 QWOT) index is told: free, under a Gaussian prior of 0.0064 / 0.003
 // about the truth, known, and with one index per material; beside the analysis's RMS error.
@@ -21,7 +23,10 @@ async function main(): Promise<void> {
   if (!scenario) throw new Error(`no scenario named '${name}'`);
   const seeds = seedList(process.argv[3], scenario.seeds);
   const mode = (process.argv[4] ?? 'refit') as Mode;
-  const drift: ChipBoundOptions = process.env.BOUND_NO_DRIFT ? { rateDrift: false } : {};
+  const drift: ChipBoundOptions = {
+    ...(process.env.BOUND_NO_DRIFT ? { rateDrift: false } : {}),
+    ...(process.env.BOUND_LAMP_SIGMA ? { lampDriftSigmaPerHour: Number(process.env.BOUND_LAMP_SIGMA) } : {}),
+  };
   const cases: [string, ChipBoundOptions][] = [
     ['free', { ...drift }], ['prior .0064', { ...drift, thinIndex: 0.0064 }], ['prior .003', { ...drift, thinIndex: 0.003 }],
     ['known', { ...drift, thinIndex: 0 }], ['shared', { ...drift, sharedIndex: true }],
@@ -48,7 +53,8 @@ async function main(): Promise<void> {
       rows.set(t.layer, r);
     }
   }
-  console.log(`== ${name} — ${mode} — seeds ${seeds.join(',')}: RMS over seeds of σ_CRB (whole chip, growths known), thin layers' index ${cases.map((c) => c[0]).join(' / ')}`);
+  const lamp = drift.lampDriftSigmaPerHour !== undefined ? `lamp drift under a ${(drift.lampDriftSigmaPerHour * 100).toFixed(2)} %/h prior` : 'lamp drift known';
+  console.log(`== ${name} — ${mode} — seeds ${seeds.join(',')}: RMS over seeds of σ_CRB (whole chip, growths known, ${lamp}), thin layers' index ${cases.map((c) => c[0]).join(' / ')}`);
   for (const [layer, r] of [...rows].sort((a, b) => a[0] - b[0])) {
     const f = (v: number[][], d: number) => v.map((x) => rms(x).toFixed(d)).join(' ');
     console.log(`layer ${layer}  σ_d % ${f(r.d, 2)} | RMS err ${rms(r.errD).toFixed(2)}   σ_n ${f(r.n, 4)} | ${rms(r.errN).toFixed(4)}   σ_cut %QW ${f(r.cut, 2)} | ${rms(r.errCut).toFixed(2)}`);
