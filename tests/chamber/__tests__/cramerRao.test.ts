@@ -193,7 +193,7 @@ describe('the bound code', () => {
 
   // the lamp's drift as a parameter: its prior adds information to a free γ, so a vanishing prior is
   // the known drift's limit and a wider one never lowers a bound (freeing a parameter never does)
-  it('the whole chip\'s bound with the lamp\'s drift a parameter: a vanishing prior is the known drift, a wider one never lower', { timeout: 60_000 }, () => {
+  it('the whole chip\'s bound with the lamp\'s drift a parameter (a vanishing prior is the known drift, a wider one never lower) and the start-up\'s time constant freed', { timeout: 60_000 }, () => {
     const s = scenarios().find((x) => x.name === 'real chamber, BBAR')!;
     const run = simulateChamberRun(s.design, { ...s.options, seed: s.seeds[0] });
     const known = chipBound(s.design, s.options, run, 1, { thinIndex: 0 });
@@ -209,6 +209,15 @@ describe('the bound code', () => {
     });
     // the last layer (1.03 QWOT, cut on level just past its turning point) reads the drift most
     expect(prior[3].indexSigma).toBeGreaterThan(2 * known[3].indexSigma);
+    // the start-up as the shutter opens in the law: its time constant freed never lowers a bound,
+    // and a law with the start-up at its truth stays near the one without (the lag is ~1.5 s of minutes)
+    const rampKnown = chipBound(s.design, s.options, run, 1, { thinIndex: 0, lampDriftSigmaPerHour: 0.01, ramp: 'known' });
+    const rampFree = chipBound(s.design, s.options, run, 1, { thinIndex: 0, lampDriftSigmaPerHour: 0.01, ramp: 'free' });
+    rampKnown.forEach((b, j) => {
+      expect(rampFree[j].thicknessSigmaNm).toBeGreaterThanOrEqual(b.thicknessSigmaNm * 0.9999);
+      expect(rampFree[j].indexSigma).toBeGreaterThanOrEqual(b.indexSigma * 0.9999);
+      expect(b.thicknessSigmaNm / prior[j].thicknessSigmaNm).toBeCloseTo(1, 1);
+    });
   });
 
   it('the wander bound: a vanishing wander gives the plain bound; the scenario\'s wander widens it', { timeout: 60_000 }, () => {

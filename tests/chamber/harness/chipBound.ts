@@ -36,6 +36,12 @@ export interface ChipBoundOptions {
    * an analysis without a reference column has it at best (fit/gainDriftPrior.ts). @default none (γ known)
    */
   lampDriftSigmaPerHour?: number;
+  /**
+   * The rate's start-up as the shutter opens (the simulator's r·(1 − e^(−τ/ρ)), rampS) in the law:
+   * 'known' (ρ at the truth) or 'free' (ρ one parameter for the chip: what the chip's record allows
+   * where the start-up is not known beforehand). Not with wanderBlockS. @default none (the law without it)
+   */
+  ramp?: 'known' | 'free';
 }
 
 export interface ChipLayerBound {
@@ -70,19 +76,27 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
   const tauEnd = layers.map((l) => (run.layer.filter((v) => v === l.layer).length - 1) * dt);
   // θ = [n, r, a, g] per layer, then G
   const per = 4, gIndex = per * layers.length;
-  const theta = layers.flatMap((l, j) => [l.index, (l.thicknessNm - l.afterCutNm) / tauEnd[j], 0, l.afterCutNm]);
+  // with the ramp, d(τ) = r·(τ − ρ·(1 − e^(−τ/ρ))) + a·τ²/2 (+ the growth after the cut at the end)
+  const ramp = o.ramp !== undefined;
+  if (ramp && o.wanderBlockS !== undefined) throw new RangeError('chipBound: ramp with wanderBlockS');
+  const rho0 = ramp ? Math.max(options.rampS ?? 0, 0.05) : 0;
+  const lag = (tau: number, rho: number) => (rho > 0 ? rho * (1 - Math.exp(-tau / rho)) : 0);
+  const theta = layers.flatMap((l, j) => [l.index, (l.thicknessNm - l.afterCutNm) / (tauEnd[j] - lag(tauEnd[j], rho0)), 0, l.afterCutNm]);
   const lampPerS = (options.lampDriftPerHour ?? 0) / 3600, t0 = layers[0].startTimeS;
   const lamp = o.lampDriftSigmaPerHour !== undefined;
   // with the lamp's drift a parameter the gain is G at t₀ and moves with it; without, one G for the chip
   theta.push(1 + lampPerS * t0);
   const lIndex = gIndex + 1;
   theta.push(lampPerS);
+  const rIndex = lIndex + 1;
+  theta.push(rho0);
   const steps = layers.flatMap((l, j) => [1e-4, (1e-4 * l.thicknessNm) / tauEnd[j], (1e-4 * l.thicknessNm) / tauEnd[j] ** 2, 1e-3]);
-  steps.push(1e-4, 1e-4 / 3600);
+  steps.push(1e-4, 1e-4 / 3600, 1e-3);
   const fullScale = options.gain ?? 1;
 
   const signal = (t: readonly number[]): Float64Array => {
-    const dEnd = layers.map((_, j) => t[per * j + 1] * tauEnd[j] + 0.5 * t[per * j + 2] * tauEnd[j] ** 2 + t[per * j + 3]);
+    const rho = t[rIndex];
+    const dEnd = layers.map((_, j) => t[per * j + 1] * (tauEnd[j] - lag(tauEnd[j], rho)) + 0.5 * t[per * j + 2] * tauEnd[j] ** 2 + t[per * j + 3]);
     // completed stacks: stacks[j] holds layers 0..j−1
     const stacks = layers.map((_, j) => stackMatrices(layers.slice(0, j).map((l, q) => ({ n: t[per * q], k: k[q], thicknessNm: dEnd[q] })), wl));
     stacks.push(stackMatrices(layers.map((l, q) => ({ n: t[per * q], k: k[q], thicknessNm: dEnd[q] })), wl));
@@ -100,7 +114,7 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
         const j = pos.get(L)!;
         done = j + 1;
         const tau = (i - first.get(L)!) * dt;
-        layerMatrix(t[per * j], k[j], t[per * j + 1] * tau + 0.5 * t[per * j + 2] * tau * tau, wl, lm);
+        layerMatrix(t[per * j], k[j], t[per * j + 1] * (tau - lag(tau, rho)) + 0.5 * t[per * j + 2] * tau * tau, wl, lm);
         mul(lm, stacks[j].forward, f);
         mul(stacks[j].reverse, lm, rv);
         const x = response(f, rv, media);
@@ -112,7 +126,7 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
   };
 
   const growth = o.growth ?? 'known';
-  const free = [...layers.flatMap((_, j) => [per * j, per * j + 1, ...(o.rateDrift === false ? [] : [per * j + 2]), ...(growth === 'free' && j < layers.length - 1 ? [per * j + 3] : [])]), gIndex, ...(lamp ? [lIndex] : [])];
+  const free = [...layers.flatMap((_, j) => [per * j, per * j + 1, ...(o.rateDrift === false ? [] : [per * j + 2]), ...(growth === 'free' && j < layers.length - 1 ? [per * j + 3] : [])]), gIndex, ...(lamp ? [lIndex] : []), ...(o.ramp === 'free' ? [rIndex] : [])];
   const derivative = (p: number) => {
     const up = [...theta], down = [...theta];
     up[p] += steps[p];
@@ -186,7 +200,11 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
   if (thinPrior !== null && thinPrior > 0) layers.forEach((_, j) => { if (thin(j) && nSlot[j] >= 0) info[colOf(nSlot[j])][colOf(nSlot[j])] += 1 / thinPrior ** 2; });
   const crb = invert(info);
   return layers.map((l, j) => {
-    const gradTheta = free.filter((_, c) => keep[c]).map((p) => (p === per * j + 1 ? tauEnd[j] : p === per * j + 2 ? 0.5 * tauEnd[j] ** 2 : p === per * j + 3 ? 1 : 0));
+    // ∂d_end/∂θ: the rate's lever is the time at full rate, τ − lag; ∂lag/∂ρ = 1 − e^(−τ/ρ)·(1 + τ/ρ)
+    const tE = tauEnd[j], e = rho0 > 0 ? Math.exp(-tE / rho0) : 0;
+    const dLag = rho0 > 0 ? 1 - e * (1 + tE / rho0) : 0;
+    const gradTheta = free.filter((_, c) => keep[c]).map((p) => (p === per * j + 1 ? tE - lag(tE, rho0) : p === per * j + 2 ? 0.5 * tE ** 2 : p === per * j + 3 ? 1
+      : p === rIndex ? -theta[per * j + 1] * dLag : 0));
     const gradD = [...gradTheta, ...(wander ? wander.endGradient(j) : [])];
     const nCol = colOf(nSlot[j]);
     const gradND = gradD.map((v, q) => (q === nCol ? l.thicknessNm : l.index * v));

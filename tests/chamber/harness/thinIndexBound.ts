@@ -2,7 +2,8 @@
 //   npx tsx tests/chamber/harness/thinIndexBound.ts ['scenario name'] [seeds] [mode]; env
 //   BOUND_NO_DRIFT=1: every layer's rate drift known, as the simulator has none; BOUND_LAMP_SIGMA=0.01:
 //   the lamp's drift within the chip a parameter under a Gaussian prior of that σ per hour, as an
-//   analysis without a reference column has it, chipBound.ts lampDriftSigmaPerHour):
+//   analysis without a reference column has it, chipBound.ts lampDriftSigmaPerHour; BOUND_RAMP_FREE=1:
+//   the rate's start-up at shutter opening in the law with its time constant free, chipBound.ts ramp):
 // the Cramér–Rao bound of each layer from its whole chip's record (chipBound.ts, growths known)
 // as the thin layers' (< 0.5 QWOT) index is told: free, under a Gaussian prior of 0.0064 / 0.003
 // about the truth, known, and with one index per material; beside the analysis's RMS error.
@@ -26,6 +27,7 @@ async function main(): Promise<void> {
   const drift: ChipBoundOptions = {
     ...(process.env.BOUND_NO_DRIFT ? { rateDrift: false } : {}),
     ...(process.env.BOUND_LAMP_SIGMA ? { lampDriftSigmaPerHour: Number(process.env.BOUND_LAMP_SIGMA) } : {}),
+    ...(process.env.BOUND_RAMP_FREE ? { ramp: 'free' as const } : {}),
   };
   const cases: [string, ChipBoundOptions][] = [
     ['free', { ...drift }], ['prior .0064', { ...drift, thinIndex: 0.0064 }], ['prior .003', { ...drift, thinIndex: 0.003 }],
@@ -53,7 +55,8 @@ async function main(): Promise<void> {
       rows.set(t.layer, r);
     }
   }
-  const lamp = drift.lampDriftSigmaPerHour !== undefined ? `lamp drift under a ${(drift.lampDriftSigmaPerHour * 100).toFixed(2)} %/h prior` : 'lamp drift known';
+  const lamp = (drift.lampDriftSigmaPerHour !== undefined ? `lamp drift under a ${(drift.lampDriftSigmaPerHour * 100).toFixed(2)} %/h prior` : 'lamp drift known')
+    + (drift.ramp === 'free' ? ', the start-up\'s time constant free' : '');
   console.log(`== ${name} — ${mode} — seeds ${seeds.join(',')}: RMS over seeds of σ_CRB (whole chip, growths known, ${lamp}), thin layers' index ${cases.map((c) => c[0]).join(' / ')}`);
   for (const [layer, r] of [...rows].sort((a, b) => a[0] - b[0])) {
     const f = (v: number[][], d: number) => v.map((x) => rms(x).toFixed(d)).join(' ');
