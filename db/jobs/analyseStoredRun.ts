@@ -10,7 +10,7 @@ import { runAnalysisJob } from './runAnalysisJob';
 export { summaryOf } from './runAnalysisJob';
 
 export type AnalyseOutcome =
-  | { analysisId: number; state: 'done'; layers: number; warnings: number }
+  | { analysisId: number; state: 'done'; layers: number; warnings: number; notes: number }
   | { analysisId: number; state: 'failed'; error: string };
 
 /**
@@ -33,7 +33,7 @@ export async function analyseStoredRun(
   const outcome = await runAnalysisJob(analysis.id, { chunkBytes: opts.chunkBytes, onStored: opts.onStored }, ex);
   if (outcome.state === 'skipped') throw new Error(`analysis ${analysis.id} was taken by another worker`);
   if (outcome.state === 'failed') return { analysisId: outcome.analysisId, state: 'failed', error: outcome.error };
-  return { analysisId: outcome.analysisId, state: 'done', layers: outcome.layers, warnings: outcome.warnings };
+  return { analysisId: outcome.analysisId, state: 'done', layers: outcome.layers, warnings: outcome.warnings, notes: outcome.notes };
 }
 
 /** Stores the run's samples for plotting from its raw trace, when no analysis has done so yet. */

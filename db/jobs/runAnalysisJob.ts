@@ -1,5 +1,6 @@
 import 'server-only';
 import { AnalysisInputError, analyzeRun, type AnalysisResult, type LayerResult } from '../../analysis/fit';
+import { warningCount } from '../../analysis/fit/analysisNotes';
 import { DesignFormatError, gradeAgainst, parseDesign, type Design } from '../../analysis/design';
 import { readTrace, TraceFormatError } from '../../analysis/trace';
 import { db, type Executor } from '../client';
@@ -12,7 +13,8 @@ import { OVERVIEW_POINTS, plotPoints } from './seriesOverview';
 import { toJsonValue } from './toJsonValue';
 
 export type JobOutcome =
-  | { analysisId: number; state: 'done'; layers: number; warnings: number; attempt: number }
+  /** warnings: the run's warnings; notes: its messages that say what the analysis did (analysis/fit/analysisNotes.ts). */
+  | { analysisId: number; state: 'done'; layers: number; warnings: number; notes: number; attempt: number }
   | { analysisId: number; state: 'failed'; error: string; attempt: number }
   /** Already finished (a repeated job), or taken over by a newer attempt before this one could store. */
   | { analysisId: number; state: 'skipped' };
@@ -93,7 +95,8 @@ export async function runAnalysisJob(analysisId: number, hooks: JobHooks = {}, e
       console.error(`[fringelog] after analysis ${analysisId} was stored:`, err);
     }
   }
-  return { analysisId, state: 'done', layers: result.layers.length, warnings: result.warnings.length, attempt };
+  const warnings = warningCount(result.warnings);
+  return { analysisId, state: 'done', layers: result.layers.length, warnings, notes: result.warnings.length - warnings, attempt };
 }
 
 /** Errors from pg (connection lost, server shutting down) carry a SQLSTATE or a socket code. */

@@ -10,7 +10,7 @@ import { registerShiftDigests } from '../jobs/shiftDigestSchedule';
 const boss = await startAnalysisWorker({
   hooks: { onStored: sendAnalysisAlerts },
   onOutcome: (o) => {
-    if (o.state === 'done') console.log(`[fringelog] worker: analysis ${o.analysisId} done (${o.layers} layers, ${o.warnings} warnings, try ${o.attempt})`);
+    if (o.state === 'done') console.log(`[fringelog] worker: analysis ${o.analysisId} done (${o.layers} layers, ${o.warnings} warning${o.warnings === 1 ? '' : 's'}${o.notes ? `, ${o.notes} note${o.notes === 1 ? '' : 's'}` : ''}, try ${o.attempt})`);
     if (o.state === 'failed') console.log(`[fringelog] worker: analysis ${o.analysisId} failed: ${o.error}`);
   },
   onLeaseEvent: (e) => {

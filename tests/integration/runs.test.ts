@@ -169,6 +169,10 @@ describe('the analysis of a stored run', () => {
     expect(l.detail.idealCutTimeS).toBe(d.idealCutTimeS);
     expect(l.detail.lastTurningPoint).toEqual(d.lastTurningPoint);
     expect(stored.analysis.warnings).toEqual(direct.warnings);
+    // the outcome counts the run's notes (what the analysis did) apart from its warnings
+    const notes = direct.warnings.filter((w) => w.startsWith('start transient:') || w.startsWith('lamp ripple divided out:')).length;
+    expect(notes).toBeGreaterThan(0);
+    expect(outcome).toMatchObject({ warnings: direct.warnings.length - notes, notes });
     expect(stored.analysis.settings).toEqual({ mode: 'sequential' });
     expect(stored.analysis.startedAt).toBeInstanceOf(Date);
     expect(stored.analysis.finishedAt).toBeInstanceOf(Date);
