@@ -109,12 +109,17 @@ export const LEVEL_MARGIN_CHI2 = 1;
  * The chips' profiles pooled as fit/startDelay.ts pools layers', kept past LEVEL_MARGIN_CHI2 and
  * only where a grid point past 0 lies lower than δ = 0: a profile rising from 0 gets its
  * parabola's vertex past 0 too when it is not quadratic (the sample four-layer AR without a ramp:
- * χ² 0, 7.3, 47 at 0, 0.5, 1 s put δ̂ at 0.14 ± 0.12 s, 1.25 lower).
+ * χ² 0, 7.3, 47 at 0, 0.5, 1 s put δ̂ at 0.14 ± 0.12 s, 1.25 lower). Nor inside the grid's first
+ * step (0 < δ̂ < h), as the layers' pool keeps none there (fit/startDelay.ts): the white-noise BBAR
+ * of the chamber simulator, with no ramp, kept 0.26 and 0.38 s on seeds 17 and 20 of 11–26 with
+ * option levelStartTransient (refit 0.73 and 0.78 % thick, index 0.0077 and 0.0099 off; without
+ * them 0.28 %, 0.0029 over the 16), where its ramped runs read 0.6–2.0 s (real chamber, seeds 21–26).
  */
 export function pooledLevelDelay(profiles: readonly StartDelayProfile[]): PooledStartDelay | null {
   const p = pooledStartDelay(profiles);
   if (!p) return null;
   const total = START_DELAY_GRID_S.map((_, k) => profiles.reduce((a, c) => a + c.chi2[k], 0));
   const past0 = total.some((v, k) => k > 0 && v < total[0]);
-  return { ...p, marginChi2: LEVEL_MARGIN_CHI2, kept: past0 && p.delayS > 0 && p.gainChi2 > LEVEL_MARGIN_CHI2 && Number.isFinite(p.sigmaS) };
+  const firstStep = START_DELAY_GRID_S[1] - START_DELAY_GRID_S[0];
+  return { ...p, marginChi2: LEVEL_MARGIN_CHI2, kept: past0 && p.delayS >= firstStep && p.gainChi2 > LEVEL_MARGIN_CHI2 && Number.isFinite(p.sigmaS) };
 }

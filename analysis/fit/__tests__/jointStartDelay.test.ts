@@ -110,6 +110,15 @@ describe('the delay of a run cut on level, pooled from its chips', () => {
     expect(pooledLevelDelay([parabola(0.4, 0.5)])!.kept).toBe(false);
   });
 
+  it('keeps none inside the grid\'s first step, however large the gain, as the layers\' pool does', () => {
+    // the white-noise BBAR of the chamber simulator (no ramp) read 0.26 and 0.38 s on two seeds
+    const inside = pooledLevelDelay([parabola(0.35, 0.1)])!;
+    expect(inside.delayS).toBeCloseTo(0.35, 6);
+    expect(inside.gainChi2).toBeGreaterThan(10);
+    expect(inside.kept).toBe(false);
+    expect(pooledLevelDelay([parabola(0.6, 0.1)])!.kept).toBe(true);
+  });
+
   it('keeps none where χ² rises from 0 though the parabola through its first points has its vertex past 0', () => {
     // The sample four-layer AR without a ramp, as its joint fit profiled it.
     const rising = { chi2: Float64Array.of(0, 7.3, 47.3, 118.3, 220.3, 355, 524.6), points: 1600 };
