@@ -17,6 +17,7 @@ import { carryHeldGainSigma } from './heldGainSigma';
 import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
 import { DEFAULT_LAMP_STABILITY_PER_HOUR, gainDriftPrior } from './gainDriftPrior';
+import { lampDriftNote } from './lampDriftNote';
 import { carryGainDriftSigma, carryJointGainDriftSigma, driftShareThroughStack, gainDriftShift, swapGainDriftShare, swapIndexGainDriftShare } from './gainDriftSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { type SampleWorkResult } from './layerSampleWork';
@@ -95,6 +96,8 @@ export interface LayerState {
    * the layer's σ when its fit was done (`atFit`, the held share in it).
    */
   gainDriftShares?: { held: HeldIndexShift; chained: HeldIndexShift; atFit: HeldIndexShift };
+  /** Refit: what one σ of the held lamp drift moved the layer by in the chip's final joint fit (fit/lampDriftNote.ts). */
+  lampDriftShift?: HeldIndexShift;
   /** The least-squares fit's residual RMS (model units) on demand, where the index pooling moved the estimates since (fit/pooledIndex.ts). */
   lawResidualRms?: () => number;
   /** Gives the layer a wander to fit (refit, option rateWander: its material's shared one, where its own choice kept none). */
@@ -850,7 +853,8 @@ async function analyzeLayers(
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
-      carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss, joint);
+      const driftMoved = carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss, joint);
+      driftMoved?.forEach((shift, j) => (chipStates[j].lampDriftShift = shift));
       carryHeldGainSigma(data, chipStates.map((p) => p.estimate), heldGainFraction(chip), (moved) => fitLayers(
         { fixedBelow: [], layers: moved, start: chipStates.map((p) => p.estimate), offsetSignal: cal.offset }, { robust: o.robustLoss, maxIterations: 30 },
       ));
@@ -1083,6 +1087,21 @@ async function analyzeLayers(
   const found = linesAsked ? (lines ? await lines : runLinesFromRequest(linesAsked)) : [];
   warnings.push(...found.slice(0, 3).map(runDisturbanceWarning));
   const ripple = linesAsked && found.length > 0 ? lampRippleOf(linesAsked, found[0]) : null;
+  // Where the held lamp drift's assumed stability makes up most of a layer's σ, a note says so (fit/lampDriftNote.ts).
+  const driftHeld = [...chipLayers.keys()].map(heldDrift).find((d) => d.sigmaPerS > 0);
+  if (driftHeld && !transient.heldDrifts) {
+    const shares = states.flatMap((s, j) => {
+      const r = layers[j], g = s.gainDriftShares;
+      // (sequential: the share swapped in after the pass, narrowed in proportion where a later reading narrowed σ, swapGainDriftShare)
+      const kept = (sigma: number, at: number) => (at > 0 ? Math.min(1, sigma / at) : 1);
+      const shift = g
+        ? { index: g.chained.index * kept(r.indexSigma, g.atFit.index), thicknessNm: g.chained.thicknessNm * kept(r.thicknessSigmaNm, g.atFit.thicknessNm), opticalNm: g.chained.opticalNm }
+        : s.lampDriftShift;
+      return shift ? [{ layer: s.design.layer, thicknessSigmaNm: r.thicknessSigmaNm, indexSigma: r.indexSigma, indexHeld: r.indexHeld, shift }] : [];
+    });
+    const note = lampDriftNote(shares, driftHeld.perS * 3600, driftHeld.sigmaPerS * 3600);
+    if (note) warnings.push(note);
+  }
   const summary = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum, ownIndex);
   const result = model ? { ...summary, model } : summary;
   if (ripple) ripples.set(trace, ripple);

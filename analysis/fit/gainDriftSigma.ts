@@ -101,31 +101,35 @@ export function driftShareThroughStack(
  *
  * With `joint`, the chip's final joint fit on `data` (not robust), the moved solution is one
  * Gauss–Newton step from it (driftShift), the refit's solution to first order in σ_γ; without
- * it, the joint fit is repeated with γ moved, started from the estimates.
+ * it, the joint fit is repeated with γ moved, started from the estimates. Returns each layer's
+ * change per σ_γ (null without a σ).
  */
 export function carryJointGainDriftSigma(
   data: readonly FitLayerData[], estimates: LayerEstimate[], offset: number, sigmaPerS: number,
   sharedGain: SharedGain | null, robust: boolean, joint?: JointFitResult,
-): void {
-  if (!(sigmaPerS > 0) || estimates.length === 0) return;
+): HeldIndexShift[] | null {
+  if (!(sigmaPerS > 0) || estimates.length === 0) return null;
   const step = !robust && joint ? driftShift(data, joint, offset, sigmaPerS, sharedGain) : null;
   if (step) {
-    estimates.forEach((e, j) => {
+    return estimates.map((e, j) => {
       const d = step[j];
-      addHeldIndexSigma(e, 1, { index: d.index, thicknessNm: d.thicknessNm, opticalNm: d.opticalThicknessNm });
+      const shift = { index: d.index, thicknessNm: d.thicknessNm, opticalNm: d.opticalThicknessNm };
+      addHeldIndexSigma(e, 1, shift);
       e.rateSigma = Math.hypot(e.rateSigma, d.rateNmPerS);
+      return shift;
     });
-    return;
   }
   const moved = data.map((d) => ({ ...d, gainDriftPerS: (d.gainDriftPerS ?? 0) + sigmaPerS }));
   const shifted = fitLayers(
     { fixedBelow: [], layers: moved, start: estimates, offsetSignal: offset, ...(sharedGain ? { sharedGain: { ...sharedGain, fitDrift: false } } : {}) },
     { robust, maxIterations: 30 },
   );
-  estimates.forEach((e, j) => {
+  return estimates.map((e, j) => {
     const m = shifted.layers[j];
-    addHeldIndexSigma(e, 1, heldIndexShift(e, m, 1));
+    const shift = heldIndexShift(e, m, 1);
+    addHeldIndexSigma(e, 1, shift);
     e.rateSigma = Math.hypot(e.rateSigma, m.rateNmPerS - e.rateNmPerS);
+    return shift;
   });
 }
 

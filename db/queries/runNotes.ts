@@ -6,7 +6,7 @@ import { sql, type SQL } from 'drizzle-orm';
  * for types only); db/queries/__tests__/runNotes.test.ts keeps the two lists equal. A run's notes
  * neither count as warnings nor flag it.
  */
-export const NOTE_OPENINGS: readonly string[] = ['start transient:', 'lamp ripple divided out:'];
+export const NOTE_OPENINGS: readonly string[] = ['start transient:', 'lamp ripple divided out:', 'lamp drift assumed:'];
 
 /** The number of `column`'s messages (a jsonb array of strings) that are warnings, not notes. */
 export function warningCountSql(column: SQL): SQL {

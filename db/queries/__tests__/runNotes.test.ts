@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { NOTE_OPENINGS as analysisOpenings, isAnalysisNote, warningCount, warningsInWords } from '@/analysis/fit/analysisNotes';
+import { lampDriftNote } from '@/analysis/fit/lampDriftNote';
 import { startDelayNote } from '@/analysis/fit/startDelaySigma';
 import { NOTE_OPENINGS } from '../runNotes';
 
@@ -20,5 +21,11 @@ describe('the analysis\'s notes, apart from its warnings', () => {
     expect(warningCount(messages)).toBe(2);
     expect(warningsInWords(messages)).toBe('2 warnings');
     expect(warningsInWords(messages.slice(0, 2))).toBe('1 warning');
+  });
+
+  it('the held lamp drift\'s note is a note', () => {
+    const note = lampDriftNote([{ layer: 4, thicknessSigmaNm: 1, indexSigma: 0.01, indexHeld: false, shift: { index: 0.009, thicknessNm: 0.2, opticalNm: 0 } }], 0, 0.01);
+    expect(note).not.toBeNull();
+    expect(isAnalysisNote(note!)).toBe(true);
   });
 });
