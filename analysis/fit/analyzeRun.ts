@@ -18,7 +18,7 @@ import { monitorWavelengthMismatch } from './monitorWavelengthMismatch';
 import { carryOffsetSigma } from './offsetSigma';
 import { DEFAULT_LAMP_STABILITY_PER_HOUR, gainDriftPrior } from './gainDriftPrior';
 import { lampDriftNote } from './lampDriftNote';
-import { carryGainDriftSigma, carryJointGainDriftSigma, driftShareThroughStack, gainDriftShift, swapGainDriftShare, swapIndexGainDriftShare } from './gainDriftSigma';
+import { carryGainDriftSigma, carryJointGainDriftSigma, driftShareThroughStack, gainDriftShift, reportedGainDriftShift, swapGainDriftShare, swapIndexGainDriftShare } from './gainDriftSigma';
 import { layerSpectrum, type LayerSpectrum } from './layerSpectrum';
 import { type SampleWorkResult } from './layerSampleWork';
 import { type ObservedTurningPoints } from './observedTurningPoints';
@@ -1091,12 +1091,9 @@ async function analyzeLayers(
   const driftHeld = [...chipLayers.keys()].map(heldDrift).find((d) => d.sigmaPerS > 0);
   if (driftHeld && !transient.heldDrifts) {
     const shares = states.flatMap((s, j) => {
-      const r = layers[j], g = s.gainDriftShares;
-      // (sequential: the share swapped in after the pass, narrowed in proportion where a later reading narrowed σ, swapGainDriftShare)
-      const kept = (sigma: number, at: number) => (at > 0 ? Math.min(1, sigma / at) : 1);
-      const shift = g
-        ? { index: g.chained.index * kept(r.indexSigma, g.atFit.index), thicknessNm: g.chained.thicknessNm * kept(r.thicknessSigmaNm, g.atFit.thicknessNm), opticalNm: g.chained.opticalNm }
-        : s.lampDriftShift;
+      const r = layers[j];
+      // (sequential: the share swapped in after the pass, as the reported σ hold it)
+      const shift = s.gainDriftShares ? reportedGainDriftShift(s.gainDriftShares, r) : s.lampDriftShift;
       return shift ? [{ layer: s.design.layer, thicknessSigmaNm: r.thicknessSigmaNm, indexSigma: r.indexSigma, indexHeld: r.indexHeld, shift }] : [];
     });
     const note = lampDriftNote(shares, driftHeld.perS * 3600, driftHeld.sigmaPerS * 3600);

@@ -71,8 +71,27 @@ export function swapIndexGainDriftShare(e: LayerEstimate, shares: { held: HeldIn
 }
 
 function swapShare(sigma: number, at: number, from: number, to: number): number {
-  const kept = at > 0 ? Math.min(1, (sigma * sigma) / (at * at)) : 1;
+  const kept = keptFraction(sigma, at);
   return Math.sqrt(Math.max(0, sigma * sigma - kept * from * from) + kept * to * to);
+}
+
+/** The fraction of a share of σ² left where later evidence narrowed σ from `at` to `sigma`: (σ/σ_atFit)², at most 1. */
+function keptFraction(sigma: number, at: number): number {
+  return at > 0 ? Math.min(1, (sigma * sigma) / (at * at)) : 1;
+}
+
+/**
+ * The gain drift's one-σ change of a sequential layer's figures as its reported σ hold it: the
+ * share swapped in (`chained`), narrowed as swapGainDriftShare narrows it where later evidence
+ * narrowed the figure (fit/lampDriftNote.ts reads it against the reported σ).
+ */
+export function reportedGainDriftShift(shares: { chained: HeldIndexShift; atFit: HeldIndexShift }, e: Pick<LayerEstimate, 'indexSigma' | 'thicknessSigmaNm'>): HeldIndexShift {
+  const { chained, atFit } = shares;
+  return {
+    index: chained.index * Math.sqrt(keptFraction(e.indexSigma, atFit.index)),
+    thicknessNm: chained.thicknessNm * Math.sqrt(keptFraction(e.thicknessSigmaNm, atFit.thicknessNm)),
+    opticalNm: chained.opticalNm,
+  };
 }
 
 /**

@@ -74,7 +74,7 @@ export function chipBound(design: ChamberDesign, options: ChamberOptions, run: C
     ambient: design.ambient ? dispersion(design.ambient, wl).n : 1, substrate: dispersion(design.substrate, wl).n, backside: design.substrateBackside,
   };
   const tauEnd = layers.map((l) => (run.layer.filter((v) => v === l.layer).length - 1) * dt);
-  // θ = [n, r, a, g] per layer, then G
+  // θ = [n, r, a, g] per layer, then G, the lamp's drift γ and the start-up's ρ (each free or held by the options)
   const per = 4, gIndex = per * layers.length;
   // with the ramp, d(τ) = r·(τ − ρ·(1 − e^(−τ/ρ))) + a·τ²/2 (+ the growth after the cut at the end)
   const ramp = o.ramp !== undefined;
