@@ -9,7 +9,7 @@ export interface LampDriftShare {
   shift: HeldIndexShift;
 }
 
-/** A figure whose σ² the held drift makes up more than this fraction of is named in the note. */
+/** A figure whose σ² the held drift makes up more than this fraction of is named in the note ("most": chosen here, not a published figure). */
 export const LAMP_SHARE_NAMED = 0.5;
 /** Layers named at most; the rest counted. */
 const NAMED_AT_MOST = 6;
