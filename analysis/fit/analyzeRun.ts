@@ -37,6 +37,7 @@ import { stackPosteriorStep, type Nuisance } from './stackPosterior';
 import { startValues } from './startValues';
 import { holdUncarriedDrifts } from './rateDriftChoice';
 import { heldIndexSigmaIntoChip, shiftWithHeldIndex } from './heldIndexSigma';
+import { heldGrowthSigmaIntoChip } from './heldGrowthSigma';
 import { indexSeparation, type HeldIndexShift } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
@@ -851,6 +852,8 @@ async function analyzeLayers(
       ends?.afterJointFit(data, chipStates, chipStates[0].calibration.offset, cg);
       // A held index's own σ, into every layer of the chip (the joint fit took the index as exact).
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
+      // A growth after a cut the joint fit held: its σ into the layers that stand on it.
+      if (ends) heldGrowthSigmaIntoChip(data, chipStates, ends.heldGrowths(chipStates), cg, o.robustLoss);
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
       const driftMoved = carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss, joint);

@@ -18,7 +18,7 @@ describe('the level cuts\' unresolved start-up in their σ', () => {
     expect(unresolvedLevelDelaySigma({ ...p, delayS: 0 })).toBe(0);
   });
 
-  it('real-chamber BBAR, refit, seeds 27 and 37: the same estimates as with no start-up considered, layer 2\'s index now within 3σ, and the note says so', { timeout: 240_000 }, async () => {
+  it('real-chamber BBAR, refit, seeds 27 and 37: the same estimates as with no start-up considered, layer 2\'s index σ wider and within 3σ, and the note says so', { timeout: 240_000 }, async () => {
     for (const seed of [27, 37]) {
       const { run, results } = await runScenario(SCENARIO, seed, ['refit']);
       const plain = (await runScenario(SCENARIO, seed, ['refit'], { startTransient: false })).results.refit!;
@@ -27,9 +27,12 @@ describe('the level cuts\' unresolved start-up in their σ', () => {
       expect(result.layers.map((l) => l.index)).toEqual(plain.layers.map((l) => l.index));
       const truth = run.truth.layers.find((t) => t.layer === 2)!;
       const [l2, was] = [result.layers.find((l) => l.layer === 2)!, plain.layers.find((l) => l.layer === 2)!];
-      // measured: seed 27 3.84σ → 1.67σ, seed 37 3.9σ → 2.05σ (over seeds 21–40 one layer stays past
-      // 3σ: seed 32's, 4.52σ → 3.13σ)
-      expect(Math.abs(was.index - truth.index)).toBeGreaterThan(3 * was.indexSigma);
+      // measured: seed 27 3.84σ → 1.67σ, seed 37 3.9σ → 2.05σ (over seeds 21–40 one layer stayed past
+      // 3σ: seed 32's, 4.52σ → 3.13σ). Since the growth after layer 1's cut, which the chip's joint
+      // fit holds, is carried into layer 2's σ too (analysis/fit/heldGrowthSigma.ts), the plain fit's
+      // layer 2 is within 3σ as well (2.17σ and 2.02σ, seed 32 2.09σ → 1.88σ); the start-up widens
+      // its σ by 1.54× and 1.30×.
+      expect(l2.indexSigma).toBeGreaterThan(1.2 * was.indexSigma);
       expect(Math.abs(l2.index - truth.index)).toBeLessThan(3 * l2.indexSigma);
       // the note says so (a note, not a warning: it does not flag the run, analysis/fit/analysisNotes.ts)
       const note = result.warnings.find((w) => w.startsWith('start transient:'));
