@@ -46,15 +46,17 @@ export function levelCutEnds(trace: TraceData, design: Design, layers: readonly 
   // wrong stretch, not the film's curve (a χ² gain of 30 long-run variances, kept): the end it
   // moved set the next rounds' rates, and those rounds' plain fits landed elsewhere.
   const expected = expectedLevels(design);
-  for (let round = 0; round < (options.rounds ?? 3); round++) out = levelCutRound(trace, design, expected, out, gain, round === 0 ? { ...options, bend: 0 } : options);
+  const rounds = options.rounds ?? 3;
+  for (let round = 0; round < rounds; round++) out = levelCutRound(trace, design, expected, out, gain, round === 0 ? { ...options, bend: 0 } : options, round === rounds - 1);
   return out;
 }
 
 /** Time stretches of the design curves tried: the film's rate and index are not the design's. */
 const STRETCH = [0.85, 0.925, 1, 1.075, 1.15];
 
+/** One round of levelCutEnds; the last (`lastRound`) gives each boundary its spread. */
 function levelCutRound(
-  trace: TraceData, design: Design, expected: readonly ExpectedLayer[], layers: readonly Segment[], gain: number, options: LevelCutEndOptions,
+  trace: TraceData, design: Design, expected: readonly ExpectedLayer[], layers: readonly Segment[], gain: number, options: LevelCutEndOptions, lastRound: boolean,
 ): Segment[] {
   const out = layers.map((s) => ({ ...s }));
   const t = trace.timeS, y = trace.signal;
@@ -84,10 +86,14 @@ function levelCutRound(
     const rate = dl.thicknessNm / Math.max(durS, 1e-9);
     const into = STRETCH.map((k) => shapeOf(design, seg.layer, 'end', k * rate));
     const outOf = nxt ? STRETCH.map((k) => shapeOf(design, nxt.layer, 'start', (k * design.layers[nxt.layer - 1].thicknessNm) / Math.max(nextDurS, 1e-9))) : null;
-    const best = chosen(options.bend ?? 2, runVariance, t, y, level, from, to, [endS - search, endS + search], nxt ? [startS - search, startS + search] : null, into, outOf);
+    const best = chosen(options.bend ?? 2, runVariance, lastRound, t, y, level, from, to, [endS - search, endS + search], nxt ? [startS - search, startS + search] : null, into, outOf);
     if (!best) continue;
-    out[j] = { ...seg, endIndex: best.end, endTimeS: t[best.end - 1], sampleCount: best.end - seg.startIndex };
-    if (nxt) out[j + 1] = { ...nxt, startIndex: best.start, startTimeS: t[best.start], sampleCount: nxt.endIndex - best.start };
+    // (seg: a chip's first layer keeps the start placeBoundaries gave it, not firstStart's, which
+    // stands only where no end is placed. Kept throughout, firstStart's start was the closer under
+    // white noise and the farther under correlated noise: no-layer-column BBAR, refit, seeds
+    // 101–112, max 1.38 → 0.69 % and 1.38 → 3.41 %; seeds 1–16 correlated 2.56 → 3.64 %.)
+    out[j] = { ...seg, endIndex: best.end, endTimeS: t[best.end - 1], sampleCount: best.end - seg.startIndex, ...(best.sigma ? { endSigmaS: best.sigma.endS } : {}) };
+    if (nxt) out[j + 1] = { ...nxt, startIndex: best.start, startTimeS: t[best.start], sampleCount: nxt.endIndex - best.start, ...(best.sigma ? { startSigmaS: best.sigma.startS } : {}) };
   }
   return out;
 }
@@ -109,7 +115,7 @@ function firstStart(trace: TraceData, design: Design, seg: Segment, notBefore: n
   while (to < seg.endIndex && t[to] <= startS + search + (options.slopeS ?? 20)) to++;
   if (from + 1 >= to) return seg;
   const outOf = STRETCH.map((k) => shapeOf(design, seg.layer, 'start', (k * design.layers[seg.layer - 1].thicknessNm) / Math.max(durS, 1e-9)));
-  const best = chosen(options.bend ?? 2, runVariance, t, y, level, from, to, [t[from + 1], t[from + 1]], [startS - search, startS + search], [() => 0], outOf);
+  const best = chosen(options.bend ?? 2, runVariance, false, t, y, level, from, to, [t[from + 1], t[from + 1]], [startS - search, startS + search], [() => 0], outOf);
   return best ? { ...seg, startIndex: best.start, startTimeS: t[best.start], sampleCount: seg.endIndex - best.start } : seg;
 }
 
@@ -187,40 +193,51 @@ function pausesLongRunVariance(trace: TraceData, layers: readonly Segment[]): nu
  * the scenario's own noise the quadratics are seldom kept, where free they moved a boundary by
  * tens of seconds (n·d errors to 87 %).
  */
-function chosen(bend: number, runVariance: number, ...args: Parameters<typeof breakpoints>): { end: number; start: number } | null {
+function chosen(
+  bend: number, runVariance: number, withSpread: boolean, ...args: Parameters<typeof breakpoints>
+): { end: number; start: number; sigma: { endS: number; startS: number } | null } | null {
   const plain = breakpoints(...args);
-  if (!(bend > 0) || !plain) return plain;
+  if (!plain) return null;
   const [t, y, level, from, to, endSpan, startSpan, into, outOf] = args;
-  const bent = breakpoints(t, y, level, from, to, endSpan, startSpan, into, outOf, bend);
-  if (!bent) return plain;
   // The noise's scale for a slow term's χ² gain: its long-run variance σ_w² + σ_x²·(1 + ρ)/(1 − ρ)
   // (a smooth regressor sees the noise's spectral density at zero, not its per-sample variance).
   // Second differences see (1 − ρ)(3 − ρ)/3 of an AR(1) part's variance: on a detector whose noise
   // is correlated over ~10 samples they kept the quadratic everywhere and the boundaries left the
   // layers. The run's pauses pooled (pausesLongRunVariance); where they tell nothing, white + AR(1)
   // fitted to the variogram of this pause alone, lags to its half, and too short a pause: the
-  // design's curves as they are.
+  // design's curves as they are. The same scale for the breakpoints' spread (a breakpoint moves a
+  // stretch of the readings from one smooth curve to another).
   let variance = runVariance;
-  if (!(variance > 0)) {
+  if (!(variance > 0) && bend > 0) {
     const pauseEnd = startSpan ? plain.start : to; // the run's last layer: flat to the window's end
     const pause = Float64Array.from({ length: pauseEnd - plain.end }, (_, i) => y[plain.end + i]);
-    if (pause.length < MIN_PAUSE_SAMPLES) return plain;
-    variance = fitAr1PlusWhite(pause, Math.floor(pause.length / 2)).longRunSigma ** 2;
+    if (pause.length >= MIN_PAUSE_SAMPLES) variance = fitAr1PlusWhite(pause, Math.floor(pause.length / 2)).longRunSigma ** 2;
   }
-  if (!(variance > 0)) return plain;
+  const pick = (b: Breakpoints) => ({ end: b.end, start: b.start, sigma: withSpread && variance > 0 ? b.sigmas(variance) : null });
+  if (!(bend > 0) || !(variance > 0)) return pick(plain);
+  const bent = breakpoints(t, y, level, from, to, endSpan, startSpan, into, outOf, bend);
+  if (!bent) return pick(plain);
   const terms = (startSpan ? 2 : 1) * bend;
-  if (!(plain.cost - bent.cost > terms * Math.log(to - from) * variance)) return plain;
+  if (!(plain.cost - bent.cost > terms * Math.log(to - from) * variance)) return pick(plain);
   // The curves' misfit that the bend is for (the film's index and the stack below, the curves
   // already stretched ±15 %) moved the boundaries by 0.7 s at most on quiet traces; a rate that
   // wanders also bends the readings in time, and there the bent breakpoints float (a 5 % wander
   // over 20 s, seed 101 of the correlated-noise BBAR: layer 2's cut 24 s early, refit −21 %). A
   // bent boundary more than MAX_BEND_SHIFT_S from the plain one is taken as that, not the film.
   const shift = Math.max(Math.abs(t[bent.end - 1] - t[plain.end - 1]), startSpan ? Math.abs(t[bent.start] - t[plain.start]) : 0);
-  return shift <= MAX_BEND_SHIFT_S ? bent : plain;
+  return shift <= MAX_BEND_SHIFT_S ? pick(bent) : pick(plain);
 }
 
 /** The most a bent curve may move a boundary from the design curves' placement, s (see chosen; 0.7 s seen, chosen here with a margin). */
 const MAX_BEND_SHIFT_S = 2;
+
+/** Where the readings reach and leave the cut level (sample indices), the fit's cost, and each breakpoint's spread (s) at noise variance v. */
+interface Breakpoints {
+  end: number;
+  start: number;
+  cost: number;
+  sigmas: (v: number) => { endS: number; startS: number };
+}
 
 /**
  * Samples [from, to): the readings reach `level` on the layer's design curve (`into`, a scale ≥ 0
@@ -234,7 +251,7 @@ function breakpoints(
   t: ArrayLike<number>, y: ArrayLike<number>, level: number, from: number, to: number,
   endSpan: [number, number], startSpan: [number, number] | null,
   into: readonly ((dtS: number) => number)[], outOf: readonly ((dtS: number) => number)[] | null, bend = 0,
-): { end: number; start: number; cost: number } | null {
+): Breakpoints | null {
   const n = to - from;
   if (n < 20) return null;
   const RR = new Float64Array(n + 1);
@@ -315,6 +332,43 @@ function breakpoints(
   const coarse = pass(stride, 1, n - 1, 1, n - 2);
   if (!coarse) return null;
   const fine = stride > 1 ? pass(1, coarse.end - stride, coarse.end + stride, coarse.start - stride, coarse.start + stride) ?? coarse : coarse;
-  const best = { end: from + fine.end, start: from + fine.start, cost: fine.cost };
-  return best;
+  // Each breakpoint's spread with the other held at its best: its cost over its span (every
+  // stride-th sample, every sample within a stride of the best) as a likelihood exp(−Δcost / 2v)
+  // under a flat prior, v the noise's variance; the root-mean-square distance from the best, s.
+  // (the coarse trials on the search's own grid, `origin` + a multiple of the stride, whose costs it has)
+  const spread = (v: number, cost: (k: number) => number, lo: number, hi: number, at: number, origin: number): number => {
+    const ks = new Set<number>();
+    for (let k = lo + ((((origin - lo) % stride) + stride) % stride); k <= hi; k += stride) ks.add(k);
+    for (let k = Math.max(lo, at - stride); k <= Math.min(hi, at + stride); k++) ks.add(k);
+    const sorted = [...ks].sort((a, b) => a - b);
+    const c0 = cost(at);
+    let w = 0, m2 = 0;
+    sorted.forEach((k, i) => {
+      const c = cost(k);
+      if (!Number.isFinite(c)) return;
+      // each trial stands for the time halfway to its neighbours
+      const cell = (t[from + sorted[Math.min(i + 1, sorted.length - 1)]] - t[from + sorted[Math.max(i - 1, 0)]]) / 2;
+      const wk = Math.exp(-Math.max(0, c - c0) / (2 * v)) * cell;
+      w += wk;
+      m2 += wk * (t[from + k] - t[from + at]) ** 2;
+    });
+    // (and no less than a place on the sample grid allows: uniform over one sample step, dt/√12)
+    return w > 0 ? Math.sqrt(m2 / w + (dt * dt) / 12) : 0;
+  };
+  const span = (s: [number, number], lo: number, hi: number): [number, number] => {
+    let a = hi + 1, b = lo - 1;
+    for (let k = lo; k <= hi; k++) if (inside(k, s)) [a, b] = [Math.min(a, k), Math.max(b, k)];
+    return [a, b];
+  };
+  const sigmas = (v: number) => {
+    if (!(v > 0)) return { endS: 0, startS: 0 };
+    const pair = !!(startSpan && outOf);
+    const [elo, ehi] = span(endSpan, 1, pair ? fine.start : n - 1);
+    const endS = spread(v, (e) => costBefore(e) + (pair ? flat(e, fine.start) + costAfter(fine.start) : flat(e, n)), elo, ehi, fine.end, 1);
+    if (!pair) return { endS, startS: 0 };
+    const [slo, shi] = span(startSpan!, fine.end, n - 2);
+    const startS = spread(v, (k) => costBefore(fine.end) + flat(fine.end, k) + costAfter(k), slo, shi, fine.start, coarse.end);
+    return { endS, startS };
+  };
+  return { end: from + fine.end, start: from + fine.start, cost: fine.cost, sigmas };
 }

@@ -81,6 +81,9 @@ export interface Segment {
   sampleCount: number;
   /** 1 for a layer's first contiguous run, 2 for its second (a paused layer), … */
   run: number;
+  /** Placed without a layer column (fit/levelCutEnds.ts): the spread of the start and of the end the readings allow, s. */
+  startSigmaS?: number;
+  endSigmaS?: number;
 }
 
 export interface Segmentation {
