@@ -11,11 +11,13 @@ import { addHeldIndexSigma, heldIndexShift } from './thinLayer';
  * BBAR, refit, seeds 37–52): a growth of 0.1 nm after the 0.22-QWOT first layer's cut, held at 0
  * with σ 0.25 nm, moved the 0.41-QWOT second layer's index by +0.004, where that layer's σ was
  * 0.003. One joint fit with the layers as they stand and one per held growth, its time base
- * longer by the growth's σ; the growths taken as independent.
+ * longer by the growth's σ; the growths taken as independent. With `ownThickness` the held
+ * layer's own thickness takes its move too (a level cut's end placed without a layer column,
+ * whose spread is in no σ yet: analyzeRun).
  */
 export function heldGrowthSigmaIntoChip(
   data: readonly FitLayerData[], states: readonly LayerState[], held: readonly ({ sigmaNm: number; stepS: number } | null)[],
-  chipGain: SharedGain | null, robust: boolean,
+  chipGain: SharedGain | null, robust: boolean, ownThickness = false,
 ): void {
   if (!held.some((h) => h)) return;
   const ended = data.map((d, j) => ({ ...d, durationS: states[j].fit.durationS }));
@@ -31,8 +33,8 @@ export function heldGrowthSigmaIntoChip(
     const moved = fit(ended.map((d, j) => (j === g ? { ...d, durationS: d.durationS + h.stepS } : d)));
     states.forEach((t, j) => {
       const shift = heldIndexShift(base[j], moved[j], 1);
-      // its own thickness σ holds the growth already (LayerEnds)
-      addHeldIndexSigma(t.estimate, 1, j === g ? { index: shift.index, thicknessNm: 0, opticalNm: 0 } : shift);
+      // its own thickness σ holds the growth already (LayerEnds), unless `ownThickness`
+      addHeldIndexSigma(t.estimate, 1, j === g && !ownThickness ? { index: shift.index, thicknessNm: 0, opticalNm: 0 } : shift);
     });
   });
 }
