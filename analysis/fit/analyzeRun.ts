@@ -854,16 +854,11 @@ async function analyzeLayers(
       ends?.afterJointFit(data, chipStates, chipStates[0].calibration.offset, cg);
       // A held index's own σ, into every layer of the chip (the joint fit took the index as exact).
       heldIndexSigmaIntoChip(data, chipStates, cg, o.robustLoss);
-      // A growth after a cut the joint fit held: its σ into the layers that stand on it.
-      if (ends) heldGrowthSigmaIntoChip(data, chipStates, ends.heldGrowths(chipStates), cg, o.robustLoss);
-      // Without a layer column, a level cut's placed end as far as its readings allow it to move
-      // (levelCutEnds' spread): the same joint fit with that layer's time base longer by it, every
-      // layer's move into σ, the layer's own thickness too (no-layer-column BBAR seeds 101–112,
-      // thickness within 3σ 97.9 → 100 %, RMS z_d 0.76 → 0.58).
-      if (byDesign) heldGrowthSigmaIntoChip(data, chipStates, chipStates.map((p) => {
-        const endS = p.design.monitor.cut === 'level' ? basis.placed.find((x) => x.layer === p.design.layer)?.endSigmaS ?? 0 : 0;
-        return endS > 0 ? { sigmaNm: lawRate(p.estimate, p.fit.wander, p.fit.durationS) * endS, stepS: endS } : null;
-      }), cg, o.robustLoss, true);
+      // A time base the joint fit took as exact, its σ into the layers that stand on it: a growth
+      // after a cut that the fit held; without a layer column (no growths there), a level cut's
+      // placed end as far as its readings allow it to move, the layer's own thickness moving too
+      // (no-layer-column BBAR seeds 101–112, thickness within 3σ 97.9 → 100 %, RMS z_d 0.76 → 0.58).
+      heldGrowthSigmaIntoChip(data, chipStates, ends ? ends.heldGrowths(chipStates) : chipStates.map((p) => placedSpreadS(basis.placed, p).endS || null), cg, o.robustLoss, !ends);
       const cal = calibrations.get(chip)!;
       carryOffsetSigma(data, chipStates.map((p) => p.estimate), cal.offset, chipStarts.get(chip)!.offsetSigmaRandom ?? cal.offsetSigma, cg, o.robustLoss, joint);
       const driftMoved = carryJointGainDriftSigma(data, chipStates.map((p) => p.estimate), cal.offset, heldDriftSigma, cg, o.robustLoss, joint);
@@ -1020,9 +1015,7 @@ async function analyzeLayers(
     // 0.76 → 0.27.)
     if (o.mode === 'sequential') {
       for (const s of states) {
-        const placed = basis.placed.find((p) => p.layer === s.design.layer);
-        if (!placed) continue;
-        const endS = s.design.monitor.cut === 'level' ? placed.endSigmaS ?? 0 : 0, startS = placed.startSigmaS ?? 0;
+        const { endS, startS } = placedSpreadS(basis.placed, s);
         s.estimate = withWanderVariance(s.estimate, (lawRate(s.estimate, s.fit.wander, s.fit.durationS) * endS) ** 2 + (lawRate(s.estimate, s.fit.wander, 0) * startS) ** 2);
       }
     }
@@ -1330,4 +1323,10 @@ export function idleNoise(trace: TraceData, idle: readonly { startIndex: number;
     for (const v of part) if (v >= 0.3 * upper) lit.push(v);
   }
   return { sigma: lit.length >= 50 ? noiseSigma(lit) : null, samples: lit.length };
+}
+
+/** A layer's placed boundaries' spread without a layer column (fit/levelCutEnds.ts), s: its end's where it is a level cut, its start's; 0 where none. */
+function placedSpreadS(placed: readonly Segment[], s: LayerState): { endS: number; startS: number } {
+  const p = placed.find((x) => x.layer === s.design.layer);
+  return { endS: p && s.design.monitor.cut === 'level' ? p.endSigmaS ?? 0 : 0, startS: p?.startSigmaS ?? 0 };
 }

@@ -270,18 +270,18 @@ export class LayerEnds {
    * each layer but the chip's last, the growth after its cut as that fit held it where no later
    * reading told it (a level cut whose next layer is cut on level, or across a held index: its
    * idle level or the run's shutter time alone), its σ beyond the logged thickness's own (which
-   * the joint fit's covariance holds already) and the time that σ adds to the layer's time base.
+   * the joint fit's covariance holds already) as the time it adds to the layer's time base, s.
    * The layers above such a cut stand on it, and the joint fit took it as exact. Null where the
    * growth was read jointly, or from the next layer's start (that layer's own readings told it,
    * and the fit of that layer on them already carries their noise), or adds no σ.
    */
-  heldGrowths(states: readonly EndedLayer[]): ({ sigmaNm: number; stepS: number } | null)[] {
+  heldGrowths(states: readonly EndedLayer[]): (number | null)[] {
     return states.map((s, j) => {
       const rec = j + 1 < states.length ? this.records.find((r) => r.s === s) : undefined;
       if (!rec || this.joint.has(rec) || rec.next) return null;
       const sigmaNm = Math.sqrt(Math.max(0, rec.growth.sigmaNm ** 2 - this.base(rec).d ** 2));
       if (!(sigmaNm > 0) || !Number.isFinite(sigmaNm)) return null;
-      return { sigmaNm, stepS: sigmaNm / finalRate(s.fit.durationS, s) };
+      return sigmaNm / finalRate(s.fit.durationS, s);
     });
   }
 

@@ -352,7 +352,8 @@ function breakpoints(
       w += wk;
       m2 += wk * (t[from + k] - t[from + at]) ** 2;
     });
-    // (and no less than a place on the sample grid allows: uniform over one sample step, dt/√12)
+    // (and no less than a place on the sample grid allows: uniform over one sample step, the
+    // uniform distribution's variance dt²/12, common practice for a quantised reading)
     return w > 0 ? Math.sqrt(m2 / w + (dt * dt) / 12) : 0;
   };
   const span = (s: [number, number], lo: number, hi: number): [number, number] => {
