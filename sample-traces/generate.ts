@@ -111,7 +111,7 @@ export const SAMPLES: Sample[] = [
 export const HELD_BACK: Record<string, { off: ChamberOptions; reason: string }> = {
   'bay2-bb4-run0587.csv': {
     off: { lampDriftPerHour: 0, rampS: 0 },
-    reason: 'measured on this trace (seed 587, correlated noise on): the lamp drift alone (within one chip, no reference column) leaves refit within 1.5 % thickness (layer 4, 0.5σ) and 0.013 index, but in sequential layer 1 (0.22 QWOT, its index held at the nominal, 0.0165 above this run) reads 3 % thin and layer 3 "residuals 1.9× the noise", a warning on a run with nothing wrong in it; the rate ramp as the shutter opens alone (no start-up modelled on level cuts without a reference column) gives layer 3 "residuals 1.7×" in sequential; all three: sequential layer 2 −6.4 % (1.1σ), layer 3 "residuals 2.6×" and false cut warnings on layers 2 and 4 (2.3 and 3.3 % QWOT), refit 1.3 % and 0.016 index',
+    reason: 'measured on this trace (seed 587, correlated noise on) with both on: sequential reads every layer within 1.7 % thickness (layer 2, 0.41 QWOT, 0.2σ) and 0.013 index with no layer warning (its windows read the rate\'s start-up on a start delay\'s clock with the lamp drift under its prior, analysis/fit/fitWithNextLayer.ts; before that, layer 3 "residuals 2.6× the noise" and layer 2 −6.4 %); refit within 1.3 % and 0.016 index, but layer 3\'s cut error read −1.8 % QWOT against a true +0.2 % (the ramp alone: −1.0 against +0.2; the lamp drift alone: −1.2 against +0.2), past the 0.7 % QWOT the tests hold this trace to (analysis/cli/__tests__/analyze.test.ts): refit models no start-up on level cuts without a reference column, and a lamp drifting within one chip is not read from its layers',
   },
 };
 

@@ -780,7 +780,12 @@ async function analyzeLayers(
         }, { robust: o.robustLoss, maxIterations: 30 });
       };
     }
-    if (o.mode === 'sequential' && o.fitWithNextLayer) state.pairPart = { startGain: (e) => fit.heldGain ?? (withPrior ? anchor : e.gain), ...gainPrior };
+    if (o.mode === 'sequential' && o.fitWithNextLayer) {
+      state.pairPart = {
+        startGain: (e) => fit.heldGain ?? (withPrior ? anchor : e.gain), ...gainPrior,
+        ...(driftPrior ? { lampDrift: { chipGain: cg.gain, chipGainSigma: calibration.gainSigma, prior: driftPrior, noiseSigma: noiseFloor.sigma ?? calibration.noiseSigma } } : {}),
+      };
+    }
     if (o.mode === 'sequential' && ends && o.fitOnFinalStack) {
       state.fittedOn = {
         below: below.slice(),
@@ -896,25 +901,19 @@ async function analyzeLayers(
     // Sequential: a held thin level cut's index from the whole run (each level cut is fitted again
     // in the window it starts), then each level cut fitted again with the next two layers on its
     // chip, on the stack as it now stands (fit/fitWithNextLayer.ts); the other layers as fitOnFinalStack has them.
-    const asPassed = new Map(states.map((s) => [s, passedState(s)]));
     if (o.heldIndex === 'run-drift') holdAtRunDrift(states, states.filter((s) => s.design.monitor.cut === 'level' && s.pairPart));
-    const startedUp = fitWithNextLayers(chipLayers, o.robustLoss, (s, below) => {
+    // (a chip whose windows show the rate's start-up as the shutter opens reads them on its clock)
+    const startUps = fitWithNextLayers(chipLayers, o.robustLoss, (s, below) => {
       if (ends && o.fitOnFinalStack) fitOnFinalStack(s, below);
     });
-    // A chip whose windows show the rate's start-up as the shutter opens: as without the option.
-    for (const chip of startedUp) {
-      const chipStates = chipLayers.get(chip)!;
-      chipStates.forEach((s) => asPassed.get(s)!());
-      if (ends && o.fitOnFinalStack) chipStates.forEach((s, j) => fitOnFinalStack(s, chipStates.slice(0, j).map((p) => layerAtWavelength(p.fit, p.estimate, s.optics.wavelengthNm))));
-    }
     if (o.heldIndex === 'run-drift') {
       // Each held thin level cut's index once more from the whole run, now from the layers as the
       // windows left them, and its own window fitted again (fit/fitWithNextLayer.ts fitHeldAgain);
       // put back where no window could be fitted.
-      const held = states.filter((s) => s.design.monitor.cut === 'level' && s.pairPart && s.fit.heldIndex !== null && !startedUp.has(s.samples.chip));
+      const held = states.filter((s) => s.design.monitor.cut === 'level' && s.pairPart && s.fit.heldIndex !== null);
       const back = new Map(held.map((s) => [s, passedState(s)]));
       holdAtRunDrift(states, held);
-      const again = fitHeldAgain(chipLayers, o.robustLoss, new Set(held));
+      const again = fitHeldAgain(chipLayers, o.robustLoss, new Set(held), startUps);
       held.forEach((s) => { if (!again.has(s)) back.get(s)!(); });
     }
   } else if (o.mode === 'sequential' && ends && o.fitOnFinalStack) {

@@ -39,9 +39,12 @@ describe('the spread of boundaries placed without a layer column, in σ', () => 
     expect(loud.find((s) => s.layer === 2)!.endSigmaS).toBeGreaterThan(0.5);
   });
 
-  it('sequential, seeds 103 and 110: layer 2\'s thickness within 3σ (before: 3.9σ, 3.8σ)', { timeout: 120_000 }, async () => {
+  it('sequential, each layer fitted alone, seeds 103 and 110: layer 2\'s thickness within 3σ (before: 3.9σ, 3.8σ)', { timeout: 120_000 }, async () => {
     for (const seed of [103, 110]) {
-      const { run, results } = await runScenario(SCENARIO, seed, ['sequential']);
+      // (the pass alone, as the σ are the pass's: with the windows that fit each level cut again
+      // with the next layers, on by default, these two read −1.35 % and −0.79 % since the windows
+      // read the start-up they show on its clock, fit/fitWithNextLayer.ts)
+      const { run, results } = await runScenario(SCENARIO, seed, ['sequential'], { fitWithNextLayer: false });
       const truth = run.truth.layers.find((t) => t.layer === 2)!;
       const l2 = results.sequential!.layers.find((l) => l.layer === 2)!;
       // measured: the same estimates as before (−3.5 %, −3.8 %)
