@@ -289,10 +289,10 @@ export interface AnalyzeOptions {
    * reads as the stack below (real-chamber BBAR, ramp and lamp drift, seeds 21–36: 2.48 → 3.85 %);
    * a window that shows it is read on a start delay's clock, the chip's later windows on the same
    * delay, with the lamp's drift under its prior where the window's layers hold the chip's gain
-   * (there 2.18 %, RMS 0.74 %; before, such a chip was left as the pass had it: 2.48 %, RMS 1.07 %,
+   * (there 2.08 %, RMS 0.73 %; before, such a chip was left as the pass had it: 2.48 %, RMS 1.07 %,
    * and a thin first layer held at a nominal index the run is off stayed there: the demo's
-   * four-layer AR with its lamp drift and ramp, seeds 587–602, layers 1–2 RMS 2.90 and 3.22 → 1.07
-   * and 1.67 %, layer 3's false "residuals" warnings 3 → 0). @default true
+   * four-layer AR with its lamp drift and ramp, seeds 587–602, layers 1–2 RMS 2.90 and 3.22 → 1.09
+   * and 1.68 %, layer 3's false "residuals" warnings 3 → 0). @default true
    */
   fitWithNextLayer?: boolean;
   /**

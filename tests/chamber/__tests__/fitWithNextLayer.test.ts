@@ -48,8 +48,8 @@ describe('sequential: each level cut fitted again with the layers that grow on i
   });
 
   it(`real-chamber BBAR, seeds ${CHAMBER_SEEDS[0]}–${CHAMBER_SEEDS.at(-1)}: where the next layers show the rate's start-up, read on its clock: the layers of ≥ 0.5 QWOT closer than each level cut alone`, { timeout: 300_000 }, async () => {
-    // Measured, seeds 21–24: max 0.52 % (RMS 0.30 %) against 1.48 % (0.93 %) with each level cut
-    // alone; seeds 21–36: 2.18 % (0.74 %) against 2.48 % (1.07 %); coverage 100 % both. Not the thin
+    // Measured, seeds 21–24: max 0.32 % (RMS 0.22 %) against 1.48 % (0.93 %) with each level cut
+    // alone; seeds 21–36: 2.08 % (0.73 %) against 2.48 % (1.07 %); coverage 100 % both. Not the thin
     // layers' n·d: 2.39 % against 1.48 % on these seeds (4.65 against 4.37 % on seeds 21–36), layer 2
     // (0.41 QWOT) reading +2.3 % on average, the start of its own window on real time. Before, the
     // windows of a chip that showed the start-up were put back as the pass left them: the same as
