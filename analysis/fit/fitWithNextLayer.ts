@@ -4,7 +4,7 @@ import { fitLayers, type JointFitInput, type JointFitResult, type LayerEstimate,
 import { type DriftPrior } from './gainDriftPrior';
 import { layerAtWavelength, type FitLayerData } from './layerModel';
 import { holdUncarriedDrifts } from './rateDriftChoice';
-import { START_DELAY_GRID_S } from './startDelay';
+import { gridParabola, START_DELAY_GRID_S } from './startDelay';
 import { exposureTime, exposureTimes } from './startTransient';
 
 /** What a sequential layer brings to a joint fit with the next ones: its gain start (held, anchored or its own) and the pass's gain prior. */
@@ -133,11 +133,11 @@ function fitWindow(chipStates: readonly LayerState[], j: number, robust: boolean
     fixedBelow: below, layers, offsetSignal: s.calibration.offset, start,
     ...(sharesGain(layers, gainPrior) ? { sharedGain: windowGain(layers[0], start[0].gain, gainPrior!) } : gainPrior ? { gainPrior } : {}),
   };
-  if (window.length < 2) return holdUncarriedDrifts(input, fitLayers(input, { robust }), { robust }).result;
+  if (window.length < 2) return fitHoldingDrifts(input, robust);
   const chip = s.samples.chip;
   const known = startUps.get(chip);
   if (known !== undefined) return onDelayClock(withLampDrift(input, s.pairPart!.lampDrift), known, robust);
-  const { result } = holdUncarriedDrifts(input, fitLayers(input, { robust }), { robust });
+  const result = fitHoldingDrifts(input, robust);
   const held = startUpGain(input, result, robust);
   if (!(held.gain > START_UP_GAIN_CHI2)) return result;
   const drifting = withLampDrift(input, s.pairPart!.lampDrift);
@@ -146,11 +146,15 @@ function fitWindow(chipStates: readonly LayerState[], j: number, robust: boolean
   return found.result;
 }
 
+/** A window's joint fit, the rate drifts its layers' data do not carry held at 0 (fit/rateDriftChoice.ts). */
+function fitHoldingDrifts(input: JointFitInput, robust: boolean): JointFitResult {
+  return holdUncarriedDrifts(input, fitLayers(input, { robust }), { robust }).result;
+}
+
 /** A window's fit with its upper layers (all but the first) on the exposure clock of a start delay δ (fit/startTransient.ts). */
 function onDelayClock(input: JointFitInput, delayS: number, robust: boolean): JointFitResult {
   const layers = input.layers.map((d, k) => (k === 0 ? d : { ...d, tauS: exposureTimes(d.tauS, delayS), durationS: exposureTime(d.durationS, delayS) }));
-  const inp: JointFitInput = { ...input, layers };
-  return holdUncarriedDrifts(inp, fitLayers(inp, { robust }), { robust }).result;
+  return fitHoldingDrifts({ ...input, layers }, robust);
 }
 
 /**
@@ -167,13 +171,12 @@ function startUpFit(input: JointFitInput, robust: boolean): { delayS: number; re
   ssr.forEach((v, i) => {
     if (v < (k < 0 ? Infinity : ssr[k])) k = i;
   });
-  if (k < 0) return { delayS: 0, result: holdUncarriedDrifts(input, fitLayers(input, { robust }), { robust }).result };
-  const [a, b, c] = [ssr[k - 1], ssr[k], ssr[k + 1]];
-  const curvature = a + c - 2 * b;
-  if (curvature > 0) {
-    const delayS = START_DELAY_GRID_S[k] + (0.5 * (START_DELAY_GRID_S[1] - START_DELAY_GRID_S[0]) * (a - c)) / curvature;
-    const result = onDelayClock(input, delayS, robust);
-    if (result.solver.ssr < b) return { delayS, result };
+  if (k < 0) return { delayS: 0, result: fitHoldingDrifts(input, robust) };
+  // (the grid's first point, δ = 0, is not fitted here: a best δ on the grid's second point has no vertex)
+  const parabola = k + 1 < ssr.length ? gridParabola(ssr, k) : null;
+  if (parabola && parabola.curvature > 0) {
+    const result = onDelayClock(input, parabola.vertexS, robust);
+    if (result.solver.ssr < ssr[k]) return { delayS: parabola.vertexS, result };
   }
   return { delayS: START_DELAY_GRID_S[k], result: fits[k]! };
 }

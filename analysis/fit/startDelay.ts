@@ -164,6 +164,24 @@ export function pooledStartDelay(layers: readonly StartDelayProfile[]): PooledSt
   return { ...all, sigmaS, kept: all.kept && Number.isFinite(sigmaS) };
 }
 
+/**
+ * The parabola through `values` at grid points c − 1, c and c + 1 (START_DELAY_GRID_S, equal steps
+ * h): its vertex, its curvature (a − 2b + d)/h², and its value at x (three-point parabolic
+ * interpolation, e.g. W. H. Press et al., Numerical Recipes, 3rd ed., §10.3, from memory).
+ */
+export function gridParabola(values: ArrayLike<number>, c: number): { vertexS: number; curvature: number; valueAt: (x: number) => number } {
+  const grid = START_DELAY_GRID_S, h = grid[1] - grid[0];
+  const [a, b, d] = [values[c - 1], values[c], values[c + 1]];
+  return {
+    vertexS: grid[c] + (h * (a - d)) / (2 * (a - 2 * b + d)),
+    curvature: (a - 2 * b + d) / (h * h),
+    valueAt: (x) => {
+      const u = (x - grid[c]) / h;
+      return b + 0.5 * u * (d - a) + 0.5 * u * u * (a - 2 * b + d);
+    },
+  };
+}
+
 /** pooledStartDelay with σ from the curvature and the Birge ratio only. */
 function poolProfiles(layers: readonly StartDelayProfile[]): PooledStartDelay | null {
   if (layers.length === 0) return null;
@@ -174,8 +192,8 @@ function poolProfiles(layers: readonly StartDelayProfile[]): PooledStartDelay | 
   let k = 0;
   for (let i = 1; i < m; i++) if (total[i] < total[k]) k = i;
   const c = Math.min(Math.max(k, 1), m - 2);
-  const [a, b, d] = [total[c - 1], total[c], total[c + 1]];
-  const curvature = (a - 2 * b + d) / (h * h);
+  const parabola = gridParabola(total, c);
+  const curvature = parabola.curvature;
   let delayS = grid[k], minChi = total[k];
   // With the pooled minimum on the grid's first point no delay is placed inside the first step:
   // profiles on stacks refitted at each δ (fit/startDelayChain.ts) can rise from 0 faster than a
@@ -183,10 +201,8 @@ function poolProfiles(layers: readonly StartDelayProfile[]): PooledStartDelay | 
   // layer's own minimum (a synthetic reflectance run with no delay, each layer's minimum at 0:
   // 0.12 ± 0.05 s kept on a χ² "gain" of 1600).
   if (curvature > 0 && k > 0) {
-    const x = Math.min(Math.max(grid[c] + (h * (a - d)) / (2 * (a - 2 * b + d)), 0), grid[m - 1]);
-    const u = (x - grid[c]) / h;
-    delayS = x;
-    minChi = b + 0.5 * u * (d - a) + 0.5 * u * u * (a - 2 * b + d);
+    delayS = Math.min(Math.max(parabola.vertexS, 0), grid[m - 1]);
+    minChi = parabola.valueAt(delayS);
   }
   // Consistency: each layer's excess over its own minimum at the pooled grid point.
   let q = 0;
