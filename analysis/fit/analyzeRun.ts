@@ -42,7 +42,7 @@ import { indexSeparation, type HeldIndexShift } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
 import { lawRate, lawThickness, lawTimeToThickness, type RateWander } from './rateWander';
-import { cutPastTurningPointNm, overshootSeen, relativeCut, relativeCutShiftNm, type RunOvershoot } from './cutPastTurningPoint';
+import { cutPastTurningPointNm, endSigmaAfterPrior, overshootPosterior, overshootSeen, relativeCut, relativeCutShiftNm, type RunOvershoot } from './cutPastTurningPoint';
 import { populationMixture, truncatedPopulation } from './shutterTime';
 import { turningPointNearNm } from './cutTiming';
 import { chooseRateWander, finishRateWander, wanderEndVariance, withWanderVariance, type WanderChoice } from './wanderChoice';
@@ -154,6 +154,7 @@ export const ANALYZE_DEFAULTS = {
   growthFromNext: true,
   levelGrowthFromNext: true,
   shutterTimePopulation: 'normal' as 'normal' | 'truncated' | 'mixture',
+  overshootPopulation: 'mixture' as 'uniform' | 'truncated' | 'mixture',
   fitOnFinalStack: true,
   fitWithNextLayer: true,
   stackFromLayer: false,
@@ -938,22 +939,28 @@ async function analyzeLayers(
       const tpNm = turningPointNearNm(s.optics, belowOf(s), e.index, -s.nominal.im, loggedNm);
       return tpNm === null ? null : { cut, e, w, loggedNm, tpNm };
     };
-    // Sequential: the σ of the end relative to the turning point, on the fit's own covariance
-    // (fit/cutPastTurningPoint.ts relativeCut); the whole σ holds the stack below's and the
-    // offset's shares, which move the end and its turning point together.
+    // The σ of the end relative to the turning point, on the fit's own covariance of d and n (the
+    // layer's fit in sequential, the chip's joint fit in refit; fit/cutPastTurningPoint.ts
+    // relativeCut); the whole σ holds the stack below's and the offset's shares, which move the
+    // end and its turning point together. In refit the whole σ stood until this was measured
+    // there too: on analysis/synth's 18-layer mirror (overshoot 0.1–0.6 %), seeds 11–30, the
+    // chips' last layers read 2× their error's spread (σ 0.2–0.3 % for errors of RMS 0.11 %), so
+    // the run's overshoot population took them over (RMS 0.087 → 0.142 %); on the relative σ
+    // 0.089 %. Harness seeds, refit: rate-wander mirror 1.33 → 0.70 % (the last cut's σ now
+    // within the overshoot, overshootSeen), with the population spikes mirror 0.57 → 0.18 %.
     const relativeReading = (s: LayerState, e: LayerState['estimate'], loggedNm: number) => {
       const own = e.ownCovariance;
-      if (o.mode !== 'sequential' || !own) return null;
+      if (!own) return null;
       const h = Math.max(Math.sqrt(own.nn), 1e-4);
       const up = turningPointNearNm(s.optics, belowOf(s), e.index + h, -s.nominal.im, loggedNm);
       const down = turningPointNearNm(s.optics, belowOf(s), e.index - h, -s.nominal.im, loggedNm);
       return up !== null && down !== null ? relativeCut(own, (up - down) / (2 * h)) : null;
     };
     // The run's overshoot from its other turning-point cuts, each end pinned by the layer above
-    // (option shutterTimePopulation; the default, 'normal', keeps the uniform prior alone).
+    // (option overshootPopulation; 'uniform' keeps the uniform prior alone).
     const maxPct = Math.max(o.turningPointOvershootPct, 0);
     const readings: { timeS: number; sigmaS: number }[] = [];
-    if (maxPct > 0 && o.shutterTimePopulation !== 'normal') {
+    if (maxPct > 0 && o.overshootPopulation !== 'uniform') {
       for (const chipStates of chipLayers.values()) for (const s of chipStates.slice(0, -1)) {
         const end = loggedEnd(s);
         if (!end || !(end.tpNm > 0)) continue;
@@ -963,7 +970,7 @@ async function analyzeLayers(
     }
     const pop = readings.length >= 3 ? truncatedPopulation(readings, maxPct) : null;
     const run: RunOvershoot | null = pop
-      ? { meanPct: pop.meanS, spreadPct: pop.spreadS, ...(o.shutterTimePopulation === 'mixture' ? { components: populationMixture(readings, maxPct) } : {}) }
+      ? { meanPct: pop.meanS, spreadPct: pop.spreadS, ...(o.overshootPopulation === 'mixture' ? { components: populationMixture(readings, maxPct) } : {}) }
       : null;
     for (const chipStates of chipLayers.values()) {
       const s = chipStates[chipStates.length - 1];
@@ -971,22 +978,28 @@ async function analyzeLayers(
       if (!end) continue;
       const { cut, e, w, loggedNm, tpNm } = end;
       let shiftNm = cutPastTurningPointNm(loggedNm, cut.sigmaNm, tpNm, o.turningPointOvershootPct, run) - loggedNm;
-      let seenSigmaNm = cut.sigmaNm;
-      // Sequential: the posterior on the end relative to the turning point (relativeReading),
-      // where the reading does not contradict the prior on the whole σ (the gate above).
+      let seen = { sigmaNm: cut.sigmaNm, beta: 1 };
+      // The posterior on the end relative to the turning point (relativeReading), where the
+      // reading does not contradict the prior on the whole σ (the gate above).
       if (shiftNm !== 0) {
         const rel = relativeReading(s, e, loggedNm);
         // beta held within [0, 1]: the end moved no further than the relative reading (beta read
         // 1.2–1.3 on the spikes mirror; held, its chips' last layers RMS 0.402 → 0.373 %, seeds 15–30).
-        if (rel) shiftNm = relativeCutShiftNm(loggedNm, tpNm, rel.sigmaNm, Math.min(Math.max(rel.beta, 0), 1), o.turningPointOvershootPct, run);
-        if (rel) seenSigmaNm = rel.sigmaNm;
+        if (rel) seen = { sigmaNm: rel.sigmaNm, beta: Math.min(Math.max(rel.beta, 0), 1) };
+        if (rel) shiftNm = relativeCutShiftNm(loggedNm, tpNm, seen.sigmaNm, seen.beta, o.turningPointOvershootPct, run);
       }
       // Only where that σ could show a cut later than the overshoot allows (overshootSeen).
-      if (!overshootSeen(seenSigmaNm, (tpNm * maxPct) / 100)) shiftNm = 0;
+      const hiNm = (tpNm * maxPct) / 100;
+      if (!overshootSeen(seen.sigmaNm, hiNm)) shiftNm = 0;
+      if (shiftNm === 0) continue;
       const d = e.thicknessNm + shiftNm;
       const T = lawTimeToThickness(e, w, d, s.fit.durationS);
       if (Number.isFinite(T)) s.fit.durationS = s.refit.durationS = T;
-      s.estimate = { ...e, thicknessNm: d, opticalThicknessNm: e.index * d };
+      // What the prior told of x leaves the end's variance (endSigmaAfterPrior); n·d's with it.
+      const post = overshootPosterior(loggedNm - tpNm, seen.sigmaNm, hiNm, tpNm, run).sigma;
+      const sd = endSigmaAfterPrior(e.thicknessSigmaNm, seen.sigmaNm, seen.beta, post);
+      const snd = e.index * endSigmaAfterPrior(e.opticalThicknessSigmaNm / e.index, seen.sigmaNm, seen.beta, post);
+      s.estimate = { ...e, thicknessNm: d, opticalThicknessNm: e.index * d, thicknessSigmaNm: sd, opticalThicknessSigmaNm: snd };
     }
   }
   // A turning-point cut ended on its fitted turning point (no layer column): the excess past it,

@@ -58,7 +58,7 @@ export function cutPastTurningPointNm(loggedNm: number, sigmaNm: number, turning
   const hi = turningPointNm * (1 + Math.max(overshootPct, 0) / 100);
   // A reading beyond CONTRADICTS σ outside the interval says the controller did not cut so: the reading stands.
   if (loggedNm < turningPointNm - CONTRADICTS * sigmaNm || loggedNm > hi + CONTRADICTS * sigmaNm) return loggedNm;
-  return turningPointNm + overshootPosterior(loggedNm - turningPointNm, sigmaNm, hi - turningPointNm, turningPointNm, run);
+  return turningPointNm + overshootPosterior(loggedNm - turningPointNm, sigmaNm, hi - turningPointNm, turningPointNm, run).mean;
 }
 
 /**
@@ -75,21 +75,22 @@ export interface RunOvershoot {
 }
 
 /**
- * Posterior mean of x = d_end − d_TP, nm, from its reading x̂ ± σ: under the run's overshoot
- * population where known (the product of the two Gaussians, then cut to [0, hi]), else under the
- * uniform prior on [0, hi].
+ * Posterior mean and σ of x = d_end − d_TP, nm, from its reading x̂ ± σ: under the run's
+ * overshoot population where known (the product of the two Gaussians, then cut to [0, hi]), else
+ * under the uniform prior on [0, hi].
  */
-function overshootPosterior(x: number, sigmaNm: number, hiNm: number, turningPointNm: number, run: RunOvershoot | null): number {
-  if (!run) return truncatedNormalMoments(x, sigmaNm, 0, hiNm).mean;
+export function overshootPosterior(x: number, sigmaNm: number, hiNm: number, turningPointNm: number, run: RunOvershoot | null): { mean: number; sigma: number } {
+  if (!run) return truncatedNormalMoments(x, sigmaNm, 0, hiNm);
   if (run.components) {
     const k = turningPointNm / 100;
     const population = run.components.map((c) => ({ meanNm: c.meanNm * k, sigmaNm: c.sigmaNm * k, weight: c.weight }));
-    return populationPosterior(population, hiNm, { meanNm: x, sigmaNm }).deltaNm;
+    const p = populationPosterior(population, hiNm, { meanNm: x, sigmaNm });
+    return { mean: p.deltaNm, sigma: p.sigmaNm };
   }
   const mu = (run.meanPct * turningPointNm) / 100, tau = (run.spreadPct * turningPointNm) / 100;
   const v = sigmaNm * sigmaNm + tau * tau;
   const m = (x * tau * tau + mu * sigmaNm * sigmaNm) / v, s = (sigmaNm * tau) / Math.sqrt(v);
-  return truncatedNormalMoments(m, s, 0, hiNm).mean;
+  return truncatedNormalMoments(m, s, 0, hiNm);
 }
 
 /**
@@ -112,7 +113,7 @@ const CONTRADICTS = 2;
  */
 export function relativeCutShiftNm(loggedNm: number, turningPointNm: number, sigmaNm: number, beta: number, overshootPct: number, run: RunOvershoot | null = null): number {
   const x = loggedNm - turningPointNm, hi = turningPointNm * (Math.max(overshootPct, 0) / 100);
-  return beta * (overshootPosterior(x, sigmaNm, hi, turningPointNm, run) - x);
+  return beta * (overshootPosterior(x, sigmaNm, hi, turningPointNm, run).mean - x);
 }
 
 /**
@@ -124,4 +125,16 @@ export function relativeCut(own: { dd: number; nn: number; dn: number }, dTpDn: 
   const v = own.dd + dTpDn * dTpDn * own.nn - 2 * dTpDn * own.dn;
   if (!(v > 0)) return null;
   return { sigmaNm: Math.sqrt(v), beta: (own.dd - dTpDn * own.dn) / v };
+}
+
+/**
+ * σ of the end once the prior has moved it: with the end's error e = β·e_x + r (e_x the relative
+ * reading's error, σ `relSigmaNm`; r apart from it, the rest of the whole σ), the posterior of x
+ * (σ `postSigmaNm`) takes the place of the reading, so var(e) falls by β²·(σ_x² − σ_post²); never
+ * below the posterior's own share, (β·σ_post)² (the conditional variance, as for jointly normal
+ * errors).
+ */
+export function endSigmaAfterPrior(wholeSigmaNm: number, relSigmaNm: number, beta: number, postSigmaNm: number): number {
+  const told = beta * beta * Math.max(0, relSigmaNm * relSigmaNm - postSigmaNm * postSigmaNm);
+  return Math.sqrt(Math.max(wholeSigmaNm * wholeSigmaNm - told, (beta * postSigmaNm) ** 2));
 }

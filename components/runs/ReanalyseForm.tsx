@@ -49,7 +49,7 @@ export function ReanalyseForm({ runId }: { runId: number }) {
   async function submit(form: FormData) {
     setMessage(null);
     const settings: Record<string, unknown> = { mode: form.get('mode') };
-    for (const key of ['gain', 'heldIndex', 'shutterTimeGrowth', 'shutterTimePopulation'] as const) if (form.get(key)) settings[key] = form.get(key);
+    for (const key of ['gain', 'heldIndex', 'shutterTimeGrowth', 'shutterTimePopulation', 'overshootPopulation'] as const) if (form.get(key)) settings[key] = form.get(key);
     const thin = String(form.get('thinLayerQwot') ?? '').trim();
     if (thin !== '') settings.thinLayerQwot = Number(thin);
     const drift = form.get('chipDrift');
@@ -153,11 +153,19 @@ export function ReanalyseForm({ runId }: { runId: number }) {
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-shutter-pop">Shutter times and overshoots across the run, as populations (a chip&apos;s last cut&apos;s prior)</label>
+          <label htmlFor="re-shutter-pop">Shutter times across the run, as a population (each cut&apos;s growth prior)</label>
           <select id="re-shutter-pop" name="shutterTimePopulation" className={select} defaultValue="">
             <option value="">Normal spread (default)</option>
             <option value="mixture">Cut at 0, with their uncertainty</option>
             <option value="truncated">Cut at 0, at their best fit</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-overshoot-pop">A chip&apos;s last turning-point cut: its overshoot read from the run&apos;s other turning-point cuts</label>
+          <select id="re-overshoot-pop" name="overshootPopulation" className={select} defaultValue="">
+            <option value="">From the run, cut at 0, with its uncertainty (default)</option>
+            <option value="truncated">From the run, cut at 0, at its best fit</option>
+            <option value="uniform">Not from the run: anywhere up to the overshoot below</option>
           </select>
         </div>
         <ReferenceDefaultSelect id="re-level-start" name="levelStartTransient" label="On a run cut only on level: the rate's start-up as the shutter opens, found with the lamp drift in each chip's joint fit" />

@@ -27,8 +27,10 @@ export function describeSettings(s: Record<string, unknown>): string {
   if (s.indexGradient === true) parts.push('index gradient in thick layers');
   if (s.shutterTimeGrowth === 'bounded') parts.push("last layers' growth within 0–2 s of shutter time");
   if (s.shutterTimeGrowth === 'run-mean') parts.push("last layers' growth at the run's shutter time");
-  if (s.shutterTimePopulation === 'mixture') parts.push('shutter times and overshoots cut at 0, with their uncertainty');
-  if (s.shutterTimePopulation === 'truncated') parts.push('shutter times and overshoots cut at 0');
+  if (s.shutterTimePopulation === 'mixture') parts.push('shutter times cut at 0, with their uncertainty');
+  if (s.shutterTimePopulation === 'truncated') parts.push('shutter times cut at 0');
+  if (s.overshootPopulation === 'uniform') parts.push("last cuts' overshoot uniform, not from the run");
+  if (s.overshootPopulation === 'truncated') parts.push("last cuts' overshoot from the run at its best fit");
   if (s.growthFromNext === false) parts.push('growth after turning-point cuts in σ only');
   if (s.levelGrowthFromNext === false) parts.push('growth after level cuts from the idle level only');
   if (s.turningPointExcessMean === false) parts.push('turning-point cuts placed on the turning point');

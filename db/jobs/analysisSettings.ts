@@ -31,6 +31,7 @@ export const analysisSettingsSchema = z
     levelGrowthFromNext: z.boolean().optional(),
     shutterTimeGrowth: z.enum(['bounded', 'run-mean']).optional(),
     shutterTimePopulation: z.enum(['normal', 'truncated', 'mixture']).optional(),
+    overshootPopulation: z.enum(['uniform', 'truncated', 'mixture']).optional(),
     turningPointOvershootPct: z.number().min(0).max(10).optional(),
     turningPointExcessMean: z.boolean().optional(),
     pooledIndex: z.boolean().optional(),

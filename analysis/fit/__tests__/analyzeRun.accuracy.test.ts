@@ -109,7 +109,10 @@ describe('analyzeRun accuracy on synthetic traces (issue 4 targets)', () => {
     // cut past the turning point the errors are about a third smaller and σ 10–25 % wider, the
     // signal flat at the end). What stays wide is the detector offset's σ, profiled from the layers
     // without a dark reading: the second-to-last layer of each chip, σ 0.38–0.44 % for errors
-    // within 0.08 % (DEVELOPERS.md, fit/offsetSigma.ts).
-    expect([...z].sort((a, b) => a - b)[z.length >> 1]).toBeGreaterThan(0.2);
+    // within 0.08 % (DEVELOPERS.md, fit/offsetSigma.ts). 0.207 → 0.198 since each chip's last layer
+    // takes its overshoot from the run's other cuts (option overshootPopulation): on these seeds
+    // those layers' errors fell (RMS 0.068 → 0.046 %, median |z| 0.19 → 0.12), their σ hardly (its
+    // shares of the offset and the stack below move the end and its turning point together).
+    expect([...z].sort((a, b) => a - b)[z.length >> 1]).toBeGreaterThan(0.18);
   });
 });

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { analyzeRun } from '..';
-import { truncatedNormalMoments } from '../cutPastTurningPoint';
+import { endSigmaAfterPrior, overshootPosterior, truncatedNormalMoments } from '../cutPastTurningPoint';
+import { gaussian } from '../../trace/__tests__/rng';
 import { mirror18, synthTrace } from './scenarios';
 
 describe('truncatedNormalMoments', () => {
@@ -34,6 +35,41 @@ describe('truncatedNormalMoments', () => {
     expect(truncatedNormalMoments(-50, 1, 0, 1).mean).toBeCloseTo(0, 6);
     expect(truncatedNormalMoments(60, 1, 0, 1).mean).toBeCloseTo(1, 6);
   });
+});
+
+describe('endSigmaAfterPrior: the end\'s σ once the overshoot prior has moved it', () => {
+  // Monte Carlo of the model it states: the overshoot x drawn from the prior (uniform on [0, hi]),
+  // the end's error e = β·e_x + r with e_x ~ N(0, σ_x²) the relative reading's and r ~ N(0, σ_r²)
+  // the rest; the end moved by β·(E[x | x̂] − x̂). The mean square of the moved end's error must
+  // match the mean of the σ² it reports (the law of total variance; 40,000 draws: ±1.4 % in σ²).
+  for (const [beta, sx, sr, hi] of [[1, 0.3, 0.2, 1], [0.8, 0.15, 0.3, 1], [1, 0.6, 0.1, 1]] as const) {
+    it(`β ${beta}, σ_x ${sx}, σ_r ${sr}, overshoot up to ${hi}`, () => {
+      const g = gaussian(7);
+      let a = 11;
+      const uniform = () => {
+        // mulberry32 (as in ../../trace/__tests__/rng.ts)
+        a = (a + 0x6d2b79f5) >>> 0;
+        let t = Math.imul(a ^ (a >>> 15), a | 1);
+        t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+        return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+      };
+      const whole = Math.sqrt(beta * beta * sx * sx + sr * sr);
+      let err2 = 0, sig2 = 0;
+      const N = 40_000;
+      for (let i = 0; i < N; i++) {
+        const x = hi * uniform();
+        const ex = sx * g(), r = sr * g();
+        const e = beta * ex + r;
+        const post = overshootPosterior(x + ex, sx, hi, 100, null);
+        err2 += (e + beta * (post.mean - (x + ex))) ** 2;
+        sig2 += endSigmaAfterPrior(whole, sx, beta, post.sigma) ** 2;
+      }
+      console.log(`mean square error / mean σ² ${(err2 / sig2).toFixed(4)}`);
+      expect(Math.abs(err2 / sig2 - 1)).toBeLessThan(0.04);
+      // and it told something: the reported σ below the whole σ
+      expect(sig2 / N).toBeLessThan(whole * whole);
+    });
+  }
 });
 
 describe('the cut held past the turning point in sequential, read relative to the turning point', () => {

@@ -53,8 +53,12 @@ describe('analysis settings', () => {
       "sequential · last layers' growth at the run's shutter time",
     );
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', shutterTimePopulation: 'mixture' }))).toBe(
-      'refit · shutter times and overshoots cut at 0, with their uncertainty',
+      'refit · shutter times cut at 0, with their uncertainty',
     );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', overshootPopulation: 'uniform' }))).toBe(
+      "sequential · last cuts' overshoot uniform, not from the run",
+    );
+    expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', overshootPopulation: 'mixture' }))).toBe('refit');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', shutterTimePopulation: 'normal' }))).toBe('refit');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'refit', rippleDivide: false }))).toBe('refit · a lamp ripple found through the run named, not divided out');
     expect(describeSettings(analysisSettingsSchema.parse({ mode: 'sequential', runDisturbances: false, rippleDivide: false }))).toBe(
@@ -88,5 +92,6 @@ describe('analysis settings', () => {
     expect(analysisSettingsSchema.safeParse({ mode: 'sequential', fitWithNextLayer: 3 }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', levelGrowthFromNext: 'on' }).success).toBe(false);
     expect(analysisSettingsSchema.safeParse({ mode: 'refit', shutterTimePopulation: 'uniform' }).success).toBe(false);
+    expect(analysisSettingsSchema.safeParse({ mode: 'refit', overshootPopulation: 'normal' }).success).toBe(false);
   });
 });

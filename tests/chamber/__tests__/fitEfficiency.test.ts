@@ -49,8 +49,10 @@ describe('the analysis against the Cramér–Rao bound (chamber simulator)', () 
       expect(s.reportedOverA).toBeLessThan(1.5);
       expect(s.rmsOverA).toBeGreaterThan(0.7);
       expect(s.rmsOverA).toBeLessThan(1.5);
-      // no layer claims more than the whole record could tell
-      expect(s.minReportedOverB).toBeGreaterThan(1);
+      // no layer claims much more than the whole record could tell: a chip's last layer may reach
+      // it, its overshoot's prior being the run's other cuts (option overshootPopulation), which B
+      // does not hold (spikes, seeds 15–18: least 1.21 → 1.00 with the σ the prior leaves, endSigmaAfterPrior)
+      expect(s.minReportedOverB).toBeGreaterThan(0.95);
       expect(s.rmsZ).toBeGreaterThan(0.7);
       expect(s.rmsZ).toBeLessThan(1.4);
     });
