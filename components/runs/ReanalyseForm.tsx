@@ -160,14 +160,6 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <option value="truncated">Cut at 0, at their best fit</option>
           </select>
         </div>
-        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
-          <label htmlFor="re-overshoot-pop">A chip&apos;s last turning-point cut: its overshoot read from the run&apos;s other turning-point cuts</label>
-          <select id="re-overshoot-pop" name="overshootPopulation" className={select} defaultValue="">
-            <option value="">From the run, cut at 0, with its uncertainty (default)</option>
-            <option value="truncated">From the run, cut at 0, at its best fit</option>
-            <option value="uniform">Not from the run: anywhere up to the overshoot below</option>
-          </select>
-        </div>
         <ReferenceDefaultSelect id="re-level-start" name="levelStartTransient" label="On a run cut only on level: the rate's start-up as the shutter opens, found with the lamp drift in each chip's joint fit" />
         <ReferenceDefaultSelect id="re-level-clock" name="sequentialLevelClock" label="Layer by layer, where that start-up is found: each level cut fitted on its clock (else on real time, the chip's lamp drift held as found with it)" />
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
@@ -176,6 +168,14 @@ export function ReanalyseForm({ runId }: { runId: number }) {
             <option value="both">In both modes (default)</option>
             <option value="refit">In the joint re-fit only</option>
             <option value="off">Not held (the fit&apos;s own reading)</option>
+          </select>
+        </div>
+        <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">
+          <label htmlFor="re-overshoot-pop">That last cut&apos;s overshoot, as the run&apos;s other turning-point cuts show it</label>
+          <select id="re-overshoot-pop" name="overshootPopulation" className={select} defaultValue="">
+            <option value="">From the run (default)</option>
+            <option value="truncated">From the run, at its best fit only</option>
+            <option value="uniform">Not from the run: uniform up to the overshoot</option>
           </select>
         </div>
         <div className="flex flex-col gap-1 text-xs text-ink-soft sm:col-span-2">

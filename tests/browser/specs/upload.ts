@@ -131,6 +131,7 @@ test('an admin (as an engineer may) queues a re-analysis with other settings; it
   await form.getByLabel('a layer cut on level keeps its chip', { exact: false }).uncheck();
   await form.getByLabel('how far past a turning point the controller may cut', { exact: false }).fill('0.5');
   await form.getByLabel('A periodic disturbance through the run', { exact: false }).selectOption('name');
+  await form.getByLabel("as the run's other turning-point cuts show it", { exact: false }).selectOption('uniform');
   // the detector's linearity takes both figures or neither: one alone is refused before anything is queued
   await form.getByLabel('it reads this many % low', { exact: false }).fill('0.5');
   await form.getByRole('button', { name: 'Queue the analysis' }).click();
@@ -142,7 +143,7 @@ test('an admin (as an engineer may) queues a re-analysis with other settings; it
   await page.getByRole('status').filter({ hasText: /finished/ }).waitFor({ timeout: 90000 });
   const newest = history.first();
   const listed = (await newest.textContent()) ?? '';
-  assert(listed.includes('thin layers held at the nominal index') && listed.includes('no start-up at the shutter') && listed.includes('start-up on level cuts') && listed.includes('own gain on level-cut layers') && listed.includes('turning-point overshoot up to 0.5 %') && listed.includes('each level cut fitted alone') && listed.includes('a lamp ripple found through the run named, not divided out') && listed.includes('detector linearised: 0.5 % low at a reading of 1.94'), `the new analysis lists its settings: ${listed}`);
+  assert(listed.includes('thin layers held at the nominal index') && listed.includes('no start-up at the shutter') && listed.includes('start-up on level cuts') && listed.includes('own gain on level-cut layers') && listed.includes('turning-point overshoot up to 0.5 %') && listed.includes('each level cut fitted alone') && listed.includes('a lamp ripple found through the run named, not divided out') && listed.includes('detector linearised: 0.5 % low at a reading of 1.94') && listed.includes("last cuts' overshoot uniform, not from the run"), `the new analysis lists its settings: ${listed}`);
   // the status line and the list change together: the newest entry is no longer waiting
   // (textContent runs the badge into its neighbours: "#136analysedlayer by layer…")
   assert(listed.includes('analysed') && !listed.includes('waiting') && !listed.includes('analysing'), `the list caught up with the status line: ${listed}`);
