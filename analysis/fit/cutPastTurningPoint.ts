@@ -40,8 +40,10 @@ export function truncatedNormalMoments(mean: number, sigma: number, lo: number, 
  * or past the fitted layer's turning point d_TP, by no more than its overshoot (up to
  * overshootPct of the layer). The fit's own reading there (Gaussian, its σ) tells little of which
  * side: near a turning point the signal is quadratic in the thickness. Its posterior under the
- * uniform prior on [d_TP, d_TP·(1 + overshootPct/100)] (truncatedNormalMoments), the mean only:
- * d_TP itself carries the index's and the stack's errors, which the fit's σ holds.
+ * uniform prior on [d_TP, d_TP·(1 + overshootPct/100)] (truncatedNormalMoments), or the run's
+ * overshoot population where given, the mean here: d_TP itself carries the index's and the
+ * stack's errors, which the fit's σ holds; the caller narrows σ by what the prior told of the
+ * end relative to d_TP alone (endSigmaAfterPrior).
  */
 /**
  * Whether a reading of σ could show a cut later than the controller's overshoot allows (width

@@ -397,9 +397,11 @@ export interface AnalyzeOptions {
    * With a layer column: a chip's last layer cut at a turning point (nothing above pins its end)
    * stands at or past its fitted turning point d_TP at the last logged sample, by no more than
    * turningPointOvershootPct of the layer (a controller that cuts after it sees the turning point):
-   * its fitted thickness there (Gaussian, its σ) under that uniform prior, the posterior mean
-   * (fit/cutPastTurningPoint.ts), unless the reading lies more than 2σ outside that interval; σ
-   * unchanged, the growth after the cut added as before. Measured on the chamber simulator (whose
+   * its fitted thickness there (Gaussian, its σ) under that uniform prior (or the run's overshoot
+   * population, option overshootPopulation), the posterior mean (fit/cutPastTurningPoint.ts),
+   * unless the reading lies more than 2σ outside that interval; σ narrowed by what the prior told
+   * of the end relative to the turning point (endSigmaAfterPrior; unchanged before option
+   * overshootPopulation), the growth after the cut added as before. Measured on the chamber simulator (whose
    * controller cuts that way), the chips' last layers (mean, RMS, max; off → on; the other layers
    * unchanged). Refit: rate-wander mirror (overshoot 0.4 ± 0.3 %), seeds 15–30, −0.25 → −0.12 %,
    * 0.59 → 0.45 %, 1.35 → 1.50 %; real-chamber mirror 21–36 +0.06 → +0.06 %, 0.50 → 0.43 %, 1.27 →
