@@ -985,8 +985,10 @@ async function analyzeLayers(
         const rel = relativeReading(s, e, loggedNm);
         // beta held within [0, 1]: the end moved no further than the relative reading (beta read
         // 1.2–1.3 on the spikes mirror; held, its chips' last layers RMS 0.402 → 0.373 %, seeds 15–30).
-        if (rel) seen = { sigmaNm: rel.sigmaNm, beta: Math.min(Math.max(rel.beta, 0), 1) };
-        if (rel) shiftNm = relativeCutShiftNm(loggedNm, tpNm, seen.sigmaNm, seen.beta, o.turningPointOvershootPct, run);
+        if (rel) {
+          seen = { sigmaNm: rel.sigmaNm, beta: Math.min(Math.max(rel.beta, 0), 1) };
+          shiftNm = relativeCutShiftNm(loggedNm, tpNm, seen.sigmaNm, seen.beta, o.turningPointOvershootPct, run);
+        }
       }
       // Only where that σ could show a cut later than the overshoot allows (overshootSeen).
       const hiNm = (tpNm * maxPct) / 100;

@@ -133,8 +133,8 @@ export function relativeCut(own: { dd: number; nn: number; dn: number }, dTpDn: 
  * σ of the end once the prior has moved it: with the end's error e = β·e_x + r (e_x the relative
  * reading's error, σ `relSigmaNm`; r apart from it, the rest of the whole σ), the posterior of x
  * (σ `postSigmaNm`) takes the place of the reading, so var(e) falls by β²·(σ_x² − σ_post²); never
- * below the posterior's own share, (β·σ_post)² (the conditional variance, as for jointly normal
- * errors).
+ * below the posterior's own share, (β·σ_post)² (the conditional variance of jointly normal errors
+ * and the law of total variance, as in any multivariate-normal text; from memory).
  */
 export function endSigmaAfterPrior(wholeSigmaNm: number, relSigmaNm: number, beta: number, postSigmaNm: number): number {
   const told = beta * beta * Math.max(0, relSigmaNm * relSigmaNm - postSigmaNm * postSigmaNm);
