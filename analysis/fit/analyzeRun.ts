@@ -42,6 +42,8 @@ import { indexSeparation, type HeldIndexShift } from './thinLayer';
 import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } from './indexGradient';
 import { binMeans } from './subsample';
 import { lawRate, lawThickness, lawTimeToThickness, type RateWander } from './rateWander';
+import { assertLayersSeen } from './layersSeen';
+import { timeUnitWarning } from './timeUnits';
 import { cutPastTurningPointNm, endSigmaAfterPrior, overshootPosterior, overshootSeen, relativeCut, relativeCutShiftNm, type RunOvershoot } from './cutPastTurningPoint';
 import { populationMixture, truncatedPopulation } from './shutterTime';
 import { turningPointNearNm } from './cutTiming';
@@ -417,6 +419,9 @@ async function analyzeLayers(
   const ends = byDesign ? null : new LayerEnds(trace, samplesByLayer, warnings, idleModel, o.shutterTimeGrowth, o.levelGrowthFromNext, o.shutterTimePopulation);
   const chipLayers = new Map<number, LayerState[]>();
   const chipStarts = calibrateChips(design, trace, order, samplesByLayer, warnings, o.fitOffset, o.offsetAdoptionSigma, o.offsetAveraging, o.unmeasuredOffsetSigma);
+  // A layer the monitor did not see grow (no light, the wrong channel) fails the run, named, rather
+  // than take a thickness read from a flat line (fit/layersSeen.ts).
+  assertLayersSeen(design, trace, order, samplesByLayer, chipStarts);
   const calibrations = new Map([...chipStarts].map(([chip, c]) => [chip, c.calibration]));
   // A gain drift seen across the chips' bare-chip calibrations (at 3σ: with three chips the
   // slope's scatter has one degree of freedom) is applied within every chip.
@@ -1133,6 +1138,9 @@ async function analyzeLayers(
     const note = lampDriftNote(shares, driftHeld.perS * 3600, driftHeld.sigmaPerS * 3600);
     if (note) warnings.push(note);
   }
+  // Rates far outside any coating process: the times were likely logged in another unit (fit/timeUnits.ts).
+  const units = timeUnitWarning(layers.map((l) => l.rateNmPerS));
+  if (units) warnings.unshift(units);
   const summary = runSummary(design, o.mode, seg.inferred, layers, [...calibrations.values()], warnings, o.spectrum, ownIndex);
   const result = model ? { ...summary, model } : summary;
   if (ripple) ripples.set(trace, ripple);

@@ -1,0 +1,108 @@
+import { type Design, type DesignLayer } from '../design';
+import { indexAt } from '../materials';
+import { growingLayerSignal } from '../optics';
+import { type TraceData } from '../trace';
+import { AnalysisInputError } from './AnalysisInputError';
+import { type ChipStart } from './chipCalibrations';
+import { type LayerSamples } from './layerSamples';
+
+/** The design's swing must stand this many noise σ above the noise for a flat reading to mean anything. */
+const EXPECTED_SWING_SIGMAS = 20;
+/**
+ * A layer's readings count as flat when their 2–98 % range is within this many noise σ: pure
+ * normal noise spans about 4.1σ there (the normal's 98 % point is 2.05σ, from memory), and
+ * correlated noise or a drift only widens it, so a flat verdict errs towards "seen".
+ */
+const FLAT_RANGE_SIGMAS = 6;
+
+export interface UnseenLayers {
+  /** Design layers at fault. */
+  layers: number[];
+  why: string;
+  /** The chip at fault, where the fault is the chip's (its layers all share it). */
+  chip?: number;
+}
+
+/**
+ * The layers whose growth the monitor did not see: a chip whose readings carry no light above
+ * its offset (a gain ≤ 0: no lamp, the wrong channel, an inverted sign), or a layer the design
+ * expects to move the reading by many times the noise whose readings stayed within the noise
+ * (no light on the detector, a monitor shutter left closed, nothing deposited). Fitting such a
+ * layer returns a thickness read from nothing, with σ from the model's shape rather than the data.
+ */
+export function unseenLayers(
+  design: Design, trace: TraceData, order: readonly DesignLayer[], samplesByLayer: ReadonlyMap<number, LayerSamples>, chips: ReadonlyMap<number, ChipStart>,
+): UnseenLayers[] {
+  const out: UnseenLayers[] = [];
+  const dark = new Map<number, UnseenLayers>();
+  for (const dl of order) {
+    const s = samplesByLayer.get(dl.layer);
+    const start = s && chips.get(s.chip);
+    if (!s || !start) continue;
+    const { gain, offset, noiseSigma, source, bareLevel } = start.calibration;
+    if (!(gain > 0) || !Number.isFinite(gain)) {
+      const seen = dark.get(s.chip);
+      if (seen) {
+        seen.layers.push(dl.layer);
+        continue;
+      }
+      const from = source === 'bare-chip' ? `the bare chip's reading ${fmt(bareLevel ?? NaN)}` : `layer ${dl.layer}'s first readings`;
+      const fault: UnseenLayers = { layers: [dl.layer], why: '', chip: s.chip };
+      fault.why = `its readings carry no light above the offset (gain ${fmt(gain)} from ${from}, offset ${fmt(offset)}): no light reached the detector, the wrong channel was logged, or its sign is inverted`;
+      dark.set(s.chip, fault);
+      out.push(fault);
+      continue;
+    }
+    const expected = gain * modelledSwing(design, dl);
+    const observed = spread(trace.signal, s.indices);
+    if (!(expected >= EXPECTED_SWING_SIGMAS * noiseSigma) || observed > FLAT_RANGE_SIGMAS * noiseSigma) continue;
+    const moved = observed > 0
+      ? `its readings stayed within the noise while it grew (2–98 % range ${fmt(observed)}, ${fmt(observed / noiseSigma)}× the noise σ ${fmt(noiseSigma)})`
+      : 'its readings did not change at all while it grew';
+    out.push({ layers: [dl.layer], why: `${moved}, where the design expects a swing of ${fmt(expected)}: no light on the detector, or nothing was deposited` });
+  }
+  return out;
+}
+
+/** Throws, naming every layer unseenLayers finds. */
+export function assertLayersSeen(...args: Parameters<typeof unseenLayers>): void {
+  const faults = unseenLayers(...args);
+  if (faults.length === 0) return;
+  const design = args[0];
+  const layers = faults.flatMap((f) => f.layers);
+  const name = (l: number) => `layer ${l} (${design.layers[l - 1].material})`;
+  const label = (f: UnseenLayers) => (f.chip !== undefined ? `chip ${f.chip} (layer${f.layers.length > 1 ? 's' : ''} ${f.layers.join(', ')})` : name(f.layers[0]));
+  const shown = faults.slice(0, 10).map((f) => `${label(f)}: ${f.why}`);
+  const more = faults.length > 10 ? `; and ${faults.length - 10} more` : '';
+  throw new AnalysisInputError(
+    'layer_not_seen', layers,
+    `the monitor did not see ${layers.length} of the design's ${design.layers.length} layers grow: ${shown.join('; ')}${more}`,
+  );
+}
+
+/** Range of the modelled monitor signal over the layer's design growth, on its chip's design stack. */
+function modelledSwing(design: Design, dl: DesignLayer): number {
+  const wl = dl.monitor.wavelengthNm;
+  const below = design.layers.filter((l) => l.monitor.chip === dl.monitor.chip && l.layer < dl.layer);
+  const d = Float64Array.from({ length: 97 }, (_, i) => (dl.thicknessNm * i) / 96);
+  const m = growingLayerSignal({
+    ambient: indexAt(design.ambient, wl), substrate: indexAt(design.substrate, wl), growing: indexAt(design.materials[dl.material], wl),
+    below: below.map((l) => ({ n: indexAt(design.materials[l.material], wl), thicknessNm: l.thicknessNm })),
+    wavelengthNm: wl, mode: dl.monitor.mode, backside: design.substrateBackside, pol: 's',
+  }, d);
+  let lo = Infinity, hi = -Infinity;
+  for (const v of m) {
+    lo = Math.min(lo, v);
+    hi = Math.max(hi, v);
+  }
+  return hi - lo;
+}
+
+/** The 2–98 % range of the readings at these indices (a few spikes left out). */
+function spread(signal: ArrayLike<number>, indices: Int32Array): number {
+  const v = Float64Array.from(indices, (i) => signal[i]).sort();
+  const at = (p: number) => v[Math.min(v.length - 1, Math.max(0, Math.round(p * (v.length - 1))))];
+  return at(0.98) - at(0.02);
+}
+
+const fmt = (x: number) => (Number.isFinite(x) ? Number(x.toPrecision(3)).toString() : String(x));
