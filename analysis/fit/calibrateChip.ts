@@ -66,6 +66,18 @@ export interface CalibrationInput {
 
 /** A level counts as dark below this fraction of the bare chip's reading. */
 const DARK_FRACTION = 0.3;
+/**
+ * Below this fraction of the bare chip's reading (and not dark), a steady level before a run's
+ * first chip is reported (lowLevelNotDark): a lamp warming up or a holder moving in stays above
+ * it; a detector whose offset is a large part of its reading puts its dark reading there.
+ */
+const UNREAD_DARK_FRACTION = 0.7;
+
+/** What calibrateChip read, and a steady low level before a first chip it did not take as dark. */
+export type ChipCalibrationReading = ChipCalibration & {
+  /** Mean of that level (detector units), where one was seen; calibrateChips warns and drops it. */
+  lowLevelNotDark?: number;
+};
 
 /**
  * Gain and offset of the detector for one chip from the idle stretch before its first layer,
@@ -74,7 +86,7 @@ const DARK_FRACTION = 0.3;
  * exchanged (darkLevels); anything else (the previous chip's last level, the end of its last
  * layer, the dip's sides) is not this chip's and is left out.
  */
-export function calibrateChip(input: CalibrationInput): ChipCalibration {
+export function calibrateChip(input: CalibrationInput): ChipCalibrationReading {
   const idle = Float64Array.from(input.idleSignal);
   const { chip, modelledBare } = input;
   const fallbackOffset = input.knownOffset ?? 0;
@@ -100,7 +112,12 @@ export function calibrateChip(input: CalibrationInput): ChipCalibration {
       // σ of the short dark mean and of the bare mean from the bare stretch's noise (correlated
       // noise does not average away over a dip shorter than its correlation time).
       const noise = bareNoise(bareSignal, input.sampleS);
+      // A run's first chip (no chip before it) with no dark level: a steady level far below the bare
+      // chip may still be the dark reading of a detector with a large offset; said, not taken.
+      const low = dark.length || input.previousChipLevel !== undefined || input.knownOffset !== undefined ? null
+        : lowestSteadyLevel(levels.slice(0, first), bareLevel, 20 * s);
       return {
+        ...(low ? { lowLevelNotDark: low.mean } : {}),
         chip, gain: (bareLevel - offset) / modelledBare, offset, offsetSource: dark.length ? 'dark' : offsetSource,
         offsetSigma: dark.length ? whiteAr1MeanSigma(bareSignal, noise, darkCount, input.sampleS) : 0,
         gainSigma: medianSigma(bareSignal, noise, s, input.sampleS) / modelledBare, source: 'bare-chip',
@@ -194,6 +211,16 @@ function bareLevelIndex(levels: readonly Level[]): number {
   let longest = 0;
   levels.forEach((l, i) => { if (l.end - l.start > levels[longest].end - levels[longest].start) longest = i; });
   return longest;
+}
+
+/** The lowest level of at least 10 samples between DARK_FRACTION and UNREAD_DARK_FRACTION of the bare reading, `gap` below it. */
+function lowestSteadyLevel(levels: readonly Level[], bare: number, gap: number): Level | null {
+  let low: Level | null = null;
+  for (const l of levels) {
+    if (l.end - l.start < 10 || l.mean >= UNREAD_DARK_FRACTION * bare || l.mean < DARK_FRACTION * bare || bare - l.mean < gap) continue;
+    if (!low || l.mean < low.mean) low = l;
+  }
+  return low;
 }
 
 /**

@@ -62,11 +62,16 @@ export function calibrateChips(
       ? prevCal.gain * chipSignal(design, before, design.layers.filter((l) => l.monitor.chip === before.monitor.chip && l.layer <= before.layer)) + prevCal.offset
       : undefined;
     const firstCount = Math.min(samples.indices.length, 20);
-    const calibration = calibrateChip({
+    const { lowLevelNotDark, ...calibration } = calibrateChip({
       chip: samples.chip, modelledBare, knownOffset: lastOffset, previousChipLevel, sampleS,
       idleSignal: trace.signal.subarray(idleFrom, first),
       firstLayerSignal: Float64Array.from({ length: firstCount }, (_, i) => trace.signal[samples.indices[i]]),
     });
+    if (lowLevelNotDark !== undefined && calibration.bareLevel !== null) {
+      const pct = Math.round((100 * lowLevelNotDark) / calibration.bareLevel);
+      warnings.push(`chip ${samples.chip}: a steady reading of ${lowLevelNotDark.toPrecision(4)} before its bare chip's ${calibration.bareLevel.toPrecision(4)} (${pct} % of it) was not taken as the dark reading, which lies under 30 % of the bare chip's: `
+        + `if the beam was blocked then, the detector's offset is ${lowLevelNotDark.toPrecision(4)}, not the ${Number(calibration.offset.toPrecision(3))} taken, and this chip's figures are off`);
+    }
     if (calibration.source === 'first-layer') warnings.push(`chip ${samples.chip}: no bare-chip stretch before layer ${dl.layer}; gain taken from the layer's first samples`);
     lastOffset = calibration.offset;
     chips.set(samples.chip, { calibration, startS: samples.startTimeS, wavelengthNm: dl.monitor.wavelengthNm, mode: dl.monitor.mode, modelledBare });
