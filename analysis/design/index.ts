@@ -11,3 +11,4 @@ export * from './cutPlan';
 export * from './singleLayerRule';
 export * from './layerDiff';
 export * from './embedMaterials';
+export * from './spectrumRange';

@@ -1,4 +1,4 @@
-import { type Design, designSpectrum, spectrumOfStack } from '../design';
+import { type Design, designSpectrum, spectrumOfStack, spectrumRange } from '../design';
 import { indexDrift } from '../stats';
 import { type ChipCalibration } from './calibrateChip';
 import { type AnalysisMode, type AnalysisResult, type LayerResult, type ToolingCheck } from './types';
@@ -41,9 +41,15 @@ export function runSummary(
     const l = byLayer.get(dl.layer);
     return l ? { thicknessNm: l.thicknessNm, indexScale: l.index / l.nominalIndex } : { thicknessNm: dl.thicknessNm };
   });
-  const designSpec = designSpectrum(design, range);
-  const builtSpec = spectrumOfStack(design, asBuilt, range);
+  // Over the wavelengths where every material has an index (a measured table may cover the
+  // monitor's wavelengths only): the spectrum is a by-product, never a reason to fail the run.
+  const shown = spectrumRange(design, range);
+  const empty = new Float64Array(0);
+  const designSpec = shown ? designSpectrum(design, shown) : { wavelengthNm: empty, R: empty, T: empty };
+  const builtSpec = shown ? spectrumOfStack(design, asBuilt, shown) : { wavelengthNm: empty, R: empty, T: empty };
   const runWarnings = [...warnings];
+  if (!shown) runWarnings.push(`no spectrum: no wavelength of ${range.fromNm}–${range.toNm} nm has an index for every material of the design`);
+  else if (shown.limitedBy) runWarnings.push(`spectrum shown over ${shown.fromNm}–${shown.toNm} nm only (${shown.limitedBy})`);
   for (const l of layers) for (const w of l.warnings) if (!w.startsWith('index held')) runWarnings.push(`layer ${l.layer}: ${w}`);
   return {
     format: 'fringelog.analysis/1', mode, design: design.name, segmentsInferred, layers, chips, indexDrift: drift, tooling,

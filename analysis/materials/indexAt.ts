@@ -36,8 +36,9 @@ export function indexAt(model: MaterialModel, wavelengthNm: number): Complex {
       const l2 = um * um;
       let n2 = 1;
       for (let i = 0; i < model.B.length; i++) n2 += (model.B[i] * l2) / (l2 - model.C[i] * model.C[i]);
-      if (!(n2 > 0)) {
-        throw new RangeError(`Sellmeier model gives n² = ${n2} at ${wavelengthNm} nm (too close to a resonance)`);
+      // (at the resonance itself the sum is infinite: no index there either)
+      if (!(n2 > 0) || !Number.isFinite(n2)) {
+        throw new RangeError(`Sellmeier model gives n² = ${Number(n2.toPrecision(4))} at ${wavelengthNm} nm (too close to a resonance)`);
       }
       return fromNK(Math.sqrt(n2), 0);
     }
