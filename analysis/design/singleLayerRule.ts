@@ -1,6 +1,7 @@
 import { designSpectrum } from './designSpectrum';
 import { namedIndexAt } from './designStackAt';
 import { type Design } from './parseDesign';
+import { spectrumRange } from './spectrumRange';
 
 /** Where the formulas come from, shown beside the numbers. */
 export const SINGLE_LAYER_RULE_SOURCE =
@@ -74,7 +75,10 @@ export function singleLayerRule(design: Design, band = defaultBand(design.refere
   const front: Design = { ...design, substrateBackside: false };
   const atRef = designSpectrum(front, { fromNm: wl, toNm: wl, stepNm: 1 }).R[0];
   const step = Math.max(1, (band.toNm - band.fromNm) / 400);
-  const R = designSpectrum(front, { fromNm: band.fromNm, toNm: band.toNm, stepNm: step }).R;
+  // The band narrowed to where every material has an index (a measured table may cover less);
+  // where no wavelength of it has, the reference wavelength alone (its own error if it fails too).
+  const shown = spectrumRange(front, { ...band, stepNm: step }) ?? { fromNm: wl, toNm: wl, stepNm: 1 };
+  const R = designSpectrum(front, shown).R;
   let sum = 0;
   let max = 0;
   for (const r of R) {
@@ -89,6 +93,6 @@ export function singleLayerRule(design: Design, band = defaultBand(design.refere
     lowMaterial,
     lowIndex,
     designRAtRef: atRef,
-    band: { ...band, meanR: sum / R.length, maxR: max },
+    band: { fromNm: shown.fromNm, toNm: shown.toNm, meanR: sum / R.length, maxR: max },
   };
 }

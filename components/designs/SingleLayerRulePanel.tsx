@@ -1,7 +1,13 @@
-import { SINGLE_LAYER_RULE_SOURCE, type SingleLayerRule } from '@/analysis/design';
+import { defaultBand, SINGLE_LAYER_RULE_SOURCE, type SingleLayerRule } from '@/analysis/design';
 import { fixed } from '@/components/runs/format';
 
 const pct = (v: number) => `${fixed(100 * v, 2)} %`;
+
+/** The band is narrower than the default one: a material's table or model covers less of it. */
+const narrowed = (rule: SingleLayerRule) => {
+  const band = defaultBand(rule.wavelengthNm);
+  return rule.band.fromNm > band.fromNm || rule.band.toNm < band.toNm;
+};
 
 /** The single quarter-wave AR rule with the design's own numbers, beside what the design reaches. */
 export function SingleLayerRulePanel({ rule }: { rule: SingleLayerRule }) {
@@ -67,7 +73,7 @@ export function SingleLayerRulePanel({ rule }: { rule: SingleLayerRule }) {
         </dl>
         <p className="mt-3 text-xs text-ink-faint">
           Front face only, normal incidence, like the rule. The band is 0.8 to 1.25 times the reference wavelength (common practice for an AR
-          about its centre).
+          about its centre){narrowed(rule) ? ', narrowed to where every material of the design has an index' : ''}.
         </p>
       </div>
       <p className="text-xs text-ink-soft md:col-span-2">Formulas: {SINGLE_LAYER_RULE_SOURCE}</p>

@@ -2,7 +2,7 @@
 
 import { useMemo, useState } from 'react';
 import type uPlot from 'uplot';
-import { designSpectrum, parseDesign, type Design } from '@/analysis/design';
+import { designSpectrum, parseDesign, spectrumRange, type Design } from '@/analysis/design';
 import { Plot, axis, plotPalette } from '@/components/plot';
 
 export type SpectrumSource = { label: string; document: unknown };
@@ -41,11 +41,19 @@ export function SpectrumPlot({ sources, referenceWavelengthNm }: { sources: Spec
     if (!(angleDeg >= 0 && angleDeg < 90)) return { error: 'The angle must be at least 0° and below 90°.' };
     const stepNm = Math.max((toNm - fromNm) / 600, 0.05);
     try {
+      // Only where every material of each design has an index (a measured table may cover less).
+      const ranges = designs.map(({ label, design }) => ({ label, range: spectrumRange(design, { fromNm, toNm, stepNm }) }));
+      const none = ranges.find((r) => !r.range);
+      if (none) return { error: `No wavelength of ${fromNm}–${toNm} nm has an index for every material of ${none.label}.` };
+      const from = Math.max(...ranges.map((r) => r.range!.fromNm)), to = Math.min(...ranges.map((r) => r.range!.toNm));
+      if (!(to > from)) return { error: `The designs' materials have no wavelengths of ${fromNm}–${toNm} nm in common.` };
+      const cut = ranges.find((r) => r.range!.limitedBy);
+      const note = cut ? `Shown over ${Number(from.toFixed(1))}–${Number(to.toFixed(1))} nm only: ${cut.range!.limitedBy}${ranges.length > 1 ? ` (${cut.label})` : ''}.` : null;
       const spectra = designs.map(({ label, design }) => {
         const d = s.backside === 'design' ? design : { ...design, substrateBackside: s.backside === 'with' };
-        return { label, ...designSpectrum(d, { fromNm, toNm, stepNm, angleDeg, pol: s.pol }) };
+        return { label, ...designSpectrum(d, { fromNm: from, toNm: to, stepNm, angleDeg, pol: s.pol }) };
       });
-      return { spectra };
+      return { spectra, note };
     } catch (e) {
       return { error: (e as Error).message };
     }
@@ -120,7 +128,10 @@ export function SpectrumPlot({ sources, referenceWavelengthNm }: { sources: Spec
           {result.error}
         </p>
       ) : options && data ? (
-        <Plot options={options} data={data} label={`Reflectance and transmittance of ${sources.map((x) => x.label).join(' and ')}`} heightPx={300} />
+        <>
+          {'note' in result && result.note ? <p className="text-sm text-ink-soft" data-testid="spectrum-note">{result.note}</p> : null}
+          <Plot options={options} data={data} label={`Reflectance and transmittance of ${sources.map((x) => x.label).join(' and ')}`} heightPx={300} />
+        </>
       ) : null}
       <p className="text-xs text-ink-faint">R solid, T dashed; R on the left axis, T on the right. Computed by the characteristic-matrix method in your browser.</p>
     </div>

@@ -42,6 +42,17 @@ describe('the single quarter-wave AR layer', () => {
     expect(rule!.band.maxR).toBeLessThan(rule!.bareR);
   });
 
+  it("summarises the band only where every material has an index (a table measured over 500–700 nm)", () => {
+    const d = parseDesign({
+      format: 'fringelog.design/1', name: 'narrow table', referenceWavelengthNm: 550, substrate: { model: 'constant', n: 1.52 }, substrateBackside: true,
+      materials: { L: { model: 'table', points: [[500, 1.38, 0], [700, 1.38, 0]] } }, layers: [{ material: 'L', qwot: 1, monitor }],
+    });
+    const rule = singleLayerRule(d)!;
+    // 0.8·550 = 440 nm lies outside the table: the band starts where it does
+    expect(rule.band).toMatchObject({ fromNm: 500, toNm: 688 });
+    expect(rule.designRAtRef).toBeCloseTo(rule.residualR, 10);
+  });
+
   it('picks the lowest-index material of a multilayer, and has nothing to say without layers', () => {
     const rule = singleLayerRule(mgf2OnGlass([{ material: 'H', qwot: 1, monitor }, { material: 'L', qwot: 1, monitor }]));
     expect(rule!.lowMaterial).toBe('L');

@@ -92,6 +92,33 @@ test('an engineer imports and exports a design; a fault names its key', async (p
   assertEqual([exported.name, exported.layers.length], [name, 2], 'exported name and layers');
 });
 
+test('a design whose material table covers part of the range draws its spectrum where it can, and says so', async (page) => {
+  await signInEngineer(page);
+  await page.goto(`${baseUrl}/designs`);
+  const name = `Browser narrow table ${Date.now().toString(36)}`;
+  const doc = {
+    format: 'fringelog.design/1', name, referenceWavelengthNm: 550, substrate: 'crown-glass-1.52',
+    materials: { H: 'Ta2O5', L: { model: 'table', points: [[500, 1.462, 0], [600, 1.458, 0], [700, 1.455, 0]] } },
+    layers: [
+      { material: 'H', qwot: 1, monitor: { wavelengthNm: 550, mode: 'T', chip: 1, cut: 'turning-point' } },
+      { material: 'L', qwot: 1, monitor: { wavelengthNm: 550, mode: 'T', chip: 1, cut: 'turning-point' } },
+    ],
+  };
+  await new DesignsList(page).importFile('narrow.json', JSON.stringify(doc));
+  await page.waitForURL(/\/designs\/\d+\?revision=1$/);
+  const note = page.getByTestId('spectrum-note');
+  await note.waitFor();
+  const text = (await note.textContent()) ?? '';
+  // (the page's default range runs from 0.7·λref, 390 nm here, on a grid of 600 steps)
+  assert(/^Shown over 500(\.\d)?–699\.\d nm only: material "L": wavelength 390 nm is outside the material's valid range 500–700 nm\.$/.test(text), `spectrum note: ${text}`);
+  await page.getByTestId('spectrum').locator('canvas').first().waitFor();
+  assertEqual(await page.getByTestId('spectrum').getByRole('alert').count(), 0, 'no error in place of the plot');
+  // the single-layer rule's band (0.8–1.25 λref, 440–688 nm) narrowed the same way, not a failed page
+  const rule = (await page.getByTestId('single-layer-rule').textContent()) ?? '';
+  assert(rule.includes('Mean R, 500–688 nm') && rule.includes('narrowed to where every material of the design has an index'), `single-layer rule: ${rule}`);
+  await both(page, 'design-spectrum-narrow-table');
+});
+
 test('an operator reads designs and materials but is refused editing', async (page) => {
   await signInAs(page, 'operator');
   await page.goto(`${baseUrl}/designs`);
