@@ -43,6 +43,7 @@ import { GRADIENT_MIN_QWOT, judgeGradient, reviewGradient, type GradientTrial } 
 import { binMeans } from './subsample';
 import { lawRate, lawThickness, lawTimeToThickness, type RateWander } from './rateWander';
 import { assertLayersSeen } from './layersSeen';
+import { chipColumnWarnings } from './chipColumnCheck';
 import { timeUnitWarning } from './timeUnits';
 import { cutPastTurningPointNm, endSigmaAfterPrior, overshootPosterior, overshootSeen, relativeCut, relativeCutShiftNm, type RunOvershoot } from './cutPastTurningPoint';
 import { populationMixture, truncatedPopulation } from './shutterTime';
@@ -406,6 +407,7 @@ async function analyzeLayers(
 
   const mismatch = monitorWavelengthMismatch(trace.meta, order);
   if (mismatch) warnings.push(mismatch);
+  warnings.push(...chipColumnWarnings(design, trace, samplesByLayer));
 
   // Spectra depend on each layer's samples only: with spectrumOf, all are asked for now.
   // …with the bin means the fits will take: the pass's three sizes and the final joint fit's.

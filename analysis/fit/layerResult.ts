@@ -22,6 +22,9 @@ function maxWanderFraction(w: RateWander, e: { rateNmPerS: number; rateDriftNmPe
   return m;
 }
 
+/** A fitted thickness beyond this many times the design's is not taken as a film (layerResult). */
+const FAR_BEYOND_DESIGN = 10;
+
 interface ResultOptions {
   residualWarnFactor: number;
   cutErrorWarnPct: number;
@@ -57,7 +60,10 @@ export function layerResult(
   const cutErrorQwotPct = ((e.opticalThicknessNm - nominal.re * dl.thicknessNm) / quarter) * 100;
   const cutErrorSigmaQwotPct = (e.opticalThicknessSigmaNm / quarter) * 100;
   const targetNm = (nominal.re * dl.thicknessNm) / e.index;
-  const tps = modelTurningPoints(optics, below, e.index, k, 1.3 * Math.max(e.thicknessNm, targetNm));
+  // A thickness far beyond the design's is no film the model describes (a chip column left at
+  // the old chip put a layer on the wrong stack: 5.8·10¹¹ nm, whose turning points no grid holds).
+  const farBeyond = !(e.thicknessNm <= FAR_BEYOND_DESIGN * Math.max(targetNm, dl.thicknessNm));
+  const tps = farBeyond ? [] : modelTurningPoints(optics, below, e.index, k, 1.3 * Math.max(e.thicknessNm, targetNm));
   const toTime = (thicknessNm: number) => {
     const tau = wander ? lawTimeToThickness(e, wander, thicknessNm, s.fit.durationS) : timeToThickness(thicknessNm, e.rateNmPerS, e.rateDriftNmPerS2);
     // the fit's τ is the exposure time under a start transient (fit/startTransient.ts)
@@ -99,6 +105,9 @@ export function layerResult(
   if (s.heldNote) warnings.push(s.heldNote);
   if (Math.abs(e.index / nominal.re - 1) > INDEX_BOUND - 1e-4) {
     warnings.push(`the index ran to the fit's bound (±${INDEX_BOUND * 100} % of nominal): the fit cannot be trusted (wrong design, stack below, or segmentation?)`);
+  }
+  if (farBeyond) {
+    warnings.push(`the fitted thickness (${e.thicknessNm.toPrecision(3)} nm) is more than ${FAR_BEYOND_DESIGN}× the design's: the model does not describe this layer (wrong design, chip column, stack below, or segmentation?)`);
   }
   if (!(e.thicknessNm > 0)) {
     warnings.push('the fitted thickness is not physical (≤ 0 nm): the model does not describe this layer (wrong design, stack below, or segmentation?)');
