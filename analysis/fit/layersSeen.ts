@@ -35,6 +35,8 @@ export function unseenLayers(
 ): UnseenLayers[] {
   const out: UnseenLayers[] = [];
   const dark = new Map<number, UnseenLayers>();
+  // Layers whose readings did not change at all (a constant logged in place of the signal): one entry.
+  let still: (UnseenLayers & { swings: number[] }) | null = null;
   for (const dl of order) {
     const s = samplesByLayer.get(dl.layer);
     const start = s && chips.get(s.chip);
@@ -56,12 +58,24 @@ export function unseenLayers(
     const expected = gain * modelledSwing(design, dl);
     const observed = spread(trace.signal, s.indices);
     if (!(expected >= EXPECTED_SWING_SIGMAS * noiseSigma) || observed > FLAT_RANGE_SIGMAS * noiseSigma) continue;
-    const moved = observed > 0
-      ? `its readings stayed within the noise while it grew (2–98 % range ${fmt(observed)}, ${fmt(observed / noiseSigma)}× the noise σ ${fmt(noiseSigma)})`
-      : 'its readings did not change at all while it grew';
-    out.push({ layers: [dl.layer], why: `${moved}, where the design expects a swing of ${fmt(expected)}: no light on the detector, or nothing was deposited` });
+    if (observed > 0) {
+      const moved = `its readings stayed within the noise while it grew (2–98 % range ${fmt(observed)}, ${fmt(observed / noiseSigma)}× the noise σ ${fmt(noiseSigma)})`;
+      out.push({ layers: [dl.layer], why: `${moved}, where the design expects a swing of ${fmt(expected)}: no light on the detector, or nothing was deposited` });
+      continue;
+    }
+    if (!still) {
+      still = { layers: [], why: '', swings: [] };
+      out.push(still);
+    }
+    still.layers.push(dl.layer);
+    still.swings.push(expected);
   }
-  return out;
+  if (still) {
+    const [lo, hi] = [Math.min(...still.swings), Math.max(...still.swings)];
+    const one = still.layers.length === 1;
+    still.why = `${one ? 'its readings' : 'their readings'} did not change at all while ${one ? 'it' : 'they'} grew, where the design expects ${one ? `a swing of ${fmt(lo)}` : `swings of ${fmt(lo)}–${fmt(hi)}`}: no light on the detector, or nothing was deposited`;
+  }
+  return out.map(({ layers, why, chip }) => (chip === undefined ? { layers, why } : { layers, why, chip }));
 }
 
 /** Throws, naming every layer unseenLayers finds. */
@@ -70,8 +84,8 @@ export function assertLayersSeen(...args: Parameters<typeof unseenLayers>): void
   if (faults.length === 0) return;
   const design = args[0];
   const layers = faults.flatMap((f) => f.layers);
-  const name = (l: number) => `layer ${l} (${design.layers[l - 1].material})`;
-  const label = (f: UnseenLayers) => (f.chip !== undefined ? `chip ${f.chip} (layer${f.layers.length > 1 ? 's' : ''} ${f.layers.join(', ')})` : name(f.layers[0]));
+  const name = (ls: number[]) => `layer${ls.length > 1 ? 's' : ''} ${ls.join(', ')} (${ls.map((l) => design.layers[l - 1].material).join(', ')})`;
+  const label = (f: UnseenLayers) => (f.chip !== undefined ? `chip ${f.chip} (layer${f.layers.length > 1 ? 's' : ''} ${f.layers.join(', ')})` : name(f.layers));
   const shown = faults.slice(0, 10).map((f) => `${label(f)}: ${f.why}`);
   const more = faults.length > 10 ? `; and ${faults.length - 10} more` : '';
   throw new AnalysisInputError(

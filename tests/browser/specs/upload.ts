@@ -64,6 +64,32 @@ test('an operator uploads a trace: fields from its header, progress, the analyse
   await shot(page, 'upload-run');
 });
 
+test('a trace whose monitor saw nothing is stored, and its analyses fail naming the layers and the cause', async (page) => {
+  await signInAs(page, 'operator');
+  await page.goto(`${baseUrl}/runs/upload`);
+  const runCode = `B2-F${Date.now().toString(36).toUpperCase()}`;
+  // every reading 0.500000: a valid file from a monitor whose light never reached the detector
+  const file = copyOf('bay2-bb4-run0587.csv', runCode, (lines) => {
+    lines.forEach((l, i) => {
+      if (/^\d/.test(l)) lines[i] = l.replace(/^([^,]+),[^,]+/, '$1,0.500000');
+    });
+  });
+  const name = path.basename(file);
+  const desk = new UploadDeskPage(page);
+  await desk.choose(file);
+  await desk.field(name, 'Design').selectOption(BB4);
+  await desk.upload(name);
+  await page.locator(`[data-testid="upload-item"][data-file="${name}"][data-stage="stored"]`).waitFor({ timeout: 30000 });
+  await page.waitForFunction((n) => document.querySelectorAll(`[data-file="${n}"] [data-testid="analysis-watch"] li[data-state="failed"]`).length === 2, name, { timeout: 90000 });
+  await desk.item(name).getByTestId('open-run').click();
+  await page.getByRole('heading', { name: `Run ${runCode}` }).waitFor();
+  const error = (await page.getByTestId('analysis-error').textContent()) ?? '';
+  assert(error.startsWith("the monitor did not see 4 of the design's 4 layers grow: layers 1, 2, 3, 4 (H, L, H, L): their readings did not change at all while they grew"), `analysis error: ${error}`);
+  assert(error.includes('no light on the detector, or nothing was deposited'), 'the cause is named');
+  assertEqual(await page.getByTestId('layer-table').count(), 0, 'no layer table from a failed analysis');
+  await shot(page, 'upload-monitor-saw-nothing');
+});
+
 test('a malformed trace is refused with its line, and the phone layout holds', async (page) => {
   await page.setViewportSize({ width: 390, height: 844 });
   await signInAs(page, 'operator');
