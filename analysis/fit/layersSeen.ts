@@ -112,10 +112,16 @@ function modelledSwing(design: Design, dl: DesignLayer): number {
   return hi - lo;
 }
 
-/** The 2–98 % range of the readings at these indices (a few spikes left out). */
+/** Readings the 2–98 % range is read from, at most: evenly spaced through the layer (a 40-layer, 8·10⁵-sample run sorted whole took 0.1 s a pass). */
+const SPREAD_SAMPLES = 2048;
+
+/** The 2–98 % range of the readings at these indices (a few spikes left out), from at most SPREAD_SAMPLES of them. */
 function spread(signal: ArrayLike<number>, indices: Int32Array): number {
-  const v = Float64Array.from(indices, (i) => signal[i]).sort();
-  const at = (p: number) => v[Math.min(v.length - 1, Math.max(0, Math.round(p * (v.length - 1))))];
+  const n = Math.min(indices.length, SPREAD_SAMPLES);
+  const v = new Float64Array(n);
+  for (let k = 0; k < n; k++) v[k] = signal[indices[Math.floor((k * indices.length) / n)]];
+  v.sort();
+  const at = (p: number) => v[Math.min(n - 1, Math.max(0, Math.round(p * (n - 1))))];
   return at(0.98) - at(0.02);
 }
 
