@@ -198,7 +198,11 @@ export default async function RunPage({ params, searchParams }: { params: Promis
               <div className="mt-3 overflow-x-auto"><IndexDriftList drift={drift.map((d) => ({ ...d, material: labelOf(d.material) }))} /></div>
             </Panel>
             <Panel title="As-built spectrum against the design" className="min-w-0">
-              {spectrum?.wavelengthNm ? <SpectrumPlot spectrum={spectrum} /> : <p className="text-sm text-ink-soft">No spectrum stored.</p>}
+              {spectrum?.wavelengthNm?.length ? (
+                <SpectrumPlot spectrum={spectrum} />
+              ) : (
+                <p className="text-sm text-ink-soft">{spectrum?.wavelengthNm ? "No spectrum: the design's materials have no index over the run's range (see the run's warnings)." : 'No spectrum stored.'}</p>
+              )}
             </Panel>
             <Panel title="Chips and tooling" className="min-w-0">
               <ChipTable chips={chipRows(done) as ChipView[]} />
