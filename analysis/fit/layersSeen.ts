@@ -1,6 +1,4 @@
-import { type Design, type DesignLayer } from '../design';
-import { indexAt } from '../materials';
-import { growingLayerSignal } from '../optics';
+import { type Design, type DesignLayer, monitorCurve } from '../design';
 import { type TraceData } from '../trace';
 import { AnalysisInputError } from './AnalysisInputError';
 import { type ChipStart } from './chipCalibrations';
@@ -96,16 +94,9 @@ export function assertLayersSeen(...args: Parameters<typeof unseenLayers>): void
 
 /** Range of the modelled monitor signal over the layer's design growth, on its chip's design stack. */
 function modelledSwing(design: Design, dl: DesignLayer): number {
-  const wl = dl.monitor.wavelengthNm;
-  const below = design.layers.filter((l) => l.monitor.chip === dl.monitor.chip && l.layer < dl.layer);
   const d = Float64Array.from({ length: 97 }, (_, i) => (dl.thicknessNm * i) / 96);
-  const m = growingLayerSignal({
-    ambient: indexAt(design.ambient, wl), substrate: indexAt(design.substrate, wl), growing: indexAt(design.materials[dl.material], wl),
-    below: below.map((l) => ({ n: indexAt(design.materials[l.material], wl), thicknessNm: l.thicknessNm })),
-    wavelengthNm: wl, mode: dl.monitor.mode, backside: design.substrateBackside, pol: 's',
-  }, d);
   let lo = Infinity, hi = -Infinity;
-  for (const v of m) {
+  for (const v of monitorCurve(design, dl.layer, d, { pol: 's' })) {
     lo = Math.min(lo, v);
     hi = Math.max(hi, v);
   }
