@@ -35,6 +35,8 @@ async function rejection(csv: string): Promise<AnalysisInputError> {
   return err as AnalysisInputError;
 }
 
+// The thresholds (a 20σ expected swing, a 6σ 2–98 % range; pure normal noise spans about 4.1σ
+// there, from memory) are layersSeen.ts's; these checks are of behaviour on edited demo traces.
 describe('layers the monitor did not see grow', () => {
   it('fails a run whose readings never change, naming every layer', async () => {
     const err = await rejection(withSignal(() => '0.500000'));
